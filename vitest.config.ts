@@ -1,0 +1,14 @@
+import { defineConfig } from "vitest/config";
+
+export default defineConfig({
+  resolve: { tsconfigPaths: true },
+  test: {
+    include: ["tests/**/*.test.ts", "models/**/*.test.ts"],
+    exclude: ["tests/e2e/**", "node_modules/**"],
+    environment: "node",
+    setupFiles: ["tests/setup/fail-on-console-error.ts"],
+    testTimeout: 30_000,
+    hookTimeout: 60_000,
+    pool: "forks",
+  },
+});
