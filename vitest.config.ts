@@ -2,6 +2,7 @@ import { defineConfig } from "vitest/config";
 
 export default defineConfig({
   resolve: { tsconfigPaths: true },
+  define: { __APP_VERSION__: JSON.stringify("test") },
   test: {
     include: ["tests/**/*.test.ts", "models/**/*.test.ts"],
     exclude: ["tests/e2e/**", "node_modules/**"],

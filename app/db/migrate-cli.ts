@@ -1,0 +1,7 @@
+// `npm run db:migrate`: applies the committed migrations in drizzle/ to DATABASE_URL.
+import { closeDb, databasePath, getDb } from "./client.server";
+import { getEnv } from "~/env.server";
+
+getDb();
+console.log(`Migrated ${databasePath(getEnv().DATABASE_URL)}`);
+closeDb();

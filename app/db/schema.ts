@@ -1,0 +1,255 @@
+/**
+ * Every table of Fernwater in one place. Change it, then `npm run db:generate` and commit
+ * the new migration under drizzle/ (never edit a migration by hand).
+ *
+ * Conventions: integer primary keys; times are integer milliseconds since the epoch
+ * (`timestamp_ms`); dissolved species are stored in the engine's canonical units
+ * (mg N/L, dKH, °C) and converted only for display; secrets (session ids, reset and share
+ * tokens) are stored as SHA-256 hashes, never in the clear.
+ */
+import { sql } from "drizzle-orm";
+import { index, integer, primaryKey, real, sqliteTable, text, uniqueIndex } from "drizzle-orm/sqlite-core";
+
+export const ROLES = ["keeper", "educator", "admin"] as const;
+export type Role = (typeof ROLES)[number];
+
+export const VOLUME_UNITS = ["L", "usgal", "impgal"] as const;
+export const TEMPERATURE_UNITS = ["C", "F"] as const;
+export const NITRATE_UNITS = ["NO3", "N"] as const;
+export const KH_UNITS = ["dKH", "CaCO3"] as const;
+
+const createdAt = () =>
+  integer("created_at", { mode: "timestamp_ms" })
+    .notNull()
+    .default(sql`(unixepoch('subsec') * 1000)`);
+
+export const users = sqliteTable("users", {
+  id: integer("id").primaryKey({ autoIncrement: true }),
+  email: text("email").notNull().unique(),
+  name: text("name").notNull(),
+  passwordHash: text("password_hash").notNull(),
+  role: text("role", { enum: ROLES }).notNull().default("keeper"),
+  volumeUnit: text("volume_unit", { enum: VOLUME_UNITS }).notNull().default("L"),
+  temperatureUnit: text("temperature_unit", { enum: TEMPERATURE_UNITS }).notNull().default("C"),
+  nitrateUnit: text("nitrate_unit", { enum: NITRATE_UNITS }).notNull().default("NO3"),
+  khUnit: text("kh_unit", { enum: KH_UNITS }).notNull().default("dKH"),
+  createdAt: createdAt(),
+  emailVerifiedAt: integer("email_verified_at", { mode: "timestamp_ms" }),
+});
+
+export const sessions = sqliteTable(
+  "sessions",
+  {
+    idHash: text("id_hash").primaryKey(),
+    userId: integer("user_id")
+      .notNull()
+      .references(() => users.id, { onDelete: "cascade" }),
+    createdAt: createdAt(),
+    expiresAt: integer("expires_at", { mode: "timestamp_ms" }).notNull(),
+  },
+  (t) => [index("sessions_user_idx").on(t.userId)],
+);
+
+export const passwordResetTokens = sqliteTable(
+  "password_reset_tokens",
+  {
+    id: integer("id").primaryKey({ autoIncrement: true }),
+    userId: integer("user_id")
+      .notNull()
+      .references(() => users.id, { onDelete: "cascade" }),
+    tokenHash: text("token_hash").notNull().unique(),
+    createdAt: createdAt(),
+    expiresAt: integer("expires_at", { mode: "timestamp_ms" }).notNull(),
+    usedAt: integer("used_at", { mode: "timestamp_ms" }),
+  },
+  (t) => [index("password_reset_tokens_user_idx").on(t.userId)],
+);
+
+export const tanks = sqliteTable(
+  "tanks",
+  {
+    id: integer("id").primaryKey({ autoIncrement: true }),
+    ownerId: integer("owner_id")
+      .notNull()
+      .references(() => users.id, { onDelete: "cascade" }),
+    name: text("name").notNull(),
+    notes: text("notes").notNull().default(""),
+    /** Nitrate target band for charts and key figures, mg N/L. */
+    nitrateTargetLow: real("nitrate_target_low").notNull().default(1.13),
+    nitrateTargetHigh: real("nitrate_target_high").notNull().default(4.52),
+    createdAt: createdAt(),
+    updatedAt: integer("updated_at", { mode: "timestamp_ms" })
+      .notNull()
+      .default(sql`(unixepoch('subsec') * 1000)`),
+  },
+  (t) => [index("tanks_owner_idx").on(t.ownerId)],
+);
+
+export const scenarios = sqliteTable(
+  "scenarios",
+  {
+    id: integer("id").primaryKey({ autoIncrement: true }),
+    tankId: integer("tank_id")
+      .notNull()
+      .references(() => tanks.id, { onDelete: "cascade" }),
+    name: text("name").notNull(),
+    /** The engine's scenario as JSON, canonical units. */
+    settings: text("settings", { mode: "json" }).notNull(),
+    schemaVersion: integer("schema_version").notNull(),
+    /** Scenario this one was copied from (share link, lesson, "save as new"). */
+    copiedFromId: integer("copied_from_id").references((): any => scenarios.id, { onDelete: "set null" }),
+    createdAt: createdAt(),
+    updatedAt: integer("updated_at", { mode: "timestamp_ms" })
+      .notNull()
+      .default(sql`(unixepoch('subsec') * 1000)`),
+  },
+  (t) => [index("scenarios_tank_idx").on(t.tankId)],
+);
+
+export const runs = sqliteTable(
+  "runs",
+  {
+    id: integer("id").primaryKey({ autoIncrement: true }),
+    scenarioId: integer("scenario_id")
+      .notNull()
+      .references(() => scenarios.id, { onDelete: "cascade" }),
+    /** SHA-256 of the canonical settings JSON: an unchanged scenario reuses its run. */
+    settingsHash: text("settings_hash").notNull(),
+    engineVersion: text("engine_version").notNull(),
+    keyFigures: text("key_figures", { mode: "json" }).notNull(),
+    budget: text("budget", { mode: "json" }).notNull(),
+    events: text("events", { mode: "json" }).notNull(),
+    /** Columnar series, JSON. */
+    series: text("series", { mode: "json" }).notNull(),
+    stats: text("stats", { mode: "json" }).notNull(),
+    createdAt: createdAt(),
+  },
+  (t) => [index("runs_scenario_idx").on(t.scenarioId, t.settingsHash, t.engineVersion)],
+);
+
+export const readings = sqliteTable(
+  "readings",
+  {
+    id: integer("id").primaryKey({ autoIncrement: true }),
+    tankId: integer("tank_id")
+      .notNull()
+      .references(() => tanks.id, { onDelete: "cascade" }),
+    takenAt: integer("taken_at", { mode: "timestamp_ms" }).notNull(),
+    /** mg N/L */
+    tan: real("tan"),
+    /** mg N/L */
+    nitrite: real("nitrite"),
+    /** mg N/L */
+    nitrate: real("nitrate"),
+    ph: real("ph"),
+    /** dKH */
+    kh: real("kh"),
+    temperatureC: real("temperature_c"),
+    note: text("note").notNull().default(""),
+    createdAt: createdAt(),
+  },
+  (t) => [uniqueIndex("readings_tank_time_uq").on(t.tankId, t.takenAt)],
+);
+
+export const shareLinks = sqliteTable(
+  "share_links",
+  {
+    id: integer("id").primaryKey({ autoIncrement: true }),
+    scenarioId: integer("scenario_id")
+      .notNull()
+      .references(() => scenarios.id, { onDelete: "cascade" }),
+    tokenHash: text("token_hash").notNull().unique(),
+    createdAt: createdAt(),
+    revokedAt: integer("revoked_at", { mode: "timestamp_ms" }),
+    takenDownAt: integer("taken_down_at", { mode: "timestamp_ms" }),
+    takenDownById: integer("taken_down_by_id").references(() => users.id, { onDelete: "set null" }),
+    takedownReason: text("takedown_reason"),
+  },
+  (t) => [index("share_links_scenario_idx").on(t.scenarioId)],
+);
+
+export const classes = sqliteTable(
+  "classes",
+  {
+    id: integer("id").primaryKey({ autoIncrement: true }),
+    educatorId: integer("educator_id")
+      .notNull()
+      .references(() => users.id, { onDelete: "cascade" }),
+    name: text("name").notNull(),
+    joinCode: text("join_code").notNull().unique(),
+    createdAt: createdAt(),
+  },
+  (t) => [index("classes_educator_idx").on(t.educatorId)],
+);
+
+export const classMembers = sqliteTable(
+  "class_members",
+  {
+    classId: integer("class_id")
+      .notNull()
+      .references(() => classes.id, { onDelete: "cascade" }),
+    userId: integer("user_id")
+      .notNull()
+      .references(() => users.id, { onDelete: "cascade" }),
+    joinedAt: integer("joined_at", { mode: "timestamp_ms" })
+      .notNull()
+      .default(sql`(unixepoch('subsec') * 1000)`),
+  },
+  (t) => [primaryKey({ columns: [t.classId, t.userId] }), index("class_members_user_idx").on(t.userId)],
+);
+
+export const classInvites = sqliteTable(
+  "class_invites",
+  {
+    id: integer("id").primaryKey({ autoIncrement: true }),
+    classId: integer("class_id")
+      .notNull()
+      .references(() => classes.id, { onDelete: "cascade" }),
+    email: text("email").notNull(),
+    tokenHash: text("token_hash").notNull().unique(),
+    createdAt: createdAt(),
+    expiresAt: integer("expires_at", { mode: "timestamp_ms" }).notNull(),
+    acceptedAt: integer("accepted_at", { mode: "timestamp_ms" }),
+  },
+  (t) => [index("class_invites_class_idx").on(t.classId)],
+);
+
+export const lessons = sqliteTable(
+  "lessons",
+  {
+    id: integer("id").primaryKey({ autoIncrement: true }),
+    classId: integer("class_id")
+      .notNull()
+      .references(() => classes.id, { onDelete: "cascade" }),
+    /** The educator's scenario handed out; students get copies. */
+    scenarioId: integer("scenario_id").references(() => scenarios.id, { onDelete: "set null" }),
+    title: text("title").notNull(),
+    question: text("question").notNull(),
+    /** Setting paths (e.g. "plants.0.startMassG") students may change; the rest are locked. */
+    unlockedFields: text("unlocked_fields", { mode: "json" }).$type<string[]>().notNull(),
+    /** Frozen copy of the handed-out settings, so later edits by the educator do not move the lesson. */
+    settings: text("settings", { mode: "json" }).notNull(),
+    createdAt: createdAt(),
+  },
+  (t) => [index("lessons_class_idx").on(t.classId)],
+);
+
+export const lessonCopies = sqliteTable(
+  "lesson_copies",
+  {
+    id: integer("id").primaryKey({ autoIncrement: true }),
+    lessonId: integer("lesson_id")
+      .notNull()
+      .references(() => lessons.id, { onDelete: "cascade" }),
+    studentId: integer("student_id")
+      .notNull()
+      .references(() => users.id, { onDelete: "cascade" }),
+    scenarioId: integer("scenario_id")
+      .notNull()
+      .references(() => scenarios.id, { onDelete: "cascade" }),
+    answer: text("answer"),
+    handedInAt: integer("handed_in_at", { mode: "timestamp_ms" }),
+    createdAt: createdAt(),
+  },
+  (t) => [uniqueIndex("lesson_copies_lesson_student_uq").on(t.lessonId, t.studentId)],
+);

@@ -1,0 +1,85 @@
+import { z } from "zod";
+
+/**
+ * The server's environment, read and checked once at boot.
+ *
+ * FERNWATER_MODE decides how strict we are:
+ * - "production": SESSION_SECRET and SMTP_URL are required; cookies are Secure.
+ * - "local" (the default outside NODE_ENV=production, and what `npm start` uses): a
+ *   development secret with a warning, a fake SMTP server that captures mail, the demo
+ *   data seeded into an empty database, and the /dev/mail page.
+ */
+const EnvSchema = z
+  .object({
+    NODE_ENV: z.enum(["development", "production", "test"]).default("development"),
+    FERNWATER_MODE: z.enum(["local", "production"]).optional(),
+    DATABASE_URL: z.string().min(1).default("data/fernwater.sqlite"),
+    SESSION_SECRET: z.string().optional(),
+    SMTP_URL: z.string().url().optional(),
+    MAIL_FROM: z.string().default("Fernwater <no-reply@fernwater.local>"),
+    MAIL_CAPTURE_DIR: z.string().default("data/mail"),
+    APP_URL: z.string().url().optional(),
+    PORT: z.coerce.number().int().min(0).max(65535).default(3000),
+    SEED_IF_EMPTY: z.enum(["0", "1"]).optional(),
+  })
+  .transform((raw) => {
+    const mode = raw.FERNWATER_MODE ?? (raw.NODE_ENV === "production" ? "production" : "local");
+    return { ...raw, mode } as const;
+  })
+  .superRefine((env, ctx) => {
+    if (env.mode !== "production") return;
+    if (!env.SESSION_SECRET || env.SESSION_SECRET.length < 32) {
+      ctx.addIssue({
+        code: "custom",
+        path: ["SESSION_SECRET"],
+        message: "SESSION_SECRET must be set to at least 32 random characters in production",
+      });
+    }
+    if (!env.APP_URL) {
+      ctx.addIssue({
+        code: "custom",
+        path: ["APP_URL"],
+        message: "APP_URL must be set in production (links in e-mails are built from it, never from the Host header)",
+      });
+    }
+    if (!env.SMTP_URL) {
+      ctx.addIssue({ code: "custom", path: ["SMTP_URL"], message: "SMTP_URL must be set in production" });
+    }
+  });
+
+export type Env = z.output<typeof EnvSchema>;
+
+const DEV_SESSION_SECRET = "fernwater-local-development-secret-not-for-production";
+
+let cached: (Env & { sessionSecret: string }) | undefined;
+
+/** Parses process.env once; throws a readable error listing every bad variable. */
+export function getEnv(): Env & { sessionSecret: string } {
+  if (cached) return cached;
+  const parsed = EnvSchema.safeParse(process.env);
+  if (!parsed.success) {
+    const lines = parsed.error.issues.map((i) => `  ${i.path.join(".") || "env"}: ${i.message}`);
+    throw new Error(`Fernwater cannot start; fix the environment:\n${lines.join("\n")}`);
+  }
+  const env = parsed.data;
+  let sessionSecret = env.SESSION_SECRET ?? "";
+  if (!sessionSecret) {
+    if (env.NODE_ENV !== "test") {
+      console.warn("[fernwater] SESSION_SECRET is not set: using the local development secret. Never do this in production.");
+    }
+    sessionSecret = DEV_SESSION_SECRET;
+  }
+  cached = { ...env, sessionSecret };
+  return cached;
+}
+
+export function isProduction(): boolean {
+  return getEnv().mode === "production";
+}
+
+/** Local mode only: point outgoing mail at the fake SMTP server started at boot. */
+export function redirectMailTo(url: string): void {
+  const env = getEnv();
+  if (env.mode !== "local") throw new Error("Only local mode may replace SMTP_URL at run time");
+  cached = { ...env, SMTP_URL: url };
+}

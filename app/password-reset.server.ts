@@ -1,0 +1,88 @@
+import { and, eq, gt, isNull } from "drizzle-orm";
+import { RateLimiterMemory } from "rate-limiter-flexible";
+import { hashPassword } from "~/auth.server";
+import { getDb } from "~/db/client.server";
+import { passwordResetTokens, users } from "~/db/schema";
+import { absoluteUrl, sendMail } from "~/email.server";
+import { revokeAllSessions } from "~/session.server";
+import { hashToken, randomToken } from "~/utils/crypto.server";
+
+export const RESET_TOKEN_TTL_MS = 60 * 60 * 1000;
+
+// At most 3 reset mails an hour to one address, so the form cannot be used to flood an inbox.
+const mailsPerAddress = new RateLimiterMemory({ points: 3, duration: 60 * 60 });
+
+/**
+ * Starts a reset for `email` if it has an account. The caller answers the same either way,
+ * and the mail is sent after the response would go out, so timing does not reveal it either.
+ */
+export async function requestPasswordReset(request: Request, email: string): Promise<void> {
+  const user = getDb().select({ id: users.id, name: users.name }).from(users).where(eq(users.email, email)).get();
+  if (!user) return;
+  try {
+    await mailsPerAddress.consume(email);
+  } catch {
+    return;
+  }
+  const token = randomToken(32);
+  getDb()
+    .insert(passwordResetTokens)
+    .values({ userId: user.id, tokenHash: hashToken(token), expiresAt: new Date(Date.now() + RESET_TOKEN_TTL_MS) })
+    .run();
+  const link = absoluteUrl(request, `/reset-password?token=${encodeURIComponent(token)}`);
+  void sendMail({
+    to: email,
+    subject: "Reset your Fernwater password",
+    text: [
+      `Hello ${user.name},`,
+      "",
+      "Someone (we hope you) asked to reset the password of your Fernwater account.",
+      `Open this link within an hour to choose a new one: ${link}`,
+      "",
+      "If you did not ask, ignore this mail: your password stays as it is.",
+    ].join("\n"),
+  }).catch((error: unknown) => console.error("[fernwater] could not send a password-reset mail", error));
+}
+
+/** The user id a live token belongs to (unused, unexpired), or null. Lookup is by hash. */
+export function findLiveResetToken(token: string): { id: number; userId: number } | null {
+  return (
+    getDb()
+      .select({ id: passwordResetTokens.id, userId: passwordResetTokens.userId })
+      .from(passwordResetTokens)
+      .where(
+        and(
+          eq(passwordResetTokens.tokenHash, hashToken(token)),
+          isNull(passwordResetTokens.usedAt),
+          gt(passwordResetTokens.expiresAt, new Date()),
+        ),
+      )
+      .get() ?? null
+  );
+}
+
+/**
+ * Sets the new password and spends the token in one transaction; every session of the user
+ * ends. Returns false when the token is no longer live (used meanwhile, or expired).
+ */
+export async function completePasswordReset(token: string, newPassword: string): Promise<boolean> {
+  const live = findLiveResetToken(token);
+  if (!live) return false;
+  const passwordHash = await hashPassword(newPassword);
+  return getDb().transaction((tx) => {
+    const spent = tx
+      .update(passwordResetTokens)
+      .set({ usedAt: new Date() })
+      .where(and(eq(passwordResetTokens.id, live.id), isNull(passwordResetTokens.usedAt)))
+      .run();
+    if (spent.changes !== 1) return false;
+    tx.update(users).set({ passwordHash }).where(eq(users.id, live.userId)).run();
+    // Any other outstanding reset links die with this one.
+    tx.update(passwordResetTokens)
+      .set({ usedAt: new Date() })
+      .where(and(eq(passwordResetTokens.userId, live.userId), isNull(passwordResetTokens.usedAt)))
+      .run();
+    revokeAllSessions(live.userId);
+    return true;
+  });
+}

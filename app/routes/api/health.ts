@@ -1,0 +1,17 @@
+import { sql } from "drizzle-orm";
+import { getDb } from "~/db/client.server";
+
+/** GET /api/health: the database answers a query, and which version runs. */
+export function loader() {
+  let database: "ok" | "error" = "ok";
+  try {
+    getDb().get(sql`select 1`);
+  } catch {
+    database = "error";
+  }
+  const ok = database === "ok";
+  return Response.json(
+    { status: ok ? "ok" : "degraded", version: __APP_VERSION__, checks: { database } },
+    { status: ok ? 200 : 503, headers: { "Cache-Control": "no-store" } },
+  );
+}

@@ -1,0 +1,25 @@
+/**
+ * The SSR entry of the build (see vite.config.ts): an Express app that hands every request
+ * to React Router, plus `boot()`, which prepares the database and mail before listening.
+ * server/start.mjs imports this module from build/server/index.js (or through Vite in dev).
+ */
+import { createRequestHandler } from "@react-router/express";
+import express from "express";
+import { RouterContextProvider } from "react-router";
+import { clientIpContext } from "~/context";
+
+export { boot } from "./boot";
+export { closeDb } from "~/db/client.server";
+
+export const app = express();
+
+app.use(
+  createRequestHandler({
+    build: () => import("virtual:react-router/server-build"),
+    getLoadContext(req) {
+      const context = new RouterContextProvider();
+      context.set(clientIpContext, req.ip ?? req.socket.remoteAddress ?? "unknown");
+      return context;
+    },
+  }),
+);

@@ -1,0 +1,35 @@
+import { count } from "drizzle-orm";
+import { getDb } from "~/db/client.server";
+import { users } from "~/db/schema";
+import { seedDemoData } from "~/db/seed.server";
+import { getEnv, redirectMailTo } from "~/env.server";
+import { startFakeSmtp, type FakeSmtp } from "~/mail/fake-smtp.server";
+
+/**
+ * Everything that must happen before the first request: check the environment, start the
+ * local mail fake when no real SMTP service is configured (local mode only), migrate the
+ * database, and seed the demo data into an empty one. Returns a function that stops what
+ * it started.
+ */
+export async function boot(log: (line: string) => void = console.log): Promise<() => Promise<void>> {
+  let fake: FakeSmtp | undefined;
+  const env = getEnv();
+  if (env.mode === "local" && !env.SMTP_URL) {
+    fake = await startFakeSmtp({ captureDir: env.MAIL_CAPTURE_DIR });
+    redirectMailTo(fake.url);
+    log(`[fernwater] mail goes to the local fake SMTP server at ${fake.url}; read it at /dev/mail`);
+  }
+  const db = getDb();
+  log(`[fernwater] database ${env.DATABASE_URL} migrated`);
+  const seedIfEmpty = env.SEED_IF_EMPTY ? env.SEED_IF_EMPTY === "1" : env.mode === "local";
+  if (seedIfEmpty) {
+    const existing = db.select({ n: count() }).from(users).get()?.n ?? 0;
+    if (existing === 0) {
+      await seedDemoData(db);
+      log("[fernwater] empty database: demo data seeded (accounts are listed in README.md)");
+    }
+  }
+  return async () => {
+    await fake?.close();
+  };
+}

@@ -1,0 +1,61 @@
+// Starts Fernwater: `node server/start.mjs` serves the build; `--dev` serves through Vite.
+// The port comes from PORT (default 3000); HOST defaults to 0.0.0.0.
+import compression from "compression";
+import express from "express";
+
+const dev = process.argv.includes("--dev");
+if (!dev) process.env.NODE_ENV ??= "production";
+
+const port = Number(process.env.PORT ?? 3000);
+const host = process.env.HOST ?? "0.0.0.0";
+
+const server = express();
+server.disable("x-powered-by");
+server.set("trust proxy", process.env.TRUST_PROXY === "1" ? 1 : false);
+server.use(compression());
+
+let appModule;
+if (dev) {
+  const vite = await import("vite");
+  const viteDev = await vite.createServer({ server: { middlewareMode: true } });
+  server.use(viteDev.middlewares);
+  appModule = await viteDev.ssrLoadModule("./server/app.ts");
+  server.use(async (req, res, next) => {
+    try {
+      const fresh = await viteDev.ssrLoadModule("./server/app.ts");
+      return fresh.app(req, res, next);
+    } catch (error) {
+      if (typeof error === "object" && error instanceof Error) viteDev.ssrFixStacktrace(error);
+      next(error);
+    }
+  });
+} else {
+  appModule = await import("../build/server/index.js");
+  // Fingerprinted assets never change; everything else in public/ may.
+  server.use("/assets", express.static("build/client/assets", { immutable: true, maxAge: "1y", index: false }));
+  server.use(express.static("build/client", { maxAge: "1h", index: false }));
+  server.use(appModule.app);
+}
+
+const stopBoot = await appModule.boot();
+
+const listener = server.listen(port, host, () => {
+  const address = listener.address();
+  const actualPort = typeof address === "object" && address ? address.port : port;
+  console.log(`[fernwater] listening on http://localhost:${actualPort}`);
+});
+
+let stopping = false;
+async function shutdown(signal) {
+  if (stopping) return;
+  stopping = true;
+  console.log(`[fernwater] ${signal}: finishing open requests, then stopping`);
+  listener.close(async () => {
+    await stopBoot();
+    appModule.closeDb?.();
+    process.exit(0);
+  });
+  setTimeout(() => process.exit(0), 5000).unref();
+}
+process.on("SIGTERM", () => shutdown("SIGTERM"));
+process.on("SIGINT", () => shutdown("SIGINT"));
