@@ -1,0 +1,66 @@
+import { describe, expect, it } from "vitest";
+import { action as adminAction, loader as adminLoader } from "~/routes/admin/users";
+import { loader as healthLoader } from "~/routes/api/health";
+import { loader as devMailLoader } from "~/routes/dev/mail";
+import { loader as notFoundLoader } from "~/routes/not-found";
+import { loader as tanksLoader } from "~/routes/tanks/list";
+import { call, get, post } from "../support/routes";
+import { roleOf, userWithCookie } from "../support/users";
+
+describe("admin: users and roles", () => {
+  it("sends anonymous visitors to sign in and refuses keepers and educators with 403", async () => {
+    expect((await call(adminLoader, get("/admin"))).status).toBe(302);
+    const keeper = await userWithCookie("keeper");
+    const educator = await userWithCookie("educator");
+    expect((await call(adminLoader, get("/admin", keeper.cookie))).status).toBe(403);
+    expect((await call(adminLoader, get("/admin", educator.cookie))).status).toBe(403);
+    // The action is guarded on its own, not only by the page.
+    const forged = await call(adminAction, post("/admin", { intent: "role", userId: keeper.id, role: "admin" }, keeper.cookie));
+    expect(forged.status).toBe(403);
+    expect(roleOf(keeper.id)).toBe("keeper");
+  });
+
+  it("lets an admin change a role, effective on that user's next request", async () => {
+    const admin = await userWithCookie("admin");
+    const keeper = await userWithCookie("keeper");
+    expect((await call(adminLoader, get("/admin", keeper.cookie))).status).toBe(403);
+    const list = await call(adminLoader, get("/admin", admin.cookie));
+    expect(list.data.users.map((u: { id: number }) => u.id)).toContain(keeper.id);
+    const changed = await call(adminAction, post("/admin", { intent: "role", userId: keeper.id, role: "admin" }, admin.cookie));
+    expect(changed.status).toBe(200);
+    expect((await call(adminLoader, get("/admin", keeper.cookie))).status).toBe(200);
+  });
+
+  it("refuses bad input with a message, and an admin demoting themself", async () => {
+    const admin = await userWithCookie("admin");
+    const bad = await call(adminAction, post("/admin", { intent: "role", userId: "abc", role: "wizard" }, admin.cookie));
+    expect(bad.status).toBe(400);
+    expect(bad.data.errors.role).toMatch(/keeper, educator or admin/);
+    const self = await call(adminAction, post("/admin", { intent: "role", userId: admin.id, role: "keeper" }, admin.cookie));
+    expect(self.status).toBe(400);
+    expect(roleOf(admin.id)).toBe("admin");
+  });
+});
+
+describe("health, 404 and the local mail page", () => {
+  it("reports the database and version", async () => {
+    const result = await call(healthLoader, get("/api/health"));
+    expect(result.status).toBe(200);
+    expect(result.data).toEqual({ status: "ok", version: "test", checks: { database: "ok" } });
+  });
+
+  it("answers unknown addresses with 404", async () => {
+    expect((await call(notFoundLoader, get("/no/such/page"))).status).toBe(404);
+  });
+
+  it("shows captured mail in local mode", async () => {
+    const result = await call(devMailLoader, get("/dev/mail"));
+    expect(result.status).toBe(200);
+    expect(Array.isArray(result.data.messages)).toBe(true);
+  });
+
+  it("redirects an anonymous visitor of a private page to sign-in and back", async () => {
+    const result = await call(tanksLoader, get("/tanks?x=1"));
+    expect(result.location).toBe("/sign-in?redirectTo=%2Ftanks%3Fx%3D1");
+  });
+});
