@@ -9,7 +9,6 @@ export default defineConfig({
     testTimeout: 30_000,
     hookTimeout: 60_000,
     pool: "forks",
-    reporters: process.env.CI ? ["default", ["json", { outputFile: "test-results/vitest.json" }]] : ["default"],
     projects: [
       {
         extends: true,
@@ -26,6 +25,17 @@ export default defineConfig({
           include: ["tests/integration/**/*.test.ts"],
           // A fresh SQLite file and mail folder for every test file (see the setup file).
           setupFiles: ["tests/support/integration-env.ts"],
+        },
+      },
+      {
+        extends: true,
+        test: {
+          name: "e2e",
+          include: ["tests/e2e/**/*.e2e.test.ts"],
+          // One built server and one database for the whole run: files go one after another.
+          globalSetup: ["tests/e2e/support/global-setup.ts"],
+          fileParallelism: false,
+          testTimeout: 60_000,
         },
       },
     ],

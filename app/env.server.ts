@@ -56,7 +56,9 @@ let cached: (Env & { sessionSecret: string }) | undefined;
 /** Parses process.env once; throws a readable error listing every bad variable. */
 export function getEnv(): Env & { sessionSecret: string } {
   if (cached) return cached;
-  const parsed = EnvSchema.safeParse(process.env);
+  // An empty variable counts as unset (VAR= in a shell or a .env file).
+  const present = Object.fromEntries(Object.entries(process.env).filter(([, v]) => v !== undefined && v !== ""));
+  const parsed = EnvSchema.safeParse(present);
   if (!parsed.success) {
     const lines = parsed.error.issues.map((i) => `  ${i.path.join(".") || "env"}: ${i.message}`);
     throw new Error(`Fernwater cannot start; fix the environment:\n${lines.join("\n")}`);
