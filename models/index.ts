@@ -1,0 +1,73 @@
+/**
+ * Fernwater engine: public API. Plain TypeScript, no framework, no I/O; safe for the server,
+ * a worker, tests and the command line. Unit conversions live in "models/units" (separate so
+ * the browser bundle does not pull in mathjs).
+ */
+export { ModelError, isModelError } from "./core/errors";
+export type { ModelErrorCode } from "./core/errors";
+export type { EventKind, EventRecord } from "./core/events";
+
+export {
+  ScenarioSchema,
+  WaterSchema,
+  FishSchema,
+  PlantGroupSchema,
+  TrimSchema,
+  FilterSchema,
+  MaintenanceSchema,
+  TapWaterSchema,
+  LowOxygenSchema,
+  RunSchema,
+  FishlessCyclingSchema,
+  TargetsSchema,
+  MultipliersSchema,
+  SCHEMA_VERSION,
+  MIGRATIONS,
+  ScenarioVersionError,
+  migrateScenario,
+  parseScenario,
+  describeScenarioIssues,
+  listScenarioFields,
+} from "./nitrogen/scenario";
+export type {
+  Scenario,
+  ScenarioInput,
+  PlantGroup,
+  Quantity,
+  FieldMeta,
+  ScenarioField,
+  Migration,
+} from "./nitrogen/scenario";
+
+export { simulate, ENGINE_VERSION, round6 } from "./nitrogen/simulate";
+export type {
+  SimulateOptions,
+  SimulationResult,
+  SimulationStats,
+  Series,
+  KeyFigures,
+  Peak,
+} from "./nitrogen/simulate";
+export type { NitrogenBudget } from "./nitrogen/budget";
+export type { Stocks } from "./nitrogen/processes";
+
+export { PRESETS, GROWTH_FORM_DEFAULTS, getPreset, plantGroupFromForm } from "./nitrogen/presets";
+export type { Preset } from "./nitrogen/presets";
+export { GROWTH_FORMS, SCENARIO_DEFAULTS, listParameters } from "./nitrogen/parameters";
+export type { GrowthForm, GrowthFormDefaults, Sourced } from "./nitrogen/parameters";
+
+export { OUTCOMES, sweep, setScenarioValue } from "./nitrogen/sweep";
+export type { Outcome, SweepPoint } from "./nitrogen/sweep";
+
+export {
+  ammoniumPKa,
+  freeAmmoniaFraction,
+  tanFromFeed,
+  phFromKh,
+  N_FRACTION,
+  MG_CACO3_PER_DKH,
+  ALK_MG_CACO3_PER_MG_N_NITRIFIED,
+  ALK_MG_CACO3_PER_MG_N_DENITRIFIED,
+  ANAMMOX,
+  EATEN_N_SPLIT,
+} from "./nitrogen/chemistry";
