@@ -103,9 +103,8 @@ export function runLoop(spec: LoopSpec): LoopResult {
     for (const e of batches[bi].events) events.push(...e.apply(y, 0));
     bi++;
   }
-  const w0 = events.length;
   fireStandingWatches();
-  if (events.length > 0 || w0 > 0) spec.sample(0, y);
+  if (events.length > 0) spec.sample(0, y);
 
   while (t < tEnd) {
     const tb = bi < batches.length ? batches[bi].t : tEnd;
@@ -116,6 +115,7 @@ export function runLoop(spec: LoopSpec): LoopResult {
       for (let k = out; k < outputs.length && outputs[k] < tb - TIME_EPS; k++) sampleTimes.push(outputs[k]);
       const budget = Math.min(limits.maxStepsPerSegment, limits.maxSteps - stats.steps);
       if (budget <= 0) fail("MAX_STEPS", t);
+      if (now() > deadline) fail("WALL_TIME", t);
       const seg = integrateSegment({
         problem,
         t0: t,

@@ -178,7 +178,7 @@ export const SCENARIO_DEFAULTS = {
     startNitrate: p(10 * NO3_AS_N, "mg N/L", "common practice, no source (10 mg/L as NO3)"),
   },
   fish: {
-    feedGPerDay: p(0.5, "g/day", "common practice, no source"),
+    feedGPerDay: p(0.4, "g/day", "common practice, no source (a modestly stocked 100 L tank)"),
     proteinFraction: p(0.45, "fraction", "common practice, no source (flake food label)"),
     feedsPerDay: p(2, "count", "common practice, no source"),
     fractionEaten: p(0.9, "fraction", "common practice, no source"),

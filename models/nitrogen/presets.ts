@@ -46,14 +46,15 @@ export const PRESETS: readonly Preset[] = [
     id: "first-light-fishless",
     name: "First Light — a new tank cycled without fish",
     description:
-      "A 60 L tank with a brand-new filter, dosed with ammonia every day until the bacteria keep up. Ammonia peaks first, then nitrite, then nitrate climbs.",
+      "A 60 L tank with a brand-new filter, dosed with ammonia every other day until the bacteria keep up. Ammonia peaks first, then nitrite, then nitrate climbs. Weekly water changes keep the KH from running out.",
     scenario: {
-      water: { volumeL: 60, temperatureC: 26, pH: 7.4, khDkh: 5, startTan: 0, startNitrite: 0, startNitrate: 0 },
+      water: { volumeL: 60, temperatureC: 26, pH: 7.4, khDkh: 7, startTan: 0, startNitrite: 0, startNitrate: 0 },
       fish: { feedGPerDay: 0 },
       plants: [],
       filter: { capacityMgTanPerDay: 200, establishedAtStart: false, cleaningIntervalDays: 0 },
-      maintenance: { waterChangeIntervalDays: 0, gravelCleaningFraction: 0 },
-      fishlessCycling: { enabled: true, doseMgNPerL: 1.5, doseIntervalDays: 1, stopRule: "whenCycled" },
+      maintenance: { waterChangeIntervalDays: 7, waterChangeFraction: 0.3, gravelCleaningFraction: 0 },
+      tapWater: { khDkh: 7 },
+      fishlessCycling: { enabled: true, doseMgNPerL: 1.5, doseIntervalDays: 2, stopRule: "whenCycled" },
       run: { lengthDays: 60, outputIntervalDays: 0.25 },
     },
   },
@@ -61,7 +62,7 @@ export const PRESETS: readonly Preset[] = [
     id: "fern-hollow",
     name: "Fern Hollow — lightly stocked, heavily planted",
     description:
-      "A 120 L tank with a few small fish, dense stem plants, a floating carpet and slow rosettes. Plants take most of the nitrogen; trimming is the main way it leaves.",
+      "A 120 L tank with a few small fish, dense stem plants, a floating carpet and slow rosettes. Plants take nearly all the nitrogen, so nitrate sits below the target band (a case for fertiliser); trimming is the main way nitrogen leaves.",
     scenario: {
       water: { volumeL: 120, temperatureC: 24, pH: 6.9, khDkh: 3, startNitrate: no3(10) },
       fish: { feedGPerDay: 0.3, proteinFraction: 0.42, feedsPerDay: 1, fractionEaten: 0.95 },
@@ -80,11 +81,12 @@ export const PRESETS: readonly Preset[] = [
     description:
       "A 200 L tank full of active fish eating generously, with a handful of slow plants. Nitrate climbs between water changes.",
     scenario: {
-      water: { volumeL: 200, temperatureC: 26, pH: 7.5, khDkh: 6, startNitrate: no3(20) },
-      fish: { feedGPerDay: 4, proteinFraction: 0.45, feedsPerDay: 2, fractionEaten: 0.85 },
+      water: { volumeL: 200, temperatureC: 26, pH: 7.5, khDkh: 8, startNitrate: no3(20) },
+      fish: { feedGPerDay: 2.5, proteinFraction: 0.45, feedsPerDay: 2, fractionEaten: 0.85 },
       plants: [plantGroupFromForm("rosette", { id: "rosettes", name: "A few rosettes", startMassG: 8, maxMassG: 20 })],
       filter: { capacityMgTanPerDay: 1500, cleaningIntervalDays: 21, organicsRemovedFraction: 0.6 },
-      maintenance: { waterChangeIntervalDays: 7, waterChangeFraction: 0.3, gravelCleaningFraction: 0.3 },
+      maintenance: { waterChangeIntervalDays: 7, waterChangeFraction: 0.4, gravelCleaningFraction: 0.3 },
+      tapWater: { khDkh: 10 },
       run: { lengthDays: 180 },
     },
   },

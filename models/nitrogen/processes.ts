@@ -14,8 +14,9 @@
  * Every process is written as a flux (mg N/day) taken from one pool and given to another, so
  * total nitrogen  V·(TAN+NO2+NO3) + pools + Σ plant N + cumulative losses  changes only by the
  * constant inputs (feed, drip-in water). That sum is a linear invariant, which the extrapolation
- * solver keeps to round-off. Each outflow vanishes as its pool empties (Monod or first order on
- * the clamped pool), so pools stay non-negative.
+ * solver keeps to round-off. Each outflow vanishes as its pool empties (Monod or first order),
+ * and turns into a small refill if the solver overshoots below zero, so pools stay non-negative
+ * up to the solver tolerance.
  *
  * Time scales are kept moderate (fastest ~ hours) so odex, a non-stiff method, stays efficient:
  * the NH3/NH4⁺ split is algebraic, and an "established" filter starts at the biomass its load
@@ -229,34 +230,43 @@ export function makeRhs(c: TankConstants): (t: number, y: readonly number[]) => 
   const annNo3 = ANAMMOX.nitratePerAmmonium;
   const annBio = ANAMMOX.biomassNPerAmmonium;
   return (_t, y) => {
-    const S = y[0] > 0 ? y[0] : 0;
-    const N2 = y[1] > 0 ? y[1] : 0;
-    const N3 = y[2] > 0 ? y[2] : 0;
-    const oW = y[3] > 0 ? y[3] : 0;
-    const oF = y[4] > 0 ? y[4] : 0;
+    // Dissolved pools enter through the odd Monod factor m(X, K) = X / (K + |X|): a flux that
+    // consumes X vanishes at X = 0 and turns into a small refill if the solver overshoots below
+    // zero, so pools come back to 0 instead of drifting negative, and N is still conserved.
+    // First-order pools (detritus, food in fish) enter linearly for the same reason.
+    const S = y[0];
+    const N2 = y[1];
+    const N3 = y[2];
+    const oW = y[3];
+    const oF = y[4];
+    // Biomass grows on itself: B = 0 is invariant, so it is clamped rather than restored.
     const BA = y[5] > 0 ? y[5] : 0;
     const BN = y[6] > 0 ? y[6] : 0;
     const KH = y[7] > 0 ? y[7] : 0;
-    const G = y[8] > 0 ? y[8] : 0;
+    const G = y[8];
+    const Sp = S > 0 ? S : 0;
+    const absS = S < 0 ? -S : S;
+    const absN2 = N2 < 0 ? -N2 : N2;
+    const absN3 = N3 < 0 ? -N3 : N3;
 
     const kh2 = KH * KH;
     const fKH = kh2 / (kh2 + c.khHalf2);
     // Nitrification, step 1 (AOB): TAN → nitrite, with assimilation into biomass.
-    const R1 = c.aobQ * fKH * (S / (c.aobK + S)) * BA;
+    const R1 = c.aobQ * fKH * (S / (c.aobK + absS)) * BA;
     const gA = c.aobYield * R1;
-    const lossA = c.aobDecay * BA + (gA * BA) / c.aobMax;
+    const lossA = c.aobDecay * BA + (gA > 0 ? (gA * BA) / c.aobMax : 0);
     // Step 2 (NOB): nitrite → nitrate.
-    const R2 = c.nobQ * fKH * (N2 / (c.nobK + N2)) * BN;
+    const R2 = c.nobQ * fKH * (N2 / (c.nobK + absN2)) * BN;
     const gN = c.nobYield * R2;
-    const lossN = c.nobDecay * BN + (gN * BN) / c.nobMax;
+    const lossN = c.nobDecay * BN + (gN > 0 ? (gN * BN) / c.nobMax : 0);
     // Organic matter: trapping and mineralisation; food leaving the fish.
     const trap = c.trapRate * oW;
     const minW = c.mineralisation * oW;
     const minF = c.mineralisation * oF;
     const rel = c.gutRelease * G;
     // Plants: ammonium first; nitrate uptake inhibited by ammonium.
-    const fA = S / (c.plantKa + S);
-    const fNit = ((1 - fA) * N3) / (c.plantKn + N3) * (c.plantKi / (c.plantKi + S));
+    const fA = S / (c.plantKa + absS);
+    const fNit = (1 - fA) * (N3 / (c.plantKn + absN3)) * (c.plantKi / (c.plantKi + Sp));
     const dy = new Array<number>(dim);
     let upA = 0;
     let upN = 0;
@@ -270,11 +280,15 @@ export function makeRhs(c: TankConstants): (t: number, y: readonly number[]) => 
       dy[PLANT0 + i] = pot * (fA + fNit);
     }
     // Low-oxygen zones.
-    const D = c.denitCap > 0 ? (c.denitCap * N3) / (c.denitK + N3) : 0;
+    const D = c.denitCap > 0 ? (c.denitCap * N3) / (c.denitK + absN3) : 0;
     let A = 0;
     if (c.anammoxCap > 0) {
-      const NH4 = S * (1 - fnh3At(c, KH));
-      A = c.anammoxCap * (NH4 / (c.anammoxKa + NH4)) * (N2 / (c.anammoxKn + N2));
+      const nh4Share = 1 - fnh3At(c, KH);
+      const a = (S * nh4Share) / (c.anammoxKa + absS * nh4Share);
+      const b = N2 / (c.anammoxKn + absN2);
+      // Two consumed pools: the product while both are positive, else the smaller factor
+      // (negative), which refills whichever pool overshot.
+      A = c.anammoxCap * (a >= 0 && b >= 0 ? a * b : Math.min(a, b));
     }
     const q = c.dripLPerDay;
 
@@ -296,7 +310,7 @@ export function makeRhs(c: TankConstants): (t: number, y: readonly number[]) => 
 
 /** Per-component absolute tolerances (in each component's unit). */
 export function absoluteTolerances(c: TankConstants): number[] {
-  const atol = [1e-6, 1e-6, 1e-6, 1e-4, 1e-4, 1e-9, 1e-9, 1e-6, 1e-5, 1e9, 1e9, 1e9];
+  const atol = [1e-7, 1e-7, 1e-7, 1e-4, 1e-4, 1e-9, 1e-9, 1e-6, 1e-5, 1e9, 1e9, 1e9];
   for (let i = 0; i < c.plantCount; i++) atol.push(1e-6);
   return atol;
 }

@@ -444,25 +444,29 @@ export class ScenarioVersionError extends Error {
  * Bring a raw scenario object up to {@link SCHEMA_VERSION}. A missing version counts as current.
  * Does not mutate its input. Throws {@link ScenarioVersionError} for a newer or unreadable version.
  */
-export function migrateScenario(raw: unknown, migrations: Readonly<Record<number, Migration>> = MIGRATIONS): unknown {
+export function migrateScenario(
+  raw: unknown,
+  migrations: Readonly<Record<number, Migration>> = MIGRATIONS,
+  target: number = SCHEMA_VERSION,
+): unknown {
   if (raw === null || typeof raw !== "object" || Array.isArray(raw)) return raw;
   const obj = raw as Record<string, unknown>;
   if (obj.schemaVersion === undefined) return raw;
   const v = obj.schemaVersion;
   if (typeof v !== "number" || !Number.isInteger(v) || v < 1) {
-    throw new ScenarioVersionError(`The schema version must be a whole number from 1 to ${SCHEMA_VERSION}.`, v);
+    throw new ScenarioVersionError(`The schema version must be a whole number from 1 to ${target}.`, v);
   }
-  if (v > SCHEMA_VERSION) {
+  if (v > target) {
     throw new ScenarioVersionError(
-      `This file was made by a newer version of Fernwater (schema ${v}); this version reads up to ${SCHEMA_VERSION}.`,
+      `This file was made by a newer version of Fernwater (schema ${v}); this version reads up to ${target}.`,
       v,
     );
   }
   let cur: Record<string, unknown> = { ...obj };
-  for (let from = v; from < SCHEMA_VERSION; from++) {
+  for (let from = v; from < target; from++) {
     const step = migrations[from];
     if (!step) {
-      throw new ScenarioVersionError(`There is no way to read schema ${from} files; this version reads ${SCHEMA_VERSION}.`, v);
+      throw new ScenarioVersionError(`There is no way to read schema ${from} files; this version reads ${target}.`, v);
     }
     cur = step(cur);
   }

@@ -135,9 +135,13 @@ export interface SimulationResult {
 
 const now = (): number => (typeof performance !== "undefined" ? performance.now() : Date.now());
 
-/** Round to 6 significant figures (exact decimal print for JSON). */
+/**
+ * Round to 6 significant figures (prints as a short decimal in JSON). Magnitudes below 1e-15
+ * become 0: far below anything measurable, and it keeps the powers of ten exact.
+ */
 export function round6(x: number): number {
-  if (x === 0 || !Number.isFinite(x)) return x === 0 ? 0 : x;
+  if (!Number.isFinite(x)) return x;
+  if (Math.abs(x) < 1e-15) return 0;
   const e = Math.floor(Math.log10(Math.abs(x)));
   const k = 5 - e;
   if (k >= 0) {
@@ -149,6 +153,8 @@ export function round6(x: number): number {
 }
 
 const nonNeg = (x: number) => (x > 0 ? round6(x) : 0);
+/** Days are rounded to 1e-6 day (0.09 s) rather than to significant figures. */
+const roundDay = (t: number) => Math.round(t * 1e6) / 1e6;
 const pct = (f: number) => `${Math.round(f * 100)} %`;
 const mg = (x: number) => `${x >= 100 ? Math.round(x) : Number(x.toPrecision(3))} mg N`;
 
@@ -223,7 +229,7 @@ export function simulate(scenario: Scenario, options: SimulateOptions = {}): Sim
   const sample = (t: number, y: readonly number[]) => {
     track(t, y);
     const kh = y[IX.kh];
-    series.t.push(round6(t));
+    series.t.push(roundDay(t));
     series.tan.push(nonNeg(y[IX.tan]));
     series.nh3.push(nonNeg(y[IX.tan] * fnh3At(c, kh)));
     series.no2.push(nonNeg(y[IX.no2]));
@@ -397,7 +403,7 @@ export function simulate(scenario: Scenario, options: SimulateOptions = {}): Sim
   return {
     engineVersion: ENGINE_VERSION,
     series,
-    events: loop.events,
+    events: loop.events.map((e) => ({ ...e, day: roundDay(e.day) })),
     budget,
     keyFigures,
     stats: { ...loop.stats, wallMs: Math.round((now() - started) * 100) / 100 },
@@ -436,7 +442,7 @@ function keyFiguresFrom(
     if (tan[k] >= seen || no2[k] >= seen) cycleSeen = true;
     else if (cycleSeen && finished === null && tan[k] < clear && no2[k] < clear) finished = t[k];
   }
-  const r = (p: Peak): Peak => ({ value: round6(Math.max(p.value, 0)), day: round6(p.day) });
+  const r = (p: Peak): Peak => ({ value: round6(Math.max(p.value, 0)), day: roundDay(p.day) });
   return {
     peakFreeNh3: r(peaks.nh3),
     peakTan: r(peaks.tan),
