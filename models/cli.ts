@@ -55,7 +55,9 @@ export function main(argv: string[]): number {
   }
   const unknown = [...flags].filter((f) => !["--csv", "--pretty"].includes(f));
   if (unknown.length > 0 || files.length > 1) {
-    process.stderr.write(`${unknown.length ? `Unknown option ${unknown.join(", ")}` : "Give at most one file"}\n${USAGE}\n`);
+    process.stderr.write(
+      `${unknown.length ? `Unknown option ${unknown.join(", ")}` : "Give at most one file"}\n${USAGE}\n`,
+    );
     return 2;
   }
   let text: string;

@@ -40,14 +40,7 @@ export type {
 } from "./nitrogen/scenario";
 
 export { simulate, ENGINE_VERSION, round6 } from "./nitrogen/simulate";
-export type {
-  SimulateOptions,
-  SimulationResult,
-  SimulationStats,
-  Series,
-  KeyFigures,
-  Peak,
-} from "./nitrogen/simulate";
+export type { SimulateOptions, SimulationResult, SimulationStats, Series, KeyFigures, Peak } from "./nitrogen/simulate";
 export type { NitrogenBudget } from "./nitrogen/budget";
 export type { Stocks } from "./nitrogen/processes";
 

@@ -19,7 +19,11 @@ export class ModelError extends Error {
   /** Field paths or other detail useful to a developer (not shown to keepers by default). */
   readonly detail: readonly string[];
 
-  constructor(code: ModelErrorCode, message: string, options: { day?: number | null; detail?: readonly string[] } = {}) {
+  constructor(
+    code: ModelErrorCode,
+    message: string,
+    options: { day?: number | null; detail?: readonly string[] } = {},
+  ) {
     super(message);
     this.name = "ModelError";
     this.code = code;

@@ -12,13 +12,7 @@ export interface EventRecord {
   readonly detail: string;
 }
 
-export type EventKind =
-  | "waterChange"
-  | "filterCleaning"
-  | "trim"
-  | "dose"
-  | "dosingStopped"
-  | "feeding";
+export type EventKind = "waterChange" | "filterCleaning" | "trim" | "dose" | "dosingStopped" | "feeding";
 
 /**
  * A scheduled jump. `apply` receives the loop's own copy of the state at time `t`, may change

@@ -59,7 +59,11 @@ export const BACTERIA = {
    * Share of the full biomass present in a brand-new filter (traces from tap water, air, plants).
    * Tuned so a fishless cycle at 25 °C takes about three to five weeks.
    */
-  seedFraction: p(1e-5, "fraction of full biomass", "model choice, no source (tuned to a 3–5 week cycle, common practice, no source)"),
+  seedFraction: p(
+    1e-5,
+    "fraction of full biomass",
+    "model choice, no source (tuned to a 3–5 week cycle, common practice, no source)",
+  ),
   /** Floor for "established" bacteria when the tank has no load at the start. */
   establishedFloorFraction: p(1e-3, "fraction of full biomass", "model choice, no source"),
   /** Share of nitrifiers that live in the filter media (the rest on gravel, glass, plants). */
@@ -202,7 +206,11 @@ export const SCENARIO_DEFAULTS = {
     roShare: p(0, "fraction", "common practice, no source"),
   },
   lowOxygen: {
-    denitrificationCapacityMgNPerDay: p(20, "mg N/day", "model choice, no source (no published rate for porous media; references.md §8)"),
+    denitrificationCapacityMgNPerDay: p(
+      20,
+      "mg N/day",
+      "model choice, no source (no published rate for porous media; references.md §8)",
+    ),
     anammoxCapacityMgNPerDay: p(5, "mg NH4-N/day", "model choice, no source"),
   },
   run: {

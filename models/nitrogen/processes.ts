@@ -136,7 +136,14 @@ const arrhenius = (theta: number, t: number) => Math.pow(theta, t - 20);
  */
 function carryingCapacity(
   capacity: number,
-  p: { muMax: { value: number }; halfSaturation: { value: number }; yield: { value: number }; decay: { value: number }; thetaGrowth: { value: number }; thetaDecay: { value: number } },
+  p: {
+    muMax: { value: number };
+    halfSaturation: { value: number };
+    yield: { value: number };
+    decay: { value: number };
+    thetaGrowth: { value: number };
+    thetaDecay: { value: number };
+  },
   sRef: number,
 ): number {
   const tRef = BACTERIA.capacityReferenceTemperature.value;
@@ -360,7 +367,9 @@ export function initialState(s: Scenario, c: TankConstants): number[] {
     // Steady detritus without cleanings: tank pool drains by trapping and mineralisation.
     y[IX.orgW] = toDetritus / (c.trapRate + c.mineralisation);
     y[IX.orgF] = (y[IX.orgW] * c.trapRate) / c.mineralisation;
-    const dosing = s.fishlessCycling.enabled ? (s.fishlessCycling.doseMgNPerL * c.volumeL) / s.fishlessCycling.doseIntervalDays : 0;
+    const dosing = s.fishlessCycling.enabled
+      ? (s.fishlessCycling.doseMgNPerL * c.volumeL) / s.fishlessCycling.doseIntervalDays
+      : 0;
     const load = eatenKept + c.feedN * (c.leftoversRemoved ? 0 : 1 - c.eatenShare) + dosing;
     const floor = BACTERIA.establishedFloorFraction.value;
     // Steady biomass for an oxidation rate L: yield·L·(1 − B/Bmax) = b·B.

@@ -78,7 +78,12 @@ const fraction = (def: number, label: string, hint: string, max = 1) =>
 export const WaterSchema = z.object({
   volumeL: num(
     D.water.volumeL.value,
-    { label: "Water volume", hint: "Actual water in the tank, after gravel and decorations.", quantity: "volume", unit: "L" },
+    {
+      label: "Water volume",
+      hint: "Actual water in the tank, after gravel and decorations.",
+      quantity: "volume",
+      unit: "L",
+    },
     { min: 1, max: 10000 },
   ),
   temperatureC: num(
@@ -88,17 +93,32 @@ export const WaterSchema = z.object({
   ),
   pH: num(
     D.water.pH.value,
-    { label: "pH", hint: "Measured pH; it sets how much of the ammonia is in the toxic free form.", quantity: "ph", unit: "" },
+    {
+      label: "pH",
+      hint: "Measured pH; it sets how much of the ammonia is in the toxic free form.",
+      quantity: "ph",
+      unit: "",
+    },
     { min: 4, max: 10 },
   ),
   khDkh: num(
     D.water.khDkh.value,
-    { label: "KH (carbonate hardness)", hint: "Buffer that nitrifying bacteria use up; water changes restore it.", quantity: "kh", unit: "dKH" },
+    {
+      label: "KH (carbonate hardness)",
+      hint: "Buffer that nitrifying bacteria use up; water changes restore it.",
+      quantity: "kh",
+      unit: "dKH",
+    },
     { min: 0, max: 30 },
   ),
   startTan: num(
     D.water.startTan.value,
-    { label: "Ammonia at the start", hint: "Total ammonia (NH3 + NH4) on the first day.", quantity: "ammonia", unit: "mg N/L" },
+    {
+      label: "Ammonia at the start",
+      hint: "Total ammonia (NH3 + NH4) on the first day.",
+      quantity: "ammonia",
+      unit: "mg N/L",
+    },
     { min: 0, max: 50 },
   ),
   startNitrite: num(
@@ -120,16 +140,30 @@ export const WaterSchema = z.object({
 export const FishSchema = z.object({
   feedGPerDay: num(
     D.fish.feedGPerDay.value,
-    { label: "Food per day", hint: "Grams of dry food given each day, all feeds together.", quantity: "mass", unit: "g/day" },
+    {
+      label: "Food per day",
+      hint: "Grams of dry food given each day, all feeds together.",
+      quantity: "mass",
+      unit: "g/day",
+    },
     { min: 0, max: 1000 },
   ),
-  proteinFraction: fraction(D.fish.proteinFraction.value, "Protein share of the food", "From the food label, e.g. 0.45 for 45 % protein.", 0.8),
+  proteinFraction: fraction(
+    D.fish.proteinFraction.value,
+    "Protein share of the food",
+    "From the food label, e.g. 0.45 for 45 % protein.",
+    0.8,
+  ),
   feedsPerDay: num(
     D.fish.feedsPerDay.value,
     { label: "Feeds per day", hint: "How many times a day the fish are fed.", quantity: "count", unit: "" },
     { min: 1, max: 12, int: true },
   ),
-  fractionEaten: fraction(D.fish.fractionEaten.value, "Share of food eaten", "The rest sinks and rots unless you remove it."),
+  fractionEaten: fraction(
+    D.fish.fractionEaten.value,
+    "Share of food eaten",
+    "The rest sinks and rots unless you remove it.",
+  ),
   leftoversRemoved: bool(false, {
     label: "Leftovers removed",
     hint: "If on, uneaten food is taken out after the meal and adds no nitrogen.",
@@ -177,21 +211,46 @@ export const PlantGroupSchema = z
     growthForm: z
       .enum(GROWTH_FORMS, { error: "Growth form must be stem, floating, rosette, moss or custom" })
       .default("stem")
-      .meta({ label: "Growth form", hint: "Sets typical growth rate and nitrogen content.", quantity: "none", unit: "" }),
+      .meta({
+        label: "Growth form",
+        hint: "Sets typical growth rate and nitrogen content.",
+        quantity: "none",
+        unit: "",
+      }),
     startMassG: num(
       stem.startMassG.value,
-      { label: "Plant mass at the start", hint: "Dry mass; fresh plants are roughly ten times heavier.", quantity: "mass", unit: "g" },
+      {
+        label: "Plant mass at the start",
+        hint: "Dry mass; fresh plants are roughly ten times heavier.",
+        quantity: "mass",
+        unit: "g",
+      },
       { min: 0, max: 5000 },
     ),
     maxMassG: num(
       stem.maxMassG.value,
-      { label: "Most the tank holds", hint: "Dry mass at which the group fills its space.", quantity: "mass", unit: "g" },
+      {
+        label: "Most the tank holds",
+        hint: "Dry mass at which the group fills its space.",
+        quantity: "mass",
+        unit: "g",
+      },
       { min: 0.01, max: 5000 },
     ),
-    nitrogenContent: fraction(stem.nitrogenContent.value, "Nitrogen content", "Share of dry mass that is nitrogen, typically 0.02–0.04.", 0.08),
+    nitrogenContent: fraction(
+      stem.nitrogenContent.value,
+      "Nitrogen content",
+      "Share of dry mass that is nitrogen, typically 0.02–0.04.",
+      0.08,
+    ),
     growthRatePerDay: num(
       stem.growthRatePerDay.value,
-      { label: "Growth rate", hint: "Relative growth per day with plenty of nitrogen, e.g. 0.05 doubles in two weeks.", quantity: "rate", unit: "/day" },
+      {
+        label: "Growth rate",
+        hint: "Relative growth per day with plenty of nitrogen, e.g. 0.05 doubles in two weeks.",
+        quantity: "rate",
+        unit: "/day",
+      },
       { min: 0, max: 1 },
     ),
     trim: TrimSchema.prefault({}),
@@ -230,10 +289,19 @@ export const FilterSchema = z.object({
   }),
   cleaningIntervalDays: num(
     D.filter.cleaningIntervalDays.value,
-    { label: "Clean filter every", hint: "Days between filter cleanings; 0 for never.", quantity: "days", unit: "days" },
+    {
+      label: "Clean filter every",
+      hint: "Days between filter cleanings; 0 for never.",
+      quantity: "days",
+      unit: "days",
+    },
     { min: 0, max: 365 },
   ),
-  organicsRemovedFraction: fraction(D.filter.organicsRemovedFraction.value, "Sludge removed per cleaning", "Share of the trapped muck a cleaning takes out."),
+  organicsRemovedFraction: fraction(
+    D.filter.organicsRemovedFraction.value,
+    "Sludge removed per cleaning",
+    "Share of the trapped muck a cleaning takes out.",
+  ),
   cleanedInTapWater: bool(false, {
     label: "Rinsed in tap water",
     hint: "Chlorinated tap water kills many of the filter bacteria; old tank water does not.",
@@ -246,11 +314,25 @@ export const MaintenanceSchema = z.object({
     { label: "Change water every", hint: "Days between water changes; 0 for none.", quantity: "days", unit: "days" },
     { min: 0, max: 365 },
   ),
-  waterChangeFraction: fraction(D.maintenance.waterChangeFraction.value, "Share of water changed", "e.g. 0.25 for a quarter of the tank.", 0.95),
-  gravelCleaningFraction: fraction(D.maintenance.gravelCleaningFraction.value, "Detritus siphoned per change", "Share of the muck in the gravel removed at each water change."),
+  waterChangeFraction: fraction(
+    D.maintenance.waterChangeFraction.value,
+    "Share of water changed",
+    "e.g. 0.25 for a quarter of the tank.",
+    0.95,
+  ),
+  gravelCleaningFraction: fraction(
+    D.maintenance.gravelCleaningFraction.value,
+    "Detritus siphoned per change",
+    "Share of the muck in the gravel removed at each water change.",
+  ),
   dripLPerDay: num(
     D.maintenance.dripLPerDay.value,
-    { label: "Continuous drip", hint: "Litres a day replaced by a drip or overflow system; 0 for none.", quantity: "volume", unit: "L/day" },
+    {
+      label: "Continuous drip",
+      hint: "Litres a day replaced by a drip or overflow system; 0 for none.",
+      quantity: "volume",
+      unit: "L/day",
+    },
     { min: 0, max: 10000 },
   ),
 });
@@ -258,12 +340,22 @@ export const MaintenanceSchema = z.object({
 export const TapWaterSchema = z.object({
   nitrate: num(
     D.tapWater.nitrate.value,
-    { label: "Tap water nitrate", hint: "From your water supplier's report or a test.", quantity: "nitrate", unit: "mg N/L" },
+    {
+      label: "Tap water nitrate",
+      hint: "From your water supplier's report or a test.",
+      quantity: "nitrate",
+      unit: "mg N/L",
+    },
     { min: 0, max: 100 },
   ),
   tan: num(
     D.tapWater.tan.value,
-    { label: "Tap water ammonia", hint: "Chloramine-treated water often shows some ammonia.", quantity: "ammonia", unit: "mg N/L" },
+    {
+      label: "Tap water ammonia",
+      hint: "Chloramine-treated water often shows some ammonia.",
+      quantity: "ammonia",
+      unit: "mg N/L",
+    },
     { min: 0, max: 10 },
   ),
   khDkh: num(
@@ -271,7 +363,11 @@ export const TapWaterSchema = z.object({
     { label: "Tap water KH", hint: "Carbonate hardness of the tap water.", quantity: "kh", unit: "dKH" },
     { min: 0, max: 30 },
   ),
-  roShare: fraction(D.tapWater.roShare.value, "Reverse-osmosis share", "Share of the change water that is RO water (no nitrate, no KH)."),
+  roShare: fraction(
+    D.tapWater.roShare.value,
+    "Reverse-osmosis share",
+    "Share of the change water that is RO water (no nitrate, no KH).",
+  ),
 });
 
 export const LowOxygenSchema = z.object({
@@ -281,7 +377,12 @@ export const LowOxygenSchema = z.object({
   }),
   denitrificationCapacityMgNPerDay: num(
     D.lowOxygen.denitrificationCapacityMgNPerDay.value,
-    { label: "Denitrification capacity", hint: "Most nitrate-N the zones remove per day when nitrate is plentiful.", quantity: "none", unit: "mg N/day" },
+    {
+      label: "Denitrification capacity",
+      hint: "Most nitrate-N the zones remove per day when nitrate is plentiful.",
+      quantity: "none",
+      unit: "mg N/day",
+    },
     { min: 0, max: 10000 },
   ),
   anammoxEnabled: bool(false, {
@@ -290,7 +391,12 @@ export const LowOxygenSchema = z.object({
   }),
   anammoxCapacityMgNPerDay: num(
     D.lowOxygen.anammoxCapacityMgNPerDay.value,
-    { label: "Anammox capacity", hint: "Most ammonium-N the anammox bacteria use per day.", quantity: "none", unit: "mg N/day" },
+    {
+      label: "Anammox capacity",
+      hint: "Most ammonium-N the anammox bacteria use per day.",
+      quantity: "none",
+      unit: "mg N/day",
+    },
     { min: 0, max: 10000 },
   ),
 });
@@ -303,7 +409,12 @@ export const RunSchema = z.object({
   ),
   outputIntervalDays: num(
     D.run.outputIntervalDays.value,
-    { label: "Chart point every", hint: "Spacing of chart points, from one hour (1/24 day) to one week.", quantity: "days", unit: "days" },
+    {
+      label: "Chart point every",
+      hint: "Spacing of chart points, from one hour (1/24 day) to one week.",
+      quantity: "days",
+      unit: "days",
+    },
     { min: 1 / 24, max: 7 },
   ),
 });
@@ -343,7 +454,12 @@ export const TargetsSchema = z
   .object({
     nitrateLow: num(
       D.targets.nitrateLow.value,
-      { label: "Nitrate target, low", hint: "Bottom of the band you aim for; plants starve below it.", quantity: "nitrate", unit: "mg N/L" },
+      {
+        label: "Nitrate target, low",
+        hint: "Bottom of the band you aim for; plants starve below it.",
+        quantity: "nitrate",
+        unit: "mg N/L",
+      },
       { min: 0, max: 100 },
     ),
     nitrateHigh: num(
@@ -559,7 +675,12 @@ export function listScenarioFields(schema: z.ZodType = ScenarioSchema): Scenario
         return;
       default: {
         if (!own) return;
-        const n = s as unknown as { minValue?: number | null; maxValue?: number | null; isInt?: boolean; options?: string[] };
+        const n = s as unknown as {
+          minValue?: number | null;
+          maxValue?: number | null;
+          isInt?: boolean;
+          options?: string[];
+        };
         const kind: ScenarioField["kind"] =
           def.type === "number" ? (n.isInt ? "integer" : "number") : (def.type as ScenarioField["kind"]);
         out.push({

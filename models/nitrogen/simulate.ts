@@ -270,7 +270,11 @@ export function simulate(scenario: Scenario, options: SimulateOptions = {}): Sim
           flows.gravelCleaning += gravel;
           const gravelText = g > 0 ? `; ${pct(g)} of the detritus siphoned (${mg(gravel)})` : "";
           return [
-            { day: t, kind: "waterChange", detail: `${pct(f)} of the water changed: ${mg(out)} out, ${mg(inN)} in${gravelText}` },
+            {
+              day: t,
+              kind: "waterChange",
+              detail: `${pct(f)} of the water changed: ${mg(out)} out, ${mg(inN)} in${gravelText}`,
+            },
           ];
         },
       });
@@ -279,7 +283,9 @@ export function simulate(scenario: Scenario, options: SimulateOptions = {}): Sim
 
   const fl = s.filter;
   if (fl.cleaningIntervalDays > 0) {
-    const share = BACTERIA.shareInFilter.value * (fl.cleanedInTapWater ? BACTERIA.killedByTapWaterRinse.value : BACTERIA.lostByTankWaterRinse.value);
+    const share =
+      BACTERIA.shareInFilter.value *
+      (fl.cleanedInTapWater ? BACTERIA.killedByTapWaterRinse.value : BACTERIA.lostByTankWaterRinse.value);
     for (const t of periodicTimes(fl.cleaningIntervalDays, tEnd)) {
       schedule.push({
         t,
@@ -293,7 +299,11 @@ export function simulate(scenario: Scenario, options: SimulateOptions = {}): Sim
           flows.filterCleaning += sludge + bact;
           const how = fl.cleanedInTapWater ? "rinsed in tap water" : "rinsed in tank water";
           return [
-            { day: t, kind: "filterCleaning", detail: `Filter ${how}: ${mg(sludge)} of sludge out, ${pct(share)} of the bacteria lost` },
+            {
+              day: t,
+              kind: "filterCleaning",
+              detail: `Filter ${how}: ${mg(sludge)} of sludge out, ${pct(share)} of the bacteria lost`,
+            },
           ];
         },
       });
@@ -340,12 +350,20 @@ export function simulate(scenario: Scenario, options: SimulateOptions = {}): Sim
           if (stopped) return [];
           if (fc.stopRule === "whenCycled" && doses > 0 && y[IX.tan] < clear && y[IX.no2] < clear) {
             stopped = true;
-            return [{ day: t, kind: "dosingStopped", detail: "The last dose was cleared before the next one: dosing stopped" }];
+            return [
+              {
+                day: t,
+                kind: "dosingStopped",
+                detail: "The last dose was cleared before the next one: dosing stopped",
+              },
+            ];
           }
           doses++;
           y[IX.tan] += fc.doseMgNPerL;
           flows.dosing += fc.doseMgNPerL * V;
-          return [{ day: t, kind: "dose", detail: `Ammonia dosed: +${fc.doseMgNPerL} mg N/L (${mg(fc.doseMgNPerL * V)})` }];
+          return [
+            { day: t, kind: "dose", detail: `Ammonia dosed: +${fc.doseMgNPerL} mg N/L (${mg(fc.doseMgNPerL * V)})` },
+          ];
         },
       });
     }
@@ -478,7 +496,11 @@ function describeFailure(
       check: "the filter capacity, its multiplier and the water volume",
     },
     {
-      rate: s.plants.reduce((a, g, i) => a + (c.plantRate[i] * g.maxMassG * c.plantNmg[i]) / (4 * PLANT_UPTAKE.ammoniumHalfSaturation.value * V), 0),
+      rate: s.plants.reduce(
+        (a, g, i) =>
+          a + (c.plantRate[i] * g.maxMassG * c.plantNmg[i]) / (4 * PLANT_UPTAKE.ammoniumHalfSaturation.value * V),
+        0,
+      ),
       what: "the plants could take up the water's nitrogen many times a day",
       check: "the plant growth rates, maximum masses, the plant-uptake multiplier and the water volume",
     },
@@ -487,7 +509,11 @@ function describeFailure(
       what: "the low-oxygen zones could strip the water's nitrogen many times a day",
       check: "the denitrification and anammox capacities and the water volume",
     },
-    { rate: c.dripLPerDay / V, what: "the drip replaces the tank's water many times a day", check: "the drip rate and the water volume" },
+    {
+      rate: c.dripLPerDay / V,
+      what: "the drip replaces the tank's water many times a day",
+      check: "the drip rate and the water volume",
+    },
   ];
   rates.sort((a, b) => b.rate - a.rate);
   const top = rates[0];

@@ -16,7 +16,10 @@ export interface Outcome {
   get(result: SimulationResult): number | null;
 }
 
-const kf = <K extends keyof KeyFigures>(k: K) => (r: SimulationResult) => r.keyFigures[k] as unknown as number | null;
+const kf =
+  <K extends keyof KeyFigures>(k: K) =>
+  (r: SimulationResult) =>
+    r.keyFigures[k] as unknown as number | null;
 
 /** Outcomes offered by the sweep screen (values in canonical units). */
 export const OUTCOMES: readonly Outcome[] = [
@@ -28,11 +31,41 @@ export const OUTCOMES: readonly Outcome[] = [
     unit: "mg N/L",
     get: kf("nitrateBeforeLastWaterChange"),
   },
-  { id: "peakNitrate", label: "Highest nitrate", quantity: "nitrate", unit: "mg N/L", get: (r) => r.keyFigures.peakNitrate.value },
-  { id: "peakFreeNh3", label: "Highest free ammonia", quantity: "ammonia", unit: "mg N/L", get: (r) => r.keyFigures.peakFreeNh3.value },
-  { id: "peakNitrite", label: "Highest nitrite", quantity: "nitrite", unit: "mg N/L", get: (r) => r.keyFigures.peakNitrite.value },
-  { id: "daysAboveNitrateTarget", label: "Days above the nitrate target", quantity: "days", unit: "days", get: kf("daysAboveNitrateTarget") },
-  { id: "cyclingFinishedDay", label: "Day cycling finished", quantity: "days", unit: "days", get: kf("cyclingFinishedDay") },
+  {
+    id: "peakNitrate",
+    label: "Highest nitrate",
+    quantity: "nitrate",
+    unit: "mg N/L",
+    get: (r) => r.keyFigures.peakNitrate.value,
+  },
+  {
+    id: "peakFreeNh3",
+    label: "Highest free ammonia",
+    quantity: "ammonia",
+    unit: "mg N/L",
+    get: (r) => r.keyFigures.peakFreeNh3.value,
+  },
+  {
+    id: "peakNitrite",
+    label: "Highest nitrite",
+    quantity: "nitrite",
+    unit: "mg N/L",
+    get: (r) => r.keyFigures.peakNitrite.value,
+  },
+  {
+    id: "daysAboveNitrateTarget",
+    label: "Days above the nitrate target",
+    quantity: "days",
+    unit: "days",
+    get: kf("daysAboveNitrateTarget"),
+  },
+  {
+    id: "cyclingFinishedDay",
+    label: "Day cycling finished",
+    quantity: "days",
+    unit: "days",
+    get: kf("cyclingFinishedDay"),
+  },
   { id: "plantsTrimmedG", label: "Plants trimmed out", quantity: "mass", unit: "g", get: kf("plantsTrimmedG") },
   {
     id: "nitrogenToGas",
@@ -77,7 +110,10 @@ export function sweep(
   scenario: Scenario,
   path: readonly (string | number)[],
   values: readonly number[],
-  options: SimulateOptions & { outcomes?: readonly string[]; onPoint?: (index: number, point: SweepPoint) => void } = {},
+  options: SimulateOptions & {
+    outcomes?: readonly string[];
+    onPoint?: (index: number, point: SweepPoint) => void;
+  } = {},
 ): SweepPoint[] {
   const wanted = OUTCOMES.filter((o) => !options.outcomes || options.outcomes.includes(o.id));
   return values.map((value, index) => {

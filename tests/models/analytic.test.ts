@@ -124,7 +124,8 @@ describe("tank against analytic water-exchange solutions", () => {
     const prev = lastDay - 7;
     const from = r.series.t.findIndex((t) => t === prev) + 1; // the "just after" sample
     let area = 0;
-    for (let k = from + 1; k <= at[0]; k++) area += ((din(r, k) + din(r, k - 1)) / 2) * (r.series.t[k] - r.series.t[k - 1]);
+    for (let k = from + 1; k <= at[0]; k++)
+      area += ((din(r, k) + din(r, k - 1)) / 2) * (r.series.t[k] - r.series.t[k - 1]);
     expect(rel(area / 7, 14.9)).toBeLessThan(0.005);
     expect(r.keyFigures.nitrateBeforeLastWaterChange).not.toBeNull();
   });

@@ -56,7 +56,9 @@ export const scenarioArb: fc.Arbitrary<Scenario> = fc
       leftoversRemoved: fc.boolean(),
       pulsedFeeding: fc.boolean(),
     }),
-    plants: fc.integer({ min: 0, max: 3 }).chain((n) => fc.tuple(...Array.from({ length: n }, (_, i) => plantGroupArb(`g${i}`)))),
+    plants: fc
+      .integer({ min: 0, max: 3 })
+      .chain((n) => fc.tuple(...Array.from({ length: n }, (_, i) => plantGroupArb(`g${i}`)))),
     filter: fc.record({
       capacityMgTanPerDay: num(20, 2000),
       establishedAtStart: fc.boolean(),

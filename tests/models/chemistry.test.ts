@@ -94,7 +94,10 @@ describe("stoichiometry constants", () => {
     expect(ANAMMOX.nitratePerAmmonium).toBe(0.26);
     // the leftover (biomass term and rounding) is small and books the rest of the N
     expect(ANAMMOX.biomassNPerAmmonium).toBeCloseTo(0.02, 12);
-    expect(1 + 1.32 - (ANAMMOX.n2NPerAmmonium + ANAMMOX.nitratePerAmmonium + ANAMMOX.biomassNPerAmmonium)).toBeCloseTo(0, 12);
+    expect(1 + 1.32 - (ANAMMOX.n2NPerAmmonium + ANAMMOX.nitratePerAmmonium + ANAMMOX.biomassNPerAmmonium)).toBeCloseTo(
+      0,
+      12,
+    );
   });
 
   it("N mass fractions match the atomic-weight factors", () => {

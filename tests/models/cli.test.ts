@@ -3,7 +3,11 @@ import { describe, expect, it } from "vitest";
 
 // Our own checks of the command line (models/cli.ts), run as a child process like `npm run sim`.
 const run = (args: string[], input?: string) =>
-  spawnSync(process.execPath, ["--import", "tsx", "models/cli.ts", ...args], { input, encoding: "utf8", timeout: 30_000 });
+  spawnSync(process.execPath, ["--import", "tsx", "models/cli.ts", ...args], {
+    input,
+    encoding: "utf8",
+    timeout: 30_000,
+  });
 
 describe("command line", () => {
   it("runs the example file and prints the result JSON", () => {

@@ -19,7 +19,12 @@ describe("stoichiometry inside the running model", () => {
     const s = bareTank({
       water: { startTan: 2, startNitrite: 3, khDkh: 6 },
       filter: { establishedAtStart: false, capacityMgTanPerDay: 1 },
-      lowOxygen: { enabled: true, denitrificationCapacityMgNPerDay: 0, anammoxEnabled: true, anammoxCapacityMgNPerDay: 20 },
+      lowOxygen: {
+        enabled: true,
+        denitrificationCapacityMgNPerDay: 0,
+        anammoxEnabled: true,
+        anammoxCapacityMgNPerDay: 20,
+      },
       run: { lengthDays: 3 },
     });
     const r = simulate(s);
@@ -57,7 +62,8 @@ describe("stoichiometry inside the running model", () => {
     const f = r.budget.feedFate;
     // the established tank starts with a steady meal in the fish, so excretion is steady from day 0
     expect(rel(f.excretedAsTan / 50, 2 * 0.4 * 0.16 * 0.8 * 0.8 * 0.9 * 1000)).toBeLessThan(1e-9);
-    const placed = f.excretedAsTan + f.excretedAsUrea + f.faeces + f.fishGrowth + f.uneatenToDetritus + f.uneatenRemoved;
+    const placed =
+      f.excretedAsTan + f.excretedAsUrea + f.faeces + f.fishGrowth + f.uneatenToDetritus + f.uneatenRemoved;
     // everything that went in, less what is still inside the fish, plus what was inside at the start
     expect(placed).toBeCloseTo(r.budget.inputs.feed - f.stillInFish + r.budget.stockStart.fishGut, 6);
   });
@@ -136,7 +142,8 @@ describe("facts of the trade", () => {
 
   it("feeding more ends with more nitrate", () => {
     // common practice, no source
-    const run = (g: number) => simulate(bareTank({ fish: { feedGPerDay: g }, run: { lengthDays: 60 } })).keyFigures.nitrateEnd;
+    const run = (g: number) =>
+      simulate(bareTank({ fish: { feedGPerDay: g }, run: { lengthDays: 60 } })).keyFigures.nitrateEnd;
     expect(run(1)).toBeGreaterThan(run(0.5));
   });
 
@@ -150,7 +157,9 @@ describe("facts of the trade", () => {
   it("a load the filter cannot handle builds up ammonia", () => {
     // common practice, no source: overstocking a small filter
     const load = feedForLoad(400);
-    const r = simulate(bareTank({ fish: { feedGPerDay: load }, filter: { capacityMgTanPerDay: 100 }, run: { lengthDays: 30 } }));
+    const r = simulate(
+      bareTank({ fish: { feedGPerDay: load }, filter: { capacityMgTanPerDay: 100 }, run: { lengthDays: 30 } }),
+    );
     expect(r.keyFigures.peakTan.value).toBeGreaterThan(1);
   });
 });

@@ -37,7 +37,10 @@ describe("ModelError", () => {
   });
 
   it("WALL_TIME when the wall-clock bound is hit", () => {
-    const s = ScenarioSchema.parse({ fish: { pulsedFeeding: true, feedsPerDay: 12 }, run: { lengthDays: 730, outputIntervalDays: 1 / 24 } });
+    const s = ScenarioSchema.parse({
+      fish: { pulsedFeeding: true, feedsPerDay: 12 },
+      run: { lengthDays: 730, outputIntervalDays: 1 / 24 },
+    });
     const e = thrown(() => simulate(s, { maxWallMs: 1 }));
     expect(e.code).toBe("WALL_TIME");
     expect(e.message).toMatch(/ran out of time/);
@@ -47,7 +50,12 @@ describe("ModelError", () => {
     const s = ScenarioSchema.parse({
       water: { volumeL: 1, startTan: 5 },
       plants: [{ id: "p", startMassG: 2500, maxMassG: 5000, growthRatePerDay: 1 }],
-      lowOxygen: { enabled: true, denitrificationCapacityMgNPerDay: 10000, anammoxEnabled: true, anammoxCapacityMgNPerDay: 10000 },
+      lowOxygen: {
+        enabled: true,
+        denitrificationCapacityMgNPerDay: 10000,
+        anammoxEnabled: true,
+        anammoxCapacityMgNPerDay: 10000,
+      },
       multipliers: { plantUptake: 10 },
       run: { lengthDays: 60 },
     });

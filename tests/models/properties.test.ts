@@ -13,7 +13,8 @@ const dinEnd = (r: SimulationResult, s: Scenario) => r.budget.stockEnd.water.tot
 function everyNumber(value: unknown, visit: (n: number, path: string) => void, path = ""): void {
   if (typeof value === "number") visit(value, path);
   else if (Array.isArray(value)) value.forEach((v, i) => everyNumber(v, visit, `${path}[${i}]`));
-  else if (value && typeof value === "object") for (const [k, v] of Object.entries(value)) everyNumber(v, visit, `${path}.${k}`);
+  else if (value && typeof value === "object")
+    for (const [k, v] of Object.entries(value)) everyNumber(v, visit, `${path}.${k}`);
 }
 
 describe("properties over random valid scenarios", () => {
@@ -28,7 +29,9 @@ describe("properties over random valid scenarios", () => {
         });
         const { series } = r;
         const columns = [
-          ...(["tan", "nh3", "no2", "no3", "kh", "aob", "nob", "organicWater", "organicFilter"] as const).map((k) => series[k]),
+          ...(["tan", "nh3", "no2", "no3", "kh", "aob", "nob", "organicWater", "organicFilter"] as const).map(
+            (k) => series[k],
+          ),
           ...series.plants.map((p) => p.massG),
         ];
         expect(Math.min(...columns.map((col) => Math.min(...col)))).toBeGreaterThanOrEqual(0);
@@ -64,8 +67,14 @@ describe("properties over random valid scenarios", () => {
             tapWater: { ...s0.tapWater, nitrate: 0, tan: 0 },
             maintenance: { ...s0.maintenance, waterChangeIntervalDays: interval },
           };
-          const small = ScenarioSchema.parse({ ...base, maintenance: { ...base.maintenance, waterChangeFraction: Math.min(a, b) } });
-          const large = ScenarioSchema.parse({ ...base, maintenance: { ...base.maintenance, waterChangeFraction: Math.max(a, b) } });
+          const small = ScenarioSchema.parse({
+            ...base,
+            maintenance: { ...base.maintenance, waterChangeFraction: Math.min(a, b) },
+          });
+          const large = ScenarioSchema.parse({
+            ...base,
+            maintenance: { ...base.maintenance, waterChangeFraction: Math.max(a, b) },
+          });
           const dSmall = dinEnd(simulate(small), small);
           const dLarge = dinEnd(simulate(large), large);
           expect(dLarge).toBeLessThanOrEqual(dSmall * (1 + 1e-6) + 1e-6);
@@ -77,18 +86,23 @@ describe("properties over random valid scenarios", () => {
 
   it("with low-oxygen zones off, adding plant mass never ends with more DIN", () => {
     fc.assert(
-      fc.property(scenarioArb, plantGroupArb("added"), fc.double({ min: 1, max: 4, noNaN: true }), (s0, extra, scale) => {
-        const base = ScenarioSchema.parse({ ...s0, lowOxygen: { ...s0.lowOxygen, enabled: false } });
-        const withGroup = ScenarioSchema.parse({ ...base, plants: [...base.plants, extra] });
-        // also: the same groups scaled up (more of the same plants in a bigger planted area)
-        const scaled = ScenarioSchema.parse({
-          ...base,
-          plants: base.plants.map((g) => ({ ...g, startMassG: g.startMassG * scale, maxMassG: g.maxMassG * scale })),
-        });
-        const d0 = dinEnd(simulate(base), base);
-        expect(dinEnd(simulate(withGroup), withGroup)).toBeLessThanOrEqual(d0 * (1 + 1e-6) + 1e-6);
-        expect(dinEnd(simulate(scaled), scaled)).toBeLessThanOrEqual(d0 * (1 + 1e-6) + 1e-6);
-      }),
+      fc.property(
+        scenarioArb,
+        plantGroupArb("added"),
+        fc.double({ min: 1, max: 4, noNaN: true }),
+        (s0, extra, scale) => {
+          const base = ScenarioSchema.parse({ ...s0, lowOxygen: { ...s0.lowOxygen, enabled: false } });
+          const withGroup = ScenarioSchema.parse({ ...base, plants: [...base.plants, extra] });
+          // also: the same groups scaled up (more of the same plants in a bigger planted area)
+          const scaled = ScenarioSchema.parse({
+            ...base,
+            plants: base.plants.map((g) => ({ ...g, startMassG: g.startMassG * scale, maxMassG: g.maxMassG * scale })),
+          });
+          const d0 = dinEnd(simulate(base), base);
+          expect(dinEnd(simulate(withGroup), withGroup)).toBeLessThanOrEqual(d0 * (1 + 1e-6) + 1e-6);
+          expect(dinEnd(simulate(scaled), scaled)).toBeLessThanOrEqual(d0 * (1 + 1e-6) + 1e-6);
+        },
+      ),
       { numRuns: 50, seed: 20250303 },
     );
   });
@@ -134,7 +148,12 @@ describe("properties over random valid scenarios", () => {
           plants: [{ id: "p", startMassG: x.maxMassG / 2, maxMassG: x.maxMassG, growthRatePerDay: x.growth }],
           filter: { capacityMgTanPerDay: x.capacity, establishedAtStart: x.established },
           maintenance: { dripLPerDay: x.drip },
-          lowOxygen: { enabled: x.denit > 0, denitrificationCapacityMgNPerDay: x.denit, anammoxEnabled: true, anammoxCapacityMgNPerDay: x.denit },
+          lowOxygen: {
+            enabled: x.denit > 0,
+            denitrificationCapacityMgNPerDay: x.denit,
+            anammoxEnabled: true,
+            anammoxCapacityMgNPerDay: x.denit,
+          },
           multipliers: { feedLoad: x.mult, plantUptake: x.mult, nitrifierCapacity: x.mult },
           run: { lengthDays: 60 },
         });

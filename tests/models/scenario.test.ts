@@ -47,7 +47,14 @@ describe("scenario schema", () => {
     expect(r.success).toBe(false);
     if (r.success) return;
     const paths = r.error.issues.map((i) => i.path.join("."));
-    expect(paths).toEqual(expect.arrayContaining(["plants.0.startMassG", "plants.1.trim.trimToFraction", "targets.nitrateLow", "plants.1.id"]));
+    expect(paths).toEqual(
+      expect.arrayContaining([
+        "plants.0.startMassG",
+        "plants.1.trim.trimToFraction",
+        "targets.nitrateLow",
+        "plants.1.id",
+      ]),
+    );
   });
 
   it("refuses more than 12 plant groups and runs longer than two years", () => {

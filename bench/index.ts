@@ -1,0 +1,14 @@
+/**
+ * Runs every benchmark module in turn: `npm run bench`. Each module exports `run()` and prints
+ * its own figures. Add new bench files to the list below.
+ */
+export {};
+
+const benches: { name: string; load: () => Promise<{ run: () => unknown }> }[] = [
+  { name: "engine", load: () => import("./engine") },
+];
+
+for (const bench of benches) {
+  const mod = await bench.load();
+  await mod.run();
+}
