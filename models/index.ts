@@ -50,7 +50,7 @@ export { GROWTH_FORMS, SCENARIO_DEFAULTS, listParameters } from "./nitrogen/para
 export type { GrowthForm, GrowthFormDefaults, Sourced } from "./nitrogen/parameters";
 
 export { OUTCOMES, sweep, setScenarioValue } from "./nitrogen/sweep";
-export type { Outcome, SweepPoint } from "./nitrogen/sweep";
+export type { SweepOutcome, SweepPoint } from "./nitrogen/sweep";
 
 export {
   ammoniumPKa,

@@ -361,7 +361,13 @@ export function initialState(s: Scenario, c: TankConstants): number[] {
   y[IX.no3] = s.water.startNitrate;
   y[IX.kh] = s.water.khDkh;
   const eatenKept = c.feedN * c.eatenShare * (1 - EATEN_N_SPLIT.fishGrowth);
-  y[IX.gut] = eatenKept / c.gutRelease;
+  if (c.pulsedFeeding) {
+    // Periodic steady state just before a meal: M·e^(−kτ) / (1 − e^(−kτ)), τ = 1/feeds per day.
+    const decay = Math.exp(-c.gutRelease / c.feedsPerDay);
+    y[IX.gut] = ((eatenKept / c.feedsPerDay) * decay) / (1 - decay);
+  } else {
+    y[IX.gut] = eatenKept / c.gutRelease;
+  }
   const toDetritus = eatenKept * c.gutToFaeces + (c.leftoversRemoved ? 0 : c.feedN * (1 - c.eatenShare));
   if (s.filter.establishedAtStart) {
     // Steady detritus without cleanings: tank pool drains by trapping and mineralisation.

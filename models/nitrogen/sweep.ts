@@ -8,7 +8,7 @@ import type { Quantity, Scenario } from "./scenario";
 import { ScenarioSchema } from "./scenario";
 
 /** An outcome a sweep or comparison can plot. */
-export interface Outcome {
+export interface SweepOutcome {
   id: string;
   label: string;
   quantity: Quantity;
@@ -22,7 +22,7 @@ const kf =
     r.keyFigures[k] as unknown as number | null;
 
 /** Outcomes offered by the sweep screen (values in canonical units). */
-export const OUTCOMES: readonly Outcome[] = [
+export const OUTCOMES: readonly SweepOutcome[] = [
   { id: "nitrateEnd", label: "Nitrate at the end", quantity: "nitrate", unit: "mg N/L", get: kf("nitrateEnd") },
   {
     id: "nitrateBeforeLastWaterChange",
