@@ -10,13 +10,30 @@ export default [
   route("reset-password", "routes/auth/reset-password.tsx"),
   route("account", "routes/auth/account.tsx"),
 
-  ...prefix("tanks", [index("routes/tanks/list.tsx")]),
+  ...prefix("tanks", [
+    index("routes/tanks/list.tsx"),
+    route(":tankId", "routes/tanks/detail.tsx"),
+    route(":tankId/compare", "routes/tanks/compare.tsx"),
+    route(":tankId/import", "routes/scenarios/import.tsx"),
+    route(":tankId/scenarios/new", "routes/scenarios/new.tsx"),
+    route(":tankId/scenarios/:scenarioId", "routes/scenarios/results.tsx"),
+    route(":tankId/scenarios/:scenarioId/edit", "routes/scenarios/edit.tsx"),
+    route(":tankId/scenarios/:scenarioId/export", "routes/scenarios/export.ts"),
+  ]),
 
   ...prefix("admin", [index("routes/admin/users.tsx")]),
 
   route("dev/mail", "routes/dev/mail.tsx"),
 
-  ...prefix("api", [route("health", "routes/api/health.ts")]),
+  ...prefix("api", [
+    route("health", "routes/api/health.ts"),
+    route("tanks", "routes/api/tanks.ts"),
+    route("tanks/:tankId/scenarios", "routes/api/tank-scenarios.ts"),
+    route("scenarios/:scenarioId", "routes/api/scenario.ts"),
+    route("scenarios/:scenarioId/run", "routes/api/scenario-run.ts"),
+    route("runs/:runId", "routes/api/run.ts"),
+    route("preview", "routes/api/preview.ts"),
+  ]),
 
   route("*", "routes/not-found.tsx"),
 ] satisfies RouteConfig;

@@ -1,35 +1,117 @@
 import { asc, eq } from "drizzle-orm";
+import { Form, Link, redirect, useNavigation } from "react-router";
 import type { Route } from "./+types/list";
+import { FormMessage, TextField } from "~/components/ui/field";
 import { getDb } from "~/db/client.server";
 import { tanks } from "~/db/schema";
+import { displayKeyFigures } from "~/display-figures.server";
 import { requireUser } from "~/permissions.server";
+import { displayUnitsFor, formatNumber, unitLabels } from "~/utils/display-units";
+import { fieldErrors, formValues } from "~/utils/form-errors";
+import { invalid, readForm } from "~/utils/http.server";
+import { z } from "zod";
+import { latestFiguresByTank, TankNameSchema, TankNotesSchema } from "./tanks.server";
 
 export const meta: Route.MetaFunction = () => [{ title: "Your tanks · Fernwater" }];
 
 export async function loader({ request }: Route.LoaderArgs) {
   const user = await requireUser(request);
+  const units = displayUnitsFor(user);
   const list = getDb()
     .select({ id: tanks.id, name: tanks.name, notes: tanks.notes })
     .from(tanks)
     .where(eq(tanks.ownerId, user.id))
-    .orderBy(asc(tanks.name))
+    .orderBy(asc(tanks.name), asc(tanks.id))
     .all();
-  return { tanks: list };
+  const figures = latestFiguresByTank(list.map((t) => t.id));
+  return {
+    labels: unitLabels(units),
+    tanks: list.map((t) => {
+      const latest = figures.get(t.id);
+      return { ...t, latest: latest ? { scenarioName: latest.scenarioName, figures: displayKeyFigures(latest.keyFigures, units) } : null };
+    }),
+  };
 }
 
-export default function TanksPage({ loaderData }: Route.ComponentProps) {
+const CreateTankSchema = z.object({ name: TankNameSchema, notes: TankNotesSchema });
+
+export async function action({ request }: Route.ActionArgs) {
+  const user = await requireUser(request);
+  const values = formValues(await readForm(request));
+  const parsed = CreateTankSchema.safeParse(values);
+  if (!parsed.success) return invalid(fieldErrors(parsed.error), values);
+  const tank = getDb()
+    .insert(tanks)
+    .values({ ownerId: user.id, name: parsed.data.name, notes: parsed.data.notes })
+    .returning({ id: tanks.id })
+    .get();
+  return redirect(`/tanks/${tank.id}`);
+}
+
+export default function TanksPage({ loaderData, actionData }: Route.ComponentProps) {
+  const { labels } = loaderData;
+  const busy = useNavigation().state === "submitting";
   return (
-    <div className="space-y-4">
+    <div className="space-y-6">
       <h1 className="text-2xl">Your tanks</h1>
-      {loaderData.tanks.length === 0 ? <p>You have no tanks yet.</p> : null}
-      <ul className="grid gap-4 sm:grid-cols-2">
-        {loaderData.tanks.map((t) => (
-          <li key={t.id} className="card">
-            <h2 className="text-lg">{t.name}</h2>
-            <p className="text-sm text-stone-600">{t.notes}</p>
-          </li>
-        ))}
-      </ul>
+      {loaderData.tanks.length === 0 ? (
+        <p>You have no tanks yet. Add one below, then describe it in a scenario.</p>
+      ) : (
+        <ul className="grid gap-4 sm:grid-cols-2">
+          {loaderData.tanks.map((t) => (
+            <li key={t.id} className="card space-y-2">
+              <h2 className="text-lg">
+                <Link to={`/tanks/${t.id}`} className="link">
+                  {t.name}
+                </Link>
+              </h2>
+              {t.notes ? <p className="text-sm text-stone-600">{t.notes}</p> : null}
+              {t.latest ? (
+                <dl className="grid grid-cols-3 gap-2 text-sm">
+                  <div>
+                    <dt className="text-xs text-stone-600">Nitrate at the end</dt>
+                    <dd className="figure">
+                      {formatNumber(t.latest.figures.nitrateEnd)} <span className="text-xs">{labels.nitrate}</span>
+                    </dd>
+                  </div>
+                  <div>
+                    <dt className="text-xs text-stone-600">Peak free ammonia</dt>
+                    <dd className="figure">
+                      {formatNumber(t.latest.figures.peakFreeNh3.value)} <span className="text-xs">{labels.ammonia}</span>
+                    </dd>
+                  </div>
+                  <div>
+                    <dt className="text-xs text-stone-600">Days above target</dt>
+                    <dd className="figure">{formatNumber(t.latest.figures.daysAboveNitrateTarget)}</dd>
+                  </div>
+                  <p className="col-span-3 text-xs text-stone-500">Latest run: {t.latest.scenarioName}</p>
+                </dl>
+              ) : (
+                <p className="text-sm text-stone-500">No runs yet.</p>
+              )}
+            </li>
+          ))}
+        </ul>
+      )}
+      <section className="card max-w-xl space-y-3" aria-labelledby="new-tank-title">
+        <h2 id="new-tank-title" className="text-lg">
+          Add a tank
+        </h2>
+        {actionData?.errors[""] ? <FormMessage>{actionData.errors[""]}</FormMessage> : null}
+        <Form method="post" className="space-y-3" noValidate>
+          <TextField label="Name" name="name" defaultValue={actionData?.values.name} error={actionData?.errors.name} required />
+          <TextField
+            label="Notes"
+            name="notes"
+            hint="Anything that helps you recognise it; optional."
+            defaultValue={actionData?.values.notes}
+            error={actionData?.errors.notes}
+          />
+          <button type="submit" className="btn" disabled={busy}>
+            Add tank
+          </button>
+        </Form>
+      </section>
     </div>
   );
 }

@@ -1,0 +1,79 @@
+/** Helpers for the JSON API (resource routes under /api): one error shape everywhere. */
+import type { z } from "zod";
+
+export type ApiIssue = { path: string; message: string };
+
+/** `{ status, error, issues? }` with the HTTP status; issues carry field paths. */
+export function apiError(status: number, error: string, issues?: ApiIssue[]): Response {
+  return Response.json({ status, error, ...(issues ? { issues } : {}) }, { status, headers: { "Cache-Control": "no-store" } });
+}
+
+export function zodIssues(error: z.ZodError): ApiIssue[] {
+  return error.issues.map((i) => ({ path: i.path.map(String).join("."), message: i.message }));
+}
+
+/** Reads a JSON body of at most `maxBytes`; a bad or oversized body is a 400/413, not a 500. */
+export async function readJson(request: Request, maxBytes = 256 * 1024): Promise<unknown> {
+  const type = request.headers.get("Content-Type") ?? "";
+  if (!type.includes("application/json")) throw apiError(415, "Send the body as JSON (Content-Type: application/json).");
+  const declared = Number(request.headers.get("Content-Length") ?? "0");
+  if (declared > maxBytes) throw apiError(413, `The body is larger than ${Math.round(maxBytes / 1024)} kB.`);
+  const text = await readBodyText(request, maxBytes);
+  try {
+    return JSON.parse(text);
+  } catch {
+    throw apiError(400, "The body is not valid JSON.");
+  }
+}
+
+export function json(data: unknown, init: ResponseInit = {}): Response {
+  return Response.json(data, { ...init, headers: { "Cache-Control": "no-store", ...(init.headers ?? {}) } });
+}
+
+/** The body as UTF-8 text, reading no more than `maxBytes` (the rest is never buffered). */
+export async function readBodyText(request: Request, maxBytes: number): Promise<string> {
+  if (!request.body) return "";
+  const reader = request.body.getReader();
+  const chunks: Uint8Array[] = [];
+  let size = 0;
+  try {
+    for (;;) {
+      const { done, value } = await reader.read();
+      if (done) break;
+      size += value.byteLength;
+      if (size > maxBytes) {
+        await reader.cancel().catch(() => {});
+        throw apiError(413, `The body is larger than ${Math.round(maxBytes / 1024)} kB.`);
+      }
+      chunks.push(value);
+    }
+  } catch (error) {
+    if (error instanceof Response) throw error;
+    throw apiError(400, "The body could not be read.");
+  }
+  const bytes = new Uint8Array(size);
+  let offset = 0;
+  for (const c of chunks) {
+    bytes.set(c, offset);
+    offset += c.byteLength;
+  }
+  try {
+    return new TextDecoder("utf-8", { fatal: true }).decode(bytes);
+  } catch {
+    throw apiError(400, "The body is not valid UTF-8 text.");
+  }
+}
+
+/**
+ * Runs a page guard (which throws a 404 meant for the HTML error page) and turns any 404 it
+ * throws into the API's JSON 404 instead.
+ */
+export function apiFind<T>(find: () => T, message: string): T {
+  try {
+    return find();
+  } catch (thrown) {
+    const status = thrown instanceof Response ? thrown.status : (thrown as { init?: { status?: number } })?.init?.status;
+    if (status === 404) throw apiError(404, message);
+    throw thrown;
+  }
+}

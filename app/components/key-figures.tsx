@@ -1,0 +1,51 @@
+import { formatNumber } from "~/utils/display-units";
+
+/** Key figures of a run, already in display units, for lists, results and compare. */
+export type DisplayKeyFigures = {
+  peakFreeNh3: { value: number; day: number };
+  peakNitrite: { value: number; day: number };
+  nitrateEnd: number;
+  nitrateBeforeLastWaterChange: number | null;
+  daysAboveNitrateTarget: number;
+  cyclingFinishedDay: number | null;
+  cycleSeen: boolean;
+  plantsTrimmedG: number;
+};
+
+export type FigureUnits = { ammonia: string; nitrite: string; nitrate: string };
+
+export function keyFigureRows(k: DisplayKeyFigures, u: FigureUnits): { label: string; value: string; unit: string; note?: string }[] {
+  return [
+    { label: "Peak free ammonia", value: formatNumber(k.peakFreeNh3.value), unit: u.ammonia, note: `day ${formatNumber(k.peakFreeNh3.day, 3)}` },
+    { label: "Peak nitrite", value: formatNumber(k.peakNitrite.value), unit: u.nitrite, note: `day ${formatNumber(k.peakNitrite.day, 3)}` },
+    { label: "Nitrate at the end", value: formatNumber(k.nitrateEnd), unit: u.nitrate },
+    {
+      label: "Nitrate before the last water change",
+      value: k.nitrateBeforeLastWaterChange === null ? "–" : formatNumber(k.nitrateBeforeLastWaterChange),
+      unit: k.nitrateBeforeLastWaterChange === null ? "" : u.nitrate,
+    },
+    { label: "Days above the nitrate target", value: formatNumber(k.daysAboveNitrateTarget, 3), unit: "days" },
+    {
+      label: "Cycling finished",
+      value: k.cyclingFinishedDay === null ? (k.cycleSeen ? "not yet" : "no cycle seen") : `day ${formatNumber(k.cyclingFinishedDay, 3)}`,
+      unit: "",
+    },
+    { label: "Plants trimmed out", value: formatNumber(k.plantsTrimmedG), unit: "g dry" },
+  ];
+}
+
+export function KeyFiguresList({ figures, units }: { figures: DisplayKeyFigures; units: FigureUnits }) {
+  return (
+    <dl className="grid grid-cols-1 gap-3 sm:grid-cols-2 lg:grid-cols-4">
+      {keyFigureRows(figures, units).map((r) => (
+        <div key={r.label} className="rounded-md border border-stone-200 bg-white p-3">
+          <dt className="text-xs text-stone-600">{r.label}</dt>
+          <dd className="figure text-lg text-stone-900">
+            {r.value} <span className="text-xs text-stone-600">{r.unit}</span>
+          </dd>
+          {r.note ? <dd className="text-xs text-stone-500">{r.note}</dd> : null}
+        </div>
+      ))}
+    </dl>
+  );
+}

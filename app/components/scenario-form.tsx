@@ -1,0 +1,301 @@
+import { useRef, useState } from "react";
+import { Form, useNavigation } from "react-router";
+import { FormMessage } from "~/components/ui/field";
+import type { FieldErrors } from "~/utils/form-errors";
+import type { FormField, PlantRow, ScenarioFormModel } from "~/utils/scenario-form-types";
+
+type Props = {
+  model: ScenarioFormModel;
+  errors: FieldErrors;
+  submitLabel: string;
+  /** Extra submit buttons (e.g. "Save as a new scenario"). */
+  extraActions?: { intent: string; label: string }[];
+  /** Sections open at first (those with errors open too). */
+  openSections?: string[];
+  /** Note above the form: which units are in use and where to change them. */
+  unitsNote: React.ReactNode;
+  /** Field names a lesson locks; drawn read-only. */
+  locked?: ReadonlySet<string>;
+};
+
+function FieldInput({ field, error, locked }: { field: FormField; error?: string; locked?: boolean }) {
+  const id = `f-${field.name.replace(/\./g, "-")}`;
+  const describedBy = [field.hint ? `${id}-hint` : null, error ? `${id}-error` : null].filter(Boolean).join(" ") || undefined;
+  const common = {
+    id,
+    name: field.name,
+    "aria-invalid": error ? true : undefined,
+    "aria-describedby": describedBy,
+    disabled: locked,
+  } as const;
+  let control: React.ReactNode;
+  if (field.kind === "boolean") {
+    control = (
+      <span className="flex items-center gap-2">
+        {locked ? null : <input type="hidden" name={field.name} value="false" />}
+        <input {...common} type="checkbox" value="true" defaultChecked={field.value === "true"} className="h-5 w-5 accent-fern-700" />
+        <label htmlFor={id} className="text-sm font-semibold text-stone-800">
+          {field.label}
+        </label>
+      </span>
+    );
+  } else if (field.kind === "enum") {
+    control = (
+      <select {...common} defaultValue={field.value} className="input">
+        {field.options?.map((o) => (
+          <option key={o.value} value={o.value}>
+            {o.label}
+          </option>
+        ))}
+      </select>
+    );
+  } else {
+    control = (
+      <span className="flex items-center gap-2">
+        <input
+          {...common}
+          type="number"
+          step="any"
+          inputMode="decimal"
+          min={field.min ?? undefined}
+          max={field.max ?? undefined}
+          defaultValue={field.value}
+          className="input figure"
+        />
+        {field.unit ? <span className="shrink-0 text-sm text-stone-600">{field.unit}</span> : null}
+      </span>
+    );
+  }
+  return (
+    <div className="space-y-1">
+      {field.kind === "boolean" ? null : (
+        <label htmlFor={id} className="block text-sm font-semibold text-stone-800">
+          {field.label}
+          {locked ? <span className="ml-2 text-xs font-normal text-stone-500">(locked by the lesson)</span> : null}
+        </label>
+      )}
+      {locked && field.kind !== "boolean" ? <input type="hidden" name={field.name} value={field.value} /> : null}
+      {locked && field.kind === "boolean" ? <input type="hidden" name={field.name} value={field.value} /> : null}
+      {control}
+      <p id={`${id}-hint`} className="text-xs text-stone-600">
+        {field.hint}
+      </p>
+      {error ? (
+        <p id={`${id}-error`} className="text-sm font-semibold text-red-800" role="alert">
+          {error}
+        </p>
+      ) : null}
+    </div>
+  );
+}
+
+function PlantRowFields({
+  row,
+  errors,
+  onGrowthForm,
+  onRemove,
+  locked,
+}: {
+  row: PlantRow;
+  errors: FieldErrors;
+  onGrowthForm: (index: number, form: string) => void;
+  onRemove: (index: number) => void;
+  locked?: ReadonlySet<string>;
+}) {
+  const name = row.fields.find((f) => f.name.endsWith(".name"))?.value || `Plant group ${row.index + 1}`;
+  const rowLocked = row.fields.every((f) => locked?.has(f.name));
+  return (
+    <fieldset className="rounded-md border border-stone-200 p-3 sm:p-4" data-plant-row={row.index}>
+      <legend className="px-1 text-sm font-semibold text-fern-800">{name}</legend>
+      <input type="hidden" name={`plants.${row.index}.id`} value={row.id} />
+      <div
+        className="grid gap-4 sm:grid-cols-2 lg:grid-cols-3"
+        onChange={(e) => {
+          const target = e.target as unknown as HTMLSelectElement;
+          if (target.name === `plants.${row.index}.growthForm`) onGrowthForm(row.index, target.value);
+        }}
+      >
+        {row.fields.map((f) => (
+          <FieldInput key={f.name} field={f} error={errors[f.name]} locked={locked?.has(f.name)} />
+        ))}
+      </div>
+      {rowLocked ? null : (
+        <button
+          type="submit"
+          name="intent"
+          value={`remove-plant:${row.index}`}
+          className="btn-secondary mt-3"
+          onClick={(e) => {
+            e.preventDefault();
+            onRemove(row.index);
+          }}
+        >
+          Remove {name}
+        </button>
+      )}
+    </fieldset>
+  );
+}
+
+/**
+ * The scenario setup form. Works without JavaScript (adding and removing plant rows are
+ * submit buttons the server answers); with JavaScript those happen in place and choosing a
+ * growth form fills in its typical values.
+ */
+export function ScenarioForm({ model, errors, submitLabel, extraActions = [], openSections = ["water"], unitsNote, locked }: Props) {
+  const busy = useNavigation().state === "submitting";
+  const formRef = useRef<HTMLFormElement>(null);
+  const [rows, setRows] = useState(model.plants);
+  const [rowsFrom, setRowsFrom] = useState(model);
+  const [nextId, setNextId] = useState(model.plants.length + 1);
+  if (rowsFrom !== model) {
+    // A new model came from the server (a refused save, a preset): start again from it.
+    setRowsFrom(model);
+    setRows(model.plants);
+  }
+  const errorNames = Object.keys(errors).filter((k) => k !== "");
+  const labelOf = (name: string) => {
+    if (name === "name") return "Scenario name";
+    const field = [...model.sections.flatMap((s) => s.fields), ...rows.flatMap((r) => r.fields)].find((f) => f.name === name);
+    const row = /^plants\.(\d+)\./.exec(name);
+    return field ? (row ? `${field.label} (plant group ${Number(row[1]) + 1})` : field.label) : name;
+  };
+  const sectionHasError = (id: string) =>
+    errorNames.some((n) => (id === "plants" ? n.startsWith("plants") : model.sections.find((s) => s.id === id)?.fields.some((f) => f.name === n)));
+
+  const fillGrowthForm = (index: number, form: string) => {
+    const preset = model.growthFormPresets[form];
+    const el = formRef.current;
+    if (!preset || !el) return;
+    for (const [suffix, value] of Object.entries(preset)) {
+      const input = el.elements.namedItem(`plants.${index}.${suffix}`) as HTMLInputElement | null;
+      if (input && suffix !== "name") input.value = value;
+    }
+  };
+
+  const addRow = (form: string) => {
+    const template = rows[0] ?? model.plants[0];
+    const preset = model.growthFormPresets[form] ?? {};
+    const index = rows.length ? Math.max(...rows.map((r) => r.index)) + 1 : 0;
+    const fields: FormField[] = (template?.fields ?? []).map((f) => {
+      const suffix = f.name.split(".").slice(2).join(".");
+      const value = suffix === "growthForm" ? form : (preset[suffix] ?? f.value);
+      return { ...f, name: `plants.${index}.${suffix}`, value };
+    });
+    if (!fields.length) return; // no template row: fall back to the server round trip
+    setRows([...rows, { index, id: `group-new-${nextId}`, fields }]);
+    setNextId(nextId + 1);
+  };
+
+  return (
+    <Form method="post" ref={formRef} noValidate className="space-y-4">
+      {errors[""] ? <FormMessage>{errors[""]}</FormMessage> : null}
+      {errorNames.length ? (
+        <FormMessage>
+          {errorNames.length === 1 ? "One setting needs" : `${errorNames.length} settings need`} attention:{" "}
+          {errorNames.slice(0, 6).map((n, i) => (
+            <span key={n}>
+              {i ? ", " : ""}
+              <a className="link" href={`#f-${n.replace(/\./g, "-")}`}>
+                {labelOf(n)}
+              </a>
+            </span>
+          ))}
+          {errorNames.length > 6 ? "…" : ""}
+        </FormMessage>
+      ) : null}
+      <div className="text-sm text-stone-600">{unitsNote}</div>
+      <div className="space-y-1">
+        <label htmlFor="f-name" className="block text-sm font-semibold text-stone-800">
+          Scenario name
+        </label>
+        <input
+          id="f-name"
+          name="name"
+          defaultValue={model.name}
+          className="input"
+          maxLength={120}
+          aria-invalid={errors.name ? true : undefined}
+          aria-describedby={errors.name ? "f-name-error" : undefined}
+        />
+        {errors.name ? (
+          <p id="f-name-error" className="text-sm font-semibold text-red-800" role="alert">
+            {errors.name}
+          </p>
+        ) : null}
+      </div>
+      {model.sections.map((section) => (
+        <details
+          key={section.id}
+          open={openSections.includes(section.id) || sectionHasError(section.id)}
+          className="card group"
+          id={`section-${section.id}`}
+        >
+          <summary className="cursor-pointer text-lg font-semibold text-fern-900">{section.title}</summary>
+          <p className="mt-1 text-sm text-stone-600">{section.intro}</p>
+          {section.id === "plants" ? (
+            <div className="mt-4 space-y-4">
+              {rows.length === 0 ? <p className="text-sm">No plant groups: nothing takes nitrogen up but bacteria and water changes.</p> : null}
+              {rows.map((row) => (
+                <PlantRowFields
+                  key={row.id}
+                  row={row}
+                  errors={errors}
+                  locked={locked}
+                  onGrowthForm={fillGrowthForm}
+                  onRemove={(index) => setRows(rows.filter((r) => r.index !== index))}
+                />
+              ))}
+              <div className="flex flex-wrap items-end gap-2">
+                <div className="space-y-1">
+                  <label htmlFor="new-plant-form" className="block text-sm font-semibold text-stone-800">
+                    Growth form of the new group
+                  </label>
+                  <select id="new-plant-form" name="newPlantForm" className="input" defaultValue="floating">
+                    {model.growthForms.map((g) => (
+                      <option key={g.value} value={g.value}>
+                        {g.label}
+                      </option>
+                    ))}
+                  </select>
+                </div>
+                <button
+                  type="submit"
+                  name="intent"
+                  value="add-plant"
+                  className="btn-secondary"
+                  disabled={rows.length >= 12}
+                  onClick={(e) => {
+                    const select = formRef.current?.elements.namedItem("newPlantForm") as HTMLSelectElement | null;
+                    if (rows.length > 0 && select) {
+                      e.preventDefault();
+                      addRow(select.value);
+                    }
+                  }}
+                >
+                  Add a plant group
+                </button>
+              </div>
+            </div>
+          ) : (
+            <div className="mt-4 grid gap-4 sm:grid-cols-2 lg:grid-cols-3">
+              {section.fields.map((f) => (
+                <FieldInput key={f.name} field={f} error={errors[f.name]} locked={locked?.has(f.name)} />
+              ))}
+            </div>
+          )}
+        </details>
+      ))}
+      <div className="flex flex-wrap gap-3">
+        <button type="submit" name="intent" value="save" className="btn" disabled={busy}>
+          {busy ? "Running the model…" : submitLabel}
+        </button>
+        {extraActions.map((a) => (
+          <button key={a.intent} type="submit" name="intent" value={a.intent} className="btn-secondary" disabled={busy}>
+            {a.label}
+          </button>
+        ))}
+      </div>
+    </Form>
+  );
+}

@@ -1,0 +1,34 @@
+/**
+ * Everything a results view draws for one run, in the viewer's units. Shared by the owner's
+ * results page, the public share page and the classroom views, so they all show the same.
+ */
+import type { NitrogenBudget, Scenario } from "../models";
+import type { ChartEvent } from "~/components/charts/types";
+import { displayGuides, displayKeyFigures, displaySeries } from "~/display-figures.server";
+import { speciesFactor } from "~/display-units.server";
+import type { StoredRun } from "~/simulation.server";
+import { unitLabels, type DisplayUnits } from "~/utils/display-units";
+
+/** WHO Guidelines for Drinking-water Quality: nitrate 50 mg/L as NO3 = 11.29 mg/L as N. */
+export const DRINKING_WATER_NITRATE_MG_N = 50 * 0.2259;
+
+export function resultsPayload(run: StoredRun, scenario: Scenario, units: DisplayUnits) {
+  const labels = unitLabels(units);
+  return {
+    runId: run.id,
+    labels,
+    series: displaySeries(run.series, units),
+    events: run.events.map((e): ChartEvent => ({ day: e.day, kind: e.kind, detail: e.detail })),
+    guides: displayGuides(scenario.targets, units),
+    keyFigures: displayKeyFigures(run.keyFigures, units),
+    budget: run.budget as NitrogenBudget,
+    stats: { steps: run.stats.steps, rhsEvals: run.stats.rhsEvals, wallMs: Math.round(run.stats.wallMs * 10) / 10 },
+    engineVersion: run.engineVersion,
+    nitrateFactor: speciesFactor("nitrate", units),
+    tapNitrateAboveDrinkingLimit: scenario.tapWater.nitrate > DRINKING_WATER_NITRATE_MG_N,
+    tapNitrateDisplay: scenario.tapWater.nitrate * speciesFactor("nitrate", units),
+    lengthDays: scenario.run.lengthDays,
+  };
+}
+
+export type ResultsPayload = ReturnType<typeof resultsPayload>;

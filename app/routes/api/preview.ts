@@ -1,0 +1,85 @@
+import { RateLimiterMemory } from "rate-limiter-flexible";
+import { z } from "zod";
+import type { Route } from "./+types/preview";
+import { parseScenario } from "../../../models";
+import { apiError, apiFind, json, readJson, zodIssues } from "~/api.server";
+import { displayKeyFigures, displaySeries } from "~/display-figures.server";
+import { requireApiUser } from "~/permissions.server";
+import { runOrRefuse } from "~/scenario-api.server";
+import { readStoredSettings, withTankTargets } from "~/simulation.server";
+import { requireOwnedScenarioById } from "~/tanks.server";
+import { displayUnitsFor } from "~/utils/display-units";
+import { applyWhatIf, WhatIfSchema } from "~/what-if.server";
+
+/** Previews are for trying things: at most a year of model time, at most ~1,500 chart points. */
+export const PREVIEW_MAX_DAYS = 365;
+const MAX_POINTS = 1500;
+export const PREVIEWS_PER_MINUTE = 60;
+
+const limiter = new RateLimiterMemory({ points: PREVIEWS_PER_MINUTE, duration: 60 });
+
+const BodySchema = z.union([
+  z.object({ settings: z.unknown() }).strict(),
+  z.object({ scenarioId: z.number().int().positive(), whatIf: WhatIfSchema }).strict(),
+]);
+
+/**
+ * POST /api/preview — run settings without saving. Body either `{ settings }` (a whole
+ * scenario, canonical units) or `{ scenarioId, whatIf }` (changes on top of a saved scenario).
+ * `?units=display` answers in the signed-in person's units (what the results page overlays).
+ */
+export async function action({ request }: Route.ActionArgs) {
+  const user = await requireApiUser(request);
+  if (request.method !== "POST") return apiError(405, "Use POST to preview.");
+  try {
+    await limiter.consume(String(user.id));
+  } catch {
+    return apiError(429, `Too many previews: at most ${PREVIEWS_PER_MINUTE} a minute. Wait a moment.`);
+  }
+  const body = BodySchema.safeParse(await readJson(request));
+  if (!body.success) {
+    return apiError(400, "Send { settings } or { scenarioId, whatIf }.", zodIssues(body.error));
+  }
+  let scenario;
+  if ("settings" in body.data) {
+    const parsed = parseScenario(body.data.settings ?? {});
+    if (!parsed.success) {
+      return apiError(400, "The settings are not valid.", zodIssues(parsed.error).map((i) => ({ ...i, path: `settings.${i.path}` })));
+    }
+    if (parsed.data.run.lengthDays > PREVIEW_MAX_DAYS) {
+      return apiError(400, `Previews run at most ${PREVIEW_MAX_DAYS} days; save the scenario to run longer.`, [
+        { path: "settings.run.lengthDays", message: `At most ${PREVIEW_MAX_DAYS} days in a preview.` },
+      ]);
+    }
+    scenario = parsed.data;
+  } else {
+    const { scenarioId, whatIf } = body.data;
+    const { tank, scenario: row } = apiFind(() => requireOwnedScenarioById(user.id, String(scenarioId)), "There is no such scenario among yours.");
+    const saved = readStoredSettings(row.settings);
+    if (!saved) return apiError(409, "The saved settings can no longer be read.");
+    const changed = withTankTargets(applyWhatIf(saved, whatIf), tank);
+    const parsed = parseScenario(changed);
+    if (!parsed.success) return apiError(400, "Those changes make the settings invalid.", zodIssues(parsed.error));
+    scenario = { ...parsed.data, run: { ...parsed.data.run, lengthDays: Math.min(parsed.data.run.lengthDays, PREVIEW_MAX_DAYS) } };
+  }
+  const interval = Math.max(scenario.run.outputIntervalDays, scenario.run.lengthDays / MAX_POINTS);
+  const result = await runOrRefuse({ ...scenario, run: { ...scenario.run, outputIntervalDays: Math.min(7, interval) } });
+  const display = new URL(request.url).searchParams.get("units") === "display";
+  if (display) {
+    const units = displayUnitsFor(user);
+    return json({
+      units: "display",
+      keyFigures: displayKeyFigures(result.keyFigures, units),
+      series: displaySeries(result.series, units),
+      lengthDays: scenario.run.lengthDays,
+    });
+  }
+  return json({
+    units: "canonical",
+    keyFigures: result.keyFigures,
+    budget: result.budget,
+    events: result.events,
+    series: result.series,
+    stats: result.stats,
+  });
+}

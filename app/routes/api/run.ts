@@ -1,0 +1,73 @@
+import { and, eq } from "drizzle-orm";
+import type { Route } from "./+types/run";
+import { apiError, json } from "~/api.server";
+import { toCsv, type CsvCell } from "~/components/charts/csv";
+import { getDb } from "~/db/client.server";
+import { runs, scenarios, tanks } from "~/db/schema";
+import { requireApiUser } from "~/permissions.server";
+import { runSummaryJson } from "~/scenario-api.server";
+import { getRun, type StoredRun } from "~/simulation.server";
+
+/** The run's series in canonical units, one row per sample (both samples of each event). */
+function runCsv(run: StoredRun): string {
+  const s = run.series;
+  const header: CsvCell[] = [
+    "day",
+    "tan_mg_n_per_l",
+    "free_nh3_mg_n_per_l",
+    "nitrite_mg_n_per_l",
+    "nitrate_mg_n_per_l",
+    "kh_dkh",
+    "ph",
+    ...s.plants.map((p) => `plants_${p.id}_g_dry`),
+    "ammonia_oxidisers_mg_n",
+    "nitrite_oxidisers_mg_n",
+    "organic_n_water_mg_n",
+    "organic_n_filter_mg_n",
+  ];
+  const rows: CsvCell[][] = [header];
+  for (let i = 0; i < s.t.length; i++) {
+    rows.push([
+      s.t[i],
+      s.tan[i],
+      s.nh3[i],
+      s.no2[i],
+      s.no3[i],
+      s.kh[i],
+      s.ph[i],
+      ...s.plants.map((p) => p.massG[i]),
+      s.aob[i],
+      s.nob[i],
+      s.organicWater[i],
+      s.organicFilter[i],
+    ]);
+  }
+  return toCsv(rows);
+}
+
+/** GET /api/runs/:runId — the whole run as JSON; `?format=csv` for the series as CSV. */
+export async function loader({ request, params }: Route.LoaderArgs) {
+  const user = await requireApiUser(request);
+  const runId = /^\d{1,12}$/.test(params.runId ?? "") ? Number(params.runId) : 0;
+  const owned = getDb()
+    .select({ id: runs.id })
+    .from(runs)
+    .innerJoin(scenarios, eq(scenarios.id, runs.scenarioId))
+    .innerJoin(tanks, eq(tanks.id, scenarios.tankId))
+    .where(and(eq(runs.id, runId), eq(tanks.ownerId, user.id)))
+    .get();
+  const run = owned ? getRun(owned.id) : null;
+  if (!run) return apiError(404, "There is no such run among yours.");
+  const format = new URL(request.url).searchParams.get("format") ?? "json";
+  if (format === "csv") {
+    return new Response(runCsv(run), {
+      headers: {
+        "Content-Type": "text/csv; charset=utf-8",
+        "Content-Disposition": `attachment; filename="fernwater-run-${run.id}.csv"`,
+        "Cache-Control": "private, max-age=3600",
+      },
+    });
+  }
+  if (format !== "json") return apiError(400, "format must be json or csv.", [{ path: "format", message: "Use json or csv." }]);
+  return json({ run: { ...runSummaryJson(run), series: run.series } });
+}

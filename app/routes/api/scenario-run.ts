@@ -1,0 +1,34 @@
+import type { Route } from "./+types/scenario-run";
+import { apiError, apiFind, json } from "~/api.server";
+import { requireApiUser } from "~/permissions.server";
+import { runOrRefuse, runSummaryJson } from "~/scenario-api.server";
+import { findRun, readStoredSettings, settingsHash, storeRun, withTankTargets } from "~/simulation.server";
+import { requireOwnedScenarioById } from "~/tanks.server";
+
+const NOT_FOUND = "There is no such scenario among yours.";
+
+async function currentRun(request: Request, scenarioIdParam: string | undefined, runIfMissing: boolean) {
+  const user = await requireApiUser(request);
+  const { tank, scenario } = apiFind(() => requireOwnedScenarioById(user.id, scenarioIdParam), NOT_FOUND);
+  const settings = readStoredSettings(scenario.settings);
+  if (!settings) throw apiError(409, "The saved settings can no longer be read; update the scenario first.");
+  const withTargets = withTankTargets(settings, tank);
+  const hash = settingsHash(withTargets);
+  const existing = findRun(scenario.id, hash);
+  if (existing) return { run: existing, reused: true };
+  if (!runIfMissing) throw apiError(404, "This scenario has no run for its current settings yet: POST to run it.");
+  return { run: storeRun(scenario.id, hash, await runOrRefuse(withTargets)), reused: false };
+}
+
+/** GET /api/scenarios/:scenarioId/run: the run of the current settings (404 if not run yet). */
+export async function loader({ request, params }: Route.LoaderArgs) {
+  const { run } = await currentRun(request, params.scenarioId, false);
+  return json({ run: runSummaryJson(run), reused: true });
+}
+
+/** POST /api/scenarios/:scenarioId/run: run it (or reuse the stored run of unchanged settings). */
+export async function action({ request, params }: Route.ActionArgs) {
+  if (request.method !== "POST") return apiError(405, "Use POST to run a scenario.");
+  const { run, reused } = await currentRun(request, params.scenarioId, true);
+  return json({ run: runSummaryJson(run), reused }, { status: reused ? 200 : 201 });
+}

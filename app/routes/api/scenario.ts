@@ -1,0 +1,33 @@
+import type { Route } from "./+types/scenario";
+import { apiError, apiFind, json, readJson, zodIssues } from "~/api.server";
+import { getDb } from "~/db/client.server";
+import { scenarios } from "~/db/schema";
+import { eq } from "drizzle-orm";
+import { requireApiUser } from "~/permissions.server";
+import { ScenarioPatchSchema, requireValidSettings, saveScenarioWithRun, scenarioJson } from "~/scenario-api.server";
+import { readStoredSettings } from "~/simulation.server";
+import { requireOwnedScenarioById } from "~/tanks.server";
+
+const NOT_FOUND = "There is no such scenario among yours.";
+
+/** GET /api/scenarios/:scenarioId */
+export async function loader({ request, params }: Route.LoaderArgs) {
+  const user = await requireApiUser(request);
+  const { scenario } = apiFind(() => requireOwnedScenarioById(user.id, params.scenarioId), NOT_FOUND);
+  return json({ scenario: scenarioJson(scenario) });
+}
+
+/** PUT or PATCH /api/scenarios/:scenarioId { name?, settings? }: update, validate and re-run. */
+export async function action({ request, params }: Route.ActionArgs) {
+  const user = await requireApiUser(request);
+  const { tank, scenario } = apiFind(() => requireOwnedScenarioById(user.id, params.scenarioId), NOT_FOUND);
+  if (request.method !== "PUT" && request.method !== "PATCH") return apiError(405, "Use PUT or PATCH to update a scenario.");
+  const body = ScenarioPatchSchema.safeParse(await readJson(request));
+  if (!body.success) return apiError(400, "The body is not valid.", zodIssues(body.error));
+  const settings =
+    body.data.settings !== undefined ? requireValidSettings(body.data.settings) : readStoredSettings(scenario.settings);
+  if (!settings) return apiError(409, "The saved settings can no longer be read; send new settings.");
+  await saveScenarioWithRun(tank, scenario.id, body.data.name ?? scenario.name, settings);
+  const row = getDb().select().from(scenarios).where(eq(scenarios.id, scenario.id)).get()!;
+  return json({ scenario: scenarioJson(row) });
+}

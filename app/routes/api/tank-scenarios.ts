@@ -1,0 +1,32 @@
+import type { Route } from "./+types/tank-scenarios";
+import { apiError, apiFind, json, readJson, zodIssues } from "~/api.server";
+import { requireApiUser } from "~/permissions.server";
+import { ScenarioBodySchema, requireValidSettings, saveScenarioWithRun, scenarioJson } from "~/scenario-api.server";
+import { listScenarios, requireOwnedTank } from "~/tanks.server";
+import { getDb } from "~/db/client.server";
+import { scenarios } from "~/db/schema";
+import { eq } from "drizzle-orm";
+
+/** GET /api/tanks/:tankId/scenarios: the tank's scenarios (settings included). */
+export async function loader({ request, params }: Route.LoaderArgs) {
+  const user = await requireApiUser(request);
+  const tank = requireOwnedTankForApi(user.id, params.tankId);
+  return json({ scenarios: listScenarios(tank.id).map(scenarioJson) });
+}
+
+/** POST /api/tanks/:tankId/scenarios: create a scenario { name, settings } and run it. */
+export async function action({ request, params }: Route.ActionArgs) {
+  const user = await requireApiUser(request);
+  const tank = requireOwnedTankForApi(user.id, params.tankId);
+  if (request.method !== "POST") return apiError(405, "Use POST to create a scenario.");
+  const body = ScenarioBodySchema.safeParse(await readJson(request));
+  if (!body.success) return apiError(400, "The body is not valid.", zodIssues(body.error));
+  const settings = requireValidSettings(body.data.settings);
+  const id = await saveScenarioWithRun(tank, "new", body.data.name, settings);
+  const row = getDb().select().from(scenarios).where(eq(scenarios.id, id)).get()!;
+  return json({ scenario: scenarioJson(row), links: { run: `/api/scenarios/${id}/run` } }, { status: 201 });
+}
+
+function requireOwnedTankForApi(userId: number, tankId: string | undefined) {
+  return apiFind(() => requireOwnedTank(userId, tankId), "There is no such tank among yours.");
+}

@@ -1,0 +1,26 @@
+import { asc, eq } from "drizzle-orm";
+import type { Route } from "./+types/tanks";
+import { json } from "~/api.server";
+import { getDb } from "~/db/client.server";
+import { tanks } from "~/db/schema";
+import { requireApiUser } from "~/permissions.server";
+
+/** GET /api/tanks: the signed-in keeper's tanks. */
+export async function loader({ request }: Route.LoaderArgs) {
+  const user = await requireApiUser(request);
+  const list = getDb()
+    .select({
+      id: tanks.id,
+      name: tanks.name,
+      notes: tanks.notes,
+      nitrateTargetLowMgN: tanks.nitrateTargetLow,
+      nitrateTargetHighMgN: tanks.nitrateTargetHigh,
+      createdAt: tanks.createdAt,
+      updatedAt: tanks.updatedAt,
+    })
+    .from(tanks)
+    .where(eq(tanks.ownerId, user.id))
+    .orderBy(asc(tanks.id))
+    .all();
+  return json({ tanks: list });
+}

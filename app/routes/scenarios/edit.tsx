@@ -1,0 +1,76 @@
+import { Link, redirect } from "react-router";
+import type { Route } from "./+types/edit";
+import { ScenarioForm } from "~/components/scenario-form";
+import { FormMessage } from "~/components/ui/field";
+import { requireUser } from "~/permissions.server";
+import { buildScenarioForm } from "~/scenario-form.server";
+import { readStoredSettings } from "~/simulation.server";
+import { requireOwnedScenario } from "~/tanks.server";
+import { readForm } from "~/utils/http.server";
+import { handleSetupSubmission, unitsOf, unitsSummary } from "./setup.server";
+
+export const meta: Route.MetaFunction = ({ data }) => [{ title: `Edit ${data?.scenario.name ?? "scenario"} · Fernwater` }];
+
+export async function loader({ request, params }: Route.LoaderArgs) {
+  const user = await requireUser(request);
+  const { tank, scenario } = requireOwnedScenario(user.id, params.tankId, params.scenarioId);
+  const settings = readStoredSettings(scenario.settings);
+  const units = unitsOf(user);
+  return {
+    tank: { id: tank.id, name: tank.name },
+    scenario: { id: scenario.id, name: scenario.name },
+    form: settings ? buildScenarioForm(scenario.name, settings, units) : null,
+    unitsNote: unitsSummary(units),
+  };
+}
+
+export async function action({ request, params }: Route.ActionArgs) {
+  const user = await requireUser(request);
+  const { tank, scenario } = requireOwnedScenario(user.id, params.tankId, params.scenarioId);
+  const baseline = readStoredSettings(scenario.settings) ?? undefined;
+  const outcome = await handleSetupSubmission(await readForm(request), user, tank, scenario.id, baseline);
+  if ("scenarioId" in outcome) return redirect(`/tanks/${tank.id}/scenarios/${outcome.scenarioId}`);
+  return outcome;
+}
+
+export default function EditScenarioPage({ loaderData, actionData }: Route.ComponentProps) {
+  const { tank, scenario } = loaderData;
+  const form = actionData?.form ?? loaderData.form;
+  return (
+    <div className="space-y-6">
+      <nav aria-label="Breadcrumb" className="text-sm">
+        <Link to="/tanks" className="link">
+          Tanks
+        </Link>{" "}
+        /{" "}
+        <Link to={`/tanks/${tank.id}`} className="link">
+          {tank.name}
+        </Link>{" "}
+        /{" "}
+        <Link to={`/tanks/${tank.id}/scenarios/${scenario.id}`} className="link">
+          {scenario.name}
+        </Link>{" "}
+        / Edit
+      </nav>
+      <h1 className="text-2xl">Edit {scenario.name}</h1>
+      {form ? (
+        <ScenarioForm
+          model={form}
+          errors={actionData?.errors ?? {}}
+          submitLabel="Save and run"
+          extraActions={[{ intent: "save-as-new", label: "Save as a new scenario" }]}
+          unitsNote={
+            <>
+              {loaderData.unitsNote}{" "}
+              <Link to="/account" className="link">
+                Change units
+              </Link>
+            </>
+          }
+        />
+      ) : (
+        <FormMessage>The saved settings of this scenario can no longer be read. Create a new scenario instead.</FormMessage>
+      )}
+    </div>
+  );
+}

@@ -1,0 +1,95 @@
+import { Form, Link, redirect, useNavigation } from "react-router";
+import type { Route } from "./+types/import";
+import { FormMessage } from "~/components/ui/field";
+import { requireUser } from "~/permissions.server";
+import { readScenarioFile } from "~/scenario-file.server";
+import { saveScenarioWithRun } from "~/scenario-api.server";
+import { requireOwnedTank } from "~/tanks.server";
+import { readUpload, UploadError } from "~/uploads.server";
+import { invalid } from "~/utils/http.server";
+
+export const meta: Route.MetaFunction = () => [{ title: "Import a scenario · Fernwater" }];
+
+const MAX_FILE_BYTES = 256 * 1024;
+
+export async function loader({ request, params }: Route.LoaderArgs) {
+  const user = await requireUser(request);
+  const tank = requireOwnedTank(user.id, params.tankId);
+  return { tank: { id: tank.id, name: tank.name } };
+}
+
+export async function action({ request, params }: Route.ActionArgs) {
+  const user = await requireUser(request);
+  const tank = requireOwnedTank(user.id, params.tankId);
+  let upload;
+  try {
+    upload = await readUpload(request, MAX_FILE_BYTES);
+  } catch (error) {
+    if (error instanceof UploadError) return invalid({ file: error.message });
+    throw error;
+  }
+  if (!upload.file || upload.file.text.trim() === "") return invalid({ file: "Choose a scenario file (.json) to upload." });
+  const read = readScenarioFile(upload.file.text);
+  if (!read.ok) {
+    const details = Object.entries(read.issues).slice(0, 8).map(([path, message]) => `${path}: ${message}`);
+    return invalid({ file: [read.message, ...details].join(" — ") });
+  }
+  const name = read.name ?? upload.file.name.replace(/(\.fernwater)?\.json$/i, "").slice(0, 120) ?? "Imported scenario";
+  try {
+    const id = await saveScenarioWithRun(tank, "new", name || "Imported scenario", read.scenario);
+    return redirect(`/tanks/${tank.id}/scenarios/${id}`);
+  } catch (error) {
+    if (error instanceof Response) {
+      const body = (await error.json()) as { error: string };
+      return invalid({ file: `The model could not run the imported settings: ${body.error}` });
+    }
+    throw error;
+  }
+}
+
+export default function ImportScenarioPage({ loaderData, actionData }: Route.ComponentProps) {
+  const busy = useNavigation().state === "submitting";
+  const error = actionData?.errors.file;
+  return (
+    <div className="mx-auto max-w-2xl space-y-4">
+      <nav aria-label="Breadcrumb" className="text-sm">
+        <Link to="/tanks" className="link">
+          Tanks
+        </Link>{" "}
+        /{" "}
+        <Link to={`/tanks/${loaderData.tank.id}`} className="link">
+          {loaderData.tank.name}
+        </Link>{" "}
+        / Import
+      </nav>
+      <h1 className="text-2xl">Import a scenario file</h1>
+      <p className="text-sm text-stone-700">
+        Upload a file exported from Fernwater (<code>.fernwater.json</code>, at most 256 kB). Files from older versions are
+        brought up to date; the scenario is added to {loaderData.tank.name} and run.
+      </p>
+      {actionData?.errors[""] ? <FormMessage>{actionData.errors[""]}</FormMessage> : null}
+      <Form method="post" encType="multipart/form-data" className="card space-y-3">
+        <label htmlFor="scenario-file" className="block text-sm font-semibold">
+          Scenario file
+        </label>
+        <input
+          id="scenario-file"
+          type="file"
+          name="file"
+          accept=".json,application/json"
+          className="block w-full text-sm"
+          aria-invalid={error ? true : undefined}
+          aria-describedby={error ? "scenario-file-error" : undefined}
+        />
+        {error ? (
+          <p id="scenario-file-error" className="text-sm font-semibold text-red-800" role="alert">
+            {error}
+          </p>
+        ) : null}
+        <button type="submit" className="btn" disabled={busy}>
+          {busy ? "Importing…" : "Import and run"}
+        </button>
+      </Form>
+    </div>
+  );
+}

@@ -1,0 +1,129 @@
+/**
+ * Server code shared by the "new scenario" and "edit scenario" routes: reading the form,
+ * answering the add/remove-plant buttons, validating, running the engine and saving the
+ * scenario with its run in one transaction.
+ */
+import { data } from "react-router";
+import { z } from "zod";
+import { ScenarioSchema, type Scenario } from "../../../models";
+import { getDb } from "~/db/client.server";
+import { scenarios, tanks } from "~/db/schema";
+import { eq } from "drizzle-orm";
+import {
+  buildScenarioForm,
+  newPlantGroup,
+  parseScenarioForm,
+  plantRowsFromValues,
+  renumberPlantRows,
+} from "~/scenario-form.server";
+import type { SessionUser } from "~/session.server";
+import { insertRun, isModelError, runEngine, settingsHash, withTankTargets } from "~/simulation.server";
+import type { TankRow } from "~/tanks.server";
+import { displayUnitsFor, unitLabels, type DisplayUnits } from "~/utils/display-units";
+import { type FieldErrors, formValues } from "~/utils/form-errors";
+import type { ScenarioFormModel } from "~/utils/scenario-form-types";
+
+export const ScenarioNameSchema = z
+  .string({ error: "Give the scenario a name." })
+  .trim()
+  .min(1, "Give the scenario a name.")
+  .max(120, "Keep the name under 120 characters.");
+
+export type SetupActionData = { form: ScenarioFormModel; errors: FieldErrors };
+
+export function unitsOf(user: SessionUser): DisplayUnits {
+  return displayUnitsFor(user);
+}
+
+export function unitsSummary(units: DisplayUnits): string {
+  const l = unitLabels(units);
+  return `Volumes in ${l.volume}, temperatures in ${l.temperature}, nitrate in ${l.nitrate}, nitrite in ${l.nitrite}, ammonia in ${l.ammonia}, KH in ${l.kh}, shares in %.`;
+}
+
+/** A refused or redrawn form, answered with the person's input kept. */
+function redraw(values: Record<string, string>, units: DisplayUnits, errors: FieldErrors, status: number, extraPlants: unknown[] = []) {
+  // Submitted rows are drawn from their strings; new rows (no strings yet) from their typical values.
+  const plants = [...plantRowsFromValues(values), ...extraPlants];
+  const form = buildScenarioForm(values.name ?? "", ScenarioSchema.parse({}), units, values, plants);
+  return data<SetupActionData>({ form, errors }, { status });
+}
+
+type Saved = { scenarioId: number };
+
+/**
+ * Handles a submitted setup form. Returns a redraw (400 for refused input, 200 for an added
+ * or removed plant row) or the id of the saved scenario.
+ * @param target "new" to create a scenario in `tank`, or the id of the scenario to overwrite.
+ */
+export async function handleSetupSubmission(
+  form: FormData,
+  user: SessionUser,
+  tank: TankRow,
+  target: "new" | number,
+  baseline?: Scenario,
+  enforce?: (scenario: Scenario) => FieldErrors | null,
+): Promise<ReturnType<typeof redraw> | Saved> {
+  const units = unitsOf(user);
+  const values = renumberPlantRows(formValues(form));
+  const intent = values.intent ?? "save";
+
+  if (intent === "add-plant") {
+    const ids = Object.entries(values).filter(([k]) => /^plants\.\d+\.id$/.test(k)).map(([, v]) => v);
+    if (ids.length >= 12) return redraw(values, units, { "": "A scenario holds at most 12 plant groups." }, 400);
+    return redraw(values, units, {}, 200, [newPlantGroup(values.newPlantForm ?? "stem", ids)]);
+  }
+  const remove = /^remove-plant:(\d{1,2})$/.exec(intent);
+  if (remove) {
+    const index = Number(remove[1]);
+    const kept = Object.fromEntries(Object.entries(values).filter(([k]) => !k.startsWith(`plants.${index}.`)));
+    return redraw(renumberPlantRows(kept), units, {}, 200);
+  }
+  if (intent !== "save" && intent !== "save-as-new") return redraw(values, units, { "": "Unknown action." }, 400);
+
+  const name = ScenarioNameSchema.safeParse(values.name);
+  const parsed = parseScenarioForm(values, units, baseline);
+  const errors: FieldErrors = { ...(parsed.ok ? {} : parsed.errors) };
+  if (!name.success) errors.name = name.error.issues[0].message;
+  if (!parsed.ok || !name.success) return redraw(values, units, errors, 400);
+
+  const refused = enforce?.(parsed.scenario);
+  if (refused) return redraw(values, units, refused, 400);
+
+  const scenario = withTankTargets(parsed.scenario, tank);
+  let result;
+  try {
+    result = await runEngine(scenario);
+  } catch (error) {
+    if (isModelError(error)) {
+      return redraw(values, units, { "": `The model could not run these settings: ${error.message}` }, 400);
+    }
+    throw error;
+  }
+  const hash = settingsHash(scenario);
+  const scenarioId = getDb().transaction((tx) => {
+    let id: number;
+    if (target === "new" || intent === "save-as-new") {
+      id = tx
+        .insert(scenarios)
+        .values({
+          tankId: tank.id,
+          name: name.data,
+          settings: scenario,
+          schemaVersion: scenario.schemaVersion,
+          copiedFromId: target === "new" ? null : target,
+        })
+        .returning({ id: scenarios.id })
+        .get().id;
+    } else {
+      id = target;
+      tx.update(scenarios)
+        .set({ name: name.data, settings: scenario, schemaVersion: scenario.schemaVersion, updatedAt: new Date() })
+        .where(eq(scenarios.id, target))
+        .run();
+    }
+    insertRun(tx, id, hash, result);
+    tx.update(tanks).set({ updatedAt: new Date() }).where(eq(tanks.id, tank.id)).run();
+    return id;
+  });
+  return { scenarioId };
+}

@@ -1,0 +1,277 @@
+import { and, eq } from "drizzle-orm";
+import { Form, Link, redirect, useNavigation } from "react-router";
+import { z } from "zod";
+import type { Route } from "./+types/detail";
+import { FormMessage, TextField } from "~/components/ui/field";
+import { getDb } from "~/db/client.server";
+import { scenarios, tanks } from "~/db/schema";
+import { displayKeyFigures } from "~/display-figures.server";
+import { speciesFactor } from "~/display-units.server";
+import { requireUser } from "~/permissions.server";
+import { latestRunSummary } from "~/simulation.server";
+import { listScenarios, requireOwnedTank } from "~/tanks.server";
+import { displayUnitsFor, formatNumber, unitLabels } from "~/utils/display-units";
+import { fieldErrors, formValues } from "~/utils/form-errors";
+import { invalid, readForm } from "~/utils/http.server";
+import { TankNameSchema, TankNotesSchema } from "./tanks.server";
+
+export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.tank.name ?? "Tank"} · Fernwater` }];
+
+export async function loader({ request, params }: Route.LoaderArgs) {
+  const user = await requireUser(request);
+  const tank = requireOwnedTank(user.id, params.tankId);
+  const units = displayUnitsFor(user);
+  const no3 = speciesFactor("nitrate", units);
+  return {
+    tank: {
+      id: tank.id,
+      name: tank.name,
+      notes: tank.notes,
+      nitrateLow: formatNumber(tank.nitrateTargetLow * no3, 4),
+      nitrateHigh: formatNumber(tank.nitrateTargetHigh * no3, 4),
+    },
+    labels: unitLabels(units),
+    scenarios: listScenarios(tank.id).map((s) => {
+      const run = latestRunSummary(s.id);
+      return {
+        id: s.id,
+        name: s.name,
+        updatedAt: s.updatedAt.toISOString().slice(0, 10),
+        figures: run ? displayKeyFigures(run.keyFigures, units) : null,
+      };
+    }),
+  };
+}
+
+const bandNumber = (label: string) =>
+  z.coerce
+    .number({ error: `${label} must be a number.` })
+    .finite(`${label} must be a number.`)
+    .min(0, `${label} cannot be negative.`)
+    .max(1000, `${label} must be at most 1000.`);
+
+const SettingsSchema = z
+  .object({
+    intent: z.literal("settings"),
+    name: TankNameSchema,
+    notes: TankNotesSchema,
+    nitrateLow: bandNumber("The low end"),
+    nitrateHigh: bandNumber("The high end"),
+  })
+  .refine((v) => v.nitrateLow <= v.nitrateHigh, { path: ["nitrateLow"], message: "The low end must not be above the high end." });
+
+const DeleteTankSchema = z.object({
+  intent: z.literal("delete-tank"),
+  confirm: z.literal("yes", { error: "Tick the box to confirm that everything in this tank goes." }),
+});
+
+const DeleteScenarioSchema = z.object({
+  intent: z.literal("delete-scenario"),
+  scenarioId: z.coerce.number().int().positive(),
+  confirm: z.literal("yes", { error: "Tick the box to confirm." }),
+});
+
+export async function action({ request, params }: Route.ActionArgs) {
+  const user = await requireUser(request);
+  const tank = requireOwnedTank(user.id, params.tankId);
+  const values = formValues(await readForm(request));
+  const db = getDb();
+
+  if (values.intent === "settings") {
+    const parsed = SettingsSchema.safeParse(values);
+    if (!parsed.success) return invalid(fieldErrors(parsed.error), values);
+    const no3 = speciesFactor("nitrate", displayUnitsFor(user));
+    db.update(tanks)
+      .set({
+        name: parsed.data.name,
+        notes: parsed.data.notes,
+        nitrateTargetLow: parsed.data.nitrateLow / no3,
+        nitrateTargetHigh: parsed.data.nitrateHigh / no3,
+        updatedAt: new Date(),
+      })
+      .where(eq(tanks.id, tank.id))
+      .run();
+    return redirect(`/tanks/${tank.id}?saved=1`);
+  }
+
+  if (values.intent === "delete-tank") {
+    const parsed = DeleteTankSchema.safeParse(values);
+    if (!parsed.success) return invalid(fieldErrors(parsed.error), values);
+    // Scenarios, runs, readings, share links and lesson copies go with it (foreign keys cascade), all or nothing.
+    db.transaction((tx) => {
+      tx.delete(tanks).where(and(eq(tanks.id, tank.id), eq(tanks.ownerId, user.id))).run();
+    });
+    return redirect("/tanks");
+  }
+
+  if (values.intent === "delete-scenario") {
+    const parsed = DeleteScenarioSchema.safeParse(values);
+    if (!parsed.success) return invalid(fieldErrors(parsed.error), values);
+    const done = db
+      .delete(scenarios)
+      .where(and(eq(scenarios.id, parsed.data.scenarioId), eq(scenarios.tankId, tank.id)))
+      .run();
+    if (done.changes === 0) return invalid({ "": "That scenario is not in this tank." }, values);
+    return redirect(`/tanks/${tank.id}`);
+  }
+
+  return invalid({ "": "Unknown action." }, values);
+}
+
+export default function TankPage({ loaderData, actionData }: Route.ComponentProps) {
+  const { tank, labels } = loaderData;
+  const errors = actionData?.errors ?? {};
+  const values = actionData?.values ?? {};
+  const busy = useNavigation().state === "submitting";
+  return (
+    <div className="space-y-6">
+      <nav aria-label="Breadcrumb" className="text-sm">
+        <Link to="/tanks" className="link">
+          Tanks
+        </Link>{" "}
+        / {tank.name}
+      </nav>
+      <div className="flex flex-wrap items-center justify-between gap-3">
+        <h1 className="text-2xl">{tank.name}</h1>
+        <div className="flex flex-wrap gap-2">
+          <Link to={`/tanks/${tank.id}/scenarios/new`} className="btn">
+            New scenario
+          </Link>
+          <Link to={`/tanks/${tank.id}/readings`} className="btn-secondary">
+            Readings
+          </Link>
+          <Link to={`/tanks/${tank.id}/import`} className="btn-secondary">
+            Import a scenario file
+          </Link>
+        </div>
+      </div>
+      {tank.notes ? <p className="text-stone-700">{tank.notes}</p> : null}
+      {errors[""] ? <FormMessage>{errors[""]}</FormMessage> : null}
+
+      <section aria-labelledby="scenarios-title" className="space-y-3">
+        <h2 id="scenarios-title" className="text-lg">
+          Scenarios
+        </h2>
+        {loaderData.scenarios.length === 0 ? (
+          <p>No scenarios yet. Start one from a preset or from Fernwater’s defaults.</p>
+        ) : (
+          <Form method="get" action={`/tanks/${tank.id}/compare`} className="space-y-3">
+            <div className="overflow-x-auto">
+              <table className="w-full min-w-[40rem] border-collapse text-sm">
+                <caption className="sr-only">Scenarios of this tank with the key figures of their latest run</caption>
+                <thead>
+                  <tr className="border-b border-stone-300 text-left">
+                    <th scope="col" className="py-2 pr-2">
+                      Compare
+                    </th>
+                    <th scope="col" className="py-2 pr-2">
+                      Scenario
+                    </th>
+                    <th scope="col" className="num py-2 pr-2">
+                      Nitrate at the end ({labels.nitrate})
+                    </th>
+                    <th scope="col" className="num py-2 pr-2">
+                      Peak free ammonia ({labels.ammonia})
+                    </th>
+                    <th scope="col" className="num py-2 pr-2">
+                      Peak nitrite ({labels.nitrite})
+                    </th>
+                    <th scope="col" className="num py-2">
+                      Days above target
+                    </th>
+                  </tr>
+                </thead>
+                <tbody>
+                  {loaderData.scenarios.map((s) => (
+                    <tr key={s.id} className="border-b border-stone-200">
+                      <td className="py-2 pr-2">
+                        <input type="checkbox" name="s" value={s.id} aria-label={`Compare ${s.name}`} className="h-5 w-5 accent-fern-700" />
+                      </td>
+                      <td className="py-2 pr-2">
+                        <Link to={`/tanks/${tank.id}/scenarios/${s.id}`} className="link">
+                          {s.name}
+                        </Link>
+                        <span className="block text-xs text-stone-500">saved {s.updatedAt}</span>
+                      </td>
+                      <td className="num py-2 pr-2">{s.figures ? formatNumber(s.figures.nitrateEnd) : "–"}</td>
+                      <td className="num py-2 pr-2">{s.figures ? formatNumber(s.figures.peakFreeNh3.value) : "–"}</td>
+                      <td className="num py-2 pr-2">{s.figures ? formatNumber(s.figures.peakNitrite.value) : "–"}</td>
+                      <td className="num py-2">{s.figures ? formatNumber(s.figures.daysAboveNitrateTarget) : "–"}</td>
+                    </tr>
+                  ))}
+                </tbody>
+              </table>
+            </div>
+            {loaderData.scenarios.length >= 2 ? (
+              <button type="submit" className="btn-secondary">
+                Compare the ticked scenarios (2–4)
+              </button>
+            ) : null}
+          </Form>
+        )}
+      </section>
+
+      <section className="card max-w-2xl space-y-3" aria-labelledby="settings-title">
+        <h2 id="settings-title" className="text-lg">
+          Tank settings
+        </h2>
+        <Form method="post" className="grid gap-4 sm:grid-cols-2" noValidate>
+          <input type="hidden" name="intent" value="settings" />
+          <div className="sm:col-span-2">
+            <TextField label="Name" name="name" defaultValue={values.intent === "settings" ? values.name : tank.name} error={errors.name} />
+          </div>
+          <div className="sm:col-span-2">
+            <TextField label="Notes" name="notes" defaultValue={values.intent === "settings" ? values.notes : tank.notes} error={errors.notes} />
+          </div>
+          <TextField
+            label="Nitrate target, low"
+            name="nitrateLow"
+            inputMode="decimal"
+            suffix={labels.nitrate}
+            hint="Planted tanks often aim for 5–20 mg/L as NO3 (common practice)."
+            defaultValue={values.intent === "settings" ? values.nitrateLow : tank.nitrateLow}
+            error={errors.nitrateLow}
+          />
+          <TextField
+            label="Nitrate target, high"
+            name="nitrateHigh"
+            inputMode="decimal"
+            suffix={labels.nitrate}
+            defaultValue={values.intent === "settings" ? values.nitrateHigh : tank.nitrateHigh}
+            error={errors.nitrateHigh}
+          />
+          <div className="sm:col-span-2">
+            <button type="submit" className="btn" disabled={busy}>
+              Save tank settings
+            </button>
+          </div>
+        </Form>
+      </section>
+
+      <section className="card max-w-2xl space-y-3 border-red-200" aria-labelledby="delete-title">
+        <h2 id="delete-title" className="text-lg text-red-900">
+          Delete this tank
+        </h2>
+        <p className="text-sm">
+          This deletes the tank with its {loaderData.scenarios.length} scenario{loaderData.scenarios.length === 1 ? "" : "s"}, their
+          runs and share links, and all its readings. It cannot be undone.
+        </p>
+        <Form method="post" className="space-y-3">
+          <input type="hidden" name="intent" value="delete-tank" />
+          <label className="flex items-center gap-2 text-sm">
+            <input type="checkbox" name="confirm" value="yes" className="h-5 w-5 accent-red-700" />
+            Yes, delete {tank.name} and everything in it
+          </label>
+          {errors.confirm && values.intent === "delete-tank" ? (
+            <p className="text-sm font-semibold text-red-800" role="alert">
+              {errors.confirm}
+            </p>
+          ) : null}
+          <button type="submit" className="btn-danger">
+            Delete tank
+          </button>
+        </Form>
+      </section>
+    </div>
+  );
+}

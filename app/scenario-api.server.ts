@@ -1,0 +1,93 @@
+/** Server code shared by the scenario API routes: validation of bodies, JSON shapes, saving with a run. */
+import { eq } from "drizzle-orm";
+import { z } from "zod";
+import { parseScenario, type Scenario } from "../models";
+import { apiError, zodIssues } from "~/api.server";
+import { getDb } from "~/db/client.server";
+import { scenarios } from "~/db/schema";
+import { insertRun, isModelError, runEngine, settingsHash, withTankTargets, type StoredRun } from "~/simulation.server";
+import type { ScenarioRow, TankRow } from "~/tanks.server";
+
+export const ScenarioBodySchema = z
+  .object({
+    name: z.string().trim().min(1, "Give the scenario a name.").max(120, "Keep the name under 120 characters."),
+    settings: z.unknown(),
+  })
+  .strict();
+
+export const ScenarioPatchSchema = ScenarioBodySchema.partial().strict();
+
+/** Settings from a request body → a validated scenario, or a 400 with field paths under "settings". */
+export function requireValidSettings(raw: unknown): Scenario {
+  const parsed = parseScenario(raw ?? {});
+  if (!parsed.success) {
+    throw apiError(
+      400,
+      "The settings are not valid.",
+      zodIssues(parsed.error).map((i) => ({ ...i, path: i.path ? `settings.${i.path}` : "settings" })),
+    );
+  }
+  return parsed.data;
+}
+
+export function scenarioJson(row: ScenarioRow) {
+  return {
+    id: row.id,
+    tankId: row.tankId,
+    name: row.name,
+    schemaVersion: row.schemaVersion,
+    settings: row.settings,
+    createdAt: row.createdAt,
+    updatedAt: row.updatedAt,
+  };
+}
+
+export function runSummaryJson(run: StoredRun) {
+  return {
+    id: run.id,
+    scenarioId: run.scenarioId,
+    engineVersion: run.engineVersion,
+    settingsHash: run.settingsHash,
+    createdAt: run.createdAt,
+    keyFigures: run.keyFigures,
+    budget: run.budget,
+    events: run.events,
+    stats: run.stats,
+    links: { json: `/api/runs/${run.id}`, csv: `/api/runs/${run.id}?format=csv` },
+  };
+}
+
+/** Runs the engine on settings; a ModelError becomes a 422 with the keeper-readable message. */
+export async function runOrRefuse(scenario: Scenario) {
+  try {
+    return await runEngine(scenario);
+  } catch (error) {
+    if (isModelError(error)) throw apiError(422, error.message, [{ path: "settings", message: error.message }]);
+    throw error;
+  }
+}
+
+/** Creates (target "new") or overwrites a scenario together with its run, in one transaction. */
+export async function saveScenarioWithRun(tank: TankRow, target: "new" | number, name: string, settings: Scenario): Promise<number> {
+  const scenario = withTankTargets(settings, tank);
+  const result = await runOrRefuse(scenario);
+  const hash = settingsHash(scenario);
+  return getDb().transaction((tx) => {
+    const id =
+      target === "new"
+        ? tx
+            .insert(scenarios)
+            .values({ tankId: tank.id, name, settings: scenario, schemaVersion: scenario.schemaVersion })
+            .returning({ id: scenarios.id })
+            .get().id
+        : target;
+    if (target !== "new") {
+      tx.update(scenarios)
+        .set({ name, settings: scenario, schemaVersion: scenario.schemaVersion, updatedAt: new Date() })
+        .where(eq(scenarios.id, target))
+        .run();
+    }
+    insertRun(tx, id, hash, result);
+    return id;
+  });
+}
