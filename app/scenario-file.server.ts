@@ -37,7 +37,9 @@ export function readScenarioFile(text: string): ReadOk | ReadFail {
   let settings: unknown = raw;
   if (wrapped.success) {
     name = wrapped.data.name ?? null;
-    settings = { schemaVersion: wrapped.data.schemaVersion, ...wrapped.data.settings };
+    // The file's own version speaks for its settings.
+    const version = wrapped.data.schemaVersion ?? wrapped.data.settings.schemaVersion;
+    settings = version === undefined ? wrapped.data.settings : { ...wrapped.data.settings, schemaVersion: version };
   } else if ("settings" in raw) {
     return { ok: false, message: "The file's name or settings are malformed.", issues: {} };
   }

@@ -115,7 +115,7 @@ function displayBound(field: ScenarioField, bound: number | null, units: Display
 }
 
 function toFormField(field: ScenarioField, name: string, raw: unknown, units: DisplayUnits): FormField {
-  const kind = field.kind === "literal" || field.kind === "string" ? "enum" : field.kind;
+  const kind: FormField["kind"] = field.kind === "string" ? "text" : field.kind === "literal" ? "enum" : field.kind;
   let value = "";
   if (field.kind === "boolean") value = raw ? "true" : "false";
   else if (typeof raw === "number") value = formatInput(toDisplay(field.meta.quantity, raw, units));
@@ -124,7 +124,7 @@ function toFormField(field: ScenarioField, name: string, raw: unknown, units: Di
     name,
     label: field.meta.label,
     hint: field.meta.hint,
-    kind: kind as FormField["kind"],
+    kind,
     value,
     unit: unitFor(field, units),
     min: displayBound(field, field.min, units),
@@ -252,6 +252,10 @@ export function parseScenarioForm(values: Record<string, string>, units: Display
     }
     if (field.kind === "enum") {
       if (text !== undefined) set(path, text);
+      continue;
+    }
+    if (field.kind === "string") {
+      if (text !== undefined) set(path, text.trim());
       continue;
     }
     if (text === undefined) continue; // not on the form: the schema default applies

@@ -39,6 +39,8 @@ function FieldInput({ field, error, locked }: { field: FormField; error?: string
         </label>
       </span>
     );
+  } else if (field.kind === "text") {
+    control = <input {...common} type="text" defaultValue={field.value} maxLength={80} className="input" />;
   } else if (field.kind === "enum") {
     control = (
       <select {...common} defaultValue={field.value} className="input">

@@ -1,6 +1,6 @@
 /** The setup form as the page draws it: built on the server (app/scenario-form.server.ts), plain data. */
 
-export type FormFieldKind = "number" | "integer" | "boolean" | "enum";
+export type FormFieldKind = "number" | "integer" | "boolean" | "enum" | "text";
 
 export type FormField = {
   /** Input name: the scenario path, e.g. "water.volumeL" or "plants.0.startMassG". */
