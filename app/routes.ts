@@ -1,4 +1,6 @@
 import { type RouteConfig, index, prefix, route } from "@react-router/dev/routes";
+import { readingsAndSweepsRoutes } from "./routes/readings-and-sweeps.routes";
+import { sharingAndClassesRoutes } from "./routes/sharing-and-classes.routes";
 
 export default [
   index("routes/home.tsx"),
@@ -34,6 +36,9 @@ export default [
     route("runs/:runId", "routes/api/run.ts"),
     route("preview", "routes/api/preview.ts"),
   ]),
+
+  ...sharingAndClassesRoutes,
+  ...readingsAndSweepsRoutes,
 
   route("*", "routes/not-found.tsx"),
 ] satisfies RouteConfig;
