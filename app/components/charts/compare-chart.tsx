@@ -1,0 +1,322 @@
+/**
+ * Two to four runs of one species on one chart ("baseline" against "with floating plants"):
+ * one line per scenario, told apart by colour, dash and a direct label, with the same day
+ * cursor, readout, table and downloads as the results chart (drawing shared through ChartFrame).
+ */
+import { useCallback, useId, useMemo, useRef, useState } from "react";
+import { ChartDataTable, compareTableColumns } from "./chart-data-table";
+import { ChartDownloads } from "./chart-downloads";
+import { ChartFrame, type FrameBand, type FrameGuide, type FrameLine } from "./chart-frame";
+import { compareCsv, fileSlug, speciesValues } from "./csv";
+import type { LegendItem } from "./downloads";
+import { formatDay, formatNumber, formatSigned } from "./format";
+import { useControllable, useDayCursor } from "./hooks";
+import { EventKey, LineSwatch, ToggleButton } from "./legend";
+import { sampleSide, valueAt } from "./lookup";
+import {
+  BAND_COLOR,
+  COMPARE_COLORS,
+  COMPARE_DASHES,
+  DEFAULT_EVENT_KINDS,
+  SERIES_COLORS,
+  SERIES_KEYS,
+  SERIES_NAMES,
+  unitOf,
+  type EventKind,
+} from "./palette";
+import type { ChartEvent, ChartGuides, ChartSeries, ChartUnits, SeriesKey } from "./types";
+
+export type CompareRun = { label: string; series: ChartSeries };
+
+export type CompareChartProps = {
+  title: string;
+  description?: string;
+  /** 2–4 runs; the first is the reference ("baseline") for differences. */
+  runs: readonly CompareRun[];
+  units: ChartUnits;
+  /** Controlled species; or `defaultSpecies` (default nitrate) and the chart's own picker. */
+  species?: SeriesKey;
+  defaultSpecies?: SeriesKey;
+  onSpeciesChange?: (k: SeriesKey) => void;
+  /** Hide the species picker (when the page has its own). */
+  hidePicker?: boolean;
+  /** Events to mark on the time axis (usually the first run's). */
+  events?: readonly ChartEvent[];
+  eventKinds?: readonly EventKind[];
+  guides?: ChartGuides;
+  height?: number;
+  onCursorChange?: (day: number) => void;
+  table?: boolean;
+  downloadName?: string | false;
+};
+
+const EMPTY: readonly never[] = [];
+
+/** Colour and dash of the k-th scenario: the species' own colour first, then ours. */
+export function compareStyle(k: number, key: SeriesKey): { color: string; dash: string | undefined } {
+  return {
+    color: k === 0 ? SERIES_COLORS[key] : COMPARE_COLORS[(k - 1) % COMPARE_COLORS.length],
+    dash: COMPARE_DASHES[k % COMPARE_DASHES.length],
+  };
+}
+
+export function CompareChart({
+  title,
+  description,
+  runs,
+  units,
+  species: speciesProp,
+  defaultSpecies = "no3",
+  onSpeciesChange,
+  hidePicker = false,
+  events = EMPTY,
+  eventKinds = DEFAULT_EVENT_KINDS,
+  guides,
+  height = 340,
+  onCursorChange,
+  table = true,
+  downloadName,
+}: CompareChartProps) {
+  const [species, setSpecies] = useControllable<SeriesKey>(speciesProp, () => defaultSpecies, onSpeciesChange);
+  const [hidden, setHidden] = useState<ReadonlySet<number>>(() => new Set());
+  const svgRef = useRef<SVGSVGElement>(null);
+  const pickerName = useId();
+  const t = useMemo(() => runs[0]?.series.t ?? [], [runs]);
+  const unit = unitOf(species, units);
+  const shownEvents = useMemo(() => events.filter((e) => eventKinds.includes(e.kind)), [events, eventKinds]);
+  const hasPlants = runs.some((r) => r.series.plants.length > 0);
+
+  const lines = useMemo(() => {
+    const out: FrameLine[] = [];
+    runs.forEach((run, k) => {
+      if (hidden.has(k)) return;
+      const { color, dash } = compareStyle(k, species);
+      out.push({
+        key: `run-${k}`,
+        t: run.series.t,
+        y: speciesValues(run.series, species),
+        axis: "left",
+        color,
+        dash,
+        width: k === 0 ? 2.25 : 2,
+        label: run.label.length > 22 ? `${run.label.slice(0, 21)}…` : run.label,
+      });
+    });
+    return out;
+  }, [runs, species, hidden]);
+
+  const { bands, guideLines } = useMemo(() => {
+    const b: FrameBand[] = [];
+    const g: FrameGuide[] = [];
+    if (species === "no3" && guides?.nitrateBand) {
+      const { low, high } = guides.nitrateBand;
+      b.push({
+        key: "band",
+        low,
+        high,
+        color: BAND_COLOR,
+        label: `NO3 target ${formatNumber(low)}–${formatNumber(high)}`,
+      });
+    }
+    if (species === "nh3" && guides?.freeAmmoniaCaution != null) {
+      const v = guides.freeAmmoniaCaution;
+      g.push({ key: "nh3", value: v, color: SERIES_COLORS.nh3, label: `free NH3 caution ${formatNumber(v)}` });
+    }
+    if (species === "no2" && guides?.nitriteCaution != null) {
+      const v = guides.nitriteCaution;
+      g.push({ key: "no2", value: v, color: SERIES_COLORS.no2, label: `NO2 caution ${formatNumber(v)}` });
+    }
+    return { bands: b, guideLines: g };
+  }, [species, guides]);
+
+  const valuesAt = useCallback(
+    (i: number) => {
+      const day = t[i];
+      const side = sampleSide(t, i) ?? "before";
+      return runs.map((run, k) =>
+        k === 0
+          ? speciesValues(run.series, species)[i]
+          : valueAt(run.series.t, speciesValues(run.series, species), day, side),
+      );
+    },
+    [runs, species, t],
+  );
+
+  const describe = useCallback(
+    (i: number) => {
+      const vals = valuesAt(i);
+      const parts = runs
+        .map((run, k) => (hidden.has(k) ? null : `${run.label} ${formatNumber(vals[k])}`))
+        .filter(Boolean);
+      return `${formatDay(t[i])}, ${SERIES_NAMES[species].short} in ${unit}: ${parts.join(", ")}.`;
+    },
+    [valuesAt, runs, hidden, species, unit, t],
+  );
+  const cursor = useDayCursor(t, describe, onCursorChange);
+  const vals = valuesAt(cursor.index);
+
+  const columns = useMemo(() => compareTableColumns(runs, species, units), [runs, species, units]);
+  const legend: LegendItem[] = useMemo(
+    () =>
+      runs
+        .map((run, k) => ({ run, k }))
+        .filter(({ k }) => !hidden.has(k))
+        .map(({ run, k }) => ({ label: run.label, ...compareStyle(k, species) })),
+    [runs, species, hidden],
+  );
+  const fileName = downloadName === false ? null : fileSlug(`${downloadName ?? title}-${species}`);
+  const choices = SERIES_KEYS.filter((k) => k !== "plants" || hasPlants);
+
+  const toolbar = (
+    <div className="space-y-2">
+      {hidePicker ? null : (
+        <fieldset className="flex flex-wrap items-center gap-2">
+          <legend className="sr-only">Species to compare</legend>
+          <span className="text-sm text-stone-700" aria-hidden="true">
+            Compare:
+          </span>
+          {choices.map((k) => (
+            <label
+              key={k}
+              className={`inline-flex min-h-9 cursor-pointer items-center gap-2 rounded-md border px-2.5 py-1 text-sm has-[:focus-visible]:outline-3 has-[:focus-visible]:outline-offset-2 has-[:focus-visible]:outline-tan ${
+                species === k ? "border-stone-500 bg-white font-semibold shadow-sm" : "border-stone-300 bg-stone-50"
+              }`}
+            >
+              <input
+                type="radio"
+                name={pickerName}
+                value={k}
+                checked={species === k}
+                onChange={() => setSpecies(k)}
+                className="sr-only"
+              />
+              {SERIES_NAMES[k].short}
+              <span className="text-xs font-normal text-stone-600">{unitOf(k, units)}</span>
+            </label>
+          ))}
+        </fieldset>
+      )}
+      <div className="flex flex-wrap gap-2" role="group" aria-label="Scenarios shown on the chart">
+        {runs.map((run, k) => {
+          const { color, dash } = compareStyle(k, species);
+          return (
+            <ToggleButton
+              key={k}
+              pressed={!hidden.has(k)}
+              disabled={!hidden.has(k) && hidden.size === runs.length - 1}
+              onToggle={() =>
+                setHidden((old) => {
+                  const next = new Set(old);
+                  if (next.has(k)) next.delete(k);
+                  else next.add(k);
+                  return next;
+                })
+              }
+              swatch={<LineSwatch color={color} dash={dash} />}
+            >
+              {run.label}
+            </ToggleButton>
+          );
+        })}
+      </div>
+      <EventKey events={shownEvents} />
+    </div>
+  );
+
+  const day = t[cursor.index];
+  const readout =
+    t.length === 0 ? null : (
+      <div className="space-y-2 rounded-md border border-stone-200 bg-white p-3">
+        <p className="font-semibold">
+          {formatDay(day)}{" "}
+          <span className="font-normal text-stone-600">
+            · {SERIES_NAMES[species].short}, {unit}
+          </span>
+        </p>
+        <table className="w-full text-sm">
+          <caption className="sr-only">
+            {SERIES_NAMES[species].long} at {formatDay(day)}, and the difference from {runs[0]?.label}
+          </caption>
+          <thead>
+            <tr className="text-left text-xs text-stone-600">
+              <th scope="col" className="font-normal">
+                Scenario
+              </th>
+              <th scope="col" className="text-right font-normal">
+                Value
+              </th>
+              <th scope="col" className="text-right font-normal">
+                vs first
+              </th>
+            </tr>
+          </thead>
+          <tbody>
+            {runs.map((run, k) => {
+              const { color, dash } = compareStyle(k, species);
+              return (
+                <tr key={k} className={hidden.has(k) ? "text-stone-400" : ""}>
+                  <th scope="row" className="py-0.5 pr-2 text-left font-normal">
+                    <span className="inline-flex items-center gap-1.5">
+                      <LineSwatch color={color} dash={dash} />
+                      {run.label}
+                    </span>
+                  </th>
+                  <td className="num text-right">{formatNumber(vals[k])}</td>
+                  <td className="num pl-2 text-right text-stone-700">
+                    {k === 0 ? "–" : formatSigned(vals[k] - vals[0])}
+                  </td>
+                </tr>
+              );
+            })}
+          </tbody>
+        </table>
+      </div>
+    );
+
+  const summary =
+    description ??
+    `${SERIES_NAMES[species].long} in ${unit} over ${formatNumber(t[t.length - 1] ?? 0)} days for ${runs
+      .map((r) => r.label)
+      .join(", ")}, one line each. The same numbers are in the table below the chart.`;
+
+  return (
+    <ChartFrame
+      title={title}
+      description={summary}
+      t={t}
+      lines={lines}
+      leftLabel={unit}
+      rightLabel={null}
+      bands={bands}
+      guides={guideLines}
+      events={shownEvents}
+      height={height}
+      cursor={cursor}
+      readout={readout}
+      announcement={cursor.announcement}
+      toolbar={toolbar}
+      svgRef={svgRef}
+      footer={
+        <>
+          {fileName ? (
+            <ChartDownloads
+              fileName={fileName}
+              title={`${title}: ${SERIES_NAMES[species].long}`}
+              getSvg={() => svgRef.current}
+              getCsv={() => compareCsv(runs, species, units)}
+              legend={legend}
+            />
+          ) : null}
+          {table ? (
+            <ChartDataTable
+              caption={`${title}: ${SERIES_NAMES[species].long} (${unit}) per scenario`}
+              t={t}
+              columns={columns}
+              events={events}
+            />
+          ) : null}
+        </>
+      }
+    />
+  );
+}

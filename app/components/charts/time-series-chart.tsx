@@ -1,0 +1,561 @@
+/**
+ * The results chart: TAN, free NH3, nitrite and nitrate on the left axis, plant dry mass per
+ * group on the right, with series toggles, the nitrate target band, caution lines, events on the
+ * time axis, test-kit readings, overlays of another run, a day cursor with a readout, the data
+ * table and downloads. Drawing is shared with CompareChart through ChartFrame.
+ */
+import { useCallback, useMemo, useRef, useState } from "react";
+import { ChartDataTable, seriesTableColumns } from "./chart-data-table";
+import { ChartDownloads } from "./chart-downloads";
+import { ChartFrame, type FrameBand, type FrameGuide, type FrameLine, type FramePoint } from "./chart-frame";
+import { seriesCsv, fileSlug } from "./csv";
+import type { LegendItem } from "./downloads";
+import { formatDay, formatNumber, formatSigned } from "./format";
+import { useControllable, useDayCursor } from "./hooks";
+import { EventKey, LineSwatch, ToggleButton } from "./legend";
+import { residualsNear, sampleSide, valueAt, type Side } from "./lookup";
+import {
+  BAND_COLOR,
+  DEFAULT_EVENT_KINDS,
+  EVENT_META,
+  INK,
+  PLANT_DASHES,
+  PLANT_UNIT,
+  SERIES_COLORS,
+  SERIES_DASH,
+  SERIES_KEYS,
+  SERIES_NAMES,
+  unitOf,
+  type EventKind,
+} from "./palette";
+import type {
+  ChartEvent,
+  ChartGuides,
+  ChartOverlay,
+  ChartReading,
+  ChartSeries,
+  ChartUnits,
+  SeriesKey,
+  SpeciesKey,
+} from "./types";
+
+export type Visibility = Record<SeriesKey, boolean>;
+
+export type TimeSeriesChartProps = {
+  title: string;
+  /** For the SVG's <desc>; a summary is written when absent. */
+  description?: string;
+  series: ChartSeries;
+  units: ChartUnits;
+  /** Name of the main run beside overlays, e.g. "Saved" (default "This run"). */
+  seriesLabel?: string;
+  events?: readonly ChartEvent[];
+  /** Which event kinds to mark on the time axis (default: all but meals). */
+  eventKinds?: readonly EventKind[];
+  guides?: ChartGuides;
+  /** Other runs drawn thinner and lighter (a what-if preview). */
+  overlays?: readonly ChartOverlay[];
+  readings?: readonly ChartReading[];
+  /** Controlled visibility (missing keys count as shown); or leave it to the chart. */
+  visible?: Partial<Visibility>;
+  defaultVisible?: Partial<Visibility>;
+  onVisibleChange?: (v: Visibility) => void;
+  /** Chart height in px (default 340). */
+  height?: number;
+  onCursorChange?: (day: number) => void;
+  /** Show the data table under the chart (default true). */
+  table?: boolean;
+  /** File name for downloads (default from the title); false hides the buttons. */
+  downloadName?: string | false;
+};
+
+const SPECIES: readonly SpeciesKey[] = ["tan", "nh3", "no2", "no3"];
+const LINE_WIDTH: Record<SeriesKey, number> = { tan: 2, nh3: 1.75, no2: 2, no3: 2.25, plants: 1.75 };
+const OVERLAY_WIDTH = 1.25;
+const OVERLAY_OPACITY = 0.5;
+/** Reading markers: TAN filled, nitrite a ring, nitrate a ring with a dot. */
+const READING_SHAPE = { tan: "filled", no2: "ring", no3: "dot" } as const;
+
+const EMPTY: readonly never[] = [];
+
+function fullVisibility(v: Partial<Visibility> | undefined): Visibility {
+  return { tan: true, nh3: true, no2: true, no3: true, plants: true, ...v };
+}
+
+export function TimeSeriesChart({
+  title,
+  description,
+  series,
+  units,
+  seriesLabel = "This run",
+  events = EMPTY,
+  eventKinds = DEFAULT_EVENT_KINDS,
+  guides,
+  overlays = EMPTY,
+  readings = EMPTY,
+  visible: visibleProp,
+  defaultVisible,
+  onVisibleChange,
+  height = 340,
+  onCursorChange,
+  table = true,
+  downloadName,
+}: TimeSeriesChartProps) {
+  const [visibleRaw, setVisible] = useControllable<Partial<Visibility>>(
+    visibleProp,
+    () => fullVisibility(defaultVisible),
+    onVisibleChange as ((v: Partial<Visibility>) => void) | undefined,
+  );
+  // A parent may pass a fresh object each render: key the memos on what it says, not its identity.
+  const visKey = visibilityKey(fullVisibility(visibleRaw));
+  const visible = useMemo(() => fromVisibilityKey(visKey), [visKey]);
+  const hasPlants = series.plants.length > 0;
+  const [hiddenOverlays, setHiddenOverlays] = useState<ReadonlySet<number>>(() => new Set());
+  const svgRef = useRef<SVGSVGElement>(null);
+
+  const shownEvents = useMemo(() => events.filter((e) => eventKinds.includes(e.kind)), [events, eventKinds]);
+
+  const lines = useMemo(() => {
+    const vis = (k: SeriesKey) => visible[k];
+    const out: FrameLine[] = [];
+    const add = (s: ChartSeries, prefix: string, overlay: boolean) => {
+      for (const k of SPECIES) {
+        if (!vis(k)) continue;
+        out.push({
+          key: `${prefix}-${k}`,
+          t: s.t,
+          y: s[k],
+          axis: "left",
+          color: SERIES_COLORS[k],
+          dash: SERIES_DASH[k],
+          width: overlay ? OVERLAY_WIDTH : LINE_WIDTH[k],
+          opacity: overlay ? OVERLAY_OPACITY : undefined,
+          label: overlay ? undefined : SERIES_NAMES[k].short,
+          cursorDot: !overlay,
+        });
+      }
+      if (vis("plants")) {
+        s.plants.forEach((p, g) => {
+          out.push({
+            key: `${prefix}-plant-${p.id}`,
+            t: s.t,
+            y: p.massG,
+            axis: "right",
+            color: SERIES_COLORS.plants,
+            dash: PLANT_DASHES[g % PLANT_DASHES.length],
+            width: overlay ? OVERLAY_WIDTH : LINE_WIDTH.plants,
+            opacity: overlay ? OVERLAY_OPACITY : undefined,
+            label: overlay ? undefined : shortName(p.name),
+            cursorDot: !overlay,
+          });
+        });
+      }
+    };
+    overlays.forEach((o, k) => {
+      if (!hiddenOverlays.has(k)) add(o.series, `ov${k}`, true);
+    });
+    add(series, "main", false);
+    return out;
+  }, [series, overlays, visible, hiddenOverlays]);
+
+  const { bands, guideLines } = useMemo(() => {
+    const b: FrameBand[] = [];
+    const g: FrameGuide[] = [];
+    if (guides?.nitrateBand && visible.no3) {
+      const { low, high } = guides.nitrateBand;
+      b.push({
+        key: "no3-band",
+        low,
+        high,
+        color: BAND_COLOR,
+        label: `NO3 target ${formatNumber(low)}–${formatNumber(high)}`,
+      });
+    }
+    if (guides?.freeAmmoniaCaution != null && visible.nh3) {
+      g.push({
+        key: "nh3-caution",
+        value: guides.freeAmmoniaCaution,
+        color: SERIES_COLORS.nh3,
+        label: `free NH3 caution ${formatNumber(guides.freeAmmoniaCaution)}`,
+      });
+    }
+    if (guides?.nitriteCaution != null && visible.no2) {
+      g.push({
+        key: "no2-caution",
+        value: guides.nitriteCaution,
+        color: SERIES_COLORS.no2,
+        label: `NO2 caution ${formatNumber(guides.nitriteCaution)}`,
+      });
+    }
+    return { bands: b, guideLines: g };
+  }, [guides, visible]);
+
+  const points = useMemo(() => {
+    const out: FramePoint[] = [];
+    readings.forEach((r, n) => {
+      for (const k of ["tan", "no2", "no3"] as const) {
+        const v = r[k];
+        if (v == null || !Number.isFinite(v) || !visible[k]) continue;
+        out.push({
+          key: `r${n}-${k}`,
+          day: r.day,
+          value: v,
+          color: SERIES_COLORS[k],
+          shape: READING_SHAPE[k],
+          title: `${SERIES_NAMES[k].short} reading, ${formatDay(r.day)}: ${formatNumber(v)} ${unitOf(k, units)}`,
+        });
+      }
+    });
+    return out;
+  }, [readings, visible, units]);
+
+  const leftUnits = [...new Set(SPECIES.filter((k) => visible[k]).map((k) => unitOf(k, units)))];
+  const leftLabel = leftUnits.length ? leftUnits.join(" · ") : null;
+  const rightLabel = hasPlants && visible.plants ? `plants, ${PLANT_UNIT}` : null;
+
+  const describe = useCallback(
+    (i: number) => {
+      const day = series.t[i];
+      const side = sampleSide(series.t, i);
+      const parts = SPECIES.filter((k) => visible[k]).map(
+        (k) => `${SERIES_NAMES[k].short} ${formatNumber(series[k][i])} ${unitOf(k, units)}`,
+      );
+      if (visible.plants)
+        for (const p of series.plants) parts.push(`${p.name} ${formatNumber(p.massG[i])} ${PLANT_UNIT}`);
+      for (const [k, o] of overlays.entries()) {
+        if (hiddenOverlays.has(k)) continue;
+        const vals = SPECIES.filter((s) => visible[s]).map(
+          (s) => `${SERIES_NAMES[s].short} ${formatNumber(valueAt(o.series.t, o.series[s], day, side ?? "before"))}`,
+        );
+        parts.push(`${o.label}: ${vals.join(", ")}`);
+      }
+      const ev = events.filter((e) => e.day === day).map((e) => EVENT_META[e.kind].label.toLowerCase());
+      const when = `${formatDay(day)}${side && ev.length ? ` (${side} ${ev.join(" and ")})` : ""}`;
+      return `${when}: ${parts.join(", ")}.`;
+    },
+    [series, units, visible, overlays, hiddenOverlays, events],
+  );
+
+  const cursor = useDayCursor(series.t, describe, onCursorChange);
+
+  const fileName = downloadName === false ? null : fileSlug(downloadName ?? title);
+  const legend: LegendItem[] = useMemo(
+    () => legendItems(series, units, visible, overlays, hiddenOverlays, seriesLabel),
+    [series, units, visible, overlays, hiddenOverlays, seriesLabel],
+  );
+  const columns = useMemo(() => seriesTableColumns(series, units), [series, units]);
+
+  const toggle = (k: SeriesKey) => setVisible({ ...visible, [k]: !visible[k] });
+  const toolbar = (
+    <div className="space-y-2">
+      <div className="flex flex-wrap gap-2" role="group" aria-label="Series shown on the chart">
+        {SERIES_KEYS.filter((k) => k !== "plants" || hasPlants).map((k) => (
+          <ToggleButton
+            key={k}
+            pressed={visible[k]}
+            onToggle={() => toggle(k)}
+            swatch={
+              k === "plants" ? (
+                <PlantSwatches count={series.plants.length} />
+              ) : (
+                <LineSwatch color={SERIES_COLORS[k]} dash={SERIES_DASH[k]} />
+              )
+            }
+          >
+            <span>{SERIES_NAMES[k].short}</span>
+            <span className="text-xs text-stone-600">{unitOf(k, units)}</span>
+          </ToggleButton>
+        ))}
+        {overlays.map((o, k) => (
+          <ToggleButton
+            key={`ov${k}`}
+            pressed={!hiddenOverlays.has(k)}
+            onToggle={() =>
+              setHiddenOverlays((old) => {
+                const next = new Set(old);
+                if (next.has(k)) next.delete(k);
+                else next.add(k);
+                return next;
+              })
+            }
+            swatch={<LineSwatch color={INK} width={OVERLAY_WIDTH} opacity={0.7} />}
+          >
+            <span>{o.label}</span>
+            <span className="text-xs text-stone-600">thin lines</span>
+          </ToggleButton>
+        ))}
+      </div>
+      <EventKey events={shownEvents} />
+    </div>
+  );
+
+  const readout = (
+    <Readout
+      index={cursor.index}
+      series={series}
+      units={units}
+      seriesLabel={seriesLabel}
+      visible={visible}
+      overlays={overlays.filter((_o, k) => !hiddenOverlays.has(k))}
+      readings={readings}
+      events={events}
+    />
+  );
+
+  const summary =
+    description ??
+    `${SPECIES.filter((k) => visible[k])
+      .map((k) => SERIES_NAMES[k].long)
+      .join(", ")}${visible.plants && hasPlants ? ", and plant dry mass on a second axis" : ""} over ${formatNumber(
+      series.t[series.t.length - 1] ?? 0,
+    )} days${overlays.length ? `, with ${overlays.map((o) => o.label).join(" and ")} as thinner lines` : ""}. ${
+      shownEvents.length
+    } events are marked on the time axis. The same numbers are in the table below the chart.`;
+
+  return (
+    <ChartFrame
+      title={title}
+      description={summary}
+      t={series.t}
+      lines={lines}
+      leftLabel={leftLabel}
+      rightLabel={rightLabel}
+      bands={bands}
+      guides={guideLines}
+      points={points}
+      events={shownEvents}
+      height={height}
+      cursor={cursor}
+      readout={readout}
+      announcement={cursor.announcement}
+      toolbar={toolbar}
+      svgRef={svgRef}
+      footer={
+        <>
+          {fileName ? (
+            <ChartDownloads
+              fileName={fileName}
+              title={title}
+              getSvg={() => svgRef.current}
+              getCsv={() => seriesCsv(series, units, events)}
+              legend={legend}
+            />
+          ) : null}
+          {table ? (
+            <ChartDataTable caption={`${title}: the numbers`} t={series.t} columns={columns} events={events} />
+          ) : null}
+        </>
+      }
+    />
+  );
+}
+
+function visibilityKey(v: Visibility): string {
+  return SERIES_KEYS.map((k) => (v[k] ? "1" : "0")).join("");
+}
+
+function fromVisibilityKey(key: string): Visibility {
+  const v = fullVisibility(undefined);
+  SERIES_KEYS.forEach((k, n) => (v[k] = key[n] === "1"));
+  return v;
+}
+
+function shortName(name: string): string {
+  return name.length > 18 ? `${name.slice(0, 17)}…` : name;
+}
+
+function PlantSwatches({ count }: { count: number }) {
+  return (
+    <span className="inline-flex flex-col gap-0.5">
+      {Array.from({ length: Math.min(count, 3) }, (_x, g) => (
+        <svg key={g} width="28" height="4" aria-hidden="true">
+          <line
+            x1="1"
+            x2="27"
+            y1="2"
+            y2="2"
+            stroke={SERIES_COLORS.plants}
+            strokeWidth={2}
+            strokeDasharray={PLANT_DASHES[g]}
+          />
+        </svg>
+      ))}
+    </span>
+  );
+}
+
+function Readout({
+  index,
+  series,
+  units,
+  seriesLabel,
+  visible,
+  overlays,
+  readings,
+  events,
+}: {
+  index: number;
+  series: ChartSeries;
+  units: ChartUnits;
+  seriesLabel: string;
+  visible: Visibility;
+  overlays: readonly ChartOverlay[];
+  readings: readonly ChartReading[];
+  events: readonly ChartEvent[];
+}) {
+  const t = series.t;
+  if (t.length === 0) return null;
+  const day = t[index];
+  const side: Side | null = sampleSide(t, index);
+  const dayEvents = events.filter((e) => e.day === day);
+  const rows: {
+    key: string;
+    name: string;
+    color: string;
+    dash?: string;
+    unit: string;
+    main: number;
+    others: number[];
+  }[] = [];
+  for (const k of SPECIES) {
+    if (!visible[k]) continue;
+    rows.push({
+      key: k,
+      name: SERIES_NAMES[k].short,
+      color: SERIES_COLORS[k],
+      dash: SERIES_DASH[k],
+      unit: unitOf(k, units),
+      main: series[k][index],
+      others: overlays.map((o) => valueAt(o.series.t, o.series[k], day, side ?? "before")),
+    });
+  }
+  if (visible.plants) {
+    series.plants.forEach((p, g) => {
+      rows.push({
+        key: `plant-${p.id}`,
+        name: p.name,
+        color: SERIES_COLORS.plants,
+        dash: PLANT_DASHES[g % PLANT_DASHES.length],
+        unit: PLANT_UNIT,
+        main: p.massG[index],
+        others: overlays.map((o) => {
+          const q = o.series.plants.find((x) => x.id === p.id);
+          return q ? valueAt(o.series.t, q.massG, day, side ?? "before") : NaN;
+        }),
+      });
+    });
+  }
+  // Readings within half a day of the cursor.
+  const residuals = residualsNear(readings, day, 0.5, t, series);
+
+  return (
+    <div className="space-y-2 rounded-md border border-stone-200 bg-white p-3">
+      <p className="font-semibold">
+        {formatDay(day)}
+        {side && dayEvents.length ? (
+          <span className="font-normal text-stone-600">
+            {" "}
+            — {side === "before" ? "just before" : "just after"} the event
+          </span>
+        ) : null}
+      </p>
+      <table className="w-full text-sm">
+        <caption className="sr-only">Values at {formatDay(day)}</caption>
+        <thead className={overlays.length ? "" : "sr-only"}>
+          <tr className="text-left text-xs text-stone-600">
+            <th scope="col" className="font-normal">
+              Series
+            </th>
+            <th scope="col" className="text-right font-normal">
+              {seriesLabel}
+            </th>
+            {overlays.map((o) => (
+              <th key={o.label} scope="col" className="text-right font-normal">
+                {o.label}
+              </th>
+            ))}
+          </tr>
+        </thead>
+        <tbody>
+          {rows.map((r) => (
+            <tr key={r.key}>
+              <th scope="row" className="py-0.5 pr-2 text-left font-normal">
+                <span className="inline-flex items-center gap-1.5">
+                  <LineSwatch color={r.color} dash={r.dash} />
+                  {r.name}
+                </span>
+              </th>
+              <td className="num whitespace-nowrap text-right">
+                {formatNumber(r.main)} <span className="text-xs text-stone-600">{r.unit}</span>
+              </td>
+              {r.others.map((v, k) => (
+                <td key={k} className="num whitespace-nowrap pl-2 text-right text-stone-700">
+                  {formatNumber(v)}
+                </td>
+              ))}
+            </tr>
+          ))}
+        </tbody>
+      </table>
+      {residuals.length ? (
+        <div>
+          <p className="text-xs font-semibold text-stone-700">Test readings</p>
+          <ul className="text-xs">
+            {residuals.map((r) => (
+              <li key={`${r.key}-${r.day}`}>
+                {SERIES_NAMES[r.key].short} on {formatDay(r.day)}: measured{" "}
+                <span className="figure">{formatNumber(r.measured)}</span>, model{" "}
+                <span className="figure">{formatNumber(r.model)}</span>, reading − model{" "}
+                <span className="figure">{formatSigned(r.residual)}</span> {unitOf(r.key, units)}
+              </li>
+            ))}
+          </ul>
+        </div>
+      ) : null}
+      {dayEvents.length ? (
+        <ul className="space-y-1 text-xs text-stone-700">
+          {dayEvents.map((e, k) => (
+            <li key={k}>
+              <span className="font-semibold">{EVENT_META[e.kind].label}:</span> {e.detail}
+            </li>
+          ))}
+        </ul>
+      ) : null}
+    </div>
+  );
+}
+
+function legendItems(
+  series: ChartSeries,
+  units: ChartUnits,
+  visible: Visibility,
+  overlays: readonly ChartOverlay[],
+  hidden: ReadonlySet<number>,
+  seriesLabel: string,
+): LegendItem[] {
+  const out: LegendItem[] = [];
+  for (const k of SPECIES) {
+    if (visible[k])
+      out.push({
+        label: `${SERIES_NAMES[k].long}, ${unitOf(k, units)}`,
+        color: SERIES_COLORS[k],
+        dash: SERIES_DASH[k],
+      });
+  }
+  if (visible.plants) {
+    series.plants.forEach((p, g) =>
+      out.push({
+        label: `${p.name}, ${PLANT_UNIT}`,
+        color: SERIES_COLORS.plants,
+        dash: PLANT_DASHES[g % PLANT_DASHES.length],
+      }),
+    );
+  }
+  if (overlays.some((_o, k) => !hidden.has(k))) {
+    out.push({ label: `thick: ${seriesLabel}`, color: INK, width: 2.5 });
+    overlays.forEach((o, k) => {
+      if (!hidden.has(k)) out.push({ label: `thin: ${o.label}`, color: INK, width: OVERLAY_WIDTH, opacity: 0.7 });
+    });
+  }
+  return out;
+}
