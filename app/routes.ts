@@ -26,6 +26,7 @@ export default [
   ...prefix("admin", [index("routes/admin/users.tsx")]),
 
   route("dev/mail", "routes/dev/mail.tsx"),
+  route("dev/chart-preview", "routes/dev/chart-preview.tsx"),
 
   ...prefix("api", [
     route("health", "routes/api/health.ts"),
