@@ -9,13 +9,12 @@
  * re-render when the cursor moves.
  */
 import { scaleLinear, type ScaleLinear } from "d3-scale";
-import { line as d3line } from "d3-shape";
 import { useId, useMemo, type ReactNode } from "react";
-import { decimateCached } from "./decimate";
 import { useContainerWidth, type CursorVia } from "./hooks";
+import { PATH_SCALE, linePath, scaledDash } from "./paths";
 import { nearestIndex, sampleSide, valueAt } from "./lookup";
 import { EVENT_META, GRID, INK, MONO_STACK, SERIF_STACK, type EventKind } from "./palette";
-import { dayDomain, maxFinite, plotBox, spreadLabels, tickCounts, ticksOf, valueDomain } from "./scales";
+import { EVENT_ROW, dayDomain, maxFinite, plotBox, spreadLabels, tickCounts, ticksOf, valueDomain } from "./scales";
 import { formatDay } from "./format";
 import type { ChartEvent } from "./types";
 
@@ -107,7 +106,8 @@ export function ChartFrame({
     if (width == null || width <= 0) return null;
     const hasLeft = lines.some((l) => l.axis === "left");
     const hasRight = lines.some((l) => l.axis === "right");
-    const box = plotBox(width, height, { rightAxis: hasRight });
+    const eventKinds = EVENT_ORDER.filter((k) => events.some((e) => e.kind === k));
+    const box = plotBox(width, height, { rightAxis: hasRight, eventRows: eventKinds.length });
     const [x0, x1] = dayDomain(t);
     const counts = tickCounts(box);
     const x = scaleLinear().domain([x0, x1]).range([0, box.innerWidth]);
@@ -120,13 +120,14 @@ export function ChartFrame({
     const rightMax = lines.filter((l) => l.axis === "right").map((l) => maxFinite(l.y));
     const yLeft = scaleLinear().domain(valueDomain(leftMax, counts.y)).range([box.innerHeight, 0]);
     const yRight = scaleLinear().domain(valueDomain(rightMax, counts.y)).range([box.innerHeight, 0]);
-    return { box, x, x0, x1, counts, yLeft, yRight, hasLeft, hasRight };
-  }, [width, height, t, lines, guides, bands, points]);
+    return { box, x, x0, x1, counts, yLeft, yRight, hasLeft, hasRight, eventKinds };
+  }, [width, height, t, lines, guides, bands, points, events]);
 
   // Everything that does not move with the cursor.
   const staticLayer = useMemo(() => {
     if (!geometry) return null;
-    const { box, x, x0, x1, counts, yLeft, yRight, hasLeft, hasRight } = geometry;
+    const { box, x, counts, yLeft, yRight, hasLeft, hasRight, eventKinds } = geometry;
+    const strip = eventKinds.length * EVENT_ROW;
     const fs = box.fontSize;
     const small = Math.round(fs * 0.85);
     const yOf = (axis: Axis) => (axis === "left" ? yLeft : yRight);
@@ -135,16 +136,7 @@ export function ChartFrame({
     const leftTicks = hasLeft ? ticksOf(yLeft, counts.y) : [];
     const rightTicks = hasRight ? ticksOf(yRight, counts.y) : [];
 
-    const paths = lines.map((l) => {
-      const scale = yOf(l.axis);
-      const { index } = decimateCached(l.t, l.y, x0, x1, box.innerWidth);
-      const gen = d3line<number>()
-        .defined((i) => Number.isFinite(l.y[i]))
-        .x((i) => x(l.t[i]))
-        .y((i) => scale(l.y[i]))
-        .digits(1);
-      return { line: l, d: gen(index) ?? "" };
-    });
+    const paths = lines.map((l) => ({ line: l, d: linePath(l.t, l.y, x, yOf(l.axis), box.innerWidth) }));
 
     const labelled = lines.filter((l) => l.label);
     const wanted = labelled.map((l) => yOf(l.axis)(lastFinite(l.y)));
@@ -173,13 +165,14 @@ export function ChartFrame({
             </g>
           );
         })}
-        {guides.map((g) => {
+        {guides.map((g, k) => {
           const y = yLeft(g.value);
           return (
             <g key={g.key}>
               <line x1={0} x2={box.innerWidth} y1={y} y2={y} stroke={g.color} strokeWidth={1} strokeDasharray="2 3" />
               <text
-                x={box.innerWidth / 3}
+                // Side by side, so two cautions near zero do not print over each other.
+                x={4 + (k * box.innerWidth) / Math.max(2, guides.length)}
                 y={y - 3}
                 fontSize={small}
                 fill={g.color}
@@ -199,14 +192,14 @@ export function ChartFrame({
         {xTicks.map((tk) => (
           <g key={`x${tk.value}`} transform={`translate(${tk.pos},${box.innerHeight})`}>
             <line y1={0} y2={4} stroke={INK} />
-            <text y={16 + fs} textAnchor="middle" fontSize={fs} fill={INK} fontFamily={MONO_STACK}>
+            <text y={strip + 4 + fs} textAnchor="middle" fontSize={fs} fill={INK} fontFamily={MONO_STACK}>
               {tk.label}
             </text>
           </g>
         ))}
         <text
           x={box.innerWidth / 2}
-          y={box.innerHeight + 16 + fs * 2.3}
+          y={box.innerHeight + strip + 4 + fs * 2.3}
           textAnchor="middle"
           fontSize={fs}
           fill={INK}
@@ -258,18 +251,21 @@ export function ChartFrame({
           </g>
         ) : null}
 
-        {/* The curves: overlays first (the chart lists them first), clipped to the plot. */}
-        <g clipPath={`url(#${id}-clip)`} fill="none" strokeLinejoin="round" strokeLinecap="butt">
-          {paths.map(({ line: l, d }) => (
-            <path
-              key={l.key}
-              d={d}
-              stroke={l.color}
-              strokeWidth={l.width}
-              strokeDasharray={l.dash}
-              strokeOpacity={l.opacity}
-            />
-          ))}
+        {/* The curves: overlays first (the chart lists them first), clipped to the plot. Paths are
+            in tenths of a pixel (see paths.ts), hence the scaled group and widths. */}
+        <g clipPath={`url(#${id}-clip)`}>
+          <g transform={`scale(${1 / PATH_SCALE})`} fill="none" strokeLinejoin="round" strokeLinecap="butt">
+            {paths.map(({ line: l, d }) => (
+              <path
+                key={l.key}
+                d={d}
+                stroke={l.color}
+                strokeWidth={l.width * PATH_SCALE}
+                strokeDasharray={scaledDash(l.dash)}
+                strokeOpacity={l.opacity}
+              />
+            ))}
+          </g>
         </g>
 
         {/* Readings over the curves. */}
@@ -312,7 +308,7 @@ export function ChartFrame({
         ))}
 
         {/* Events on the time axis. */}
-        <EventStrip events={events} x={x} y={box.innerHeight + 10} width={box.innerWidth} />
+        <EventStrip events={events} kinds={eventKinds} x={x} y={box.innerHeight + 4} width={box.innerWidth} />
       </g>
     );
   }, [geometry, lines, bands, guides, points, events, id, leftLabel, rightLabel]);
@@ -350,9 +346,9 @@ export function ChartFrame({
             );
           })}
         <text
-          x={Math.min(Math.max(cx, 30), box.innerWidth - 30)}
-          y={-4}
-          textAnchor="middle"
+          x={cx < box.innerWidth / 2 ? cx + 4 : cx - 4}
+          y={fs}
+          textAnchor={cx < box.innerWidth / 2 ? "start" : "end"}
           fontSize={Math.round(fs * 0.85)}
           fill={INK}
           fontFamily={SERIF_STACK}
@@ -437,54 +433,57 @@ function lastFinite(a: ArrayLike<number>): number {
   return 0;
 }
 
+/** Rows of the event strip, top to bottom. */
+const EVENT_ORDER: readonly EventKind[] = ["waterChange", "filterCleaning", "trim", "dose", "dosingStopped", "feeding"];
+
 /**
- * Event glyphs under the plot. Events of one kind closer than 3 px share a glyph (its title
- * lists them all); different kinds on the same spot sit side by side.
+ * Event glyphs under the plot, one row per kind. Events of a kind closer than a glyph's width
+ * share one glyph (its title lists them all), so a year of weekly water changes on a phone
+ * stays a row of marks rather than a smear.
  */
 function EventStrip({
   events,
+  kinds,
   x,
   y,
   width,
 }: {
   events: readonly ChartEvent[];
+  kinds: readonly EventKind[];
   x: ScaleLinear<number, number>;
   y: number;
   width: number;
 }) {
-  const spots = new Map<number, Map<EventKind, ChartEvent[]>>();
-  for (const e of events) {
-    const px = x(e.day);
-    if (!(px >= -1 && px <= width + 1)) continue;
-    const spot = Math.round(px / 3);
-    let kinds = spots.get(spot);
-    if (!kinds) spots.set(spot, (kinds = new Map()));
-    const list = kinds.get(e.kind);
-    if (list) list.push(e);
-    else kinds.set(e.kind, [e]);
-  }
   const glyphs: ReactNode[] = [];
-  for (const [spot, kinds] of spots) {
-    const m = kinds.size;
-    let k = 0;
-    for (const [kind, items] of kinds) {
-      const meta = EVENT_META[kind];
-      const stroked = kind === "dosingStopped";
-      const px = spot * 3 + (k - (m - 1) / 2) * 9;
+  kinds.forEach((kind, row) => {
+    const meta = EVENT_META[kind];
+    const stroked = kind === "dosingStopped";
+    const buckets = new Map<number, ChartEvent[]>();
+    for (const e of events) {
+      if (e.kind !== kind) continue;
+      const px = x(e.day);
+      if (!(px >= -1 && px <= width + 1)) continue;
+      const b = Math.round(px / 8);
+      const list = buckets.get(b);
+      if (list) list.push(e);
+      else buckets.set(b, [e]);
+    }
+    for (const [b, items] of buckets) {
+      const px = items.reduce((s, e) => s + x(e.day), 0) / items.length;
       const title = items.map((e) => `${meta.label}, ${formatDay(e.day)}${e.detail ? `: ${e.detail}` : ""}`).join("\n");
       glyphs.push(
-        <g key={`${spot}-${kind}`} transform={`translate(${px},${y})`}>
+        <g key={`${kind}-${b}`} transform={`translate(${px},${y + row * EVENT_ROW + EVENT_ROW / 2})`}>
           <title>{title}</title>
           <path
             d={meta.glyph}
+            transform="scale(0.85)"
             fill={stroked ? "none" : INK}
             stroke={stroked ? INK : "#ffffff"}
             strokeWidth={stroked ? 1.75 : 0.75}
           />
         </g>,
       );
-      k++;
     }
-  }
+  });
   return <g>{glyphs}</g>;
 }

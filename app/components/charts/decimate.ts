@@ -33,51 +33,61 @@ export function decimateMinMax(
   // Already thin enough: keep everything.
   if (n <= 2 * cols + 2 || !(x1 > x0)) return { index: range(n) };
 
+  // One pass, no closures (this runs on every new series at every width): `minI`/`maxI` hold the
+  // current column's extremes, flushed in time order when the column ends or a kept sample comes.
   const out: number[] = [];
   const scale = cols / (x1 - x0);
   let bucket = -1;
   let minI = -1;
   let maxI = -1;
-
-  const flush = () => {
-    if (minI < 0) return;
+  let prevFinite = Number.isFinite(y[0]);
+  for (let i = 0; i < n; i++) {
+    const v = y[i];
+    const finite = Number.isFinite(v);
+    const nextFinite = i + 1 < n ? Number.isFinite(y[i + 1]) : true;
+    const ti = t[i];
+    const exact =
+      i === 0 ||
+      i === n - 1 ||
+      !finite ||
+      // Both samples of an event pair (same day, before and after the jump).
+      t[i + 1] === ti ||
+      t[i - 1] === ti ||
+      // The neighbours of a gap bound the line segment that ends there.
+      !prevFinite ||
+      !nextFinite;
+    prevFinite = finite;
+    let b = -1;
+    if (!exact) {
+      b = Math.floor((ti - x0) * scale);
+      if (b < 0) b = 0;
+      else if (b >= cols) b = cols - 1;
+      if (b === bucket) {
+        if (v < y[minI]) minI = i;
+        if (v > y[maxI]) maxI = i;
+        continue;
+      }
+    }
+    // The column ends here: write its extremes in time order.
+    if (minI >= 0) {
+      if (minI === maxI) out.push(minI);
+      else if (minI < maxI) out.push(minI, maxI);
+      else out.push(maxI, minI);
+    }
+    if (exact) {
+      out.push(i);
+      bucket = -1;
+      minI = maxI = -1;
+    } else {
+      bucket = b;
+      minI = maxI = i;
+    }
+  }
+  if (minI >= 0) {
     if (minI === maxI) out.push(minI);
     else if (minI < maxI) out.push(minI, maxI);
     else out.push(maxI, minI);
-    minI = maxI = -1;
-  };
-  const keep = (i: number) => {
-    flush();
-    if (out.length === 0 || out[out.length - 1] !== i) out.push(i);
-  };
-
-  for (let i = 0; i < n; i++) {
-    const v = y[i];
-    const isPair = (i + 1 < n && t[i + 1] === t[i]) || (i > 0 && t[i - 1] === t[i]);
-    if (i === 0 || i === n - 1 || isPair || !Number.isFinite(v)) {
-      keep(i);
-      bucket = -1;
-      continue;
-    }
-    // The neighbours of a gap bound the line segment that ends there: keep them exact.
-    if (!Number.isFinite(y[i - 1]) || !Number.isFinite(y[i + 1])) {
-      keep(i);
-      bucket = -1;
-      continue;
-    }
-    let b = Math.floor((t[i] - x0) * scale);
-    if (b < 0) b = 0;
-    else if (b >= cols) b = cols - 1;
-    if (b !== bucket) {
-      flush();
-      bucket = b;
-      minI = maxI = i;
-    } else {
-      if (v < y[minI]) minI = i;
-      if (v > y[maxI]) maxI = i;
-    }
   }
-  flush();
   return { index: out };
 }
 

@@ -27,16 +27,22 @@ export function fontSizeFor(width: number): number {
   return Math.round(Math.min(15, Math.max(11, width / 90)));
 }
 
-/** Margins that fit tick labels, the unit labels above the axes and the event strip below. */
-export function plotBox(width: number, height: number, opts: { rightAxis: boolean }): PlotBox {
+/** Height of one row of event glyphs under the plot, px. */
+export const EVENT_ROW = 11;
+
+/**
+ * Margins that fit tick labels, the unit labels above the axes and the event strip below
+ * (one row per kind of event shown).
+ */
+export function plotBox(width: number, height: number, opts: { rightAxis: boolean; eventRows?: number }): PlotBox {
   const fontSize = fontSizeFor(width);
   const charW = fontSize * 0.62;
   const margin: Margins = {
     top: Math.round(fontSize * 2),
     left: Math.round(charW * 6 + 10),
     right: opts.rightAxis ? Math.round(charW * 5 + 10) : Math.round(fontSize),
-    // Event strip (16 px), tick labels, and the "day" label.
-    bottom: Math.round(16 + fontSize * 2.9),
+    // Event strip, tick labels, and the "day" label.
+    bottom: Math.round(6 + (opts.eventRows ?? 0) * EVENT_ROW + fontSize * 2.9),
   };
   const innerWidth = Math.max(40, width - margin.left - margin.right);
   const innerHeight = Math.max(40, height - margin.top - margin.bottom);
