@@ -2,6 +2,7 @@
  * The nitrogen budget: a stacked bar of where the nitrogen went, and the budget as tables
  * (one run in detail, or several runs side by side with differences marked).
  */
+import { memo } from "react";
 import { budgetSections, budgetSegments, stockRows, type BudgetSegment } from "./budget-model";
 import { formatMgN, formatPercent, splitMgN } from "./format";
 import type { ChartBudget } from "./types";
@@ -17,7 +18,11 @@ export type BudgetBarProps = {
  * Everything that was in the tank at the start or came in, split by where it ended up: the
  * ways out on the left, the pools still holding it at the end on the right.
  */
-export function BudgetBar({ budget, plantNames = [], title = "Where the nitrogen went" }: BudgetBarProps) {
+export const BudgetBar = memo(function BudgetBar({
+  budget,
+  plantNames = [],
+  title = "Where the nitrogen went",
+}: BudgetBarProps) {
   const segments = budgetSegments(budget, plantNames);
   const total = segments.reduce((s, x) => s + x.mg, 0);
   if (!(total > 0)) {
@@ -31,7 +36,6 @@ export function BudgetBar({ budget, plantNames = [], title = "Where the nitrogen
   const out = segments.filter((s) => s.group === "out");
   const outMg = out.reduce((s, x) => s + x.mg, 0);
   const stockMg = total - outMg;
-  const pct = (mg: number) => (mg / total) * 100;
   const summary = segments.map((s) => `${s.label} ${formatPercent(s.mg / total)}`).join(", ");
 
   return (
@@ -42,17 +46,9 @@ export function BudgetBar({ budget, plantNames = [], title = "Where the nitrogen
           Of the <span className="figure">{formatMgN(total)}</span> in the tank at the start or brought in over the run.
         </span>
       </figcaption>
-      <div className="flex text-xs text-stone-700" aria-hidden="true">
-        {outMg > 0 ? (
-          <div className="min-w-0 border-l border-stone-400 pl-1" style={{ width: `${pct(outMg)}%` }}>
-            <span className="block truncate">left the tank {formatPercent(outMg / total)}</span>
-          </div>
-        ) : null}
-        {stockMg > 0 ? (
-          <div className="min-w-0 border-l border-stone-400 pl-1" style={{ width: `${pct(stockMg)}%` }}>
-            <span className="block truncate">still in the tank {formatPercent(stockMg / total)}</span>
-          </div>
-        ) : null}
+      <div className="flex justify-between gap-4 text-xs text-stone-700" aria-hidden="true">
+        {outMg > 0 ? <span>← left the tank {formatPercent(outMg / total)}</span> : <span />}
+        {stockMg > 0 ? <span className="text-right">still in the tank {formatPercent(stockMg / total)} →</span> : null}
       </div>
       <div
         className="flex h-10 w-full overflow-hidden rounded-md border border-stone-300 bg-white"
@@ -90,7 +86,7 @@ export function BudgetBar({ budget, plantNames = [], title = "Where the nitrogen
       </ol>
     </figure>
   );
-}
+});
 
 function Segment({
   segment: s,
@@ -140,11 +136,18 @@ export function differs(ref: number, v: number): boolean {
   return d > 0.5 && d > 0.01 * Math.max(Math.abs(ref), Math.abs(v));
 }
 
-export function BudgetTable({ budgets, caption = "Nitrogen budget" }: BudgetTableProps) {
+export const BudgetTable = memo(function BudgetTable({ budgets, caption = "Nitrogen budget" }: BudgetTableProps) {
   if (budgets.length === 0) return null;
   if (budgets.length === 1) return <SingleBudgetTable column={budgets[0]} caption={caption} />;
 
-  const sections = budgets.map((b) => budgetSections(b.budget, b.plantNames));
+  // Plant groups differ between runs, so only the plants total is compared; rows match by key.
+  const sections = budgets.map((b) =>
+    budgetSections(b.budget, b.plantNames).map((sec) => ({
+      ...sec,
+      rows: sec.rows.filter((r) => !r.key.startsWith("plants-")),
+      byKey: new Map(sec.rows.map((r) => [r.key, r.mg])),
+    })),
+  );
   const ref = sections[0];
   return (
     <div className="overflow-x-auto" tabIndex={0} role="region" aria-label={caption}>
@@ -171,17 +174,20 @@ export function BudgetTable({ budgets, caption = "Nitrogen budget" }: BudgetTabl
                 {section.key === "stocks" ? " (at the end)" : ""}
               </th>
             </tr>
-            {section.rows.map((row, ri) => (
+            {section.rows.map((row) => (
               <tr key={row.key} className={`border-b border-stone-100 ${row.total ? "font-semibold" : ""}`}>
                 <th scope="row" className={`py-1 pr-2 text-left font-normal ${row.level ? "pl-4 text-stone-700" : ""}`}>
                   {row.label}
                 </th>
                 {sections.map((s, k) => {
-                  const v = s[si].rows[ri]?.key === row.key ? s[si].rows[ri].mg : NaN;
+                  const v = s[si].byKey.get(row.key) ?? NaN;
                   const mark = k > 0 && Number.isFinite(v) && differs(row.mg, v);
                   const diff = v - row.mg;
                   return (
-                    <td key={k} className={`num px-2 py-1 text-right ${mark ? "bg-amber-50" : ""}`}>
+                    <td
+                      key={k}
+                      className={`num whitespace-nowrap px-1 py-1 text-right sm:px-2 ${mark ? "bg-amber-50" : ""}`}
+                    >
                       {Number.isFinite(v) ? <Amount mg={v} /> : "–"}
                       {mark ? (
                         <span className="block text-xs text-stone-700">
@@ -202,7 +208,7 @@ export function BudgetTable({ budgets, caption = "Nitrogen budget" }: BudgetTabl
               Imbalance (in − out − change in the tank)
             </th>
             {budgets.map((b) => (
-              <td key={b.label} className="num px-2 py-1 text-right">
+              <td key={b.label} className="num whitespace-nowrap px-1 py-1 text-right sm:px-2">
                 <Amount mg={b.budget.imbalance} />
               </td>
             ))}
@@ -211,7 +217,7 @@ export function BudgetTable({ budgets, caption = "Nitrogen budget" }: BudgetTabl
       </table>
     </div>
   );
-}
+});
 
 function SingleBudgetTable({ column, caption }: { column: BudgetColumn; caption: string }) {
   const b = column.budget;
@@ -221,7 +227,7 @@ function SingleBudgetTable({ column, caption }: { column: BudgetColumn; caption:
   return (
     <div className="space-y-4">
       <div className="overflow-x-auto" tabIndex={0} role="region" aria-label={`${caption}: flows`}>
-        <table className="w-full border-collapse text-sm">
+        <table className="w-full max-w-2xl border-collapse text-sm">
           <caption className="py-2 text-left text-sm text-stone-700">
             {caption}: nitrogen that came in and went out over the run
           </caption>
@@ -243,7 +249,7 @@ function SingleBudgetTable({ column, caption }: { column: BudgetColumn; caption:
                   <th scope="row" className="py-1 pr-2 text-left font-normal">
                     {row.label}
                   </th>
-                  <td className="num px-2 py-1 text-right">
+                  <td className="num whitespace-nowrap px-1 py-1 text-right sm:px-2">
                     <Amount mg={row.mg} />
                   </td>
                 </tr>
@@ -253,20 +259,20 @@ function SingleBudgetTable({ column, caption }: { column: BudgetColumn; caption:
         </table>
       </div>
       <div className="overflow-x-auto" tabIndex={0} role="region" aria-label={`${caption}: in the tank`}>
-        <table className="w-full border-collapse text-sm">
+        <table className="w-full max-w-2xl border-collapse text-sm">
           <caption className="py-2 text-left text-sm text-stone-700">{caption}: nitrogen held in the tank</caption>
           <thead>
             <tr className="border-b border-stone-300 text-left">
               <th scope="col" className="py-1 pr-2 font-normal text-stone-600">
                 Pool
               </th>
-              <th scope="col" className="num px-2 py-1 text-right font-normal text-stone-600">
+              <th scope="col" className="num px-1 py-1 text-right font-normal text-stone-600 sm:px-2">
                 Start
               </th>
-              <th scope="col" className="num px-2 py-1 text-right font-normal text-stone-600">
+              <th scope="col" className="num px-1 py-1 text-right font-normal text-stone-600 sm:px-2">
                 End
               </th>
-              <th scope="col" className="num px-2 py-1 text-right font-normal text-stone-600">
+              <th scope="col" className="num px-1 py-1 text-right font-normal text-stone-600 sm:px-2">
                 Change
               </th>
             </tr>
@@ -277,13 +283,13 @@ function SingleBudgetTable({ column, caption }: { column: BudgetColumn; caption:
                 <th scope="row" className={`py-1 pr-2 text-left font-normal ${row.level ? "pl-4 text-stone-700" : ""}`}>
                   {row.label}
                 </th>
-                <td className="num px-2 py-1 text-right">
+                <td className="num whitespace-nowrap px-1 py-1 text-right sm:px-2">
                   <Amount mg={row.start} />
                 </td>
-                <td className="num px-2 py-1 text-right">
+                <td className="num whitespace-nowrap px-1 py-1 text-right sm:px-2">
                   <Amount mg={row.end} />
                 </td>
-                <td className="num px-2 py-1 text-right">
+                <td className="num whitespace-nowrap px-1 py-1 text-right sm:px-2">
                   {row.end - row.start > 0 ? "+" : ""}
                   <Amount mg={row.end - row.start} />
                 </td>

@@ -3,7 +3,7 @@
  * one line per scenario, told apart by colour, dash and a direct label, with the same day
  * cursor, readout, table and downloads as the results chart (drawing shared through ChartFrame).
  */
-import { useCallback, useId, useMemo, useRef, useState } from "react";
+import { memo, useCallback, useId, useMemo, useRef, useState } from "react";
 import { ChartDataTable, compareTableColumns } from "./chart-data-table";
 import { ChartDownloads } from "./chart-downloads";
 import { ChartFrame, type FrameBand, type FrameGuide, type FrameLine } from "./chart-frame";
@@ -47,6 +47,7 @@ export type CompareChartProps = {
   height?: number;
   onCursorChange?: (day: number) => void;
   table?: boolean;
+  /** File name stem for downloads, made file-safe (default from the title); false hides the buttons. */
   downloadName?: string | false;
 };
 
@@ -60,7 +61,7 @@ export function compareStyle(k: number, key: SeriesKey): { color: string; dash: 
   };
 }
 
-export function CompareChart({
+export const CompareChart = memo(function CompareChart({
   title,
   description,
   runs,
@@ -319,4 +320,4 @@ export function CompareChart({
       }
     />
   );
-}
+});

@@ -2,13 +2,14 @@
 
 /**
  * A value with `sig` significant figures, plain decimal (no exponent). Magnitudes below 0.0001
- * print as "<0.0001" (below any test kit's resolution); non-finite values as "–".
+ * print as "<0.0001" whatever their sign (below any test kit's resolution); non-finite values as "–".
  */
 export function formatNumber(x: number | null | undefined, sig = 3): string {
   if (x == null || !Number.isFinite(x)) return "–";
   if (x === 0) return "0";
   const a = Math.abs(x);
-  if (a < 1e-4) return x < 0 ? "-<0.0001" : "<0.0001";
+  // The sign of something this small is solver noise, not information.
+  if (a < 1e-4) return "<0.0001";
   if (a >= 10 ** sig) return String(Math.round(x));
   // toPrecision can give an exponent for small numbers; Number() then String() keeps it plain
   // for everything ≥ 1e-6, and we stopped at 1e-4 above.

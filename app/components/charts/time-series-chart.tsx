@@ -4,7 +4,7 @@
  * time axis, test-kit readings, overlays of another run, a day cursor with a readout, the data
  * table and downloads. Drawing is shared with CompareChart through ChartFrame.
  */
-import { useCallback, useMemo, useRef, useState } from "react";
+import { memo, useCallback, useMemo, useRef, useState } from "react";
 import { ChartDataTable, seriesTableColumns } from "./chart-data-table";
 import { ChartDownloads } from "./chart-downloads";
 import { ChartFrame, type FrameBand, type FrameGuide, type FrameLine, type FramePoint } from "./chart-frame";
@@ -65,7 +65,7 @@ export type TimeSeriesChartProps = {
   onCursorChange?: (day: number) => void;
   /** Show the data table under the chart (default true). */
   table?: boolean;
-  /** File name for downloads (default from the title); false hides the buttons. */
+  /** File name stem for downloads, made file-safe (default from the title); false hides the buttons. */
   downloadName?: string | false;
 };
 
@@ -82,7 +82,7 @@ function fullVisibility(v: Partial<Visibility> | undefined): Visibility {
   return { tan: true, nh3: true, no2: true, no3: true, plants: true, ...v };
 }
 
-export function TimeSeriesChart({
+export const TimeSeriesChart = memo(function TimeSeriesChart({
   title,
   description,
   series,
@@ -348,7 +348,7 @@ export function TimeSeriesChart({
       }
     />
   );
-}
+});
 
 function visibilityKey(v: Visibility): string {
   return SERIES_KEYS.map((k) => (v[k] ? "1" : "0")).join("");
@@ -462,7 +462,7 @@ function Readout({
       <table className="w-full text-sm">
         <caption className="sr-only">Values at {formatDay(day)}</caption>
         <thead className={overlays.length ? "" : "sr-only"}>
-          <tr className="text-left text-xs text-stone-600">
+          <tr className="text-left align-bottom text-xs text-stone-600">
             <th scope="col" className="font-normal">
               Series
             </th>
@@ -470,7 +470,7 @@ function Readout({
               {seriesLabel}
             </th>
             {overlays.map((o) => (
-              <th key={o.label} scope="col" className="text-right font-normal">
+              <th key={o.label} scope="col" className="break-words pl-2 text-right font-normal">
                 {o.label}
               </th>
             ))}
@@ -478,18 +478,20 @@ function Readout({
         </thead>
         <tbody>
           {rows.map((r) => (
-            <tr key={r.key}>
+            <tr key={r.key} className="align-top">
               <th scope="row" className="py-0.5 pr-2 text-left font-normal">
-                <span className="inline-flex items-center gap-1.5">
-                  <LineSwatch color={r.color} dash={r.dash} />
-                  {r.name}
+                <span className="inline-flex items-start gap-1.5">
+                  <span className="pt-1">
+                    <LineSwatch color={r.color} dash={r.dash} />
+                  </span>
+                  <span>
+                    {r.name} <span className="block text-xs text-stone-600">{r.unit}</span>
+                  </span>
                 </span>
               </th>
-              <td className="num whitespace-nowrap text-right">
-                {formatNumber(r.main)} <span className="text-xs text-stone-600">{r.unit}</span>
-              </td>
+              <td className="num whitespace-nowrap py-0.5 text-right">{formatNumber(r.main)}</td>
               {r.others.map((v, k) => (
-                <td key={k} className="num whitespace-nowrap pl-2 text-right text-stone-700">
+                <td key={k} className="num whitespace-nowrap py-0.5 pl-2 text-right text-stone-700">
                   {formatNumber(v)}
                 </td>
               ))}

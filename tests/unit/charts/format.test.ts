@@ -11,6 +11,7 @@ describe("formatNumber", () => {
     expect(formatNumber(-0.31)).toBe("-0.31");
     expect(formatNumber(0)).toBe("0");
     expect(formatNumber(7.6e-7)).toBe("<0.0001");
+    expect(formatNumber(-3e-9)).toBe("<0.0001");
     expect(formatNumber(NaN)).toBe("–");
     expect(formatNumber(undefined)).toBe("–");
   });
