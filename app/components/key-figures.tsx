@@ -36,7 +36,7 @@ export function keyFigureRows(k: DisplayKeyFigures, u: FigureUnits): { label: st
 
 export function KeyFiguresList({ figures, units }: { figures: DisplayKeyFigures; units: FigureUnits }) {
   return (
-    <dl className="grid grid-cols-1 gap-3 sm:grid-cols-2 lg:grid-cols-4">
+    <dl className="grid grid-cols-2 gap-2 sm:gap-3 lg:grid-cols-4">
       {keyFigureRows(figures, units).map((r) => (
         <div key={r.label} className="rounded-md border border-stone-200 bg-white p-3">
           <dt className="text-xs text-stone-600">{r.label}</dt>

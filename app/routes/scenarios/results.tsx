@@ -1,34 +1,87 @@
-import { Link } from "react-router";
+import { useCallback, useMemo, useState } from "react";
+import { Form, Link, redirect } from "react-router";
 import type { Route } from "./+types/results";
+import { BudgetBar, BudgetTable } from "~/components/charts/budget";
+import { TimeSeriesChart } from "~/components/charts/time-series-chart";
 import { CautionsPanel } from "~/components/cautions";
 import { KeyFiguresList } from "~/components/key-figures";
 import { FormMessage } from "~/components/ui/field";
+import { WhatIfPanel, type WhatIfPreview } from "~/components/what-if-panel";
 import { requireUser } from "~/permissions.server";
 import { resultsPayload } from "~/results.server";
+import { saveScenarioWithRun } from "~/scenario-api.server";
 import { ensureRun, isModelError, readStoredSettings, withTankTargets } from "~/simulation.server";
 import { requireOwnedScenario } from "~/tanks.server";
 import { displayUnitsFor, formatNumber } from "~/utils/display-units";
+import { formValues } from "~/utils/form-errors";
+import { invalid, readForm } from "~/utils/http.server";
+import { applyWhatIf, whatIfBase, WhatIfSchema } from "~/what-if.server";
+import { ScenarioNameSchema } from "./setup.server";
 
-export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.scenario.name ?? "Results"} · Fernwater` }];
+export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.scenario.name ?? "Results"} · ${data?.tank.name ?? ""} · Fernwater` }];
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const user = await requireUser(request);
   const { tank, scenario } = requireOwnedScenario(user.id, params.tankId, params.scenarioId);
   const base = { tank: { id: tank.id, name: tank.name }, scenario: { id: scenario.id, name: scenario.name } };
   const settings = readStoredSettings(scenario.settings);
-  if (!settings) return { ...base, error: "The saved settings of this scenario can no longer be read.", results: null };
+  if (!settings) return { ...base, error: "The saved settings of this scenario can no longer be read.", results: null, whatIf: null };
   const withTargets = withTankTargets(settings, tank);
   try {
     const run = await ensureRun(scenario.id, withTargets);
-    return { ...base, error: null, results: resultsPayload(run, withTargets, displayUnitsFor(user)) };
+    return {
+      ...base,
+      error: null,
+      results: resultsPayload(run, withTargets, displayUnitsFor(user)),
+      whatIf: { base: whatIfBase(withTargets), hasPlants: withTargets.plants.length > 0 },
+    };
   } catch (error) {
-    if (isModelError(error)) return { ...base, error: error.message, results: null };
+    if (isModelError(error)) return { ...base, error: error.message, results: null, whatIf: null };
     throw error;
   }
 }
 
-export default function ResultsPage({ loaderData }: Route.ComponentProps) {
-  const { tank, scenario, results, error } = loaderData;
+export async function action({ request, params }: Route.ActionArgs) {
+  const user = await requireUser(request);
+  const { tank, scenario } = requireOwnedScenario(user.id, params.tankId, params.scenarioId);
+  const values = formValues(await readForm(request));
+  if (values.intent !== "save-what-if") return invalid({ "": "Unknown action." }, values);
+  const name = ScenarioNameSchema.safeParse(values.name);
+  const changes = WhatIfSchema.safeParse(
+    Object.fromEntries(
+      ["feedGPerDay", "waterChangeFraction", "waterChangeIntervalDays", "plantMassFactor", "tapNitrate"]
+        .filter((k) => values[k] !== undefined && values[k] !== "")
+        .map((k) => [k, Number(values[k])]),
+    ),
+  );
+  if (!name.success) return invalid({ name: name.error.issues[0].message }, values);
+  if (!changes.success) return invalid({ "": "Those what-if values are out of range." }, values);
+  const saved = readStoredSettings(scenario.settings);
+  if (!saved) return invalid({ "": "The saved settings of this scenario can no longer be read." }, values);
+  try {
+    const id = await saveScenarioWithRun(tank, "new", name.data, applyWhatIf(saved, changes.data));
+    return redirect(`/tanks/${tank.id}/scenarios/${id}`);
+  } catch (error) {
+    if (error instanceof Response) {
+      const body = (await error.json()) as { error: string };
+      return invalid({ "": `The model could not run those settings: ${body.error}` }, values);
+    }
+    throw error;
+  }
+}
+
+export default function ResultsPage({ loaderData, actionData }: Route.ComponentProps) {
+  const { tank, scenario, results, error, whatIf } = loaderData;
+  const [preview, setPreview] = useState<WhatIfPreview | null>(null);
+  const onPreview = useCallback((p: WhatIfPreview | null) => setPreview(p), []);
+  // Stable identities, so the chart and budget only redraw what changed.
+  const overlays = useMemo(() => (preview ? [{ label: "What if", series: preview.series }] : undefined), [preview]);
+  const plantNames = useMemo(() => results?.series.plants.map((p) => p.name) ?? [], [results]);
+  const budgets = useMemo(
+    () => (results ? [{ label: scenario.name, budget: results.budget, plantNames }] : []),
+    [results, scenario.name, plantNames],
+  );
+  const base = `/tanks/${tank.id}/scenarios/${scenario.id}`;
   return (
     <div className="space-y-6">
       <nav aria-label="Breadcrumb" className="text-sm">
@@ -43,18 +96,85 @@ export default function ResultsPage({ loaderData }: Route.ComponentProps) {
       </nav>
       <div className="flex flex-wrap items-center justify-between gap-3">
         <h1 className="text-2xl">{scenario.name}</h1>
-        <Link to={`/tanks/${tank.id}/scenarios/${scenario.id}/edit`} className="btn-secondary">
-          Edit settings
-        </Link>
+        <div className="flex flex-wrap gap-2">
+          <Link to={`${base}/edit`} className="btn-secondary">
+            Edit settings
+          </Link>
+          <a href={`${base}/export`} className="btn-secondary" download>
+            Export scenario file
+          </a>
+        </div>
       </div>
-      {error ? <FormMessage>{error}</FormMessage> : null}
+      {error ? (
+        <FormMessage>
+          {error}{" "}
+          <Link to={`${base}/edit`} className="link">
+            Change the settings
+          </Link>
+        </FormMessage>
+      ) : null}
+      {actionData?.errors[""] ? <FormMessage>{actionData.errors[""]}</FormMessage> : null}
+      {actionData?.errors.name ? <FormMessage>{actionData.errors.name}</FormMessage> : null}
       {results ? (
         <>
-          <KeyFiguresList figures={results.keyFigures} units={results.labels} />
+          <section aria-labelledby="figures-title" className="space-y-2">
+            <h2 id="figures-title" className="sr-only">
+              Key figures
+            </h2>
+            <KeyFiguresList figures={results.keyFigures} units={results.labels} />
+            {preview ? (
+              <p className="text-sm text-stone-700" aria-live="polite">
+                What if: nitrate at the end {formatNumber(preview.keyFigures.nitrateEnd)} {results.labels.nitrate} (saved{" "}
+                {formatNumber(results.keyFigures.nitrateEnd)}), peak free ammonia {formatNumber(preview.keyFigures.peakFreeNh3.value)}{" "}
+                {results.labels.ammonia}, {formatNumber(preview.keyFigures.daysAboveNitrateTarget)} days above the target.
+              </p>
+            ) : null}
+          </section>
+          <TimeSeriesChart
+            title={`${scenario.name}: nitrogen over ${results.lengthDays} days`}
+            series={results.series}
+            seriesLabel="Saved"
+            units={results.labels}
+            events={results.events}
+            guides={results.guides}
+            overlays={overlays}
+            downloadName={`${tank.name}-${scenario.name}`}
+          />
+          {whatIf ? (
+            <WhatIfPanel
+              scenarioId={scenario.id}
+              scenarioName={scenario.name}
+              base={whatIf.base}
+              hasPlants={whatIf.hasPlants}
+              nitrateFactor={results.nitrateFactor}
+              nitrateLabel={results.labels.nitrate}
+              onPreview={onPreview}
+            />
+          ) : null}
+          <section aria-labelledby="budget-title" className="card space-y-4">
+            <h2 id="budget-title" className="text-lg">
+              Nitrogen budget
+            </h2>
+            <BudgetBar budget={results.budget} plantNames={plantNames} />
+            <BudgetTable budgets={budgets} />
+          </section>
           <CautionsPanel
             tapNitrateAboveDrinkingLimit={results.tapNitrateAboveDrinkingLimit}
             tapNitrateText={`${formatNumber(results.tapNitrateDisplay)} ${results.labels.nitrate}`}
           />
+          <p className="text-xs text-stone-500">
+            {results.engineVersion}: {results.stats.steps} solver steps, {results.stats.rhsEvals} evaluations, {results.stats.wallMs} ms.
+          </p>
+          <Form method="post" action={`/tanks/${tank.id}`} className="flex flex-wrap items-center gap-3 text-sm">
+            <input type="hidden" name="intent" value="delete-scenario" />
+            <input type="hidden" name="scenarioId" value={scenario.id} />
+            <label className="flex items-center gap-2">
+              <input type="checkbox" name="confirm" value="yes" className="h-4 w-4 accent-red-700" /> Yes, delete this scenario
+            </label>
+            <button type="submit" className="btn-danger py-1">
+              Delete scenario
+            </button>
+          </Form>
         </>
       ) : null}
     </div>

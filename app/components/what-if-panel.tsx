@@ -1,0 +1,188 @@
+import { useEffect, useRef, useState } from "react";
+import { Form, useFetcher } from "react-router";
+import type { ChartSeries } from "~/components/charts/types";
+import type { DisplayKeyFigures } from "~/components/key-figures";
+import { formatNumber } from "~/utils/display-units";
+
+/** Starting values, canonical (g/day, 0–1, days, factor, mg N/L). */
+export type WhatIfValues = {
+  feedGPerDay: number;
+  waterChangeFraction: number;
+  waterChangeIntervalDays: number;
+  plantMassFactor: number;
+  tapNitrate: number;
+};
+
+export type WhatIfPreview = { keyFigures: DisplayKeyFigures; series: ChartSeries; lengthDays: number };
+
+type Props = {
+  scenarioId: number;
+  scenarioName: string;
+  base: WhatIfValues;
+  hasPlants: boolean;
+  /** mg N/L → the viewer's nitrate unit. */
+  nitrateFactor: number;
+  nitrateLabel: string;
+  onPreview: (preview: WhatIfPreview | null) => void;
+};
+
+const DEBOUNCE_MS = 300;
+
+function Slider({
+  name,
+  label,
+  value,
+  min,
+  max,
+  step,
+  display,
+  onChange,
+}: {
+  name: string;
+  label: string;
+  value: number;
+  min: number;
+  max: number;
+  step: number;
+  display: string;
+  onChange: (v: number) => void;
+}) {
+  const id = `what-if-${name}`;
+  return (
+    <div className="space-y-1">
+      <label htmlFor={id} className="flex justify-between text-sm font-semibold">
+        <span>{label}</span>
+        <output htmlFor={id} className="figure font-normal">
+          {display}
+        </output>
+      </label>
+      <input
+        id={id}
+        name={name}
+        type="range"
+        min={min}
+        max={max}
+        step={step}
+        value={value}
+        aria-valuetext={display}
+        onChange={(e) => onChange(Number(e.target.value))}
+        className="w-full accent-fern-700"
+      />
+    </div>
+  );
+}
+
+/**
+ * Sliders for a few settings; each change (debounced) asks the preview API for a run of the
+ * changed scenario, and the page overlays it on the saved run. "Save as a new scenario" keeps it.
+ */
+export function WhatIfPanel({ scenarioId, scenarioName, base, hasPlants, nitrateFactor, nitrateLabel, onPreview }: Props) {
+  const fetcher = useFetcher<WhatIfPreview & { error?: string }>();
+  const [values, setValues] = useState(base);
+  const changed = (Object.keys(base) as (keyof WhatIfValues)[]).some((k) => Math.abs(values[k] - base[k]) > 1e-12);
+  const timer = useRef<ReturnType<typeof setTimeout> | undefined>(undefined);
+  const submit = fetcher.submit;
+
+  useEffect(() => {
+    clearTimeout(timer.current);
+    if (!changed) {
+      onPreview(null);
+      return;
+    }
+    timer.current = setTimeout(() => {
+      submit(
+        { scenarioId, whatIf: values },
+        { method: "post", action: "/api/preview?units=display", encType: "application/json" },
+      );
+    }, DEBOUNCE_MS);
+    return () => clearTimeout(timer.current);
+  }, [values, changed, scenarioId, submit, onPreview]);
+
+  useEffect(() => {
+    if (!changed) return;
+    if (fetcher.data && "series" in fetcher.data && fetcher.data.series) onPreview(fetcher.data);
+  }, [fetcher.data, changed, onPreview]);
+
+  const set = (key: keyof WhatIfValues) => (v: number) => setValues((old) => ({ ...old, [key]: v }));
+  const feedMax = Math.max(2, base.feedGPerDay * 3);
+  const tapMax = Math.max(25, base.tapNitrate * 2) ;
+  const error = fetcher.data && "error" in fetcher.data ? fetcher.data.error : null;
+
+  return (
+    <section className="card space-y-4" aria-labelledby="what-if-title">
+      <div className="flex flex-wrap items-baseline justify-between gap-2">
+        <h2 id="what-if-title" className="text-lg">
+          What if…
+        </h2>
+        <p className="text-sm text-stone-600" aria-live="polite">
+          {fetcher.state !== "idle" ? "Running the model…" : changed ? "The changed run is drawn thin over the saved one." : "Move a slider to try a change."}
+        </p>
+      </div>
+      <Form method="post" className="space-y-4">
+        <input type="hidden" name="intent" value="save-what-if" />
+        <div className="grid gap-4 sm:grid-cols-2">
+          <Slider name="feedGPerDay" label="Food per day" value={values.feedGPerDay} min={0} max={feedMax} step={0.05} display={`${formatNumber(values.feedGPerDay)} g`} onChange={set("feedGPerDay")} />
+          <Slider
+            name="waterChangeFraction"
+            label="Share of water changed"
+            value={values.waterChangeFraction}
+            min={0}
+            max={0.9}
+            step={0.05}
+            display={`${Math.round(values.waterChangeFraction * 100)} %`}
+            onChange={set("waterChangeFraction")}
+          />
+          <Slider
+            name="waterChangeIntervalDays"
+            label="Change water every"
+            value={values.waterChangeIntervalDays}
+            min={0}
+            max={42}
+            step={1}
+            display={values.waterChangeIntervalDays === 0 ? "never" : `${values.waterChangeIntervalDays} days`}
+            onChange={set("waterChangeIntervalDays")}
+          />
+          <Slider
+            name="plantMassFactor"
+            label={hasPlants ? "Plant mass (× saved)" : "Plant mass (no plant groups saved)"}
+            value={values.plantMassFactor}
+            min={0}
+            max={4}
+            step={0.1}
+            display={`× ${formatNumber(values.plantMassFactor)}`}
+            onChange={set("plantMassFactor")}
+          />
+          <Slider
+            name="tapNitrate"
+            label="Tap water nitrate"
+            value={values.tapNitrate}
+            min={0}
+            max={tapMax}
+            step={tapMax / 100}
+            display={`${formatNumber(values.tapNitrate * nitrateFactor)} ${nitrateLabel}`}
+            onChange={set("tapNitrate")}
+          />
+        </div>
+        {error ? (
+          <p className="text-sm font-semibold text-red-800" role="alert">
+            {error}
+          </p>
+        ) : null}
+        <div className="flex flex-wrap items-end gap-3">
+          <div className="space-y-1">
+            <label htmlFor="what-if-name" className="block text-sm font-semibold">
+              Name of the new scenario
+            </label>
+            <input id="what-if-name" name="name" className="input" defaultValue={`${scenarioName} (what if)`} maxLength={120} />
+          </div>
+          <button type="submit" className="btn" disabled={!changed}>
+            Save as a new scenario
+          </button>
+          <button type="button" className="btn-secondary" disabled={!changed} onClick={() => setValues(base)}>
+            Back to the saved values
+          </button>
+        </div>
+      </Form>
+    </section>
+  );
+}
