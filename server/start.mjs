@@ -1,11 +1,14 @@
 // Starts Fernwater: `node server/start.mjs` serves the build; `--dev` serves through Vite.
 // The port comes from PORT (default 3000); HOST defaults to 0.0.0.0.
+import path from "node:path";
+import { pathToFileURL } from "node:url";
 import compression from "compression";
 import express from "express";
 
 const dev = process.argv.includes("--dev");
 if (!dev) process.env.NODE_ENV ??= "production";
 
+const buildDir = path.resolve(process.env.FERNWATER_BUILD_DIR ?? "build");
 const port = Number(process.env.PORT ?? 3000);
 const host = process.env.HOST ?? "0.0.0.0";
 
@@ -30,10 +33,10 @@ if (dev) {
     }
   });
 } else {
-  appModule = await import("../build/server/index.js");
+  appModule = await import(pathToFileURL(path.join(buildDir, "server/index.js")).href);
   // Fingerprinted assets never change; everything else in public/ may.
-  server.use("/assets", express.static("build/client/assets", { immutable: true, maxAge: "1y", index: false }));
-  server.use(express.static("build/client", { maxAge: "1h", index: false }));
+  server.use("/assets", express.static(path.join(buildDir, "client/assets"), { immutable: true, maxAge: "1y", index: false }));
+  server.use(express.static(path.join(buildDir, "client"), { maxAge: "1h", index: false }));
   server.use(appModule.app);
 }
 

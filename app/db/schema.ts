@@ -96,6 +96,11 @@ export const scenarios = sqliteTable(
     /** The engine's scenario as JSON, canonical units. */
     settings: text("settings", { mode: "json" }).notNull(),
     schemaVersion: integer("schema_version").notNull(),
+    /**
+     * Calendar date of simulated day 0, so test-kit readings (dated) line up with model days.
+     * Null: the day the scenario was created.
+     */
+    startDate: integer("start_date", { mode: "timestamp_ms" }),
     /** Scenario this one was copied from (share link, lesson, "save as new"). */
     copiedFromId: integer("copied_from_id").references((): any => scenarios.id, { onDelete: "set null" }),
     createdAt: createdAt(),

@@ -1,0 +1,1 @@
+ALTER TABLE `scenarios` ADD `start_date` integer;
