@@ -1,7 +1,7 @@
 /** Server code shared by the scenario API routes: validation of bodies, JSON shapes, saving with a run. */
 import { eq } from "drizzle-orm";
 import { z } from "zod";
-import { parseScenario, type Scenario } from "../models";
+import { parseScenario, type Scenario, type SimulationResult } from "../models";
 import { apiError, zodIssues } from "~/api.server";
 import { getDb } from "~/db/client.server";
 import { scenarios } from "~/db/schema";
@@ -67,27 +67,41 @@ export async function runOrRefuse(scenario: Scenario) {
   }
 }
 
+type Tx = Parameters<Parameters<ReturnType<typeof getDb>["transaction"]>[0]>[0];
+
+/**
+ * Inserts a new scenario with its finished run inside the caller's transaction (so a copy can
+ * create its tank, scenario, run and bookkeeping rows all or nothing). Returns the new id.
+ * @param copiedFromId the scenario this one was copied from (share link, lesson), if any.
+ */
+export function insertScenarioWithRun(
+  tx: Tx,
+  tankId: number,
+  name: string,
+  scenario: Scenario,
+  result: SimulationResult,
+  copiedFromId: number | null = null,
+): number {
+  const id = tx
+    .insert(scenarios)
+    .values({ tankId, name, settings: scenario, schemaVersion: scenario.schemaVersion, copiedFromId })
+    .returning({ id: scenarios.id })
+    .get().id;
+  insertRun(tx, id, settingsHash(scenario), result);
+  return id;
+}
+
 /** Creates (target "new") or overwrites a scenario together with its run, in one transaction. */
 export async function saveScenarioWithRun(tank: TankRow, target: "new" | number, name: string, settings: Scenario): Promise<number> {
   const scenario = withTankTargets(settings, tank);
   const result = await runOrRefuse(scenario);
-  const hash = settingsHash(scenario);
   return getDb().transaction((tx) => {
-    const id =
-      target === "new"
-        ? tx
-            .insert(scenarios)
-            .values({ tankId: tank.id, name, settings: scenario, schemaVersion: scenario.schemaVersion })
-            .returning({ id: scenarios.id })
-            .get().id
-        : target;
-    if (target !== "new") {
-      tx.update(scenarios)
-        .set({ name, settings: scenario, schemaVersion: scenario.schemaVersion, updatedAt: new Date() })
-        .where(eq(scenarios.id, target))
-        .run();
-    }
-    insertRun(tx, id, hash, result);
-    return id;
+    if (target === "new") return insertScenarioWithRun(tx, tank.id, name, scenario, result);
+    tx.update(scenarios)
+      .set({ name, settings: scenario, schemaVersion: scenario.schemaVersion, updatedAt: new Date() })
+      .where(eq(scenarios.id, target))
+      .run();
+    insertRun(tx, target, settingsHash(scenario), result);
+    return target;
   });
 }
