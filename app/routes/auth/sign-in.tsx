@@ -43,6 +43,7 @@ export default function SignInPage({ actionData }: Route.ComponentProps) {
   const [params] = useSearchParams();
   const errors = actionData?.errors ?? {};
   const values = actionData?.values ?? {};
+  const redirectTo = values.redirectTo ?? params.get("redirectTo") ?? "/tanks";
   const busy = useNavigation().state === "submitting";
   return (
     <section className="card mx-auto max-w-md space-y-4">
@@ -52,7 +53,7 @@ export default function SignInPage({ actionData }: Route.ComponentProps) {
       ) : null}
       {errors[""] ? <FormMessage>{errors[""]}</FormMessage> : null}
       <Form method="post" className="space-y-4" noValidate>
-        <input type="hidden" name="redirectTo" value={values.redirectTo ?? params.get("redirectTo") ?? "/tanks"} />
+        <input type="hidden" name="redirectTo" value={redirectTo} />
         <TextField
           label="E-mail"
           name="email"
@@ -78,7 +79,7 @@ export default function SignInPage({ actionData }: Route.ComponentProps) {
         <Link to="/forgot-password" className="link">
           Forgot your password?
         </Link>
-        <Link to="/sign-up" className="link">
+        <Link to={redirectTo === "/tanks" ? "/sign-up" : `/sign-up?redirectTo=${encodeURIComponent(redirectTo)}`} className="link">
           Create an account
         </Link>
       </p>

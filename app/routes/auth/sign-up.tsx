@@ -1,11 +1,11 @@
 import { eq } from "drizzle-orm";
-import { Form, Link, redirect, useNavigation } from "react-router";
+import { Form, Link, redirect, useNavigation, useSearchParams } from "react-router";
 import type { Route } from "./+types/sign-up";
 import { hashPassword } from "~/auth.server";
 import { FormMessage, TextField } from "~/components/ui/field";
 import { getDb } from "~/db/client.server";
 import { users } from "~/db/schema";
-import { createUserSession, getSessionUser } from "~/session.server";
+import { createUserSession, getSessionUser, safeRedirect } from "~/session.server";
 import { SignUpSchema } from "~/utils/account-schemas";
 import { fieldErrors, formValues } from "~/utils/form-errors";
 import { invalid, readForm } from "~/utils/http.server";
@@ -13,7 +13,7 @@ import { invalid, readForm } from "~/utils/http.server";
 export const meta: Route.MetaFunction = () => [{ title: "Create an account · Fernwater" }];
 
 export async function loader({ request }: Route.LoaderArgs) {
-  if (await getSessionUser(request)) throw redirect("/tanks");
+  if (await getSessionUser(request)) throw redirect(safeRedirect(new URL(request.url).searchParams.get("redirectTo")));
   return null;
 }
 
@@ -32,10 +32,13 @@ export async function action({ request }: Route.ActionArgs) {
   // The unique index settles a race between two sign-ups with the same address.
   const created = db.insert(users).values({ name, email, passwordHash }).onConflictDoNothing().returning({ id: users.id }).get();
   if (!created) return invalid({ email: "An account with this e-mail already exists." }, values);
-  return createUserSession(request, created.id, "/tanks");
+  // Back to where sign-up started (a share link, a class invitation), same-site paths only.
+  return createUserSession(request, created.id, safeRedirect(values.redirectTo));
 }
 
 export default function SignUpPage({ actionData }: Route.ComponentProps) {
+  const [params] = useSearchParams();
+  const redirectTo = actionData?.values.redirectTo ?? params.get("redirectTo") ?? "/tanks";
   const errors = actionData?.errors ?? {};
   const values = actionData?.values ?? {};
   const busy = useNavigation().state === "submitting";
@@ -44,6 +47,7 @@ export default function SignUpPage({ actionData }: Route.ComponentProps) {
       <h1 className="text-2xl">Create an account</h1>
       {errors[""] ? <FormMessage>{errors[""]}</FormMessage> : null}
       <Form method="post" className="space-y-4" noValidate>
+        <input type="hidden" name="redirectTo" value={redirectTo} />
         <TextField label="Name" name="name" autoComplete="name" defaultValue={values.name} error={errors.name} required />
         <TextField
           label="E-mail"
@@ -77,7 +81,7 @@ export default function SignUpPage({ actionData }: Route.ComponentProps) {
       </Form>
       <p className="text-sm">
         Already have an account?{" "}
-        <Link to="/sign-in" className="link">
+        <Link to={redirectTo === "/tanks" ? "/sign-in" : `/sign-in?redirectTo=${encodeURIComponent(redirectTo)}`} className="link">
           Sign in
         </Link>
       </p>
