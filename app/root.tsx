@@ -64,11 +64,10 @@ function Shell({ children }: { children: React.ReactNode }) {
                 <NavLink to="/tanks" className={navClass}>
                   Tanks
                 </NavLink>
-                {user.role === "educator" || user.role === "admin" ? (
-                  <NavLink to="/classes" className={navClass}>
-                    Classes
-                  </NavLink>
-                ) : null}
+                {/* Everyone: educators run classes there, students join and open their lessons. */}
+                <NavLink to="/classes" className={navClass}>
+                  Classes
+                </NavLink>
                 {user.role === "admin" ? (
                   <NavLink to="/admin" className={navClass}>
                     Admin
