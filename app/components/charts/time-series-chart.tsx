@@ -4,7 +4,7 @@
  * time axis, test-kit readings, overlays of another run, a day cursor with a readout, the data
  * table and downloads. Drawing is shared with CompareChart through ChartFrame.
  */
-import { memo, useCallback, useMemo, useRef, useState } from "react";
+import { memo, useCallback, useEffect, useMemo, useRef, useState } from "react";
 import { ChartDataTable, seriesTableColumns } from "./chart-data-table";
 import { ChartDownloads } from "./chart-downloads";
 import { ChartFrame, type FrameBand, type FrameGuide, type FrameLine, type FramePoint } from "./chart-frame";
@@ -13,7 +13,7 @@ import type { LegendItem } from "./downloads";
 import { formatDay, formatNumber, formatSigned } from "./format";
 import { useControllable, useDayCursor } from "./hooks";
 import { EventKey, LineSwatch, ToggleButton } from "./legend";
-import { residualsNear, sampleSide, valueAt, type Side } from "./lookup";
+import { nearestIndex, residualsNear, sampleSide, valueAt, type Side } from "./lookup";
 import {
   BAND_COLOR,
   DEFAULT_EVENT_KINDS,
@@ -63,6 +63,12 @@ export type TimeSeriesChartProps = {
   /** Chart height in px (default 340). */
   height?: number;
   onCursorChange?: (day: number) => void;
+  /**
+   * Moves the day cursor to this day (nearest sample; at an event, the sample before it)
+   * whenever it changes, e.g. from a slider or a play button. The person can still move the
+   * cursor on the chart; leave it out and the chart keeps its own cursor.
+   */
+  cursorDay?: number;
   /** Show the data table under the chart (default true). */
   table?: boolean;
   /** File name stem for downloads, made file-safe (default from the title); false hides the buttons. */
@@ -98,6 +104,7 @@ export const TimeSeriesChart = memo(function TimeSeriesChart({
   onVisibleChange,
   height = 340,
   onCursorChange,
+  cursorDay,
   table = true,
   downloadName,
 }: TimeSeriesChartProps) {
@@ -237,6 +244,13 @@ export const TimeSeriesChart = memo(function TimeSeriesChart({
   );
 
   const cursor = useDayCursor(series.t, describe, onCursorChange);
+  const moveCursor = cursor.moveTo;
+  useEffect(() => {
+    if (cursorDay === undefined || !Number.isFinite(cursorDay)) return;
+    const i = nearestIndex(series.t, cursorDay, "before");
+    // "pointer": no live-region announcement for every frame of an animation.
+    if (i >= 0) moveCursor(i, "pointer");
+  }, [cursorDay, series.t, moveCursor]);
 
   const fileName = downloadName === false ? null : fileSlug(downloadName ?? title);
   const legend: LegendItem[] = useMemo(
