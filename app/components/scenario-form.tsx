@@ -16,6 +16,8 @@ type Props = {
   unitsNote: React.ReactNode;
   /** Field names a lesson locks; drawn read-only. */
   locked?: ReadonlySet<string>;
+  /** A lesson that fixes the plant groups: no adding or removing rows (their unlocked fields stay editable). */
+  plantGroupsLocked?: boolean;
 };
 
 function FieldInput({ field, error, locked }: { field: FormField; error?: string; locked?: boolean }) {
@@ -97,15 +99,17 @@ function PlantRowFields({
   onGrowthForm,
   onRemove,
   locked,
+  fixedRows,
 }: {
   row: PlantRow;
   errors: FieldErrors;
   onGrowthForm: (index: number, form: string) => void;
   onRemove: (index: number) => void;
   locked?: ReadonlySet<string>;
+  fixedRows?: boolean;
 }) {
   const name = row.fields.find((f) => f.name.endsWith(".name"))?.value || `Plant group ${row.index + 1}`;
-  const rowLocked = row.fields.every((f) => locked?.has(f.name));
+  const rowLocked = fixedRows || row.fields.every((f) => locked?.has(f.name));
   return (
     <fieldset className="rounded-md border border-stone-200 p-3 sm:p-4" data-plant-row={row.index}>
       <legend className="px-1 text-sm font-semibold text-fern-800">{name}</legend>
@@ -144,7 +148,16 @@ function PlantRowFields({
  * submit buttons the server answers); with JavaScript those happen in place and choosing a
  * growth form fills in its typical values.
  */
-export function ScenarioForm({ model, errors, submitLabel, extraActions = [], openSections = ["water"], unitsNote, locked }: Props) {
+export function ScenarioForm({
+  model,
+  errors,
+  submitLabel,
+  extraActions = [],
+  openSections = ["water"],
+  unitsNote,
+  locked,
+  plantGroupsLocked = false,
+}: Props) {
   const busy = useNavigation().state === "submitting";
   const formRef = useRef<HTMLFormElement>(null);
   const [rows, setRows] = useState(model.plants);
@@ -244,40 +257,43 @@ export function ScenarioForm({ model, errors, submitLabel, extraActions = [], op
                   row={row}
                   errors={errors}
                   locked={locked}
+                  fixedRows={plantGroupsLocked}
                   onGrowthForm={fillGrowthForm}
                   onRemove={(index) => setRows(rows.filter((r) => r.index !== index))}
                 />
               ))}
-              <div className="flex flex-wrap items-end gap-2">
-                <div className="space-y-1">
-                  <label htmlFor="new-plant-form" className="block text-sm font-semibold text-stone-800">
-                    Growth form of the new group
-                  </label>
-                  <select id="new-plant-form" name="newPlantForm" className="input" defaultValue="floating">
-                    {model.growthForms.map((g) => (
-                      <option key={g.value} value={g.value}>
-                        {g.label}
-                      </option>
-                    ))}
-                  </select>
+              {plantGroupsLocked ? null : (
+                <div className="flex flex-wrap items-end gap-2">
+                  <div className="space-y-1">
+                    <label htmlFor="new-plant-form" className="block text-sm font-semibold text-stone-800">
+                      Growth form of the new group
+                    </label>
+                    <select id="new-plant-form" name="newPlantForm" className="input" defaultValue="floating">
+                      {model.growthForms.map((g) => (
+                        <option key={g.value} value={g.value}>
+                          {g.label}
+                        </option>
+                      ))}
+                    </select>
+                  </div>
+                  <button
+                    type="submit"
+                    name="intent"
+                    value="add-plant"
+                    className="btn-secondary"
+                    disabled={rows.length >= 12}
+                    onClick={(e) => {
+                      const select = formRef.current?.elements.namedItem("newPlantForm") as HTMLSelectElement | null;
+                      if (rows.length > 0 && select) {
+                        e.preventDefault();
+                        addRow(select.value);
+                      }
+                    }}
+                  >
+                    Add a plant group
+                  </button>
                 </div>
-                <button
-                  type="submit"
-                  name="intent"
-                  value="add-plant"
-                  className="btn-secondary"
-                  disabled={rows.length >= 12}
-                  onClick={(e) => {
-                    const select = formRef.current?.elements.namedItem("newPlantForm") as HTMLSelectElement | null;
-                    if (rows.length > 0 && select) {
-                      e.preventDefault();
-                      addRow(select.value);
-                    }
-                  }}
-                >
-                  Add a plant group
-                </button>
-              </div>
+              )}
             </div>
           ) : (
             <div className="mt-4 grid gap-4 sm:grid-cols-2 lg:grid-cols-3">
