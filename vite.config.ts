@@ -1,14 +1,36 @@
 import { reactRouter } from "@react-router/dev/vite";
 import tailwindcss from "@tailwindcss/vite";
-import { defineConfig } from "vite";
+import { defineConfig, type Plugin } from "vite";
 import pkg from "./package.json" with { type: "json" };
 
+/**
+ * React Router names every SSR entry after its server build file (index.js); this keeps that for
+ * the server and names the worker entry engine-worker.js, so the pool can find it beside index.js.
+ */
+function engineWorkerFileName(): Plugin {
+  return {
+    name: "fernwater:engine-worker-file-name",
+    enforce: "post",
+    configEnvironment(name, options) {
+      const output = options.build?.rollupOptions?.output;
+      if (name !== "ssr" || !output || Array.isArray(output)) return;
+      const main = output.entryFileNames;
+      output.entryFileNames = (chunk) =>
+        chunk.name === "engine-worker" ? "engine-worker.js" : typeof main === "function" ? main(chunk) : (main ?? "[name].js");
+    },
+  };
+}
+
 export default defineConfig({
-  plugins: [tailwindcss(), reactRouter()],
+  plugins: [tailwindcss(), reactRouter(), engineWorkerFileName()],
   define: { __APP_VERSION__: JSON.stringify(pkg.version) },
   // The custom server (server/app.ts) is the SSR entry: it wraps the React Router handler.
   // With the Vite Environment API (v8_viteEnvironmentApi) the entry is set per environment.
-  environments: { ssr: { build: { rollupOptions: { input: "./server/app.ts" } } } },
+  // The engine worker (server/engine-worker.ts) is a second entry, built next to it as
+  // engine-worker.js so the worker pool (app/jobs.server.ts) finds it beside the bundle.
+  environments: {
+    ssr: { build: { rollupOptions: { input: { index: "./server/app.ts", "engine-worker": "./server/engine-worker.ts" } } } },
+  },
   resolve: { tsconfigPaths: true },
   // better-sqlite3 is a native addon: keep it (and its drizzle driver) out of the SSR bundle.
   ssr: { external: ["better-sqlite3"] },
