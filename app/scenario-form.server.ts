@@ -69,7 +69,8 @@ const HIDDEN = new Set(["schemaVersion", "plants.*.id", "targets.nitrateLow", "t
 
 const FIELDS = listScenarioFields().filter((f) => !HIDDEN.has(f.key));
 
-function unitFor(field: ScenarioField, units: DisplayUnits): string {
+/** The unit label a field is shown in, in the viewer's units ("mg/L NO3", "%", "g/day"). */
+export function unitFor(field: ScenarioField, units: DisplayUnits): string {
   const labels = unitLabels(units);
   switch (field.meta.quantity) {
     case "volume":
