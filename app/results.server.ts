@@ -8,11 +8,28 @@ import { displayGuides, displayKeyFigures, displaySeries } from "~/display-figur
 import { speciesFactor } from "~/display-units.server";
 import type { StoredRun } from "~/simulation.server";
 import { unitLabels, type DisplayUnits } from "~/utils/display-units";
+import { packSeries, type PackedSeries } from "~/utils/series-packing";
 
 /** WHO Guidelines for Drinking-water Quality: nitrate 50 mg/L as NO3 = 11.29 mg/L as N. */
 export const DRINKING_WATER_NITRATE_MG_N = 50 * 0.2259;
 
+// Runs never change once stored, and the scenario a run belongs to is fixed by its settings
+// hash: the converted payload can be kept per run and viewer units.
+const payloads = new Map<string, ReturnType<typeof buildPayload>>();
+const PAYLOAD_CACHE_SIZE = 64;
+
+/** Everything a results view draws, in `units`; cached per run, settings and units. */
 export function resultsPayload(run: StoredRun, scenario: Scenario, units: DisplayUnits) {
+  const key = `${run.id}|${run.settingsHash}|${units.volume}|${units.temperature}|${units.nitrate}|${units.nitrite}|${units.ammonia}|${units.kh}`;
+  const hit = payloads.get(key);
+  if (hit) return hit;
+  const payload = buildPayload(run, scenario, units);
+  if (payloads.size >= PAYLOAD_CACHE_SIZE) payloads.delete(payloads.keys().next().value!);
+  payloads.set(key, payload);
+  return payload;
+}
+
+function buildPayload(run: StoredRun, scenario: Scenario, units: DisplayUnits) {
   const labels = unitLabels(units);
   return {
     runId: run.id,
@@ -31,4 +48,20 @@ export function resultsPayload(run: StoredRun, scenario: Scenario, units: Displa
   };
 }
 
-export type ResultsPayload = ReturnType<typeof resultsPayload>;
+export type ResultsPayload = ReturnType<typeof buildPayload>;
+
+const packed = new WeakMap<ResultsPayload, Omit<ResultsPayload, "series"> & { packedSeries: PackedSeries }>();
+
+/**
+ * The payload with its series packed into strings (app/utils/series-packing.ts) for the
+ * busiest page, the owner's results: far cheaper to send. Cached with the payload.
+ */
+export function packedResultsPayload(payload: ResultsPayload) {
+  let hit = packed.get(payload);
+  if (!hit) {
+    const { series, ...rest } = payload;
+    hit = { ...rest, packedSeries: packSeries(series) };
+    packed.set(payload, hit);
+  }
+  return hit;
+}

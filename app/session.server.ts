@@ -1,6 +1,6 @@
-import { eq, lt } from "drizzle-orm";
+import { eq, lt, sql } from "drizzle-orm";
 import { createCookieSessionStorage, redirect } from "react-router";
-import { getDb } from "~/db/client.server";
+import { getDb, type Db } from "~/db/client.server";
 import { sessions, users } from "~/db/schema";
 import { getEnv, isProduction } from "~/env.server";
 import { hashToken, randomToken } from "~/utils/crypto.server";
@@ -57,19 +57,42 @@ const userColumns = {
 
 const cache = new WeakMap<Request, Promise<SessionUser | null>>();
 
+// Every request reads its session: a prepared statement skips Drizzle's query building.
+const sessionLookups = new WeakMap<Db, ReturnType<typeof prepareSessionLookup>>();
+function prepareSessionLookup(db: Db) {
+  return db
+    .select({ ...userColumns, expiresAt: sessions.expiresAt })
+    .from(sessions)
+    .innerJoin(users, eq(users.id, sessions.userId))
+    .where(eq(sessions.idHash, sql.placeholder("idHash")))
+    .prepare();
+}
+function lookupSession(idHash: string) {
+  const db = getDb();
+  let stmt = sessionLookups.get(db);
+  if (!stmt) sessionLookups.set(db, (stmt = prepareSessionLookup(db)));
+  return stmt.get({ idHash });
+}
+
+// Verifying the cookie's signature costs an HMAC; a cookie header already verified maps to its id.
+const verifiedCookies = new Map<string, string | null>();
+async function sidFromCookieHeader(header: string | null): Promise<string | undefined> {
+  if (!header) return undefined;
+  if (verifiedCookies.has(header)) return verifiedCookies.get(header) ?? undefined;
+  const sid = (await getStorage().getSession(header)).get("sid") ?? null;
+  if (verifiedCookies.size >= 1000) verifiedCookies.delete(verifiedCookies.keys().next().value!);
+  verifiedCookies.set(header, sid);
+  return sid ?? undefined;
+}
+
 /** The signed-in user, read fresh from the database on every request (so role changes apply at once), or null. */
 export function getSessionUser(request: Request): Promise<SessionUser | null> {
   let pending = cache.get(request);
   if (!pending) {
     pending = (async () => {
-      const sid = await readSid(request);
+      const sid = await sidFromCookieHeader(request.headers.get("Cookie"));
       if (!sid) return null;
-      const row = getDb()
-        .select({ ...userColumns, expiresAt: sessions.expiresAt })
-        .from(sessions)
-        .innerJoin(users, eq(users.id, sessions.userId))
-        .where(eq(sessions.idHash, hashToken(sid)))
-        .get();
+      const row = lookupSession(hashToken(sid));
       if (!row || row.expiresAt.getTime() < Date.now()) return null;
       const { expiresAt: _expiresAt, ...user } = row;
       return user;

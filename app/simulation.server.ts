@@ -4,7 +4,7 @@
  * so opening a results page does not re-read a megabyte of JSON each time.
  */
 import { createHash } from "node:crypto";
-import { and, desc, eq } from "drizzle-orm";
+import { and, desc, eq, sql } from "drizzle-orm";
 import {
   ENGINE_VERSION,
   isModelError,
@@ -18,7 +18,7 @@ import {
   type SimulationStats,
 } from "../models";
 import type { EventRecord } from "../models";
-import { getDb } from "~/db/client.server";
+import { getDb, type Db } from "~/db/client.server";
 import { runs } from "~/db/schema";
 
 /** Bounds for runs started by a request: a bad parameter set fails fast instead of hanging. */
@@ -100,14 +100,29 @@ export function getRun(runId: number): StoredRun | null {
   return row ? remember(fromRow(row)) : null;
 }
 
-/** The stored run of these exact settings, if any. */
-export function findRun(scenarioId: number, hash: string): StoredRun | null {
-  const row = getDb()
+// Looked up on every results view: prepared once per database.
+const runLookups = new WeakMap<Db, ReturnType<typeof prepareRunLookup>>();
+function prepareRunLookup(db: Db) {
+  return db
     .select({ id: runs.id })
     .from(runs)
-    .where(and(eq(runs.scenarioId, scenarioId), eq(runs.settingsHash, hash), eq(runs.engineVersion, ENGINE_VERSION)))
+    .where(
+      and(
+        eq(runs.scenarioId, sql.placeholder("scenarioId")),
+        eq(runs.settingsHash, sql.placeholder("hash")),
+        eq(runs.engineVersion, ENGINE_VERSION),
+      ),
+    )
     .orderBy(desc(runs.id))
-    .get();
+    .prepare();
+}
+
+/** The stored run of these exact settings, if any. */
+export function findRun(scenarioId: number, hash: string): StoredRun | null {
+  const db = getDb();
+  let stmt = runLookups.get(db);
+  if (!stmt) runLookups.set(db, (stmt = prepareRunLookup(db)));
+  const row = stmt.get({ scenarioId, hash });
   return row ? getRun(row.id) : null;
 }
 

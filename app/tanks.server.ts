@@ -2,8 +2,8 @@
  * Tanks and scenarios as their owner sees them. Every lookup is scoped to the owner: another
  * person's tank or scenario answers 404 (notFound), so its existence does not leak.
  */
-import { and, asc, eq } from "drizzle-orm";
-import { getDb } from "~/db/client.server";
+import { and, asc, eq, sql } from "drizzle-orm";
+import { getDb, type Db } from "~/db/client.server";
 import { scenarios, tanks } from "~/db/schema";
 import { notFound } from "~/permissions.server";
 
@@ -18,13 +18,32 @@ export function parseId(raw: string | undefined): number {
   return id;
 }
 
+// Every tank and scenario page looks these up: prepared once per database, not rebuilt per request.
+const statements = new WeakMap<Db, ReturnType<typeof prepare>>();
+function prepare(db: Db) {
+  return {
+    ownedTank: db
+      .select()
+      .from(tanks)
+      .where(and(eq(tanks.id, sql.placeholder("tankId")), eq(tanks.ownerId, sql.placeholder("userId"))))
+      .prepare(),
+    scenarioInTank: db
+      .select()
+      .from(scenarios)
+      .where(and(eq(scenarios.id, sql.placeholder("scenarioId")), eq(scenarios.tankId, sql.placeholder("tankId"))))
+      .prepare(),
+  };
+}
+function prepared() {
+  const db = getDb();
+  let s = statements.get(db);
+  if (!s) statements.set(db, (s = prepare(db)));
+  return s;
+}
+
 export function requireOwnedTank(userId: number, tankIdParam: string | undefined): TankRow {
   const tankId = parseId(tankIdParam);
-  const tank = getDb()
-    .select()
-    .from(tanks)
-    .where(and(eq(tanks.id, tankId), eq(tanks.ownerId, userId)))
-    .get();
+  const tank = prepared().ownedTank.get({ tankId, userId });
   if (!tank) notFound("There is no such tank among yours.");
   return tank;
 }
@@ -36,11 +55,7 @@ export function requireOwnedScenario(
 ): { tank: TankRow; scenario: ScenarioRow } {
   const tank = requireOwnedTank(userId, tankIdParam);
   const scenarioId = parseId(scenarioIdParam);
-  const scenario = getDb()
-    .select()
-    .from(scenarios)
-    .where(and(eq(scenarios.id, scenarioId), eq(scenarios.tankId, tank.id)))
-    .get();
+  const scenario = prepared().scenarioInTank.get({ scenarioId, tankId: tank.id });
   if (!scenario) notFound("There is no such scenario in this tank.");
   return { tank, scenario };
 }

@@ -6,6 +6,7 @@ export {};
 
 const benches: { name: string; load: () => Promise<{ run: () => unknown }> }[] = [
   { name: "engine", load: () => import("./engine") },
+  { name: "results page", load: () => import("./results-page") },
 ];
 
 for (const bench of benches) {

@@ -6,6 +6,7 @@
 import { createRequestHandler } from "@react-router/express";
 import express from "express";
 import { RouterContextProvider } from "react-router";
+import * as build from "virtual:react-router/server-build";
 import { clientIpContext } from "~/context";
 
 export { boot } from "./boot";
@@ -15,7 +16,9 @@ export const app = express();
 
 app.use(
   createRequestHandler({
-    build: () => import("virtual:react-router/server-build"),
+    // The build object itself, not a function returning it: with a function React Router
+    // re-derives its route tables on every request (in dev, Vite reloads this module instead).
+    build,
     getLoadContext(req) {
       const context = new RouterContextProvider();
       context.set(clientIpContext, req.ip ?? req.socket.remoteAddress ?? "unknown");

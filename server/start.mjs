@@ -36,7 +36,9 @@ if (dev) {
   appModule = await import(pathToFileURL(path.join(buildDir, "server/index.js")).href);
   // Fingerprinted assets never change; everything else in public/ may.
   server.use("/assets", express.static(path.join(buildDir, "client/assets"), { immutable: true, maxAge: "1y", index: false }));
-  server.use(express.static(path.join(buildDir, "client"), { maxAge: "1h", index: false }));
+  // Other public files (favicon…) only for paths that look like files, so page requests skip the disk.
+  const publicFiles = express.static(path.join(buildDir, "client"), { maxAge: "1h", index: false });
+  server.use((req, res, next) => (/\.[a-z0-9]{2,5}$/i.test(req.path) && !req.path.endsWith(".data") ? publicFiles(req, res, next) : next()));
   server.use(appModule.app);
 }
 

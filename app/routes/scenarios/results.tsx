@@ -8,12 +8,13 @@ import { KeyFiguresList } from "~/components/key-figures";
 import { FormMessage } from "~/components/ui/field";
 import { WhatIfPanel, type WhatIfPreview } from "~/components/what-if-panel";
 import { requireUser } from "~/permissions.server";
-import { resultsPayload } from "~/results.server";
+import { packedResultsPayload, resultsPayload } from "~/results.server";
 import { saveScenarioWithRun } from "~/scenario-api.server";
 import { ensureRun, isModelError, readStoredSettings, withTankTargets } from "~/simulation.server";
 import { requireOwnedScenario } from "~/tanks.server";
 import { displayUnitsFor, formatNumber } from "~/utils/display-units";
 import { formValues } from "~/utils/form-errors";
+import { unpackSeries } from "~/utils/series-packing";
 import { invalid, readForm } from "~/utils/http.server";
 import { applyWhatIf, whatIfBase, WhatIfSchema } from "~/what-if.server";
 import { ScenarioNameSchema } from "./setup.server";
@@ -32,7 +33,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     return {
       ...base,
       error: null,
-      results: resultsPayload(run, withTargets, displayUnitsFor(user)),
+      results: packedResultsPayload(resultsPayload(run, withTargets, displayUnitsFor(user))),
       whatIf: { base: whatIfBase(withTargets), hasPlants: withTargets.plants.length > 0 },
     };
   } catch (error) {
@@ -73,10 +74,11 @@ export async function action({ request, params }: Route.ActionArgs) {
 export default function ResultsPage({ loaderData, actionData }: Route.ComponentProps) {
   const { tank, scenario, results, error, whatIf } = loaderData;
   const [preview, setPreview] = useState<WhatIfPreview | null>(null);
+  const series = useMemo(() => (results ? unpackSeries(results.packedSeries) : null), [results]);
   const onPreview = useCallback((p: WhatIfPreview | null) => setPreview(p), []);
   // Stable identities, so the chart and budget only redraw what changed.
   const overlays = useMemo(() => (preview ? [{ label: "What if", series: preview.series }] : undefined), [preview]);
-  const plantNames = useMemo(() => results?.series.plants.map((p) => p.name) ?? [], [results]);
+  const plantNames = useMemo(() => series?.plants.map((p) => p.name) ?? [], [series]);
   const budgets = useMemo(
     () => (results ? [{ label: scenario.name, budget: results.budget, plantNames }] : []),
     [results, scenario.name, plantNames],
@@ -115,7 +117,7 @@ export default function ResultsPage({ loaderData, actionData }: Route.ComponentP
       ) : null}
       {actionData?.errors[""] ? <FormMessage>{actionData.errors[""]}</FormMessage> : null}
       {actionData?.errors.name ? <FormMessage>{actionData.errors.name}</FormMessage> : null}
-      {results ? (
+      {results && series ? (
         <>
           <section aria-labelledby="figures-title" className="space-y-2">
             <h2 id="figures-title" className="sr-only">
@@ -132,7 +134,7 @@ export default function ResultsPage({ loaderData, actionData }: Route.ComponentP
           </section>
           <TimeSeriesChart
             title={`${scenario.name}: nitrogen over ${results.lengthDays} days`}
-            series={results.series}
+            series={series}
             seriesLabel="Saved"
             units={results.labels}
             events={results.events}
