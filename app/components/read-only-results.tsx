@@ -1,0 +1,54 @@
+import { useMemo } from "react";
+import { BudgetBar, BudgetTable } from "~/components/charts/budget";
+import { TimeSeriesChart } from "~/components/charts/time-series-chart";
+import { CautionsPanel } from "~/components/cautions";
+import { KeyFiguresList } from "~/components/key-figures";
+import { SettingsSummary } from "~/components/settings-summary";
+import { FormMessage } from "~/components/ui/field";
+import type { ReadOnlyView } from "~/read-only-view.server";
+import { formatNumber } from "~/utils/display-units";
+
+/**
+ * A scenario's results for someone who may look but not change them (share page, admin review,
+ * an educator opening a student's copy): key figures, chart, budget, settings and cautions.
+ */
+export function ReadOnlyResults({ name, view, downloadName }: { name: string; view: ReadOnlyView; downloadName: string }) {
+  const { results, settings, error } = view;
+  const plantNames = useMemo(() => results?.series.plants.map((p) => p.name) ?? [], [results]);
+  const budgets = useMemo(() => (results ? [{ label: name, budget: results.budget, plantNames }] : []), [results, name, plantNames]);
+  return (
+    <div className="space-y-6">
+      {error ? <FormMessage>{error}</FormMessage> : null}
+      {results ? (
+        <>
+          <section aria-labelledby="figures-title" className="space-y-2">
+            <h2 id="figures-title" className="sr-only">
+              Key figures
+            </h2>
+            <KeyFiguresList figures={results.keyFigures} units={results.labels} />
+          </section>
+          <TimeSeriesChart
+            title={`${name}: nitrogen over ${results.lengthDays} days`}
+            series={results.series}
+            units={results.labels}
+            events={results.events}
+            guides={results.guides}
+            downloadName={downloadName}
+          />
+          <section aria-labelledby="budget-title" className="card space-y-4">
+            <h2 id="budget-title" className="text-lg">
+              Nitrogen budget
+            </h2>
+            <BudgetBar budget={results.budget} plantNames={plantNames} />
+            <BudgetTable budgets={budgets} />
+          </section>
+        </>
+      ) : null}
+      {settings ? <SettingsSummary model={settings} /> : null}
+      <CautionsPanel
+        tapNitrateAboveDrinkingLimit={results?.tapNitrateAboveDrinkingLimit ?? false}
+        tapNitrateText={results ? `${formatNumber(results.tapNitrateDisplay)} ${results.labels.nitrate}` : ""}
+      />
+    </div>
+  );
+}

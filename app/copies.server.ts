@@ -1,0 +1,57 @@
+/**
+ * Copying a scenario into someone's own tanks: "Copy to my tanks" on a share page and a
+ * student's lesson copy. The engine runs first (outside the transaction: better-sqlite3 is
+ * synchronous), then the new tank if any, the scenario, its run and the caller's own rows are
+ * written in one transaction, so nothing is ever half-copied.
+ */
+import type { Scenario } from "../models";
+import { getDb } from "~/db/client.server";
+import { tanks } from "~/db/schema";
+import { insertScenarioWithRun, runOrRefuse } from "~/scenario-api.server";
+import { withTankTargets } from "~/simulation.server";
+import type { TankRow } from "~/tanks.server";
+
+type Tx = Parameters<Parameters<ReturnType<typeof getDb>["transaction"]>[0]>[0];
+
+export type CopyDestination = { tank: TankRow } | { newTank: { name: string; notes: string } };
+
+/**
+ * Copies `settings` into the destination. A new tank takes the nitrate band the settings were
+ * made with, so the copy's chart and key figures match what the person saw.
+ * Throws the API's JSON 422 Response when the engine cannot run the settings.
+ */
+export async function copyScenarioInto(
+  ownerId: number,
+  destination: CopyDestination,
+  name: string,
+  settings: Scenario,
+  copiedFromId: number | null,
+  also?: (tx: Tx, ids: { tankId: number; scenarioId: number }) => void,
+): Promise<{ tankId: number; scenarioId: number }> {
+  const band =
+    "tank" in destination
+      ? destination.tank
+      : { nitrateTargetLow: settings.targets.nitrateLow, nitrateTargetHigh: settings.targets.nitrateHigh };
+  const scenario = withTankTargets(settings, band);
+  const result = await runOrRefuse(scenario);
+  return getDb().transaction((tx) => {
+    const tankId =
+      "tank" in destination
+        ? destination.tank.id
+        : tx
+            .insert(tanks)
+            .values({ ownerId, name: destination.newTank.name, notes: destination.newTank.notes, ...band })
+            .returning({ id: tanks.id })
+            .get().id;
+    const scenarioId = insertScenarioWithRun(tx, tankId, name, scenario, result, copiedFromId);
+    also?.(tx, { tankId, scenarioId });
+    return { tankId, scenarioId };
+  });
+}
+
+/** The message of a refused run (the JSON 422 from runOrRefuse), for a form error. */
+export async function refusedRunMessage(thrown: unknown): Promise<string | null> {
+  if (!(thrown instanceof Response) || thrown.status !== 422) return null;
+  const body = (await thrown.json()) as { error?: string };
+  return `The model could not run these settings: ${body.error ?? "unknown problem"}`;
+}

@@ -1,0 +1,44 @@
+/**
+ * A read-only view of one scenario for someone who may look but not change it: the public
+ * share page, an admin reviewing a link, an educator opening a student's lesson copy. It
+ * reuses the stored run (ensureRun runs the engine only if the settings or engine changed).
+ */
+import type { Scenario } from "../models";
+import { resultsPayload } from "~/results.server";
+import { buildScenarioForm } from "~/scenario-form.server";
+import { ensureRun, isModelError, readStoredSettings, withTankTargets } from "~/simulation.server";
+import type { ScenarioRow } from "~/tanks.server";
+import type { DisplayUnits } from "~/utils/display-units";
+import { formatNumber } from "~/utils/display-units";
+
+export async function readOnlyScenarioView(
+  scenario: Pick<ScenarioRow, "id" | "name" | "settings">,
+  band: { nitrateTargetLow: number; nitrateTargetHigh: number },
+  units: DisplayUnits,
+) {
+  const settings = readStoredSettings(scenario.settings);
+  if (!settings) return { error: "The saved settings of this scenario can no longer be read.", results: null, settings: null };
+  const withTargets: Scenario = withTankTargets(settings, band);
+  const form = buildScenarioForm(scenario.name, withTargets, units);
+  try {
+    const run = await ensureRun(scenario.id, withTargets);
+    return { error: null, results: resultsPayload(run, withTargets, units), settings: form };
+  } catch (error) {
+    if (isModelError(error)) return { error: error.message, results: null, settings: form };
+    throw error;
+  }
+}
+
+export type ReadOnlyView = Awaited<ReturnType<typeof readOnlyScenarioView>>;
+
+/** One sentence for a page description or a forum preview, in the view's units. */
+export function describeView(view: ReadOnlyView): string {
+  const r = view.results;
+  if (!r) return "A nitrogen-cycle scenario for a freshwater aquarium, simulated with Fernwater.";
+  const k = r.keyFigures;
+  return (
+    `Simulated nitrogen over ${r.lengthDays} days: nitrate ends at ${formatNumber(k.nitrateEnd)} ${r.labels.nitrate}, ` +
+    `free ammonia peaks at ${formatNumber(k.peakFreeNh3.value)} ${r.labels.ammonia}, ` +
+    `nitrite at ${formatNumber(k.peakNitrite.value)} ${r.labels.nitrite}. A model, not a water test.`
+  );
+}

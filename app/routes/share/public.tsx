@@ -1,0 +1,202 @@
+import { asc, eq } from "drizzle-orm";
+import { data, Form, isRouteErrorResponse, Link, redirect, useNavigation } from "react-router";
+import { z } from "zod";
+import type { Route } from "./+types/public";
+import { ReadOnlyResults } from "~/components/read-only-results";
+import { FormMessage, SelectField } from "~/components/ui/field";
+import { copyScenarioInto, refusedRunMessage, type CopyDestination } from "~/copies.server";
+import { getDb } from "~/db/client.server";
+import { tanks } from "~/db/schema";
+import { absoluteUrl } from "~/email.server";
+import { notFound, requireUser } from "~/permissions.server";
+import { describeView, readOnlyScenarioView } from "~/read-only-view.server";
+import { getSessionUser } from "~/session.server";
+import { etagMatches, findLinkByToken, isLive, sharePath, shareEtag } from "~/share.server";
+import { readStoredSettings } from "~/simulation.server";
+import { requireOwnedTank } from "~/tanks.server";
+import { DEFAULT_PREFERENCES, displayUnitsFor } from "~/utils/display-units";
+import { formValues } from "~/utils/form-errors";
+import { invalid, readForm } from "~/utils/http.server";
+
+const GONE = "This link is not shared, or no longer: its owner may have turned it off or made a new one.";
+const SHARED_TANK = { name: "Shared with me", notes: "Copies of scenarios other people shared." };
+
+export const meta: Route.MetaFunction = ({ data }) => {
+  if (!data) return [{ title: "Shared scenario not found · Fernwater" }, { name: "robots", content: "noindex" }];
+  const title = `${data.name} · shared on Fernwater`;
+  return [
+    { title },
+    { name: "description", content: data.description },
+    // Unguessable links are not for search engines; forums still read the preview tags.
+    { name: "robots", content: "noindex, nofollow" },
+    { property: "og:type", content: "website" },
+    { property: "og:site_name", content: "Fernwater" },
+    { property: "og:title", content: title },
+    { property: "og:description", content: data.description },
+    { property: "og:url", content: data.url },
+    { name: "twitter:card", content: "summary" },
+    { name: "twitter:title", content: title },
+    { name: "twitter:description", content: data.description },
+  ];
+};
+
+/**
+ * Anonymous views carry an ETag with `Cache-Control: no-cache`: every view asks again, so a
+ * link turned off stops at once, but an unchanged page answers 304 without rendering.
+ * Signed-in views (their own nav and tank list) are private and not validated.
+ */
+export const middleware: Route.MiddlewareFunction[] = [
+  async ({ request, params }, next) => {
+    const viewer = await getSessionUser(request);
+    const found = viewer || request.method !== "GET" ? null : findLinkByToken(params.token);
+    const variant = new URL(request.url).pathname.endsWith(".data") ? "data" : "html";
+    const tag = found && isLive(found.link) ? shareEtag(found.link, found.scenario, found.tank, variant) : null;
+    const cacheControl = viewer ? "private, no-cache" : "no-cache";
+    if (tag && etagMatches(request.headers.get("If-None-Match"), tag)) {
+      return new Response(null, { status: 304, headers: { ETag: tag, "Cache-Control": cacheControl, "X-Robots-Tag": "noindex" } });
+    }
+    const response = (await next()) as Response;
+    response.headers.set("Cache-Control", cacheControl);
+    response.headers.set("X-Robots-Tag", "noindex");
+    if (tag && response.status === 200) response.headers.set("ETag", tag);
+    return response;
+  },
+];
+
+export async function loader({ request, params }: Route.LoaderArgs) {
+  const viewer = await getSessionUser(request);
+  const found = findLinkByToken(params.token);
+  if (!found) notFound(GONE);
+  const { link, scenario, tank } = found;
+  if (!isLive(link)) {
+    // The owner learns why; for everyone else a taken-down link simply does not exist.
+    if (viewer?.id === tank.ownerId && link.takenDownAt && !link.revokedAt) {
+      throw data({ message: `An admin took this link down. Their reason: ${link.takedownReason ?? "none given"}` }, { status: 410 });
+    }
+    notFound(GONE);
+  }
+  const units = displayUnitsFor(viewer ?? DEFAULT_PREFERENCES);
+  const view = await readOnlyScenarioView(scenario, tank, units);
+  const myTanks = viewer
+    ? getDb().select({ id: tanks.id, name: tanks.name }).from(tanks).where(eq(tanks.ownerId, viewer.id)).orderBy(asc(tanks.name)).all()
+    : null;
+  return {
+    token: params.token,
+    name: scenario.name,
+    view,
+    description: describeView(view),
+    url: absoluteUrl(request, sharePath(params.token)),
+    viewer: viewer ? { isOwner: viewer.id === tank.ownerId } : null,
+    myTanks,
+    ownerLinks: viewer?.id === tank.ownerId ? { tankId: tank.id, scenarioId: scenario.id } : null,
+  };
+}
+
+const CopySchema = z.object({
+  intent: z.literal("copy"),
+  tankId: z.union([z.literal("new"), z.coerce.number().int().positive()], { error: "Choose one of your tanks." }),
+});
+
+export async function action({ request, params }: Route.ActionArgs) {
+  // Anonymous visitors go to sign-in and come back to this page.
+  const user = await requireUser(request);
+  const found = findLinkByToken(params.token);
+  if (!found || !isLive(found.link)) notFound(GONE);
+  const values = formValues(await readForm(request));
+  const parsed = CopySchema.safeParse(values);
+  if (!parsed.success) return invalid({ tankId: "Choose one of your tanks." }, values);
+  const settings = readStoredSettings(found.scenario.settings);
+  if (!settings) return invalid({ "": "The settings of this scenario can no longer be read, so they cannot be copied." }, values);
+  const destination: CopyDestination =
+    parsed.data.tankId === "new" ? { newTank: SHARED_TANK } : { tank: requireOwnedTank(user.id, String(parsed.data.tankId)) };
+  try {
+    const copy = await copyScenarioInto(user.id, destination, found.scenario.name, settings, found.scenario.id);
+    return redirect(`/tanks/${copy.tankId}/scenarios/${copy.scenarioId}`);
+  } catch (error) {
+    const message = await refusedRunMessage(error);
+    if (message) return invalid({ "": message }, values);
+    throw error;
+  }
+}
+
+export default function SharedScenarioPage({ loaderData, actionData }: Route.ComponentProps) {
+  const { name, view, viewer, myTanks, token, ownerLinks } = loaderData;
+  const busy = useNavigation().state === "submitting";
+  const errors = actionData?.errors ?? {};
+  return (
+    <div className="space-y-6">
+      <header className="space-y-1">
+        <p className="text-sm text-stone-600">A scenario shared on Fernwater · read-only</p>
+        <h1 className="text-2xl">{name}</h1>
+        {viewer ? null : (
+          <p className="text-sm text-stone-700">Shown in litres, °C and nitrate as NO3. Signed-in visitors see their own units.</p>
+        )}
+      </header>
+      <section aria-labelledby="copy-title" className="card space-y-3">
+        <h2 id="copy-title" className="text-lg">
+          Copy to my tanks
+        </h2>
+        {errors[""] ? <FormMessage>{errors[""]}</FormMessage> : null}
+        {ownerLinks ? (
+          <p className="text-sm">
+            This is your scenario.{" "}
+            <Link className="link" to={`/tanks/${ownerLinks.tankId}/scenarios/${ownerLinks.scenarioId}/share`}>
+              Manage the link
+            </Link>
+          </p>
+        ) : null}
+        {!viewer ? (
+          <p className="flex flex-wrap items-center gap-3 text-sm">
+            <span>Try your own changes on a copy: sign in or create a free account, then come back here.</span>
+            <Link className="btn" to={`/sign-in?redirectTo=${encodeURIComponent(`/s/${token}`)}`}>
+              Sign in to copy
+            </Link>
+          </p>
+        ) : (
+          <Form method="post" className="flex flex-wrap items-end gap-3">
+            <input type="hidden" name="intent" value="copy" />
+            {myTanks && myTanks.length > 0 ? (
+              <SelectField
+                label="Into which tank?"
+                name="tankId"
+                options={myTanks.map((t) => ({ value: String(t.id), label: t.name }))}
+                error={errors.tankId}
+              />
+            ) : (
+              <>
+                <input type="hidden" name="tankId" value="new" />
+                <p className="text-sm">You have no tanks yet: the copy goes into a new tank, “{SHARED_TANK.name}”.</p>
+              </>
+            )}
+            <button type="submit" className="btn" disabled={busy}>
+              {busy ? "Copying…" : "Copy to my tanks"}
+            </button>
+          </Form>
+        )}
+      </section>
+      <ReadOnlyResults name={name} view={view} downloadName={name} />
+    </div>
+  );
+}
+
+export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
+  const status = isRouteErrorResponse(error) ? error.status : 500;
+  const message =
+    isRouteErrorResponse(error) && typeof error.data === "object" && error.data && "message" in error.data
+      ? String(error.data.message)
+      : null;
+  return (
+    <section className="card mx-auto max-w-xl space-y-3" aria-labelledby="share-error-title">
+      <p className="figure text-sm text-stone-500">Error {status}</p>
+      <h1 id="share-error-title" className="text-2xl">
+        {status === 410 ? "This link was taken down" : status === 404 ? "This shared link does not work" : "Something went wrong"}
+      </h1>
+      <p>{message ?? "Try again in a moment."}</p>
+      <p>
+        <Link to="/" className="link">
+          Fernwater home
+        </Link>
+      </p>
+    </section>
+  );
+}
