@@ -2,6 +2,7 @@ import { asc, eq } from "drizzle-orm";
 import { Form, useNavigation } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/users";
+import { AdminNav } from "~/components/admin-nav";
 import { FormMessage } from "~/components/ui/field";
 import { getDb } from "~/db/client.server";
 import { ROLES, users } from "~/db/schema";
@@ -47,6 +48,7 @@ export default function AdminUsersPage({ loaderData, actionData }: Route.Compone
   const done = actionData && "ok" in actionData ? actionData : null;
   return (
     <div className="space-y-4">
+      <AdminNav />
       <h1 className="text-2xl">Users and roles</h1>
       <p className="text-sm text-stone-700">
         A role change takes effect on that person’s next request. Educators can run classes; admins can manage users and
