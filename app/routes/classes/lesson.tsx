@@ -1,0 +1,175 @@
+import { Form, Link, redirect, useNavigation } from "react-router";
+import type { Route } from "./+types/lesson";
+import { FormMessage } from "~/components/ui/field";
+import { findCopy, handInTable, requireClassAccess, requireLesson, startCopy } from "~/classes.server";
+import { refusedRunMessage } from "~/copies.server";
+import { displayKeyFigures } from "~/display-figures.server";
+import { requireUser } from "~/permissions.server";
+import { displayUnitsFor, formatNumber, unitLabels } from "~/utils/display-units";
+import { invalid, readForm } from "~/utils/http.server";
+import { formValues } from "~/utils/form-errors";
+
+export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.lesson.title ?? "Lesson"} · Fernwater` }];
+
+export async function loader({ request, params }: Route.LoaderArgs) {
+  const user = await requireUser(request);
+  const { cls, as } = requireClassAccess(user, params.classId);
+  const lesson = requireLesson(cls, params.lessonId);
+  const base = {
+    cls: { id: cls.id, name: cls.name },
+    lesson: { id: lesson.id, title: lesson.title, question: lesson.question },
+  };
+  if (as === "student") {
+    const copy = findCopy(lesson.id, user.id);
+    return { ...base, as, started: !!copy, handedIn: !!copy?.handedInAt, handIns: null, labels: null, unlockedCount: 0 };
+  }
+  const units = displayUnitsFor(user);
+  return {
+    ...base,
+    as,
+    started: false,
+    handedIn: false,
+    labels: unitLabels(units),
+    unlockedCount: lesson.unlockedFields.length,
+    handIns: handInTable(cls, lesson).map((row) => ({
+      student: row.student,
+      copy: row.copy
+        ? {
+            id: row.copy.id,
+            answer: row.copy.answer,
+            handedInAt: row.copy.handedInAt ? row.copy.handedInAt.toISOString().slice(0, 16).replace("T", " ") : null,
+            figures: row.copy.keyFigures ? displayKeyFigures(row.copy.keyFigures, units) : null,
+          }
+        : null,
+    })),
+  };
+}
+
+export async function action({ request, params }: Route.ActionArgs) {
+  const user = await requireUser(request);
+  const { cls, as } = requireClassAccess(user, params.classId);
+  const lesson = requireLesson(cls, params.lessonId);
+  const values = formValues(await readForm(request));
+  if (values.intent !== "start") return invalid({ "": "Unknown action." }, values);
+  if (as !== "student") return invalid({ "": "Only students of the class start a copy of the lesson." }, values);
+  try {
+    await startCopy(user, cls, lesson);
+  } catch (error) {
+    const message = await refusedRunMessage(error);
+    if (message) return invalid({ "": message }, values);
+    throw error;
+  }
+  return redirect(`/classes/${cls.id}/lessons/${lesson.id}/work`);
+}
+
+export default function LessonPage({ loaderData, actionData }: Route.ComponentProps) {
+  const { cls, lesson, as, started, handedIn, handIns, labels, unlockedCount } = loaderData;
+  const busy = useNavigation().state === "submitting";
+  const base = `/classes/${cls.id}/lessons/${lesson.id}`;
+  return (
+    <div className="space-y-6">
+      <nav aria-label="Breadcrumb" className="text-sm">
+        <Link to="/classes" className="link">
+          Classes
+        </Link>{" "}
+        /{" "}
+        <Link to={`/classes/${cls.id}`} className="link">
+          {cls.name}
+        </Link>{" "}
+        / {lesson.title}
+      </nav>
+      <h1 className="text-2xl">{lesson.title}</h1>
+      <section aria-labelledby="question-title" className="card space-y-2">
+        <h2 id="question-title" className="text-lg">
+          Question
+        </h2>
+        <p className="whitespace-pre-line">{lesson.question}</p>
+      </section>
+      {actionData?.errors[""] ? <FormMessage>{actionData.errors[""]}</FormMessage> : null}
+      {as === "student" ? (
+        started ? (
+          <p className="flex flex-wrap items-center gap-3">
+            <Link to={`${base}/work`} className="btn">
+              {handedIn ? "See what you handed in" : "Continue the lesson"}
+            </Link>
+          </p>
+        ) : (
+          <Form method="post" className="space-y-2">
+            <p className="text-sm text-stone-700">
+              You get your own copy of the teacher’s scenario, in a tank of yours for this class. Change the settings the lesson
+              leaves open, run it, and hand in your answer.
+            </p>
+            <input type="hidden" name="intent" value="start" />
+            <button type="submit" className="btn" disabled={busy}>
+              {busy ? "Making your copy…" : "Start the lesson"}
+            </button>
+          </Form>
+        )
+      ) : (
+        <>
+          <p className="flex flex-wrap items-center gap-3 text-sm">
+            <Link to={`${base}/present`} className="btn">
+              Present to the class
+            </Link>
+            <span className="text-stone-700">
+              {unlockedCount === 0 ? "Every setting is locked." : `${unlockedCount} setting${unlockedCount === 1 ? "" : "s"} open to students.`}
+            </span>
+          </p>
+          <section aria-labelledby="handins-title" className="space-y-2">
+            <h2 id="handins-title" className="text-lg">
+              Hand-ins
+            </h2>
+            {handIns && handIns.length === 0 ? <p className="text-sm">No students in the class yet.</p> : null}
+            {handIns && handIns.length > 0 && labels ? (
+              <div className="overflow-x-auto">
+                <table className="w-full min-w-[44rem] border-collapse text-sm">
+                  <caption className="sr-only">Each student’s copy with its key figures</caption>
+                  <thead>
+                    <tr className="border-b border-stone-300 text-left align-bottom">
+                      <th scope="col" className="py-2 pr-3">Student</th>
+                      <th scope="col" className="py-2 pr-3">Handed in</th>
+                      <th scope="col" className="py-2 pr-3 text-right">Nitrate at the end<span className="block text-xs font-normal">{labels.nitrate}</span></th>
+                      <th scope="col" className="py-2 pr-3 text-right">Peak free ammonia<span className="block text-xs font-normal">{labels.ammonia}</span></th>
+                      <th scope="col" className="py-2 pr-3 text-right">Peak nitrite<span className="block text-xs font-normal">{labels.nitrite}</span></th>
+                      <th scope="col" className="py-2 pr-3 text-right">Cycling finished</th>
+                      <th scope="col" className="py-2 pr-3">Answer</th>
+                      <th scope="col" className="py-2"><span className="sr-only">Open</span></th>
+                    </tr>
+                  </thead>
+                  <tbody>
+                    {handIns.map((row) => (
+                      <tr key={row.student.id} className="border-b border-stone-200 align-top">
+                        <th scope="row" className="py-2 pr-3 text-left font-semibold">{row.student.name}</th>
+                        <td className="py-2 pr-3">{row.copy ? (row.copy.handedInAt ?? "started") : "not started"}</td>
+                        <td className="num py-2 pr-3 text-right">{formatNumber(row.copy?.figures?.nitrateEnd)}</td>
+                        <td className="num py-2 pr-3 text-right">{formatNumber(row.copy?.figures?.peakFreeNh3.value)}</td>
+                        <td className="num py-2 pr-3 text-right">{formatNumber(row.copy?.figures?.peakNitrite.value)}</td>
+                        <td className="num py-2 pr-3 text-right">
+                          {row.copy?.figures
+                            ? row.copy.figures.cyclingFinishedDay === null
+                              ? "not yet"
+                              : `day ${formatNumber(row.copy.figures.cyclingFinishedDay)}`
+                            : "–"}
+                        </td>
+                        <td className="max-w-xs py-2 pr-3">
+                          <span className="line-clamp-3">{row.copy?.answer ?? ""}</span>
+                        </td>
+                        <td className="py-2">
+                          {row.copy ? (
+                            <Link to={`${base}/copies/${row.copy.id}`} className="link">
+                              Open<span className="sr-only"> {row.student.name}’s copy</span>
+                            </Link>
+                          ) : null}
+                        </td>
+                      </tr>
+                    ))}
+                  </tbody>
+                </table>
+              </div>
+            ) : null}
+          </section>
+        </>
+      )}
+    </div>
+  );
+}
