@@ -7,6 +7,7 @@ import { requireApiUser } from "~/permissions.server";
 import { ScenarioPatchSchema, requireValidSettings, saveScenarioWithRun, scenarioJson } from "~/scenario-api.server";
 import { readStoredSettings } from "~/simulation.server";
 import { requireOwnedScenarioById } from "~/tanks.server";
+import { lessonCopyPath } from "~/classes.server";
 
 const NOT_FOUND = "There is no such scenario among yours.";
 
@@ -22,6 +23,8 @@ export async function action({ request, params }: Route.ActionArgs) {
   const user = await requireApiUser(request);
   const { tank, scenario } = apiFind(() => requireOwnedScenarioById(user.id, params.scenarioId), NOT_FOUND);
   if (request.method !== "PUT" && request.method !== "PATCH") return apiError(405, "Use PUT or PATCH to update a scenario.");
+  const lessonPath = lessonCopyPath(scenario.id);
+  if (lessonPath) return apiError(409, `This scenario is a lesson copy: change it on its lesson page, ${lessonPath}, where the lesson's locks apply.`);
   const body = ScenarioPatchSchema.safeParse(await readJson(request));
   if (!body.success) return apiError(400, "The body is not valid.", zodIssues(body.error));
   const settings =

@@ -1,5 +1,6 @@
 import { Link, redirect } from "react-router";
 import type { Route } from "./+types/edit";
+import { lessonCopyPath } from "~/classes.server";
 import { ScenarioForm } from "~/components/scenario-form";
 import { FormMessage } from "~/components/ui/field";
 import { requireUser } from "~/permissions.server";
@@ -14,6 +15,9 @@ export const meta: Route.MetaFunction = ({ data }) => [{ title: `Edit ${data?.sc
 export async function loader({ request, params }: Route.LoaderArgs) {
   const user = await requireUser(request);
   const { tank, scenario } = requireOwnedScenario(user.id, params.tankId, params.scenarioId);
+  // A lesson copy is changed on its lesson page, where the lesson's locks apply.
+  const lessonPath = lessonCopyPath(scenario.id);
+  if (lessonPath) throw redirect(lessonPath);
   const settings = readStoredSettings(scenario.settings);
   const units = unitsOf(user);
   return {
@@ -27,6 +31,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 export async function action({ request, params }: Route.ActionArgs) {
   const user = await requireUser(request);
   const { tank, scenario } = requireOwnedScenario(user.id, params.tankId, params.scenarioId);
+  const lessonPath = lessonCopyPath(scenario.id);
+  if (lessonPath) throw redirect(lessonPath);
   const baseline = readStoredSettings(scenario.settings) ?? undefined;
   const outcome = await handleSetupSubmission(await readForm(request), user, tank, scenario.id, baseline);
   if ("scenarioId" in outcome) return redirect(`/tanks/${tank.id}/scenarios/${outcome.scenarioId}`);
