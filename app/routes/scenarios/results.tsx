@@ -105,6 +105,9 @@ export default function ResultsPage({ loaderData, actionData }: Route.ComponentP
           <a href={`${base}/export`} className="btn-secondary" download>
             Export scenario file
           </a>
+          <Link to={`${base}/share`} className="btn-secondary">
+            Share
+          </Link>
         </div>
       </div>
       {error ? (
