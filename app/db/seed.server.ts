@@ -3,12 +3,21 @@
  * with a class, and an admin. Every name, e-mail and tank here is made up for the demo;
  * the password is for local use only and is printed in README.md.
  */
+import { and, eq } from "drizzle-orm";
 import { hashPassword } from "~/auth.server";
+import { hashToken } from "~/utils/crypto.server";
 import type { Db } from "./client.server";
-import { classes, classMembers, tanks, users } from "./schema";
+import { classes, classMembers, lessons, scenarios, shareLinks, tanks, users } from "./schema";
 import { seedDemoScenarios } from "./seed-scenarios.server";
 
 export const DEMO_PASSWORD = "tidewell-demo-2026";
+
+/**
+ * The demo public link, /s/tidewell-demo-theo-as-kept-now (Theo's "As kept now"). A fixed,
+ * guessable token is acceptable only because the demo club is seeded on local machines only;
+ * real links carry 256 random bits (app/share.server.ts). Stored hashed like any other.
+ */
+export const DEMO_SHARE_TOKEN = "tidewell-demo-theo-as-kept-now";
 
 export const DEMO_USERS = [
   { email: "admin@tidewell.example", name: "Rowan Admin", role: "admin" },
@@ -45,5 +54,21 @@ export async function seedDemoData(db: Db): Promise<void> {
       .returning({ id: classes.id })
       .get();
     tx.insert(classMembers).values({ classId: cls.id, userId: ids.get("student@tidewell.example")! }).run();
+    const scenarioIn = (tankId: number, name: string) =>
+      tx.select().from(scenarios).where(and(eq(scenarios.tankId, tankId), eq(scenarios.name, name))).get()!;
+    const cycling = scenarioIn(tankIds.teacher, "A new tank cycling without fish");
+    tx.insert(lessons)
+      .values({
+        classId: cls.id,
+        scenarioId: cycling.id,
+        title: "How a new tank cycles",
+        question:
+          "Ammonia peaks first, then nitrite, then nitrate climbs. Try a warmer tank or a higher pH: what happens to the free ammonia peak, and why?",
+        unlockedFields: ["water.temperatureC", "water.pH"],
+        settings: cycling.settings,
+      })
+      .run();
+    const asKept = scenarioIn(tankIds.theo, "As kept now");
+    tx.insert(shareLinks).values({ scenarioId: asKept.id, tokenHash: hashToken(DEMO_SHARE_TOKEN) }).run();
   });
 }
