@@ -15,6 +15,7 @@ import "./app.css";
 import { FooterCaution } from "~/components/cautions";
 import { getEnv } from "~/env.server";
 import { getSessionUser } from "~/session.server";
+import { useNonce } from "~/utils/nonce";
 
 export const links: Route.LinksFunction = () => [{ rel: "icon", href: "/favicon.ico" }];
 
@@ -24,6 +25,7 @@ export async function loader({ request }: Route.LoaderArgs) {
 }
 
 export function Layout({ children }: { children: React.ReactNode }) {
+  const nonce = useNonce();
   return (
     <html lang="en">
       <head>
@@ -34,8 +36,8 @@ export function Layout({ children }: { children: React.ReactNode }) {
       </head>
       <body className="min-h-screen bg-[#fbfaf7] text-stone-900 antialiased">
         {children}
-        <ScrollRestoration />
-        <Scripts />
+        <ScrollRestoration nonce={nonce} />
+        <Scripts nonce={nonce} />
       </body>
     </html>
   );

@@ -41,13 +41,13 @@ describe("a keeper's tank in the browser", () => {
     await page.locator("#f-name").fill("No plants");
     await page.getByText("Plants", { exact: true }).click();
     await page.getByRole("button", { name: /^Remove / }).click();
-    await expect(page.getByText("No plant groups").isVisible()).resolves.toBe(true);
+    await page.getByText("No plant groups").waitFor();
     await shot(page, "setup-no-plants");
     await page.getByRole("button", { name: "Save and run" }).click();
     await page.waitForURL(/\/scenarios\/\d+$/);
     await page.getByRole("application").waitFor();
-    await expect(page.getByRole("heading", { name: "Nitrogen budget" }).isVisible()).resolves.toBe(true);
-    await expect(page.getByText("Where the nitrogen went").isVisible()).resolves.toBe(true);
+    await page.getByRole("heading", { name: "Nitrogen budget" }).waitFor();
+    await page.getByText("Where the nitrogen went").waitFor();
     await shot(page, "results-no-plants");
 
     // The day cursor moves with the keyboard.
