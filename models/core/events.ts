@@ -1,3 +1,4 @@
+import { ModelError } from "./errors";
 /**
  * Discrete events: jumps applied to the state between integration segments
  * (water changes, filter cleanings, trims, doses, meals). The simulate loop splits time at
@@ -32,9 +33,20 @@ export const TIME_EPS = 1e-9;
  * Times first, first + interval, … strictly before `end` (days). Computed by multiplication so
  * long runs do not drift. An interval ≤ 0 gives no times.
  */
+/** Most events one periodic schedule may add (meals 12 a day for two years are 8 760). */
+export const MAX_EVENTS_PER_SCHEDULE = 20_000;
+
 export function periodicTimes(interval: number, end: number, first = interval): number[] {
   const out: number[] = [];
   if (!(interval > 0)) return out;
+  // A tiny interval would schedule millions of events and exhaust memory before the solver's
+  // own bounds could stop it: refuse it here with the typed error.
+  if ((end - first) / interval > MAX_EVENTS_PER_SCHEDULE) {
+    throw new ModelError(
+      "INVALID",
+      `Something is scheduled every ${interval} days, which makes more than ${MAX_EVENTS_PER_SCHEDULE} events in the run. Use a longer interval.`,
+    );
+  }
   for (let k = 0; ; k++) {
     const t = first + k * interval;
     if (t >= end - TIME_EPS) break;

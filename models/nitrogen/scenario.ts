@@ -70,6 +70,20 @@ function bool(def: boolean, meta: Omit<FieldMeta, "quantity" | "unit">) {
     .meta({ ...meta, quantity: "none", unit: "" });
 }
 
+/**
+ * Days between repeated events: 0 for never, else at least a day. A positive interval below
+ * a day would schedule thousands of water changes or cleanings (and was never meant).
+ */
+function intervalDays(def: number, meta: FieldMeta) {
+  return z
+    .number({ error: `${meta.label} must be a number` })
+    .min(0, { error: `${meta.label} must be at least 0 days (0 for never)` })
+    .max(365, { error: `${meta.label} must be at most 365 days` })
+    .refine((v) => v === 0 || v >= 1, { error: `${meta.label} must be 0 (never) or at least 1 day` })
+    .default(def)
+    .meta(meta);
+}
+
 const fraction = (def: number, label: string, hint: string, max = 1) =>
   num(def, { label, hint, quantity: "fraction", unit: "" }, { min: 0, max });
 
@@ -287,16 +301,12 @@ export const FilterSchema = z.object({
     label: "Filter already cycled",
     hint: "Off for a new filter: bacteria must grow first, so ammonia and nitrite peak.",
   }),
-  cleaningIntervalDays: num(
-    D.filter.cleaningIntervalDays.value,
-    {
-      label: "Clean filter every",
-      hint: "Days between filter cleanings; 0 for never.",
-      quantity: "days",
-      unit: "days",
-    },
-    { min: 0, max: 365 },
-  ),
+  cleaningIntervalDays: intervalDays(D.filter.cleaningIntervalDays.value, {
+    label: "Clean filter every",
+    hint: "Days between filter cleanings; 0 for never.",
+    quantity: "days",
+    unit: "days",
+  }),
   organicsRemovedFraction: fraction(
     D.filter.organicsRemovedFraction.value,
     "Sludge removed per cleaning",
@@ -309,11 +319,12 @@ export const FilterSchema = z.object({
 });
 
 export const MaintenanceSchema = z.object({
-  waterChangeIntervalDays: num(
-    D.maintenance.waterChangeIntervalDays.value,
-    { label: "Change water every", hint: "Days between water changes; 0 for none.", quantity: "days", unit: "days" },
-    { min: 0, max: 365 },
-  ),
+  waterChangeIntervalDays: intervalDays(D.maintenance.waterChangeIntervalDays.value, {
+    label: "Change water every",
+    hint: "Days between water changes; 0 for none.",
+    quantity: "days",
+    unit: "days",
+  }),
   waterChangeFraction: fraction(
     D.maintenance.waterChangeFraction.value,
     "Share of water changed",
