@@ -143,6 +143,34 @@ function PlantRowFields({
   );
 }
 
+/** Day 0 on the calendar, so dated test readings line up with the model's days. */
+function StartDateInput({ value, error }: { value: string; error?: string }) {
+  return (
+    <div className="space-y-1">
+      <label htmlFor="f-startDate" className="block text-sm font-semibold text-stone-800">
+        Run starts on
+      </label>
+      <input
+        id="f-startDate"
+        name="startDate"
+        type="date"
+        defaultValue={value}
+        className="input"
+        aria-invalid={error ? true : undefined}
+        aria-describedby={`f-startDate-hint${error ? " f-startDate-error" : ""}`}
+      />
+      <p id="f-startDate-hint" className="text-xs text-stone-600">
+        The calendar day of day 0, so your test readings line up with the chart. Empty: the day the scenario was made.
+      </p>
+      {error ? (
+        <p id="f-startDate-error" className="text-sm font-semibold text-red-800" role="alert">
+          {error}
+        </p>
+      ) : null}
+    </div>
+  );
+}
+
 /**
  * The scenario setup form. Works without JavaScript (adding and removing plant rows are
  * submit buttons the server answers); with JavaScript those happen in place and choosing a
@@ -300,6 +328,7 @@ export function ScenarioForm({
               {section.fields.map((f) => (
                 <FieldInput key={f.name} field={f} error={errors[f.name]} locked={locked?.has(f.name)} />
               ))}
+              {section.id === "run" && model.startDate !== undefined ? <StartDateInput value={model.startDate} error={errors.startDate} /> : null}
             </div>
           )}
         </details>

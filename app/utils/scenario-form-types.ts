@@ -40,4 +40,6 @@ export type ScenarioFormModel = {
   plants: PlantRow[];
   growthForms: { value: string; label: string }[];
   growthFormPresets: GrowthFormPresets;
+  /** "Run starts on" (YYYY-MM-DD, "" = the day the scenario is saved); the field is drawn only when set. */
+  startDate?: string;
 };

@@ -7,6 +7,7 @@ import { requireUser } from "~/permissions.server";
 import { buildScenarioForm } from "~/scenario-form.server";
 import { readStoredSettings } from "~/simulation.server";
 import { requireOwnedScenario } from "~/tanks.server";
+import { formatDate } from "~/utils/dates";
 import { readForm } from "~/utils/http.server";
 import { handleSetupSubmission, unitsOf, unitsSummary } from "./setup.server";
 
@@ -23,7 +24,9 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   return {
     tank: { id: tank.id, name: tank.name },
     scenario: { id: scenario.id, name: scenario.name },
-    form: settings ? buildScenarioForm(scenario.name, settings, units) : null,
+    form: settings
+      ? { ...buildScenarioForm(scenario.name, settings, units), startDate: scenario.startDate ? formatDate(scenario.startDate.getTime()) : "" }
+      : null,
     unitsNote: unitsSummary(units),
   };
 }

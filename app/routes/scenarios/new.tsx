@@ -21,7 +21,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     tank: { id: tank.id, name: tank.name },
     presets: PRESETS.map((p) => ({ id: p.id, name: p.name, description: p.description })),
     presetId: preset?.id ?? null,
-    form: buildScenarioForm(preset ? preset.name.split(" — ")[0] : "Baseline", scenario, units),
+    form: { ...buildScenarioForm(preset ? preset.name.split(" — ")[0] : "Baseline", scenario, units), startDate: "" },
     unitsNote: unitsSummary(units),
   };
 }

@@ -22,12 +22,29 @@ import type { TankRow } from "~/tanks.server";
 import { displayUnitsFor, unitLabels, type DisplayUnits } from "~/utils/display-units";
 import { type FieldErrors, formValues } from "~/utils/form-errors";
 import type { ScenarioFormModel } from "~/utils/scenario-form-types";
+import { parseDateOnly } from "~/utils/dates";
 
 export const ScenarioNameSchema = z
   .string({ error: "Give the scenario a name." })
   .trim()
   .min(1, "Give the scenario a name.")
   .max(120, "Keep the name under 120 characters.");
+
+/** "Run starts on": a date (YYYY-MM-DD) or empty (null: the day the scenario was made); absent when the form does not show it. */
+export const StartDateSchema = z
+  .string()
+  .trim()
+  .optional()
+  .transform((v, ctx) => {
+    if (v === undefined) return undefined;
+    if (v === "") return null;
+    const ms = parseDateOnly(v);
+    if (ms === null) {
+      ctx.addIssue({ code: "custom", message: "Give the start date like 2026-03-01, or leave it empty." });
+      return z.NEVER;
+    }
+    return new Date(ms);
+  });
 
 export type SetupActionData = { form: ScenarioFormModel; errors: FieldErrors };
 
@@ -45,6 +62,7 @@ function redraw(values: Record<string, string>, units: DisplayUnits, errors: Fie
   // Submitted rows are drawn from their strings; new rows (no strings yet) from their typical values.
   const plants = [...plantRowsFromValues(values), ...extraPlants];
   const form = buildScenarioForm(values.name ?? "", ScenarioSchema.parse({}), units, values, plants);
+  if (values.startDate !== undefined) form.startDate = values.startDate;
   return data<SetupActionData>({ form, errors }, { status });
 }
 
@@ -82,9 +100,13 @@ export async function handleSetupSubmission(
 
   const name = ScenarioNameSchema.safeParse(values.name);
   const parsed = parseScenarioForm(values, units, baseline);
+  const startDate = StartDateSchema.safeParse(values.startDate);
   const errors: FieldErrors = { ...(parsed.ok ? {} : parsed.errors) };
   if (!name.success) errors.name = name.error.issues[0].message;
-  if (!parsed.ok || !name.success) return redraw(values, units, errors, 400);
+  if (!startDate.success) errors.startDate = startDate.error.issues[0].message;
+  if (!parsed.ok || !name.success || !startDate.success) return redraw(values, units, errors, 400);
+  // Only a form that shows the field changes the start date.
+  const start = startDate.data === undefined ? {} : { startDate: startDate.data };
 
   const refused = enforce?.(parsed.scenario);
   if (refused) return redraw(values, units, refused, 400);
@@ -111,13 +133,14 @@ export async function handleSetupSubmission(
           settings: scenario,
           schemaVersion: scenario.schemaVersion,
           copiedFromId: target === "new" ? null : target,
+          ...start,
         })
         .returning({ id: scenarios.id })
         .get().id;
     } else {
       id = target;
       tx.update(scenarios)
-        .set({ name: name.data, settings: scenario, schemaVersion: scenario.schemaVersion, updatedAt: new Date() })
+        .set({ name: name.data, settings: scenario, schemaVersion: scenario.schemaVersion, updatedAt: new Date(), ...start })
         .where(eq(scenarios.id, target))
         .run();
     }
