@@ -12,7 +12,18 @@ import { formatNumber } from "~/utils/display-units";
  * A scenario's results for someone who may look but not change them (share page, admin review,
  * an educator opening a student's copy): key figures, chart, budget, settings and cautions.
  */
-export function ReadOnlyResults({ name, view, downloadName }: { name: string; view: ReadOnlyView; downloadName: string }) {
+export function ReadOnlyResults({
+  name,
+  view,
+  downloadName,
+  showSettings = true,
+}: {
+  name: string;
+  view: ReadOnlyView;
+  downloadName: string;
+  /** False where the settings are already on the page (a student's form). */
+  showSettings?: boolean;
+}) {
   const { results, settings, error } = view;
   const plantNames = useMemo(() => results?.series.plants.map((p) => p.name) ?? [], [results]);
   const budgets = useMemo(() => (results ? [{ label: name, budget: results.budget, plantNames }] : []), [results, name, plantNames]);
@@ -44,7 +55,7 @@ export function ReadOnlyResults({ name, view, downloadName }: { name: string; vi
           </section>
         </>
       ) : null}
-      {settings ? <SettingsSummary model={settings} /> : null}
+      {settings && showSettings ? <SettingsSummary model={settings} /> : null}
       <CautionsPanel
         tapNitrateAboveDrinkingLimit={results?.tapNitrateAboveDrinkingLimit ?? false}
         tapNitrateText={results ? `${formatNumber(results.tapNitrateDisplay)} ${results.labels.nitrate}` : ""}

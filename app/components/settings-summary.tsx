@@ -1,6 +1,7 @@
 import type { FormField, ScenarioFormModel } from "~/utils/scenario-form-types";
 
-function shown(field: FormField): string {
+/** A form field's value as a person reads it: "yes"/"no", an option's label, or the number. */
+export function fieldText(field: Pick<FormField, "kind" | "value" | "options">): string {
   if (field.kind === "boolean") return field.value === "true" ? "yes" : "no";
   if (field.kind === "enum") return field.options?.find((o) => o.value === field.value)?.label ?? field.value;
   return field.value === "" ? "–" : field.value;
@@ -13,7 +14,7 @@ function Fields({ fields }: { fields: FormField[] }) {
         <div key={f.name} className="flex items-baseline justify-between gap-2 border-b border-stone-100 py-1">
           <dt className="text-sm text-stone-700">{f.label}</dt>
           <dd className="text-right text-sm">
-            <span className={f.kind === "number" || f.kind === "integer" ? "figure" : ""}>{shown(f)}</span>
+            <span className={f.kind === "number" || f.kind === "integer" ? "figure" : ""}>{fieldText(f)}</span>
             {f.unit && f.kind !== "boolean" && f.kind !== "enum" ? <span className="ml-1 text-xs text-stone-600">{f.unit}</span> : null}
           </dd>
         </div>

@@ -1,6 +1,7 @@
 import { Form, Link, redirect, useNavigation } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/lesson-new";
+import { fieldText } from "~/components/settings-summary";
 import { FormMessage, SelectField, TextField } from "~/components/ui/field";
 import {
   educatorScenarios,
@@ -44,7 +45,12 @@ export async function loader({ request, params }: Route.LoaderArgs) {
           name: pick.scenario.name,
           groups: formFieldGroups(pick.model).map((g) => ({
             title: g.title,
-            fields: g.fields.map((f) => ({ name: f.name, label: f.label, value: f.value, unit: f.kind === "boolean" || f.kind === "enum" ? "" : f.unit })),
+            fields: g.fields.map((f) => ({
+              name: f.name,
+              label: f.label,
+              value: fieldText(f),
+              unit: f.kind === "boolean" || f.kind === "enum" ? "" : f.unit,
+            })),
           })),
         }
       : null,
@@ -151,7 +157,10 @@ export default function NewLessonPage({ loaderData, actionData }: Route.Componen
             </div>
           </div>
           <fieldset className="card space-y-4">
-            <legend className="px-1 text-lg font-semibold">3. Settings students may change</legend>
+            <legend className="sr-only">Settings students may change</legend>
+            <h2 className="text-lg" aria-hidden="true">
+              3. Settings students may change
+            </h2>
             <p className="text-sm text-stone-700">
               Everything not ticked is locked: students see it but cannot change it. The values are frozen now, so later edits
               of your scenario do not move the lesson.

@@ -43,13 +43,26 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const units = displayUnitsFor(user);
   const settings = readStoredSettings(scenario.settings);
   const form = settings ? buildScenarioForm(scenario.name, settings, units) : null;
+  const unlocked = new Set(lesson.unlockedFields);
+  const plantGroupsFree = unlocked.has(PLANT_GROUPS_FIELD);
+  // Open the sections that hold something the student may change.
+  const openSections = form
+    ? form.sections
+        .filter((s) =>
+          s.id === "plants"
+            ? plantGroupsFree || form.plants.some((p) => p.fields.some((f) => unlocked.has(f.name)))
+            : s.fields.some((f) => unlocked.has(f.name)),
+        )
+        .map((s) => s.id)
+    : [];
   return {
     cls: { id: cls.id, name: cls.name },
     lesson: { id: lesson.id, title: lesson.title, question: lesson.question },
     scenario: { name: scenario.name },
     form,
     locked: form ? [...lockedNames(form, lesson.unlockedFields)] : [],
-    plantGroupsFree: lesson.unlockedFields.includes(PLANT_GROUPS_FIELD),
+    plantGroupsFree,
+    openSections: openSections.length ? openSections : ["water"],
     view: await readOnlyScenarioView(scenario, tank, units),
     handedIn: copy.handedInAt ? { at: copy.handedInAt.toISOString().slice(0, 16).replace("T", " "), answer: copy.answer ?? "" } : null,
     unitsNote: unitsSummary(units),
@@ -96,7 +109,7 @@ export async function action({ request, params }: Route.ActionArgs) {
 }
 
 export default function LessonWorkPage({ loaderData, actionData }: Route.ComponentProps) {
-  const { cls, lesson, scenario, view, handedIn, locked, plantGroupsFree, unitsNote } = loaderData;
+  const { cls, lesson, scenario, view, handedIn, locked, plantGroupsFree, openSections, unitsNote } = loaderData;
   const busy = useNavigation().state === "submitting";
   const lockedSet = useMemo(() => new Set(locked), [locked]);
   const setupData = actionData && "form" in actionData ? actionData : null;
@@ -145,7 +158,7 @@ export default function LessonWorkPage({ loaderData, actionData }: Route.Compone
             submitLabel="Save and run"
             locked={lockedSet}
             plantGroupsLocked={!plantGroupsFree}
-            openSections={["fish"]}
+            openSections={openSections}
             unitsNote={unitsNote}
           />
         </section>
@@ -156,7 +169,12 @@ export default function LessonWorkPage({ loaderData, actionData }: Route.Compone
         <h2 id="results-title" className="text-xl">
           Results of your copy
         </h2>
-        <ReadOnlyResults name={scenario.name} view={view} downloadName={`${lesson.title}-${scenario.name}`} />
+        <ReadOnlyResults
+          name={scenario.name}
+          view={view}
+          downloadName={`${lesson.title}-${scenario.name}`}
+          showSettings={!!handedIn}
+        />
       </section>
       {handedIn ? null : (
         <Form method="post" className="card space-y-3" noValidate>
