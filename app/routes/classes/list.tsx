@@ -71,7 +71,7 @@ export default function ClassesPage({ loaderData, actionData }: Route.ComponentP
               ))}
             </ul>
           )}
-          <Form method="post" className="card flex flex-wrap items-end gap-3" noValidate>
+          <Form method="post" className="card flex flex-wrap items-start gap-3" noValidate>
             <input type="hidden" name="intent" value="create" />
             <div className="min-w-0 flex-1">
               <TextField
@@ -82,7 +82,7 @@ export default function ClassesPage({ loaderData, actionData }: Route.ComponentP
                 error={values.intent === "create" ? errors.name : undefined}
               />
             </div>
-            <button type="submit" className="btn" disabled={busy}>
+            <button type="submit" className="btn mt-6" disabled={busy}>
               Create class
             </button>
           </Form>
@@ -106,7 +106,7 @@ export default function ClassesPage({ loaderData, actionData }: Route.ComponentP
             ))}
           </ul>
         )}
-        <Form method="post" className="card flex flex-wrap items-end gap-3" noValidate>
+        <Form method="post" className="card flex flex-wrap items-start gap-3" noValidate>
           <input type="hidden" name="intent" value="join" />
           <div className="min-w-0 flex-1">
             <TextField
@@ -119,7 +119,7 @@ export default function ClassesPage({ loaderData, actionData }: Route.ComponentP
               error={values.intent === "join" ? errors.code : undefined}
             />
           </div>
-          <button type="submit" className="btn" disabled={busy}>
+          <button type="submit" className="btn mt-6" disabled={busy}>
             Join class
           </button>
         </Form>
