@@ -8,6 +8,7 @@ import { KeyFiguresList } from "~/components/key-figures";
 import { FormMessage } from "~/components/ui/field";
 import { WhatIfPanel, type WhatIfPreview } from "~/components/what-if-panel";
 import { requireUser } from "~/permissions.server";
+import { modelStartMs, readingsForChart } from "~/readings.server";
 import { packedResultsPayload, resultsPayload } from "~/results.server";
 import { saveScenarioWithRun } from "~/scenario-api.server";
 import { ensureRun, isModelError, readStoredSettings, withTankTargets } from "~/simulation.server";
@@ -26,18 +27,20 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const { tank, scenario } = requireOwnedScenario(user.id, params.tankId, params.scenarioId);
   const base = { tank: { id: tank.id, name: tank.name }, scenario: { id: scenario.id, name: scenario.name } };
   const settings = readStoredSettings(scenario.settings);
-  if (!settings) return { ...base, error: "The saved settings of this scenario can no longer be read.", results: null, whatIf: null };
+  if (!settings) return { ...base, error: "The saved settings of this scenario can no longer be read.", results: null, whatIf: null, readings: [] };
   const withTargets = withTankTargets(settings, tank);
+  const units = displayUnitsFor(user);
   try {
     const run = await ensureRun(scenario.id, withTargets);
     return {
       ...base,
       error: null,
-      results: packedResultsPayload(resultsPayload(run, withTargets, displayUnitsFor(user))),
+      results: packedResultsPayload(resultsPayload(run, withTargets, units)),
+      readings: readingsForChart(tank.id, modelStartMs(scenario), withTargets.run.lengthDays, units),
       whatIf: { base: whatIfBase(withTargets), hasPlants: withTargets.plants.length > 0 },
     };
   } catch (error) {
-    if (isModelError(error)) return { ...base, error: error.message, results: null, whatIf: null };
+    if (isModelError(error)) return { ...base, error: error.message, results: null, whatIf: null, readings: [] };
     throw error;
   }
 }
@@ -143,8 +146,27 @@ export default function ResultsPage({ loaderData, actionData }: Route.ComponentP
             events={results.events}
             guides={results.guides}
             overlays={overlays}
+            readings={loaderData.readings}
             downloadName={`${tank.name}-${scenario.name}`}
           />
+          <p className="text-sm text-stone-700">
+            {loaderData.readings.length ? `${loaderData.readings.length} test readings are drawn as points over the curves. ` : "No test readings fall within this run. "}
+            <Link to={`/tanks/${tank.id}/readings`} className="link">
+              Readings
+            </Link>{" "}
+            ·{" "}
+            <Link to={`${base}/calibrate`} className="link">
+              Calibrate against them
+            </Link>{" "}
+            ·{" "}
+            <Link to={`${base}/sweep`} className="link">
+              Sweep a setting
+            </Link>{" "}
+            ·{" "}
+            <Link to={`${base}/target`} className="link">
+              Find the change that meets a goal
+            </Link>
+          </p>
           {whatIf ? (
             <WhatIfPanel
               scenarioId={scenario.id}
