@@ -4,7 +4,7 @@
  * reuses the stored run (ensureRun runs the engine only if the settings or engine changed).
  */
 import type { Scenario } from "../models";
-import { resultsPayload } from "~/results.server";
+import { packedResultsPayload, resultsPayload } from "~/results.server";
 import { buildScenarioForm } from "~/scenario-form.server";
 import { ensureRun, isModelError, readStoredSettings, withTankTargets } from "~/simulation.server";
 import type { ScenarioRow } from "~/tanks.server";
@@ -22,7 +22,8 @@ export async function readOnlyScenarioView(
   const form = buildScenarioForm(scenario.name, withTargets, units);
   try {
     const run = await ensureRun(scenario.id, withTargets);
-    return { error: null, results: resultsPayload(run, withTargets, units), settings: form };
+    // Series packed into strings, as on the owner's results page: much cheaper to send.
+    return { error: null, results: packedResultsPayload(resultsPayload(run, withTargets, units)), settings: form };
   } catch (error) {
     if (isModelError(error)) return { error: error.message, results: null, settings: form };
     throw error;

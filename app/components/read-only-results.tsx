@@ -7,6 +7,7 @@ import { SettingsSummary } from "~/components/settings-summary";
 import { FormMessage } from "~/components/ui/field";
 import type { ReadOnlyView } from "~/read-only-view.server";
 import { formatNumber } from "~/utils/display-units";
+import { unpackSeries } from "~/utils/series-packing";
 
 /**
  * A scenario's results for someone who may look but not change them (share page, admin review,
@@ -25,12 +26,13 @@ export function ReadOnlyResults({
   showSettings?: boolean;
 }) {
   const { results, settings, error } = view;
-  const plantNames = useMemo(() => results?.series.plants.map((p) => p.name) ?? [], [results]);
+  const series = useMemo(() => (results ? unpackSeries(results.packedSeries) : null), [results]);
+  const plantNames = useMemo(() => series?.plants.map((p) => p.name) ?? [], [series]);
   const budgets = useMemo(() => (results ? [{ label: name, budget: results.budget, plantNames }] : []), [results, name, plantNames]);
   return (
     <div className="space-y-6">
       {error ? <FormMessage>{error}</FormMessage> : null}
-      {results ? (
+      {results && series ? (
         <>
           <section aria-labelledby="figures-title" className="space-y-2">
             <h2 id="figures-title" className="sr-only">
@@ -40,7 +42,7 @@ export function ReadOnlyResults({
           </section>
           <TimeSeriesChart
             title={`${name}: nitrogen over ${results.lengthDays} days`}
-            series={results.series}
+            series={series}
             units={results.labels}
             events={results.events}
             guides={results.guides}

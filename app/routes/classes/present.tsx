@@ -1,4 +1,4 @@
-import { useEffect, useState } from "react";
+import { useEffect, useMemo, useState } from "react";
 import { Link } from "react-router";
 import type { Route } from "./+types/present";
 import { CautionsPanel } from "~/components/cautions";
@@ -8,9 +8,10 @@ import { TimeSeriesChart } from "~/components/charts/time-series-chart";
 import { FormMessage } from "~/components/ui/field";
 import { lessonRun, requireLesson, requireOwnClass } from "~/classes.server";
 import { requireUser } from "~/permissions.server";
-import { resultsPayload } from "~/results.server";
+import { packedResultsPayload, resultsPayload } from "~/results.server";
 import { isModelError } from "~/simulation.server";
 import { displayUnitsFor, formatNumber } from "~/utils/display-units";
+import { unpackSeries } from "~/utils/series-packing";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `Presenting ${data?.lesson.title ?? "a lesson"} · Fernwater` }];
 
@@ -22,7 +23,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   try {
     const found = await lessonRun(lesson);
     if (!found) return { ...base, results: null, error: "The lesson’s settings can no longer be read." };
-    return { ...base, results: resultsPayload(found.run, found.settings, displayUnitsFor(user)), error: null };
+    return { ...base, results: packedResultsPayload(resultsPayload(found.run, found.settings, displayUnitsFor(user))), error: null };
   } catch (error) {
     if (isModelError(error)) return { ...base, results: null, error: error.message };
     throw error;
@@ -34,7 +35,8 @@ const DAYS_PER_SECOND = 6;
 
 export default function PresentLessonPage({ loaderData }: Route.ComponentProps) {
   const { cls, lesson, results, error } = loaderData;
-  const lastDay = results ? Math.round(results.series.t[results.series.t.length - 1] ?? 0) : 0;
+  const series = useMemo(() => (results ? unpackSeries(results.packedSeries) : null), [results]);
+  const lastDay = series ? Math.round(series.t[series.t.length - 1] ?? 0) : 0;
   const [day, setDay] = useState(0);
   const [playing, setPlaying] = useState(false);
   // Playing stops by itself at the last day.
@@ -46,15 +48,16 @@ export default function PresentLessonPage({ loaderData }: Route.ComponentProps) 
     return () => clearInterval(timer);
   }, [running, lastDay]);
 
-  const i = results ? nearestIndex(results.series.t, day, "before") : -1;
-  const figures = results && i >= 0
-    ? [
-        { key: "tan", label: "Total ammonia", value: results.series.tan[i], unit: results.labels.ammonia, color: SERIES_COLORS.tan },
-        { key: "nh3", label: "Free ammonia", value: results.series.nh3[i], unit: results.labels.ammonia, color: SERIES_COLORS.nh3 },
-        { key: "no2", label: "Nitrite", value: results.series.no2[i], unit: results.labels.nitrite, color: SERIES_COLORS.no2 },
-        { key: "no3", label: "Nitrate", value: results.series.no3[i], unit: results.labels.nitrate, color: SERIES_COLORS.no3 },
-      ]
-    : [];
+  const i = series ? nearestIndex(series.t, day, "before") : -1;
+  const figures =
+    results && series && i >= 0
+      ? [
+          { key: "tan", label: "Total ammonia", value: series.tan[i], unit: results.labels.ammonia, color: SERIES_COLORS.tan },
+          { key: "nh3", label: "Free ammonia", value: series.nh3[i], unit: results.labels.ammonia, color: SERIES_COLORS.nh3 },
+          { key: "no2", label: "Nitrite", value: series.no2[i], unit: results.labels.nitrite, color: SERIES_COLORS.no2 },
+          { key: "no3", label: "Nitrate", value: series.no3[i], unit: results.labels.nitrate, color: SERIES_COLORS.no3 },
+        ]
+      : [];
 
   return (
     <div className="space-y-4">
@@ -66,7 +69,7 @@ export default function PresentLessonPage({ loaderData }: Route.ComponentProps) 
       <h1 className="text-3xl sm:text-4xl">{lesson.title}</h1>
       <p className="text-lg sm:text-xl">{lesson.question}</p>
       {error ? <FormMessage>{error}</FormMessage> : null}
-      {results ? (
+      {results && series ? (
         <>
           <div className="card space-y-3">
             <div className="flex flex-wrap items-center gap-4">
@@ -113,7 +116,7 @@ export default function PresentLessonPage({ loaderData }: Route.ComponentProps) 
           </div>
           <TimeSeriesChart
             title={`${lesson.title}: nitrogen over ${results.lengthDays} days`}
-            series={results.series}
+            series={series}
             units={results.labels}
             events={results.events}
             guides={results.guides}
