@@ -11,7 +11,30 @@ import type { ScenarioRow } from "~/tanks.server";
 import type { DisplayUnits } from "~/utils/display-units";
 import { formatNumber } from "~/utils/display-units";
 
+const views = new Map<string, ReadOnlyViewData>();
+const VIEW_CACHE_SIZE = 64;
+
+/**
+ * The view in `units`. Kept per scenario version (updatedAt), band and units, so a link posted
+ * to a busy forum thread builds its page data once; a save of the scenario or tank makes a new key.
+ */
 export async function readOnlyScenarioView(
+  scenario: Pick<ScenarioRow, "id" | "name" | "settings" | "updatedAt">,
+  band: { nitrateTargetLow: number; nitrateTargetHigh: number },
+  units: DisplayUnits,
+): Promise<ReadOnlyViewData> {
+  const key = [scenario.id, scenario.updatedAt.getTime(), band.nitrateTargetLow, band.nitrateTargetHigh, ...Object.values(units)].join("|");
+  const hit = views.get(key);
+  if (hit) return hit;
+  const view = await buildView(scenario, band, units);
+  if (view.results) {
+    if (views.size >= VIEW_CACHE_SIZE) views.delete(views.keys().next().value!);
+    views.set(key, view);
+  }
+  return view;
+}
+
+async function buildView(
   scenario: Pick<ScenarioRow, "id" | "name" | "settings">,
   band: { nitrateTargetLow: number; nitrateTargetHigh: number },
   units: DisplayUnits,
@@ -30,7 +53,9 @@ export async function readOnlyScenarioView(
   }
 }
 
-export type ReadOnlyView = Awaited<ReturnType<typeof readOnlyScenarioView>>;
+type ReadOnlyViewData = Awaited<ReturnType<typeof buildView>>;
+
+export type ReadOnlyView = ReadOnlyViewData;
 
 /** One sentence for a page description or a forum preview, in the view's units. */
 export function describeView(view: ReadOnlyView): string {
