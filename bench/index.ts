@@ -7,6 +7,7 @@ export {};
 const benches: { name: string; load: () => Promise<{ run: () => unknown }> }[] = [
   { name: "engine", load: () => import("./engine") },
   { name: "results page", load: () => import("./results-page") },
+  { name: "share page", load: () => import("./share-page") },
 ];
 
 for (const bench of benches) {
