@@ -4,7 +4,15 @@
  * `npm run dev`). Pure: the engine and a chart lookup helper only — no database, no HTTP —
  * so a worker does not open the database or pull in the web app.
  */
-import { simulate, sweep, setScenarioValue, type Scenario, type SimulateOptions, type SweepPoint } from "../models";
+import {
+  ScenarioSchema,
+  simulate,
+  sweep,
+  setScenarioValue,
+  type Scenario,
+  type SimulateOptions,
+  type SweepPoint,
+} from "../models";
 import { valueAt } from "~/components/charts/lookup";
 
 export type SettingPath = readonly (string | number)[];
@@ -22,6 +30,13 @@ export type EngineTask =
       limits: SimulateOptions;
     }
   | {
+      /** Run the scenario and read what a target is judged on (GoalFigures). */
+      kind: "goal";
+      scenario: Scenario;
+      changes: readonly SettingChange[];
+      limits: SimulateOptions;
+    }
+  | {
       /** Run the scenario and read TAN, nitrite-N and nitrate-N (mg N/L) at the given days. */
       kind: "sample";
       scenario: Scenario;
@@ -31,8 +46,24 @@ export type EngineTask =
 
 export type Samples = { tan: number[]; no2: number[]; no3: number[] };
 
+/**
+ * What the target finder judges, mg N/L. "Inorganic N" is TAN + nitrite-N + nitrate-N: the
+ * nitrogen that is or will become nitrate. Judging a nitrate goal on it keeps the search
+ * monotone when a setting starves the filter (KH used up, ammonia piling up instead of
+ * nitrate), which nitrate alone would read as success.
+ */
+export type GoalFigures = {
+  /** Just before the last water change; at the end of the run when there is none. */
+  nitrateBeforeChange: number;
+  inorganicNBeforeChange: number;
+  peakFreeNh3: number;
+  /** Whether a water change happened (else the figures are the run's end). */
+  hadWaterChange: boolean;
+};
+
 export type EngineTaskResult =
   | { kind: "outcomes"; point: SweepPoint }
+  | { kind: "goal"; figures: GoalFigures | null; error: string | null }
   | { kind: "sample"; samples: Samples | null; error: string | null };
 
 /**
@@ -49,12 +80,42 @@ export function runEngineTask(task: EngineTask): EngineTaskResult {
     const [point] = sweep(base, first.path, [first.value], { ...task.limits, outcomes: task.outcomes });
     return { kind: "outcomes", point };
   }
+  if (task.kind === "goal") {
+    let scenario = task.scenario;
+    for (const c of task.changes) scenario = setScenarioValue(scenario, c.path, c.value);
+    const parsed = ScenarioSchema.safeParse(scenario);
+    if (!parsed.success)
+      return { kind: "goal", figures: null, error: parsed.error.issues.map((i) => i.message).join("; ") };
+    try {
+      const r = simulate(parsed.data, task.limits);
+      const changes = r.events.filter((e) => e.kind === "waterChange");
+      const last = changes[changes.length - 1];
+      const day = last ? last.day : r.series.t[r.series.t.length - 1];
+      const before = (y: number[]) => valueAt(r.series.t, y, day, "before");
+      return {
+        kind: "goal",
+        figures: {
+          nitrateBeforeChange: before(r.series.no3),
+          inorganicNBeforeChange: before(r.series.tan) + before(r.series.no2) + before(r.series.no3),
+          peakFreeNh3: r.keyFigures.peakFreeNh3.value,
+          hadWaterChange: Boolean(last),
+        },
+        error: null,
+      };
+    } catch (error) {
+      return { kind: "goal", figures: null, error: error instanceof Error ? error.message : String(error) };
+    }
+  }
   try {
     const r = simulate(task.scenario, task.limits);
     // On a water-change day the value before the change: a keeper tests before changing water
     // (the same rule the chart's readout uses for residuals).
     const at = (y: number[]) => task.days.map((d) => valueAt(r.series.t, y, d, "before"));
-    return { kind: "sample", samples: { tan: at(r.series.tan), no2: at(r.series.no2), no3: at(r.series.no3) }, error: null };
+    return {
+      kind: "sample",
+      samples: { tan: at(r.series.tan), no2: at(r.series.no2), no3: at(r.series.no3) },
+      error: null,
+    };
   } catch (error) {
     return { kind: "sample", samples: null, error: error instanceof Error ? error.message : String(error) };
   }

@@ -1,0 +1,36 @@
+/**
+ * A new scenario made from another with some settings changed (fitted multipliers, a target the
+ * finder found): it keeps the source's day 0 on the calendar, so the tank's readings line up
+ * with it the same way, and remembers where it came from.
+ */
+import { eq } from "drizzle-orm";
+import type { Scenario } from "../models";
+import { getDb } from "~/db/client.server";
+import { scenarios } from "~/db/schema";
+import { insertScenarioWithRun, runOrRefuse } from "~/scenario-api.server";
+import { withTankTargets } from "~/simulation.server";
+import type { TankRow } from "~/tanks.server";
+
+/**
+ * Runs `settings` (with the tank's targets) and stores them as a new scenario with its run and
+ * start date in one transaction; returns the new id. A ModelError comes back as the API's 422
+ * Response (runOrRefuse).
+ */
+export async function saveScenarioVariant(
+  tank: TankRow,
+  sourceId: number,
+  startMs: number,
+  name: string,
+  settings: Scenario,
+): Promise<number> {
+  const scenario = withTankTargets(settings, tank);
+  const result = await runOrRefuse(scenario);
+  return getDb().transaction((tx) => {
+    const id = insertScenarioWithRun(tx, tank.id, name, scenario, result, sourceId);
+    tx.update(scenarios)
+      .set({ startDate: new Date(startMs) })
+      .where(eq(scenarios.id, id))
+      .run();
+    return id;
+  });
+}
