@@ -1,0 +1,25 @@
+import type { Route } from "./+types/tank-readings";
+import { apiFind, json } from "~/api.server";
+import { requireApiUser } from "~/permissions.server";
+import { allReadings } from "~/readings.server";
+import { requireOwnedTank } from "~/tanks.server";
+
+/** GET /api/tanks/:tankId/readings: the tank's test readings, oldest first, canonical units (mg N/L, dKH, °C). */
+export async function loader({ request, params }: Route.LoaderArgs) {
+  const user = await requireApiUser(request);
+  const tank = apiFind(() => requireOwnedTank(user.id, params.tankId), "There is no such tank among yours.");
+  return json({
+    tankId: tank.id,
+    readings: allReadings(tank.id).map((r) => ({
+      id: r.id,
+      takenAt: r.takenAt.toISOString(),
+      tanMgNPerL: r.tan,
+      nitriteMgNPerL: r.nitrite,
+      nitrateMgNPerL: r.nitrate,
+      ph: r.ph,
+      khDkh: r.kh,
+      temperatureC: r.temperatureC,
+      note: r.note,
+    })),
+  });
+}

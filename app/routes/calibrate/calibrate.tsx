@@ -1,0 +1,206 @@
+import { Form, Link, data, redirect, useNavigation } from "react-router";
+import type { Route } from "./+types/calibrate";
+import { CalibrationReport } from "~/components/calibration-report";
+import { JobProgress, useJob } from "~/components/job-progress";
+import { FormMessage } from "~/components/ui/field";
+import {
+  CalibrateInputSchema,
+  MULTIPLIER_LABELS,
+  SaveFittedSchema,
+  startCalibration,
+  type CalibrationJson,
+} from "~/calibration.server";
+import { cancelJob, findJob, jobJson, JobRefused } from "~/jobs.server";
+import { requireUser } from "~/permissions.server";
+import { countReadings, modelStartMs, readingsForCalibration } from "~/readings.server";
+import { readStoredSettings, withTankTargets } from "~/simulation.server";
+import { requireOwnedScenario } from "~/tanks.server";
+import { formatDate } from "~/utils/dates";
+import { displayUnitsFor } from "~/utils/display-units";
+import { fieldErrors, formValues, type FormFailure } from "~/utils/form-errors";
+import { invalid, readForm } from "~/utils/http.server";
+import { MULTIPLIER_KEYS, withMultipliers } from "../../../models/nitrogen/calibrate";
+import { saveScenarioVariant } from "~/scenario-variant.server";
+
+export const meta: Route.MetaFunction = ({ data }) => [
+  { title: `Calibrate · ${data?.scenario.name ?? "Scenario"} · Fernwater` },
+];
+
+async function context(request: Request, params: Route.LoaderArgs["params"]) {
+  const user = await requireUser(request);
+  const { tank, scenario: row } = requireOwnedScenario(user.id, params.tankId, params.scenarioId);
+  const settings = readStoredSettings(row.settings);
+  return { user, tank, row, settings, startMs: modelStartMs(row) };
+}
+
+export async function loader({ request, params }: Route.LoaderArgs) {
+  const { user, tank, row, settings, startMs } = await context(request, params);
+  const jobId = new URL(request.url).searchParams.get("job");
+  const found = jobId ? findJob(user.id, jobId) : null;
+  const job =
+    found && found.kind === "calibration" && (found.params as { scenarioId: number }).scenarioId === row.id
+      ? found
+      : null;
+  const lengthDays = settings?.run.lengthDays ?? 0;
+  return {
+    tank: { id: tank.id, name: tank.name },
+    scenario: { id: row.id, name: row.name },
+    readable: settings !== null,
+    startDate: formatDate(startMs),
+    lengthDays,
+    inRun: settings ? readingsForCalibration(tank.id, startMs, lengthDays).length : 0,
+    total: countReadings(tank.id),
+    hasPlants: (settings?.plants.length ?? 0) > 0,
+    multipliers: MULTIPLIER_KEYS.map((k) => ({
+      key: k,
+      ...MULTIPLIER_LABELS[k],
+      value: settings?.multipliers[k] ?? 1,
+    })),
+    job: job ? jobJson(job) : null,
+    fit: job ? (job.params as { fit: string[] }).fit : null,
+  };
+}
+
+export async function action({ request, params }: Route.ActionArgs) {
+  const { user, tank, row, settings, startMs } = await context(request, params);
+  const form = await readForm(request);
+  const values = formValues(form);
+  const here = `/tanks/${tank.id}/scenarios/${row.id}/calibrate`;
+  if (values.intent === "cancel") {
+    cancelJob(user.id, values.jobId ?? "");
+    return redirect(`${here}?job=${encodeURIComponent(values.jobId ?? "")}`);
+  }
+  if (!settings) return invalid({ "": "The saved settings of this scenario can no longer be read." }, values);
+  if (values.intent === "start") {
+    const input = CalibrateInputSchema.safeParse({ fit: form.getAll("fit") });
+    if (!input.success) return invalid({ fit: input.error.issues[0].message }, values);
+    try {
+      const job = startCalibration(
+        user,
+        row,
+        tank.id,
+        withTankTargets(settings, tank),
+        startMs,
+        input.data.fit,
+        displayUnitsFor(user),
+      );
+      return redirect(`${here}?job=${job.id}`);
+    } catch (error) {
+      if (error instanceof JobRefused)
+        return data<FormFailure>({ errors: { "": error.message }, values }, { status: error.status });
+      throw error;
+    }
+  }
+  if (values.intent === "save") {
+    const parsed = SaveFittedSchema.safeParse(values);
+    if (!parsed.success) return invalid(fieldErrors(parsed.error), values);
+    const { name, ...multipliers } = parsed.data;
+    try {
+      const id = await saveScenarioVariant(tank, row.id, startMs, name, withMultipliers(settings, multipliers));
+      return redirect(`/tanks/${tank.id}/scenarios/${id}`);
+    } catch (error) {
+      if (error instanceof Response) {
+        const body = (await error.json()) as { error: string };
+        return invalid({ "": `The model could not run the fitted settings: ${body.error}` }, values);
+      }
+      throw error;
+    }
+  }
+  return invalid({ "": "Unknown action." }, values);
+}
+
+export default function CalibratePage({ loaderData, actionData }: Route.ComponentProps) {
+  const { tank, scenario, startDate, lengthDays, inRun, total, hasPlants, multipliers, readable } = loaderData;
+  const job = useJob(loaderData.job);
+  const busy = useNavigation().state === "submitting";
+  const errors = actionData?.errors ?? {};
+  const chosen = new Set(
+    loaderData.fit ??
+      (hasPlants ? ["feedLoad", "plantUptake", "nitrifierCapacity"] : ["feedLoad", "nitrifierCapacity"]),
+  );
+  const result = job?.status === "done" ? (job.result as CalibrationJson) : null;
+  return (
+    <div className="space-y-6">
+      <nav aria-label="Breadcrumb" className="text-sm">
+        <Link to="/tanks" className="link">
+          Tanks
+        </Link>{" "}
+        /{" "}
+        <Link to={`/tanks/${tank.id}`} className="link">
+          {tank.name}
+        </Link>{" "}
+        /{" "}
+        <Link to={`/tanks/${tank.id}/scenarios/${scenario.id}`} className="link">
+          {scenario.name}
+        </Link>{" "}
+        / Calibrate
+      </nav>
+      <h1 className="text-2xl">Calibrate {scenario.name} against your readings</h1>
+      <p className="text-sm text-stone-700">
+        Calibration adjusts a few multipliers of the model until its curves pass as close as they can to your test
+        results (least squares, each species weighed on its own scale so nitrate does not drown out ammonia and
+        nitrite). Day 0 of this scenario is {startDate}; its run covers {lengthDays} days. <strong>{inRun}</strong> of
+        the tank’s {total} readings fall within it.{" "}
+        <Link className="link" to={`/tanks/${tank.id}/readings`}>
+          Readings
+        </Link>{" "}
+        ·{" "}
+        <Link className="link" to={`/tanks/${tank.id}/scenarios/${scenario.id}/edit`}>
+          Change the start date
+        </Link>
+      </p>
+      {errors[""] ? <FormMessage>{errors[""]}</FormMessage> : null}
+      {readable ? (
+        <Form method="post" className="card space-y-4">
+          <input type="hidden" name="intent" value="start" />
+          <fieldset className="space-y-2" aria-describedby={errors.fit ? "fit-error" : undefined}>
+            <legend className="text-sm font-semibold">Multipliers to fit (0.1 to 10 each)</legend>
+            {multipliers.map((m) => {
+              const disabled = m.key === "plantUptake" && !hasPlants;
+              return (
+                <label key={m.key} className="flex items-start gap-2 text-sm">
+                  <input
+                    type="checkbox"
+                    name="fit"
+                    value={m.key}
+                    defaultChecked={chosen.has(m.key) && !disabled}
+                    disabled={disabled}
+                    className="mt-1 h-4 w-4 accent-fern-700"
+                  />
+                  <span>
+                    <span className="font-semibold">{m.label}</span> (now ×{m.value}) — {m.hint}
+                    {disabled ? " This scenario has no plants." : ""}
+                  </span>
+                </label>
+              );
+            })}
+            {errors.fit ? (
+              <p id="fit-error" className="text-sm font-semibold text-red-800" role="alert">
+                {errors.fit}
+              </p>
+            ) : null}
+          </fieldset>
+          <button type="submit" className="btn" disabled={busy || inRun === 0 || job?.status === "running"}>
+            Fit to {inRun} reading{inRun === 1 ? "" : "s"}
+          </button>
+          {inRun === 0 ? (
+            <p className="text-sm text-stone-700">
+              Add readings dated within the run first, or change the scenario’s start date.
+            </p>
+          ) : null}
+        </Form>
+      ) : (
+        <FormMessage>The saved settings of this scenario can no longer be read.</FormMessage>
+      )}
+      {job ? (
+        <section aria-labelledby="fit-title" className="card space-y-4">
+          <h2 id="fit-title" className="text-lg">
+            {result ? "The fit" : "Fitting"}
+          </h2>
+          <JobProgress job={job} />
+          {result ? <CalibrationReport result={result} errors={errors} values={actionData?.values ?? {}} /> : null}
+        </section>
+      ) : null}
+    </div>
+  );
+}

@@ -1,0 +1,337 @@
+import { and, eq } from "drizzle-orm";
+import { Form, Link, redirect, useFetcher, useNavigation } from "react-router";
+import { z } from "zod";
+import type { Route } from "./+types/list";
+import { FooterCaution } from "~/components/cautions";
+import { FormMessage, TextField } from "~/components/ui/field";
+import { getDb } from "~/db/client.server";
+import { readings } from "~/db/schema";
+import { requireUser } from "~/permissions.server";
+import {
+  findReading,
+  listReadings,
+  MEASURE_KEYS,
+  MEASURES,
+  measureUnitLabel,
+  measureUnitsFor,
+  type MeasureKey,
+  type SortKey,
+} from "~/readings.server";
+import { listScenarios, requireOwnedTank } from "~/tanks.server";
+import { displayUnitsFor, formatNumber } from "~/utils/display-units";
+import { formValues } from "~/utils/form-errors";
+import { invalid, readForm } from "~/utils/http.server";
+import {
+  clashMessage,
+  displayRow,
+  listHref,
+  parseReadingForm,
+  readListQuery,
+  takenAtClash,
+  type DisplayReading,
+  type ListQuery,
+} from "./readings.server";
+
+export const meta: Route.MetaFunction = ({ data }) => [
+  { title: `Readings · ${data?.tank.name ?? "Tank"} · Fernwater` },
+];
+
+export async function loader({ request, params }: Route.LoaderArgs) {
+  const user = await requireUser(request);
+  const tank = requireOwnedTank(user.id, params.tankId);
+  const url = new URL(request.url);
+  const query = readListQuery(url);
+  const units = displayUnitsFor(user);
+  const measureUnits = measureUnitsFor(units);
+  const list = listReadings(tank.id, query.sort, query.dir, query.page);
+  const editing = query.edit ? findReading(tank.id, query.edit) : null;
+  return {
+    tank: { id: tank.id, name: tank.name },
+    query: { ...query, page: list.page },
+    saved: url.searchParams.get("saved"),
+    total: list.total,
+    pages: list.pages,
+    rows: list.rows.map((r) => displayRow(r, units)),
+    editing: editing ? displayRow(editing, units) : null,
+    columns: MEASURE_KEYS.map((k) => ({ key: k, label: MEASURES[k].label, unit: measureUnitLabel(k, measureUnits) })),
+    scenarios: listScenarios(tank.id).map((s) => ({ id: s.id, name: s.name })),
+  };
+}
+
+const IntentSchema = z.object({
+  intent: z.enum(["add", "update", "delete"]),
+  id: z.coerce.number().int().positive().optional(),
+});
+
+export async function action({ request, params }: Route.ActionArgs) {
+  const user = await requireUser(request);
+  const tank = requireOwnedTank(user.id, params.tankId);
+  const values = formValues(await readForm(request));
+  const back = readListQuery(new URL(request.url));
+  const intent = IntentSchema.safeParse(values);
+  if (!intent.success) return invalid({ "": "Unknown action." }, values);
+  const { id } = intent.data;
+  const existing = id ? findReading(tank.id, id) : null;
+  if (intent.data.intent !== "add" && !existing)
+    return invalid({ "": "That reading is not in this tank (any more)." }, values);
+  const db = getDb();
+  if (intent.data.intent === "delete") {
+    db.delete(readings)
+      .where(and(eq(readings.id, existing!.id), eq(readings.tankId, tank.id)))
+      .run();
+    return redirect(listHref(tank.id, { ...back, edit: undefined, saved: "deleted" }));
+  }
+  const parsed = parseReadingForm(values, measureUnitsFor(displayUnitsFor(user)));
+  if (!parsed.ok) return invalid(parsed.errors, values);
+  const { reading } = parsed;
+  if (takenAtClash(tank.id, reading.takenAt, existing?.id))
+    return invalid({ takenAt: clashMessage(reading.takenAt) }, values);
+  const row = { ...reading, takenAt: new Date(reading.takenAt) };
+  if (existing) db.update(readings).set(row).where(eq(readings.id, existing.id)).run();
+  else
+    db.insert(readings)
+      .values({ ...row, tankId: tank.id })
+      .run();
+  return redirect(listHref(tank.id, { ...back, edit: undefined, saved: existing ? "updated" : "added" }));
+}
+
+const SAVED: Record<string, string> = {
+  added: "Reading added.",
+  updated: "Reading updated.",
+  deleted: "Reading deleted.",
+};
+
+export default function ReadingsPage({ loaderData, actionData }: Route.ComponentProps) {
+  const { tank, query, rows, columns, editing, total, pages, scenarios, saved } = loaderData;
+  const errors = actionData?.errors ?? {};
+  const values = actionData?.values ?? {};
+  const busy = useNavigation().state === "submitting";
+  const formDefaults = (k: string, fromRow: string) => values[k] ?? fromRow;
+  const sortHref = (key: SortKey) =>
+    listHref(tank.id, { sort: key, dir: query.sort === key && query.dir === "desc" ? "asc" : "desc", page: 1 });
+  return (
+    <div className="space-y-6">
+      <nav aria-label="Breadcrumb" className="text-sm">
+        <Link to="/tanks" className="link">
+          Tanks
+        </Link>{" "}
+        /{" "}
+        <Link to={`/tanks/${tank.id}`} className="link">
+          {tank.name}
+        </Link>{" "}
+        / Readings
+      </nav>
+      <div className="flex flex-wrap items-center justify-between gap-3">
+        <h1 className="text-2xl">Readings of {tank.name}</h1>
+        <div className="flex flex-wrap gap-2">
+          <Link to={`/tanks/${tank.id}/readings/upload`} className="btn">
+            Upload a CSV file
+          </Link>
+          <a href={`/tanks/${tank.id}/readings/template`} className="btn-secondary" download>
+            Download the template
+          </a>
+          {total > 0 ? (
+            <a href={`/tanks/${tank.id}/readings/export`} className="btn-secondary" download>
+              Export as CSV
+            </a>
+          ) : null}
+        </div>
+      </div>
+      {saved && SAVED[saved] ? <FormMessage tone="success">{SAVED[saved]}</FormMessage> : null}
+      {errors[""] ? <FormMessage>{errors[""]}</FormMessage> : null}
+      {scenarios.length ? (
+        <section aria-labelledby="with-scenarios" className="text-sm">
+          <h2 id="with-scenarios" className="sr-only">
+            Readings and scenarios
+          </h2>
+          <p className="text-stone-700">
+            Readings are drawn over each scenario’s chart from its start date. Fit a scenario to them:
+          </p>
+          <ul className="mt-1 flex flex-wrap gap-x-4 gap-y-1">
+            {scenarios.map((s) => (
+              <li key={s.id}>
+                {s.name}:{" "}
+                <Link className="link" to={`/tanks/${tank.id}/scenarios/${s.id}`}>
+                  chart
+                </Link>{" "}
+                ·{" "}
+                <Link className="link" to={`/tanks/${tank.id}/scenarios/${s.id}/calibrate`}>
+                  calibrate
+                </Link>
+              </li>
+            ))}
+          </ul>
+        </section>
+      ) : null}
+
+      <Form method="post" className="card space-y-4" key={editing?.id ?? "new"}>
+        <h2 className="text-lg">{editing ? `Edit the reading of ${editing.takenAt}` : "Add a reading"}</h2>
+        <input type="hidden" name="intent" value={editing ? "update" : "add"} />
+        {editing ? <input type="hidden" name="id" value={editing.id} /> : null}
+        <div className="grid gap-4 sm:grid-cols-2 lg:grid-cols-4">
+          <TextField
+            label="Date and time"
+            name="takenAt"
+            type="datetime-local"
+            required
+            defaultValue={formDefaults("takenAt", editing?.takenAtInput ?? "")}
+            error={errors.takenAt}
+          />
+          {columns.map((c) => (
+            <TextField
+              key={c.key}
+              label={c.label}
+              name={c.key}
+              inputMode="decimal"
+              suffix={c.unit || undefined}
+              defaultValue={formDefaults(
+                c.key,
+                editing?.values[c.key as MeasureKey] == null ? "" : String(editing.values[c.key as MeasureKey]),
+              )}
+              error={errors[c.key]}
+              className="figure"
+            />
+          ))}
+        </div>
+        <TextField
+          label="Note"
+          name="note"
+          maxLength={500}
+          defaultValue={formDefaults("note", editing?.note ?? "")}
+          error={errors.note}
+          hint="Optional."
+        />
+        <div className="flex flex-wrap items-center gap-3">
+          <button type="submit" className="btn" disabled={busy}>
+            {editing ? "Save changes" : "Add reading"}
+          </button>
+          {editing ? (
+            <Link to={listHref(tank.id, { ...query, edit: undefined })} className="link text-sm">
+              Cancel
+            </Link>
+          ) : null}
+          <p className="text-xs text-stone-600">Leave blank what you did not test. Times are kept as you type them.</p>
+        </div>
+      </Form>
+
+      <section aria-labelledby="table-title" className="space-y-3">
+        <h2 id="table-title" className="text-lg">
+          {total === 0 ? "No readings yet" : `${total.toLocaleString("en")} reading${total === 1 ? "" : "s"}`}
+        </h2>
+        {total > 0 ? (
+          <ReadingsTable tankId={tank.id} rows={rows} columns={columns} query={query} sortHref={sortHref} />
+        ) : null}
+        {pages > 1 ? (
+          <nav aria-label="Pages of readings" className="flex items-center gap-3 text-sm">
+            {query.page > 1 ? (
+              <Link className="link" to={listHref(tank.id, { ...query, edit: undefined, page: query.page - 1 })}>
+                ← Newer page
+              </Link>
+            ) : null}
+            <span>
+              Page {query.page} of {pages}
+            </span>
+            {query.page < pages ? (
+              <Link className="link" to={listHref(tank.id, { ...query, edit: undefined, page: query.page + 1 })}>
+                Next page →
+              </Link>
+            ) : null}
+          </nav>
+        ) : null}
+      </section>
+      <aside className="rounded-lg border border-amber-300 bg-amber-50 p-4 text-sm text-stone-800">
+        <p className="font-semibold">
+          If a test shows ammonia or nitrite, act at once: a water change first, then find the cause.
+        </p>
+        <FooterCaution />
+      </aside>
+    </div>
+  );
+}
+
+function ReadingsTable({
+  tankId,
+  rows,
+  columns,
+  query,
+  sortHref,
+}: {
+  tankId: number;
+  rows: DisplayReading[];
+  columns: { key: string; label: string; unit: string }[];
+  query: ListQuery;
+  sortHref: (key: SortKey) => string;
+}) {
+  const deleter = useFetcher();
+  const sortMark = (key: SortKey) => (query.sort === key ? (query.dir === "asc" ? " ↑" : " ↓") : "");
+  const ariaSort = (key: SortKey) =>
+    query.sort === key ? (query.dir === "asc" ? "ascending" : "descending") : undefined;
+  return (
+    <div className="overflow-x-auto rounded-lg border border-stone-200 bg-white">
+      <table className="w-full min-w-[44rem] text-sm">
+        <caption className="sr-only">
+          Readings, sorted by {query.sort} ({query.dir === "asc" ? "ascending" : "descending"})
+        </caption>
+        <thead className="bg-stone-50 text-left">
+          <tr>
+            <th scope="col" className="px-3 py-2" aria-sort={ariaSort("takenAt")}>
+              <Link to={sortHref("takenAt")} className="link">
+                Date and time{sortMark("takenAt")}
+              </Link>
+            </th>
+            {columns.map((c) => (
+              <th key={c.key} scope="col" className="px-3 py-2 text-right" aria-sort={ariaSort(c.key as SortKey)}>
+                <Link to={sortHref(c.key as SortKey)} className="link">
+                  {c.label.split(" (")[0]}
+                  {sortMark(c.key as SortKey)}
+                </Link>
+                {c.unit ? <span className="block text-xs font-normal text-stone-600">{c.unit}</span> : null}
+              </th>
+            ))}
+            <th scope="col" className="px-3 py-2">
+              Note
+            </th>
+            <th scope="col" className="px-3 py-2">
+              <span className="sr-only">Actions</span>
+            </th>
+          </tr>
+        </thead>
+        <tbody>
+          {rows.map((r) => (
+            <tr key={r.id} className="border-t border-stone-100 align-top">
+              <th scope="row" className="whitespace-nowrap px-3 py-1.5 text-left font-normal">
+                {r.takenAt}
+              </th>
+              {columns.map((c) => (
+                <td key={c.key} className="num px-3 py-1.5 text-right">
+                  {formatNumber(r.values[c.key as MeasureKey])}
+                </td>
+              ))}
+              <td className="px-3 py-1.5 text-stone-700">{r.note}</td>
+              <td className="whitespace-nowrap px-3 py-1.5">
+                <Link
+                  to={listHref(tankId, { ...query, edit: r.id })}
+                  className="link mr-3"
+                  aria-label={`Edit the reading of ${r.takenAt}`}
+                >
+                  Edit
+                </Link>
+                <deleter.Form method="post" className="inline">
+                  <input type="hidden" name="intent" value="delete" />
+                  <input type="hidden" name="id" value={r.id} />
+                  <button
+                    type="submit"
+                    className="text-red-800 underline"
+                    aria-label={`Delete the reading of ${r.takenAt}`}
+                  >
+                    Delete
+                  </button>
+                </deleter.Form>
+              </td>
+            </tr>
+          ))}
+        </tbody>
+      </table>
+    </div>
+  );
+}

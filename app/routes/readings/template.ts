@@ -1,0 +1,20 @@
+import type { Route } from "./+types/template";
+import { requireUser } from "~/permissions.server";
+import { templateCsv } from "~/readings-csv.server";
+import { measureUnitsFor } from "~/readings.server";
+import { requireOwnedTank } from "~/tanks.server";
+import { displayUnitsFor } from "~/utils/display-units";
+
+/** GET /tanks/:tankId/readings/template — a CSV template in the person's units, with three example rows to overwrite. */
+export async function loader({ request, params }: Route.LoaderArgs) {
+  const user = await requireUser(request);
+  requireOwnedTank(user.id, params.tankId);
+  const body = "\uFEFF" + templateCsv(measureUnitsFor(displayUnitsFor(user)), Date.now());
+  return new Response(body, {
+    headers: {
+      "Content-Type": "text/csv; charset=utf-8",
+      "Content-Disposition": 'attachment; filename="fernwater-readings-template.csv"',
+      "Cache-Control": "no-store",
+    },
+  });
+}

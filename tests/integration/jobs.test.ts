@@ -1,0 +1,454 @@
+import { eq } from "drizzle-orm";
+import { afterEach, describe, expect, it } from "vitest";
+import { getDb } from "~/db/client.server";
+import { readings, scenarios } from "~/db/schema";
+import { runEngineTask } from "~/engine-tasks.server";
+import {
+  clearJobs,
+  createEnginePool,
+  getEnginePool,
+  setEnginePool,
+  sourceWorkerUrl,
+  startJob,
+  type JobJson,
+} from "~/jobs.server";
+import { action as calibrateAction, loader as calibrateLoader } from "~/routes/calibrate/calibrate";
+import { action as jobApiAction, loader as jobApi } from "~/routes/api/job";
+import { action as calibrationsApi } from "~/routes/api/scenario-calibrations";
+import { action as sweepsApiAction, loader as sweepsApi } from "~/routes/api/scenario-sweeps";
+import { action as targetsApi } from "~/routes/api/scenario-targets";
+import { loader as resultsLoader } from "~/routes/scenarios/results";
+import { action as sweepAction, loader as sweepLoader } from "~/routes/sweeps/sweep";
+import { action as targetAction } from "~/routes/sweeps/target";
+import { readStoredSettings } from "~/simulation.server";
+import { startSweep, sweepLevers } from "~/sweeps.server";
+import { DEFAULT_PREFERENCES, displayUnitsFor } from "~/utils/display-units";
+import { call, get, ORIGIN, post, postJson } from "../support/routes";
+import { createScenario, createTank } from "../support/tanks";
+import { userWithCookie } from "../support/users";
+import { ScenarioSchema, plantGroupFromForm, type ScenarioInput } from "../../models/index";
+
+const DAY = 86_400_000;
+const PLANTED: ScenarioInput = {
+  plants: [
+    plantGroupFromForm("stem", {
+      id: "stems",
+      name: "Stem plants",
+      startMassG: 15,
+      maxMassG: 60,
+      trim: { rule: "everyDays", everyDays: 14, trimToFraction: 0.5, fullAtFraction: 0.9 },
+    }),
+  ],
+  fish: { feedGPerDay: 1, proteinFraction: 0.42 },
+  run: { lengthDays: 60 },
+};
+
+afterEach(() => clearJobs());
+
+async function world(role: "keeper" | "educator" = "keeper", input: ScenarioInput = PLANTED) {
+  const user = await userWithCookie(role);
+  const tankId = createTank(user.id);
+  const scenarioId = await createScenario(user.id, tankId, input);
+  return {
+    user,
+    tankId: String(tankId),
+    scenarioId: String(scenarioId),
+    base: `/tanks/${tankId}/scenarios/${scenarioId}`,
+  };
+}
+
+/** Polls the job API like the page does, recording each progress count, until the job ends. */
+async function poll(id: string, cookie: string): Promise<{ job: JobJson; seen: number[] }> {
+  const seen: number[] = [];
+  for (let i = 0; i < 2000; i++) {
+    const r = await call(jobApi, get(`/api/jobs/${id}`, cookie), { jobId: id });
+    expect(r.status).toBe(200);
+    seen.push(r.data.job.done);
+    if (r.data.job.status !== "running") return { job: r.data.job, seen };
+    await new Promise((res) => setTimeout(res, 3));
+  }
+  throw new Error("the job did not end");
+}
+
+const jobIdOf = (location: string | null) => new URL(location!, ORIGIN).searchParams.get("job")!;
+
+describe("sweeps", () => {
+  it("runs a 20-point plant-mass sweep off the request, with progress that moves as runs finish", async () => {
+    const { user, tankId, scenarioId, base } = await world();
+    const page = await call(sweepLoader, get(`${base}/sweep`, user.cookie), { tankId, scenarioId });
+    expect(page.data.levers[0]).toMatchObject({ id: "plantMass", unit: "g dry", current: 15 });
+    expect(page.data.maxPoints).toBe(50);
+    const started = await call(
+      sweepAction,
+      post(
+        `${base}/sweep`,
+        {
+          intent: "start",
+          setting: "plantMass",
+          from: "5",
+          to: "60",
+          points: "20",
+          outcome: "nitrateBeforeLastWaterChange",
+        },
+        user.cookie,
+      ),
+      { tankId, scenarioId },
+    );
+    expect(started.status).toBe(302);
+    const { job, seen } = await poll(jobIdOf(started.location), user.cookie);
+    expect(job.status).toBe("done");
+    expect(job.total).toBe(20);
+    // progress was seen between the start and the end, never going back
+    expect(seen.some((n) => n > 0 && n < 20)).toBe(true);
+    expect(seen).toEqual([...seen].sort((a, b) => a - b));
+    const result = job.result as { points: { x: number; y: number; error: null }[]; outcome: { unit: string } };
+    expect(result.points).toHaveLength(20);
+    expect(result.points[0].x).toBe(5);
+    expect(result.points[19].x).toBe(60);
+    expect(result.outcome.unit).toBe("mg/L NO3");
+    // More plants (start and room to grow scaled together) take up more nitrogen: nitrate falls (references.md §7; docs/engine.md)
+    for (let i = 1; i < 20; i++) expect(result.points[i].y).toBeLessThanOrEqual(result.points[i - 1].y + 1e-9);
+    expect(result.points[19].y).toBeLessThan(result.points[0].y * 0.9);
+    // the page redraws the finished job and its inputs
+    const again = await call(sweepLoader, get(`${base}/sweep?job=${job.id}`, user.cookie), { tankId, scenarioId });
+    expect(again.data.job.status).toBe("done");
+    expect(again.data.input.points).toBe(20);
+  });
+
+  it("holds one job per person, caps points by role, and refuses bad ranges beside the field", async () => {
+    const keeper = await world();
+    const start = (fields: Record<string, string>, w = keeper) =>
+      call(
+        sweepAction,
+        post(
+          `${w.base}/sweep`,
+          {
+            intent: "start",
+            setting: "fish.feedGPerDay",
+            from: "0.2",
+            to: "2",
+            points: "10",
+            outcome: "nitrateEnd",
+            ...fields,
+          },
+          w.user.cookie,
+        ),
+        {
+          tankId: w.tankId,
+          scenarioId: w.scenarioId,
+        },
+      );
+    const tooMany = await start({ points: "51" });
+    expect(tooMany.status).toBe(400);
+    expect(tooMany.data.errors.points).toBe("At most 50 points for your account.");
+    const outside = await start({ to: "5000" });
+    expect(outside.data.errors.to).toMatch(/between 0 and 1000 g\/day/);
+    const same = await start({ to: "0.2" });
+    expect(same.data.errors.to).toMatch(/must differ/);
+    const unknown = await start({ setting: "water.nonsense" });
+    expect(unknown.data.errors.setting).toMatch(/Choose a setting/);
+
+    const first = await start({ points: "50" });
+    expect(first.status).toBe(302);
+    const second = await start({});
+    expect(second.status).toBe(429);
+    expect(second.data.errors[""]).toMatch(/already have a sweep running/);
+    await poll(jobIdOf(first.location), keeper.user.cookie);
+    expect((await start({})).status).toBe(302);
+
+    const educator = await world("educator");
+    const big = await start({ points: "100" }, educator);
+    expect(big.status).toBe(302);
+  });
+
+  it("cancels between runs, and keeps jobs private", async () => {
+    const { user, tankId, scenarioId, base } = await world();
+    const other = await userWithCookie();
+    const started = await call(
+      sweepAction,
+      post(
+        `${base}/sweep`,
+        { intent: "start", setting: "fish.feedGPerDay", from: "0.2", to: "2", points: "50", outcome: "nitrateEnd" },
+        user.cookie,
+      ),
+      { tankId, scenarioId },
+    );
+    const id = jobIdOf(started.location);
+    expect((await call(jobApi, get(`/api/jobs/${id}`, other.cookie), { jobId: id })).status).toBe(404);
+    expect(
+      (
+        await call(
+          jobApiAction,
+          new Request(`${ORIGIN}/api/jobs/${id}`, { method: "DELETE", headers: { Cookie: other.cookie } }),
+          { jobId: id },
+        )
+      ).status,
+    ).toBe(404);
+    const cancelled = await call(sweepAction, post(`${base}/sweep`, { intent: "cancel", jobId: id }, user.cookie), {
+      tankId,
+      scenarioId,
+    });
+    expect(cancelled.status).toBe(302);
+    const { job } = await poll(id, user.cookie);
+    expect(job.status).toBe("cancelled");
+    expect(job.done).toBeLessThan(50);
+    // someone else's page does not show it either
+    const otherTank = createTank(other.id);
+    const otherScenario = await createScenario(other.id, otherTank, { run: { lengthDays: 10 } });
+    const peek = await call(
+      sweepLoader,
+      get(`/tanks/${otherTank}/scenarios/${otherScenario}/sweep?job=${id}`, other.cookie),
+      {
+        tankId: String(otherTank),
+        scenarioId: String(otherScenario),
+      },
+    );
+    expect(peek.data.job).toBeNull();
+  });
+
+  it("runs through the JSON API, and on worker threads gives what the in-process runs give", async () => {
+    const { user, scenarioId } = await world();
+    const listed = await call(sweepsApi, get(`/api/scenarios/${scenarioId}/sweeps`, user.cookie), { scenarioId });
+    expect(listed.data.settings.map((s: { id: string }) => s.id)).toContain("maintenance.waterChangeFraction");
+    const bad = await call(
+      sweepsApiAction,
+      postJson(`/api/scenarios/${scenarioId}/sweeps`, { setting: "maintenance.waterChangeFraction" }, user.cookie),
+      { scenarioId },
+    );
+    expect(bad.status).toBe(400);
+    expect(bad.data.issues.map((i: { path: string }) => i.path)).toEqual(
+      expect.arrayContaining(["from", "to", "points"]),
+    );
+    const body = { setting: "maintenance.waterChangeFraction", from: 10, to: 50, points: 5, outcome: "nitrateEnd" };
+    const started = await call(sweepsApiAction, postJson(`/api/scenarios/${scenarioId}/sweeps`, body, user.cookie), {
+      scenarioId,
+    });
+    expect(started.status).toBe(202);
+    const inline = (await poll(started.data.job.id, user.cookie)).job.result as { points: { y: number }[] };
+
+    const previous = setEnginePool(createEnginePool({ workerUrl: sourceWorkerUrl(), size: 2 }));
+    try {
+      expect(getEnginePool().mode).toBe("threads");
+      const threaded = await call(sweepsApiAction, postJson(`/api/scenarios/${scenarioId}/sweeps`, body, user.cookie), {
+        scenarioId,
+      });
+      const { job } = await poll(threaded.data.job.id, user.cookie);
+      expect(job.status).toBe("done");
+      expect((job.result as { points: { y: number }[] }).points.map((p) => p.y)).toEqual(inline.points.map((p) => p.y));
+    } finally {
+      await getEnginePool().close();
+      setEnginePool(previous!);
+    }
+  }, 60_000);
+});
+
+describe("calibration", () => {
+  /** Readings made by the engine with feed load ×1.25 (our own worked example), stored against the scenario's start date. */
+  async function calibrationWorld() {
+    const w = await world();
+    const start = Date.UTC(2026, 0, 1);
+    getDb()
+      .update(scenarios)
+      .set({ startDate: new Date(start) })
+      .where(eq(scenarios.id, Number(w.scenarioId)))
+      .run();
+    const scenario = ScenarioSchema.parse({ ...PLANTED, multipliers: { feedLoad: 1.25 } });
+    const days = Array.from({ length: 15 }, (_v, i) => 2 + 4 * i);
+    const r = runEngineTask({ kind: "sample", scenario, days, limits: {} });
+    if (r.kind !== "sample" || !r.samples) throw new Error("no samples");
+    getDb()
+      .insert(readings)
+      .values(
+        days.map((d, i) => ({
+          tankId: Number(w.tankId),
+          takenAt: new Date(start + d * DAY),
+          nitrate: r.samples!.no3[i],
+          tan: r.samples!.tan[i],
+        })),
+      )
+      .run();
+    return w;
+  }
+
+  it("fits the feed load to the readings, shows the fit, and saves it as a new scenario on the same dates", async () => {
+    const { user, tankId, scenarioId, base } = await calibrationWorld();
+    const page = await call(calibrateLoader, get(`${base}/calibrate`, user.cookie), { tankId, scenarioId });
+    expect(page.data).toMatchObject({ inRun: 15, total: 15, startDate: "2026-01-01", hasPlants: true });
+    const started = await call(
+      calibrateAction,
+      post(`${base}/calibrate`, { intent: "start", fit: "feedLoad" }, user.cookie),
+      { tankId, scenarioId },
+    );
+    expect(started.status).toBe(302);
+    const { job } = await poll(jobIdOf(started.location), user.cookie);
+    expect(job.status).toBe("done");
+    const result = job.result as {
+      multipliers: { key: string; value: number; fitted: boolean }[];
+      rmse: { species: string; before: number; after: number }[];
+      residuals: unknown[];
+    };
+    const feed = result.multipliers.find((m) => m.key === "feedLoad")!;
+    expect(feed.fitted).toBe(true);
+    expect(Math.abs(feed.value / 1.25 - 1)).toBeLessThan(0.01);
+    expect(result.multipliers.find((m) => m.key === "plantUptake")!.fitted).toBe(false);
+    const no3 = result.rmse.find((r) => r.species === "no3")!;
+    expect(no3.after).toBeLessThan(no3.before / 10);
+    expect(result.residuals).toHaveLength(30);
+
+    const saved = await call(
+      calibrateAction,
+      post(
+        `${base}/calibrate`,
+        { intent: "save", name: "Calibrated", feedLoad: String(feed.value), plantUptake: "1", nitrifierCapacity: "1" },
+        user.cookie,
+      ),
+      { tankId, scenarioId },
+    );
+    expect(saved.status).toBe(302);
+    const newId = saved.location!.split("/").pop()!;
+    const row = getDb()
+      .select()
+      .from(scenarios)
+      .where(eq(scenarios.id, Number(newId)))
+      .get()!;
+    expect(readStoredSettings(row.settings)!.multipliers.feedLoad).toBeCloseTo(feed.value, 6);
+    expect(row.startDate?.getTime()).toBe(Date.UTC(2026, 0, 1));
+    expect(row.copiedFromId).toBe(Number(scenarioId));
+    const chart = await call(resultsLoader, get(`/tanks/${tankId}/scenarios/${newId}`, user.cookie), {
+      tankId,
+      scenarioId: newId,
+    });
+    expect(chart.data.readings).toHaveLength(15);
+
+    const outOfBounds = await call(
+      calibrateAction,
+      post(
+        `${base}/calibrate`,
+        { intent: "save", name: "x", feedLoad: "11", plantUptake: "1", nitrifierCapacity: "1" },
+        user.cookie,
+      ),
+      { tankId, scenarioId },
+    );
+    expect(outOfBounds.status).toBe(400);
+    expect(outOfBounds.data.errors.feedLoad).toMatch(/between 0.1 and 10/);
+  });
+
+  it("refuses to start without a multiplier, and fails plainly when no reading falls within the run", async () => {
+    const { user, tankId, scenarioId, base } = await world();
+    const none = await call(calibrateAction, post(`${base}/calibrate`, { intent: "start" }, user.cookie), {
+      tankId,
+      scenarioId,
+    });
+    expect(none.status).toBe(400);
+    expect(none.data.errors.fit).toMatch(/at least one/);
+    const started = await call(
+      calibrationsApi,
+      postJson(`/api/scenarios/${scenarioId}/calibrations`, { fit: ["feedLoad"] }, user.cookie),
+      { scenarioId },
+    );
+    expect(started.status).toBe(202);
+    const { job } = await poll(started.data.job.id, user.cookie);
+    expect(job.status).toBe("failed");
+    expect(job.error).toMatch(/No readings of TAN, nitrite or nitrate fall within this scenario's run/);
+  });
+});
+
+describe("target finder", () => {
+  it("finds the share of water to change for a nitrate goal and saves it as a new scenario", async () => {
+    const { user, tankId, scenarioId, base } = await world("keeper", { ...PLANTED, run: { lengthDays: 120 } });
+    const started = await call(
+      targetAction,
+      post(
+        `${base}/target`,
+        {
+          intent: "start",
+          nitrateMax: "30",
+          nh3Max: "",
+          lever: "waterChangeFraction",
+          intervalDays: "7",
+          fractionPercent: "nonsense ignored",
+        },
+        user.cookie,
+      ),
+      { tankId, scenarioId },
+    );
+    expect(started.status).toBe(302);
+    const { job } = await poll(jobIdOf(started.location), user.cookie);
+    const result = job.result as {
+      status: string;
+      headline: string;
+      save: { lever: string; value: number; intervalDays: number };
+    };
+    expect(result.status).toBe("met");
+    expect(result.headline).toMatch(/^Change \d+(\.\d+)? % of the water every 7 days\.$/);
+    // more than the 25 % it changes now, and the least that does it: a little less misses the goal
+    expect(result.save.value).toBeGreaterThan(0.25);
+    const saved = await call(
+      targetAction,
+      post(
+        `${base}/target`,
+        {
+          intent: "save",
+          name: "Meets the goal",
+          lever: "waterChangeFraction",
+          value: String(result.save.value),
+          intervalDays: "7",
+        },
+        user.cookie,
+      ),
+      { tankId, scenarioId },
+    );
+    expect(saved.status).toBe(302);
+    const row = getDb()
+      .select()
+      .from(scenarios)
+      .where(eq(scenarios.id, Number(saved.location!.split("/").pop())))
+      .get()!;
+    const settings = readStoredSettings(row.settings)!;
+    expect(settings.maintenance.waterChangeFraction).toBeCloseTo(result.save.value, 9);
+    const check = (f: number) =>
+      runEngineTask({
+        kind: "goal",
+        scenario: settings,
+        changes: [{ path: ["maintenance", "waterChangeFraction"], value: f }],
+        limits: {},
+      });
+    const NO3_MG_N = 30 * 0.2259; // 30 mg/L as NO3 in mg N/L (references.md units trap)
+    const at = check(result.save.value);
+    const less = check(result.save.value - 0.002);
+    expect(at.kind === "goal" && at.figures!.inorganicNBeforeChange).toBeLessThanOrEqual(NO3_MG_N * 1.001);
+    expect(less.kind === "goal" && less.figures!.inorganicNBeforeChange).toBeGreaterThan(NO3_MG_N * 0.999);
+    const noGoal = await call(
+      targetsApi,
+      postJson(`/api/scenarios/${scenarioId}/targets`, { nitrateMax: null, nh3Max: null, lever: "feed" }, user.cookie),
+      { scenarioId },
+    );
+    expect(noGoal.status).toBe(400);
+    expect(noGoal.data.issues[0].message).toMatch(/Give a nitrate goal, a free ammonia goal, or both/);
+  });
+});
+
+describe("the job registry", () => {
+  it("refuses new jobs when the server is full, with a 503 message", () => {
+    const never = () => new Promise<never>(() => {});
+    const size = getEnginePool().size;
+    for (let i = 0; i < 4 * size; i++)
+      startJob({ user: { id: 10_000 + i }, kind: "sweep", label: "x", total: 1 }, never);
+    expect(() => startJob({ user: { id: 20_000 }, kind: "sweep", label: "x", total: 1 }, never)).toThrow(/busy/);
+  });
+
+  it("labels a sweep with the person's units", () => {
+    const units = displayUnitsFor({ ...DEFAULT_PREFERENCES, volumeUnit: "usgal" });
+    const s = ScenarioSchema.parse(PLANTED);
+    const lever = sweepLevers(s, units).find((l) => l.id === "maintenance.dripLPerDay")!;
+    expect(lever.unit).toBe("US gal/day");
+    const job = startSweep(
+      { id: 30_000 },
+      1,
+      s,
+      { setting: "maintenance.dripLPerDay", from: 0, to: 2, points: 2, outcome: "nitrateEnd" },
+      units,
+    );
+    expect(job.label).toBe("Continuous drip from 0 to 2 US gal/day, 2 points");
+  });
+});
