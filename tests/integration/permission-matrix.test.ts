@@ -96,6 +96,20 @@ const PERMISSION_MATRIX: Row[] = [
   { file: "routes/scenarios/results.tsx", handler: "loader", path: "/tanks/:copyTankId/scenarios/:copyScenarioId", expect: PAGE_PRIVATE },
   { file: "routes/scenarios/edit.tsx", handler: "loader", path: "/tanks/:copyTankId/scenarios/:copyScenarioId/edit", expect: ["sign-in", 302, 404, 404, 404] },
 
+  // Readings, calibration, sweeps and the target finder: private to the tank's owner
+  { file: "routes/readings/list.tsx", handler: "loader", path: `${TANK}/readings`, expect: PAGE_PRIVATE },
+  { file: "routes/readings/list.tsx", handler: "action", path: `${TANK}/readings`, form: NOTHING, expect: ACTION_PRIVATE },
+  { file: "routes/readings/upload.tsx", handler: "loader", path: `${TANK}/readings/upload`, expect: PAGE_PRIVATE },
+  { file: "routes/readings/upload.tsx", handler: "action", path: `${TANK}/readings/upload`, form: {}, expect: ACTION_PRIVATE },
+  { file: "routes/readings/export.ts", handler: "loader", path: `${TANK}/readings/export`, expect: PAGE_PRIVATE },
+  { file: "routes/readings/template.ts", handler: "loader", path: `${TANK}/readings/template`, expect: PAGE_PRIVATE },
+  { file: "routes/calibrate/calibrate.tsx", handler: "loader", path: `${SCENARIO}/calibrate`, expect: PAGE_PRIVATE },
+  { file: "routes/calibrate/calibrate.tsx", handler: "action", path: `${SCENARIO}/calibrate`, form: NOTHING, expect: ACTION_PRIVATE },
+  { file: "routes/sweeps/sweep.tsx", handler: "loader", path: `${SCENARIO}/sweep`, expect: PAGE_PRIVATE },
+  { file: "routes/sweeps/sweep.tsx", handler: "action", path: `${SCENARIO}/sweep`, form: NOTHING, expect: ACTION_PRIVATE },
+  { file: "routes/sweeps/target.tsx", handler: "loader", path: `${SCENARIO}/target`, expect: PAGE_PRIVATE },
+  { file: "routes/sweeps/target.tsx", handler: "action", path: `${SCENARIO}/target`, form: NOTHING, expect: ACTION_PRIVATE },
+
   // Share links
   { file: "routes/share/manage.tsx", handler: "loader", path: `${SCENARIO}/share`, expect: PAGE_PRIVATE },
   { file: "routes/share/manage.tsx", handler: "action", path: `${SCENARIO}/share`, form: NOTHING, expect: ACTION_PRIVATE },
@@ -145,6 +159,16 @@ const PERMISSION_MATRIX: Row[] = [
   { file: "routes/api/run.ts", handler: "loader", path: "/api/runs/:runId", expect: API_PRIVATE },
   { file: "routes/api/preview.ts", handler: "action", path: "/api/preview", json: { nope: 1 }, expect: [401, 400, 400, 400, 400] },
   { file: "routes/api/preview.ts", handler: "action", path: "/api/preview", json: { scenarioId: 0, whatIf: {} }, expect: [401, 400, 400, 400, 400] },
+
+  { file: "routes/api/tank-readings.ts", handler: "loader", path: "/api/tanks/:tankId/readings", expect: API_PRIVATE },
+  { file: "routes/api/scenario-sweeps.ts", handler: "loader", path: "/api/scenarios/:scenarioId/sweeps", expect: API_PRIVATE },
+  { file: "routes/api/scenario-sweeps.ts", handler: "action", path: "/api/scenarios/:scenarioId/sweeps", json: {}, expect: API_PRIVATE_ACTION },
+  { file: "routes/api/scenario-calibrations.ts", handler: "action", path: "/api/scenarios/:scenarioId/calibrations", json: {}, expect: API_PRIVATE_ACTION },
+  { file: "routes/api/scenario-targets.ts", handler: "action", path: "/api/scenarios/:scenarioId/targets", json: {}, expect: API_PRIVATE_ACTION },
+  // A job id nobody holds: each person sees only their own jobs (tests/integration/jobs.test.ts walks a real one).
+  { file: "routes/api/job.ts", handler: "loader", path: "/api/jobs/no-such-job", expect: [401, 404, 404, 404, 404] },
+  { file: "routes/api/job.ts", handler: "action", path: "/api/jobs/no-such-job", method: "DELETE", json: {}, expect: [401, 404, 404, 404, 404] },
+  { file: "routes/api/job.ts", handler: "action", path: "/api/jobs/no-such-job", json: {}, expect: [405, 405, 405, 405, 405] },
 
   // Anything else
   { file: "routes/not-found.tsx", handler: "loader", path: "/no/such/page", expect: [404, 404, 404, 404, 404] },
