@@ -434,13 +434,14 @@ function classTankOf(studentId: number, classId: number): TankRow | null {
 /**
  * The student's copy of a lesson, made on first use: the lesson's frozen settings, run, stored
  * as their own scenario in their class tank (made if needed) with its lesson_copies row.
- * Throws the API's JSON 422 Response if the engine cannot run the lesson's settings.
+ * Null if the lesson's settings no longer read. Throws the API's JSON 422 Response if the engine
+ * cannot run them.
  */
-export async function startCopy(student: SessionUser, cls: ClassRow, lesson: LessonRow): Promise<LessonCopyRow> {
+export async function startCopy(student: SessionUser, cls: ClassRow, lesson: LessonRow): Promise<LessonCopyRow | null> {
   const existing = findCopy(lesson.id, student.id);
   if (existing) return existing;
   const settings = readStoredSettings(lesson.settings);
-  if (!settings) throw new Error(`lesson ${lesson.id} has unreadable settings`);
+  if (!settings) return null;
   const tank = classTankOf(student.id, cls.id);
   await copyScenarioInto(
     student.id,

@@ -357,6 +357,19 @@ describe("lessons", () => {
     expect(start.status).toBe(404);
   });
 
+  it("answers a lesson whose stored settings no longer read with a message, not a 500", async () => {
+    const { teacher, student, classId } = await classWithStudent();
+    const { lessonId } = await lessonFor(teacher, classId);
+    getDb().update(lessons).set({ settings: { schemaVersion: 999, water: "?" } }).where(eq(lessons.id, Number(lessonId))).run();
+    const params = { classId, lessonId };
+    const start = await call(lessonAction, post(`/classes/${classId}/lessons/${lessonId}`, { intent: "start" }, student.cookie), params);
+    expect(start.status).toBe(400);
+    expect(start.data.errors[""]).toMatch(/can no longer be read/);
+    const shown = await call(presentLoader, get(`/classes/${classId}/lessons/${lessonId}/present`, teacher.cookie), params);
+    expect(shown.status).toBe(200);
+    expect(shown.data.error).toMatch(/can no longer be read/);
+  });
+
   it("presents the lesson with its run to the educator only", async () => {
     const { teacher, student, classId, lessonId, params } = await startedCopy();
     const path = `/classes/${classId}/lessons/${lessonId}/present`;

@@ -53,7 +53,8 @@ export async function action({ request, params }: Route.ActionArgs) {
   if (values.intent !== "start") return invalid({ "": "Unknown action." }, values);
   if (as !== "student") return invalid({ "": "Only students of the class start a copy of the lesson." }, values);
   try {
-    await startCopy(user, cls, lesson);
+    const copy = await startCopy(user, cls, lesson);
+    if (!copy) return invalid({ "": "The lesson’s settings can no longer be read. Ask your teacher to hand it out again." }, values);
   } catch (error) {
     const message = await refusedRunMessage(error);
     if (message) return invalid({ "": message }, values);
