@@ -8,6 +8,7 @@ import { hashPassword } from "~/auth.server";
 import { hashToken } from "~/utils/crypto.server";
 import type { Db } from "./client.server";
 import { classes, classMembers, lessons, scenarios, shareLinks, tanks, users } from "./schema";
+import { seedDemoReadings } from "./seed-readings.server";
 import { seedDemoScenarios } from "./seed-scenarios.server";
 
 export const DEMO_PASSWORD = "tidewell-demo-2026";
@@ -48,6 +49,7 @@ export async function seedDemoData(db: Db): Promise<void> {
       teacher: tx.insert(tanks).values({ ownerId: ids.get("teacher@tidewell.example")!, name: "Classroom demo tank", notes: "Prepared scenarios for lessons." }).returning({ id: tanks.id }).get().id,
     };
     seedDemoScenarios(tx, tankIds);
+    seedDemoReadings(tx, tankIds.jonah);
     const cls = tx
       .insert(classes)
       .values({ educatorId: ids.get("teacher@tidewell.example")!, name: "Year 9 Biology: the nitrogen cycle", joinCode: "TIDE-NINE" })
