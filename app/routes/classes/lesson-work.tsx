@@ -1,5 +1,5 @@
 import { useMemo } from "react";
-import { Form, Link, redirect, useNavigation } from "react-router";
+import { Form, Link, redirect, useNavigation, useSearchParams } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/lesson-work";
 import { ReadOnlyResults } from "~/components/read-only-results";
@@ -111,6 +111,7 @@ export async function action({ request, params }: Route.ActionArgs) {
 export default function LessonWorkPage({ loaderData, actionData }: Route.ComponentProps) {
   const { cls, lesson, scenario, view, handedIn, locked, plantGroupsFree, openSections, unitsNote } = loaderData;
   const busy = useNavigation().state === "submitting";
+  const [params] = useSearchParams();
   const lockedSet = useMemo(() => new Set(locked), [locked]);
   const setupData = actionData && "form" in actionData ? actionData : null;
   const failure = actionData && "values" in actionData ? actionData : null;
@@ -139,6 +140,11 @@ export default function LessonWorkPage({ loaderData, actionData }: Route.Compone
         <p className="whitespace-pre-line">{lesson.question}</p>
       </section>
       {failure?.errors[""] ? <FormMessage>{failure.errors[""]}</FormMessage> : null}
+      {params.get("saved") === "1" && !actionData && !handedIn ? (
+        <FormMessage tone="success">
+          Saved and run. <a href="#results" className="link">See your results</a>
+        </FormMessage>
+      ) : null}
       {handedIn ? (
         <FormMessage tone="success">
           Handed in {handedIn.at}. Your answer: “{handedIn.answer}”
