@@ -21,10 +21,10 @@ import { listScenarios, requireOwnedTank } from "~/tanks.server";
 import { displayUnitsFor, formatNumber } from "~/utils/display-units";
 import { formValues } from "~/utils/form-errors";
 import { invalid, readForm } from "~/utils/http.server";
+import { listHref } from "./list-href";
 import {
   clashMessage,
   displayRow,
-  listHref,
   parseReadingForm,
   readListQuery,
   takenAtClash,

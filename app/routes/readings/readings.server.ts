@@ -35,18 +35,6 @@ export function readListQuery(url: URL): ListQuery {
   return ListQuerySchema.parse(Object.fromEntries(url.searchParams));
 }
 
-/** The page's URL with some query values changed. */
-export function listHref(tankId: number, q: Partial<ListQuery> & { saved?: string }): string {
-  const p = new URLSearchParams();
-  if (q.sort && q.sort !== "takenAt") p.set("sort", q.sort);
-  if (q.dir && q.dir !== "desc") p.set("dir", q.dir);
-  if (q.page && q.page > 1) p.set("page", String(q.page));
-  if (q.edit) p.set("edit", String(q.edit));
-  if (q.saved) p.set("saved", q.saved);
-  const s = p.toString();
-  return `/tanks/${tankId}/readings${s ? `?${s}` : ""}`;
-}
-
 const FormSchema = z.object({
   takenAt: z
     .string({ error: "Give the date and time of the test." })

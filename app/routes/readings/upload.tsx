@@ -50,7 +50,11 @@ const UnitsSchema = z.object({
 export async function loader({ request, params }: Route.LoaderArgs) {
   const user = await requireUser(request);
   const tank = requireOwnedTank(user.id, params.tankId);
-  return { tank: { id: tank.id, name: tank.name }, units: measureUnitsFor(displayUnitsFor(user)) };
+  return {
+    tank: { id: tank.id, name: tank.name },
+    units: measureUnitsFor(displayUnitsFor(user)),
+    maxRows: MAX_CSV_ROWS,
+  };
 }
 
 type UploadAnswer = {
@@ -124,7 +128,7 @@ function ProblemList({ title, items, more }: { title: string; items: CsvProblem[
 }
 
 export default function UploadReadingsPage({ loaderData, actionData }: Route.ComponentProps) {
-  const { tank, units } = loaderData;
+  const { tank, units, maxRows } = loaderData;
   const busy = useNavigation().state === "submitting";
   return (
     <div className="mx-auto max-w-3xl space-y-5">
@@ -145,7 +149,7 @@ export default function UploadReadingsPage({ loaderData, actionData }: Route.Com
       <h1 className="text-2xl">Upload readings</h1>
       <div className="space-y-2 text-sm text-stone-700">
         <p>
-          A CSV file with a header row, at most 1 MB and {MAX_CSV_ROWS.toLocaleString("en")} rows. Name a{" "}
+          A CSV file with a header row, at most 1 MB and {maxRows.toLocaleString("en")} rows. Name a{" "}
           <code>datetime</code> column (like <code>2026-03-01T08:30</code>) or <code>date</code> and <code>time</code>{" "}
           columns, then any of <code>tan</code>, <code>nitrite</code>, <code>nitrate</code>, <code>ph</code>,{" "}
           <code>kh</code>, <code>temperature</code> and <code>note</code>. Put the unit in the name —{" "}

@@ -17,13 +17,12 @@ import {
   applyLever,
   searchLever,
   startTargetSearch,
-  TARGET_LEVER_LABELS,
-  TARGET_LEVERS,
   TargetInputSchema,
   type TargetResultJson,
 } from "~/target-finder.server";
 import { requireOwnedScenario } from "~/tanks.server";
 import { displayUnitsFor, formatNumber, unitLabels } from "~/utils/display-units";
+import { TARGET_LEVER_LABELS, TARGET_LEVERS } from "~/utils/target-levers";
 import { fieldErrors, formValues, type FormFailure } from "~/utils/form-errors";
 import { invalid, readForm } from "~/utils/http.server";
 
