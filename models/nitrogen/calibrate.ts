@@ -43,11 +43,12 @@ export const SPECIES = ["tan", "no2", "no3"] as const;
 export type Species = (typeof SPECIES)[number];
 
 /**
- * Smallest residual scale per species, mg N/L: roughly one step of a hobby test kit
- * (ammonia 0.1 mg N/L ≈ 0.12 mg/L NH3, nitrite 0.03 mg N/L ≈ 0.1 mg/L NO2, nitrate
- * 1.13 mg N/L = 5 mg/L NO3). Common practice, no source.
+ * Smallest residual scale per species, mg N/L: one step of a hobby drop-test kit's colour card
+ * (ammonia 0.2 mg N/L ≈ 0.25 mg/L NH3, nitrite 0.075 mg N/L ≈ 0.25 mg/L NO2, nitrate
+ * 1.13 mg N/L = 5 mg/L NO3): a miss smaller than a step is within what the kit can tell.
+ * Common practice, no source.
  */
-export const KIT_RESOLUTION_MG_N: Record<Species, number> = { tan: 0.1, no2: 0.03, no3: 1.13 };
+export const KIT_RESOLUTION_MG_N: Record<Species, number> = { tan: 0.2, no2: 0.075, no3: 1.13 };
 
 /** A test reading on a model day, mg N/L; absent or null = not measured. */
 export type CalibrationReading = { day: number; tan?: number | null; no2?: number | null; no3?: number | null };

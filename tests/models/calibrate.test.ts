@@ -86,13 +86,13 @@ describe("bounded Levenberg–Marquardt", () => {
 
 describe("calibration of the model's multipliers", () => {
   it("weighs each species on its own scale, never below a test kit's resolution", () => {
-    // common practice, no source: kit steps of about 0.1 mg N/L ammonia, 0.03 nitrite, 1.13 nitrate
+    // common practice, no source: kit steps of about 0.2 mg N/L ammonia, 0.075 nitrite, 1.13 nitrate
     const s = residualScales([
       { day: 1, tan: 0, no3: 4 },
       { day: 2, tan: 0, no3: 3 },
     ]);
-    expect(s.tan).toBe(0.1);
-    expect(s.no2).toBe(0.03);
+    expect(s.tan).toBe(0.2);
+    expect(s.no2).toBe(0.075);
     expect(s.no3).toBeCloseTo(Math.sqrt((16 + 9) / 2), 12);
   });
 
