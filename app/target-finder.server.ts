@@ -16,17 +16,9 @@ import { speciesFactor } from "~/display-units.server";
 import { startJob, type JobContext } from "~/jobs.server";
 import { JOB_RUN_LIMITS, plantMassLever } from "~/sweeps.server";
 import { unitLabels, formatNumber, type DisplayUnits } from "~/utils/display-units";
+import { TARGET_LEVER_LABELS, TARGET_LEVERS, type TargetLeverId } from "~/utils/target-levers";
 
-export const TARGET_LEVERS = ["waterChangeFraction", "waterChangeInterval", "plantMass", "feed", "roShare"] as const;
-export type TargetLeverId = (typeof TARGET_LEVERS)[number];
-
-export const TARGET_LEVER_LABELS: Record<TargetLeverId, string> = {
-  waterChangeFraction: "Share of water changed (at a given interval)",
-  waterChangeInterval: "Days between water changes (at a given share)",
-  plantMass: "Plant mass",
-  feed: "Food per day",
-  roShare: "Reverse-osmosis share of the change water",
-};
+export { TARGET_LEVER_LABELS, TARGET_LEVERS, type TargetLeverId };
 
 /** Goal in canonical units (mg N/L); null = no goal for that species. */
 export type Goal = { nitrateMax: number | null; nh3Max: number | null };
@@ -63,7 +55,11 @@ export type SearchOutcome =
   | { status: "failed"; message: string; runs: number };
 
 const path = (...p: (string | number)[]) => p;
+const everyDays = (n: number) => (n === 1 ? "every day" : `every ${formatNumber(n)} days`);
 const pct = (f: number) => `${formatNumber(f * 100, 3)} %`;
+
+const RO_KH_NOTE =
+  "Reverse-osmosis water carries almost no KH: used on its own it lets KH fall until the filter stalls and ammonia climbs (remineralise it, or mix it with tap water).";
 
 /** Nitrate entering with the change water, mg N/L (tap blended with RO). */
 export function changeWaterNitrate(s: Scenario): number {
@@ -98,8 +94,8 @@ export function searchLever(
           { path: path("maintenance", "waterChangeFraction"), value: v },
           { path: path("maintenance", "waterChangeIntervalDays"), value: interval },
         ],
-        show: (v) => `${pct(v)} every ${formatNumber(interval)} days`,
-        advice: (v) => `Change ${pct(v)} of the water every ${formatNumber(interval)} days.`,
+        show: (v) => `${pct(v)} ${everyDays(interval)}`,
+        advice: (v) => `Change ${pct(v)} of the water ${everyDays(interval)}.`,
       };
     case "waterChangeInterval": {
       const longest = Math.max(2, Math.min(60, Math.floor(scenario.run.lengthDays / 3)));
@@ -116,8 +112,8 @@ export function searchLever(
           { path: path("maintenance", "waterChangeIntervalDays"), value: v },
           { path: path("maintenance", "waterChangeFraction"), value: fraction },
         ],
-        show: (v) => `${pct(fraction)} every ${formatNumber(v)} days`,
-        advice: (v) => `Change ${pct(fraction)} of the water at least every ${formatNumber(v)} days.`,
+        show: (v) => `${pct(fraction)} ${everyDays(v)}`,
+        advice: (v) => `Change ${pct(fraction)} of the water at least ${everyDays(v)}.`,
       };
     }
     case "plantMass": {
@@ -187,18 +183,25 @@ export function judge(value: number, figures: GoalFigures | null, error: string 
   return { value, nitrate, nh3, meets, error: null };
 }
 
-/** Runs of a search at most (the bracket halves each run). */
+/** Points of the first scan from the least change to the most (see findLeastChange). */
+export const SCAN_STEPS = 8;
+
+/** Runs of a search at most: the scan, then halving the bracket it found. */
 export function searchRuns(lever: SearchLever): number {
   const width =
     lever.scale === "log"
       ? Math.log(lever.hi / lever.lo) / Math.log(lever.tolerance)
       : (lever.hi - lever.lo) / lever.tolerance;
-  return 2 + Math.ceil(Math.log2(Math.max(2, width)));
+  return 1 + SCAN_STEPS + Math.ceil(Math.log2(Math.max(2, width / SCAN_STEPS)));
 }
 
 /**
- * Bisection for the least change that meets the goal. `evaluate` runs the engine at a value of
- * the lever. Monotone levers only (see the file comment).
+ * The least change that meets the goal: the least change itself first, then a scan of
+ * SCAN_STEPS points towards the most change, then bisection between the last point that
+ * misses and the first that meets. The scan keeps the search right where only part of the
+ * range works — much reverse-osmosis water lowers nitrate but takes the KH with it, and free
+ * ammonia climbs once the filter stalls — and bisection does the rest. `evaluate` runs the
+ * engine at a value of the lever.
  */
 export async function findLeastChange(
   lever: SearchLever,
@@ -211,15 +214,32 @@ export async function findLeastChange(
   };
   const most = lever.moreChange === "up" ? lever.hi : lever.lo;
   const least = lever.moreChange === "up" ? lever.lo : lever.hi;
-  const extreme = await run(most);
-  if (extreme.error) return { status: "failed", message: extreme.error, runs };
-  if (!extreme.meets) return { status: "infeasible", extreme, runs };
   const atLeast = await run(least);
+  if (atLeast.error) return { status: "failed", message: atLeast.error, runs };
   if (atLeast.meets) return { status: "met", value: least, at: atLeast, alreadyMet: true, runs };
-  // Invariant: `fails` misses the goal, `ok` meets it.
+  const scanPoint = (k: number) => {
+    const v =
+      lever.scale === "log" ? least * (most / least) ** (k / SCAN_STEPS) : least + ((most - least) * k) / SCAN_STEPS;
+    return lever.integer ? Math.round(v) : v;
+  };
+  // Invariant once found: `fails` misses the goal, `ok` meets it.
   let fails = least;
-  let ok = most;
-  let okAt = extreme;
+  let last = atLeast;
+  let found: { value: number; at: Evaluation } | null = null;
+  for (let k = 1; k <= SCAN_STEPS && !found; k++) {
+    const v = scanPoint(k);
+    if (v === fails) continue;
+    const at = await run(v);
+    if (at.error) return { status: "failed", message: at.error, runs };
+    if (at.meets) found = { value: v, at };
+    else {
+      fails = v;
+      last = at;
+    }
+  }
+  if (!found) return { status: "infeasible", extreme: last, runs };
+  let ok = found.value;
+  let okAt = found.at;
   const narrow = () =>
     lever.scale === "log"
       ? Math.max(fails, ok) / Math.min(fails, ok) <= lever.tolerance
@@ -419,6 +439,7 @@ export function startTargetSearch(
         details.push(
           "Free ammonia rises with pH and temperature; a filter that keeps up with the food, and less food, keep it down.",
         );
+        if (input.lever === "roShare") details.push(RO_KH_NOTE);
       }
       const others = TARGET_LEVERS.filter((id) => id !== input.lever);
       total =
@@ -440,7 +461,11 @@ export function startTargetSearch(
             alt.status === "met"
               ? lever.advice(alt.value)
               : alt.status === "infeasible"
-                ? `Not on its own: even with ${lever.show(alt.extreme.value)}, ${describeAt(alt.extreme)}.`
+                ? `Not on its own: even with ${lever.show(alt.extreme.value)}, ${describeAt(alt.extreme)}.${
+                    id === "roShare" && goal.nh3Max !== null && (alt.extreme.nh3 ?? 0) > goal.nh3Max
+                      ? ` ${RO_KH_NOTE}`
+                      : ""
+                  }`
                 : `The model could not run it: ${alt.message}`,
         });
       }

@@ -114,3 +114,25 @@ describe("the target finder", () => {
     expect(() => startJob({ user: { id: 4 }, kind: "target", label: "someone else", total: 1 }, never)).not.toThrow();
   });
 });
+
+describe("reverse-osmosis water", () => {
+  it("finds a share that meets both goals where all-RO water would starve the filter of KH", async () => {
+    const weekly = tank({ tapNitrate: 16 });
+    const s = { ...weekly, maintenance: { ...weekly.maintenance, waterChangeFraction: 0.5 } };
+    const lever = searchLever("roShare", s) as SearchLever;
+    // free NH3 0.02 mg/L as NH3 (common practice, no source) in mg N/L: × 0.82244 (references.md units trap)
+    const goal = { nitrateMax: 15.6, nh3Max: 0.02 * 0.82244 };
+    const evaluate = evaluator(s, lever, goal);
+    const all = await evaluate(1);
+    expect(all.meets).toBe(false);
+    expect(all.nh3!).toBeGreaterThan(goal.nh3Max);
+    const found = await findLeastChange(lever, evaluate);
+    expect(found.status).toBe("met");
+    const share = (found as { value: number }).value;
+    expect(share).toBeGreaterThan(0);
+    expect(share).toBeLessThan(1);
+    // references.md §10 (computed): C⁻ = C_in + Lτ/(Vf) ≤ 15.6 with C_in = 16 (1 − share), Lτ/(Vf) = 2.8 → share ≥ 0.2
+    expect(share).toBeGreaterThan(0.19);
+    expect(share).toBeLessThan(0.25);
+  });
+});
