@@ -167,7 +167,7 @@ export type SweepInput = z.infer<ReturnType<typeof sweepInputSchema>>;
 export type SweepPointJson = { x: number; y: number | null; error: string | null };
 
 export type SweepResultJson = {
-  setting: { id: string; label: string; unit: string; current: number };
+  setting: { id: string; label: string; unit: string; current: number; from: number; to: number };
   outcome: { id: string; label: string; unit: string };
   points: SweepPointJson[];
 };
@@ -207,7 +207,14 @@ export function startSweep(
   const { factor, unit } = outcomeDisplay(outcome.quantity, outcome.unit, units);
   const { x, canonical } = sweepValues(lever, input, units);
   const head: Omit<SweepResultJson, "points"> = {
-    setting: { id: lever.id, label: lever.label, unit: lever.unit, current: display(lever, lever.current, units) },
+    setting: {
+      id: lever.id,
+      label: lever.label,
+      unit: lever.unit,
+      current: display(lever, lever.current, units),
+      from: input.from,
+      to: input.to,
+    },
     outcome: { id: outcome.id, label: outcome.label, unit },
   };
   return startJob<SweepResultJson, SweepResultJson>(

@@ -7,7 +7,7 @@
  *
  * Props: `title`, `description` (for the SVG's <desc>), `xLabel`/`yLabel` (with units),
  * `series` (each a label, colour, points {x, y}; `line` joins them in x order; `shape` of the
- * markers), optional `marker` (a vertical line at x, e.g. "now"), `zeroLine`, `height` (px,
+ * markers), optional `marker` (a vertical line at x, e.g. "now"), `xRange`, `zeroLine`, `height` (px,
  * default 260), `table` (default true).
  */
 import { scaleLinear } from "d3-scale";
@@ -38,13 +38,23 @@ export type XYChartProps = {
   yLabel: string;
   series: readonly XYSeries[];
   marker?: { x: number; label: string };
+  /** Fixed x range (e.g. a sweep's from–to, so the axis stays put while points arrive). */
+  xRange?: [number, number];
   zeroLine?: boolean;
   height?: number;
   table?: boolean;
 };
 
-/** A domain covering `values` (and 0 when asked), made round; a flat set widens by ±1 (or ±10 %). */
-export function signedDomain(values: readonly number[], ticks: number, withZero: boolean): [number, number] {
+/**
+ * A domain covering `values` (and 0 when asked), made round; a flat set widens by ±1 (or ±10 %).
+ * `pad` adds 5 % headroom (values), none for the x axis (a sweep's range is exactly what was asked).
+ */
+export function signedDomain(
+  values: readonly number[],
+  ticks: number,
+  withZero: boolean,
+  pad = true,
+): [number, number] {
   const finite = values.filter(Number.isFinite);
   if (withZero) finite.push(0);
   if (finite.length === 0) return [0, 1];
@@ -54,10 +64,10 @@ export function signedDomain(values: readonly number[], ticks: number, withZero:
     const pad = lo === 0 ? 1 : Math.abs(lo) * 0.1;
     lo -= pad;
     hi += pad;
-  } else {
-    const pad = (hi - lo) * 0.05;
-    lo = lo < 0 || !withZero ? lo - pad : lo;
-    hi += pad;
+  } else if (pad) {
+    const room = (hi - lo) * 0.05;
+    lo = lo < 0 || !withZero ? lo - room : lo;
+    hi += room;
   }
   const d = scaleLinear().domain([lo, hi]).nice(ticks).domain();
   return [d[0], d[1]];
@@ -70,6 +80,7 @@ export function XYChart({
   yLabel,
   series,
   marker,
+  xRange,
   zeroLine = false,
   height = 260,
   table = true,
@@ -83,8 +94,9 @@ export function XYChart({
     const counts = tickCounts(box);
     const xs = series.flatMap((s) => s.points.map((p) => p.x));
     if (marker) xs.push(marker.x);
+    if (xRange) xs.push(...xRange);
     const ys = series.flatMap((s) => s.points.map((p) => p.y ?? NaN));
-    const [x0, x1] = signedDomain(xs, counts.x, false);
+    const [x0, x1] = signedDomain(xs, counts.x, false, false);
     const x = scaleLinear().domain([x0, x1]).range([0, box.innerWidth]);
     const y = scaleLinear()
       .domain(signedDomain(ys, counts.y, zeroLine))
@@ -178,7 +190,7 @@ export function XYChart({
         </g>
       </svg>
     );
-  }, [width, height, series, marker, zeroLine, title, description, xLabel, yLabel, id]);
+  }, [width, height, series, marker, xRange, zeroLine, title, description, xLabel, yLabel, id]);
 
   return (
     <figure className="space-y-2">

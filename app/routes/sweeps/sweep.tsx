@@ -205,6 +205,7 @@ export default function SweepPage({ loaderData, actionData }: Route.ComponentPro
               yLabel={`${result.outcome.label}${result.outcome.unit ? `, ${result.outcome.unit}` : ""}`}
               series={chart}
               marker={{ x: result.setting.current, label: `saved: ${formatNumber(result.setting.current)}` }}
+              xRange={[result.setting.from, result.setting.to]}
             />
           ) : null}
           {failed.length ? (
