@@ -56,7 +56,7 @@ export function CalibrationReport({
         </FormMessage>
       ) : null}
       <div className="overflow-x-auto">
-        <table className="w-full min-w-[30rem] text-sm">
+        <table className="w-full text-sm">
           <caption className="mb-1 text-left font-semibold">
             Fitted multipliers ({result.readingsUsed} readings, {result.residualCount} values)
           </caption>
@@ -107,7 +107,7 @@ export function CalibrationReport({
         </table>
       </div>
       <div className="overflow-x-auto">
-        <table className="w-full min-w-[24rem] text-sm">
+        <table className="w-full text-sm">
           <caption className="mb-1 text-left font-semibold">
             How far the model is from the readings (root mean square)
           </caption>

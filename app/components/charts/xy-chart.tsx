@@ -66,7 +66,8 @@ export function signedDomain(
     hi += pad;
   } else if (pad) {
     const room = (hi - lo) * 0.05;
-    lo = lo < 0 || !withZero ? lo - room : lo;
+    // Headroom below only for negative values or a floating axis, and never below zero for values that are not negative.
+    lo = lo < 0 ? lo - room : withZero ? lo : Math.max(0, lo - room);
     hi += room;
   }
   const d = scaleLinear().domain([lo, hi]).nice(ticks).domain();
