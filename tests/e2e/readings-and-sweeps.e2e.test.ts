@@ -1,0 +1,117 @@
+import fs from "node:fs";
+import { describe, expect, it } from "vitest";
+import { expectNoConsoleErrors, newPage, shot, uniqueEmail, useBrowser, type PageWithErrors } from "./support/browser";
+
+useBrowser();
+
+const DAY = 86_400_000;
+const isoDay = (daysAgo: number) => new Date(Math.floor(Date.now() / DAY) * DAY - daysAgo * DAY).toISOString().slice(0, 10);
+
+async function signUp(page: PageWithErrors, email: string) {
+  await page.goto("/sign-up");
+  await page.getByLabel("Name").fill("Readings Keeper");
+  await page.getByLabel("E-mail").fill(email);
+  await page.getByLabel("Password", { exact: true }).fill("readings and sweeps");
+  await page.getByLabel("Password again").fill("readings and sweeps");
+  await page.getByRole("button", { name: "Create account" }).click();
+  await page.waitForURL("**/tanks");
+}
+
+async function uploadCsv(page: PageWithErrors, tankUrl: string, text: string) {
+  await page.goto(`${tankUrl}/readings/upload`);
+  const file = `test-results/readings-upload-${Date.now()}.csv`;
+  fs.writeFileSync(file, text);
+  await page.setInputFiles("#readings-file", file);
+  await page.getByRole("button", { name: "Upload and check" }).click();
+  await page.waitForLoadState("networkidle");
+}
+
+describe("readings, calibration and sweeps in the browser", () => {
+  it("uploads the template (a bad row first), draws the readings, calibrates, and sweeps 20 points with progress", async () => {
+    const page = await newPage();
+    await signUp(page, uniqueEmail("readings"));
+    await page.getByLabel("Name").fill("Readings tank");
+    await page.getByRole("button", { name: "Add tank" }).click();
+    await page.waitForURL(/\/tanks\/\d+$/);
+    const tankUrl = new URL(page.url()).pathname;
+
+    // A scenario whose day 0 is ten days ago, so the template's example rows (7, 4 and 1 days ago) fall in its run.
+    await page.getByRole("link", { name: "New scenario" }).click();
+    await page.locator("#f-name").fill("Checked");
+    await page.locator("#section-run summary").click();
+    await page.locator("#f-run-lengthDays").fill("60");
+    await page.getByLabel("Run starts on").fill(isoDay(10));
+    await page.getByRole("button", { name: "Save and run" }).click();
+    await page.waitForURL(/\/scenarios\/\d+$/);
+    const scenarioUrl = new URL(page.url()).pathname;
+
+    // The template, in this keeper's units, with a bad row added.
+    await page.goto(`${tankUrl}/readings`);
+    const download = page.waitForEvent("download");
+    await page.getByRole("link", { name: "Download the template" }).click();
+    const template = fs.readFileSync((await (await download).path())!, "utf8");
+    const lines = template.replace(/^\uFEFF/, "").trimEnd().split("\r\n");
+    expect(lines[0]).toBe("datetime,tan_nh3_mg_l,nitrite_no2_mg_l,nitrate_no3_mg_l,ph,kh_dkh,temperature_c,note");
+    expect(lines).toHaveLength(4);
+    const extra = `${isoDay(2)}T19:00,0,0,twenty,7.2,5,25,evening`;
+    await uploadCsv(page, tankUrl, [...lines, extra].join("\r\n"));
+    await expect(page.getByText("Nothing was stored: one row needs attention.").isVisible()).resolves.toBe(true);
+    await expect(page.getByText(/Line 5/).isVisible()).resolves.toBe(true);
+    await expect(page.getByText(/Nitrate must be a number.*“twenty”/).isVisible()).resolves.toBe(true);
+    await shot(page, "readings-upload-refused");
+    await page.goto(`${tankUrl}/readings`);
+    await expect(page.getByRole("heading", { name: "No readings yet" }).isVisible()).resolves.toBe(true);
+
+    await uploadCsv(page, tankUrl, [...lines, extra.replace("twenty", "20")].join("\r\n"));
+    await expect(page.getByText("Stored 4 readings.").isVisible()).resolves.toBe(true);
+    await page.goto(`${tankUrl}/readings`);
+    await expect(page.getByRole("heading", { name: "4 readings" }).isVisible()).resolves.toBe(true);
+    await shot(page, "readings-table");
+
+    // The points on the results chart, with the residual at the cursor.
+    await page.goto(scenarioUrl);
+    await page.getByRole("application").waitFor();
+    await expect(page.getByText("4 test readings are drawn as points over the curves.").isVisible()).resolves.toBe(true);
+    const points = page.locator("svg title").filter({ hasText: /NO3 reading, day \d/ });
+    await expect(points.count()).resolves.toBe(4);
+    await shot(page, "readings-on-chart");
+
+    // Calibrate the feed load against them.
+    await page.getByRole("link", { name: "Calibrate against them" }).click();
+    await page.waitForURL(/\/calibrate$/);
+    await expect(page.getByText(/4\s+of the tank’s 4 readings fall within it/).isVisible()).resolves.toBe(true);
+    await page.getByLabel(/Plant uptake/).uncheck();
+    await page.getByLabel(/Filter capacity/).uncheck();
+    await page.getByRole("button", { name: "Fit to 4 readings" }).click();
+    await page.getByRole("heading", { name: "The fit" }).waitFor({ timeout: 30_000 });
+    const fitted = page.locator('tr[data-multiplier="feedLoad"] td').nth(1);
+    await expect(fitted.textContent()).resolves.toMatch(/^×\d+(\.\d+)?/);
+    await expect(page.getByRole("button", { name: "Save the fitted multipliers as a new scenario" }).isVisible()).resolves.toBe(true);
+    await shot(page, "calibration-fit");
+
+    // A 20-point sweep: the bar starts, moves, and the plot follows.
+    await page.goto(`${scenarioUrl}/sweep`);
+    await page.getByLabel("Setting to vary").selectOption("fish.feedGPerDay");
+    await page.getByLabel("From", { exact: true }).fill("0.2");
+    await page.getByLabel("To", { exact: true }).fill("2");
+    await page.getByLabel("Points").fill("20");
+    await page.getByRole("button", { name: "Run the sweep" }).click();
+    await page.waitForURL(/sweep\?job=/);
+    const bar = page.locator("progress");
+    await bar.waitFor();
+    await expect(bar.getAttribute("max")).resolves.toBe("20");
+    await page.getByText("Done: 20 of 20 engine runs").waitFor({ timeout: 30_000 });
+    await expect(bar.getAttribute("value")).resolves.toBe("20");
+    const plot = page.locator("svg").filter({ has: page.locator("title", { hasText: "against food per day" }) });
+    await expect(plot.locator("circle").count()).resolves.toBe(20);
+    await shot(page, "sweep-20-points");
+
+    const phone = await newPage({ width: 375 });
+    await phone.context().addCookies(await page.context().cookies());
+    await phone.goto(page.url());
+    await phone.getByText("Done: 20 of 20 engine runs").waitFor();
+    await shot(phone, "sweep-20-points-phone");
+    expectNoConsoleErrors(page);
+    expectNoConsoleErrors(phone);
+  });
+});
