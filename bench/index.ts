@@ -8,6 +8,7 @@ const benches: { name: string; load: () => Promise<{ run: () => unknown }> }[] =
   { name: "engine", load: () => import("./engine") },
   { name: "results page", load: () => import("./results-page") },
   { name: "share page", load: () => import("./share-page") },
+  { name: "readings, calibration and sweeps", load: () => import("./readings-and-sweeps") },
 ];
 
 for (const bench of benches) {
