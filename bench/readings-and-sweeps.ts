@@ -166,7 +166,7 @@ export async function run() {
 
     // 3. A page request's p95, alone and while sweeps run back to back.
     const page = { url: `${base}/tanks`, headers, connections: 10, duration: 6 };
-    await load({ ...page, duration: 2 });
+    await load({ ...page, duration: 5 }); // warm-up: JIT and caches, so "alone" is not the cold run
     const alone = await load(page);
     let sweepsDone = 0;
     let stop = false;
