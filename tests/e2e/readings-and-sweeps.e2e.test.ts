@@ -1,4 +1,6 @@
 import fs from "node:fs";
+import os from "node:os";
+import path from "node:path";
 import { describe, expect, it } from "vitest";
 import { expectNoConsoleErrors, newPage, shot, uniqueEmail, useBrowser, type PageWithErrors } from "./support/browser";
 
@@ -19,11 +21,12 @@ async function signUp(page: PageWithErrors, email: string) {
 
 async function uploadCsv(page: PageWithErrors, tankUrl: string, text: string) {
   await page.goto(`${tankUrl}/readings/upload`);
-  const file = `test-results/readings-upload-${Date.now()}.csv`;
+  const file = path.join(fs.mkdtempSync(path.join(os.tmpdir(), "fernwater-upload-")), "readings.csv");
   fs.writeFileSync(file, text);
   await page.setInputFiles("#readings-file", file);
   await page.getByRole("button", { name: "Upload and check" }).click();
   await page.waitForLoadState("networkidle");
+  fs.rmSync(path.dirname(file), { recursive: true, force: true });
 }
 
 describe("readings, calibration and sweeps in the browser", () => {
