@@ -5,8 +5,11 @@
  * so a worker does not open the database or pull in the web app.
  */
 import {
+  isModelError,
   ScenarioSchema,
   simulate,
+  type ModelErrorCode,
+  type SimulationResult,
   sweep,
   setScenarioValue,
   type Scenario,
@@ -21,6 +24,12 @@ export type SettingPath = readonly (string | number)[];
 export type SettingChange = { path: SettingPath; value: number };
 
 export type EngineTask =
+  | {
+      /** One whole run (saving a scenario, a preview): the result, or the engine's typed error. */
+      kind: "simulate";
+      scenario: Scenario;
+      limits: SimulateOptions;
+    }
   | {
       /** Run the scenario with `changes` applied (at least one) and read the named outcomes (models/nitrogen/sweep.ts OUTCOMES). */
       kind: "outcomes";
@@ -61,7 +70,11 @@ export type GoalFigures = {
   hadWaterChange: boolean;
 };
 
+/** A ModelError as plain data, so it crosses the thread boundary and can be thrown again. */
+export type ModelErrorData = { code: ModelErrorCode; message: string; day: number | null; detail: readonly string[] };
+
 export type EngineTaskResult =
+  | { kind: "simulate"; result: SimulationResult | null; error: ModelErrorData | null }
   | { kind: "outcomes"; point: SweepPoint }
   | { kind: "goal"; figures: GoalFigures | null; error: string | null }
   | { kind: "sample"; samples: Samples | null; error: string | null };
@@ -71,6 +84,14 @@ export type EngineTaskResult =
  * for the keeper, not as a throw; a throw here is a bug.
  */
 export function runEngineTask(task: EngineTask): EngineTaskResult {
+  if (task.kind === "simulate") {
+    try {
+      return { kind: "simulate", result: simulate(task.scenario, task.limits), error: null };
+    } catch (error) {
+      if (!isModelError(error)) throw error;
+      return { kind: "simulate", result: null, error: { code: error.code, message: error.message, day: error.day, detail: error.detail } };
+    }
+  }
   if (task.kind === "outcomes") {
     const [first, ...rest] = task.changes;
     if (!first) throw new RangeError("An outcomes task needs at least one setting change.");

@@ -16,7 +16,7 @@ import {
   type TemperatureUnit,
 } from "../models/units";
 import type { ChartReading } from "~/components/charts/types";
-import { getDb } from "~/db/client.server";
+import { getDb, type Db } from "~/db/client.server";
 import { readings } from "~/db/schema";
 import { speciesFactor, toDisplay } from "~/display-units.server";
 import type { CalibrationReading } from "../models/nitrogen/calibrate";
@@ -227,19 +227,29 @@ export function modelStartMs(scenario: { startDate: Date | null; createdAt: Date
   return scenario.startDate ? scenario.startDate.getTime() : startOfDay(scenario.createdAt.getTime());
 }
 
-function readingsInRun(tankId: number, startMs: number, lengthDays: number): ReadingRow[] {
-  return getDb()
+// Every results view reads these: prepared once per database, not rebuilt per request.
+const inRunStatements = new WeakMap<Db, ReturnType<typeof prepareInRun>>();
+function prepareInRun(db: Db) {
+  return db
     .select()
     .from(readings)
     .where(
       and(
-        eq(readings.tankId, tankId),
-        gte(readings.takenAt, new Date(startMs)),
-        lte(readings.takenAt, new Date(startMs + lengthDays * DAY_MS)),
+        eq(readings.tankId, sql.placeholder("tankId")),
+        gte(readings.takenAt, sql.placeholder("from")),
+        lte(readings.takenAt, sql.placeholder("to")),
       ),
     )
     .orderBy(asc(readings.takenAt))
-    .all();
+    .prepare();
+}
+
+function readingsInRun(tankId: number, startMs: number, lengthDays: number): ReadingRow[] {
+  const db = getDb();
+  let stmt = inRunStatements.get(db);
+  if (!stmt) inRunStatements.set(db, (stmt = prepareInRun(db)));
+  // Placeholders bypass the column's mapping to milliseconds, so pass the numbers it stores.
+  return stmt.all({ tankId, from: startMs, to: startMs + lengthDays * DAY_MS });
 }
 
 const dayOf = (row: ReadingRow, startMs: number) => (row.takenAt.getTime() - startMs) / DAY_MS;

@@ -8,8 +8,8 @@ import { and, desc, eq, sql } from "drizzle-orm";
 import {
   ENGINE_VERSION,
   isModelError,
+  ModelError,
   parseScenario,
-  simulate,
   type KeyFigures,
   type NitrogenBudget,
   type Scenario,
@@ -20,6 +20,8 @@ import {
 import type { EventRecord } from "../models";
 import { getDb, type Db } from "~/db/client.server";
 import { runs } from "~/db/schema";
+import { runEngineTask } from "~/engine-tasks.server";
+import { getEnginePool } from "~/jobs.server";
 
 /** Bounds for runs started by a request: a bad parameter set fails fast instead of hanging. */
 export const REQUEST_RUN_LIMITS = { maxWallMs: 3000, maxSteps: 300_000 };
@@ -56,11 +58,24 @@ export function withTankTargets(scenario: Scenario, tank: { nitrateTargetLow: nu
 }
 
 /**
- * Runs the engine. Async so the work can move to a worker thread without changing callers.
- * Throws the engine's ModelError for settings it cannot resolve.
+ * Whether a run is short enough to do on the request thread: up to about a year at daily
+ * points without modelled meals takes 5–15 ms, less than handing it to a worker and waiting
+ * for the answer when the server is busy (measured with bench/load-mix.ts; see
+ * docs/decisions/0006-single-runs.md). Anything longer goes to the worker pool, so a two-year
+ * hourly run cannot hold up everyone else.
  */
+export function isQuickRun(scenario: Scenario): boolean {
+  const samples = scenario.run.lengthDays / scenario.run.outputIntervalDays;
+  return scenario.run.lengthDays <= 400 && samples <= 1000 && !scenario.fish.pulsedFeeding;
+}
+
+/** Runs the engine (see isQuickRun for where). Throws the engine's ModelError for settings it cannot resolve. */
 export async function runEngine(scenario: Scenario): Promise<SimulationResult> {
-  return simulate(scenario, REQUEST_RUN_LIMITS);
+  const task = { kind: "simulate", scenario, limits: REQUEST_RUN_LIMITS } as const;
+  const answer = isQuickRun(scenario) ? runEngineTask(task) : await getEnginePool().run(task);
+  if (answer.kind !== "simulate") throw new Error(`The engine pool answered a ${answer.kind} task to a simulate task`);
+  if (answer.error) throw new ModelError(answer.error.code, answer.error.message, { day: answer.error.day, detail: answer.error.detail });
+  return answer.result!;
 }
 
 export { isModelError };

@@ -9,6 +9,7 @@ const benches: { name: string; load: () => Promise<{ run: () => unknown }> }[] =
   { name: "results page", load: () => import("./results-page") },
   { name: "share page", load: () => import("./share-page") },
   { name: "readings, calibration and sweeps", load: () => import("./readings-and-sweeps") },
+  { name: "load mix", load: () => import("./load-mix") },
 ];
 
 for (const bench of benches) {

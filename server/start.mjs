@@ -15,7 +15,20 @@ const host = process.env.HOST ?? "0.0.0.0";
 const server = express();
 server.disable("x-powered-by");
 server.set("trust proxy", process.env.TRUST_PROXY === "1" ? 1 : false);
-server.use(compression());
+// Level 1: most of the saving for a fraction of the CPU (the request thread is the bottleneck).
+server.use(compression({ level: 1 }));
+
+// Requests slower than SLOW_REQUEST_MS (default 1 s) are logged: the first thing to look at
+// when people say the site is slow.
+const slowMs = Number(process.env.SLOW_REQUEST_MS ?? 1000);
+server.use((req, res, next) => {
+  const started = process.hrtime.bigint();
+  res.on("finish", () => {
+    const ms = Number(process.hrtime.bigint() - started) / 1e6;
+    if (ms >= slowMs) console.warn(`[fernwater] slow request: ${req.method} ${req.originalUrl.split("?")[0]} ${res.statusCode} ${ms.toFixed(0)} ms`);
+  });
+  next();
+});
 
 let appModule;
 if (dev) {

@@ -54,7 +54,9 @@ export async function startBuiltServer(options: { env?: Record<string, string>; 
   const mailDir = path.join(dir, "mail");
   const databaseFile = options.databaseFile ?? path.join(dir, "fernwater.sqlite");
   let output = "";
-  const child = spawn(process.execPath, ["server/start.mjs"], {
+  // SERVER_CPU_PROFILE_DIR=<dir> writes a V8 CPU profile of the server, for finding what is slow.
+  const profile = process.env.SERVER_CPU_PROFILE_DIR ? ["--cpu-prof", `--cpu-prof-dir=${process.env.SERVER_CPU_PROFILE_DIR}`] : [];
+  const child = spawn(process.execPath, [...profile, "server/start.mjs"], {
     env: {
       ...process.env,
       NODE_ENV: "production",
