@@ -36,6 +36,30 @@ app.use((_req, res, next) => {
   next();
 });
 
+// Bodies: 2 MB at most (a readings CSV is at most 1 MB); a body of unknown length is refused
+// rather than read without a bound. Browsers always send the length of a form or fetch body.
+const MAX_BODY_BYTES = 2 * 1024 * 1024;
+app.use((req, res, next) => {
+  if (req.method === "GET" || req.method === "HEAD" || req.method === "OPTIONS") return next();
+  const length = req.get("content-length");
+  const answer = (status: number, error: string) => {
+    // Node discards the unread body after the answer, so the client reads it instead of a
+    // broken pipe; a body far beyond any use closes the connection instead.
+    res.status(status);
+    if (!length || Number(length) > 64 * MAX_BODY_BYTES) res.set("Connection", "close");
+    if (req.accepts(["html", "json"]) === "json" || req.path.startsWith("/api/")) res.json({ status, error });
+    else res.type("text/plain").send(error);
+  };
+  if (length === undefined) {
+    if (req.get("transfer-encoding")) return answer(411, "Send the length of the body (Content-Length).");
+    return next();
+  }
+  if (!/^\d{1,12}$/.test(length) || Number(length) > MAX_BODY_BYTES) {
+    return answer(413, `The body is larger than ${MAX_BODY_BYTES / (1024 * 1024)} MB.`);
+  }
+  next();
+});
+
 // Cross-site request check: another site's page must not change anything here.
 app.use((req, res, next) => {
   const own = `${req.protocol}://${req.get("host")}`.toLowerCase();

@@ -65,3 +65,41 @@ describe("HTTP protections of the built server", () => {
     expect(setCookie).toMatch(/SameSite=Lax/i);
   });
 });
+
+describe("bodies the server refuses before reading", () => {
+  it("answers 413 to a 5 MB body and 400 to invalid UTF-8 or broken JSON, and stays up", async () => {
+    const cookie = await signInOverHttp(baseURL(), DEMO.jonah, DEMO.password);
+    const big = await fetch(`${baseURL()}/api/preview`, {
+      method: "POST",
+      headers: { Cookie: cookie, "Content-Type": "application/json" },
+      body: JSON.stringify({ settings: { name: "x".repeat(5 * 1024 * 1024) } }),
+    });
+    expect(big.status).toBe(413);
+    const bigForm = await fetch(`${baseURL()}/tanks`, {
+      method: "POST",
+      headers: { Cookie: cookie, "Content-Type": "application/x-www-form-urlencoded" },
+      body: new URLSearchParams({ name: "x".repeat(5 * 1024 * 1024) }),
+    });
+    expect(bigForm.status).toBe(413);
+    const badUtf8 = await fetch(`${baseURL()}/api/preview`, {
+      method: "POST",
+      headers: { Cookie: cookie, "Content-Type": "application/json" },
+      body: new Uint8Array([0x7b, 0x22, 0x61, 0xff, 0xfe, 0x22, 0x3a, 0x31, 0x7d]),
+    });
+    expect(badUtf8.status).toBe(400);
+    expect((await badUtf8.json()).error).toMatch(/UTF-8/);
+    const broken = await fetch(`${baseURL()}/api/preview`, {
+      method: "POST",
+      headers: { Cookie: cookie, "Content-Type": "application/json" },
+      body: '{"settings": {"water": ',
+    });
+    expect(broken.status).toBe(400);
+    const badMultipart = await fetch(`${baseURL()}/tanks/1/readings/upload`, {
+      method: "POST",
+      headers: { Cookie: cookie, "Content-Type": "multipart/form-data; boundary=nope" },
+      body: "--wrong\r\nContent-Disposition: form-data; name=\"file\"\r\n\r\nhalf",
+    });
+    expect(badMultipart.status).toBeLessThan(500);
+    expect((await fetch(`${baseURL()}/api/health`)).status).toBe(200);
+  });
+});
