@@ -17,6 +17,8 @@ export default async function setup(project: TestProject) {
   return async () => {
     await server.stop();
     if (process.env.E2E_SERVER_LOG) fs.writeFileSync(process.env.E2E_SERVER_LOG, server.log());
+    // OWASP Logging Cheat Sheet: no password reaches the server's log, whatever the tests did.
+    if (server.log().includes("tidewell-demo-2026")) throw new Error("The server log contains the demo password.");
   };
 }
 
