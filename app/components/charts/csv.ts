@@ -9,6 +9,7 @@
 import { EVENT_META, PLANT_UNIT, SERIES_NAMES, unitOf } from "./palette";
 import { upperBound, lowerBound } from "./lookup";
 import type { ChartEvent, ChartSeries, ChartUnits, SeriesKey } from "./types";
+import { fileSlugFor } from "~/utils/file-name";
 
 export type CsvCell = string | number | null | undefined;
 
@@ -103,15 +104,7 @@ export function compareCsv(
   return toCsv(rows);
 }
 
-/** A file name from a title: lower-case words joined by hyphens, nothing a file system minds. */
+/** A chart's download name from its title (see app/utils/file-name.ts). */
 export function fileSlug(title: string, fallback = "fernwater-chart"): string {
-  const s = title
-    .normalize("NFKD")
-    .replace(/[\u0300-\u036f]/g, "")
-    .toLowerCase()
-    .replace(/[^a-z0-9]+/g, "-")
-    .replace(/^-+|-+$/g, "")
-    .slice(0, 60)
-    .replace(/-+$/, "");
-  return s || fallback;
+  return fileSlugFor(title, fallback);
 }

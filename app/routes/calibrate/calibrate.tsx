@@ -21,6 +21,7 @@ import { fieldErrors, formValues, type FormFailure } from "~/utils/form-errors";
 import { invalid, readForm } from "~/utils/http.server";
 import { MULTIPLIER_KEYS, withMultipliers } from "../../../models/nitrogen/calibrate";
 import { saveScenarioVariant } from "~/scenario-variant.server";
+import { Breadcrumbs } from "~/components/breadcrumbs";
 
 export const meta: Route.MetaFunction = ({ data }) => [
   { title: `Calibrate · ${data?.scenario.name ?? "Scenario"} · Fernwater` },
@@ -121,20 +122,14 @@ export default function CalibratePage({ loaderData, actionData }: Route.Componen
   const result = job?.status === "done" ? (job.result as CalibrationJson) : null;
   return (
     <div className="space-y-6">
-      <nav aria-label="Breadcrumb" className="text-sm">
-        <Link to="/tanks" className="link">
-          Tanks
-        </Link>{" "}
-        /{" "}
-        <Link to={`/tanks/${tank.id}`} className="link">
-          {tank.name}
-        </Link>{" "}
-        /{" "}
-        <Link to={`/tanks/${tank.id}/scenarios/${scenario.id}`} className="link">
-          {scenario.name}
-        </Link>{" "}
-        / Calibrate
-      </nav>
+      <Breadcrumbs
+        trail={[
+          { to: "/tanks", label: "Tanks" },
+          { to: `/tanks/${tank.id}`, label: tank.name },
+          { to: `/tanks/${tank.id}/scenarios/${scenario.id}`, label: scenario.name },
+        ]}
+        current="Calibrate"
+      />
       <h1 className="text-2xl">Calibrate {scenario.name} against your readings</h1>
       <p className="text-sm text-stone-700">
         Calibration adjusts a few multipliers of the model until its curves pass as close as they can to your test

@@ -1,9 +1,16 @@
 import { eq } from "drizzle-orm";
-import { Link } from "react-router";
+import {  } from "react-router";
 import type { Route } from "./+types/copy";
 import { ReadOnlyResults } from "~/components/read-only-results";
 import { FormMessage } from "~/components/ui/field";
-import { changedFields, copyScenario, lockedNames, requireCopyOfLesson, requireLesson, requireOwnClass } from "~/classes.server";
+import {
+  changedFields,
+  copyScenario,
+  lockedNames,
+  requireCopyOfLesson,
+  requireLesson,
+  requireOwnClass,
+} from "~/classes.server";
 import { getDb } from "~/db/client.server";
 import { users } from "~/db/schema";
 import { requireUser } from "~/permissions.server";
@@ -11,6 +18,7 @@ import { readOnlyScenarioView } from "~/read-only-view.server";
 import { buildScenarioForm } from "~/scenario-form.server";
 import { readStoredSettings } from "~/simulation.server";
 import { displayUnitsFor } from "~/utils/display-units";
+import { Breadcrumbs } from "~/components/breadcrumbs";
 
 export const meta: Route.MetaFunction = ({ data }) => [
   { title: `${data?.student ?? "Student"}’s copy · ${data?.lesson.title ?? "Lesson"} · Fernwater` },
@@ -49,20 +57,14 @@ export default function StudentCopyPage({ loaderData }: Route.ComponentProps) {
   const { cls, lesson, student, scenarioName, answer, handedInAt, changes, view } = loaderData;
   return (
     <div className="space-y-6">
-      <nav aria-label="Breadcrumb" className="text-sm">
-        <Link to="/classes" className="link">
-          Classes
-        </Link>{" "}
-        /{" "}
-        <Link to={`/classes/${cls.id}`} className="link">
-          {cls.name}
-        </Link>{" "}
-        /{" "}
-        <Link to={`/classes/${cls.id}/lessons/${lesson.id}`} className="link">
-          {lesson.title}
-        </Link>{" "}
-        / {student}
-      </nav>
+      <Breadcrumbs
+        trail={[
+          { to: "/classes", label: "Classes" },
+          { to: `/classes/${cls.id}`, label: cls.name },
+          { to: `/classes/${cls.id}/lessons/${lesson.id}`, label: lesson.title },
+        ]}
+        current={student}
+      />
       <h1 className="text-2xl">{student}’s copy</h1>
       <p className="text-sm text-stone-700">Read-only: this is the student’s own scenario.</p>
       <section aria-labelledby="answer-title" className="card space-y-2">
@@ -98,10 +100,18 @@ export default function StudentCopyPage({ loaderData }: Route.ComponentProps) {
               <caption className="sr-only">Settings that differ from the lesson</caption>
               <thead>
                 <tr className="border-b border-stone-300 text-left">
-                  <th scope="col" className="py-1 pr-3">Setting</th>
-                  <th scope="col" className="py-1 pr-3 text-right">Lesson</th>
-                  <th scope="col" className="py-1 pr-3 text-right">{student}</th>
-                  <th scope="col" className="py-1">Unit</th>
+                  <th scope="col" className="py-1 pr-3">
+                    Setting
+                  </th>
+                  <th scope="col" className="py-1 pr-3 text-right">
+                    Lesson
+                  </th>
+                  <th scope="col" className="py-1 pr-3 text-right">
+                    {student}
+                  </th>
+                  <th scope="col" className="py-1">
+                    Unit
+                  </th>
                 </tr>
               </thead>
               <tbody>
@@ -109,7 +119,9 @@ export default function StudentCopyPage({ loaderData }: Route.ComponentProps) {
                   <tr key={c.name} className="border-b border-stone-200">
                     <th scope="row" className="py-1 pr-3 text-left font-normal">
                       {c.label}
-                      {c.locked ? <span className="ml-2 text-xs font-semibold text-red-800">locked in the lesson</span> : null}
+                      {c.locked ? (
+                        <span className="ml-2 text-xs font-semibold text-red-800">locked in the lesson</span>
+                      ) : null}
                     </th>
                     <td className="num py-1 pr-3 text-right">{c.from}</td>
                     <td className="num py-1 pr-3 text-right font-semibold">{c.to}</td>

@@ -18,6 +18,7 @@ import { users } from "~/db/schema";
 import { requireUser } from "~/permissions.server";
 import { fieldErrors, formValues } from "~/utils/form-errors";
 import { invalid, readForm } from "~/utils/http.server";
+import { Breadcrumbs } from "~/components/breadcrumbs";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.cls.name ?? "Class"} · Fernwater` }];
 
@@ -46,8 +47,17 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     lessons: lessons.map((l) => ({ id: l.id, title: l.title, status: "" })),
     teacher: {
       joinCode: cls.joinCode,
-      students: roster(cls.id).map((s) => ({ id: s.id, name: s.name, email: s.email, joinedAt: s.joinedAt.toISOString().slice(0, 10) })),
-      invites: pendingInvites(cls.id).map((i) => ({ id: i.id, email: i.email, expiresAt: i.expiresAt.toISOString().slice(0, 10) })),
+      students: roster(cls.id).map((s) => ({
+        id: s.id,
+        name: s.name,
+        email: s.email,
+        joinedAt: s.joinedAt.toISOString().slice(0, 10),
+      })),
+      invites: pendingInvites(cls.id).map((i) => ({
+        id: i.id,
+        email: i.email,
+        expiresAt: i.expiresAt.toISOString().slice(0, 10),
+      })),
     },
   };
 }
@@ -81,8 +91,13 @@ export async function action({ request, params }: Route.ActionArgs) {
   }
   if (values.intent === "remove") {
     const parsed = RemoveSchema.safeParse(values);
-    if (!parsed.success) return invalid({ [`remove-${values.studentId}`]: "Tick the box to confirm.", ...fieldErrors(parsed.error) }, values);
-    if (!removeStudent(cls.id, parsed.data.studentId)) return invalid({ "": "That student is not in this class." }, values);
+    if (!parsed.success)
+      return invalid(
+        { [`remove-${values.studentId}`]: "Tick the box to confirm.", ...fieldErrors(parsed.error) },
+        values,
+      );
+    if (!removeStudent(cls.id, parsed.data.studentId))
+      return invalid({ "": "That student is not in this class." }, values);
     return { done: "The student was taken out of the class. Their copies stay in their own tanks." };
   }
   return invalid({ "": "Unknown action." }, values);
@@ -97,12 +112,7 @@ export default function ClassPage({ loaderData, actionData }: Route.ComponentPro
   const done = actionData && "done" in actionData ? actionData.done : null;
   return (
     <div className="space-y-8">
-      <nav aria-label="Breadcrumb" className="text-sm">
-        <Link to="/classes" className="link">
-          Classes
-        </Link>{" "}
-        / {cls.name}
-      </nav>
+      <Breadcrumbs trail={[{ to: "/classes", label: "Classes" }]} current={cls.name} />
       <header className="space-y-1">
         <h1 className="text-2xl">{cls.name}</h1>
         {as === "student" ? <p className="text-sm text-stone-700">Run by {educatorName}.</p> : null}
@@ -161,15 +171,16 @@ export default function ClassPage({ loaderData, actionData }: Route.ComponentPro
                 {teacher.students.map((s) => (
                   <li key={s.id} className="flex flex-wrap items-center justify-between gap-3 p-3">
                     <span>
-                      <span className="font-semibold">{s.name}</span> <span className="text-sm text-stone-600">{s.email}</span>{" "}
+                      <span className="font-semibold">{s.name}</span>{" "}
+                      <span className="text-sm text-stone-600">{s.email}</span>{" "}
                       <span className="text-xs text-stone-500">joined {s.joinedAt}</span>
                     </span>
                     <Form method="post" className="flex flex-wrap items-center gap-2 text-sm">
                       <input type="hidden" name="intent" value="remove" />
                       <input type="hidden" name="studentId" value={s.id} />
                       <label className="flex items-center gap-1">
-                        <input type="checkbox" name="confirm" value="yes" className="h-4 w-4 accent-red-700" /> Yes, remove{" "}
-                        <span className="sr-only">{s.name}</span>
+                        <input type="checkbox" name="confirm" value="yes" className="h-4 w-4 accent-red-700" /> Yes,
+                        remove <span className="sr-only">{s.name}</span>
                       </label>
                       <button type="submit" className="btn-secondary py-1" disabled={busy}>
                         Remove <span className="sr-only">{s.name}</span>

@@ -19,8 +19,11 @@ import { requireOwnedScenarioById } from "~/tanks.server";
 import { displayUnitsFor } from "~/utils/display-units";
 import { fieldErrors, formValues } from "~/utils/form-errors";
 import { invalid, readForm } from "~/utils/http.server";
+import { Breadcrumbs } from "~/components/breadcrumbs";
 
-export const meta: Route.MetaFunction = ({ data }) => [{ title: `New lesson · ${data?.cls.name ?? "Class"} · Fernwater` }];
+export const meta: Route.MetaFunction = ({ data }) => [
+  { title: `New lesson · ${data?.cls.name ?? "Class"} · Fernwater` },
+];
 
 /** The chosen scenario's settings (frozen into the lesson) and the fields it offers to unlock. */
 function chosen(user: SessionUser, scenarioParam: string | null) {
@@ -59,7 +62,11 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 
 const LessonSchema = z.object({
   scenarioId: z.coerce.number({ error: "Choose a scenario." }).int().positive("Choose a scenario."),
-  title: z.string({ error: "Give the lesson a title." }).trim().min(1, "Give the lesson a title.").max(120, "Keep the title under 120 characters."),
+  title: z
+    .string({ error: "Give the lesson a title." })
+    .trim()
+    .min(1, "Give the lesson a title.")
+    .max(120, "Keep the title under 120 characters."),
   question: z
     .string({ error: "Write the question students answer." })
     .trim()
@@ -99,16 +106,13 @@ export default function NewLessonPage({ loaderData, actionData }: Route.Componen
   const values = actionData?.values ?? {};
   return (
     <div className="max-w-4xl space-y-6">
-      <nav aria-label="Breadcrumb" className="text-sm">
-        <Link to="/classes" className="link">
-          Classes
-        </Link>{" "}
-        /{" "}
-        <Link to={`/classes/${cls.id}`} className="link">
-          {cls.name}
-        </Link>{" "}
-        / New lesson
-      </nav>
+      <Breadcrumbs
+        trail={[
+          { to: "/classes", label: "Classes" },
+          { to: `/classes/${cls.id}`, label: cls.name },
+        ]}
+        current="New lesson"
+      />
       <h1 className="text-2xl">New lesson for {cls.name}</h1>
       {scenarios.length === 0 ? (
         <FormMessage tone="info">
@@ -121,7 +125,12 @@ export default function NewLessonPage({ loaderData, actionData }: Route.Componen
       ) : (
         <Form method="get" className="card flex flex-wrap items-end gap-3">
           <div className="min-w-0 flex-1">
-            <SelectField label="1. Scenario to hand out" name="scenario" options={scenarios} defaultValue={pick ? String(pick.id) : undefined} />
+            <SelectField
+              label="1. Scenario to hand out"
+              name="scenario"
+              options={scenarios}
+              defaultValue={pick ? String(pick.id) : undefined}
+            />
           </div>
           <button type="submit" className="btn-secondary">
             Use this scenario
@@ -134,7 +143,13 @@ export default function NewLessonPage({ loaderData, actionData }: Route.Componen
           <input type="hidden" name="scenarioId" value={pick.id} />
           <div className="card space-y-4">
             <h2 className="text-lg">2. Title and question</h2>
-            <TextField label="Lesson title" name="title" maxLength={120} defaultValue={values.title ?? pick.name} error={errors.title} />
+            <TextField
+              label="Lesson title"
+              name="title"
+              maxLength={120}
+              defaultValue={values.title ?? pick.name}
+              error={errors.title}
+            />
             <div className="space-y-1">
               <label htmlFor="question" className="block text-sm font-semibold text-stone-800">
                 Question for the students
@@ -162,8 +177,8 @@ export default function NewLessonPage({ loaderData, actionData }: Route.Componen
               3. Settings students may change
             </h2>
             <p className="text-sm text-stone-700">
-              Everything not ticked is locked: students see it but cannot change it. The values are frozen now, so later edits
-              of your scenario do not move the lesson.
+              Everything not ticked is locked: students see it but cannot change it. The values are frozen now, so later
+              edits of your scenario do not move the lesson.
             </p>
             {errors.unlock ? (
               <p className="text-sm font-semibold text-red-800" role="alert">
@@ -178,7 +193,11 @@ export default function NewLessonPage({ loaderData, actionData }: Route.Componen
               </span>
             </label>
             {pick.groups.map((g) => (
-              <details key={g.title} className="rounded-md border border-stone-200 p-3" open={g.title === "Fish & feeding"}>
+              <details
+                key={g.title}
+                className="rounded-md border border-stone-200 p-3"
+                open={g.title === "Fish & feeding"}
+              >
                 <summary className="cursor-pointer font-semibold text-fern-900">{g.title}</summary>
                 <div className="mt-2 grid gap-2 sm:grid-cols-2">
                   {g.fields.map((f) => (

@@ -1,5 +1,5 @@
 import { useMemo } from "react";
-import { Form, Link, redirect, useNavigation, useSearchParams } from "react-router";
+import { Form, redirect, useNavigation, useSearchParams } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/lesson-work";
 import { ReadOnlyResults } from "~/components/read-only-results";
@@ -23,8 +23,11 @@ import { displayUnitsFor } from "~/utils/display-units";
 import { fieldErrors, formValues } from "~/utils/form-errors";
 import { invalid, readForm } from "~/utils/http.server";
 import { handleSetupSubmission, unitsSummary } from "~/routes/scenarios/setup.server";
+import { Breadcrumbs } from "~/components/breadcrumbs";
 
-export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.lesson.title ?? "Lesson"} · your copy · Fernwater` }];
+export const meta: Route.MetaFunction = ({ data }) => [
+  { title: `${data?.lesson.title ?? "Lesson"} · your copy · Fernwater` },
+];
 
 /** The signed-in student's copy of the lesson; 404 for anyone but a member who started it. */
 async function studentCopy(request: Request, params: { classId?: string; lessonId?: string }) {
@@ -64,7 +67,9 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     plantGroupsFree,
     openSections: openSections.length ? openSections : ["water"],
     view: await readOnlyScenarioView(scenario, tank, units),
-    handedIn: copy.handedInAt ? { at: copy.handedInAt.toISOString().slice(0, 16).replace("T", " "), answer: copy.answer ?? "" } : null,
+    handedIn: copy.handedInAt
+      ? { at: copy.handedInAt.toISOString().slice(0, 16).replace("T", " "), answer: copy.answer ?? "" }
+      : null,
     unitsNote: unitsSummary(units),
   };
 }
@@ -118,20 +123,14 @@ export default function LessonWorkPage({ loaderData, actionData }: Route.Compone
   const form = setupData?.form ?? loaderData.form;
   return (
     <div className="space-y-6">
-      <nav aria-label="Breadcrumb" className="text-sm">
-        <Link to="/classes" className="link">
-          Classes
-        </Link>{" "}
-        /{" "}
-        <Link to={`/classes/${cls.id}`} className="link">
-          {cls.name}
-        </Link>{" "}
-        /{" "}
-        <Link to={`/classes/${cls.id}/lessons/${lesson.id}`} className="link">
-          {lesson.title}
-        </Link>{" "}
-        / Your copy
-      </nav>
+      <Breadcrumbs
+        trail={[
+          { to: "/classes", label: "Classes" },
+          { to: `/classes/${cls.id}`, label: cls.name },
+          { to: `/classes/${cls.id}/lessons/${lesson.id}`, label: lesson.title },
+        ]}
+        current="Your copy"
+      />
       <h1 className="text-2xl">{lesson.title}: your copy</h1>
       <section aria-labelledby="question-title" className="card space-y-2">
         <h2 id="question-title" className="text-lg">
@@ -142,7 +141,10 @@ export default function LessonWorkPage({ loaderData, actionData }: Route.Compone
       {failure?.errors[""] ? <FormMessage>{failure.errors[""]}</FormMessage> : null}
       {params.get("saved") === "1" && !actionData && !handedIn ? (
         <FormMessage tone="success">
-          Saved and run. <a href="#results" className="link">See your results</a>
+          Saved and run.{" "}
+          <a href="#results" className="link">
+            See your results
+          </a>
         </FormMessage>
       ) : null}
       {handedIn ? (
@@ -201,7 +203,8 @@ export default function LessonWorkPage({ loaderData, actionData }: Route.Compone
               aria-describedby={failure?.errors.answer ? "answer-error" : "answer-hint"}
             />
             <p id="answer-hint" className="text-xs text-stone-600">
-              Your teacher sees your answer with your copy’s settings and results. After handing in, the copy no longer changes.
+              Your teacher sees your answer with your copy’s settings and results. After handing in, the copy no longer
+              changes.
             </p>
             {failure?.errors.answer ? (
               <p id="answer-error" className="text-sm font-semibold text-red-800" role="alert">

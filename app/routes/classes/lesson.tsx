@@ -8,6 +8,7 @@ import { requireUser } from "~/permissions.server";
 import { displayUnitsFor, formatNumber, unitLabels } from "~/utils/display-units";
 import { invalid, readForm } from "~/utils/http.server";
 import { formValues } from "~/utils/form-errors";
+import { Breadcrumbs } from "~/components/breadcrumbs";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.lesson.title ?? "Lesson"} · Fernwater` }];
 
@@ -21,7 +22,15 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   };
   if (as === "student") {
     const copy = findCopy(lesson.id, user.id);
-    return { ...base, as, started: !!copy, handedIn: !!copy?.handedInAt, handIns: null, labels: null, unlockedCount: 0 };
+    return {
+      ...base,
+      as,
+      started: !!copy,
+      handedIn: !!copy?.handedInAt,
+      handIns: null,
+      labels: null,
+      unlockedCount: 0,
+    };
   }
   const units = displayUnitsFor(user);
   return {
@@ -54,7 +63,11 @@ export async function action({ request, params }: Route.ActionArgs) {
   if (as !== "student") return invalid({ "": "Only students of the class start a copy of the lesson." }, values);
   try {
     const copy = await startCopy(user, cls, lesson);
-    if (!copy) return invalid({ "": "The lesson’s settings can no longer be read. Ask your teacher to hand it out again." }, values);
+    if (!copy)
+      return invalid(
+        { "": "The lesson’s settings can no longer be read. Ask your teacher to hand it out again." },
+        values,
+      );
   } catch (error) {
     const message = await refusedRunMessage(error);
     if (message) return invalid({ "": message }, values);
@@ -69,16 +82,13 @@ export default function LessonPage({ loaderData, actionData }: Route.ComponentPr
   const base = `/classes/${cls.id}/lessons/${lesson.id}`;
   return (
     <div className="space-y-6">
-      <nav aria-label="Breadcrumb" className="text-sm">
-        <Link to="/classes" className="link">
-          Classes
-        </Link>{" "}
-        /{" "}
-        <Link to={`/classes/${cls.id}`} className="link">
-          {cls.name}
-        </Link>{" "}
-        / {lesson.title}
-      </nav>
+      <Breadcrumbs
+        trail={[
+          { to: "/classes", label: "Classes" },
+          { to: `/classes/${cls.id}`, label: cls.name },
+        ]}
+        current={lesson.title}
+      />
       <h1 className="text-2xl">{lesson.title}</h1>
       <section aria-labelledby="question-title" className="card space-y-2">
         <h2 id="question-title" className="text-lg">
@@ -97,8 +107,8 @@ export default function LessonPage({ loaderData, actionData }: Route.ComponentPr
         ) : (
           <Form method="post" className="space-y-2">
             <p className="text-sm text-stone-700">
-              You get your own copy of the teacher’s scenario, in a tank of yours for this class. Change the settings the lesson
-              leaves open, run it, and hand in your answer.
+              You get your own copy of the teacher’s scenario, in a tank of yours for this class. Change the settings
+              the lesson leaves open, run it, and hand in your answer.
             </p>
             <input type="hidden" name="intent" value="start" />
             <button type="submit" className="btn" disabled={busy}>
@@ -113,7 +123,9 @@ export default function LessonPage({ loaderData, actionData }: Route.ComponentPr
               Present to the class
             </Link>
             <span className="text-stone-700">
-              {unlockedCount === 0 ? "Every setting is locked." : `${unlockedCount} setting${unlockedCount === 1 ? "" : "s"} open to students.`}
+              {unlockedCount === 0
+                ? "Every setting is locked."
+                : `${unlockedCount} setting${unlockedCount === 1 ? "" : "s"} open to students.`}
             </span>
           </p>
           <section aria-labelledby="handins-title" className="space-y-2">
@@ -127,24 +139,46 @@ export default function LessonPage({ loaderData, actionData }: Route.ComponentPr
                   <caption className="sr-only">Each student’s copy with its key figures</caption>
                   <thead>
                     <tr className="border-b border-stone-300 text-left align-bottom">
-                      <th scope="col" className="py-2 pr-3">Student</th>
-                      <th scope="col" className="py-2 pr-3">Handed in</th>
-                      <th scope="col" className="py-2 pr-3 text-right">Nitrate at the end<span className="block text-xs font-normal">{labels.nitrate}</span></th>
-                      <th scope="col" className="py-2 pr-3 text-right">Peak free ammonia<span className="block text-xs font-normal">{labels.ammonia}</span></th>
-                      <th scope="col" className="py-2 pr-3 text-right">Peak nitrite<span className="block text-xs font-normal">{labels.nitrite}</span></th>
-                      <th scope="col" className="py-2 pr-3 text-right">Cycling finished</th>
-                      <th scope="col" className="py-2 pr-3">Answer</th>
-                      <th scope="col" className="py-2"><span className="sr-only">Open</span></th>
+                      <th scope="col" className="py-2 pr-3">
+                        Student
+                      </th>
+                      <th scope="col" className="py-2 pr-3">
+                        Handed in
+                      </th>
+                      <th scope="col" className="py-2 pr-3 text-right">
+                        Nitrate at the end<span className="block text-xs font-normal">{labels.nitrate}</span>
+                      </th>
+                      <th scope="col" className="py-2 pr-3 text-right">
+                        Peak free ammonia<span className="block text-xs font-normal">{labels.ammonia}</span>
+                      </th>
+                      <th scope="col" className="py-2 pr-3 text-right">
+                        Peak nitrite<span className="block text-xs font-normal">{labels.nitrite}</span>
+                      </th>
+                      <th scope="col" className="py-2 pr-3 text-right">
+                        Cycling finished
+                      </th>
+                      <th scope="col" className="py-2 pr-3">
+                        Answer
+                      </th>
+                      <th scope="col" className="py-2">
+                        <span className="sr-only">Open</span>
+                      </th>
                     </tr>
                   </thead>
                   <tbody>
                     {handIns.map((row) => (
                       <tr key={row.student.id} className="border-b border-stone-200 align-top">
-                        <th scope="row" className="py-2 pr-3 text-left font-semibold">{row.student.name}</th>
+                        <th scope="row" className="py-2 pr-3 text-left font-semibold">
+                          {row.student.name}
+                        </th>
                         <td className="py-2 pr-3">{row.copy ? (row.copy.handedInAt ?? "started") : "not started"}</td>
                         <td className="num py-2 pr-3 text-right">{formatNumber(row.copy?.figures?.nitrateEnd)}</td>
-                        <td className="num py-2 pr-3 text-right">{formatNumber(row.copy?.figures?.peakFreeNh3.value)}</td>
-                        <td className="num py-2 pr-3 text-right">{formatNumber(row.copy?.figures?.peakNitrite.value)}</td>
+                        <td className="num py-2 pr-3 text-right">
+                          {formatNumber(row.copy?.figures?.peakFreeNh3.value)}
+                        </td>
+                        <td className="num py-2 pr-3 text-right">
+                          {formatNumber(row.copy?.figures?.peakNitrite.value)}
+                        </td>
                         <td className="num py-2 pr-3 text-right">
                           {row.copy?.figures
                             ? row.copy.figures.cyclingFinishedDay === null

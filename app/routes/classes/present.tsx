@@ -1,5 +1,5 @@
 import { useEffect, useMemo, useState } from "react";
-import { Link } from "react-router";
+import {  } from "react-router";
 import type { Route } from "./+types/present";
 import { CautionsPanel } from "~/components/cautions";
 import { nearestIndex } from "~/components/charts/lookup";
@@ -12,18 +12,28 @@ import { packedResultsPayload, resultsPayload } from "~/results.server";
 import { isModelError } from "~/simulation.server";
 import { displayUnitsFor, formatNumber } from "~/utils/display-units";
 import { unpackSeries } from "~/utils/series-packing";
+import { Breadcrumbs } from "~/components/breadcrumbs";
 
-export const meta: Route.MetaFunction = ({ data }) => [{ title: `Presenting ${data?.lesson.title ?? "a lesson"} · Fernwater` }];
+export const meta: Route.MetaFunction = ({ data }) => [
+  { title: `Presenting ${data?.lesson.title ?? "a lesson"} · Fernwater` },
+];
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const user = await requireUser(request);
   const cls = requireOwnClass(user, params.classId);
   const lesson = requireLesson(cls, params.lessonId);
-  const base = { cls: { id: cls.id, name: cls.name }, lesson: { id: lesson.id, title: lesson.title, question: lesson.question } };
+  const base = {
+    cls: { id: cls.id, name: cls.name },
+    lesson: { id: lesson.id, title: lesson.title, question: lesson.question },
+  };
   try {
     const found = await lessonRun(lesson);
     if (!found) return { ...base, results: null, error: "The lesson’s settings can no longer be read." };
-    return { ...base, results: packedResultsPayload(resultsPayload(found.run, found.settings, displayUnitsFor(user))), error: null };
+    return {
+      ...base,
+      results: packedResultsPayload(resultsPayload(found.run, found.settings, displayUnitsFor(user))),
+      error: null,
+    };
   } catch (error) {
     if (isModelError(error)) return { ...base, results: null, error: error.message };
     throw error;
@@ -52,20 +62,43 @@ export default function PresentLessonPage({ loaderData }: Route.ComponentProps) 
   const figures =
     results && series && i >= 0
       ? [
-          { key: "tan", label: "Total ammonia", value: series.tan[i], unit: results.labels.ammonia, color: SERIES_COLORS.tan },
-          { key: "nh3", label: "Free ammonia", value: series.nh3[i], unit: results.labels.ammonia, color: SERIES_COLORS.nh3 },
-          { key: "no2", label: "Nitrite", value: series.no2[i], unit: results.labels.nitrite, color: SERIES_COLORS.no2 },
-          { key: "no3", label: "Nitrate", value: series.no3[i], unit: results.labels.nitrate, color: SERIES_COLORS.no3 },
+          {
+            key: "tan",
+            label: "Total ammonia",
+            value: series.tan[i],
+            unit: results.labels.ammonia,
+            color: SERIES_COLORS.tan,
+          },
+          {
+            key: "nh3",
+            label: "Free ammonia",
+            value: series.nh3[i],
+            unit: results.labels.ammonia,
+            color: SERIES_COLORS.nh3,
+          },
+          {
+            key: "no2",
+            label: "Nitrite",
+            value: series.no2[i],
+            unit: results.labels.nitrite,
+            color: SERIES_COLORS.no2,
+          },
+          {
+            key: "no3",
+            label: "Nitrate",
+            value: series.no3[i],
+            unit: results.labels.nitrate,
+            color: SERIES_COLORS.no3,
+          },
         ]
       : [];
 
   return (
     <div className="space-y-4">
-      <nav aria-label="Breadcrumb" className="text-sm">
-        <Link to={`/classes/${cls.id}/lessons/${lesson.id}`} className="link">
-          Back to the lesson
-        </Link>
-      </nav>
+      <Breadcrumbs
+        trail={[{ to: `/classes/${cls.id}/lessons/${lesson.id}`, label: "Back to the lesson" }]}
+        current=""
+      />
       <h1 className="text-3xl sm:text-4xl">{lesson.title}</h1>
       <p className="text-lg sm:text-xl">{lesson.question}</p>
       {error ? <FormMessage>{error}</FormMessage> : null}

@@ -31,6 +31,7 @@ import {
   type DisplayReading,
   type ListQuery,
 } from "./readings.server";
+import { Breadcrumbs } from "~/components/breadcrumbs";
 
 export const meta: Route.MetaFunction = ({ data }) => [
   { title: `Readings · ${data?.tank.name ?? "Tank"} · Fernwater` },
@@ -111,16 +112,13 @@ export default function ReadingsPage({ loaderData, actionData }: Route.Component
     listHref(tank.id, { sort: key, dir: query.sort === key && query.dir === "desc" ? "asc" : "desc", page: 1 });
   return (
     <div className="space-y-6">
-      <nav aria-label="Breadcrumb" className="text-sm">
-        <Link to="/tanks" className="link">
-          Tanks
-        </Link>{" "}
-        /{" "}
-        <Link to={`/tanks/${tank.id}`} className="link">
-          {tank.name}
-        </Link>{" "}
-        / Readings
-      </nav>
+      <Breadcrumbs
+        trail={[
+          { to: "/tanks", label: "Tanks" },
+          { to: `/tanks/${tank.id}`, label: tank.name },
+        ]}
+        current="Readings"
+      />
       <div className="flex flex-wrap items-center justify-between gap-3">
         <h1 className="text-2xl">Readings of {tank.name}</h1>
         <div className="flex flex-wrap gap-2">

@@ -9,6 +9,7 @@ import { insertReadings, measureUnitsFor, storedTimes, type MeasureUnits } from 
 import { requireOwnedTank } from "~/tanks.server";
 import { readUpload, UploadError } from "~/uploads.server";
 import { displayUnitsFor } from "~/utils/display-units";
+import { Breadcrumbs } from "~/components/breadcrumbs";
 
 export const meta: Route.MetaFunction = ({ data }) => [
   { title: `Upload readings · ${data?.tank.name ?? "Tank"} · Fernwater` },
@@ -132,20 +133,14 @@ export default function UploadReadingsPage({ loaderData, actionData }: Route.Com
   const busy = useNavigation().state === "submitting";
   return (
     <div className="mx-auto max-w-3xl space-y-5">
-      <nav aria-label="Breadcrumb" className="text-sm">
-        <Link to="/tanks" className="link">
-          Tanks
-        </Link>{" "}
-        /{" "}
-        <Link to={`/tanks/${tank.id}`} className="link">
-          {tank.name}
-        </Link>{" "}
-        /{" "}
-        <Link to={`/tanks/${tank.id}/readings`} className="link">
-          Readings
-        </Link>{" "}
-        / Upload
-      </nav>
+      <Breadcrumbs
+        trail={[
+          { to: "/tanks", label: "Tanks" },
+          { to: `/tanks/${tank.id}`, label: tank.name },
+          { to: `/tanks/${tank.id}/readings`, label: "Readings" },
+        ]}
+        current="Upload"
+      />
       <h1 className="text-2xl">Upload readings</h1>
       <div className="space-y-2 text-sm text-stone-700">
         <p>

@@ -10,8 +10,11 @@ import { requireOwnedScenario } from "~/tanks.server";
 import { formatDate } from "~/utils/dates";
 import { readForm } from "~/utils/http.server";
 import { handleSetupSubmission, unitsOf, unitsSummary } from "./setup.server";
+import { Breadcrumbs } from "~/components/breadcrumbs";
 
-export const meta: Route.MetaFunction = ({ data }) => [{ title: `Edit ${data?.scenario.name ?? "scenario"} · Fernwater` }];
+export const meta: Route.MetaFunction = ({ data }) => [
+  { title: `Edit ${data?.scenario.name ?? "scenario"} · Fernwater` },
+];
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const user = await requireUser(request);
@@ -25,7 +28,10 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     tank: { id: tank.id, name: tank.name },
     scenario: { id: scenario.id, name: scenario.name },
     form: settings
-      ? { ...buildScenarioForm(scenario.name, settings, units), startDate: scenario.startDate ? formatDate(scenario.startDate.getTime()) : "" }
+      ? {
+          ...buildScenarioForm(scenario.name, settings, units),
+          startDate: scenario.startDate ? formatDate(scenario.startDate.getTime()) : "",
+        }
       : null,
     unitsNote: unitsSummary(units),
   };
@@ -47,20 +53,14 @@ export default function EditScenarioPage({ loaderData, actionData }: Route.Compo
   const form = actionData?.form ?? loaderData.form;
   return (
     <div className="space-y-6">
-      <nav aria-label="Breadcrumb" className="text-sm">
-        <Link to="/tanks" className="link">
-          Tanks
-        </Link>{" "}
-        /{" "}
-        <Link to={`/tanks/${tank.id}`} className="link">
-          {tank.name}
-        </Link>{" "}
-        /{" "}
-        <Link to={`/tanks/${tank.id}/scenarios/${scenario.id}`} className="link">
-          {scenario.name}
-        </Link>{" "}
-        / Edit
-      </nav>
+      <Breadcrumbs
+        trail={[
+          { to: "/tanks", label: "Tanks" },
+          { to: `/tanks/${tank.id}`, label: tank.name },
+          { to: `/tanks/${tank.id}/scenarios/${scenario.id}`, label: scenario.name },
+        ]}
+        current="Edit"
+      />
       <h1 className="text-2xl">Edit {scenario.name}</h1>
       {form ? (
         <ScenarioForm
@@ -78,7 +78,9 @@ export default function EditScenarioPage({ loaderData, actionData }: Route.Compo
           }
         />
       ) : (
-        <FormMessage>The saved settings of this scenario can no longer be read. Create a new scenario instead.</FormMessage>
+        <FormMessage>
+          The saved settings of this scenario can no longer be read. Create a new scenario instead.
+        </FormMessage>
       )}
     </div>
   );

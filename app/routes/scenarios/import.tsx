@@ -1,4 +1,4 @@
-import { Form, Link, redirect, useNavigation } from "react-router";
+import { Form, redirect, useNavigation } from "react-router";
 import type { Route } from "./+types/import";
 import { FormMessage } from "~/components/ui/field";
 import { requireUser } from "~/permissions.server";
@@ -7,6 +7,7 @@ import { saveScenarioWithRun } from "~/scenario-api.server";
 import { requireOwnedTank } from "~/tanks.server";
 import { readUpload, UploadError } from "~/uploads.server";
 import { invalid } from "~/utils/http.server";
+import { Breadcrumbs } from "~/components/breadcrumbs";
 
 export const meta: Route.MetaFunction = () => [{ title: "Import a scenario · Fernwater" }];
 
@@ -28,10 +29,13 @@ export async function action({ request, params }: Route.ActionArgs) {
     if (error instanceof UploadError) return invalid({ file: error.message });
     throw error;
   }
-  if (!upload.file || upload.file.text.trim() === "") return invalid({ file: "Choose a scenario file (.json) to upload." });
+  if (!upload.file || upload.file.text.trim() === "")
+    return invalid({ file: "Choose a scenario file (.json) to upload." });
   const read = readScenarioFile(upload.file.text);
   if (!read.ok) {
-    const details = Object.entries(read.issues).slice(0, 8).map(([path, message]) => `${path}: ${message}`);
+    const details = Object.entries(read.issues)
+      .slice(0, 8)
+      .map(([path, message]) => `${path}: ${message}`);
     return invalid({ file: [read.message, ...details].join(" — ") });
   }
   const name = read.name ?? upload.file.name.replace(/(\.fernwater)?\.json$/i, "").slice(0, 120) ?? "Imported scenario";
@@ -52,20 +56,17 @@ export default function ImportScenarioPage({ loaderData, actionData }: Route.Com
   const error = actionData?.errors.file;
   return (
     <div className="mx-auto max-w-2xl space-y-4">
-      <nav aria-label="Breadcrumb" className="text-sm">
-        <Link to="/tanks" className="link">
-          Tanks
-        </Link>{" "}
-        /{" "}
-        <Link to={`/tanks/${loaderData.tank.id}`} className="link">
-          {loaderData.tank.name}
-        </Link>{" "}
-        / Import
-      </nav>
+      <Breadcrumbs
+        trail={[
+          { to: "/tanks", label: "Tanks" },
+          { to: `/tanks/${loaderData.tank.id}`, label: loaderData.tank.name },
+        ]}
+        current="Import"
+      />
       <h1 className="text-2xl">Import a scenario file</h1>
       <p className="text-sm text-stone-700">
-        Upload a file exported from Fernwater (<code>.fernwater.json</code>, at most 256 kB). Files from older versions are
-        brought up to date; the scenario is added to {loaderData.tank.name} and run.
+        Upload a file exported from Fernwater (<code>.fernwater.json</code>, at most 256 kB). Files from older versions
+        are brought up to date; the scenario is added to {loaderData.tank.name} and run.
       </p>
       {actionData?.errors[""] ? <FormMessage>{actionData.errors[""]}</FormMessage> : null}
       <Form method="post" encType="multipart/form-data" className="card space-y-3">

@@ -7,8 +7,11 @@ import { buildScenarioForm } from "~/scenario-form.server";
 import { requireOwnedTank } from "~/tanks.server";
 import { readForm } from "~/utils/http.server";
 import { handleSetupSubmission, unitsOf, unitsSummary } from "./setup.server";
+import { Breadcrumbs } from "~/components/breadcrumbs";
 
-export const meta: Route.MetaFunction = ({ data }) => [{ title: `New scenario · ${data?.tank.name ?? "Tank"} · Fernwater` }];
+export const meta: Route.MetaFunction = ({ data }) => [
+  { title: `New scenario · ${data?.tank.name ?? "Tank"} · Fernwater` },
+];
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const user = await requireUser(request);
@@ -39,16 +42,13 @@ export default function NewScenarioPage({ loaderData, actionData }: Route.Compon
   const form = actionData?.form ?? loaderData.form;
   return (
     <div className="space-y-6">
-      <nav aria-label="Breadcrumb" className="text-sm">
-        <Link to="/tanks" className="link">
-          Tanks
-        </Link>{" "}
-        /{" "}
-        <Link to={`/tanks/${tank.id}`} className="link">
-          {tank.name}
-        </Link>{" "}
-        / New scenario
-      </nav>
+      <Breadcrumbs
+        trail={[
+          { to: "/tanks", label: "Tanks" },
+          { to: `/tanks/${tank.id}`, label: tank.name },
+        ]}
+        current="New scenario"
+      />
       <h1 className="text-2xl">New scenario for {tank.name}</h1>
       <section aria-labelledby="presets-title" className="space-y-2">
         <h2 id="presets-title" className="text-lg">
@@ -62,7 +62,9 @@ export default function NewScenarioPage({ loaderData, actionData }: Route.Compon
               aria-current={presetId === null ? "true" : undefined}
             >
               <span className="font-semibold">Typical planted tank</span>
-              <span className="block text-sm text-stone-600">Fernwater’s defaults: change what differs in your tank.</span>
+              <span className="block text-sm text-stone-600">
+                Fernwater’s defaults: change what differs in your tank.
+              </span>
             </Link>
           </li>
           {presets.map((p) => (

@@ -19,15 +19,25 @@ import { unpackSeries } from "~/utils/series-packing";
 import { invalid, readForm } from "~/utils/http.server";
 import { applyWhatIf, whatIfBase, WhatIfSchema } from "~/what-if.server";
 import { ScenarioNameSchema } from "./setup.server";
+import { Breadcrumbs } from "~/components/breadcrumbs";
 
-export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.scenario.name ?? "Results"} · ${data?.tank.name ?? ""} · Fernwater` }];
+export const meta: Route.MetaFunction = ({ data }) => [
+  { title: `${data?.scenario.name ?? "Results"} · ${data?.tank.name ?? ""} · Fernwater` },
+];
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const user = await requireUser(request);
   const { tank, scenario } = requireOwnedScenario(user.id, params.tankId, params.scenarioId);
   const base = { tank: { id: tank.id, name: tank.name }, scenario: { id: scenario.id, name: scenario.name } };
   const settings = readStoredSettings(scenario.settings);
-  if (!settings) return { ...base, error: "The saved settings of this scenario can no longer be read.", results: null, whatIf: null, readings: [] };
+  if (!settings)
+    return {
+      ...base,
+      error: "The saved settings of this scenario can no longer be read.",
+      results: null,
+      whatIf: null,
+      readings: [],
+    };
   const withTargets = withTankTargets(settings, tank);
   const units = displayUnitsFor(user);
   try {
@@ -89,16 +99,13 @@ export default function ResultsPage({ loaderData, actionData }: Route.ComponentP
   const base = `/tanks/${tank.id}/scenarios/${scenario.id}`;
   return (
     <div className="space-y-6">
-      <nav aria-label="Breadcrumb" className="text-sm">
-        <Link to="/tanks" className="link">
-          Tanks
-        </Link>{" "}
-        /{" "}
-        <Link to={`/tanks/${tank.id}`} className="link">
-          {tank.name}
-        </Link>{" "}
-        / {scenario.name}
-      </nav>
+      <Breadcrumbs
+        trail={[
+          { to: "/tanks", label: "Tanks" },
+          { to: `/tanks/${tank.id}`, label: tank.name },
+        ]}
+        current={scenario.name}
+      />
       <div className="flex flex-wrap items-center justify-between gap-3">
         <h1 className="text-2xl">{scenario.name}</h1>
         <div className="flex flex-wrap gap-2">
@@ -132,9 +139,10 @@ export default function ResultsPage({ loaderData, actionData }: Route.ComponentP
             <KeyFiguresList figures={results.keyFigures} units={results.labels} />
             {preview ? (
               <p className="text-sm text-stone-700" aria-live="polite">
-                What if: nitrate at the end {formatNumber(preview.keyFigures.nitrateEnd)} {results.labels.nitrate} (saved{" "}
-                {formatNumber(results.keyFigures.nitrateEnd)}), peak free ammonia {formatNumber(preview.keyFigures.peakFreeNh3.value)}{" "}
-                {results.labels.ammonia}, {formatNumber(preview.keyFigures.daysAboveNitrateTarget)} days above the target.
+                What if: nitrate at the end {formatNumber(preview.keyFigures.nitrateEnd)} {results.labels.nitrate}{" "}
+                (saved {formatNumber(results.keyFigures.nitrateEnd)}), peak free ammonia{" "}
+                {formatNumber(preview.keyFigures.peakFreeNh3.value)} {results.labels.ammonia},{" "}
+                {formatNumber(preview.keyFigures.daysAboveNitrateTarget)} days above the target.
               </p>
             ) : null}
           </section>
@@ -150,7 +158,9 @@ export default function ResultsPage({ loaderData, actionData }: Route.ComponentP
             downloadName={`${tank.name}-${scenario.name}`}
           />
           <p className="text-sm text-stone-700">
-            {loaderData.readings.length ? `${loaderData.readings.length} test readings are drawn as points over the curves. ` : "No test readings fall within this run. "}
+            {loaderData.readings.length
+              ? `${loaderData.readings.length} test readings are drawn as points over the curves. `
+              : "No test readings fall within this run. "}
             <Link to={`/tanks/${tank.id}/readings`} className="link">
               Readings
             </Link>{" "}
@@ -190,13 +200,15 @@ export default function ResultsPage({ loaderData, actionData }: Route.ComponentP
             tapNitrateText={`${formatNumber(results.tapNitrateDisplay)} ${results.labels.nitrate}`}
           />
           <p className="text-xs text-stone-500">
-            {results.engineVersion}: {results.stats.steps} solver steps, {results.stats.rhsEvals} evaluations, {results.stats.wallMs} ms.
+            {results.engineVersion}: {results.stats.steps} solver steps, {results.stats.rhsEvals} evaluations,{" "}
+            {results.stats.wallMs} ms.
           </p>
           <Form method="post" action={`/tanks/${tank.id}`} className="flex flex-wrap items-center gap-3 text-sm">
             <input type="hidden" name="intent" value="delete-scenario" />
             <input type="hidden" name="scenarioId" value={scenario.id} />
             <label className="flex items-center gap-2">
-              <input type="checkbox" name="confirm" value="yes" className="h-4 w-4 accent-red-700" /> Yes, delete this scenario
+              <input type="checkbox" name="confirm" value="yes" className="h-4 w-4 accent-red-700" /> Yes, delete this
+              scenario
             </label>
             <button type="submit" className="btn-danger py-1">
               Delete scenario

@@ -1,5 +1,5 @@
 import { useState } from "react";
-import { Form, Link, useNavigation } from "react-router";
+import { Form, useNavigation } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/manage";
 import { FormMessage } from "~/components/ui/field";
@@ -9,8 +9,11 @@ import { makeLink, sharePath, shareState, turnOffLink } from "~/share.server";
 import { requireOwnedScenario } from "~/tanks.server";
 import { fieldErrors, formValues } from "~/utils/form-errors";
 import { invalid, readForm } from "~/utils/http.server";
+import { Breadcrumbs } from "~/components/breadcrumbs";
 
-export const meta: Route.MetaFunction = ({ data }) => [{ title: `Share ${data?.scenario.name ?? "scenario"} · Fernwater` }];
+export const meta: Route.MetaFunction = ({ data }) => [
+  { title: `Share ${data?.scenario.name ?? "scenario"} · Fernwater` },
+];
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const user = await requireUser(request);
@@ -20,7 +23,9 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     tank: { id: tank.id, name: tank.name },
     scenario: { id: scenario.id, name: scenario.name },
     live: state.live ? { createdAt: state.live.createdAt.toISOString().slice(0, 10) } : null,
-    takedown: state.takedown ? { at: state.takedown.at.toISOString().slice(0, 10), reason: state.takedown.reason } : null,
+    takedown: state.takedown
+      ? { at: state.takedown.at.toISOString().slice(0, 10), reason: state.takedown.reason }
+      : null,
   };
 }
 
@@ -50,7 +55,13 @@ function CopyableLink({ url }: { url: string }) {
         Your public link
       </label>
       <div className="flex flex-wrap gap-2">
-        <input id="share-url" readOnly value={url} className="input figure min-w-0 flex-1 text-sm" onFocus={(e) => e.currentTarget.select()} />
+        <input
+          id="share-url"
+          readOnly
+          value={url}
+          className="input figure min-w-0 flex-1 text-sm"
+          onFocus={(e) => e.currentTarget.select()}
+        />
         <button
           type="button"
           className="btn-secondary"
@@ -65,7 +76,8 @@ function CopyableLink({ url }: { url: string }) {
         </a>
       </div>
       <p className="text-xs text-stone-600">
-        Copy it now: Fernwater keeps only a fingerprint of the link, so it cannot show it again. Lost it? Make a new one.
+        Copy it now: Fernwater keeps only a fingerprint of the link, so it cannot show it again. Lost it? Make a new
+        one.
       </p>
     </div>
   );
@@ -74,37 +86,32 @@ function CopyableLink({ url }: { url: string }) {
 export default function ShareScenarioPage({ loaderData, actionData }: Route.ComponentProps) {
   const { tank, scenario, live, takedown } = loaderData;
   const busy = useNavigation().state === "submitting";
-  const failure = actionData && "errors" in actionData ? actionData.errors[""] ?? Object.values(actionData.errors)[0] : null;
+  const failure =
+    actionData && "errors" in actionData ? (actionData.errors[""] ?? Object.values(actionData.errors)[0]) : null;
   const made = actionData && "done" in actionData && actionData.done === "made" ? actionData.url : null;
   const off = actionData && "done" in actionData && actionData.done === "off";
   return (
     <div className="max-w-3xl space-y-6">
-      <nav aria-label="Breadcrumb" className="text-sm">
-        <Link to="/tanks" className="link">
-          Tanks
-        </Link>{" "}
-        /{" "}
-        <Link to={`/tanks/${tank.id}`} className="link">
-          {tank.name}
-        </Link>{" "}
-        /{" "}
-        <Link to={`/tanks/${tank.id}/scenarios/${scenario.id}`} className="link">
-          {scenario.name}
-        </Link>{" "}
-        / Share
-      </nav>
+      <Breadcrumbs
+        trail={[
+          { to: "/tanks", label: "Tanks" },
+          { to: `/tanks/${tank.id}`, label: tank.name },
+          { to: `/tanks/${tank.id}/scenarios/${scenario.id}`, label: scenario.name },
+        ]}
+        current="Share"
+      />
       <h1 className="text-2xl">Share {scenario.name}</h1>
       <p className="text-sm text-stone-700">
-        A public link opens a read-only page with this scenario’s chart, key figures, nitrogen budget and settings, for anyone
-        who has the link, with or without an account. It does not show your name, your tanks, other scenarios or your test
-        readings. Signed-in visitors can copy the scenario into their own tanks; your scenario stays as it is.
+        A public link opens a read-only page with this scenario’s chart, key figures, nitrogen budget and settings, for
+        anyone who has the link, with or without an account. It does not show your name, your tanks, other scenarios or
+        your test readings. Signed-in visitors can copy the scenario into their own tanks; your scenario stays as it is.
       </p>
       {failure ? <FormMessage>{failure}</FormMessage> : null}
       {off ? <FormMessage tone="success">The link is off: its address now answers “not found”.</FormMessage> : null}
       {takedown ? (
         <FormMessage>
-          An admin took the public link of this scenario down on {takedown.at}. Their reason: {takedown.reason}. While the
-          takedown stands the scenario cannot be shared again; ask an admin if you think it was a mistake.
+          An admin took the public link of this scenario down on {takedown.at}. Their reason: {takedown.reason}. While
+          the takedown stands the scenario cannot be shared again; ask an admin if you think it was a mistake.
         </FormMessage>
       ) : null}
       <section className="card space-y-4" aria-labelledby="link-title">
@@ -139,7 +146,11 @@ export default function ShareScenarioPage({ loaderData, actionData }: Route.Comp
             ) : null}
           </div>
         )}
-        {live ? <p className="text-xs text-stone-600">A new link replaces the old one: the old address stops working at once.</p> : null}
+        {live ? (
+          <p className="text-xs text-stone-600">
+            A new link replaces the old one: the old address stops working at once.
+          </p>
+        ) : null}
       </section>
     </div>
   );

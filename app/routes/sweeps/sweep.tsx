@@ -19,6 +19,7 @@ import { requireOwnedScenario } from "~/tanks.server";
 import { displayUnitsFor, formatNumber } from "~/utils/display-units";
 import { fieldErrors, formValues, type FormFailure } from "~/utils/form-errors";
 import { invalid, readForm } from "~/utils/http.server";
+import { Breadcrumbs } from "~/components/breadcrumbs";
 
 export const meta: Route.MetaFunction = ({ data }) => [
   { title: `Sweep · ${data?.scenario.name ?? "Scenario"} · Fernwater` },
@@ -111,20 +112,14 @@ export default function SweepPage({ loaderData, actionData }: Route.ComponentPro
   const failed = result?.points.filter((p) => p && p.error) ?? [];
   return (
     <div className="space-y-6">
-      <nav aria-label="Breadcrumb" className="text-sm">
-        <Link to="/tanks" className="link">
-          Tanks
-        </Link>{" "}
-        /{" "}
-        <Link to={`/tanks/${tank.id}`} className="link">
-          {tank.name}
-        </Link>{" "}
-        /{" "}
-        <Link to={`/tanks/${tank.id}/scenarios/${scenario.id}`} className="link">
-          {scenario.name}
-        </Link>{" "}
-        / Sweep
-      </nav>
+      <Breadcrumbs
+        trail={[
+          { to: "/tanks", label: "Tanks" },
+          { to: `/tanks/${tank.id}`, label: tank.name },
+          { to: `/tanks/${tank.id}/scenarios/${scenario.id}`, label: scenario.name },
+        ]}
+        current="Sweep"
+      />
       <h1 className="text-2xl">Sweep a setting of {scenario.name}</h1>
       <p className="text-sm text-stone-700">
         The model runs once for each point of the range, with everything else as saved, and plots the outcome against

@@ -1,5 +1,5 @@
 import { useState } from "react";
-import { Form, Link, data, redirect, useNavigation } from "react-router";
+import { Form, data, redirect, useNavigation } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/target";
 import { CautionsPanel } from "~/components/cautions";
@@ -25,6 +25,7 @@ import { displayUnitsFor, formatNumber, unitLabels } from "~/utils/display-units
 import { TARGET_LEVER_LABELS, TARGET_LEVERS } from "~/utils/target-levers";
 import { fieldErrors, formValues, type FormFailure } from "~/utils/form-errors";
 import { invalid, readForm } from "~/utils/http.server";
+import { Breadcrumbs } from "~/components/breadcrumbs";
 
 export const meta: Route.MetaFunction = ({ data }) => [
   { title: `Target finder · ${data?.scenario.name ?? "Scenario"} · Fernwater` },
@@ -139,20 +140,14 @@ export default function TargetPage({ loaderData, actionData }: Route.ComponentPr
   const value = (k: keyof typeof defaults) => String(typed[k] ?? defaults[k]);
   return (
     <div className="space-y-6">
-      <nav aria-label="Breadcrumb" className="text-sm">
-        <Link to="/tanks" className="link">
-          Tanks
-        </Link>{" "}
-        /{" "}
-        <Link to={`/tanks/${tank.id}`} className="link">
-          {tank.name}
-        </Link>{" "}
-        /{" "}
-        <Link to={`/tanks/${tank.id}/scenarios/${scenario.id}`} className="link">
-          {scenario.name}
-        </Link>{" "}
-        / Target finder
-      </nav>
+      <Breadcrumbs
+        trail={[
+          { to: "/tanks", label: "Tanks" },
+          { to: `/tanks/${tank.id}`, label: tank.name },
+          { to: `/tanks/${tank.id}/scenarios/${scenario.id}`, label: scenario.name },
+        ]}
+        current="Target finder"
+      />
       <h1 className="text-2xl">Find the change that meets a goal</h1>
       <p className="text-sm text-stone-700">
         Say what you want and what you are willing to change; the model is run over and over, halving the range each

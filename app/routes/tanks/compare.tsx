@@ -1,4 +1,4 @@
-import { Form, Link } from "react-router";
+import { Form } from "react-router";
 import type { Route } from "./+types/compare";
 import { CompareChart } from "~/components/charts/compare-chart";
 import type { SeriesKey } from "~/components/charts/types";
@@ -11,6 +11,7 @@ import { ensureRun, isModelError, readStoredSettings, withTankTargets } from "~/
 import { listScenarios, requireOwnedTank } from "~/tanks.server";
 import { displayUnitsFor, formatNumber } from "~/utils/display-units";
 import { budgetSections } from "~/components/charts/budget-model";
+import { Breadcrumbs } from "~/components/breadcrumbs";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `Compare · ${data?.tank.name ?? "Tank"} · Fernwater` }];
 
@@ -83,16 +84,13 @@ export default function ComparePage({ loaderData }: Route.ComponentProps) {
   const first = runs[0];
   return (
     <div className="space-y-6">
-      <nav aria-label="Breadcrumb" className="text-sm">
-        <Link to="/tanks" className="link">
-          Tanks
-        </Link>{" "}
-        /{" "}
-        <Link to={`/tanks/${tank.id}`} className="link">
-          {tank.name}
-        </Link>{" "}
-        / Compare
-      </nav>
+      <Breadcrumbs
+        trail={[
+          { to: "/tanks", label: "Tanks" },
+          { to: `/tanks/${tank.id}`, label: tank.name },
+        ]}
+        current="Compare"
+      />
       <h1 className="text-2xl">Compare scenarios of {tank.name}</h1>
       <Form method="get" className="card flex flex-wrap items-end gap-4">
         <fieldset>
@@ -100,7 +98,13 @@ export default function ComparePage({ loaderData }: Route.ComponentProps) {
           <div className="mt-1 flex flex-wrap gap-3">
             {choices.map((c) => (
               <label key={c.id} className="flex items-center gap-2 text-sm">
-                <input type="checkbox" name="s" value={c.id} defaultChecked={c.chosen} className="h-5 w-5 accent-fern-700" />
+                <input
+                  type="checkbox"
+                  name="s"
+                  value={c.id}
+                  defaultChecked={c.chosen}
+                  className="h-5 w-5 accent-fern-700"
+                />
                 {c.name}
               </label>
             ))}
@@ -141,7 +145,9 @@ export default function ComparePage({ loaderData }: Route.ComponentProps) {
             </h2>
             <div className="overflow-x-auto">
               <table className="w-full min-w-[36rem] border-collapse text-sm">
-                <caption className="sr-only">Key figures of each scenario; differences from the baseline are marked</caption>
+                <caption className="sr-only">
+                  Key figures of each scenario; differences from the baseline are marked
+                </caption>
                 <thead>
                   <tr className="border-b border-stone-300 text-left">
                     <th scope="col" className="py-2 pr-3">
@@ -163,10 +169,15 @@ export default function ComparePage({ loaderData }: Route.ComponentProps) {
                       </th>
                       {runs.map((r) => {
                         const cells = keyFigureRows(r.keyFigures, r.labels);
-                        const numeric = (text: string) => (/^-?[\d.,]+$/.test(text) ? Number(text.replace(/,/g, "")) : null);
+                        const numeric = (text: string) =>
+                          /^-?[\d.,]+$/.test(text) ? Number(text.replace(/,/g, "")) : null;
                         return (
                           <td key={r.id} className="num py-2 pr-3">
-                            <Diff value={numeric(cells[rowIndex].value)} baseline={numeric(keyFigureRows(first.keyFigures, first.labels)[rowIndex].value)} text={cells[rowIndex].value} />
+                            <Diff
+                              value={numeric(cells[rowIndex].value)}
+                              baseline={numeric(keyFigureRows(first.keyFigures, first.labels)[rowIndex].value)}
+                              text={cells[rowIndex].value}
+                            />
                           </td>
                         );
                       })}
@@ -198,7 +209,10 @@ export default function ComparePage({ loaderData }: Route.ComponentProps) {
                 <tbody>
                   {budgetTableRows(first.budget).map((row, rowIndex) => (
                     <tr key={row.key} className={`border-b border-stone-200 ${row.total ? "font-semibold" : ""}`}>
-                      <th scope="row" className={`py-2 pr-3 text-left ${row.total ? "font-semibold" : "font-normal"} ${row.level ? "pl-4" : ""}`}>
+                      <th
+                        scope="row"
+                        className={`py-2 pr-3 text-left ${row.total ? "font-semibold" : "font-normal"} ${row.level ? "pl-4" : ""}`}
+                      >
                         {row.section}: {row.label}
                       </th>
                       {runs.map((r) => {

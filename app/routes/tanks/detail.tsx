@@ -14,6 +14,7 @@ import { displayUnitsFor, formatNumber, unitLabels } from "~/utils/display-units
 import { fieldErrors, formValues } from "~/utils/form-errors";
 import { invalid, readForm } from "~/utils/http.server";
 import { TankNameSchema, TankNotesSchema } from "./tanks.server";
+import { Breadcrumbs } from "~/components/breadcrumbs";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.tank.name ?? "Tank"} · Fernwater` }];
 
@@ -58,7 +59,10 @@ const SettingsSchema = z
     nitrateLow: bandNumber("The low end"),
     nitrateHigh: bandNumber("The high end"),
   })
-  .refine((v) => v.nitrateLow <= v.nitrateHigh, { path: ["nitrateLow"], message: "The low end must not be above the high end." });
+  .refine((v) => v.nitrateLow <= v.nitrateHigh, {
+    path: ["nitrateLow"],
+    message: "The low end must not be above the high end.",
+  });
 
 const DeleteTankSchema = z.object({
   intent: z.literal("delete-tank"),
@@ -99,7 +103,9 @@ export async function action({ request, params }: Route.ActionArgs) {
     if (!parsed.success) return invalid(fieldErrors(parsed.error), values);
     // Scenarios, runs, readings, share links and lesson copies go with it (foreign keys cascade), all or nothing.
     db.transaction((tx) => {
-      tx.delete(tanks).where(and(eq(tanks.id, tank.id), eq(tanks.ownerId, user.id))).run();
+      tx.delete(tanks)
+        .where(and(eq(tanks.id, tank.id), eq(tanks.ownerId, user.id)))
+        .run();
     });
     return redirect("/tanks");
   }
@@ -125,12 +131,7 @@ export default function TankPage({ loaderData, actionData }: Route.ComponentProp
   const busy = useNavigation().state === "submitting";
   return (
     <div className="space-y-6">
-      <nav aria-label="Breadcrumb" className="text-sm">
-        <Link to="/tanks" className="link">
-          Tanks
-        </Link>{" "}
-        / {tank.name}
-      </nav>
+      <Breadcrumbs trail={[{ to: "/tanks", label: "Tanks" }]} current={tank.name} />
       <div className="flex flex-wrap items-center justify-between gap-3">
         <h1 className="text-2xl">{tank.name}</h1>
         <div className="flex flex-wrap gap-2">
@@ -185,7 +186,13 @@ export default function TankPage({ loaderData, actionData }: Route.ComponentProp
                   {loaderData.scenarios.map((s) => (
                     <tr key={s.id} className="border-b border-stone-200">
                       <td className="py-2 pr-2">
-                        <input type="checkbox" name="s" value={s.id} aria-label={`Compare ${s.name}`} className="h-5 w-5 accent-fern-700" />
+                        <input
+                          type="checkbox"
+                          name="s"
+                          value={s.id}
+                          aria-label={`Compare ${s.name}`}
+                          className="h-5 w-5 accent-fern-700"
+                        />
                       </td>
                       <td className="py-2 pr-2">
                         <Link to={`/tanks/${tank.id}/scenarios/${s.id}`} className="link">
@@ -218,10 +225,20 @@ export default function TankPage({ loaderData, actionData }: Route.ComponentProp
         <Form method="post" className="grid gap-4 sm:grid-cols-2" noValidate>
           <input type="hidden" name="intent" value="settings" />
           <div className="sm:col-span-2">
-            <TextField label="Name" name="name" defaultValue={values.intent === "settings" ? values.name : tank.name} error={errors.name} />
+            <TextField
+              label="Name"
+              name="name"
+              defaultValue={values.intent === "settings" ? values.name : tank.name}
+              error={errors.name}
+            />
           </div>
           <div className="sm:col-span-2">
-            <TextField label="Notes" name="notes" defaultValue={values.intent === "settings" ? values.notes : tank.notes} error={errors.notes} />
+            <TextField
+              label="Notes"
+              name="notes"
+              defaultValue={values.intent === "settings" ? values.notes : tank.notes}
+              error={errors.notes}
+            />
           </div>
           <TextField
             label="Nitrate target, low"
@@ -253,8 +270,9 @@ export default function TankPage({ loaderData, actionData }: Route.ComponentProp
           Delete this tank
         </h2>
         <p className="text-sm">
-          This deletes the tank with its {loaderData.scenarios.length} scenario{loaderData.scenarios.length === 1 ? "" : "s"}, their
-          runs and share links, and all its readings. It cannot be undone.
+          This deletes the tank with its {loaderData.scenarios.length} scenario
+          {loaderData.scenarios.length === 1 ? "" : "s"}, their runs and share links, and all its readings. It cannot be
+          undone.
         </p>
         <Form method="post" className="space-y-3">
           <input type="hidden" name="intent" value="delete-tank" />
