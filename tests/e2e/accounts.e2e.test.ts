@@ -34,8 +34,8 @@ describe("accounts in the browser", () => {
     await page.getByText("Enter an e-mail address like name@example.org.").waitFor();
     await page.getByText("Use at least 10 characters.").waitFor();
     await page.getByText("The two passwords differ.").waitFor();
-    await expect(page.getByLabel("Name").inputValue()).resolves.toBe("Half Done");
-    await expect(page.getByLabel("E-mail").getAttribute("aria-invalid")).resolves.toBe("true");
+    await expect.poll(() => page.getByLabel("Name").inputValue()).toBe("Half Done");
+    await expect.poll(() => page.getByLabel("E-mail").getAttribute("aria-invalid")).toBe("true");
     await shot(page, "accounts-sign-up-errors");
     expectNoConsoleErrors(page);
   });
@@ -94,7 +94,7 @@ describe("accounts in the browser", () => {
     await keeperPage.getByLabel("Password again").fill("promote me please");
     await keeperPage.getByRole("button", { name: "Create account" }).click();
     await keeperPage.waitForURL("**/tanks");
-    await expect(keeperPage.getByRole("link", { name: "Admin" }).count()).resolves.toBe(0);
+    await expect.poll(() => keeperPage.getByRole("link", { name: "Admin" }).count()).toBe(0);
     expect((await keeperPage.goto("/admin"))?.status()).toBe(403);
 
     const adminPage = await newPage();

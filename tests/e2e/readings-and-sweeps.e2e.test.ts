@@ -58,38 +58,38 @@ describe("readings, calibration and sweeps in the browser", () => {
     expect(lines).toHaveLength(4);
     const extra = `${isoDay(2)}T19:00,0,0,twenty,7.2,5,25,evening`;
     await uploadCsv(page, tankUrl, [...lines, extra].join("\r\n"));
-    await expect(page.getByText("Nothing was stored: one row needs attention.").isVisible()).resolves.toBe(true);
-    await expect(page.getByText(/Line 5/).isVisible()).resolves.toBe(true);
-    await expect(page.getByText(/Nitrate must be a number.*“twenty”/).isVisible()).resolves.toBe(true);
+    await page.getByText("Nothing was stored: one row needs attention.").waitFor();
+    await page.getByText(/Line 5/).waitFor();
+    await page.getByText(/Nitrate must be a number.*“twenty”/).waitFor();
     await shot(page, "readings-upload-refused");
     await page.goto(`${tankUrl}/readings`);
-    await expect(page.getByRole("heading", { name: "No readings yet" }).isVisible()).resolves.toBe(true);
+    await page.getByRole("heading", { name: "No readings yet" }).waitFor();
 
     await uploadCsv(page, tankUrl, [...lines, extra.replace("twenty", "20")].join("\r\n"));
-    await expect(page.getByText("Stored 4 readings.").isVisible()).resolves.toBe(true);
+    await page.getByText("Stored 4 readings.").waitFor();
     await page.goto(`${tankUrl}/readings`);
-    await expect(page.getByRole("heading", { name: "4 readings" }).isVisible()).resolves.toBe(true);
+    await page.getByRole("heading", { name: "4 readings" }).waitFor();
     await shot(page, "readings-table");
 
     // The points on the results chart, with the residual at the cursor.
     await page.goto(scenarioUrl);
     await page.getByRole("application").waitFor();
-    await expect(page.getByText("4 test readings are drawn as points over the curves.").isVisible()).resolves.toBe(true);
+    await page.getByText("4 test readings are drawn as points over the curves.").waitFor();
     const points = page.locator("svg title").filter({ hasText: /NO3 reading, day \d/ });
-    await expect(points.count()).resolves.toBe(4);
+    await expect.poll(() => points.count()).toBe(4);
     await shot(page, "readings-on-chart");
 
     // Calibrate the feed load against them.
     await page.getByRole("link", { name: "Calibrate against them" }).click();
     await page.waitForURL(/\/calibrate$/);
-    await expect(page.getByText(/4\s+of the tank’s 4 readings fall within it/).isVisible()).resolves.toBe(true);
+    await page.getByText(/4\s+of the tank’s 4 readings fall within it/).waitFor();
     await page.getByLabel(/Plant uptake/).uncheck();
     await page.getByLabel(/Filter capacity/).uncheck();
     await page.getByRole("button", { name: "Fit to 4 readings" }).click();
     await page.getByRole("heading", { name: "The fit" }).waitFor({ timeout: 30_000 });
     const fitted = page.locator('tr[data-multiplier="feedLoad"] td').nth(1);
-    await expect(fitted.textContent()).resolves.toMatch(/^×\d+(\.\d+)?/);
-    await expect(page.getByRole("button", { name: "Save the fitted multipliers as a new scenario" }).isVisible()).resolves.toBe(true);
+    await expect.poll(() => fitted.textContent()).toMatch(/^×\d+(\.\d+)?/);
+    await page.getByRole("button", { name: "Save the fitted multipliers as a new scenario" }).waitFor();
     await shot(page, "calibration-fit");
 
     // A 20-point sweep: the bar starts, moves, and the plot follows.
@@ -102,11 +102,11 @@ describe("readings, calibration and sweeps in the browser", () => {
     await page.waitForURL(/sweep\?job=/);
     const bar = page.locator("progress");
     await bar.waitFor();
-    await expect(bar.getAttribute("max")).resolves.toBe("20");
+    await expect.poll(() => bar.getAttribute("max")).toBe("20");
     await page.getByText("Done: 20 of 20 engine runs").waitFor({ timeout: 30_000 });
-    await expect(bar.getAttribute("value")).resolves.toBe("20");
+    await expect.poll(() => bar.getAttribute("value")).toBe("20");
     const plot = page.locator("svg").filter({ has: page.locator("title", { hasText: "against food per day" }) });
-    await expect(plot.locator("circle").count()).resolves.toBe(20);
+    await expect.poll(() => plot.locator("circle").count()).toBe(20);
     await shot(page, "sweep-20-points");
 
     const phone = await newPage({ width: 375 });

@@ -76,7 +76,7 @@ describe("a keeper's tank in the browser", () => {
     await page.getByText("Plants", { exact: true }).click();
     await page.getByLabel("Growth form of the new group").selectOption("floating");
     await page.getByRole("button", { name: "Add a plant group" }).click();
-    await expect(page.locator("fieldset[data-plant-row]").count()).resolves.toBe(2);
+    await expect.poll(() => page.locator("fieldset[data-plant-row]").count()).toBe(2);
     await shot(page, "setup-floating");
     await page.getByRole("button", { name: "Save and run" }).click();
     await page.waitForURL(/\/scenarios\/\d+$/);
@@ -106,8 +106,8 @@ describe("a keeper's tank in the browser", () => {
     await page.getByLabel("Water volume").fill("-5");
     await page.getByRole("button", { name: "Save and run" }).click();
     await page.getByText("Water volume must be at least 1 L.").waitFor();
-    await expect(page.getByLabel("Water volume").inputValue()).resolves.toBe("-5");
-    await expect(page.getByLabel("Water volume").getAttribute("aria-invalid")).resolves.toBe("true");
+    await expect.poll(() => page.getByLabel("Water volume").inputValue()).toBe("-5");
+    await expect.poll(() => page.getByLabel("Water volume").getAttribute("aria-invalid")).toBe("true");
     expect(new URL(page.url()).pathname).toMatch(/\/scenarios\/new$/);
     await shot(page, "setup-error");
     expectNoConsoleErrors(page);

@@ -95,7 +95,7 @@ describe("share links in the browser", () => {
     await owner.getByRole("link", { name: "As kept now" }).first().click();
     await owner.getByRole("link", { name: "Share" }).click();
     await owner.getByText("Their reason: Names a shop in the scenario title").waitFor();
-    await expect(owner.getByRole("button", { name: /Turn on a public link|Make a new link/ }).count()).resolves.toBe(0);
+    await expect.poll(() => owner.getByRole("button", { name: /Turn on a public link|Make a new link/ }).count()).toBe(0);
 
     // Restored, the demo link works again for the other tests and the demo.
     await card.getByRole("button", { name: "Restore" }).click();
@@ -153,14 +153,14 @@ describe("classes in the browser", () => {
     // Temperature is open; pH is locked (drawn read-only, and refused by the server if forged:
     // tests/integration/classes.test.ts).
     const temperature = student.getByLabel(/^Temperature/);
-    await expect(temperature.isEditable()).resolves.toBe(true);
-    await expect(student.locator("#f-water-pH").isDisabled()).resolves.toBe(true);
+    await expect.poll(() => temperature.isEditable()).toBe(true);
+    await expect.poll(() => student.locator("#f-water-pH").isDisabled()).toBe(true);
     await student.getByText("(locked by the lesson)").first().waitFor();
     await temperature.fill("30");
     await shot(student, "lesson-work-phone");
     await student.getByRole("button", { name: "Save and run" }).click();
     await student.waitForURL(/\/work\?saved=1/);
-    await expect(student.getByLabel(/^Temperature/).inputValue()).resolves.toBe("30");
+    await expect.poll(() => student.getByLabel(/^Temperature/).inputValue()).toBe("30");
 
     await student.getByLabel("Your answer").fill("Warmer water: the bacteria grow faster, so nitrite falls sooner.");
     await student.getByRole("button", { name: "Hand in" }).click();

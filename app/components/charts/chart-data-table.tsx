@@ -86,6 +86,9 @@ export const ChartDataTable = memo(function ChartDataTable({
 }: ChartDataTableProps) {
   const captionId = useId();
   const [showAll, setShowAll] = useState(false);
+  // The rows are drawn when the table is opened: a closed table costs the server nothing
+  // (rendering hundreds of cells into every page was most of a results page's render time).
+  const [open, setOpen] = useState(false);
   const { indices, daily } = useMemo(() => tableRowIndices(t), [t]);
 
   // Events per row: on daily rows every event of that day; on sample rows the sample it belongs to.
@@ -111,68 +114,75 @@ export const ChartDataTable = memo(function ChartDataTable({
   const hasEvents = events.length > 0;
 
   return (
-    <details className="rounded-md border border-stone-200 bg-white">
+    <details className="rounded-md border border-stone-200 bg-white" onToggle={(e) => setOpen(e.currentTarget.open)}>
       <summary className="cursor-pointer px-3 py-2 text-sm font-semibold text-fern-800">{summary}</summary>
-      <div className="space-y-2 px-3 pb-3">
-        <div className="max-h-[32rem] overflow-auto" tabIndex={0} role="region" aria-labelledby={captionId}>
-          <table className="w-full border-collapse text-sm">
-            <caption id={captionId} className="py-2 text-left text-sm text-stone-700">
-              {caption}
-              {daily ? " — one row per day, at the start of the day (before that day's maintenance)." : "."}
-              {long && !showAll ? ` First ${initialRows} of ${indices.length} rows.` : ""}
-            </caption>
-            <thead className="sticky top-0 bg-white">
-              <tr className="border-b border-stone-300 text-left align-bottom">
-                <th scope="col" className="px-2 py-1">
-                  Day
-                </th>
-                {columns.map((c) => (
-                  <th key={c.key} scope="col" className="num px-2 py-1 text-right">
-                    <span className="font-serif">{c.label}</span>
-                    <br />
-                    <span className="text-xs font-normal text-stone-600">{c.unit}</span>
-                  </th>
-                ))}
-                {hasEvents ? (
+      {open ? (
+        <div className="space-y-2 px-3 pb-3">
+          <div className="max-h-[32rem] overflow-auto" tabIndex={0} role="region" aria-labelledby={captionId}>
+            <table className="w-full border-collapse text-sm">
+              <caption id={captionId} className="py-2 text-left text-sm text-stone-700">
+                {caption}
+                {daily ? " — one row per day, at the start of the day (before that day's maintenance)." : "."}
+                {long && !showAll ? ` First ${initialRows} of ${indices.length} rows.` : ""}
+              </caption>
+              <thead className="sticky top-0 bg-white">
+                <tr className="border-b border-stone-300 text-left align-bottom">
                   <th scope="col" className="px-2 py-1">
-                    Events
+                    Day
                   </th>
-                ) : null}
-              </tr>
-            </thead>
-            <tbody>
-              {shown.map((i) => {
-                const day = t[i];
-                const side = daily ? null : sampleSide(t, i);
-                const evs = rowEvents.get(i);
-                return (
-                  <tr key={i} className="border-b border-stone-100 align-top">
-                    <th scope="row" className="num whitespace-nowrap px-2 py-1 text-left font-normal">
-                      {formatDay(day).replace(/^day /, "")}
-                      {side ? <span className="text-xs text-stone-600"> ({side})</span> : null}
+                  {columns.map((c) => (
+                    <th key={c.key} scope="col" className="num px-2 py-1 text-right">
+                      <span className="font-serif">{c.label}</span>
+                      <br />
+                      <span className="text-xs font-normal text-stone-600">{c.unit}</span>
                     </th>
-                    {columns.map((c) => (
-                      <td key={c.key} className="num px-2 py-1 text-right">
-                        {formatNumber(c.at(i, day), 4)}
-                      </td>
-                    ))}
-                    {hasEvents ? (
-                      <td className="px-2 py-1 text-xs text-stone-700">
-                        {evs ? evs.map(describeEvent).join("; ") : ""}
-                      </td>
-                    ) : null}
-                  </tr>
-                );
-              })}
-            </tbody>
-          </table>
+                  ))}
+                  {hasEvents ? (
+                    <th scope="col" className="px-2 py-1">
+                      Events
+                    </th>
+                  ) : null}
+                </tr>
+              </thead>
+              <tbody>
+                {shown.map((i) => {
+                  const day = t[i];
+                  const side = daily ? null : sampleSide(t, i);
+                  const evs = rowEvents.get(i);
+                  return (
+                    <tr key={i} className="border-b border-stone-100 align-top">
+                      <th scope="row" className="num whitespace-nowrap px-2 py-1 text-left font-normal">
+                        {formatDay(day).replace(/^day /, "")}
+                        {side ? <span className="text-xs text-stone-600"> ({side})</span> : null}
+                      </th>
+                      {columns.map((c) => (
+                        <td key={c.key} className="num px-2 py-1 text-right">
+                          {formatNumber(c.at(i, day), 4)}
+                        </td>
+                      ))}
+                      {hasEvents ? (
+                        <td className="px-2 py-1 text-xs text-stone-700">
+                          {evs ? evs.map(describeEvent).join("; ") : ""}
+                        </td>
+                      ) : null}
+                    </tr>
+                  );
+                })}
+              </tbody>
+            </table>
+          </div>
+          {long ? (
+            <button
+              type="button"
+              className="btn-secondary"
+              aria-pressed={showAll}
+              onClick={() => setShowAll((v) => !v)}
+            >
+              {showAll ? `Show the first ${initialRows} rows` : `Show all ${indices.length} rows`}
+            </button>
+          ) : null}
         </div>
-        {long ? (
-          <button type="button" className="btn-secondary" aria-pressed={showAll} onClick={() => setShowAll((v) => !v)}>
-            {showAll ? `Show the first ${initialRows} rows` : `Show all ${indices.length} rows`}
-          </button>
-        ) : null}
-      </div>
+      ) : null}
     </details>
   );
 });
