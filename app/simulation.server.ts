@@ -4,7 +4,7 @@
  * so opening a results page does not re-read a megabyte of JSON each time.
  */
 import { createHash } from "node:crypto";
-import { and, desc, eq, sql } from "drizzle-orm";
+import { and, desc, eq, inArray, sql } from "drizzle-orm";
 import {
   ENGINE_VERSION,
   isModelError,
@@ -141,15 +141,21 @@ export function findRun(scenarioId: number, hash: string): StoredRun | null {
   return row ? getRun(row.id) : null;
 }
 
-/** The newest run of a scenario whatever its settings (for lists of key figures). */
-export function latestRunSummary(scenarioId: number): { id: number; keyFigures: KeyFigures; createdAt: Date } | null {
-  const row = getDb()
-    .select({ id: runs.id, keyFigures: runs.keyFigures, createdAt: runs.createdAt })
+/**
+ * The newest run's key figures of each of these scenarios, whatever their settings (for lists):
+ * one query for the whole list. Runs are kept one per scenario (insertRun), newest id wins.
+ */
+export function latestKeyFigures(scenarioIds: number[]): Map<number, KeyFigures> {
+  const out = new Map<number, KeyFigures>();
+  if (scenarioIds.length === 0) return out;
+  const rows = getDb()
+    .select({ scenarioId: runs.scenarioId, keyFigures: runs.keyFigures })
     .from(runs)
-    .where(eq(runs.scenarioId, scenarioId))
+    .where(inArray(runs.scenarioId, scenarioIds))
     .orderBy(desc(runs.id))
-    .get();
-  return row ? { id: row.id, keyFigures: row.keyFigures as KeyFigures, createdAt: row.createdAt } : null;
+    .all();
+  for (const r of rows) if (!out.has(r.scenarioId)) out.set(r.scenarioId, r.keyFigures as KeyFigures);
+  return out;
 }
 
 type Tx = Parameters<Parameters<ReturnType<typeof getDb>["transaction"]>[0]>[0];

@@ -1,4 +1,4 @@
-import { and, eq } from "drizzle-orm";
+import { and, asc, eq } from "drizzle-orm";
 import { Form, Link, redirect, useNavigation } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/detail";
@@ -8,8 +8,8 @@ import { scenarios, tanks } from "~/db/schema";
 import { displayKeyFigures } from "~/display-figures.server";
 import { speciesFactor } from "~/display-units.server";
 import { requireUser } from "~/permissions.server";
-import { latestRunSummary } from "~/simulation.server";
-import { listScenarios, requireOwnedTank } from "~/tanks.server";
+import { latestKeyFigures } from "~/simulation.server";
+import { requireOwnedTank } from "~/tanks.server";
 import { displayUnitsFor, formatNumber, unitLabels } from "~/utils/display-units";
 import { fieldErrors, formValues } from "~/utils/form-errors";
 import { invalid, readForm } from "~/utils/http.server";
@@ -23,6 +23,14 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const tank = requireOwnedTank(user.id, params.tankId);
   const units = displayUnitsFor(user);
   const no3 = speciesFactor("nitrate", units);
+  // Names and dates only (no settings), and every scenario's key figures in one query.
+  const list = getDb()
+    .select({ id: scenarios.id, name: scenarios.name, updatedAt: scenarios.updatedAt })
+    .from(scenarios)
+    .where(eq(scenarios.tankId, tank.id))
+    .orderBy(asc(scenarios.createdAt), asc(scenarios.id))
+    .all();
+  const latest = latestKeyFigures(list.map((s) => s.id));
   return {
     tank: {
       id: tank.id,
@@ -32,13 +40,13 @@ export async function loader({ request, params }: Route.LoaderArgs) {
       nitrateHigh: formatNumber(tank.nitrateTargetHigh * no3, 4),
     },
     labels: unitLabels(units),
-    scenarios: listScenarios(tank.id).map((s) => {
-      const run = latestRunSummary(s.id);
+    scenarios: list.map((s) => {
+      const figures = latest.get(s.id);
       return {
         id: s.id,
         name: s.name,
         updatedAt: s.updatedAt.toISOString().slice(0, 10),
-        figures: run ? displayKeyFigures(run.keyFigures, units) : null,
+        figures: figures ? displayKeyFigures(figures, units) : null,
       };
     }),
   };
