@@ -363,6 +363,18 @@ export function findJob(userId: number, id: string): Job | null {
 }
 
 /** Cancels this person's job between engine runs; returns it, or null if there is no such job. */
+/**
+ * The job a scenario page names in its `?job=` parameter, if it is this person's job of this
+ * kind for this scenario (anything else, even someone else's id, is simply no job).
+ */
+export function findScenarioJob(userId: number, request: Request, kind: JobKind, scenarioId: number): Job | null {
+  const jobId = new URL(request.url).searchParams.get("job");
+  const found = jobId ? findJob(userId, jobId) : null;
+  return found && found.kind === kind && (found.params as { scenarioId?: number } | null)?.scenarioId === scenarioId
+    ? found
+    : null;
+}
+
 export function cancelJob(userId: number, id: string): Job | null {
   const job = findJob(userId, id);
   if (job && job.status === "running") job.controller.abort();

@@ -10,7 +10,7 @@ import {
   startCalibration,
   type CalibrationJson,
 } from "~/calibration.server";
-import { cancelJob, findJob, jobJson, JobRefused } from "~/jobs.server";
+import { cancelJob, findScenarioJob, jobJson, JobRefused } from "~/jobs.server";
 import { requireUser } from "~/permissions.server";
 import { countReadings, modelStartMs, readingsForCalibration } from "~/readings.server";
 import { readStoredSettings, withTankTargets } from "~/simulation.server";
@@ -36,12 +36,7 @@ async function context(request: Request, params: Route.LoaderArgs["params"]) {
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const { user, tank, row, settings, startMs } = await context(request, params);
-  const jobId = new URL(request.url).searchParams.get("job");
-  const found = jobId ? findJob(user.id, jobId) : null;
-  const job =
-    found && found.kind === "calibration" && (found.params as { scenarioId: number }).scenarioId === row.id
-      ? found
-      : null;
+  const job = findScenarioJob(user.id, request, "calibration", row.id);
   const lengthDays = settings?.run.lengthDays ?? 0;
   return {
     tank: { id: tank.id, name: tank.name },

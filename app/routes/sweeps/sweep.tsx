@@ -4,7 +4,7 @@ import type { Route } from "./+types/sweep";
 import { XYChart } from "~/components/charts/xy-chart";
 import { JobProgress, useJob } from "~/components/job-progress";
 import { FormMessage, SelectField, TextField } from "~/components/ui/field";
-import { cancelJob, findJob, JOB_LIMITS, jobJson, JobRefused } from "~/jobs.server";
+import { cancelJob, findScenarioJob, JOB_LIMITS, jobJson, JobRefused } from "~/jobs.server";
 import { requireUser } from "~/permissions.server";
 import { readStoredSettings, withTankTargets } from "~/simulation.server";
 import {
@@ -36,10 +36,7 @@ async function context(request: Request, params: Route.LoaderArgs["params"]) {
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const { user, tank, row, units, levers } = await context(request, params);
-  const jobId = new URL(request.url).searchParams.get("job");
-  const found = jobId ? findJob(user.id, jobId) : null;
-  const job =
-    found && found.kind === "sweep" && (found.params as { scenarioId: number }).scenarioId === row.id ? found : null;
+  const job = findScenarioJob(user.id, request, "sweep", row.id);
   return {
     tank: { id: tank.id, name: tank.name },
     scenario: { id: row.id, name: row.name },

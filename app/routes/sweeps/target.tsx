@@ -7,7 +7,7 @@ import { JobProgress, useJob } from "~/components/job-progress";
 import { FormMessage, SelectField, TextField } from "~/components/ui/field";
 import { FREE_NH3_CAUTION_MG_N } from "~/display-figures.server";
 import { speciesFactor } from "~/display-units.server";
-import { cancelJob, findJob, jobJson, JobRefused } from "~/jobs.server";
+import { cancelJob, findScenarioJob, jobJson, JobRefused } from "~/jobs.server";
 import { requireUser } from "~/permissions.server";
 import { DRINKING_WATER_NITRATE_MG_N } from "~/results.server";
 import { modelStartMs } from "~/readings.server";
@@ -40,10 +40,7 @@ async function context(request: Request, params: Route.LoaderArgs["params"]) {
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const { user, tank, row, settings, units } = await context(request, params);
-  const jobId = new URL(request.url).searchParams.get("job");
-  const found = jobId ? findJob(user.id, jobId) : null;
-  const job =
-    found && found.kind === "target" && (found.params as { scenarioId: number }).scenarioId === row.id ? found : null;
+  const job = findScenarioJob(user.id, request, "target", row.id);
   const no3 = speciesFactor("nitrate", units);
   const m = settings?.maintenance;
   return {
