@@ -2,10 +2,21 @@
 import { eq } from "drizzle-orm";
 import { z } from "zod";
 import { parseScenario, type Scenario, type SimulationResult } from "../models";
-import { apiError, zodIssues } from "~/api.server";
+import { apiError, apiFind, json, zodIssues } from "~/api.server";
+import { jobJson, JobRefused, type Job } from "~/jobs.server";
+import { requireApiUser } from "~/permissions.server";
+import { requireOwnedScenarioById } from "~/tanks.server";
 import { getDb } from "~/db/client.server";
 import { scenarios } from "~/db/schema";
-import { insertRun, isModelError, runEngine, settingsHash, withTankTargets, type StoredRun } from "~/simulation.server";
+import {
+  insertRun,
+  isModelError,
+  readStoredSettings,
+  runEngine,
+  settingsHash,
+  withTankTargets,
+  type StoredRun,
+} from "~/simulation.server";
 import type { ScenarioRow, TankRow } from "~/tanks.server";
 
 export const ScenarioBodySchema = z
@@ -92,7 +103,12 @@ export function insertScenarioWithRun(
 }
 
 /** Creates (target "new") or overwrites a scenario together with its run, in one transaction. */
-export async function saveScenarioWithRun(tank: TankRow, target: "new" | number, name: string, settings: Scenario): Promise<number> {
+export async function saveScenarioWithRun(
+  tank: TankRow,
+  target: "new" | number,
+  name: string,
+  settings: Scenario,
+): Promise<number> {
   const scenario = withTankTargets(settings, tank);
   const result = await runOrRefuse(scenario);
   return getDb().transaction((tx) => {
@@ -104,4 +120,30 @@ export async function saveScenarioWithRun(tank: TankRow, target: "new" | number,
     insertRun(tx, target, settingsHash(scenario), result);
     return target;
   });
+}
+
+/**
+ * For API routes that start work on a saved scenario: the signed-in person's scenario (JSON 404
+ * otherwise), its tank, and its settings with the tank's nitrate band (409 if they no longer read).
+ */
+export async function requireApiScenario(request: Request, scenarioIdParam: string | undefined) {
+  const user = await requireApiUser(request);
+  const { tank, scenario: row } = apiFind(
+    () => requireOwnedScenarioById(user.id, scenarioIdParam),
+    "There is no such scenario among yours.",
+  );
+  const settings = readStoredSettings(row.settings);
+  if (!settings) throw apiError(409, "The saved settings can no longer be read; update the scenario first.");
+  return { user, tank, row, scenario: withTankTargets(settings, tank) };
+}
+
+/** 202 with the started job and where to poll it; a refused start (one job at a time, busy) keeps its status. */
+export function jobAccepted(start: () => Job): Response {
+  try {
+    const job = start();
+    return json({ job: jobJson(job), links: { progress: `/api/jobs/${job.id}` } }, { status: 202 });
+  } catch (error) {
+    if (error instanceof JobRefused) return apiError(error.status, error.message);
+    throw error;
+  }
 }
