@@ -1,3 +1,5 @@
+import { formatSignificant } from "~/utils/format";
+
 /**
  * The units a person sees, derived from their account preferences. Isomorphic: labels only,
  * no conversion code (conversions run on the server, app/display-units.server.ts, so mathjs
@@ -63,11 +65,8 @@ export function unitLabels(u: DisplayUnits): UnitLabels {
   };
 }
 
-/** Round for display: 3 significant figures, no trailing noise. */
+/** Figures in tables and key figures: significant figures as on the charts, thousands grouped ("5,184"). */
 export function formatNumber(x: number | null | undefined, digits = 3): string {
-  if (x === null || x === undefined || !Number.isFinite(x)) return "–";
-  if (x === 0) return "0";
-  const abs = Math.abs(x);
-  if (abs >= 1000) return Math.round(x).toLocaleString("en");
-  return String(Number(x.toPrecision(digits)));
+  if (x != null && Number.isFinite(x) && Math.abs(x) >= 1000) return Math.round(x).toLocaleString("en");
+  return formatSignificant(x, digits);
 }

@@ -1,20 +1,13 @@
 /** Number and day formatting for the charts' readouts, tables and labels (pure). */
 
+import { formatSignificant as formatNumber } from "~/utils/format";
+
 /**
  * A value with `sig` significant figures, plain decimal (no exponent). Magnitudes below 0.0001
  * print as "<0.0001" whatever their sign (below any test kit's resolution); non-finite values as "–".
+ * One rule for charts and pages: app/utils/format.ts.
  */
-export function formatNumber(x: number | null | undefined, sig = 3): string {
-  if (x == null || !Number.isFinite(x)) return "–";
-  if (x === 0) return "0";
-  const a = Math.abs(x);
-  // The sign of something this small is solver noise, not information.
-  if (a < 1e-4) return "<0.0001";
-  if (a >= 10 ** sig) return String(Math.round(x));
-  // toPrecision can give an exponent for small numbers; Number() then String() keeps it plain
-  // for everything ≥ 1e-6, and we stopped at 1e-4 above.
-  return String(Number(x.toPrecision(sig)));
-}
+export { formatNumber };
 
 /** A signed difference, e.g. "+1.9" or "-0.31". */
 export function formatSigned(x: number, sig = 3): string {

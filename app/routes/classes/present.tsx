@@ -95,10 +95,7 @@ export default function PresentLessonPage({ loaderData }: Route.ComponentProps) 
 
   return (
     <div className="space-y-4">
-      <Breadcrumbs
-        trail={[{ to: `/classes/${cls.id}/lessons/${lesson.id}`, label: "Back to the lesson" }]}
-        current=""
-      />
+      <Breadcrumbs trail={[{ to: `/classes/${cls.id}/lessons/${lesson.id}`, label: "Back to the lesson" }]} />
       <h1 className="text-3xl sm:text-4xl">{lesson.title}</h1>
       <p className="text-lg sm:text-xl">{lesson.question}</p>
       {error ? <FormMessage>{error}</FormMessage> : null}
