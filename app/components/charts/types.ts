@@ -4,6 +4,8 @@
  * values and `units` holds their labels.
  */
 
+import type { NitrogenBudget, Stocks } from "../../../models";
+
 /** The species a chart can show; "plants" is drawn on a second axis (g dry mass). */
 export type SpeciesKey = "tan" | "nh3" | "no2" | "no3";
 export type SeriesKey = SpeciesKey | "plants";
@@ -63,51 +65,13 @@ export type ChartOverlay = {
 };
 
 /**
- * Nitrogen held in each pool at one moment, mg N. Mirrors the engine's `Stocks`
- * (models/nitrogen/processes.ts); `plantsByGroup` follows the order of `ChartSeries.plants`.
+ * Nitrogen held in each pool at one moment, mg N: the engine's own type (a type-only import,
+ * so no engine code reaches the browser). `plantsByGroup` follows `ChartSeries.plants`.
  */
-export type ChartStocks = {
-  water: { tan: number; nitrite: number; nitrate: number; total: number };
-  plants: number;
-  plantsByGroup: number[];
-  bacteria: { ammoniaOxidisers: number; nitriteOxidisers: number; total: number };
-  detritus: { tank: number; filter: number; total: number };
-  fishGut: number;
-  total: number;
-};
+export type ChartStocks = Stocks;
 
 /**
- * The nitrogen budget of a run, cumulative over the run, mg N. Mirrors the engine's
- * `NitrogenBudget` (models/nitrogen/budget.ts) field for field, so a loader can pass the
- * engine's object straight through; budget-types-check.ts fails the type check if they drift.
+ * The nitrogen budget of a run, cumulative, mg N: the engine's own type, so a loader passes
+ * the engine's object straight through.
  */
-export type ChartBudget = {
-  inputs: { feed: number; tapWater: number; dosing: number; total: number };
-  outputs: {
-    waterChanges: number;
-    drip: number;
-    trims: number;
-    denitrificationN2: number;
-    anammoxN2: number;
-    fishGrowth: number;
-    leftoversRemoved: number;
-    filterCleaning: number;
-    gravelCleaning: number;
-    total: number;
-  };
-  stockStart: ChartStocks;
-  stockEnd: ChartStocks;
-  feedFate: {
-    excretedAsTan: number;
-    excretedAsUrea: number;
-    faeces: number;
-    fishGrowth: number;
-    uneatenToDetritus: number;
-    uneatenRemoved: number;
-    stillInFish: number;
-  };
-  /** inputs − outputs − (stock end − stock start), mg N. */
-  imbalance: number;
-  /** |imbalance| relative to (stock at start + inputs). */
-  imbalanceRelative: number;
-};
+export type ChartBudget = NitrogenBudget;
