@@ -5,7 +5,7 @@
  * Units: concentrations in mg N/L unless a name says otherwise; temperature in °C.
  */
 
-/** Atomic weights used for every "as N" factor (g/mol). Values as listed in references.md. */
+/** Atomic weights used for every "as N" factor (g/mol). Values as listed in docs/sources.md §0. */
 export const ATOMIC_WEIGHT = { N: 14.007, O: 15.999, H: 1.008, C: 12.011, Ca: 40.078 } as const;
 
 /** Molar masses (g/mol) of the ions and molecules a test kit may report. */

@@ -2,7 +2,7 @@
  * Every default number the engine uses, each with its source. This is the one place to look
  * up where a value comes from; the scenario schema, the presets and the processes read here.
  *
- * Source words follow ../shared/docs/references.md:
+ * Source words follow docs/sources.md:
  * - a named publication (e.g. "Metcalf & Eddy Table 8-14") when the value is published there;
  * - "computed" when worked from a stated formula;
  * - "from memory" when recalled but not checked against the publication;
@@ -209,7 +209,7 @@ export const SCENARIO_DEFAULTS = {
     denitrificationCapacityMgNPerDay: p(
       20,
       "mg N/day",
-      "model choice, no source (no published rate for porous media; references.md §8)",
+      "model choice, no source (no published rate for porous media; docs/sources.md §8)",
     ),
     anammoxCapacityMgNPerDay: p(5, "mg NH4-N/day", "model choice, no source"),
   },
@@ -224,8 +224,8 @@ export const SCENARIO_DEFAULTS = {
     stopAfterDays: p(42, "days", "common practice, no source"),
   },
   targets: {
-    nitrateLow: p(5 * NO3_AS_N, "mg N/L", "common practice, no source (5 mg/L as NO3, references.md §9)"),
-    nitrateHigh: p(20 * NO3_AS_N, "mg N/L", "common practice, no source (20 mg/L as NO3, references.md §9)"),
+    nitrateLow: p(5 * NO3_AS_N, "mg N/L", "common practice, no source (5 mg/L as NO3, docs/sources.md §9)"),
+    nitrateHigh: p(20 * NO3_AS_N, "mg N/L", "common practice, no source (20 mg/L as NO3, docs/sources.md §9)"),
   },
   cycling: {
     /** TAN and nitrite-N both below this count as "processed". */

@@ -106,7 +106,7 @@ describe("sweeps", () => {
     expect(result.points[0].x).toBe(5);
     expect(result.points[19].x).toBe(60);
     expect(result.outcome.unit).toBe("mg/L NO3");
-    // More plants (start and room to grow scaled together) take up more nitrogen: nitrate falls (references.md §7; docs/engine.md)
+    // More plants (start and room to grow scaled together) take up more nitrogen: nitrate falls (docs/sources.md §7; docs/engine.md)
     for (let i = 1; i < 20; i++) expect(result.points[i].y).toBeLessThanOrEqual(result.points[i - 1].y + 1e-9);
     expect(result.points[19].y).toBeLessThan(result.points[0].y * 0.9);
     // the page redraws the finished job and its inputs
@@ -413,7 +413,7 @@ describe("target finder", () => {
         changes: [{ path: ["maintenance", "waterChangeFraction"], value: f }],
         limits: {},
       });
-    const NO3_MG_N = 30 * 0.2259; // 30 mg/L as NO3 in mg N/L (references.md units trap)
+    const NO3_MG_N = 30 * 0.2259; // 30 mg/L as NO3 in mg N/L (docs/sources.md §0)
     const at = check(result.save.value);
     const less = check(result.save.value - 0.002);
     expect(at.kind === "goal" && at.figures!.inorganicNBeforeChange).toBeLessThanOrEqual(NO3_MG_N * 1.001);

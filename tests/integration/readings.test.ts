@@ -51,7 +51,7 @@ describe("readings by hand", () => {
     expect(added.status).toBe(302);
     expect(added.location).toBe(`/tanks/${tankId}/readings?saved=added`);
     const [row] = stored(Number(tankId));
-    // Default units: nitrate as NO3, ammonia as NH3 — references.md: NO3⁻→N ×0.22590, NH3→N ×0.82244
+    // Default units: nitrate as NO3, ammonia as NH3 — docs/sources.md §0: NO3⁻→N ×0.22590, NH3→N ×0.82244
     expect(row.nitrate).toBeCloseTo(20 * 0.2259, 3);
     expect(row.tan).toBeCloseTo(0.25 * 0.82244, 3);
     expect(row.takenAt.getTime()).toBe(Date.UTC(2026, 0, 10, 8, 30));
@@ -274,7 +274,7 @@ describe("CSV upload, export and template", () => {
     expect(res.headers.get("Content-Disposition")).toMatch(/attachment; filename="test-tank-readings.csv"/);
     const lines = (res.data as string).replace(/^\uFEFF/, "").split("\r\n");
     expect(lines[0]).toBe("datetime,tan_nh3_mg_l,nitrite_no2_mg_l,nitrate_no3_mg_l,ph,kh_dkh,temperature_c,note");
-    // 4.518 mg N/L is 20 mg/L as NO3 (references.md units trap)
+    // 4.518 mg N/L is 20 mg/L as NO3 (docs/sources.md §0)
     expect(lines[1]).toMatch(/^2026-01-05T08:00,,,(19\.99\d*|20),,,,'=1\+2$/);
 
     const template = await call(templateLoader, get(`/tanks/${tankId}/readings/template`, keeper.cookie), {
@@ -375,7 +375,7 @@ describe("readings on a scenario's timeline", () => {
     expect(page.data.readings).toHaveLength(1);
     const [r] = page.data.readings;
     expect(r.day).toBe(2.5);
-    // 4.518 mg N/L = 20 mg/L NO3; 0.0822 mg N/L = 0.1 mg/L NH3 (references.md units trap)
+    // 4.518 mg N/L = 20 mg/L NO3; 0.0822 mg N/L = 0.1 mg/L NH3 (docs/sources.md §0)
     expect(r.no3).toBeCloseTo(20, 2);
     expect(r.tan).toBeCloseTo(0.1, 3);
     expect(r.no2).toBeNull();

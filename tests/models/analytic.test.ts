@@ -31,14 +31,14 @@ describe("Bateman chain through the solver adapter", () => {
     expect(seg.status).toBe("done");
     expect(samples).toHaveLength(1);
     const [, y2] = samples[0];
-    expect(rel(y2[0], 3.678794)).toBeLessThan(0.005); // Bateman, references.md §10 (computed)
-    expect(rel(y2[1], 5.040677)).toBeLessThan(0.005); // Bateman, references.md §10 (computed)
+    expect(rel(y2[0], 3.678794)).toBeLessThan(0.005); // Bateman, docs/sources.md §10 (computed)
+    expect(rel(y2[1], 5.040677)).toBeLessThan(0.005); // Bateman, docs/sources.md §10 (computed)
     // A + B + C is a linear invariant: kept to round-off
     expect(seg.y[0] + seg.y[1] + seg.y[2]).toBeCloseTo(10, 12);
   });
 
   it("finds the peak of B: 5.428835 at 3.054302 d", () => {
-    // Bateman, references.md §10 (computed)
+    // Bateman, docs/sources.md §10 (computed)
     let best = { t: 0, b: 0 };
     runLoop({
       problem: chain,
@@ -82,7 +82,7 @@ describe("Bateman chain through the solver adapter", () => {
 });
 
 describe("tank against analytic water-exchange solutions", () => {
-  // Example of references.md §10: V 100 L, L 20 mg N/day, r 0.05 /day, C_in 10 mg N/L.
+  // Example of docs/sources.md §10: V 100 L, L 20 mg N/day, r 0.05 /day, C_in 10 mg N/L.
   const load = 20;
   const feed = feedForLoad(load);
 
@@ -95,10 +95,10 @@ describe("tank against analytic water-exchange solutions", () => {
     });
     const r = simulate(s);
     const k = lastIndex(r);
-    // Continuous exchange, references.md §10 (computed); total dissolved inorganic N
+    // Continuous exchange, docs/sources.md §10 (computed); total dissolved inorganic N
     expect(rel(din(r, k), 14)).toBeLessThan(0.005);
     // The transient from an empty start, C(10) = 5.508571 and C(100) = 13.905669
-    // (references.md §10), holds because an established tank starts with its pools at their
+    // (docs/sources.md §10), holds because an established tank starts with its pools at their
     // steady levels so the load is constant from day 0.
     expect(rel(din(r, 10), 5.508571)).toBeLessThan(0.005);
     expect(rel(din(r, 100), 13.905669)).toBeLessThan(0.005);
@@ -117,7 +117,7 @@ describe("tank against analytic water-exchange solutions", () => {
     // the two samples at the last change: just before, just after
     const at = r.series.t.flatMap((t, k) => (t === lastDay ? [k] : []));
     expect(at).toHaveLength(2);
-    // Periodic water changes, references.md §10 (computed)
+    // Periodic water changes, docs/sources.md §10 (computed)
     expect(rel(din(r, at[0]), 15.6)).toBeLessThan(0.005);
     expect(rel(din(r, at[1]), 14.2)).toBeLessThan(0.005);
     // cycle average C_in + (Lτ/V)(1/f − 1/2) = 14.9 over the last full cycle (trapezoid)

@@ -16,13 +16,13 @@ const rel = (a: number, b: number) => Math.abs(a - b) / Math.abs(b);
 describe("free ammonia fraction", () => {
   // [°C, pH, % NH3 of TAN]
   const computedInReferences: [number, number, number][] = [
-    [20, 7.0, 0.3942], // Emerson et al. 1975 (computed, references.md §1)
-    [20, 8.0, 3.807], // Emerson et al. 1975 (computed, references.md §1)
-    [20, 9.0, 28.36], // Emerson et al. 1975 (computed, references.md §1)
-    [25, 7.0, 0.5639], // Emerson et al. 1975 (computed, references.md §1)
-    [25, 8.0, 5.366], // Emerson et al. 1975 (computed, references.md §1)
-    [10, 8.0, 1.822], // Emerson et al. 1975 (computed, references.md §1)
-    [30, 7.5, 2.476], // Emerson et al. 1975 (computed, references.md §1)
+    [20, 7.0, 0.3942], // Emerson et al. 1975 (computed, docs/sources.md §1)
+    [20, 8.0, 3.807], // Emerson et al. 1975 (computed, docs/sources.md §1)
+    [20, 9.0, 28.36], // Emerson et al. 1975 (computed, docs/sources.md §1)
+    [25, 7.0, 0.5639], // Emerson et al. 1975 (computed, docs/sources.md §1)
+    [25, 8.0, 5.366], // Emerson et al. 1975 (computed, docs/sources.md §1)
+    [10, 8.0, 1.822], // Emerson et al. 1975 (computed, docs/sources.md §1)
+    [30, 7.5, 2.476], // Emerson et al. 1975 (computed, docs/sources.md §1)
   ];
   // Our own worked values from the Emerson et al. 1975 formula (T = t + 273.15), by hand in Python.
   const ourWorkedValues: [number, number, number][] = [
@@ -101,7 +101,7 @@ describe("stoichiometry constants", () => {
   });
 
   it("N mass fractions match the atomic-weight factors", () => {
-    // computed from atomic weights N 14.007, O 15.999, H 1.008 (references.md)
+    // computed from atomic weights N 14.007, O 15.999, H 1.008 (docs/sources.md §0)
     expect(N_FRACTION.NO3).toBeCloseTo(0.2259, 4);
     expect(N_FRACTION.NO2).toBeCloseTo(0.30447, 4);
     expect(N_FRACTION.NH4).toBeCloseTo(0.77648, 4);

@@ -17,11 +17,11 @@ describe("scenario schema", () => {
     expect(s.schemaVersion).toBe(SCHEMA_VERSION);
     expect(s.water.volumeL).toBe(100);
     expect(s.plants).toHaveLength(1);
-    expect(s.targets.nitrateHigh).toBeCloseTo(20 * 0.2259, 3); // 20 mg/L as NO3 (references.md §9)
+    expect(s.targets.nitrateHigh).toBeCloseTo(20 * 0.2259, 3); // 20 mg/L as NO3 (docs/sources.md §9)
     const r = simulate(s);
     expect(r.budget.imbalanceRelative).toBeLessThan(1e-9);
     // a healthy default tank: no ammonia or nitrite trouble, nitrate inside or near the band
-    expect(r.keyFigures.peakFreeNh3.value).toBeLessThan(0.02); // references.md §9, common practice, no source
+    expect(r.keyFigures.peakFreeNh3.value).toBeLessThan(0.02); // docs/sources.md §9, common practice, no source
     expect(r.keyFigures.nitrateEnd).toBeLessThan(s.targets.nitrateHigh);
   });
 

@@ -38,7 +38,7 @@ describe("unit conversions", () => {
   });
 
   it("ammonia as NH4 and as NH3", () => {
-    // NH4+→N ×0.77648; NH3→N ×0.82244 (computed from atomic weights, references.md)
+    // NH4+→N ×0.77648; NH3→N ×0.82244 (computed from atomic weights, docs/sources.md)
     expect(ammoniaToN(1, "asNH4")).toBeCloseTo(0.77648, 4);
     expect(ammoniaToN(1, "asNH3")).toBeCloseTo(0.82244, 4);
     expect(ammoniaFromN(0.82244, "asNH3")).toBeCloseTo(1, 4);
@@ -56,7 +56,7 @@ describe("unit conversions", () => {
   });
 
   it("1 dKH is 17.848 mg/L as CaCO3", () => {
-    // computed from the definition 10 mg CaO/L (references.md §3)
+    // computed from the definition 10 mg CaO/L (docs/sources.md §3)
     expect(fromDkh(1, "mgCaCO3")).toBeCloseTo(17.848, 3);
     expect(toDkh(17.848, "mgCaCO3")).toBeCloseTo(1, 4);
   });

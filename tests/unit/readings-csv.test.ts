@@ -35,11 +35,11 @@ describe("reading a readings CSV", () => {
     const [a, b] = r.rows;
     expect(a.line).toBe(2);
     expect(a.takenAt).toBe(Date.UTC(2026, 2, 1, 8, 30));
-    // references.md units trap: NH3→N ×0.82244, NO2⁻→N ×0.30447, NO3⁻→N ×0.22590
+    // docs/sources.md §0: NH3→N ×0.82244, NO2⁻→N ×0.30447, NO3⁻→N ×0.22590
     expect(a.tan).toBeCloseTo(0.5 * 0.82244, 4);
     expect(a.nitrite).toBeCloseTo(0.1 * 0.30447, 4);
     expect(a.nitrate).toBeCloseTo(20 * 0.2259, 3);
-    // references.md §3: 1 dKH = 17.848 mg/L as CaCO3
+    // docs/sources.md §3: 1 dKH = 17.848 mg/L as CaCO3
     expect(a.kh).toBeCloseTo(5, 3);
     // 77 °F = 25 °C (from memory)
     expect(a.temperatureC).toBeCloseTo(25, 6);
@@ -181,7 +181,7 @@ describe("writing readings", () => {
     );
     const lines = csv.split("\r\n");
     expect(lines[0]).toBe("datetime,tan_n_mg_l,nitrite_no2_mg_l,nitrate_no3_mg_l,ph,kh_mg_l_caco3,temperature_f,note");
-    // 4.518 mg N/L = 20 mg/L NO3 (references.md: NO3⁻→N ×0.22590); 25 °C = 77 °F
+    // 4.518 mg N/L = 20 mg/L NO3 (docs/sources.md §0: NO3⁻→N ×0.22590); 25 °C = 77 °F
     expect(lines[1]).toMatch(/^2026-03-01T08:30,0\.1,,(19\.99\d*|20(\.00\d*)?),7\.2,89\.2\d*,77,$/);
     const back = ok(csv, none, METRIC);
     expect(back.rows[0].nitrate).toBeCloseTo(4.518, 4);

@@ -14,7 +14,7 @@ import {
 import { displayUnitsFor, DEFAULT_PREFERENCES } from "~/utils/display-units";
 import { bareTank, feedForLoad } from "../models/helpers";
 
-// The analytic case of references.md §10: V 100 L, constant load L = 20 mg N/day, no plants,
+// The analytic case of docs/sources.md §10: V 100 L, constant load L = 20 mg N/day, no plants,
 // an established filter, changes of fraction f every τ days with change water at C_in. Just
 // before a change, at the periodic steady state: C⁻ = C_in + Lτ/(Vf).
 const V = 100;
@@ -52,7 +52,7 @@ describe("the target finder", () => {
       const lever = searchLever("waterChangeFraction", s, { intervalDays: 7 }) as SearchLever;
       const found = await findLeastChange(lever, evaluator(s, lever, { nitrateMax: X, nh3Max: null }));
       expect(found.status).toBe("met");
-      // Periodic water changes, references.md §10 (computed): f = Lτ / (V (X − C_in))
+      // Periodic water changes, docs/sources.md §10 (computed): f = Lτ / (V (X − C_in))
       const f = (L * 7) / (V * (X - C_IN));
       expect(Math.abs((found as { value: number }).value / f - 1), `goal ${X}`).toBeLessThan(0.01);
     }
@@ -62,7 +62,7 @@ describe("the target finder", () => {
     const s = tank();
     const lever = searchLever("waterChangeInterval", s, { fraction: 0.25 }) as SearchLever;
     const found = await findLeastChange(lever, evaluator(s, lever, { nitrateMax: 15.7, nh3Max: null }));
-    // references.md §10 (computed): τ ≤ (X − C_in)·V·f / L = 5.7 × 100 × 0.25 / 20 = 7.125 days → every 7 days
+    // docs/sources.md §10 (computed): τ ≤ (X − C_in)·V·f / L = 5.7 × 100 × 0.25 / 20 = 7.125 days → every 7 days
     expect(found).toMatchObject({ status: "met", value: 7 });
   });
 
@@ -120,7 +120,7 @@ describe("reverse-osmosis water", () => {
     const weekly = tank({ tapNitrate: 16 });
     const s = { ...weekly, maintenance: { ...weekly.maintenance, waterChangeFraction: 0.5 } };
     const lever = searchLever("roShare", s) as SearchLever;
-    // free NH3 0.02 mg/L as NH3 (common practice, no source) in mg N/L: × 0.82244 (references.md units trap)
+    // free NH3 0.02 mg/L as NH3 (common practice, no source) in mg N/L: × 0.82244 (docs/sources.md §0)
     const goal = { nitrateMax: 15.6, nh3Max: 0.02 * 0.82244 };
     const evaluate = evaluator(s, lever, goal);
     const all = await evaluate(1);
@@ -131,7 +131,7 @@ describe("reverse-osmosis water", () => {
     const share = (found as { value: number }).value;
     expect(share).toBeGreaterThan(0);
     expect(share).toBeLessThan(1);
-    // references.md §10 (computed): C⁻ = C_in + Lτ/(Vf) ≤ 15.6 with C_in = 16 (1 − share), Lτ/(Vf) = 2.8 → share ≥ 0.2
+    // docs/sources.md §10 (computed): C⁻ = C_in + Lτ/(Vf) ≤ 15.6 with C_in = 16 (1 − share), Lτ/(Vf) = 2.8 → share ≥ 0.2
     expect(share).toBeGreaterThan(0.19);
     expect(share).toBeLessThan(0.25);
   });
