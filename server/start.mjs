@@ -1,16 +1,18 @@
 // Starts Fernwater: `node server/start.mjs` serves the build; `--dev` serves through Vite.
-// The port comes from PORT (default 3000); HOST defaults to 0.0.0.0.
+// The port comes from PORT (default 3000); HOST defaults to 127.0.0.1 in local mode and to
+// 0.0.0.0 in production (server/listen-host.mjs).
 import path from "node:path";
 import { pathToFileURL } from "node:url";
 import compression from "compression";
 import express from "express";
+import { chooseListenHost } from "./listen-host.mjs";
 
 const dev = process.argv.includes("--dev");
 if (!dev) process.env.NODE_ENV ??= "production";
 
 const buildDir = path.resolve(process.env.FERNWATER_BUILD_DIR ?? "build");
 const port = Number(process.env.PORT ?? 3000);
-const host = process.env.HOST ?? "0.0.0.0";
+const { host, note: hostNote } = chooseListenHost(process.env);
 
 const server = express();
 server.disable("x-powered-by");
@@ -60,7 +62,9 @@ const stopBoot = await appModule.boot();
 const listener = server.listen(port, host, () => {
   const address = listener.address();
   const actualPort = typeof address === "object" && address ? address.port : port;
-  console.log(`[fernwater] listening on http://localhost:${actualPort}`);
+  if (hostNote) console.log(hostNote);
+  const shown = host === "0.0.0.0" || host === "::" || host === "127.0.0.1" ? "localhost" : host.includes(":") ? `[${host}]` : host;
+  console.log(`[fernwater] listening on http://${shown}:${actualPort} (address ${host})`);
 });
 
 let stopping = false;

@@ -44,6 +44,8 @@ export type Row = {
   json?: unknown;
   /** Sign in afresh for this row (an action that ends the session it is called with). */
   freshSession?: boolean;
+  /** The client's address (default: another machine, 198.51.100.9). */
+  ip?: string;
   expect: Answers;
 };
 
@@ -141,9 +143,11 @@ export const PERMISSION_MATRIX: Row[] = [
   { file: "routes/admin/links.tsx", handler: "action", path: "/admin/links", form: NOTHING, expect: ADMIN_ACTION },
   { file: "routes/admin/link.tsx", handler: "loader", path: "/admin/links/:linkId", expect: ADMIN_PAGE },
 
-  // Local-mode tools (tests run in local mode; in production both answer 404 to everyone)
-  { file: "routes/dev/mail.tsx", handler: "loader", path: "/dev/mail", expect: EVERYONE },
-  { file: "routes/dev/chart-preview.tsx", handler: "loader", path: "/dev/chart-preview", expect: EVERYONE },
+  // Local-mode tools: this machine only (tests run in local mode; in production both answer 404 to everyone)
+  { file: "routes/dev/mail.tsx", handler: "loader", path: "/dev/mail", ip: "127.0.0.1", expect: EVERYONE },
+  { file: "routes/dev/mail.tsx", handler: "loader", path: "/dev/mail", expect: [404, 404, 404, 404, 404] },
+  { file: "routes/dev/chart-preview.tsx", handler: "loader", path: "/dev/chart-preview", ip: "127.0.0.1", expect: EVERYONE },
+  { file: "routes/dev/chart-preview.tsx", handler: "loader", path: "/dev/chart-preview", expect: [404, 404, 404, 404, 404] },
 
   // JSON API: the session cookie, 401 without one, 404 for someone else's things
   { file: "routes/api/health.ts", handler: "loader", path: "/api/health", expect: EVERYONE },
