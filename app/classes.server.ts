@@ -15,13 +15,13 @@
  * own copies; anyone else (admins included: classes are private) gets 404.
  */
 import { and, asc, desc, eq, gt, inArray, isNull } from "drizzle-orm";
-import { RateLimiterMemory } from "rate-limiter-flexible";
 import type { KeyFigures, Scenario } from "../models";
 import { copyScenarioInto } from "~/copies.server";
 import { getDb } from "~/db/client.server";
 import { classes, classInvites, classMembers, lessonCopies, lessons, runs, scenarios, tanks, users } from "~/db/schema";
 import { absoluteUrl, sendMail } from "~/email.server";
 import { notFound } from "~/permissions.server";
+import { giveBack, LIMITS, take, takeAll, waitText } from "~/rate-limits.server";
 import { buildScenarioForm } from "~/scenario-form.server";
 import type { SessionUser } from "~/session.server";
 import { findRun, readStoredSettings, runEngine, settingsHash, type StoredRun } from "~/simulation.server";
@@ -57,8 +57,7 @@ export function normaliseJoinCode(input: string): string | null {
 }
 
 /** Wrong codes per person per ten minutes: guessing a code by trying is hopeless. */
-export const JOIN_ATTEMPTS = 10;
-const joinAttempts = new RateLimiterMemory({ points: JOIN_ATTEMPTS, duration: 600 });
+export const JOIN_ATTEMPTS = LIMITS.wrongJoinCodesPerPerson.points;
 
 // ---------------------------------------------------------------------------------------------
 // Classes and members
@@ -165,21 +164,20 @@ export function removeStudent(classId: number, studentId: number): boolean {
   });
 }
 
-export type JoinOutcome = { ok: true; classId: number } | { ok: false; message: string };
+export type JoinOutcome = { ok: true; classId: number } | { ok: false; message: string; status?: 409 | 429 };
 
 /** Joins the class with this code (joining twice is harmless). Wrong codes count against a limit. */
 export async function joinWithCode(user: SessionUser, input: string): Promise<JoinOutcome> {
   const key = `user:${user.id}`;
-  const state = await joinAttempts.get(key);
-  if (state && state.consumedPoints >= JOIN_ATTEMPTS) {
-    return { ok: false, message: `Too many wrong codes. Try again in ${Math.ceil(state.msBeforeNext / 60000)} minutes.` };
-  }
+  // Counted before the code is looked up (parallel guesses cannot all pass); a right code gives it back.
+  const wait = await take("wrongJoinCodesPerPerson", key);
+  if (wait > 0) return { ok: false, status: 429, message: `Too many wrong codes. Try again in ${waitText(wait)}.` };
   const code = normaliseJoinCode(input);
   const cls = code ? getDb().select().from(classes).where(eq(classes.joinCode, code)).get() : undefined;
   if (!cls) {
-    await joinAttempts.penalty(key, 1);
     return { ok: false, message: "No class has that code. Check it with your teacher: it looks like ABCD-EF23." };
   }
+  await giveBack("wrongJoinCodesPerPerson", key);
   if (cls.educatorId === user.id) return { ok: false, message: "You run this class, so you cannot join it as a student." };
   getDb().insert(classMembers).values({ classId: cls.id, userId: user.id }).onConflictDoNothing().run();
   return { ok: true, classId: cls.id };
@@ -194,7 +192,12 @@ export const INVITE_DAYS = 14;
  * Sends an invitation with a single-use link (the token is stored hashed). The row is written
  * first and removed again if the mail cannot be sent, so no dead invitation is left behind.
  */
-export async function inviteByEmail(request: Request, cls: ClassRow, educator: SessionUser, email: string): Promise<{ ok: true } | { ok: false; message: string }> {
+export async function inviteByEmail(
+  request: Request,
+  cls: ClassRow,
+  educator: SessionUser,
+  email: string,
+): Promise<{ ok: true } | { ok: false; message: string; status?: 429 }> {
   const already = getDb()
     .select({ id: users.id })
     .from(classMembers)
@@ -202,6 +205,18 @@ export async function inviteByEmail(request: Request, cls: ClassRow, educator: S
     .where(and(eq(classMembers.classId, cls.id), eq(users.email, email)))
     .get();
   if (already) return { ok: false, message: "That person is already in the class." };
+  // Counted before anything is written or sent, per educator and per invited address.
+  const wait = await takeAll([
+    ["invitesPerEducator", `user:${educator.id}`],
+    ["invitesPerEmail", email.toLowerCase()],
+  ]);
+  if (wait > 0) {
+    return {
+      ok: false,
+      status: 429,
+      message: `Too many invitations for now (at most ${LIMITS.invitesPerEducator.points} an hour, and ${LIMITS.invitesPerEmail.points} a day to one address). Try again in ${waitText(wait)}, or give the class its join code.`,
+    };
+  }
   const token = randomToken(32);
   const invite = getDb()
     .insert(classInvites)

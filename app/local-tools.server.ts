@@ -9,6 +9,9 @@ import { getEnv } from "~/env.server";
 import { isFromThisMachine } from "~/security.server";
 
 export function requireLocalTool(request: Request, context: Readonly<RouterContextProvider>): void {
-  const local = isFromThisMachine(request.headers, { peer: context.get(peerAddressContext), client: context.get(clientIpContext) });
+  const local = isFromThisMachine(request.headers, {
+    peer: context.get(peerAddressContext),
+    client: context.get(clientIpContext),
+  });
   if (getEnv().mode !== "local" || !local) throw data({ message: "Not found" }, { status: 404 });
 }

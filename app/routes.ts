@@ -6,6 +6,7 @@ export default [
   index("routes/home.tsx"),
 
   route("sign-up", "routes/auth/sign-up.tsx"),
+  route("sign-up/confirm", "routes/auth/confirm-sign-up.tsx"),
   route("sign-in", "routes/auth/sign-in.tsx"),
   route("sign-out", "routes/auth/sign-out.tsx"),
   route("forgot-password", "routes/auth/forgot-password.tsx"),

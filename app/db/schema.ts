@@ -65,6 +65,28 @@ export const passwordResetTokens = sqliteTable(
   (t) => [index("password_reset_tokens_user_idx").on(t.userId)],
 );
 
+/**
+ * A sign-up waiting for its confirmation mail to be opened: the account is made only then, so
+ * the sign-up form answers the same whether or not the address has an account, and nobody can
+ * hold an address they cannot read mail at.
+ */
+export const signUpRequests = sqliteTable(
+  "sign_up_requests",
+  {
+    id: integer("id").primaryKey({ autoIncrement: true }),
+    email: text("email").notNull(),
+    name: text("name").notNull(),
+    passwordHash: text("password_hash").notNull(),
+    tokenHash: text("token_hash").notNull().unique(),
+    /** Where to go once the account exists (a same-site path). */
+    redirectTo: text("redirect_to").notNull().default("/tanks"),
+    createdAt: createdAt(),
+    expiresAt: integer("expires_at", { mode: "timestamp_ms" }).notNull(),
+    usedAt: integer("used_at", { mode: "timestamp_ms" }),
+  },
+  (t) => [index("sign_up_requests_email_idx").on(t.email)],
+);
+
 export const tanks = sqliteTable(
   "tanks",
   {

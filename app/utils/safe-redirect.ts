@@ -8,8 +8,10 @@
 const BASE = "http://fernwater.invalid";
 const MAX_LENGTH = 2000;
 /** C0 and C1 controls, DEL, backslashes and any whitespace: none belongs in a path we made. */
+// eslint-disable-next-line no-control-regex -- finding control characters is the point
 const FORBIDDEN = /[\u0000-\u001f\u007f-\u009f\\\s]/u;
 /** Once percent-decoded, spaces may be real (a search), but controls and backslashes are not. */
+// eslint-disable-next-line no-control-regex -- as above
 const FORBIDDEN_DECODED = /[\u0000-\u001f\u007f-\u009f\\]/u;
 
 function staysHere(path: string, forbidden = FORBIDDEN): boolean {

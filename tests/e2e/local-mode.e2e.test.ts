@@ -29,7 +29,9 @@ function listeningAddresses(port: number): string[] | null {
       if (hexAddress.length === 8) {
         out.push(Buffer.from(hexAddress, "hex").reverse().join("."));
       } else {
-        out.push(hexAddress === "0".repeat(32) ? "::" : hexAddress === "00000000000000000000000001000000" ? "::1" : hexAddress);
+        out.push(
+          hexAddress === "0".repeat(32) ? "::" : hexAddress === "00000000000000000000000001000000" ? "::1" : hexAddress,
+        );
       }
     }
   }
@@ -73,7 +75,9 @@ describe("local mode stays on this machine", () => {
     expect(here.status).toBe(200);
     expect(await here.text()).toContain("Captured mail");
     // A proxy on this machine passing on another machine's request is not this machine.
-    const forwarded = await fetch(`http://127.0.0.1:${port}/dev/mail`, { headers: { "X-Forwarded-For": "203.0.113.9" } });
+    const forwarded = await fetch(`http://127.0.0.1:${port}/dev/mail`, {
+      headers: { "X-Forwarded-For": "203.0.113.9" },
+    });
     expect(forwarded.status).toBe(404);
     const outside = networkAddress();
     if (outside) {

@@ -35,14 +35,24 @@ describe("redirects after sign-in stay on this site", () => {
   it.each(["/\n/evil.example", "/\t/evil.example", "/\\evil.example", "https://evil.example", "/tanks/ڳ🐟"])(
     "signing in with redirectTo=%j",
     async (value) => {
-      const result = await call(signInAction, post("/sign-in", { email: user.email, password: TEST_PASSWORD, redirectTo: value }), {}, "198.51.100.40");
+      const result = await call(
+        signInAction,
+        post("/sign-in", { email: user.email, password: TEST_PASSWORD, redirectTo: value }),
+        {},
+        "198.51.100.40",
+      );
       expect(result.status).toBe(302);
       expectOurs(result.location);
     },
   );
 
   it("keeps a same-site path with its query and fragment", async () => {
-    const result = await call(signInAction, post("/sign-in", { email: user.email, password: TEST_PASSWORD, redirectTo: "/tanks?sort=name#list" }), {}, "198.51.100.41");
+    const result = await call(
+      signInAction,
+      post("/sign-in", { email: user.email, password: TEST_PASSWORD, redirectTo: "/tanks?sort=name#list" }),
+      {},
+      "198.51.100.41",
+    );
     expect(result.location).toBe("/tanks?sort=name#list");
   });
 });

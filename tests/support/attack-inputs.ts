@@ -47,4 +47,3 @@ export const REDIRECT_BYPASSES: string[] = [
   // too long for anyone's good
   "/" + "a".repeat(5000),
 ];
-

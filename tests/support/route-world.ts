@@ -69,6 +69,8 @@ export const PERMISSION_MATRIX: Row[] = [
   { file: "routes/home.tsx", handler: "loader", path: "/", expect: EVERYONE },
   { file: "routes/auth/sign-up.tsx", handler: "loader", path: "/sign-up", expect: SIGNED_OUT_ONLY },
   { file: "routes/auth/sign-up.tsx", handler: "action", path: "/sign-up", form: {}, expect: [400, 400, 400, 400, 400] },
+  { file: "routes/auth/confirm-sign-up.tsx", handler: "loader", path: "/sign-up/confirm?token=nope-not-a-live-token", expect: EVERYONE },
+  { file: "routes/auth/confirm-sign-up.tsx", handler: "action", path: "/sign-up/confirm", form: { token: "nope-not-a-live-token" }, expect: [400, 400, 400, 400, 400] },
   { file: "routes/auth/sign-in.tsx", handler: "loader", path: "/sign-in", expect: SIGNED_OUT_ONLY },
   { file: "routes/auth/sign-in.tsx", handler: "action", path: "/sign-in", form: { email: "", password: "" }, expect: [400, 400, 400, 400, 400] },
   { file: "routes/auth/sign-out.tsx", handler: "loader", path: "/sign-out", expect: [302, 302, 302, 302, 302] },

@@ -13,13 +13,28 @@ describe("safe redirects", () => {
   });
 
   it("keeps our own paths, queries and fragments as they are", () => {
-    for (const path of ["/tanks", "/tanks/3/scenarios/5?job=abc#results", "/s/Ab-_9", "/classes/invite/tok_123", "/@someone", "/tanks?q=a%20b"]) {
+    for (const path of [
+      "/tanks",
+      "/tanks/3/scenarios/5?job=abc#results",
+      "/s/Ab-_9",
+      "/classes/invite/tok_123",
+      "/@someone",
+      "/tanks?q=a%20b",
+    ]) {
       expect(safeRedirect(path)).toBe(path);
     }
   });
 
   it("never hands back anything a header cannot carry, nor anything the browser reads as elsewhere", () => {
-    for (const value of [...REDIRECT_BYPASSES, "/tanks/ڳ🐟", "/tanks/é", "/ok/\u00a0x", null, undefined, 42 as unknown as string]) {
+    for (const value of [
+      ...REDIRECT_BYPASSES,
+      "/tanks/ڳ🐟",
+      "/tanks/é",
+      "/ok/\u00a0x",
+      null,
+      undefined,
+      42 as unknown as string,
+    ]) {
       const to = safeRedirect(value);
       expect(/^[\x21-\x7e]+$/.test(to), JSON.stringify(to)).toBe(true);
       expect(new URL(to, ORIGIN).origin).toBe(ORIGIN);

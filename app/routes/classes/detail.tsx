@@ -86,7 +86,7 @@ export async function action({ request, params }: Route.ActionArgs) {
     const parsed = InviteSchema.safeParse(values);
     if (!parsed.success) return invalid(fieldErrors(parsed.error), values);
     const sent = await inviteByEmail(request, cls, user, parsed.data.email);
-    if (!sent.ok) return invalid({ email: sent.message }, values);
+    if (!sent.ok) return invalid({ email: sent.message }, values, sent.status ?? 400);
     return { done: `Invitation sent to ${parsed.data.email}.` };
   }
   if (values.intent === "remove") {

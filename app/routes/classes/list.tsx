@@ -36,7 +36,7 @@ export async function action({ request }: Route.ActionArgs) {
   const parsed = JoinSchema.safeParse(values);
   if (!parsed.success) return invalid(values.intent === "join" ? fieldErrors(parsed.error) : { "": "Unknown action." }, values);
   const joined = await joinWithCode(user, parsed.data.code);
-  if (!joined.ok) return invalid({ code: joined.message }, values);
+  if (!joined.ok) return invalid({ code: joined.message }, values, joined.status ?? 400);
   return redirect(`/classes/${joined.classId}?joined=1`);
 }
 
