@@ -12,15 +12,19 @@
  *   handler with `enforce`, which refuses any change to a locked field, even a forged one.
  *
  * Access: the class's educator sees everything of the class; a member sees the class and their
- * own copies; anyone else (admins included: classes are private) gets 404.
+ * own copies; anyone else (admins included: classes are private) gets 404. Roles are checked on
+ * every request, not only ownership: an educator demoted to keeper keeps their classes read-only
+ * (lesson titles and students' names; no e-mails, no hand-ins, no invitations or removals — 403)
+ * until an admin hands them to another educator (docs/decisions/0007-demoted-educators.md).
  */
 import { and, asc, desc, eq, gt, inArray, isNull } from "drizzle-orm";
+import { data } from "react-router";
 import type { KeyFigures, Scenario } from "../models";
 import { copyScenarioInto } from "~/copies.server";
 import { getDb } from "~/db/client.server";
 import { classes, classInvites, classMembers, lessonCopies, lessons, runs, scenarios, tanks, users } from "~/db/schema";
 import { absoluteUrl, sendMail } from "~/email.server";
-import { notFound } from "~/permissions.server";
+import { hasRole, notFound } from "~/permissions.server";
 import { giveBack, LIMITS, take, takeAll, waitText } from "~/rate-limits.server";
 import { buildScenarioForm } from "~/scenario-form.server";
 import type { SessionUser } from "~/session.server";
@@ -61,6 +65,23 @@ export const JOIN_ATTEMPTS = LIMITS.wrongJoinCodesPerPerson.points;
 
 // ---------------------------------------------------------------------------------------------
 // Classes and members
+
+/**
+ * An admin hands a class to another educator (after its own was demoted, or moved on): the new
+ * educator gets the class, its lessons and the students' hand-ins. Their own scenario behind a
+ * lesson stays the old owner's; the lesson keeps its frozen settings, so nothing changes for students.
+ */
+export function handOverClass(classId: number, toUserId: number): { ok: true } | { ok: false; message: string } {
+  return getDb().transaction((tx) => {
+    const target = tx.select({ id: users.id, role: users.role }).from(users).where(eq(users.id, toUserId)).get();
+    if (!target || !hasRole(target, "educator")) return { ok: false, message: "Choose someone who is an educator (or an admin)." };
+    if (tx.select({ userId: classMembers.userId }).from(classMembers).where(and(eq(classMembers.classId, classId), eq(classMembers.userId, toUserId))).get()) {
+      return { ok: false, message: "That person is a student of this class; take them out of it first." };
+    }
+    const done = tx.update(classes).set({ educatorId: toUserId }).where(eq(classes.id, classId)).run();
+    return done.changes === 1 ? { ok: true } : { ok: false, message: "That class no longer exists." };
+  });
+}
 
 export function createClass(educatorId: number, name: string): number {
   // A clash of random codes is unlikely; the unique index settles it, and we try again.
@@ -118,20 +139,37 @@ function isMember(classId: number, userId: number): boolean {
     .get();
 }
 
-/** The class and how the person relates to it; 404 for anyone who neither runs it nor belongs to it. */
-export function requireClassAccess(user: SessionUser, classIdParam: string | undefined): { cls: ClassRow; as: "educator" | "student" } {
+export type ClassRelation = "educator" | "former educator" | "student";
+
+/**
+ * The class and how the person relates to it; 404 for anyone who neither runs it nor belongs to
+ * it. Its educator counts as "former educator" while their role is below educator.
+ */
+export function requireClassAccess(user: SessionUser, classIdParam: string | undefined): { cls: ClassRow; as: ClassRelation } {
   const cls = getDb().select().from(classes).where(eq(classes.id, parseId(classIdParam))).get();
-  if (cls && cls.educatorId === user.id) return { cls, as: "educator" };
+  if (cls && cls.educatorId === user.id) return { cls, as: hasRole(user, "educator") ? "educator" : "former educator" };
   if (cls && isMember(cls.id, user.id)) return { cls, as: "student" };
   notFound("There is no such class among yours.");
 }
 
-/** The class, for its own educator only (404 for everyone else, members included). */
+export const READ_ONLY_CLASS =
+  "You are no longer an educator, so this class is read-only. An admin can hand it to another educator.";
+
+/** The class, for its own educator only (404 for everyone else, members included; 403 once demoted). */
 export function requireOwnClass(user: SessionUser, classIdParam: string | undefined): ClassRow {
   const { cls, as } = requireClassAccess(user, classIdParam);
+  if (as === "former educator") throw data({ message: READ_ONLY_CLASS }, { status: 403 });
   if (as !== "educator") notFound("There is no such class among yours.");
   return cls;
 }
+
+/** Whether the class's educator still holds the educator role (else it takes no new students). */
+export function classIsRun(cls: Pick<ClassRow, "educatorId">): boolean {
+  const educator = getDb().select({ role: users.role }).from(users).where(eq(users.id, cls.educatorId)).get();
+  return !!educator && hasRole(educator, "educator");
+}
+
+const NOT_TAKING = "This class is not taking new students: its teacher no longer runs classes here. Ask your teacher.";
 
 export function roster(classId: number) {
   return getDb()
@@ -179,6 +217,7 @@ export async function joinWithCode(user: SessionUser, input: string): Promise<Jo
   }
   await giveBack("wrongJoinCodesPerPerson", key);
   if (cls.educatorId === user.id) return { ok: false, message: "You run this class, so you cannot join it as a student." };
+  if (!classIsRun(cls)) return { ok: false, status: 409, message: NOT_TAKING };
   getDb().insert(classMembers).values({ classId: cls.id, userId: user.id }).onConflictDoNothing().run();
   return { ok: true, classId: cls.id };
 }
@@ -278,6 +317,7 @@ export function acceptInvite(user: SessionUser, token: string): JoinOutcome {
       return { ok: false, message: `This invitation was sent to ${invite.email}. Sign in with that address, or join with the class code.` };
     }
     if (invite.educatorId === user.id) return { ok: false, message: "You run this class, so you cannot join it as a student." };
+    if (!classIsRun({ educatorId: invite.educatorId })) return { ok: false, status: 409, message: NOT_TAKING };
     tx.update(classInvites).set({ acceptedAt: new Date() }).where(eq(classInvites.id, invite.id)).run();
     tx.insert(classMembers).values({ classId: invite.classId, userId: user.id }).onConflictDoNothing().run();
     return { ok: true, classId: invite.classId };
