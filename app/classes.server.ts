@@ -17,7 +17,7 @@
  * (lesson titles and students' names; no e-mails, no hand-ins, no invitations or removals — 403)
  * until an admin hands them to another educator (docs/decisions/0007-demoted-educators.md).
  */
-import { and, asc, desc, eq, gt, inArray, isNull } from "drizzle-orm";
+import { and, asc, desc, eq, gt, inArray, isNotNull, isNull } from "drizzle-orm";
 import { data } from "react-router";
 import type { KeyFigures, Scenario } from "../models";
 import { copyScenarioInto } from "~/copies.server";
@@ -30,6 +30,7 @@ import { buildScenarioForm } from "~/scenario-form.server";
 import type { SessionUser } from "~/session.server";
 import { findRun, readStoredSettings, runEngine, settingsHash, type StoredRun } from "~/simulation.server";
 import { parseId, type ScenarioRow, type TankRow } from "~/tanks.server";
+import { READ_ONLY_CLASS } from "~/utils/class-messages";
 import { hashToken, randomToken } from "~/utils/crypto.server";
 import type { DisplayUnits } from "~/utils/display-units";
 import type { FieldErrors } from "~/utils/form-errors";
@@ -152,8 +153,7 @@ export function requireClassAccess(user: SessionUser, classIdParam: string | und
   notFound("There is no such class among yours.");
 }
 
-export const READ_ONLY_CLASS =
-  "You are no longer an educator, so this class is read-only. An admin can hand it to another educator.";
+export { READ_ONLY_CLASS };
 
 /** The class, for its own educator only (404 for everyone else, members included; 403 once demoted). */
 export function requireOwnClass(user: SessionUser, classIdParam: string | undefined): ClassRow {
@@ -522,6 +522,26 @@ export function copyScenario(copy: LessonCopyRow): { scenario: ScenarioRow; tank
     .get();
   if (!row) notFound("This lesson copy no longer exists.");
   return row;
+}
+
+/**
+ * A handed-in lesson copy among these scenarios (or in this tank), with its lesson's title: such
+ * a copy cannot be deleted, so a student cannot drop a first answer and start the lesson again.
+ */
+export function handedInCopyIn(where: { tankId: number } | { scenarioId: number }): { lessonTitle: string } | null {
+  const row = getDb()
+    .select({ lessonTitle: lessons.title })
+    .from(lessonCopies)
+    .innerJoin(lessons, eq(lessons.id, lessonCopies.lessonId))
+    .innerJoin(scenarios, eq(scenarios.id, lessonCopies.scenarioId))
+    .where(
+      and(
+        "tankId" in where ? eq(scenarios.tankId, where.tankId) : eq(scenarios.id, where.scenarioId),
+        isNotNull(lessonCopies.handedInAt),
+      ),
+    )
+    .get();
+  return row ?? null;
 }
 
 export function handIn(copyId: number, answer: string): boolean {

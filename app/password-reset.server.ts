@@ -73,11 +73,21 @@ export async function completePasswordReset(token: string, newPassword: string):
     if (spent.changes !== 1) return false;
     tx.update(users).set({ passwordHash }).where(eq(users.id, live.userId)).run();
     // Any other outstanding reset links die with this one.
-    tx.update(passwordResetTokens)
-      .set({ usedAt: new Date() })
-      .where(and(eq(passwordResetTokens.userId, live.userId), isNull(passwordResetTokens.usedAt)))
-      .run();
+    spendResetLinks(tx, live.userId);
     revokeAllSessions(live.userId);
     return true;
   });
+}
+
+type Tx = Parameters<Parameters<ReturnType<typeof getDb>["transaction"]>[0]>[0];
+
+/**
+ * Spends every outstanding reset link of a user, inside the caller's transaction: a link asked
+ * for before a password change must not work after it (whoever asked for it then).
+ */
+export function spendResetLinks(tx: Tx, userId: number): void {
+  tx.update(passwordResetTokens)
+    .set({ usedAt: new Date() })
+    .where(and(eq(passwordResetTokens.userId, userId), isNull(passwordResetTokens.usedAt)))
+    .run();
 }

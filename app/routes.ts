@@ -42,5 +42,8 @@ export default [
   ...sharingAndClassesRoutes,
   ...readingsAndSweepsRoutes,
 
+  // Anything else under /api answers the API's JSON 404, not the HTML page.
+  route("api/*", "routes/api/not-found.ts"),
+
   route("*", "routes/not-found.tsx"),
 ] satisfies RouteConfig;

@@ -17,6 +17,7 @@ import {
   withTankTargets,
   type StoredRun,
 } from "~/simulation.server";
+import { unknownSettingKeys } from "~/settings-patch.server";
 import type { ScenarioRow, TankRow } from "~/tanks.server";
 
 export const ScenarioBodySchema = z
@@ -28,8 +29,19 @@ export const ScenarioBodySchema = z
 
 export const ScenarioPatchSchema = ScenarioBodySchema.partial().strict();
 
-/** Settings from a request body → a validated scenario, or a 400 with field paths under "settings". */
+/**
+ * Settings from a request body → a validated scenario, or a 400 with field paths under "settings"
+ * (a name the scenario does not have is refused by name, not dropped).
+ */
 export function requireValidSettings(raw: unknown): Scenario {
+  const unknown = unknownSettingKeys(raw);
+  if (unknown.length) {
+    throw apiError(
+      400,
+      `The settings have names Fernwater does not know: ${unknown.join(", ")}. See docs/engine.md for the scenario format.`,
+      unknown.map((path) => ({ path: `settings.${path}`, message: "Unknown setting." })),
+    );
+  }
   const parsed = parseScenario(raw ?? {});
   if (!parsed.success) {
     throw apiError(

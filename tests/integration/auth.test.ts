@@ -223,6 +223,24 @@ describe("forgot and reset password", () => {
 });
 
 describe("account", () => {
+  it("ends a reset link asked for before a password change", async () => {
+    const user = await createUser();
+    const cookie = await signIn(user.email, TEST_PASSWORD, "198.51.100.70");
+    await call(forgotAction, post("/forgot-password", { email: user.email }));
+    const link = (await waitForMail(user.email)).links.find((l) => l.includes("/reset-password?token="))!;
+    const token = new URL(link).searchParams.get("token")!;
+    const changed = await call(
+      accountAction,
+      post("/account", { intent: "password", currentPassword: TEST_PASSWORD, password: "changed password 7", confirmPassword: "changed password 7" }, cookie),
+    );
+    expect(changed.status).toBe(302);
+    // The old link is dead on the page and in the action: whoever holds it cannot take the account.
+    expect((await call(resetLoader, get(`/reset-password?token=${token}`))).data.token).toBeNull();
+    const used = await call(resetAction, post("/reset-password", { token, password: "attacker password 1", confirmPassword: "attacker password 1" }));
+    expect(used.status).toBe(400);
+    expect(await signIn(user.email, "changed password 7", "198.51.100.71")).toMatch(/^__fernwater=/);
+  });
+
   it("saves unit preferences", async () => {
     const user = await createUser();
     const cookie = await signIn(user.email);

@@ -13,6 +13,7 @@ import { action as workAction, loader as workLoader } from "~/routes/classes/les
 import { action as classesAction, loader as classesLoader } from "~/routes/classes/list";
 import { loader as presentLoader } from "~/routes/classes/present";
 import { action as editAction, loader as editLoader } from "~/routes/scenarios/edit";
+import { action as tankAction } from "~/routes/tanks/detail";
 import { ScenarioSchema } from "../../models";
 import type { ScenarioFormModel } from "~/utils/scenario-form-types";
 import { unpackSeries } from "~/utils/series-packing";
@@ -327,6 +328,26 @@ describe("lessons", () => {
     expect(view.status).toBe(200);
     expect(view.data.answer).toBe("Less food, less nitrate.");
     expect(seriesOf(view.data.view).t.length).toBeGreaterThan(0);
+  });
+
+  it("keeps a handed-in copy: the student cannot delete it, nor its tank, to start the lesson again", async () => {
+    const { student, workPath, params, copy } = await startedCopy();
+    expect((await call(workAction, post(workPath, { intent: "hand-in", answer: "First answer." }, student.cookie), params)).status).toBe(302);
+    const scenario = getDb().select().from(scenarios).where(eq(scenarios.id, copy.scenarioId)).get()!;
+    const tankId = String(scenario.tankId);
+    const dropScenario = await call(tankAction, post(`/tanks/${tankId}`, { intent: "delete-scenario", scenarioId: scenario.id, confirm: "yes" }, student.cookie), { tankId });
+    expect(dropScenario.status).toBe(409);
+    expect(dropScenario.data.errors[""]).toMatch(/holds your hand-in/);
+    const dropTank = await call(tankAction, post(`/tanks/${tankId}`, { intent: "delete-tank", confirm: "yes" }, student.cookie), { tankId });
+    expect(dropTank.status).toBe(409);
+    const kept = getDb().select().from(lessonCopies).where(eq(lessonCopies.id, copy.id)).get()!;
+    expect(kept.answer).toBe("First answer.");
+    expect(kept.handedInAt).not.toBeNull();
+    expect(getDb().select().from(scenarios).where(eq(scenarios.id, copy.scenarioId)).get()).toBeDefined();
+    // Starting the lesson again finds the handed-in copy, not a fresh one.
+    const again = await call(lessonAction, post(`/classes/${params.classId}/lessons/${params.lessonId}`, { intent: "start" }, student.cookie), params);
+    expect(again.location).toBe(workPath);
+    expect(getDb().select().from(lessonCopies).where(eq(lessonCopies.lessonId, Number(params.lessonId))).all()).toHaveLength(1);
   });
 
   it("shows the teacher what a student changed, locked settings flagged", async () => {

@@ -60,6 +60,7 @@ const EVERYONE: Answers = [200, 200, 200, 200, 200, 200];
 const SIGNED_IN: Answers = ["sign-in", 200, 200, 200, 200, 200];
 const ADMIN_PAGE: Answers = ["sign-in", 403, 403, 403, 200, 403];
 const ADMIN_ACTION: Answers = ["sign-in", 403, 403, 403, 400, 403];
+const WRONG_METHOD: Answers = [405, 405, 405, 405, 405, 405];
 const SIGNED_OUT_ONLY: Answers = [200, 302, 302, 302, 302, 302];
 
 const NOTHING = { intent: "nothing-at-all" };
@@ -195,6 +196,17 @@ export const PERMISSION_MATRIX: Row[] = [
   { file: "routes/api/job.ts", handler: "loader", path: "/api/jobs/no-such-job", expect: [401, 404, 404, 404, 404, 404] },
   { file: "routes/api/job.ts", handler: "action", path: "/api/jobs/no-such-job", method: "DELETE", json: {}, expect: [401, 404, 404, 404, 404, 404] },
   { file: "routes/api/job.ts", handler: "action", path: "/api/jobs/no-such-job", json: {}, expect: [405, 405, 405, 405, 405, 405] },
+
+  // A method a route does not take: the API's JSON 405, before anything else is looked at.
+  { file: "routes/api/health.ts", handler: "action", path: "/api/health", json: {}, expect: WRONG_METHOD },
+  { file: "routes/api/tanks.ts", handler: "action", path: "/api/tanks", json: {}, expect: WRONG_METHOD },
+  { file: "routes/api/run.ts", handler: "action", path: "/api/runs/:runId", method: "PUT", json: {}, expect: WRONG_METHOD },
+  { file: "routes/api/preview.ts", handler: "loader", path: "/api/preview", expect: WRONG_METHOD },
+  { file: "routes/api/tank-readings.ts", handler: "action", path: "/api/tanks/:tankId/readings", json: {}, expect: WRONG_METHOD },
+  { file: "routes/api/scenario-calibrations.ts", handler: "loader", path: "/api/scenarios/:scenarioId/calibrations", expect: WRONG_METHOD },
+  { file: "routes/api/scenario-targets.ts", handler: "loader", path: "/api/scenarios/:scenarioId/targets", expect: WRONG_METHOD },
+  { file: "routes/api/not-found.ts", handler: "loader", path: "/api/no/such/route", expect: [404, 404, 404, 404, 404, 404] },
+  { file: "routes/api/not-found.ts", handler: "action", path: "/api/no/such/route", method: "DELETE", json: {}, expect: [404, 404, 404, 404, 404, 404] },
 
   // Anything else
   { file: "routes/not-found.tsx", handler: "loader", path: "/no/such/page", expect: [404, 404, 404, 404, 404, 404] },

@@ -2,10 +2,11 @@ import { RateLimiterMemory } from "rate-limiter-flexible";
 import { z } from "zod";
 import type { Route } from "./+types/preview";
 import { parseScenario } from "../../../models";
-import { apiError, apiFind, json, readJson, zodIssues } from "~/api.server";
+import { apiError, apiFind, json, readJson, zodIssues, methodNotAllowed } from "~/api.server";
 import { displayKeyFigures, displaySeries } from "~/display-figures.server";
 import { requireApiUser } from "~/permissions.server";
 import { runOrRefuse } from "~/scenario-api.server";
+import { unknownSettingKeys } from "~/settings-patch.server";
 import { readStoredSettings, withTankTargets } from "~/simulation.server";
 import { requireOwnedScenarioById } from "~/tanks.server";
 import { displayUnitsFor } from "~/utils/display-units";
@@ -42,6 +43,14 @@ export async function action({ request }: Route.ActionArgs) {
   }
   let scenario;
   if ("settings" in body.data) {
+    const unknown = unknownSettingKeys(body.data.settings);
+    if (unknown.length) {
+      return apiError(
+        400,
+        `The settings have names Fernwater does not know: ${unknown.join(", ")}.`,
+        unknown.map((path) => ({ path: `settings.${path}`, message: "Unknown setting." })),
+      );
+    }
     const parsed = parseScenario(body.data.settings ?? {});
     if (!parsed.success) {
       return apiError(400, "The settings are not valid.", zodIssues(parsed.error).map((i) => ({ ...i, path: `settings.${i.path}` })));
@@ -82,4 +91,9 @@ export async function action({ request }: Route.ActionArgs) {
     series: result.series,
     stats: result.stats,
   });
+}
+
+/** POST /api/preview only. Any other method: 405 in the API's JSON shape. */
+export function loader() {
+  return methodNotAllowed(["POST"]);
 }

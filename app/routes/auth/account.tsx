@@ -6,6 +6,7 @@ import { hashPassword, verifyPassword } from "~/auth.server";
 import { FormMessage, SelectField, TextField } from "~/components/ui/field";
 import { getDb } from "~/db/client.server";
 import { users } from "~/db/schema";
+import { spendResetLinks } from "~/password-reset.server";
 import { requireUser } from "~/permissions.server";
 import { createUserSession, revokeAllSessions } from "~/session.server";
 import { ChangePasswordSchema, UnitPreferencesSchema } from "~/utils/account-schemas";
@@ -42,7 +43,11 @@ export async function action({ request }: Route.ActionArgs) {
     return invalid({ currentPassword: "That is not your current password." }, { intent: "password" });
   }
   const passwordHash = await hashPassword(parsed.data.password);
-  getDb().update(users).set({ passwordHash }).where(eq(users.id, user.id)).run();
+  getDb().transaction((tx) => {
+    tx.update(users).set({ passwordHash }).where(eq(users.id, user.id)).run();
+    // Reset links asked for before the change stop working with the old password.
+    spendResetLinks(tx, user.id);
+  });
   // Every other device is signed out; this one gets a fresh session id.
   revokeAllSessions(user.id);
   return createUserSession(request, user.id, "/account?saved=password");

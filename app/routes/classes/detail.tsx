@@ -10,13 +10,13 @@ import {
   pendingInvites,
   removeStudent,
   requireClassAccess,
-  READ_ONLY_CLASS,
   requireOwnClass,
   roster,
 } from "~/classes.server";
 import { getDb } from "~/db/client.server";
 import { users } from "~/db/schema";
 import { requireUser } from "~/permissions.server";
+import { READ_ONLY_CLASS } from "~/utils/class-messages";
 import { fieldErrors, formValues } from "~/utils/form-errors";
 import { invalid, readForm } from "~/utils/http.server";
 import { Breadcrumbs } from "~/components/breadcrumbs";
