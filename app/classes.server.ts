@@ -409,7 +409,10 @@ const presented = new Map<string, StoredRun>();
  * deterministic, so it never goes stale). Null when the settings no longer read.
  * Throws the engine's ModelError for settings it cannot resolve.
  */
-export async function lessonRun(lesson: Pick<LessonRow, "scenarioId" | "settings">): Promise<{ settings: Scenario; run: StoredRun } | null> {
+export async function lessonRun(
+  lesson: Pick<LessonRow, "scenarioId" | "settings">,
+  educatorId: number,
+): Promise<{ settings: Scenario; run: StoredRun } | null> {
   const settings = readStoredSettings(lesson.settings);
   if (!settings) return null;
   const hash = settingsHash(settings);
@@ -417,7 +420,7 @@ export async function lessonRun(lesson: Pick<LessonRow, "scenarioId" | "settings
   if (stored) return { settings, run: stored };
   let run = presented.get(hash);
   if (!run) {
-    const result = await runEngine(settings);
+    const result = await runEngine(settings, { userId: educatorId, purpose: "view" });
     run = { id: 0, scenarioId: lesson.scenarioId ?? 0, settingsHash: hash, createdAt: new Date(), ...result };
     presented.set(hash, run);
     if (presented.size > 16) presented.delete(presented.keys().next().value!);

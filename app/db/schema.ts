@@ -8,7 +8,7 @@
  * tokens) are stored as SHA-256 hashes, never in the clear.
  */
 import { sql } from "drizzle-orm";
-import { index, integer, primaryKey, real, sqliteTable, text, uniqueIndex } from "drizzle-orm/sqlite-core";
+import { blob, index, integer, primaryKey, real, sqliteTable, text, uniqueIndex } from "drizzle-orm/sqlite-core";
 
 export const ROLES = ["keeper", "educator", "admin"] as const;
 export type Role = (typeof ROLES)[number];
@@ -146,8 +146,12 @@ export const runs = sqliteTable(
     keyFigures: text("key_figures", { mode: "json" }).notNull(),
     budget: text("budget", { mode: "json" }).notNull(),
     events: text("events", { mode: "json" }).notNull(),
-    /** Columnar series, JSON. */
+    /**
+     * Columnar series, JSON — or, for runs stored compactly, the marker `{ "packed": "deflate-raw" }`
+     * with the JSON deflated in series_packed (a two-year hourly run is ~3.2 MB as JSON, ~0.9 MB packed).
+     */
     series: text("series", { mode: "json" }).notNull(),
+    seriesPacked: blob("series_packed", { mode: "buffer" }),
     stats: text("stats", { mode: "json" }).notNull(),
     createdAt: createdAt(),
   },

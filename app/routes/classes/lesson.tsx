@@ -2,7 +2,7 @@ import { data, Form, Link, redirect, useNavigation } from "react-router";
 import type { Route } from "./+types/lesson";
 import { FormMessage } from "~/components/ui/field";
 import { findCopy, handInTable, READ_ONLY_CLASS, requireClassAccess, requireLesson, startCopy } from "~/classes.server";
-import { refusedRunMessage } from "~/copies.server";
+import { refusal } from "~/copies.server";
 import { displayKeyFigures } from "~/display-figures.server";
 import { requireUser } from "~/permissions.server";
 import { displayUnitsFor, formatNumber, unitLabels } from "~/utils/display-units";
@@ -74,8 +74,8 @@ export async function action({ request, params }: Route.ActionArgs) {
         values,
       );
   } catch (error) {
-    const message = await refusedRunMessage(error);
-    if (message) return invalid({ "": message }, values);
+    const refused = await refusal(error);
+    if (refused) return invalid({ "": refused.message }, values, refused.status);
     throw error;
   }
   return redirect(`/classes/${cls.id}/lessons/${lesson.id}/work`);
