@@ -60,13 +60,17 @@ export function runBytesOf(db: Reader, ownerId: number, exceptScenarioId = 0): n
 
 export function checkNewTank(tx: Reader, ownerId: number): void {
   if (tanksOf(tx, ownerId) + 1 > QUOTAS.tanksPerPerson) {
-    throw new QuotaExceeded(`You have ${QUOTAS.tanksPerPerson} tanks, the most one account keeps. Delete a tank you no longer need, then add this one.`);
+    throw new QuotaExceeded(
+      `You have ${QUOTAS.tanksPerPerson} tanks, the most one account keeps. Delete a tank you no longer need, then add this one.`,
+    );
   }
 }
 
 export function checkNewScenario(tx: Reader, tankId: number): void {
   if (scenariosIn(tx, tankId) + 1 > QUOTAS.scenariosPerTank) {
-    throw new QuotaExceeded(`This tank holds ${QUOTAS.scenariosPerTank} scenarios, the most a tank keeps. Delete scenarios you no longer need, or use another tank.`);
+    throw new QuotaExceeded(
+      `This tank holds ${QUOTAS.scenariosPerTank} scenarios, the most a tank keeps. Delete scenarios you no longer need, or use another tank.`,
+    );
   }
 }
 

@@ -9,7 +9,14 @@
  *   once. So the request thread never spends more than a few tens of milliseconds on one run,
  *   whatever the settings, while the typical 5–15 ms run keeps its fast path.
  */
-import { isModelError, ModelError, simulate, type Scenario, type SimulateOptions, type SimulationResult } from "../models";
+import {
+  isModelError,
+  ModelError,
+  simulate,
+  type Scenario,
+  type SimulateOptions,
+  type SimulationResult,
+} from "../models";
 import { getEnginePool } from "~/jobs.server";
 import { LIMITS, take, waitText } from "~/rate-limits.server";
 import { toStorable, type StorableRun } from "~/run-packing.server";
@@ -46,7 +53,9 @@ async function admit(request: RunRequest): Promise<() => void> {
     const wait = await take(limit, `user:${request.userId}`);
     if (wait > 0) {
       const what = request.purpose === "save" ? "saves and runs" : "previews";
-      throw new RunRefused(`Too many ${what}: at most ${LIMITS[limit].points} a minute. Try again in ${waitText(wait)}.`);
+      throw new RunRefused(
+        `Too many ${what}: at most ${LIMITS[limit].points} a minute. Try again in ${waitText(wait)}.`,
+      );
     }
   }
   const running = inFlight.get(request.userId) ?? 0;
@@ -76,8 +85,13 @@ async function place(scenario: Scenario, request: RunRequest, forStorage: boolea
   // Without worker threads (tests, `npm run dev`) the pool is an in-process stand-in.
   const task = { kind: forStorage ? "store" : "simulate", scenario, limits: REQUEST_RUN_LIMITS } as const;
   const answer = await pool.run(task, { lane: "interactive", owner: `user:${request.userId}` });
-  if (answer.kind !== "simulate" && answer.kind !== "store") throw new Error(`The engine pool answered a ${answer.kind} task to a run`);
-  if (answer.error) throw new ModelError(answer.error.code, answer.error.message, { day: answer.error.day, detail: answer.error.detail });
+  if (answer.kind !== "simulate" && answer.kind !== "store")
+    throw new Error(`The engine pool answered a ${answer.kind} task to a run`);
+  if (answer.error)
+    throw new ModelError(answer.error.code, answer.error.message, {
+      day: answer.error.day,
+      detail: answer.error.detail,
+    });
   return answer.kind === "store" ? { kind: "stored", run: answer.run! } : { kind: "result", result: answer.result! };
 }
 

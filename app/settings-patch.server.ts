@@ -6,17 +6,25 @@
 import type { z } from "zod";
 import { ScenarioSchema } from "../models";
 
-type Def = { type: string; shape?: Record<string, z.ZodType>; innerType?: z.ZodType; element?: z.ZodType; in?: z.ZodType };
+type Def = {
+  type: string;
+  shape?: Record<string, z.ZodType>;
+  innerType?: z.ZodType;
+  element?: z.ZodType;
+  in?: z.ZodType;
+};
 const defOf = (schema: z.ZodType): Def => (schema as unknown as { _zod: { def: Def } })._zod.def;
 
 /** The object or array schema under wrappers (defaults, prefaults, pipes, optionals). */
 function unwrap(schema: z.ZodType): Def {
   let def = defOf(schema);
-  for (let i = 0; i < 10 && (def.innerType || (def.type === "pipe" && def.in)); i++) def = defOf(def.innerType ?? def.in!);
+  for (let i = 0; i < 10 && (def.innerType || (def.type === "pipe" && def.in)); i++)
+    def = defOf(def.innerType ?? def.in!);
   return def;
 }
 
-const isPlainObject = (v: unknown): v is Record<string, unknown> => v !== null && typeof v === "object" && !Array.isArray(v);
+const isPlainObject = (v: unknown): v is Record<string, unknown> =>
+  v !== null && typeof v === "object" && !Array.isArray(v);
 
 /** Dotted paths of keys in `value` that `schema` does not have (at most 20). */
 export function unknownSettingKeys(value: unknown, schema: z.ZodType = ScenarioSchema, path = ""): string[] {

@@ -14,11 +14,17 @@ let paths: string[];
 beforeAll(async () => {
   server = await startBuiltServer();
   cookie = await signInOverHttp(server.baseURL, DEMO.jonah, DEMO.password);
-  const tanks = (await (await fetch(`${server.baseURL}/api/tanks`, { headers: { Cookie: cookie } })).json()) as { tanks: { id: number }[] };
+  const tanks = (await (await fetch(`${server.baseURL}/api/tanks`, { headers: { Cookie: cookie } })).json()) as {
+    tanks: { id: number }[];
+  };
   const tankId = tanks.tanks[0].id;
-  const scenarios = (await (await fetch(`${server.baseURL}/api/tanks/${tankId}/scenarios`, { headers: { Cookie: cookie } })).json()) as { scenarios: { id: number }[] };
+  const scenarios = (await (
+    await fetch(`${server.baseURL}/api/tanks/${tankId}/scenarios`, { headers: { Cookie: cookie } })
+  ).json()) as { scenarios: { id: number }[] };
   const scenarioId = scenarios.scenarios[0].id;
-  const run = (await (await fetch(`${server.baseURL}/api/scenarios/${scenarioId}/run`, { headers: { Cookie: cookie } })).json()) as { run: { id: number } };
+  const run = (await (
+    await fetch(`${server.baseURL}/api/scenarios/${scenarioId}/run`, { headers: { Cookie: cookie } })
+  ).json()) as { run: { id: number } };
   paths = [
     "/api/health",
     "/api/tanks",

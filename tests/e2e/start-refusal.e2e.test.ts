@@ -9,7 +9,12 @@ import { describe, expect, it } from "vitest";
 describe("production start without its environment", () => {
   it("exits with one clear line naming each missing variable, and no stack", () => {
     const dir = fs.mkdtempSync(path.join(os.tmpdir(), "fernwater-refusal-"));
-    const env: Record<string, string> = { ...(process.env as Record<string, string>), NODE_ENV: "production", DATABASE_URL: path.join(dir, "x.sqlite"), PORT: "0" };
+    const env: Record<string, string> = {
+      ...(process.env as Record<string, string>),
+      NODE_ENV: "production",
+      DATABASE_URL: path.join(dir, "x.sqlite"),
+      PORT: "0",
+    };
     for (const name of ["FERNWATER_MODE", "SESSION_SECRET", "APP_URL", "SMTP_URL", "HOST"]) delete env[name];
     const started = spawnSync(process.execPath, ["server/start.mjs"], { env, encoding: "utf8", timeout: 30_000 });
     expect(started.status).toBe(1);

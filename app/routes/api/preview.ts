@@ -4,7 +4,6 @@ import { parseScenario } from "../../../models";
 import { apiError, apiFind, json, readJson, zodIssues, methodNotAllowed } from "~/api.server";
 import { displayKeyFigures, displaySeries } from "~/display-figures.server";
 import { requireApiUser } from "~/permissions.server";
-import { LIMITS } from "~/rate-limits.server";
 import { runOrRefuse } from "~/scenario-api.server";
 import { unknownSettingKeys } from "~/settings-patch.server";
 import { readStoredSettings, withTankTargets } from "~/simulation.server";
@@ -15,7 +14,6 @@ import { applyWhatIf, WhatIfSchema } from "~/what-if.server";
 /** Previews are for trying things: at most a year of model time, at most ~1,500 chart points. */
 export const PREVIEW_MAX_DAYS = 365;
 const MAX_POINTS = 1500;
-export const PREVIEWS_PER_MINUTE = LIMITS.previewsPerPerson.points;
 
 const BodySchema = z.union([
   z.object({ settings: z.unknown() }).strict(),
