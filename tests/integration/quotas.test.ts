@@ -7,6 +7,8 @@ import { count, eq } from "drizzle-orm";
 import { afterEach, describe, expect, it } from "vitest";
 import { ScenarioSchema, simulate } from "../../models";
 import { getDb } from "~/db/client.server";
+import { setEnginePool } from "~/engine-pool.server";
+import { runEngineTask } from "~/engine-tasks.server";
 import { readings, runs, scenarios, tanks } from "~/db/schema";
 import { QUOTAS } from "~/quotas.server";
 import { LIMITS, resetRateLimits } from "~/rate-limits.server";
