@@ -12,6 +12,7 @@ import { classInvites, signUpRequests, users } from "~/db/schema";
 import { LIMITS, resetRateLimits } from "~/rate-limits.server";
 import { action as detailAction } from "~/routes/classes/detail";
 import { action as classesAction } from "~/routes/classes/list";
+import { action as accountAction } from "~/routes/auth/account";
 import { action as forgotAction } from "~/routes/auth/forgot-password";
 import { action as signInAction } from "~/routes/auth/sign-in";
 import { action as signUpAction } from "~/routes/auth/sign-up";
@@ -118,6 +119,37 @@ describe("sign-in under a burst", () => {
     expect(answers.map((a) => a.status)).toEqual(emails.map(() => 302));
     // Today's machine: ~135 ms a hash; forty at once without the slot paused the loop for ~5 s.
     expect(longest).toBeLessThan(600);
+  });
+});
+
+describe("the current password on the account page", () => {
+  it("checks at most 5 guesses at once, like sign-in", async () => {
+    const user = await userWithCookie();
+    const compare = spyOnBcrypt("compare");
+    const answers = await Promise.all(
+      Array.from({ length: 30 }, (_, i) =>
+        call(
+          accountAction,
+          post(
+            "/account",
+            {
+              intent: "password",
+              currentPassword: `guess ${i}`,
+              password: "new long password 1",
+              confirmPassword: "new long password 1",
+            },
+            user.cookie,
+          ),
+        ),
+      ),
+    );
+    expect(compare.mock.calls.length).toBeLessThanOrEqual(LIMITS.signInPerEmail.points);
+    expect(
+      count(
+        answers.map((a) => a.status),
+        429,
+      ),
+    ).toBeGreaterThanOrEqual(30 - LIMITS.signInPerEmail.points);
   });
 });
 

@@ -177,8 +177,18 @@ describe("how much one person may run", () => {
     const keeper = await userWithCookie();
     const tankId = String(createTank(keeper.id));
     const before = rowCounts();
-    const answers = await Promise.all(
-      Array.from({ length: 6 }, (_, i) =>
+    // A pool whose runs wait until released: the saves surely overlap, however fast the machine.
+    const held: (() => void)[] = [];
+    const previous = setEnginePool({
+      mode: "inline",
+      size: 1,
+      run: (task) => new Promise((resolve) => held.push(() => resolve(runEngineTask(task)))),
+      waiting: () => ({ interactive: held.length, job: 0 }),
+      close: async () => {},
+    });
+    let answers;
+    try {
+      const pending = Array.from({ length: 6 }, (_, i) =>
         call(
           tankScenariosAction,
           postJson(
@@ -188,8 +198,14 @@ describe("how much one person may run", () => {
           ),
           { tankId },
         ),
-      ),
-    );
+      );
+      await expect.poll(() => held.length).toBe(RUNS_IN_FLIGHT_PER_PERSON);
+      await new Promise((r) => setTimeout(r, 50));
+      held.splice(0).forEach((release) => release());
+      answers = await Promise.all(pending);
+    } finally {
+      setEnginePool(previous!);
+    }
     const statuses = answers.map((a) => a.status).sort();
     expect(statuses).toEqual([
       ...Array(RUNS_IN_FLIGHT_PER_PERSON).fill(201),

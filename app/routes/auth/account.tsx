@@ -9,6 +9,7 @@ import { users } from "~/db/schema";
 import { spendResetLinks } from "~/password-reset.server";
 import { requireUser } from "~/permissions.server";
 import { usageOf } from "~/quotas.server";
+import { giveBack, take, waitText } from "~/rate-limits.server";
 import { createUserSession, revokeAllSessions } from "~/session.server";
 import { ChangePasswordSchema, UnitPreferencesSchema } from "~/utils/account-schemas";
 import { fieldErrors, formValues } from "~/utils/form-errors";
@@ -44,10 +45,21 @@ export async function action({ request }: Route.ActionArgs) {
 
   const parsed = ChangePasswordSchema.safeParse(values);
   if (!parsed.success) return invalid(fieldErrors(parsed.error), { intent: "password" });
+  // Guesses at the current password count like failed sign-ins (a borrowed session cannot try
+  // passwords at will); a right one gives its point back.
+  const wait = await take("signInPerEmail", user.email);
+  if (wait > 0) {
+    return invalid(
+      { currentPassword: `Too many wrong passwords. Wait ${waitText(wait)} and try again.` },
+      { intent: "password" },
+      429,
+    );
+  }
   const row = getDb().select({ passwordHash: users.passwordHash }).from(users).where(eq(users.id, user.id)).get();
   if (!row || !(await verifyPassword(parsed.data.currentPassword, row.passwordHash))) {
     return invalid({ currentPassword: "That is not your current password." }, { intent: "password" });
   }
+  await giveBack("signInPerEmail", user.email);
   const passwordHash = await hashPassword(parsed.data.password);
   getDb().transaction((tx) => {
     tx.update(users).set({ passwordHash }).where(eq(users.id, user.id)).run();
