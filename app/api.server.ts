@@ -77,3 +77,13 @@ export function apiFind<T>(find: () => T, message: string): T {
     throw thrown;
   }
 }
+
+/**
+ * 405 in the API's JSON shape, with an Allow header. Every API route exports both a loader and
+ * an action, so a wrong method gets this instead of React Router's logged error.
+ */
+export function methodNotAllowed(allowed: readonly string[]): Response {
+  const response = apiError(405, `Use ${allowed.join(" or ")} here.`);
+  response.headers.set("Allow", allowed.join(", "));
+  return response;
+}

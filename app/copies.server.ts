@@ -7,7 +7,8 @@
 import type { Scenario } from "../models";
 import { getDb } from "~/db/client.server";
 import { tanks } from "~/db/schema";
-import { insertScenarioWithRun, runOrRefuse } from "~/scenario-api.server";
+import { checkNewTank } from "~/quotas.server";
+import { insertScenarioWithRun, runOrRefuseForStorage, writeOrRefuse } from "~/scenario-api.server";
 import { withTankTargets } from "~/simulation.server";
 import type { TankRow } from "~/tanks.server";
 
@@ -33,8 +34,9 @@ export async function copyScenarioInto(
       ? destination.tank
       : { nitrateTargetLow: settings.targets.nitrateLow, nitrateTargetHigh: settings.targets.nitrateHigh };
   const scenario = withTankTargets(settings, band);
-  const result = await runOrRefuse(scenario);
-  return getDb().transaction((tx) => {
+  const result = await runOrRefuseForStorage(scenario, { userId: ownerId, purpose: "save" });
+  return writeOrRefuse((tx) => {
+    if (!("tank" in destination)) checkNewTank(tx, ownerId);
     const tankId =
       "tank" in destination
         ? destination.tank.id
@@ -49,9 +51,13 @@ export async function copyScenarioInto(
   });
 }
 
-/** The message of a refused run (the JSON 422 from runOrRefuse), for a form error. */
-export async function refusedRunMessage(thrown: unknown): Promise<string | null> {
-  if (!(thrown instanceof Response) || thrown.status !== 422) return null;
-  const body = (await thrown.json()) as { error?: string };
-  return `The model could not run these settings: ${body.error ?? "unknown problem"}`;
+/**
+ * A refusal thrown as the API's JSON Response — the model could not run the settings (422), a
+ * rate or concurrency limit (429), a storage quota (413) — as a form's message and status.
+ */
+export async function refusal(thrown: unknown): Promise<{ message: string; status: 400 | 413 | 429 } | null> {
+  if (!(thrown instanceof Response) || ![413, 422, 429].includes(thrown.status)) return null;
+  const body = (await thrown.clone().json()) as { error?: string };
+  if (thrown.status === 422) return { message: `The model could not run these settings: ${body.error ?? "unknown problem"}`, status: 400 };
+  return { message: body.error ?? "Refused.", status: thrown.status as 413 | 429 };
 }

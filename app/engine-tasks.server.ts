@@ -1,8 +1,8 @@
 /**
  * One engine run as a message: what the worker pool (app/jobs.server.ts) hands to a worker
  * thread (server/engine-worker.ts), or runs in-process when there is no built worker (tests,
- * `npm run dev`). Pure: the engine and a chart lookup helper only — no database, no HTTP —
- * so a worker does not open the database or pull in the web app.
+ * `npm run dev`). Pure: the engine, a chart lookup helper and zlib (to pack long runs) only — no
+ * database, no HTTP — so a worker does not open the database or pull in the web app.
  */
 import {
   isModelError,
@@ -17,6 +17,7 @@ import {
   type SweepPoint,
 } from "../models";
 import { valueAt } from "~/components/charts/lookup";
+import { toStorableSync, type StorableRun } from "~/run-packing.server";
 
 export type SettingPath = readonly (string | number)[];
 
@@ -25,8 +26,14 @@ export type SettingChange = { path: SettingPath; value: number };
 
 export type EngineTask =
   | {
-      /** One whole run (saving a scenario, a preview): the result, or the engine's typed error. */
+      /** One whole run (a preview, a view): the result, or the engine's typed error. */
       kind: "simulate";
+      scenario: Scenario;
+      limits: SimulateOptions;
+    }
+  | {
+      /** One whole run to be stored (saving a scenario): long series come back packed. */
+      kind: "store";
       scenario: Scenario;
       limits: SimulateOptions;
     }
@@ -75,6 +82,7 @@ export type ModelErrorData = { code: ModelErrorCode; message: string; day: numbe
 
 export type EngineTaskResult =
   | { kind: "simulate"; result: SimulationResult | null; error: ModelErrorData | null }
+  | { kind: "store"; run: StorableRun | null; error: ModelErrorData | null }
   | { kind: "outcomes"; point: SweepPoint }
   | { kind: "goal"; figures: GoalFigures | null; error: string | null }
   | { kind: "sample"; samples: Samples | null; error: string | null };
@@ -84,6 +92,14 @@ export type EngineTaskResult =
  * for the keeper, not as a throw; a throw here is a bug.
  */
 export function runEngineTask(task: EngineTask): EngineTaskResult {
+  if (task.kind === "store") {
+    try {
+      return { kind: "store", run: toStorableSync(simulate(task.scenario, task.limits)), error: null };
+    } catch (error) {
+      if (!isModelError(error)) throw error;
+      return { kind: "store", run: null, error: { code: error.code, message: error.message, day: error.day, detail: error.detail } };
+    }
+  }
   if (task.kind === "simulate") {
     try {
       return { kind: "simulate", result: simulate(task.scenario, task.limits), error: null };

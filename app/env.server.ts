@@ -53,15 +53,20 @@ const DEV_SESSION_SECRET = "fernwater-local-development-secret-not-for-productio
 
 let cached: (Env & { sessionSecret: string }) | undefined;
 
-/** Parses process.env once; throws a readable error listing every bad variable. */
+/** The environment cannot run Fernwater; server/start.mjs prints the message alone, on one line. */
+export class EnvError extends Error {
+  override name = "FernwaterConfigError";
+}
+
+/** Parses process.env once; throws an EnvError listing every bad variable. */
 export function getEnv(): Env & { sessionSecret: string } {
   if (cached) return cached;
   // An empty variable counts as unset (VAR= in a shell or a .env file).
   const present = Object.fromEntries(Object.entries(process.env).filter(([, v]) => v !== undefined && v !== ""));
   const parsed = EnvSchema.safeParse(present);
   if (!parsed.success) {
-    const lines = parsed.error.issues.map((i) => `  ${i.path.join(".") || "env"}: ${i.message}`);
-    throw new Error(`Fernwater cannot start; fix the environment:\n${lines.join("\n")}`);
+    const problems = parsed.error.issues.map((i) => `${i.path.join(".") || "env"}: ${i.message}`);
+    throw new EnvError(`Fernwater cannot start; fix the environment: ${problems.join("; ")}.`);
   }
   const env = parsed.data;
   let sessionSecret = env.SESSION_SECRET ?? "";

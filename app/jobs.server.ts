@@ -1,175 +1,37 @@
 /**
- * Long engine work off the request thread: a small pool of worker threads that each run one
- * engine task at a time (app/engine-tasks.server.ts), and a registry of jobs (sweeps,
- * calibrations, target searches) whose progress the browser polls.
+ * Long engine work off the request thread: a registry of jobs (sweeps, calibrations, target
+ * searches) whose progress the browser polls, each running its engine tasks on the worker pool
+ * (app/engine-pool.server.ts, re-exported here).
  *
- * The pool runs the built worker (build/server/engine-worker.js, a second SSR entry in
- * vite.config.ts) when there is one beside the server bundle. From the TypeScript sources
- * (vitest, `npm run dev`) there is none, so tasks run in-process, one per macrotask, which keeps
- * the same order, progress and cancellation; `createEnginePool` can also start the worker from
- * its TypeScript source through tsx's loader (a test does). A single run such as the setup form's could move onto
- * `getEnginePool().run()` later without any other change.
- *
- * Fairness and limits: one running job per person, a cap on sweep points by role, a cap on jobs
- * running at once; a job keeps at most as many tasks in flight as the pool has workers, so the
- * queue interleaves jobs instead of serving one person's fifty runs first. A job is cancelled
- * between engine runs (a run already started finishes; its result is dropped).
+ * Fairness and limits: one job per person at a time (running or waiting; a second answers 429),
+ * a cap on sweep points by role, and a cap on jobs running at once. Past that cap a job waits in
+ * line, first come first served, and its progress says how many are ahead ("waiting, 2 ahead")
+ * instead of refusing; only when the line itself is full (maxWaiting) does a start answer 503.
+ * A running job keeps at most as many tasks in flight as the pool has workers, and the pool's
+ * job lane lets owners take turns, so jobs interleave instead of one person's fifty runs going
+ * first. A job is cancelled between engine runs (a run already started finishes; its result is
+ * dropped); a waiting job is cancelled at once.
  */
-import fs from "node:fs";
-import os from "node:os";
-import { Worker } from "node:worker_threads";
 import type { Role } from "~/db/schema";
-import { runEngineTask, type EngineTask, type EngineTaskResult } from "~/engine-tasks.server";
+import { getEnginePool } from "~/engine-pool.server";
+import type { EngineTask, EngineTaskResult } from "~/engine-tasks.server";
 import { randomToken } from "~/utils/crypto.server";
 
-// ---------------------------------------------------------------------------------------------
-// The pool
-
-export type EnginePool = {
-  readonly mode: "threads" | "inline";
-  readonly size: number;
-  run(task: EngineTask): Promise<EngineTaskResult>;
-  close(): Promise<void>;
-};
-
-/** Workers: one fewer than the cores (the request thread keeps one), at least 1, at most 4. */
-export function defaultPoolSize(): number {
-  const cores = typeof os.availableParallelism === "function" ? os.availableParallelism() : os.cpus().length;
-  return Math.max(1, Math.min(4, cores - 1));
-}
-
-/** The worker from its TypeScript source, through tsx (server/engine-worker-source.mjs); for tests. */
-export function sourceWorkerUrl(): URL {
-  const relative = "../server/engine-worker-source.mjs"; // a variable, so the bundler leaves it alone
-  return new URL(relative, import.meta.url);
-}
-
-/** The built worker beside the server bundle (server code sits in build/server/assets/), or null from sources. */
-export function builtWorkerUrl(): URL | null {
-  for (const relative of ["../engine-worker.js", "./engine-worker.js"]) {
-    const url = new URL(relative, import.meta.url);
-    if (url.protocol === "file:" && fs.existsSync(url)) return url;
-  }
-  return null;
-}
-
-type Pending = { task: EngineTask; resolve: (r: EngineTaskResult) => void; reject: (e: Error) => void };
-
-function inlinePool(): EnginePool {
-  return {
-    mode: "inline",
-    size: 1,
-    // One task per macrotask, so requests (polls, cancels) are served between runs.
-    run: (task) =>
-      new Promise((resolve, reject) =>
-        setImmediate(() => {
-          try {
-            resolve(runEngineTask(task));
-          } catch (error) {
-            reject(error instanceof Error ? error : new Error(String(error)));
-          }
-        }),
-      ),
-    close: async () => {},
-  };
-}
-
-function threadPool(workerUrl: URL, size: number): EnginePool {
-  type Slot = { worker: Worker; current: (Pending & { id: number }) | null };
-  const slots: Slot[] = [];
-  const queue: Pending[] = [];
-  let nextId = 1;
-  let closed = false;
-
-  const spawn = (): Slot => {
-    const worker = new Worker(workerUrl);
-    const slot: Slot = { worker, current: null };
-    worker.unref(); // an idle pool never keeps the process alive
-    worker.on("message", (msg: { id: number; result?: EngineTaskResult; error?: string }) => {
-      const job = slot.current;
-      if (!job || job.id !== msg.id) return;
-      slot.current = null;
-      worker.unref();
-      if (msg.error !== undefined) job.reject(new Error(msg.error));
-      else job.resolve(msg.result!);
-      pump();
-    });
-    const fail = (error: Error) => {
-      const job = slot.current;
-      slot.current = null;
-      const i = slots.indexOf(slot);
-      if (i >= 0) slots.splice(i, 1);
-      job?.reject(new Error(`An engine worker stopped: ${error.message}`));
-      if (!closed) {
-        slots.push(spawn());
-        pump();
-      }
-    };
-    worker.on("error", fail);
-    worker.on("exit", (code) => {
-      if (!closed && slots.includes(slot)) fail(new Error(`exit code ${code}`));
-    });
-    return slot;
-  };
-
-  const pump = () => {
-    for (const slot of slots) {
-      if (slot.current || queue.length === 0) continue;
-      const next = queue.shift()!;
-      const id = nextId++;
-      slot.current = { ...next, id };
-      slot.worker.ref(); // busy: keep the process alive until the answer comes
-      slot.worker.postMessage({ id, task: next.task });
-    }
-  };
-
-  for (let i = 0; i < size; i++) slots.push(spawn());
-  return {
-    mode: "threads",
-    size,
-    run: (task) =>
-      new Promise((resolve, reject) => {
-        if (closed) return reject(new Error("The engine pool is closed."));
-        queue.push({ task, resolve, reject });
-        pump();
-      }),
-    close: async () => {
-      closed = true;
-      for (const p of queue.splice(0)) p.reject(new Error("The engine pool is closed."));
-      await Promise.all(slots.splice(0).map((s) => s.worker.terminate()));
-    },
-  };
-}
-
-/**
- * A pool of `size` workers running `workerUrl` (the built worker, or sourceWorkerUrl()), or the
- * in-process stand-in when `workerUrl` is null.
- */
-export function createEnginePool(options: { workerUrl: URL | null; size?: number }): EnginePool {
-  if (!options.workerUrl) return inlinePool();
-  return threadPool(options.workerUrl, options.size ?? defaultPoolSize());
-}
-
-let pool: EnginePool | undefined;
-
-/** The process's pool, started on first use. */
-export function getEnginePool(): EnginePool {
-  pool ??= createEnginePool({ workerUrl: builtWorkerUrl() });
-  return pool;
-}
-
-/** Replaces the process's pool (tests). Returns the previous one. */
-export function setEnginePool(next: EnginePool): EnginePool | undefined {
-  const previous = pool;
-  pool = next;
-  return previous;
-}
+export {
+  builtWorkerUrl,
+  createEnginePool,
+  defaultPoolSize,
+  getEnginePool,
+  setEnginePool,
+  sourceWorkerUrl,
+  type EnginePool,
+} from "~/engine-pool.server";
 
 // ---------------------------------------------------------------------------------------------
 // Jobs
 
 export type JobKind = "sweep" | "calibration" | "target";
-export type JobStatus = "running" | "done" | "failed" | "cancelled";
+export type JobStatus = "waiting" | "running" | "done" | "failed" | "cancelled";
 
 /** Limits that keep one person from tying up the server. */
 export const JOB_LIMITS = {
@@ -177,8 +39,10 @@ export const JOB_LIMITS = {
   runningPerUser: 1,
   /** Sweep points by role. */
   sweepPoints: { keeper: 50, educator: 100, admin: 100 } satisfies Record<Role, number>,
-  /** Jobs running at once across everyone, per pool worker. */
+  /** Jobs running at once across everyone, per pool worker (more wait in line). */
   runningPerWorker: 4,
+  /** Jobs waiting in line across everyone; past that a start answers 503. */
+  maxWaiting: 200,
   /** How long a finished job's result stays readable. */
   keepFinishedMs: 15 * 60_000,
   /** Finished jobs kept per person (the oldest go first). */
@@ -199,12 +63,15 @@ export type Job<R = unknown, P = unknown> = {
   partial: P | null;
   result: R | null;
   error: string | null;
+  /** When it was asked for (it may wait before it runs). */
   startedAt: number;
+  /** When it left the line and began to run (null while waiting). */
+  ranAt: number | null;
   finishedAt: number | null;
   controller: AbortController;
 };
 
-/** A job refused before it started: 429 (your own limit) or 503 (the server is busy). */
+/** A job refused before it started: 429 (your own limit) or 503 (the line is full). */
 export class JobRefused extends Error {
   constructor(
     message: string,
@@ -236,11 +103,15 @@ export type JobContext<P> = {
 };
 
 const jobs = new Map<string, Job>();
+/** Jobs waiting to run, in the order they were asked for, with what starts them. */
+const line: { job: Job; begin: () => void }[] = [];
+
+const isActive = (job: Job) => job.status === "running" || job.status === "waiting";
 
 function prune(now = Date.now()) {
   const finishedByUser = new Map<number, Job[]>();
   for (const job of jobs.values()) {
-    if (job.status === "running") continue;
+    if (isActive(job)) continue;
     if (now - (job.finishedAt ?? now) > JOB_LIMITS.keepFinishedMs) {
       jobs.delete(job.id);
       continue;
@@ -255,9 +126,31 @@ function prune(now = Date.now()) {
   }
 }
 
+/** This person's job that is running or waiting, if any. */
 export function runningJobOf(userId: number): Job | null {
-  for (const job of jobs.values()) if (job.userId === userId && job.status === "running") return job;
+  for (const job of jobs.values()) if (job.userId === userId && isActive(job)) return job;
   return null;
+}
+
+function capacity(): number {
+  return JOB_LIMITS.runningPerWorker * getEnginePool().size;
+}
+
+/** Starts waiting jobs while there is room, oldest first. */
+function admitWaiting(): void {
+  let running = [...jobs.values()].filter((j) => j.status === "running").length;
+  while (running < capacity() && line.length) {
+    const next = line.shift()!;
+    if (next.job.status !== "waiting") continue;
+    running++;
+    next.begin();
+  }
+}
+
+/** How many jobs are ahead of this one in line (0 when it is next, or running). */
+export function jobsAhead(job: Job): number {
+  const i = line.findIndex((w) => w.job === job);
+  return i < 0 ? 0 : i;
 }
 
 const KIND_WORDS: Record<JobKind, string> = {
@@ -285,8 +178,9 @@ export function startJob<R, P = unknown>(
   }
   const pool = getEnginePool();
   const running = [...jobs.values()].filter((j) => j.status === "running").length;
-  if (running >= JOB_LIMITS.runningPerWorker * pool.size) {
-    throw new JobRefused("The server is busy with other people's runs. Try again in a minute.", 503);
+  const mustWait = running >= capacity() || line.length > 0;
+  if (mustWait && line.length >= JOB_LIMITS.maxWaiting) {
+    throw new JobRefused("The server's line for sweeps and calibrations is full. Try again in a few minutes.", 503);
   }
   const controller = new AbortController();
   const job: Job<R, P> = {
@@ -295,13 +189,14 @@ export function startJob<R, P = unknown>(
     kind,
     label,
     params: start.params ?? null,
-    status: "running",
+    status: mustWait ? "waiting" : "running",
     done: 0,
     total,
     partial: null,
     result: null,
     error: null,
     startedAt: Date.now(),
+    ranAt: mustWait ? null : Date.now(),
     finishedAt: null,
     controller,
   };
@@ -311,7 +206,7 @@ export function startJob<R, P = unknown>(
     signal: controller.signal,
     run: async (task) => {
       if (controller.signal.aborted) throw new JobCancelled();
-      const result = await pool.run(task);
+      const result = await pool.run(task, { lane: "job", owner: `user:${user.id}` });
       if (controller.signal.aborted) throw new JobCancelled();
       return result;
     },
@@ -335,23 +230,31 @@ export function startJob<R, P = unknown>(
     },
   };
 
-  work(ctx).then(
-    (result) => {
-      job.result = result;
-      job.status = controller.signal.aborted ? "cancelled" : "done";
-      job.finishedAt = Date.now();
-    },
-    (error: unknown) => {
-      job.finishedAt = Date.now();
-      if (error instanceof JobCancelled || controller.signal.aborted) {
-        job.status = "cancelled";
-        return;
-      }
-      job.status = "failed";
-      job.error = error instanceof Error ? error.message : String(error);
-      if (!(error instanceof Error && error.name === "KeeperError")) console.error("[fernwater] job failed", error);
-    },
-  );
+  const begin = () => {
+    job.status = "running";
+    job.ranAt = Date.now();
+    work(ctx).then(
+      (result) => {
+        job.result = result;
+        job.status = controller.signal.aborted ? "cancelled" : "done";
+        job.finishedAt = Date.now();
+        admitWaiting();
+      },
+      (error: unknown) => {
+        job.finishedAt = Date.now();
+        admitWaiting();
+        if (error instanceof JobCancelled || controller.signal.aborted) {
+          job.status = "cancelled";
+          return;
+        }
+        job.status = "failed";
+        job.error = error instanceof Error ? error.message : String(error);
+        if (!(error instanceof Error && error.name === "KeeperError")) console.error("[fernwater] job failed", error);
+      },
+    );
+  };
+  if (mustWait) line.push({ job: job as Job, begin });
+  else begin();
   return job;
 }
 
@@ -378,6 +281,14 @@ export function findScenarioJob(userId: number, request: Request, kind: JobKind,
 export function cancelJob(userId: number, id: string): Job | null {
   const job = findJob(userId, id);
   if (job && job.status === "running") job.controller.abort();
+  if (job && job.status === "waiting") {
+    // Still in line: it leaves the line now, and never runs.
+    job.controller.abort();
+    job.status = "cancelled";
+    job.finishedAt = Date.now();
+    const i = line.findIndex((w) => w.job === job);
+    if (i >= 0) line.splice(i, 1);
+  }
   return job;
 }
 
@@ -389,6 +300,8 @@ export function jobJson(job: Job) {
     label: job.label,
     params: job.params,
     status: job.status,
+    /** Jobs ahead of this one in line while it waits (0 otherwise). */
+    ahead: job.status === "waiting" ? jobsAhead(job) : 0,
     done: job.done,
     total: job.total,
     partial: job.partial,
@@ -414,4 +327,5 @@ export class KeeperError extends Error {
 export function clearJobs(): void {
   for (const job of jobs.values()) job.controller.abort();
   jobs.clear();
+  line.splice(0);
 }

@@ -1,16 +1,14 @@
 import { and, eq, gt, isNull } from "drizzle-orm";
-import { RateLimiterMemory } from "rate-limiter-flexible";
 import { hashPassword } from "~/auth.server";
 import { getDb } from "~/db/client.server";
 import { passwordResetTokens, users } from "~/db/schema";
 import { absoluteUrl, sendMail } from "~/email.server";
+import { take } from "~/rate-limits.server";
 import { revokeAllSessions } from "~/session.server";
 import { hashToken, randomToken } from "~/utils/crypto.server";
 
 export const RESET_TOKEN_TTL_MS = 60 * 60 * 1000;
 
-// At most 3 reset mails an hour to one address, so the form cannot be used to flood an inbox.
-const mailsPerAddress = new RateLimiterMemory({ points: 3, duration: 60 * 60 });
 
 /**
  * Starts a reset for `email` if it has an account. The caller answers the same either way,
@@ -19,11 +17,8 @@ const mailsPerAddress = new RateLimiterMemory({ points: 3, duration: 60 * 60 });
 export async function requestPasswordReset(request: Request, email: string): Promise<void> {
   const user = getDb().select({ id: users.id, name: users.name }).from(users).where(eq(users.email, email)).get();
   if (!user) return;
-  try {
-    await mailsPerAddress.consume(email);
-  } catch {
-    return;
-  }
+  // At most a few account mails an hour to one address, so the form cannot flood an inbox.
+  if ((await take("accountMailsPerEmail", email)) > 0) return;
   const token = randomToken(32);
   getDb()
     .insert(passwordResetTokens)
@@ -78,11 +73,21 @@ export async function completePasswordReset(token: string, newPassword: string):
     if (spent.changes !== 1) return false;
     tx.update(users).set({ passwordHash }).where(eq(users.id, live.userId)).run();
     // Any other outstanding reset links die with this one.
-    tx.update(passwordResetTokens)
-      .set({ usedAt: new Date() })
-      .where(and(eq(passwordResetTokens.userId, live.userId), isNull(passwordResetTokens.usedAt)))
-      .run();
+    spendResetLinks(tx, live.userId);
     revokeAllSessions(live.userId);
     return true;
   });
+}
+
+type Tx = Parameters<Parameters<ReturnType<typeof getDb>["transaction"]>[0]>[0];
+
+/**
+ * Spends every outstanding reset link of a user, inside the caller's transaction: a link asked
+ * for before a password change must not work after it (whoever asked for it then).
+ */
+export function spendResetLinks(tx: Tx, userId: number): void {
+  tx.update(passwordResetTokens)
+    .set({ usedAt: new Date() })
+    .where(and(eq(passwordResetTokens.userId, userId), isNull(passwordResetTokens.usedAt)))
+    .run();
 }

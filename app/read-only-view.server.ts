@@ -6,7 +6,7 @@
 import type { Scenario } from "../models";
 import { packedResultsPayload, resultsPayload } from "~/results.server";
 import { buildScenarioForm } from "~/scenario-form.server";
-import { ensureRun, isModelError, readStoredSettings, withTankTargets } from "~/simulation.server";
+import { ensureRun, readStoredSettings, runProblem, withTankTargets } from "~/simulation.server";
 import type { ScenarioRow } from "~/tanks.server";
 import type { DisplayUnits } from "~/utils/display-units";
 import { formatNumber } from "~/utils/display-units";
@@ -20,7 +20,7 @@ const VIEW_CACHE_SIZE = 64;
  */
 export async function readOnlyScenarioView(
   scenario: Pick<ScenarioRow, "id" | "name" | "settings" | "updatedAt">,
-  band: { nitrateTargetLow: number; nitrateTargetHigh: number },
+  band: { nitrateTargetLow: number; nitrateTargetHigh: number; ownerId: number },
   units: DisplayUnits,
 ): Promise<ReadOnlyViewData> {
   const key = [scenario.id, scenario.updatedAt.getTime(), band.nitrateTargetLow, band.nitrateTargetHigh, ...Object.values(units)].join("|");
@@ -36,19 +36,21 @@ export async function readOnlyScenarioView(
 
 async function buildView(
   scenario: Pick<ScenarioRow, "id" | "name" | "settings">,
-  band: { nitrateTargetLow: number; nitrateTargetHigh: number },
+  band: { nitrateTargetLow: number; nitrateTargetHigh: number; ownerId: number },
   units: DisplayUnits,
 ) {
+  const ownerId = band.ownerId;
   const settings = readStoredSettings(scenario.settings);
   if (!settings) return { error: "The saved settings of this scenario can no longer be read.", results: null, settings: null };
   const withTargets: Scenario = withTankTargets(settings, band);
   const form = buildScenarioForm(scenario.name, withTargets, units);
   try {
-    const run = await ensureRun(scenario.id, withTargets);
+    const run = await ensureRun(scenario.id, withTargets, ownerId);
     // Series packed into strings, as on the owner's results page: much cheaper to send.
     return { error: null, results: packedResultsPayload(resultsPayload(run, withTargets, units)), settings: form };
   } catch (error) {
-    if (isModelError(error)) return { error: error.message, results: null, settings: form };
+    const problem = runProblem(error);
+    if (problem) return { error: problem, results: null, settings: form };
     throw error;
   }
 }

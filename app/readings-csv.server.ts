@@ -14,7 +14,7 @@
  */
 import { parse } from "csv-parse/sync";
 import { fromCanonical } from "../models/units";
-import { toCsv, type CsvCell } from "~/components/charts/csv";
+import { toCsv, unneutraliseCell, type CsvCell } from "~/components/charts/csv";
 import { formatDateTime, parseDateOnly, parseDateTime, parseTimeOfDay } from "~/utils/dates";
 import {
   checkTakenAt,
@@ -216,6 +216,11 @@ export function parseReadingsCsv(
     });
   }
   if (headerProblems.length) return fail("Nothing was stored: the header row needs attention.", headerProblems);
+  if (dataRecords.length === 0) {
+    return fail(
+      "The file has a header row but no readings under it: nothing was stored. Add one row per test below the header (the template shows how).",
+    );
+  }
 
   // Data rows.
   const now = options.now ?? Date.now();
@@ -272,7 +277,8 @@ export function parseReadingsCsv(
       if ("error" in read) rowProblems.push(`${read.error.replace(/\.$/, "")} (column “${c.header}”, “${cells[i]}”)`);
       else values[key] = read.value;
     });
-    const note = cell("note") ?? "";
+    // An exported note that looked like a formula carries a neutralising quote: take it off.
+    const note = unneutraliseCell(cell("note") ?? "");
     if (note.length > MAX_NOTE_LENGTH) rowProblems.push(`the note is longer than ${MAX_NOTE_LENGTH} characters`);
     if (rowProblems.length === 0 && MEASURE_KEYS.every((k) => values[k] === null)) {
       rowProblems.push(

@@ -6,6 +6,7 @@ export default [
   index("routes/home.tsx"),
 
   route("sign-up", "routes/auth/sign-up.tsx"),
+  route("sign-up/confirm", "routes/auth/confirm-sign-up.tsx"),
   route("sign-in", "routes/auth/sign-in.tsx"),
   route("sign-out", "routes/auth/sign-out.tsx"),
   route("forgot-password", "routes/auth/forgot-password.tsx"),
@@ -40,6 +41,9 @@ export default [
 
   ...sharingAndClassesRoutes,
   ...readingsAndSweepsRoutes,
+
+  // Anything else under /api answers the API's JSON 404, not the HTML page.
+  route("api/*", "routes/api/not-found.ts"),
 
   route("*", "routes/not-found.tsx"),
 ] satisfies RouteConfig;

@@ -8,15 +8,21 @@ import { requireApiUser } from "~/permissions.server";
 import { requireOwnedScenarioById } from "~/tanks.server";
 import { getDb } from "~/db/client.server";
 import { scenarios } from "~/db/schema";
+import { QuotaExceeded, checkNewScenario } from "~/quotas.server";
 import {
   insertRun,
   isModelError,
   readStoredSettings,
+  RunRefused,
   runEngine,
+  runEngineForStorage,
   settingsHash,
   withTankTargets,
+  type RunRequest,
+  type StorableRun,
   type StoredRun,
 } from "~/simulation.server";
+import { unknownSettingKeys } from "~/settings-patch.server";
 import type { ScenarioRow, TankRow } from "~/tanks.server";
 
 export const ScenarioBodySchema = z
@@ -28,8 +34,19 @@ export const ScenarioBodySchema = z
 
 export const ScenarioPatchSchema = ScenarioBodySchema.partial().strict();
 
-/** Settings from a request body → a validated scenario, or a 400 with field paths under "settings". */
+/**
+ * Settings from a request body → a validated scenario, or a 400 with field paths under "settings"
+ * (a name the scenario does not have is refused by name, not dropped).
+ */
 export function requireValidSettings(raw: unknown): Scenario {
+  const unknown = unknownSettingKeys(raw);
+  if (unknown.length) {
+    throw apiError(
+      400,
+      `The settings have names Fernwater does not know: ${unknown.join(", ")}. See docs/engine.md for the scenario format.`,
+      unknown.map((path) => ({ path: `settings.${path}`, message: "Unknown setting." })),
+    );
+  }
   const parsed = parseScenario(raw ?? {});
   if (!parsed.success) {
     throw apiError(
@@ -68,13 +85,38 @@ export function runSummaryJson(run: StoredRun) {
   };
 }
 
-/** Runs the engine on settings; a ModelError becomes a 422 with the keeper-readable message. */
-export async function runOrRefuse(scenario: Scenario) {
+/** An engine refusal or a limit as the API's JSON answer: 422 (model), 429 (rate/concurrency), 413 (quota). */
+function asApiRefusal(error: unknown): unknown {
+  if (isModelError(error)) return apiError(422, error.message, [{ path: "settings", message: error.message }]);
+  if (error instanceof RunRefused) return apiError(429, error.message);
+  if (error instanceof QuotaExceeded) return apiError(413, error.message);
+  return error;
+}
+
+/** Runs the engine on settings for a request; a refusal becomes the API's JSON Response (asApiRefusal). */
+export async function runOrRefuse(scenario: Scenario, request: RunRequest): Promise<SimulationResult> {
   try {
-    return await runEngine(scenario);
+    return await runEngine(scenario, request);
   } catch (error) {
-    if (isModelError(error)) throw apiError(422, error.message, [{ path: "settings", message: error.message }]);
-    throw error;
+    throw asApiRefusal(error);
+  }
+}
+
+/** The same for a run about to be stored (long series come back packed). */
+export async function runOrRefuseForStorage(scenario: Scenario, request: RunRequest): Promise<StorableRun> {
+  try {
+    return await runEngineForStorage(scenario, request);
+  } catch (error) {
+    throw asApiRefusal(error);
+  }
+}
+
+/** Runs a writing transaction; a quota refusal inside it (nothing written) becomes the API's 413. */
+export function writeOrRefuse<T>(write: (tx: Tx) => T): T {
+  try {
+    return getDb().transaction(write);
+  } catch (error) {
+    throw asApiRefusal(error);
   }
 }
 
@@ -90,9 +132,10 @@ export function insertScenarioWithRun(
   tankId: number,
   name: string,
   scenario: Scenario,
-  result: SimulationResult,
+  result: StorableRun,
   copiedFromId: number | null = null,
 ): number {
+  checkNewScenario(tx, tankId);
   const id = tx
     .insert(scenarios)
     .values({ tankId, name, settings: scenario, schemaVersion: scenario.schemaVersion, copiedFromId })
@@ -110,8 +153,8 @@ export async function saveScenarioWithRun(
   settings: Scenario,
 ): Promise<number> {
   const scenario = withTankTargets(settings, tank);
-  const result = await runOrRefuse(scenario);
-  return getDb().transaction((tx) => {
+  const result = await runOrRefuseForStorage(scenario, { userId: tank.ownerId, purpose: "save" });
+  return writeOrRefuse((tx) => {
     if (target === "new") return insertScenarioWithRun(tx, tank.id, name, scenario, result);
     tx.update(scenarios)
       .set({ name, settings: scenario, schemaVersion: scenario.schemaVersion, updatedAt: new Date() })

@@ -5,9 +5,8 @@
  */
 import { eq } from "drizzle-orm";
 import type { Scenario } from "../models";
-import { getDb } from "~/db/client.server";
 import { scenarios } from "~/db/schema";
-import { insertScenarioWithRun, runOrRefuse } from "~/scenario-api.server";
+import { insertScenarioWithRun, runOrRefuseForStorage, writeOrRefuse } from "~/scenario-api.server";
 import { withTankTargets } from "~/simulation.server";
 import type { TankRow } from "~/tanks.server";
 
@@ -24,8 +23,8 @@ export async function saveScenarioVariant(
   settings: Scenario,
 ): Promise<number> {
   const scenario = withTankTargets(settings, tank);
-  const result = await runOrRefuse(scenario);
-  return getDb().transaction((tx) => {
+  const result = await runOrRefuseForStorage(scenario, { userId: tank.ownerId, purpose: "save" });
+  return writeOrRefuse((tx) => {
     const id = insertScenarioWithRun(tx, tank.id, name, scenario, result, sourceId);
     tx.update(scenarios)
       .set({ startDate: new Date(startMs) })

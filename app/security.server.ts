@@ -48,3 +48,29 @@ export function contentSecurityPolicy(nonce: string): string {
     "frame-ancestors 'none'",
   ].join("; ");
 }
+
+/** 127.0.0.0/8 and ::1, also written as IPv4-mapped IPv6 (::ffff:127.0.0.1). */
+export function isLoopbackAddress(address: string | null | undefined): boolean {
+  if (!address) return false;
+  const a = address.trim().toLowerCase().replace(/^\[|\]$/g, "");
+  if (a === "::1" || a === "0:0:0:0:0:0:0:1") return true;
+  const v4 = a.startsWith("::ffff:") ? a.slice(7) : a;
+  return /^127\.\d{1,3}\.\d{1,3}\.\d{1,3}$/.test(v4);
+}
+
+/**
+ * Whether a request comes from this machine: the connection's peer and the client address
+ * (which TRUST_PROXY may read from X-Forwarded-For) are loopback, and no forwarding header names
+ * any other address — a proxy on this machine forwarding someone else's request does not count.
+ */
+export function isFromThisMachine(headers: Headers, addresses: { peer: string; client: string }): boolean {
+  if (!isLoopbackAddress(addresses.peer) || !isLoopbackAddress(addresses.client)) return false;
+  const forwarded = [
+    ...(headers.get("x-forwarded-for") ?? "").split(","),
+    ...(headers.get("x-real-ip") ?? "").split(","),
+    ...[...(headers.get("forwarded") ?? "").matchAll(/for=("?)\[?([^\]";,]+)/gi)].map((m) => m[2]),
+  ]
+    .map((s) => s.trim())
+    .filter((s) => s !== "");
+  return forwarded.every(isLoopbackAddress);
+}

@@ -4,6 +4,7 @@ import { getDb, type Db } from "~/db/client.server";
 import { sessions, users } from "~/db/schema";
 import { getEnv, isProduction } from "~/env.server";
 import { hashToken, randomToken } from "~/utils/crypto.server";
+import { safeRedirect } from "~/utils/safe-redirect";
 
 const SESSION_DAYS = 30;
 
@@ -143,8 +144,5 @@ export function revokeAllSessions(userId: number): void {
   getDb().delete(sessions).where(eq(sessions.userId, userId)).run();
 }
 
-/** Only same-site paths: never redirect to another origin after sign-in. */
-export function safeRedirect(to: FormDataEntryValue | string | null | undefined, fallback = "/tanks"): string {
-  if (typeof to !== "string" || !to.startsWith("/") || to.startsWith("//") || to.startsWith("/\\")) return fallback;
-  return to;
-}
+/** Only same-site paths: never redirect to another origin after sign-in (app/utils/safe-redirect.ts). */
+export { safeRedirect };

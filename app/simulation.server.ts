@@ -8,7 +8,6 @@ import { and, desc, eq, inArray, sql } from "drizzle-orm";
 import {
   ENGINE_VERSION,
   isModelError,
-  ModelError,
   parseScenario,
   type KeyFigures,
   type NitrogenBudget,
@@ -20,11 +19,13 @@ import {
 import type { EventRecord } from "../models";
 import { getDb, type Db } from "~/db/client.server";
 import { runs } from "~/db/schema";
-import { runEngineTask } from "~/engine-tasks.server";
-import { getEnginePool } from "~/jobs.server";
+import { checkRunBytes, QuotaExceeded } from "~/quotas.server";
+import { RunRefused, runForRequest, runForStorage, type RunRequest } from "~/run-gate.server";
+import { PACKED_MARKER, readStoredSeries, storedBytes, toStorableSync, type StorableRun } from "~/run-packing.server";
 
-/** Bounds for runs started by a request: a bad parameter set fails fast instead of hanging. */
-export const REQUEST_RUN_LIMITS = { maxWallMs: 3000, maxSteps: 300_000 };
+export { isQuickRun, REQUEST_RUN_LIMITS, RunRefused, type RunRequest } from "~/run-gate.server";
+export { QuotaExceeded } from "~/quotas.server";
+export type { StorableRun } from "~/run-packing.server";
 
 export type StoredRun = {
   id: number;
@@ -58,27 +59,24 @@ export function withTankTargets(scenario: Scenario, tank: { nitrateTargetLow: nu
 }
 
 /**
- * Whether a run is short enough to do on the request thread: up to about a year at daily
- * points without modelled meals takes 5–15 ms, less than handing it to a worker and waiting
- * for the answer when the server is busy (measured with bench/load-mix.ts; see
- * docs/decisions/0006-single-runs.md). Anything longer goes to the worker pool, so a two-year
- * hourly run cannot hold up everyone else.
+ * Runs the engine for a request, off the request thread unless provably cheap, within the
+ * person's limits (app/run-gate.server.ts). Throws ModelError, or RunRefused (429).
  */
-export function isQuickRun(scenario: Scenario): boolean {
-  const samples = scenario.run.lengthDays / scenario.run.outputIntervalDays;
-  return scenario.run.lengthDays <= 400 && samples <= 1000 && !scenario.fish.pulsedFeeding;
-}
-
-/** Runs the engine (see isQuickRun for where). Throws the engine's ModelError for settings it cannot resolve. */
-export async function runEngine(scenario: Scenario): Promise<SimulationResult> {
-  const task = { kind: "simulate", scenario, limits: REQUEST_RUN_LIMITS } as const;
-  const answer = isQuickRun(scenario) ? runEngineTask(task) : await getEnginePool().run(task);
-  if (answer.kind !== "simulate") throw new Error(`The engine pool answered a ${answer.kind} task to a simulate task`);
-  if (answer.error) throw new ModelError(answer.error.code, answer.error.message, { day: answer.error.day, detail: answer.error.detail });
-  return answer.result!;
+export function runEngine(scenario: Scenario, request: RunRequest): Promise<SimulationResult> {
+  return runForRequest(scenario, request);
 }
 
 export { isModelError };
+
+/**
+ * The sentence for a page that needed a run and could not have one: the model could not run
+ * the settings, a limit on runs, or the owner's storage quota. Null for anything else (a bug).
+ */
+export function runProblem(error: unknown): string | null {
+  if (isModelError(error)) return error.message;
+  if (error instanceof RunRefused || error instanceof QuotaExceeded) return error.message;
+  return null;
+}
 
 const cache = new Map<number, StoredRun>();
 const CACHE_SIZE = 32;
@@ -101,7 +99,7 @@ function fromRow(row: RunRow): StoredRun {
     keyFigures: row.keyFigures as KeyFigures,
     budget: row.budget as NitrogenBudget,
     events: row.events as EventRecord[],
-    series: row.series as Series,
+    series: readStoredSeries(row.series, row.seriesPacked),
     stats: row.stats as SimulationStats,
     createdAt: row.createdAt,
   };
@@ -162,43 +160,54 @@ type Tx = Parameters<Parameters<ReturnType<typeof getDb>["transaction"]>[0]>[0];
 
 /**
  * Writes a finished run inside the caller's transaction; older runs of the scenario are
- * dropped (only the newest is kept). Returns the new run's id.
+ * dropped (only the newest is kept). Long series are stored packed. Throws QuotaExceeded (the
+ * transaction then writes nothing) when the owner's stored runs would pass their quota.
+ * Returns the new run's id.
  */
-export function insertRun(tx: Tx, scenarioId: number, hash: string, result: SimulationResult): number {
+export function insertRun(tx: Tx, scenarioId: number, hash: string, run: StorableRun | SimulationResult): number {
+  const storable: StorableRun = "seriesPacked" in run ? run : toStorableSync(run);
+  checkRunBytes(tx, scenarioId, storedBytes(storable));
   tx.delete(runs).where(eq(runs.scenarioId, scenarioId)).run();
-  for (const [id, run] of cache) if (run.scenarioId === scenarioId) cache.delete(id);
+  for (const [id, cached] of cache) if (cached.scenarioId === scenarioId) cache.delete(id);
   return tx
     .insert(runs)
     .values({
       scenarioId,
       settingsHash: hash,
-      engineVersion: result.engineVersion,
-      keyFigures: result.keyFigures,
-      budget: result.budget,
-      events: result.events,
-      series: result.series,
-      stats: result.stats,
+      engineVersion: storable.engineVersion,
+      keyFigures: storable.keyFigures,
+      budget: storable.budget,
+      events: storable.events,
+      series: storable.seriesPacked ? PACKED_MARKER : storable.series,
+      seriesPacked: storable.seriesPacked ? Buffer.from(storable.seriesPacked) : null,
+      stats: storable.stats,
     })
     .returning({ id: runs.id })
     .get().id;
 }
 
 /** Stores a finished run in its own transaction. */
-export function storeRun(scenarioId: number, hash: string, result: SimulationResult): StoredRun {
-  const id = getDb().transaction((tx) => insertRun(tx, scenarioId, hash, result));
+export function storeRun(scenarioId: number, hash: string, run: StorableRun): StoredRun {
+  const id = getDb().transaction((tx) => insertRun(tx, scenarioId, hash, run));
   return getRun(id)!;
+}
+
+/** Runs the engine for a run about to be stored (long series come back packed); see runEngine. */
+export function runEngineForStorage(scenario: Scenario, request: RunRequest): Promise<StorableRun> {
+  return runForStorage(scenario, request);
 }
 
 /**
  * The run for a scenario's current settings: the stored one if the settings and engine are
- * unchanged, else a fresh run, stored. Throws ModelError when the engine cannot run them.
+ * unchanged, else a fresh run (counted against `ownerId`, the scenario's owner), stored.
+ * Throws ModelError when the engine cannot run them, RunRefused or QuotaExceeded.
  */
-export async function ensureRun(scenarioId: number, scenario: Scenario): Promise<StoredRun> {
+export async function ensureRun(scenarioId: number, scenario: Scenario, ownerId: number): Promise<StoredRun> {
   const hash = settingsHash(scenario);
   const existing = findRun(scenarioId, hash);
   if (existing) return existing;
-  const result = await runEngine(scenario);
-  return storeRun(scenarioId, hash, result);
+  const run = await runEngineForStorage(scenario, { userId: ownerId, purpose: "view" });
+  return storeRun(scenarioId, hash, run);
 }
 
 /** Reads stored settings (migrating old schema versions); null if they no longer validate. */

@@ -9,7 +9,7 @@ import express from "express";
 import helmet from "helmet";
 import { RouterContextProvider } from "react-router";
 import * as build from "virtual:react-router/server-build";
-import { clientIpContext, cspNonceContext } from "~/context";
+import { clientIpContext, cspNonceContext, peerAddressContext } from "~/context";
 import { getEnv } from "~/env.server";
 import { contentSecurityPolicy, crossSiteRefusal } from "~/security.server";
 
@@ -86,6 +86,7 @@ app.use(
     getLoadContext(req, res) {
       const context = new RouterContextProvider();
       context.set(clientIpContext, req.ip ?? req.socket.remoteAddress ?? "unknown");
+      context.set(peerAddressContext, req.socket.remoteAddress ?? "unknown");
       context.set(cspNonceContext, (res.locals.cspNonce as string | undefined) ?? "");
       return context;
     },

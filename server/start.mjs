@@ -1,16 +1,18 @@
 // Starts Fernwater: `node server/start.mjs` serves the build; `--dev` serves through Vite.
-// The port comes from PORT (default 3000); HOST defaults to 0.0.0.0.
+// The port comes from PORT (default 3000); HOST defaults to 127.0.0.1 in local mode and to
+// 0.0.0.0 in production (server/listen-host.mjs).
 import path from "node:path";
 import { pathToFileURL } from "node:url";
 import compression from "compression";
 import express from "express";
+import { chooseListenHost } from "./listen-host.mjs";
 
 const dev = process.argv.includes("--dev");
 if (!dev) process.env.NODE_ENV ??= "production";
 
 const buildDir = path.resolve(process.env.FERNWATER_BUILD_DIR ?? "build");
 const port = Number(process.env.PORT ?? 3000);
-const host = process.env.HOST ?? "0.0.0.0";
+const { host, note: hostNote } = chooseListenHost(process.env);
 
 const server = express();
 server.disable("x-powered-by");
@@ -31,36 +33,53 @@ server.use((req, res, next) => {
 });
 
 let appModule;
-if (dev) {
-  const vite = await import("vite");
-  const viteDev = await vite.createServer({ server: { middlewareMode: true } });
-  server.use(viteDev.middlewares);
-  appModule = await viteDev.ssrLoadModule("./server/app.ts");
-  server.use(async (req, res, next) => {
-    try {
-      const fresh = await viteDev.ssrLoadModule("./server/app.ts");
-      return fresh.app(req, res, next);
-    } catch (error) {
-      if (typeof error === "object" && error instanceof Error) viteDev.ssrFixStacktrace(error);
-      next(error);
-    }
-  });
-} else {
-  appModule = await import(pathToFileURL(path.join(buildDir, "server/index.js")).href);
-  // Fingerprinted assets never change; everything else in public/ may.
-  server.use("/assets", express.static(path.join(buildDir, "client/assets"), { immutable: true, maxAge: "1y", index: false }));
-  // Other public files (favicon…) only for paths that look like files, so page requests skip the disk.
-  const publicFiles = express.static(path.join(buildDir, "client"), { maxAge: "1h", index: false });
-  server.use((req, res, next) => (/\.[a-z0-9]{2,5}$/i.test(req.path) && !req.path.endsWith(".data") ? publicFiles(req, res, next) : next()));
-  server.use(appModule.app);
+let stopBoot;
+try {
+  ({ appModule, stopBoot } = await loadApp());
+} catch (error) {
+  // A wrong environment is the operator's to fix: one clear line, not a stack.
+  if (error && typeof error === "object" && error.name === "FernwaterConfigError") {
+    console.error(`[fernwater] ${error.message}`);
+    process.exit(1);
+  }
+  throw error;
 }
 
-const stopBoot = await appModule.boot();
+/** Loads the app (through Vite in dev, else the build) and boots it; an environment problem throws FernwaterConfigError. */
+async function loadApp() {
+  let loaded;
+  if (dev) {
+    const vite = await import("vite");
+    const viteDev = await vite.createServer({ server: { middlewareMode: true } });
+    server.use(viteDev.middlewares);
+    loaded = await viteDev.ssrLoadModule("./server/app.ts");
+    server.use(async (req, res, next) => {
+      try {
+        const fresh = await viteDev.ssrLoadModule("./server/app.ts");
+        return fresh.app(req, res, next);
+      } catch (error) {
+        if (typeof error === "object" && error instanceof Error) viteDev.ssrFixStacktrace(error);
+        next(error);
+      }
+    });
+  } else {
+    loaded = await import(pathToFileURL(path.join(buildDir, "server/index.js")).href);
+    // Fingerprinted assets never change; everything else in public/ may.
+    server.use("/assets", express.static(path.join(buildDir, "client/assets"), { immutable: true, maxAge: "1y", index: false }));
+    // Other public files (favicon…) only for paths that look like files, so page requests skip the disk.
+    const publicFiles = express.static(path.join(buildDir, "client"), { maxAge: "1h", index: false });
+    server.use((req, res, next) => (/\.[a-z0-9]{2,5}$/i.test(req.path) && !req.path.endsWith(".data") ? publicFiles(req, res, next) : next()));
+    server.use(loaded.app);
+  }
+  return { appModule: loaded, stopBoot: await loaded.boot() };
+}
 
 const listener = server.listen(port, host, () => {
   const address = listener.address();
   const actualPort = typeof address === "object" && address ? address.port : port;
-  console.log(`[fernwater] listening on http://localhost:${actualPort}`);
+  if (hostNote) console.log(hostNote);
+  const shown = host === "0.0.0.0" || host === "::" || host === "127.0.0.1" ? "localhost" : host.includes(":") ? `[${host}]` : host;
+  console.log(`[fernwater] listening on http://${shown}:${actualPort} (address ${host})`);
 });
 
 let stopping = false;

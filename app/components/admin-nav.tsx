@@ -12,6 +12,9 @@ export function AdminNav() {
       <NavLink to="/admin/links" className={tab}>
         Public links
       </NavLink>
+      <NavLink to="/admin/classes" className={tab}>
+        Classes
+      </NavLink>
     </nav>
   );
 }

@@ -11,16 +11,21 @@ import type { JobJson } from "~/jobs.server";
 /** How often a running job is asked for its progress, ms. */
 const POLL_MS = 300;
 
+/** Whether a job may still change: running, or waiting in line to run. */
+export function jobActive(job: Pick<JobJson, "status"> | null | undefined): boolean {
+  return job?.status === "running" || job?.status === "waiting";
+}
+
 /** The job as last heard of: the loader's copy, then each poll's answer. */
 export function useJob(initial: JobJson | null): JobJson | null {
   const fetcher = useFetcher<{ job: JobJson }>();
   const polled = fetcher.data?.job;
   const job =
-    polled && initial && polled.id === initial.id && (initial.status === "running" || polled.status !== "running")
+    polled && initial && polled.id === initial.id && (jobActive(initial) || !jobActive(polled))
       ? polled
       : initial;
   const { load, state } = fetcher;
-  const running = job?.status === "running";
+  const running = jobActive(job);
   const id = job?.id;
   const done = job?.done;
   useEffect(() => {
@@ -32,6 +37,7 @@ export function useJob(initial: JobJson | null): JobJson | null {
 }
 
 const STATUS_TEXT: Record<JobJson["status"], string> = {
+  waiting: "Waiting",
   running: "Running",
   done: "Done",
   failed: "Stopped",
@@ -44,7 +50,7 @@ const STATUS_TEXT: Record<JobJson["status"], string> = {
  */
 export function JobProgress({ job, noun = "engine runs" }: { job: JobJson; noun?: string }) {
   const cancel = useFetcher();
-  const running = job.status === "running";
+  const running = jobActive(job);
   const seconds = (job.elapsedMs / 1000).toFixed(1);
   return (
     <div className="space-y-2" aria-live="polite">
@@ -56,7 +62,9 @@ export function JobProgress({ job, noun = "engine runs" }: { job: JobJson; noun?
       ) : null}
       <div className="flex flex-wrap items-center gap-3">
         <label htmlFor={`job-${job.id}`} className="text-sm font-semibold">
-          {STATUS_TEXT[job.status]}: {job.done} of {job.total} {noun}
+          {job.status === "waiting"
+            ? `Waiting, ${job.ahead} ahead: other people's runs go first, then this one starts by itself`
+            : `${STATUS_TEXT[job.status]}: ${job.done} of ${job.total} ${noun}`}
         </label>
         <span className="text-xs text-stone-600">{seconds} s</span>
         {running ? (

@@ -8,7 +8,7 @@
  * tokens) are stored as SHA-256 hashes, never in the clear.
  */
 import { sql } from "drizzle-orm";
-import { index, integer, primaryKey, real, sqliteTable, text, uniqueIndex } from "drizzle-orm/sqlite-core";
+import { blob, index, integer, primaryKey, real, sqliteTable, text, uniqueIndex } from "drizzle-orm/sqlite-core";
 
 export const ROLES = ["keeper", "educator", "admin"] as const;
 export type Role = (typeof ROLES)[number];
@@ -63,6 +63,28 @@ export const passwordResetTokens = sqliteTable(
     usedAt: integer("used_at", { mode: "timestamp_ms" }),
   },
   (t) => [index("password_reset_tokens_user_idx").on(t.userId)],
+);
+
+/**
+ * A sign-up waiting for its confirmation mail to be opened: the account is made only then, so
+ * the sign-up form answers the same whether or not the address has an account, and nobody can
+ * hold an address they cannot read mail at.
+ */
+export const signUpRequests = sqliteTable(
+  "sign_up_requests",
+  {
+    id: integer("id").primaryKey({ autoIncrement: true }),
+    email: text("email").notNull(),
+    name: text("name").notNull(),
+    passwordHash: text("password_hash").notNull(),
+    tokenHash: text("token_hash").notNull().unique(),
+    /** Where to go once the account exists (a same-site path). */
+    redirectTo: text("redirect_to").notNull().default("/tanks"),
+    createdAt: createdAt(),
+    expiresAt: integer("expires_at", { mode: "timestamp_ms" }).notNull(),
+    usedAt: integer("used_at", { mode: "timestamp_ms" }),
+  },
+  (t) => [index("sign_up_requests_email_idx").on(t.email)],
 );
 
 export const tanks = sqliteTable(
@@ -124,8 +146,12 @@ export const runs = sqliteTable(
     keyFigures: text("key_figures", { mode: "json" }).notNull(),
     budget: text("budget", { mode: "json" }).notNull(),
     events: text("events", { mode: "json" }).notNull(),
-    /** Columnar series, JSON. */
+    /**
+     * Columnar series, JSON — or, for runs stored compactly, the marker `{ "packed": "deflate-raw" }`
+     * with the JSON deflated in series_packed (a two-year hourly run is ~3.2 MB as JSON, ~0.9 MB packed).
+     */
     series: text("series", { mode: "json" }).notNull(),
+    seriesPacked: blob("series_packed", { mode: "buffer" }),
     stats: text("stats", { mode: "json" }).notNull(),
     createdAt: createdAt(),
   },

@@ -20,5 +20,7 @@ export const sharingAndClassesRoutes: RouteConfigEntry[] = [
 
   // Admin moderation of public links (users and roles: app/routes/admin/users.tsx).
   route("admin/links", "routes/admin/links.tsx"),
+  // Classes whose educator was demoted are handed to another educator here.
+  route("admin/classes", "routes/admin/classes.tsx"),
   route("admin/links/:linkId", "routes/admin/link.tsx"),
 ];

@@ -1,20 +1,14 @@
 import { describe, expect, it } from "vitest";
-import { DEMO, expectNoConsoleErrors, newPage, shot, signIn, signOut, uniqueEmail, useBrowser, waitForMail } from "./support/browser";
+import { DEMO, expectNoConsoleErrors, newPage, shot, signIn, signOut, signUp, uniqueEmail, useBrowser, waitForMail } from "./support/browser";
 
 useBrowser();
 
 describe("accounts in the browser", () => {
-  it("signs up, signs out and signs in again", async () => {
+  it("signs up through the mailed link, signs out and signs in again", async () => {
     const page = await newPage();
     const email = uniqueEmail("newcomer");
-    await page.goto("/sign-up");
-    await page.getByLabel("Name").fill("New Keeper");
-    await page.getByLabel("E-mail").fill(email);
-    await page.getByLabel("Password", { exact: true }).fill("lantern moss river");
-    await page.getByLabel("Password again").fill("lantern moss river");
-    await shot(page, "accounts-sign-up");
-    await page.getByRole("button", { name: "Create account" }).click();
-    await page.waitForURL("**/tanks");
+    await signUp(page, "New Keeper", email, "lantern moss river", "accounts-sign-up");
+    expect(new URL(page.url()).pathname).toBe("/tanks");
     await page.getByRole("heading", { name: "Your tanks" }).waitFor();
     await signOut(page);
     await page.getByRole("navigation", { name: "Main" }).getByRole("link", { name: "Sign in" }).waitFor();
@@ -43,13 +37,7 @@ describe("accounts in the browser", () => {
   it("resets a forgotten password through the mailed link", async () => {
     const page = await newPage();
     const email = uniqueEmail("forgetful");
-    await page.goto("/sign-up");
-    await page.getByLabel("Name").fill("Forgetful Keeper");
-    await page.getByLabel("E-mail").fill(email);
-    await page.getByLabel("Password", { exact: true }).fill("first password 1");
-    await page.getByLabel("Password again").fill("first password 1");
-    await page.getByRole("button", { name: "Create account" }).click();
-    await page.waitForURL("**/tanks");
+    await signUp(page, "Forgetful Keeper", email, "first password 1");
     await signOut(page);
 
     await page.goto("/forgot-password");
@@ -87,13 +75,7 @@ describe("accounts in the browser", () => {
   it("lets an admin change a role that takes effect on the user's next request", async () => {
     const keeperPage = await newPage();
     const email = uniqueEmail("promoted");
-    await keeperPage.goto("/sign-up");
-    await keeperPage.getByLabel("Name").fill("Soon Teacher");
-    await keeperPage.getByLabel("E-mail").fill(email);
-    await keeperPage.getByLabel("Password", { exact: true }).fill("promote me please");
-    await keeperPage.getByLabel("Password again").fill("promote me please");
-    await keeperPage.getByRole("button", { name: "Create account" }).click();
-    await keeperPage.waitForURL("**/tanks");
+    await signUp(keeperPage, "Soon Teacher", email, "promote me please");
     await expect.poll(() => keeperPage.getByRole("link", { name: "Admin" }).count()).toBe(0);
     expect((await keeperPage.goto("/admin"))?.status()).toBe(403);
 

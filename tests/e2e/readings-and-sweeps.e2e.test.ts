@@ -2,20 +2,24 @@ import fs from "node:fs";
 import os from "node:os";
 import path from "node:path";
 import { describe, expect, it } from "vitest";
-import { expectNoConsoleErrors, newPage, shot, uniqueEmail, useBrowser, type PageWithErrors } from "./support/browser";
+import {
+  expectNoConsoleErrors,
+  newPage,
+  shot,
+  uniqueEmail,
+  useBrowser,
+  type PageWithErrors,
+  signUp as signUpThroughMail,
+} from "./support/browser";
 
 useBrowser();
 
 const DAY = 86_400_000;
-const isoDay = (daysAgo: number) => new Date(Math.floor(Date.now() / DAY) * DAY - daysAgo * DAY).toISOString().slice(0, 10);
+const isoDay = (daysAgo: number) =>
+  new Date(Math.floor(Date.now() / DAY) * DAY - daysAgo * DAY).toISOString().slice(0, 10);
 
 async function signUp(page: PageWithErrors, email: string) {
-  await page.goto("/sign-up");
-  await page.getByLabel("Name").fill("Readings Keeper");
-  await page.getByLabel("E-mail").fill(email);
-  await page.getByLabel("Password", { exact: true }).fill("readings and sweeps");
-  await page.getByLabel("Password again").fill("readings and sweeps");
-  await page.getByRole("button", { name: "Create account" }).click();
+  await signUpThroughMail(page, "Readings Keeper", email, "readings and sweeps");
   await page.waitForURL("**/tanks");
 }
 
@@ -53,7 +57,10 @@ describe("readings, calibration and sweeps in the browser", () => {
     const download = page.waitForEvent("download");
     await page.getByRole("link", { name: "Download the template" }).click();
     const template = fs.readFileSync((await (await download).path())!, "utf8");
-    const lines = template.replace(/^\uFEFF/, "").trimEnd().split("\r\n");
+    const lines = template
+      .replace(/^\uFEFF/, "")
+      .trimEnd()
+      .split("\r\n");
     expect(lines[0]).toBe("datetime,tan_nh3_mg_l,nitrite_no2_mg_l,nitrate_no3_mg_l,ph,kh_dkh,temperature_c,note");
     expect(lines).toHaveLength(4);
     const extra = `${isoDay(2)}T19:00,0,0,twenty,7.2,5,25,evening`;

@@ -1,16 +1,20 @@
 import fs from "node:fs";
 import { describe, expect, it } from "vitest";
-import { expectNoConsoleErrors, newPage, shot, signIn, uniqueEmail, useBrowser, type PageWithErrors } from "./support/browser";
+import {
+  expectNoConsoleErrors,
+  newPage,
+  shot,
+  signIn,
+  uniqueEmail,
+  useBrowser,
+  type PageWithErrors,
+  signUp as signUpThroughMail,
+} from "./support/browser";
 
 useBrowser();
 
 async function signUp(page: PageWithErrors, email: string) {
-  await page.goto("/sign-up");
-  await page.getByLabel("Name").fill("Chart Keeper");
-  await page.getByLabel("E-mail").fill(email);
-  await page.getByLabel("Password", { exact: true }).fill("nitrate band keeper");
-  await page.getByLabel("Password again").fill("nitrate band keeper");
-  await page.getByRole("button", { name: "Create account" }).click();
+  await signUpThroughMail(page, "Chart Keeper", email, "nitrate band keeper");
   await page.waitForURL("**/tanks");
 }
 
@@ -19,7 +23,9 @@ async function nitrateAtEndByScenario(page: PageWithErrors): Promise<Record<stri
   return page.evaluate(() => {
     const table = [...document.querySelectorAll("table")].find((t) => t.caption?.textContent?.includes("Key figures"))!;
     const names = [...table.querySelectorAll("thead th")].slice(1).map((th) => th.childNodes[0].textContent!.trim());
-    const row = [...table.querySelectorAll("tbody tr")].find((tr) => tr.querySelector("th")!.textContent!.startsWith("Nitrate at the end"))!;
+    const row = [...table.querySelectorAll("tbody tr")].find((tr) =>
+      tr.querySelector("th")!.textContent!.startsWith("Nitrate at the end"),
+    )!;
     const cells = [...row.querySelectorAll("td")].map((td) => Number(td.textContent!.replace(/[^\d.]/g, "")));
     return Object.fromEntries(names.map((n, i) => [n, cells[i]]));
   });
@@ -54,11 +60,20 @@ describe("a keeper's tank in the browser", () => {
     const chart = page.getByRole("application");
     await chart.focus();
     await page.keyboard.press("Home");
-    await page.getByText(/^day 0\b/).first().waitFor();
+    await page
+      .getByText(/^day 0\b/)
+      .first()
+      .waitFor();
     await page.keyboard.press("ArrowRight");
-    await page.getByText(/^day 1\b/).first().waitFor();
+    await page
+      .getByText(/^day 1\b/)
+      .first()
+      .waitFor();
     await page.keyboard.press("End");
-    await page.getByText(/^day 180\b/).first().waitFor();
+    await page
+      .getByText(/^day 180\b/)
+      .first()
+      .waitFor();
 
     // CSV download, made in the browser.
     const download = page.waitForEvent("download");

@@ -13,12 +13,17 @@ import {
 
 useBrowser();
 
+/** Fills the sign-up form on this page, then opens the confirmation mail's link and presses its button. */
 async function signUpHere(page: PageWithErrors, name: string, email: string) {
   await page.getByLabel("Name").fill(name);
   await page.getByLabel("E-mail").fill(email);
   await page.getByLabel("Password", { exact: true }).fill("tide pool lantern");
   await page.getByLabel("Password again").fill("tide pool lantern");
   await page.getByRole("button", { name: "Create account" }).click();
+  await page.getByRole("heading", { name: "Check your e-mail" }).waitFor();
+  const mail = await waitForMail(email, /Confirm your Fernwater account/);
+  await page.goto(mail.links.find((l) => l.includes("/sign-up/confirm?token="))!);
+  await page.getByRole("button", { name: "Create my account" }).click();
 }
 
 describe("share links in the browser", () => {
@@ -55,7 +60,10 @@ describe("share links in the browser", () => {
     await visitor.getByRole("button", { name: "Copy to my tanks" }).click();
     await visitor.waitForURL(/\/tanks\/\d+\/scenarios\/\d+$/);
     await visitor.getByRole("heading", { name: "Feeding less" }).waitFor();
-    await visitor.getByRole("navigation", { name: "Breadcrumb" }).getByRole("link", { name: "Shared with me" }).waitFor();
+    await visitor
+      .getByRole("navigation", { name: "Breadcrumb" })
+      .getByRole("link", { name: "Shared with me" })
+      .waitFor();
     await visitor.getByRole("application").waitFor();
 
     // The keeper turns the link off: the address answers 404 at once.
@@ -95,7 +103,9 @@ describe("share links in the browser", () => {
     await owner.getByRole("link", { name: "As kept now" }).first().click();
     await owner.getByRole("link", { name: "Share" }).click();
     await owner.getByText("Their reason: Names a shop in the scenario title").waitFor();
-    await expect.poll(() => owner.getByRole("button", { name: /Turn on a public link|Make a new link/ }).count()).toBe(0);
+    await expect
+      .poll(() => owner.getByRole("button", { name: /Turn on a public link|Make a new link/ }).count())
+      .toBe(0);
 
     // Restored, the demo link works again for the other tests and the demo.
     await card.getByRole("button", { name: "Restore" }).click();
@@ -125,7 +135,9 @@ describe("classes in the browser", () => {
 
     // A lesson on the demo cycling scenario with only the temperature open.
     await teacher.getByRole("link", { name: "New lesson" }).click();
-    await teacher.getByLabel("1. Scenario to hand out").selectOption({ label: "A new tank cycling without fish (Classroom demo tank)" });
+    await teacher
+      .getByLabel("1. Scenario to hand out")
+      .selectOption({ label: "A new tank cycling without fish (Classroom demo tank)" });
     await teacher.getByRole("button", { name: "Use this scenario" }).click();
     await teacher.getByLabel("Lesson title").fill("Warm water");
     await teacher.getByLabel("Question for the students").fill("Does a warmer tank cycle faster?");
@@ -182,7 +194,9 @@ describe("classes in the browser", () => {
     await teacher.getByRole("application").waitFor();
     await teacher.getByText("Day 0", { exact: true }).waitFor();
     await teacher.getByRole("button", { name: "Play" }).click();
-    await teacher.waitForFunction(() => ((document.querySelector("#day-slider") as HTMLInputElement | null)?.valueAsNumber ?? 0) >= 5);
+    await teacher.waitForFunction(
+      () => ((document.querySelector("#day-slider") as HTMLInputElement | null)?.valueAsNumber ?? 0) >= 5,
+    );
     await teacher.getByRole("button", { name: "Pause" }).click();
     await shot(teacher, "lesson-present");
     expectNoConsoleErrors(teacher);

@@ -53,10 +53,17 @@ describe("health, 404 and the local mail page", () => {
     expect((await call(notFoundLoader, get("/no/such/page"))).status).toBe(404);
   });
 
-  it("shows captured mail in local mode", async () => {
-    const result = await call(devMailLoader, get("/dev/mail"));
+  it("shows captured mail in local mode to this machine only", async () => {
+    const result = await call(devMailLoader, get("/dev/mail"), {}, "127.0.0.1");
     expect(result.status).toBe(200);
     expect(Array.isArray(result.data.messages)).toBe(true);
+    expect((await call(devMailLoader, get("/dev/mail"), {}, "::1")).status).toBe(200);
+    expect((await call(devMailLoader, get("/dev/mail"), {}, "::ffff:127.0.0.1")).status).toBe(200);
+    // Another machine, or a proxy on this machine passing on another machine's request: 404.
+    expect((await call(devMailLoader, get("/dev/mail"), {}, "192.0.2.2")).status).toBe(404);
+    expect((await call(devMailLoader, get("/dev/mail"), {}, "::ffff:192.0.2.2")).status).toBe(404);
+    expect((await call(devMailLoader, get("/dev/mail", undefined, { "X-Forwarded-For": "203.0.113.5" }), {}, "127.0.0.1")).status).toBe(404);
+    expect((await call(devMailLoader, get("/dev/mail", undefined, { Forwarded: "for=203.0.113.5" }), {}, "127.0.0.1")).status).toBe(404);
   });
 
   it("redirects an anonymous visitor of a private page to sign-in and back", async () => {

@@ -167,4 +167,46 @@ describe("scenario files", () => {
     expect(tooBig.data.errors.file).toMatch(/larger than 256 kB/);
     expect(countScenarios()).toBe(before + 1);
   });
+
+  it("PATCH merges a partial settings object into the saved one; unknown names answer 400 naming them, and nothing changes", async () => {
+    const keeper = await userWithCookie();
+    const tankId = String(createTank(keeper.id, "Patch tank"));
+    const created = await call(
+      tankScenariosAction,
+      postJson(
+        `/api/tanks/${tankId}/scenarios`,
+        { name: "Patched", settings: { water: { volumeL: 80, temperatureC: 22 }, fish: { feedGPerDay: 2.5 }, run: { lengthDays: 45 } } },
+        keeper.cookie,
+      ),
+      { tankId },
+    );
+    const scenarioId = String(created.data.scenario.id);
+    const patched = await call(scenarioAction, postJson(`/api/scenarios/${scenarioId}`, { settings: { water: { volumeL: 120 } } }, keeper.cookie, "PATCH"), { scenarioId });
+    expect(patched.status).toBe(200);
+    const after = patched.data.scenario.settings;
+    expect(after.water.volumeL).toBe(120);
+    // What the patch left out stays as saved, not back to its default.
+    expect(after.water.temperatureC).toBe(22);
+    expect(after.fish.feedGPerDay).toBe(2.5);
+    expect(after.run.lengthDays).toBe(45);
+    expect(after.plants).toEqual(created.data.scenario.settings.plants);
+
+    const before = JSON.stringify((await call(scenarioLoader, get(`/api/scenarios/${scenarioId}`, keeper.cookie), { scenarioId })).data);
+    const typo = await call(
+      scenarioAction,
+      postJson(`/api/scenarios/${scenarioId}`, { settings: { water: { volumeLitres: 50, temperatureC: 30 }, fsh: {} } }, keeper.cookie, "PATCH"),
+      { scenarioId },
+    );
+    expect(typo.status).toBe(400);
+    expect(typo.data.error).toMatch(/water\.volumeLitres/);
+    expect(typo.data.error).toMatch(/fsh/);
+    expect(typo.data.issues.map((i: { path: string }) => i.path)).toEqual(expect.arrayContaining(["settings.water.volumeLitres", "settings.fsh"]));
+    expect(JSON.stringify((await call(scenarioLoader, get(`/api/scenarios/${scenarioId}`, keeper.cookie), { scenarioId })).data)).toBe(before);
+    // The same for a new scenario and a preview.
+    const newTypo = await call(tankScenariosAction, postJson(`/api/tanks/${tankId}/scenarios`, { name: "x", settings: { plants: [{ id: "a", mass: 3 }] } }, keeper.cookie), { tankId });
+    expect(newTypo.status).toBe(400);
+    expect(newTypo.data.error).toMatch(/plants\.0\.mass/);
+    const patchNotObject = await call(scenarioAction, postJson(`/api/scenarios/${scenarioId}`, { settings: [1] }, keeper.cookie, "PATCH"), { scenarioId });
+    expect(patchNotObject.status).toBe(400);
+  });
 });

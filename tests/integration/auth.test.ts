@@ -8,6 +8,7 @@ import { action as forgotAction } from "~/routes/auth/forgot-password";
 import { action as resetAction, loader as resetLoader } from "~/routes/auth/reset-password";
 import { action as signInAction } from "~/routes/auth/sign-in";
 import { action as signOutAction } from "~/routes/auth/sign-out";
+import { action as confirmAction, loader as confirmLoader } from "~/routes/auth/confirm-sign-up";
 import { action as signUpAction } from "~/routes/auth/sign-up";
 import { loader as tanksLoader } from "~/routes/tanks/list";
 import { hashToken } from "~/utils/crypto.server";
@@ -29,27 +30,61 @@ const goodSignUp = {
 };
 
 describe("sign-up", () => {
-  it("creates the account, signs in and redirects to the tanks", async () => {
+  /** The confirmation link mailed to `email`, opened and its button pressed: the account's first session. */
+  async function confirmByMail(email: string) {
+    const mail = await waitForMail(email);
+    expect(mail.subject).toMatch(/Confirm your Fernwater account/);
+    const link = mail.links.find((l) => l.includes("/sign-up/confirm?token="))!;
+    const token = new URL(link).searchParams.get("token")!;
+    const page = await call(confirmLoader, get(`/sign-up/confirm?token=${token}`));
+    expect(page.data.email).toBe(email);
+    return call(confirmAction, post("/sign-up/confirm", { token }));
+  }
+
+  it("mails a link that creates the account, signs in and redirects to the tanks", async () => {
     const result = await call(signUpAction, post("/sign-up", goodSignUp));
-    expect(result.status).toBe(302);
-    expect(result.location).toBe("/tanks");
-    const cookie = cookieFrom(result);
-    expect(result.headers.get("Set-Cookie")).toMatch(/HttpOnly/i);
-    expect(result.headers.get("Set-Cookie")).toMatch(/SameSite=Lax/i);
+    expect(result.status).toBe(200);
+    expect(result.data).toMatchObject({ sent: true, email: "ada@example.org" });
+    // Nothing exists until the mail is opened.
+    expect(getDb().select().from(users).where(eq(users.email, "ada@example.org")).get()).toBeUndefined();
+    const confirmed = await confirmByMail("ada@example.org");
+    expect(confirmed.status).toBe(302);
+    expect(confirmed.location).toBe("/tanks");
+    const cookie = cookieFrom(confirmed);
+    expect(confirmed.headers.get("Set-Cookie")).toMatch(/HttpOnly/i);
+    expect(confirmed.headers.get("Set-Cookie")).toMatch(/SameSite=Lax/i);
     const tanks = await call(tanksLoader, get("/tanks", cookie));
     expect(tanks.status).toBe(200);
     const row = getDb().select().from(users).where(eq(users.email, "ada@example.org")).get()!;
     expect(row.role).toBe("keeper");
+    expect(row.emailVerifiedAt).not.toBeNull();
     // bcrypt with cost 11 ($2a$11$ / $2b$11$): the brief asks for at least 10.
     expect(row.passwordHash).toMatch(/^\$2[aby]\$11\$/);
+    expect(await signIn("ada@example.org", "moss ball lantern", "198.51.100.60")).toMatch(/^__fernwater=/);
+    // The link works once.
+    const token = new URL(mailTo("ada@example.org")[0].links.find((l) => l.includes("/sign-up/confirm?token="))!).searchParams.get("token")!;
+    expect((await call(confirmAction, post("/sign-up/confirm", { token }))).status).toBe(400);
+    expect((await call(confirmLoader, get(`/sign-up/confirm?token=${token}`))).data.token).toBeNull();
   });
 
-  it("refuses a duplicate e-mail, whatever its case, and keeps the input", async () => {
-    const result = await call(signUpAction, post("/sign-up", { ...goodSignUp, email: "ADA@example.org" }));
-    expect(result.status).toBe(400);
-    expect(result.data.errors.email).toMatch(/already exists/);
-    expect(result.data.values.name).toBe("Ada Keeper");
-    expect(result.data.values.password).toBeUndefined();
+  it("answers a taken e-mail exactly as a free one, and mails its owner instead of making anything", async () => {
+    const before = getDb().select().from(users).all().length;
+    const taken = await call(signUpAction, post("/sign-up", { ...goodSignUp, email: "ADA@example.org", name: "Someone Else" }, undefined, { "X-Test": "taken" }));
+    const free = await call(signUpAction, post("/sign-up", { ...goodSignUp, email: "brand-new@example.org", name: "Someone Else" }));
+    // OWASP Authentication Cheat Sheet: account enumeration through registration.
+    expect(taken.status).toBe(free.status);
+    expect({ ...taken.data, email: "" }).toEqual({ ...free.data, email: "" });
+    expect(getDb().select().from(users).all().length).toBe(before);
+    const note = await waitForMail("ada@example.org").then(() => mailTo("ada@example.org").find((m) => /already have/.test(m.subject)));
+    await expect.poll(() => mailTo("ada@example.org").some((m) => /You already have a Fernwater account/.test(m.subject))).toBe(true);
+    expect(note === undefined || /sign-in/.test(note.text)).toBe(true);
+    expect(mailTo("ada@example.org").some((m) => m.links.some((l) => l.includes("/sign-up/confirm")) && /Someone Else/.test(m.text))).toBe(false);
+  });
+
+  it("goes back to where sign-up started once the account is confirmed", async () => {
+    await call(signUpAction, post("/sign-up", { ...goodSignUp, email: "returning@example.org", redirectTo: "/s/some-share-token" }));
+    const confirmed = await confirmByMail("returning@example.org");
+    expect(confirmed.location).toBe("/s/some-share-token");
   });
 
   it.each([
@@ -115,7 +150,7 @@ describe("sign-in and sign-out", () => {
     }
     // Even the right password is refused while the limit holds.
     const blocked = await call(signInAction, post("/sign-in", { email: user.email, password: TEST_PASSWORD }), {}, "192.0.2.99");
-    expect(blocked.status).toBe(400);
+    expect(blocked.status).toBe(429);
     expect(blocked.data.errors[""]).toMatch(/Too many failed sign-in attempts\. Wait \d+ seconds?/);
   });
 
@@ -126,6 +161,7 @@ describe("sign-in and sign-out", () => {
     }
     const other = await createUser();
     const blocked = await call(signInAction, post("/sign-in", { email: other.email, password: TEST_PASSWORD }), {}, ip);
+    expect(blocked.status).toBe(429);
     expect(blocked.data.errors[""]).toMatch(/Too many/);
   });
 });
@@ -187,6 +223,24 @@ describe("forgot and reset password", () => {
 });
 
 describe("account", () => {
+  it("ends a reset link asked for before a password change", async () => {
+    const user = await createUser();
+    const cookie = await signIn(user.email, TEST_PASSWORD, "198.51.100.70");
+    await call(forgotAction, post("/forgot-password", { email: user.email }));
+    const link = (await waitForMail(user.email)).links.find((l) => l.includes("/reset-password?token="))!;
+    const token = new URL(link).searchParams.get("token")!;
+    const changed = await call(
+      accountAction,
+      post("/account", { intent: "password", currentPassword: TEST_PASSWORD, password: "changed password 7", confirmPassword: "changed password 7" }, cookie),
+    );
+    expect(changed.status).toBe(302);
+    // The old link is dead on the page and in the action: whoever holds it cannot take the account.
+    expect((await call(resetLoader, get(`/reset-password?token=${token}`))).data.token).toBeNull();
+    const used = await call(resetAction, post("/reset-password", { token, password: "attacker password 1", confirmPassword: "attacker password 1" }));
+    expect(used.status).toBe(400);
+    expect(await signIn(user.email, "changed password 7", "198.51.100.71")).toMatch(/^__fernwater=/);
+  });
+
   it("saves unit preferences", async () => {
     const user = await createUser();
     const cookie = await signIn(user.email);

@@ -13,6 +13,7 @@ import { action as workAction, loader as workLoader } from "~/routes/classes/les
 import { action as classesAction, loader as classesLoader } from "~/routes/classes/list";
 import { loader as presentLoader } from "~/routes/classes/present";
 import { action as editAction, loader as editLoader } from "~/routes/scenarios/edit";
+import { action as tankAction } from "~/routes/tanks/detail";
 import { ScenarioSchema } from "../../models";
 import type { ScenarioFormModel } from "~/utils/scenario-form-types";
 import { unpackSeries } from "~/utils/series-packing";
@@ -329,6 +330,26 @@ describe("lessons", () => {
     expect(seriesOf(view.data.view).t.length).toBeGreaterThan(0);
   });
 
+  it("keeps a handed-in copy: the student cannot delete it, nor its tank, to start the lesson again", async () => {
+    const { student, workPath, params, copy } = await startedCopy();
+    expect((await call(workAction, post(workPath, { intent: "hand-in", answer: "First answer." }, student.cookie), params)).status).toBe(302);
+    const scenario = getDb().select().from(scenarios).where(eq(scenarios.id, copy.scenarioId)).get()!;
+    const tankId = String(scenario.tankId);
+    const dropScenario = await call(tankAction, post(`/tanks/${tankId}`, { intent: "delete-scenario", scenarioId: scenario.id, confirm: "yes" }, student.cookie), { tankId });
+    expect(dropScenario.status).toBe(409);
+    expect(dropScenario.data.errors[""]).toMatch(/holds your hand-in/);
+    const dropTank = await call(tankAction, post(`/tanks/${tankId}`, { intent: "delete-tank", confirm: "yes" }, student.cookie), { tankId });
+    expect(dropTank.status).toBe(409);
+    const kept = getDb().select().from(lessonCopies).where(eq(lessonCopies.id, copy.id)).get()!;
+    expect(kept.answer).toBe("First answer.");
+    expect(kept.handedInAt).not.toBeNull();
+    expect(getDb().select().from(scenarios).where(eq(scenarios.id, copy.scenarioId)).get()).toBeDefined();
+    // Starting the lesson again finds the handed-in copy, not a fresh one.
+    const again = await call(lessonAction, post(`/classes/${params.classId}/lessons/${params.lessonId}`, { intent: "start" }, student.cookie), params);
+    expect(again.location).toBe(workPath);
+    expect(getDb().select().from(lessonCopies).where(eq(lessonCopies.lessonId, Number(params.lessonId))).all()).toHaveLength(1);
+  });
+
   it("shows the teacher what a student changed, locked settings flagged", async () => {
     const { teacher, student, work, workPath, params, classId, lessonId, copy } = await startedCopy();
     const feed = settingsOf(copy.scenarioId).fish.feedGPerDay;
@@ -377,5 +398,66 @@ describe("lessons", () => {
     expect(shown.status).toBe(200);
     expect(shown.data.results.lengthDays).toBe(30);
     expect((await call(presentLoader, get(path, student.cookie), params)).status).toBe(404);
+  });
+});
+
+describe("a demoted educator (docs/decisions/0007-demoted-educators.md)", () => {
+  it("keeps the class read-only, hides the students' e-mails, closes the class to newcomers, and an admin hands it over", async () => {
+    const { teacher, student, classId, cls } = await classWithStudent();
+    const { lessonId } = await lessonFor(teacher, classId);
+    const started = await call(lessonAction, post(`/classes/${classId}/lessons/${lessonId}`, { intent: "start" }, student.cookie), { classId, lessonId });
+    expect(started.status).toBe(302);
+    const invite = await call(classAction, post(`/classes/${classId}`, { intent: "invite", email: "late@example.org" }, teacher.cookie), { classId });
+    expect(invite.status).toBe(200);
+    const inviteLink = (await waitForMail("late@example.org")).links.find((l) => l.includes("/classes/invite/"))!;
+
+    getDb().update(users).set({ role: "keeper" }).where(eq(users.id, teacher.id)).run();
+
+    // Read-only, on the very next request: names without e-mails, lesson questions without hand-ins.
+    const page = await call(classLoader, get(`/classes/${classId}`, teacher.cookie), { classId });
+    expect(page.status).toBe(200);
+    expect(page.data.teacher).toBeNull();
+    expect(JSON.stringify(page.data)).not.toContain(student.email);
+    expect(page.data.formerStudents).toEqual([{ id: student.id, name: expect.any(String) }]);
+    const lesson = await call(lessonLoader, get(`/classes/${classId}/lessons/${lessonId}`, teacher.cookie), { classId, lessonId });
+    expect(lesson.data.handIns).toBeNull();
+    const list = await call(classesLoader, get("/classes", teacher.cookie));
+    expect(list.data.running.map((c: { joinCode: string }) => c.joinCode)).toEqual([""]);
+    // Nothing an educator does: invite, remove, new lesson, present, read a copy.
+    expect((await call(classAction, post(`/classes/${classId}`, { intent: "invite", email: "x@example.org" }, teacher.cookie), { classId })).status).toBe(403);
+    expect((await call(classAction, post(`/classes/${classId}`, { intent: "remove", studentId: student.id, confirm: "yes" }, teacher.cookie), { classId })).status).toBe(403);
+    expect((await call(newLessonLoader, get(`/classes/${classId}/lessons/new`, teacher.cookie), { classId })).status).toBe(403);
+    expect((await call(presentLoader, get(`/classes/${classId}/lessons/${lessonId}/present`, teacher.cookie), { classId, lessonId })).status).toBe(403);
+    const copy = getDb().select().from(lessonCopies).where(eq(lessonCopies.lessonId, Number(lessonId))).get()!;
+    expect((await call(copyLoader, get(`/classes/${classId}/lessons/${lessonId}/copies/${copy.id}`, teacher.cookie), { classId, lessonId, copyId: String(copy.id) })).status).toBe(403);
+    expect(getDb().select().from(classMembers).where(eq(classMembers.classId, Number(classId))).all()).toHaveLength(1);
+
+    // The student keeps their class and their work.
+    expect((await call(workLoader, get(`/classes/${classId}/lessons/${lessonId}/work`, student.cookie), { classId, lessonId })).status).toBe(200);
+    // Nobody new joins: not with the code, not with an invitation sent before the demotion.
+    const newcomer = await userWithCookie();
+    const joined = await call(classesAction, post("/classes", { intent: "join", code: cls.joinCode }, newcomer.cookie));
+    expect(joined.status).toBe(409);
+    expect(joined.data.errors.code).toMatch(/not taking new students/);
+    const late = await userWithCookie();
+    getDb().update(users).set({ email: "late@example.org" }).where(eq(users.id, late.id)).run();
+    const token = inviteLink.split("/").pop()!;
+    const accepted = await call(inviteAction, post(`/classes/invite/${token}`, {}, late.cookie), { token });
+    expect(accepted.status).toBe(409);
+
+    // An admin hands the class to another educator, who then runs it in full.
+    const admin = await userWithCookie("admin");
+    const next = await userWithCookie("educator");
+    const { action: handOver } = await import("~/routes/admin/classes");
+    const refused = await call(handOver, post("/admin/classes", { intent: "hand-over", classId, educatorId: student.id }, admin.cookie));
+    expect(refused.status).toBe(400);
+    const handed = await call(handOver, post("/admin/classes", { intent: "hand-over", classId, educatorId: next.id }, admin.cookie));
+    expect(handed.status).toBe(200);
+    const nextPage = await call(classLoader, get(`/classes/${classId}`, next.cookie), { classId });
+    expect(nextPage.data.teacher.students.map((s: { email: string }) => s.email)).toEqual([student.email]);
+    expect((await call(classesAction, post("/classes", { intent: "join", code: cls.joinCode }, newcomer.cookie))).status).toBe(302);
+    // The former educator, promoted again, no longer has it.
+    getDb().update(users).set({ role: "educator" }).where(eq(users.id, teacher.id)).run();
+    expect((await call(classLoader, get(`/classes/${classId}`, teacher.cookie), { classId })).status).toBe(404);
   });
 });

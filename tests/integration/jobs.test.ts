@@ -4,8 +4,11 @@ import { getDb } from "~/db/client.server";
 import { readings, scenarios } from "~/db/schema";
 import { runEngineTask } from "~/engine-tasks.server";
 import {
+  cancelJob,
   clearJobs,
   createEnginePool,
+  JOB_LIMITS,
+  jobJson,
   getEnginePool,
   setEnginePool,
   sourceWorkerUrl,
@@ -429,12 +432,45 @@ describe("target finder", () => {
 });
 
 describe("the job registry", () => {
-  it("refuses new jobs when the server is full, with a 503 message", () => {
+  it("queues jobs past the server's capacity in order, says how many are ahead, and starts them as others finish", async () => {
+    // Capacity: JOB_LIMITS.runningPerWorker per pool worker. Every job here waits for a release.
+    const releases: (() => void)[] = [];
+    const held = () => new Promise<string>((resolve) => releases.push(() => resolve("done")));
+    const capacity = JOB_LIMITS.runningPerWorker * getEnginePool().size;
+    const running = Array.from({ length: capacity }, (_, i) => startJob({ user: { id: 10_000 + i }, kind: "sweep", label: "x", total: 1 }, held));
+    expect(running.every((j) => j.status === "running")).toBe(true);
+    // Before: the next person got "the server is busy" (503). Now they wait in line.
+    const fifth = startJob({ user: { id: 20_000 }, kind: "sweep", label: "fifth", total: 1 }, held);
+    const sixth = startJob({ user: { id: 20_001 }, kind: "sweep", label: "sixth", total: 1 }, held);
+    expect([fifth.status, sixth.status]).toEqual(["waiting", "waiting"]);
+    expect([jobJson(fifth).ahead, jobJson(sixth).ahead]).toEqual([0, 1]);
+    // Still one job per person, waiting included.
+    expect(() => startJob({ user: { id: 20_001 }, kind: "calibration", label: "again", total: 1 }, held)).toThrow(/already have a sweep/);
+    // The waiting one can be cancelled at once; the one behind it moves up.
+    const seventh = startJob({ user: { id: 20_002 }, kind: "sweep", label: "seventh", total: 1 }, held);
+    expect(jobJson(seventh).ahead).toBe(2);
+    cancelJob(20_001, sixth.id);
+    expect(sixth.status).toBe("cancelled");
+    expect(jobJson(seventh).ahead).toBe(1);
+    // One running job finishes: the first in line starts, in order.
+    releases.shift()!();
+    await new Promise((r) => setTimeout(r, 20));
+    expect(fifth.status).toBe("running");
+    expect(seventh.status).toBe("waiting");
+    expect(jobJson(seventh).ahead).toBe(0);
+    releases.splice(0).forEach((r) => r());
+    await new Promise((r) => setTimeout(r, 20));
+    expect(seventh.status).toBe("running");
+    releases.splice(0).forEach((r) => r());
+    await new Promise((r) => setTimeout(r, 20));
+    expect([fifth.status, seventh.status]).toEqual(["done", "done"]);
+  });
+
+  it("refuses a start only when the line itself is full, with a 503 message", () => {
     const never = () => new Promise<never>(() => {});
-    const size = getEnginePool().size;
-    for (let i = 0; i < 4 * size; i++)
-      startJob({ user: { id: 10_000 + i }, kind: "sweep", label: "x", total: 1 }, never);
-    expect(() => startJob({ user: { id: 20_000 }, kind: "sweep", label: "x", total: 1 }, never)).toThrow(/busy/);
+    const capacity = JOB_LIMITS.runningPerWorker * getEnginePool().size;
+    for (let i = 0; i < capacity + JOB_LIMITS.maxWaiting; i++) startJob({ user: { id: 40_000 + i }, kind: "sweep", label: "x", total: 1 }, never);
+    expect(() => startJob({ user: { id: 50_000 }, kind: "sweep", label: "x", total: 1 }, never)).toThrow(/line .* is full/);
   });
 
   it("labels a sweep with the person's units", () => {

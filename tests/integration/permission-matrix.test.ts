@@ -10,7 +10,7 @@ beforeAll(buildWorld, 60_000);
 
 describe("the permission matrix", () => {
   for (const row of PERMISSION_MATRIX) {
-    const title = `${row.handler === "loader" ? "GET" : (row.method ?? "POST")} ${row.path} (${row.file} ${row.handler})${row.form?.intent ? ` intent=${row.form.intent}` : ""}`;
+    const title = `${row.handler === "loader" ? "GET" : (row.method ?? "POST")} ${row.path} (${row.file} ${row.handler})${row.form?.intent ? ` intent=${row.form.intent}` : ""}${row.ip ? ` from ${row.ip}` : ""}`;
     it.skipIf(!ROUTE_FILES.has(row.file))(title, async () => {
       const handler = await handlerOf(row);
       const got: Answer[] = [];
@@ -18,7 +18,7 @@ describe("the permission matrix", () => {
         const person = people[who as keyof typeof people];
         let cookie = person?.cookie;
         if (row.freshSession && person) cookie = await signIn(person.email, undefined, "198.51.100.2");
-        const result = await call(handler, request(row, cookie), fill(row.path).params, "198.51.100.9");
+        const result = await call(handler, request(row, cookie), fill(row.path).params, row.ip ?? "198.51.100.9");
         got.push(answerOf(result.status, result.location));
       }
       expect(Object.fromEntries(VISITORS.map((v, i) => [v, got[i]]))).toEqual(Object.fromEntries(VISITORS.map((v, i) => [v, row.expect[i]])));

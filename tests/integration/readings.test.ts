@@ -293,7 +293,8 @@ describe("CSV upload, export and template", () => {
       { tankId: otherTank },
     );
     expect(exported.data).toMatchObject({ stored: 2, error: null });
-    const copy = stored(Number(otherTank)).find((r) => r.note === "'=1+2")!;
+    // The neutralising quote comes off on upload: the note is back exactly as it was (issue 10).
+    const copy = stored(Number(otherTank)).find((r) => r.note === "=1+2")!;
     expect(copy.nitrate).toBeCloseTo(4.518, 4);
 
     const api = await call(tankReadingsApi, get(`/api/tanks/${tankId}/readings`, keeper.cookie), {

@@ -20,7 +20,7 @@ import { expect } from "vitest";
 import routeConfig from "~/routes";
 import { createClass, insertLesson } from "~/classes.server";
 import { getDb } from "~/db/client.server";
-import { classInvites, classMembers, lessonCopies, runs, scenarios, shareLinks } from "~/db/schema";
+import { classInvites, classMembers, lessonCopies, runs, scenarios, shareLinks, users } from "~/db/schema";
 import { makeLink } from "~/share.server";
 import { readStoredSettings } from "~/simulation.server";
 import { hashToken } from "~/utils/crypto.server";
@@ -29,9 +29,12 @@ import { createScenario, createTank } from "./tanks";
 import { createUser, signIn } from "./users";
 
 export type Answer = 200 | 302 | 400 | 401 | 403 | 404 | 405 | 409 | "sign-in";
-/** In this order: anonymous, the owner, another keeper, an educator of the owner's class, an admin. */
-export type Answers = [anonymous: Answer, owner: Answer, otherKeeper: Answer, educator: Answer, admin: Answer];
-export const VISITORS = ["anonymous", "owner", "other keeper", "educator of the owner's class", "admin"] as const;
+/**
+ * In this order: anonymous, the owner, another keeper, an educator of the owner's class, an admin,
+ * and a demoted educator (ran a class the owner belongs to, then became a keeper again).
+ */
+export type Answers = [anonymous: Answer, owner: Answer, otherKeeper: Answer, educator: Answer, admin: Answer, demotedEducator: Answer];
+export const VISITORS = ["anonymous", "owner", "other keeper", "educator of the owner's class", "admin", "demoted educator"] as const;
 
 export type Row = {
   /** Route module, as named in app/routes.ts. */
@@ -44,42 +47,49 @@ export type Row = {
   json?: unknown;
   /** Sign in afresh for this row (an action that ends the session it is called with). */
   freshSession?: boolean;
+  /** The client's address (default: another machine, 198.51.100.9). */
+  ip?: string;
   expect: Answers;
 };
 
-const PAGE_PRIVATE: Answers = ["sign-in", 200, 404, 404, 404];
-const ACTION_PRIVATE: Answers = ["sign-in", 400, 404, 404, 404];
-const API_PRIVATE: Answers = [401, 200, 404, 404, 404];
-const API_PRIVATE_ACTION: Answers = [401, 400, 404, 404, 404];
-const EVERYONE: Answers = [200, 200, 200, 200, 200];
-const SIGNED_IN: Answers = ["sign-in", 200, 200, 200, 200];
-const ADMIN_PAGE: Answers = ["sign-in", 403, 403, 403, 200];
-const ADMIN_ACTION: Answers = ["sign-in", 403, 403, 403, 400];
-const SIGNED_OUT_ONLY: Answers = [200, 302, 302, 302, 302];
+const PAGE_PRIVATE: Answers = ["sign-in", 200, 404, 404, 404, 404];
+const ACTION_PRIVATE: Answers = ["sign-in", 400, 404, 404, 404, 404];
+const API_PRIVATE: Answers = [401, 200, 404, 404, 404, 404];
+const API_PRIVATE_ACTION: Answers = [401, 400, 404, 404, 404, 404];
+const EVERYONE: Answers = [200, 200, 200, 200, 200, 200];
+const SIGNED_IN: Answers = ["sign-in", 200, 200, 200, 200, 200];
+const ADMIN_PAGE: Answers = ["sign-in", 403, 403, 403, 200, 403];
+const ADMIN_ACTION: Answers = ["sign-in", 403, 403, 403, 400, 403];
+const WRONG_METHOD: Answers = [405, 405, 405, 405, 405, 405];
+const SIGNED_OUT_ONLY: Answers = [200, 302, 302, 302, 302, 302];
 
 const NOTHING = { intent: "nothing-at-all" };
 const TANK = "/tanks/:tankId";
 const SCENARIO = "/tanks/:tankId/scenarios/:scenarioId";
 const LESSON = "/classes/:classId/lessons/:lessonId";
+const FORMER = "/classes/:formerClassId";
+const FORMER_LESSON = "/classes/:formerClassId/lessons/:formerLessonId";
 
 export const PERMISSION_MATRIX: Row[] = [
   // Public pages and accounts
   { file: "routes/home.tsx", handler: "loader", path: "/", expect: EVERYONE },
   { file: "routes/auth/sign-up.tsx", handler: "loader", path: "/sign-up", expect: SIGNED_OUT_ONLY },
-  { file: "routes/auth/sign-up.tsx", handler: "action", path: "/sign-up", form: {}, expect: [400, 400, 400, 400, 400] },
+  { file: "routes/auth/sign-up.tsx", handler: "action", path: "/sign-up", form: {}, expect: [400, 400, 400, 400, 400, 400] },
+  { file: "routes/auth/confirm-sign-up.tsx", handler: "loader", path: "/sign-up/confirm?token=nope-not-a-live-token", expect: EVERYONE },
+  { file: "routes/auth/confirm-sign-up.tsx", handler: "action", path: "/sign-up/confirm", form: { token: "nope-not-a-live-token" }, expect: [400, 400, 400, 400, 400, 400] },
   { file: "routes/auth/sign-in.tsx", handler: "loader", path: "/sign-in", expect: SIGNED_OUT_ONLY },
-  { file: "routes/auth/sign-in.tsx", handler: "action", path: "/sign-in", form: { email: "", password: "" }, expect: [400, 400, 400, 400, 400] },
-  { file: "routes/auth/sign-out.tsx", handler: "loader", path: "/sign-out", expect: [302, 302, 302, 302, 302] },
-  { file: "routes/auth/sign-out.tsx", handler: "action", path: "/sign-out", form: {}, freshSession: true, expect: [302, 302, 302, 302, 302] },
-  { file: "routes/auth/forgot-password.tsx", handler: "action", path: "/forgot-password", form: { email: "" }, expect: [400, 400, 400, 400, 400] },
+  { file: "routes/auth/sign-in.tsx", handler: "action", path: "/sign-in", form: { email: "", password: "" }, expect: [400, 400, 400, 400, 400, 400] },
+  { file: "routes/auth/sign-out.tsx", handler: "loader", path: "/sign-out", expect: [302, 302, 302, 302, 302, 302] },
+  { file: "routes/auth/sign-out.tsx", handler: "action", path: "/sign-out", form: {}, freshSession: true, expect: [302, 302, 302, 302, 302, 302] },
+  { file: "routes/auth/forgot-password.tsx", handler: "action", path: "/forgot-password", form: { email: "" }, expect: [400, 400, 400, 400, 400, 400] },
   { file: "routes/auth/reset-password.tsx", handler: "loader", path: "/reset-password?token=nope", expect: EVERYONE },
-  { file: "routes/auth/reset-password.tsx", handler: "action", path: "/reset-password", form: {}, expect: [400, 400, 400, 400, 400] },
+  { file: "routes/auth/reset-password.tsx", handler: "action", path: "/reset-password", form: {}, expect: [400, 400, 400, 400, 400, 400] },
   { file: "routes/auth/account.tsx", handler: "loader", path: "/account", expect: SIGNED_IN },
-  { file: "routes/auth/account.tsx", handler: "action", path: "/account", form: NOTHING, expect: ["sign-in", 400, 400, 400, 400] },
+  { file: "routes/auth/account.tsx", handler: "action", path: "/account", form: NOTHING, expect: ["sign-in", 400, 400, 400, 400, 400] },
 
   // Tanks and scenarios: private to their owner
   { file: "routes/tanks/list.tsx", handler: "loader", path: "/tanks", expect: SIGNED_IN },
-  { file: "routes/tanks/list.tsx", handler: "action", path: "/tanks", form: { name: "" }, expect: ["sign-in", 400, 400, 400, 400] },
+  { file: "routes/tanks/list.tsx", handler: "action", path: "/tanks", form: { name: "" }, expect: ["sign-in", 400, 400, 400, 400, 400] },
   { file: "routes/tanks/detail.tsx", handler: "loader", path: TANK, expect: PAGE_PRIVATE },
   { file: "routes/tanks/detail.tsx", handler: "action", path: TANK, form: NOTHING, expect: ACTION_PRIVATE },
   { file: "routes/tanks/compare.tsx", handler: "loader", path: `${TANK}/compare`, expect: PAGE_PRIVATE },
@@ -94,7 +104,7 @@ export const PERMISSION_MATRIX: Row[] = [
   { file: "routes/scenarios/export.ts", handler: "loader", path: `${SCENARIO}/export`, expect: PAGE_PRIVATE },
   // The owner's lesson copy is their own scenario: their educator reads it through the class, not here.
   { file: "routes/scenarios/results.tsx", handler: "loader", path: "/tanks/:copyTankId/scenarios/:copyScenarioId", expect: PAGE_PRIVATE },
-  { file: "routes/scenarios/edit.tsx", handler: "loader", path: "/tanks/:copyTankId/scenarios/:copyScenarioId/edit", expect: ["sign-in", 302, 404, 404, 404] },
+  { file: "routes/scenarios/edit.tsx", handler: "loader", path: "/tanks/:copyTankId/scenarios/:copyScenarioId/edit", expect: ["sign-in", 302, 404, 404, 404, 404] },
 
   // Readings, calibration, sweeps and the target finder: private to the tank's owner
   { file: "routes/readings/list.tsx", handler: "loader", path: `${TANK}/readings`, expect: PAGE_PRIVATE },
@@ -114,25 +124,38 @@ export const PERMISSION_MATRIX: Row[] = [
   { file: "routes/share/manage.tsx", handler: "loader", path: `${SCENARIO}/share`, expect: PAGE_PRIVATE },
   { file: "routes/share/manage.tsx", handler: "action", path: `${SCENARIO}/share`, form: NOTHING, expect: ACTION_PRIVATE },
   { file: "routes/share/public.tsx", handler: "loader", path: "/s/:token", expect: EVERYONE },
-  { file: "routes/share/public.tsx", handler: "loader", path: "/s/:revokedToken", expect: [404, 404, 404, 404, 404] },
-  { file: "routes/share/public.tsx", handler: "action", path: "/s/:token", form: { intent: "copy", tankId: "none" }, expect: ["sign-in", 400, 400, 400, 400] },
+  { file: "routes/share/public.tsx", handler: "loader", path: "/s/:revokedToken", expect: [404, 404, 404, 404, 404, 404] },
+  { file: "routes/share/public.tsx", handler: "action", path: "/s/:token", form: { intent: "copy", tankId: "none" }, expect: ["sign-in", 400, 400, 400, 400, 400] },
 
   // Classes and lessons: the class's educator and its members
   { file: "routes/classes/list.tsx", handler: "loader", path: "/classes", expect: SIGNED_IN },
-  { file: "routes/classes/list.tsx", handler: "action", path: "/classes", form: { intent: "create", name: "" }, expect: ["sign-in", 403, 403, 400, 400] },
-  { file: "routes/classes/list.tsx", handler: "action", path: "/classes", form: { intent: "join", code: "" }, expect: ["sign-in", 400, 400, 400, 400] },
+  { file: "routes/classes/list.tsx", handler: "action", path: "/classes", form: { intent: "create", name: "" }, expect: ["sign-in", 403, 403, 400, 400, 403] },
+  { file: "routes/classes/list.tsx", handler: "action", path: "/classes", form: { intent: "join", code: "" }, expect: ["sign-in", 400, 400, 400, 400, 400] },
   { file: "routes/classes/invite.tsx", handler: "loader", path: "/classes/invite/:inviteToken", expect: EVERYONE },
-  { file: "routes/classes/invite.tsx", handler: "action", path: "/classes/invite/:inviteToken", form: {}, expect: ["sign-in", 400, 400, 400, 400] },
-  { file: "routes/classes/detail.tsx", handler: "loader", path: "/classes/:classId", expect: ["sign-in", 200, 404, 200, 404] },
-  { file: "routes/classes/detail.tsx", handler: "action", path: "/classes/:classId", form: NOTHING, expect: ["sign-in", 404, 404, 400, 404] },
-  { file: "routes/classes/lesson-new.tsx", handler: "loader", path: "/classes/:classId/lessons/new", expect: ["sign-in", 403, 403, 200, 404] },
-  { file: "routes/classes/lesson-new.tsx", handler: "action", path: "/classes/:classId/lessons/new", form: {}, expect: ["sign-in", 403, 403, 400, 404] },
-  { file: "routes/classes/lesson.tsx", handler: "loader", path: LESSON, expect: ["sign-in", 200, 404, 200, 404] },
-  { file: "routes/classes/lesson.tsx", handler: "action", path: LESSON, form: NOTHING, expect: ["sign-in", 400, 404, 400, 404] },
-  { file: "routes/classes/lesson-work.tsx", handler: "loader", path: `${LESSON}/work`, expect: ["sign-in", 200, 404, 404, 404] },
-  { file: "routes/classes/lesson-work.tsx", handler: "action", path: `${LESSON}/work`, form: { intent: "hand-in", answer: "" }, expect: ["sign-in", 400, 404, 404, 404] },
-  { file: "routes/classes/present.tsx", handler: "loader", path: `${LESSON}/present`, expect: ["sign-in", 404, 404, 200, 404] },
-  { file: "routes/classes/copy.tsx", handler: "loader", path: `${LESSON}/copies/:copyId`, expect: ["sign-in", 404, 404, 200, 404] },
+  { file: "routes/classes/invite.tsx", handler: "action", path: "/classes/invite/:inviteToken", form: {}, expect: ["sign-in", 400, 400, 400, 400, 400] },
+  { file: "routes/classes/detail.tsx", handler: "loader", path: "/classes/:classId", expect: ["sign-in", 200, 404, 200, 404, 404] },
+  { file: "routes/classes/detail.tsx", handler: "action", path: "/classes/:classId", form: NOTHING, expect: ["sign-in", 404, 404, 400, 404, 404] },
+  { file: "routes/classes/lesson-new.tsx", handler: "loader", path: "/classes/:classId/lessons/new", expect: ["sign-in", 403, 403, 200, 404, 403] },
+  { file: "routes/classes/lesson-new.tsx", handler: "action", path: "/classes/:classId/lessons/new", form: {}, expect: ["sign-in", 403, 403, 400, 404, 403] },
+  { file: "routes/classes/lesson.tsx", handler: "loader", path: LESSON, expect: ["sign-in", 200, 404, 200, 404, 404] },
+  { file: "routes/classes/lesson.tsx", handler: "action", path: LESSON, form: NOTHING, expect: ["sign-in", 400, 404, 400, 404, 404] },
+  { file: "routes/classes/lesson-work.tsx", handler: "loader", path: `${LESSON}/work`, expect: ["sign-in", 200, 404, 404, 404, 404] },
+  { file: "routes/classes/lesson-work.tsx", handler: "action", path: `${LESSON}/work`, form: { intent: "hand-in", answer: "" }, expect: ["sign-in", 400, 404, 404, 404, 404] },
+  { file: "routes/classes/present.tsx", handler: "loader", path: `${LESSON}/present`, expect: ["sign-in", 404, 404, 200, 404, 404] },
+  { file: "routes/classes/copy.tsx", handler: "loader", path: `${LESSON}/copies/:copyId`, expect: ["sign-in", 404, 404, 200, 404, 404] },
+
+  // A class whose educator was demoted to keeper (the owner is one of its students): read-only for
+  // its former educator (403 for anything an educator does), unchanged for its students.
+  { file: "routes/classes/detail.tsx", handler: "loader", path: FORMER, expect: ["sign-in", 200, 404, 404, 404, 200] },
+  { file: "routes/classes/detail.tsx", handler: "action", path: FORMER, form: { intent: "invite", email: "someone@example.org" }, expect: ["sign-in", 404, 404, 404, 404, 403] },
+  { file: "routes/classes/detail.tsx", handler: "action", path: FORMER, form: { intent: "remove", studentId: ":ownerId", confirm: "yes" }, expect: ["sign-in", 404, 404, 404, 404, 403] },
+  { file: "routes/classes/lesson-new.tsx", handler: "loader", path: `${FORMER}/lessons/new`, expect: ["sign-in", 403, 403, 404, 404, 403] },
+  { file: "routes/classes/lesson-new.tsx", handler: "action", path: `${FORMER}/lessons/new`, form: {}, expect: ["sign-in", 403, 403, 404, 404, 403] },
+  { file: "routes/classes/lesson.tsx", handler: "loader", path: FORMER_LESSON, expect: ["sign-in", 200, 404, 404, 404, 200] },
+  { file: "routes/classes/lesson.tsx", handler: "action", path: FORMER_LESSON, form: NOTHING, expect: ["sign-in", 400, 404, 404, 404, 403] },
+  { file: "routes/classes/lesson-work.tsx", handler: "loader", path: `${FORMER_LESSON}/work`, expect: ["sign-in", 302, 404, 404, 404, 404] },
+  { file: "routes/classes/present.tsx", handler: "loader", path: `${FORMER_LESSON}/present`, expect: ["sign-in", 404, 404, 404, 404, 403] },
+  { file: "routes/classes/copy.tsx", handler: "loader", path: `${FORMER_LESSON}/copies/:copyId`, expect: ["sign-in", 404, 404, 404, 404, 403] },
 
   // Admin
   { file: "routes/admin/users.tsx", handler: "loader", path: "/admin", expect: ADMIN_PAGE },
@@ -140,25 +163,29 @@ export const PERMISSION_MATRIX: Row[] = [
   { file: "routes/admin/links.tsx", handler: "loader", path: "/admin/links", expect: ADMIN_PAGE },
   { file: "routes/admin/links.tsx", handler: "action", path: "/admin/links", form: NOTHING, expect: ADMIN_ACTION },
   { file: "routes/admin/link.tsx", handler: "loader", path: "/admin/links/:linkId", expect: ADMIN_PAGE },
+  { file: "routes/admin/classes.tsx", handler: "loader", path: "/admin/classes", expect: ADMIN_PAGE },
+  { file: "routes/admin/classes.tsx", handler: "action", path: "/admin/classes", form: NOTHING, expect: ADMIN_ACTION },
 
-  // Local-mode tools (tests run in local mode; in production both answer 404 to everyone)
-  { file: "routes/dev/mail.tsx", handler: "loader", path: "/dev/mail", expect: EVERYONE },
-  { file: "routes/dev/chart-preview.tsx", handler: "loader", path: "/dev/chart-preview", expect: EVERYONE },
+  // Local-mode tools: this machine only (tests run in local mode; in production both answer 404 to everyone)
+  { file: "routes/dev/mail.tsx", handler: "loader", path: "/dev/mail", ip: "127.0.0.1", expect: EVERYONE },
+  { file: "routes/dev/mail.tsx", handler: "loader", path: "/dev/mail", expect: [404, 404, 404, 404, 404, 404] },
+  { file: "routes/dev/chart-preview.tsx", handler: "loader", path: "/dev/chart-preview", ip: "127.0.0.1", expect: EVERYONE },
+  { file: "routes/dev/chart-preview.tsx", handler: "loader", path: "/dev/chart-preview", expect: [404, 404, 404, 404, 404, 404] },
 
   // JSON API: the session cookie, 401 without one, 404 for someone else's things
   { file: "routes/api/health.ts", handler: "loader", path: "/api/health", expect: EVERYONE },
-  { file: "routes/api/tanks.ts", handler: "loader", path: "/api/tanks", expect: [401, 200, 200, 200, 200] },
+  { file: "routes/api/tanks.ts", handler: "loader", path: "/api/tanks", expect: [401, 200, 200, 200, 200, 200] },
   { file: "routes/api/tank-scenarios.ts", handler: "loader", path: "/api/tanks/:tankId/scenarios", expect: API_PRIVATE },
   { file: "routes/api/tank-scenarios.ts", handler: "action", path: "/api/tanks/:tankId/scenarios", json: {}, expect: API_PRIVATE_ACTION },
   { file: "routes/api/scenario.ts", handler: "loader", path: "/api/scenarios/:scenarioId", expect: API_PRIVATE },
   { file: "routes/api/scenario.ts", handler: "action", path: "/api/scenarios/:scenarioId", method: "PATCH", json: { nope: 1 }, expect: API_PRIVATE_ACTION },
   { file: "routes/api/scenario-run.ts", handler: "loader", path: "/api/scenarios/:scenarioId/run", expect: API_PRIVATE },
-  { file: "routes/api/scenario-run.ts", handler: "action", path: "/api/scenarios/:scenarioId/run", json: {}, expect: [401, 200, 404, 404, 404] },
+  { file: "routes/api/scenario-run.ts", handler: "action", path: "/api/scenarios/:scenarioId/run", json: {}, expect: [401, 200, 404, 404, 404, 404] },
   // The method is checked before the session: a wrong method tells nobody anything.
-  { file: "routes/api/scenario-run.ts", handler: "action", path: "/api/scenarios/:scenarioId/run", method: "PUT", json: {}, expect: [405, 405, 405, 405, 405] },
+  { file: "routes/api/scenario-run.ts", handler: "action", path: "/api/scenarios/:scenarioId/run", method: "PUT", json: {}, expect: [405, 405, 405, 405, 405, 405] },
   { file: "routes/api/run.ts", handler: "loader", path: "/api/runs/:runId", expect: API_PRIVATE },
-  { file: "routes/api/preview.ts", handler: "action", path: "/api/preview", json: { nope: 1 }, expect: [401, 400, 400, 400, 400] },
-  { file: "routes/api/preview.ts", handler: "action", path: "/api/preview", json: { scenarioId: 0, whatIf: {} }, expect: [401, 400, 400, 400, 400] },
+  { file: "routes/api/preview.ts", handler: "action", path: "/api/preview", json: { nope: 1 }, expect: [401, 400, 400, 400, 400, 400] },
+  { file: "routes/api/preview.ts", handler: "action", path: "/api/preview", json: { scenarioId: 0, whatIf: {} }, expect: [401, 400, 400, 400, 400, 400] },
 
   { file: "routes/api/tank-readings.ts", handler: "loader", path: "/api/tanks/:tankId/readings", expect: API_PRIVATE },
   { file: "routes/api/scenario-sweeps.ts", handler: "loader", path: "/api/scenarios/:scenarioId/sweeps", expect: API_PRIVATE },
@@ -166,13 +193,24 @@ export const PERMISSION_MATRIX: Row[] = [
   { file: "routes/api/scenario-calibrations.ts", handler: "action", path: "/api/scenarios/:scenarioId/calibrations", json: {}, expect: API_PRIVATE_ACTION },
   { file: "routes/api/scenario-targets.ts", handler: "action", path: "/api/scenarios/:scenarioId/targets", json: {}, expect: API_PRIVATE_ACTION },
   // A job id nobody holds: each person sees only their own jobs (tests/integration/jobs.test.ts walks a real one).
-  { file: "routes/api/job.ts", handler: "loader", path: "/api/jobs/no-such-job", expect: [401, 404, 404, 404, 404] },
-  { file: "routes/api/job.ts", handler: "action", path: "/api/jobs/no-such-job", method: "DELETE", json: {}, expect: [401, 404, 404, 404, 404] },
-  { file: "routes/api/job.ts", handler: "action", path: "/api/jobs/no-such-job", json: {}, expect: [405, 405, 405, 405, 405] },
+  { file: "routes/api/job.ts", handler: "loader", path: "/api/jobs/no-such-job", expect: [401, 404, 404, 404, 404, 404] },
+  { file: "routes/api/job.ts", handler: "action", path: "/api/jobs/no-such-job", method: "DELETE", json: {}, expect: [401, 404, 404, 404, 404, 404] },
+  { file: "routes/api/job.ts", handler: "action", path: "/api/jobs/no-such-job", json: {}, expect: [405, 405, 405, 405, 405, 405] },
+
+  // A method a route does not take: the API's JSON 405, before anything else is looked at.
+  { file: "routes/api/health.ts", handler: "action", path: "/api/health", json: {}, expect: WRONG_METHOD },
+  { file: "routes/api/tanks.ts", handler: "action", path: "/api/tanks", json: {}, expect: WRONG_METHOD },
+  { file: "routes/api/run.ts", handler: "action", path: "/api/runs/:runId", method: "PUT", json: {}, expect: WRONG_METHOD },
+  { file: "routes/api/preview.ts", handler: "loader", path: "/api/preview", expect: WRONG_METHOD },
+  { file: "routes/api/tank-readings.ts", handler: "action", path: "/api/tanks/:tankId/readings", json: {}, expect: WRONG_METHOD },
+  { file: "routes/api/scenario-calibrations.ts", handler: "loader", path: "/api/scenarios/:scenarioId/calibrations", expect: WRONG_METHOD },
+  { file: "routes/api/scenario-targets.ts", handler: "loader", path: "/api/scenarios/:scenarioId/targets", expect: WRONG_METHOD },
+  { file: "routes/api/not-found.ts", handler: "loader", path: "/api/no/such/route", expect: [404, 404, 404, 404, 404, 404] },
+  { file: "routes/api/not-found.ts", handler: "action", path: "/api/no/such/route", method: "DELETE", json: {}, expect: [404, 404, 404, 404, 404, 404] },
 
   // Anything else
-  { file: "routes/not-found.tsx", handler: "loader", path: "/no/such/page", expect: [404, 404, 404, 404, 404] },
-  { file: "routes/not-found.tsx", handler: "action", path: "/no/such/page", form: {}, expect: [404, 404, 404, 404, 404] },
+  { file: "routes/not-found.tsx", handler: "loader", path: "/no/such/page", expect: [404, 404, 404, 404, 404, 404] },
+  { file: "routes/not-found.tsx", handler: "action", path: "/no/such/page", form: {}, expect: [404, 404, 404, 404, 404, 404] },
 ];
 
 // ---------------------------------------------------------------------------------------------
@@ -194,6 +232,7 @@ export async function buildWorld(): Promise<void> {
     ["other keeper", "keeper"],
     ["educator of the owner's class", "educator"],
     ["admin", "admin"],
+    ["demoted educator", "educator"],
   ] as const) {
     const user = await createUser(role, who);
     people[who] = { ...user, cookie: await signIn(user.email, undefined, "198.51.100.1") };
@@ -236,6 +275,20 @@ export async function buildWorld(): Promise<void> {
   world.copyScenarioId = String(copyScenario.id);
   world.copyTankId = String(copyScenario.tankId);
 
+  // The demoted educator's class, with the owner in it and a lesson; then the demotion.
+  const demoted = people["demoted educator"]!;
+  const formerClassId = createClass(demoted.id, "Former class");
+  getDb().insert(classMembers).values({ classId: formerClassId, userId: owner.id }).run();
+  const formerTank = createTank(demoted.id, "Former lesson tank");
+  const formerScenario = await createScenario(demoted.id, formerTank, { run: { lengthDays: 20 } }, "Former lesson scenario");
+  const formerSettings = readStoredSettings(getDb().select().from(scenarios).where(eq(scenarios.id, formerScenario)).get()!.settings)!;
+  world.formerClassId = String(formerClassId);
+  world.formerLessonId = String(
+    insertLesson({ classId: formerClassId, scenarioId: formerScenario, title: "Former lesson", question: "Why?", unlockedFields: [], settings: formerSettings }),
+  );
+  world.ownerId = String(owner.id);
+  getDb().update(users).set({ role: "keeper" }).where(eq(users.id, demoted.id)).run();
+
   // An open invitation to an address nobody here holds: every signed-in visitor is refused, none uses it up.
   world.inviteToken = "matrix-invite-token-for-nobody";
   getDb()
@@ -250,7 +303,8 @@ export function fill(path: string): { url: string; params: Record<string, string
     const value = world[name];
     if (value === undefined) throw new Error(`The world has no ${name} for ${path}`);
     // A route's own param names: :copyTankId stands for :tankId and so on.
-    const param = { copyTankId: "tankId", copyScenarioId: "scenarioId", revokedToken: "token", inviteToken: "token" }[name] ?? name;
+    const param =
+      { copyTankId: "tankId", copyScenarioId: "scenarioId", revokedToken: "token", inviteToken: "token", formerClassId: "classId", formerLessonId: "lessonId" }[name] ?? name;
     params[param] = value;
     return value;
   });
@@ -267,7 +321,9 @@ export function request(row: Row, cookie: string | undefined): Request {
     return new Request(ORIGIN + url, { method: row.method ?? "POST", headers, body: JSON.stringify(row.json) });
   }
   headers["Content-Type"] = "application/x-www-form-urlencoded";
-  return new Request(ORIGIN + url, { method: row.method ?? "POST", headers, body: new URLSearchParams(row.form ?? {}) });
+  // A value ":name" is filled from the world, like a path parameter.
+  const form = Object.fromEntries(Object.entries(row.form ?? {}).map(([k, v]) => [k, /^:[A-Za-z]+$/.test(v) ? (world[v.slice(1)] ?? v) : v]));
+  return new Request(ORIGIN + url, { method: row.method ?? "POST", headers, body: new URLSearchParams(form) });
 }
 
 export function answerOf(status: number, location: string | null): Answer {

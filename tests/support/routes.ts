@@ -3,7 +3,7 @@
  * objects and cookies, and normalises what they return or throw into { status, headers, data }.
  */
 import { RouterContextProvider } from "react-router";
-import { clientIpContext } from "~/context";
+import { clientIpContext, peerAddressContext } from "~/context";
 
 export const ORIGIN = "http://fernwater.test";
 
@@ -32,7 +32,9 @@ export async function call(
   ip = "203.0.113.7",
 ): Promise<RouteResult> {
   const context = new RouterContextProvider();
+  // As a server without TRUST_PROXY sees it: the client is the connection's peer.
   context.set(clientIpContext, ip);
+  context.set(peerAddressContext, ip);
   try {
     return await normalise(await handler({ request, params, context }));
   } catch (thrown) {

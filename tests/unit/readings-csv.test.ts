@@ -202,6 +202,22 @@ describe("writing readings", () => {
     expect(csv).toContain("'+1 fish");
   });
 
+  it("gives back every exported note unchanged on upload, formula-like ones included, and neutralises full-width formula characters", () => {
+    // OWASP CSV Injection: = + - @ tab and carriage return start a formula; some spreadsheets read
+    // the full-width ＝ ＋ － ＠ the same way. The quote we add on export comes off on import.
+    const notes = ['=HYPERLINK("http://x")', "+1 fish", "-2 shrimp", "@home", "＝SUM(A1)", "＋1", "－1", "＠x", "'=already quoted", "''+twice", "'plain quote", "plain"];
+    const rows = notes.map((note, i) => row({ id: i + 1, takenAt: new Date(Date.UTC(2026, 2, 1 + i)), note }));
+    const csv = readingsCsv(rows, METRIC);
+    for (const line of csv.split("\r\n").slice(1, 9)) expect(line).toMatch(/,"?'/);
+    const back = ok(csv, none, METRIC);
+    expect(back.rows.map((r) => r.note)).toEqual(notes);
+  });
+
+  it("refuses a file with a header and no rows, saying so", () => {
+    const result = refused("datetime,nitrate_no3_mg_l,note\r\n");
+    expect(result.message).toMatch(/header row but no readings/);
+  });
+
   it("gives a template that uploads as it is, in the person's units", () => {
     const csv = templateCsv({ ...METRIC, nitrate: "asN", temperatureC: "F" }, NOW);
     expect(csv.split("\r\n")[0]).toBe(

@@ -2,9 +2,11 @@
  * CSV text from chart data (pure; RFC 4180: comma, CRLF, quotes doubled).
  *
  * Spreadsheets run a cell that begins with = + - @ (or a tab or carriage return) as a formula,
- * so a plant group named "=HYPERLINK(…)" could do harm when a keeper opens the file. Text cells
- * that begin so get a leading single quote. Numbers are written as numbers, never quoted or
- * prefixed: -0.5 is a value, not a formula.
+ * and some read the full-width ＝ ＋ － ＠ the same way (OWASP CSV Injection), so a plant group
+ * named "=HYPERLINK(…)" could do harm when a keeper opens the file. Text cells that begin so get
+ * a leading single quote — and so do cells that already begin with quotes before such a
+ * character, so reading a file back (unneutraliseCell) gives every text exactly as it was.
+ * Numbers are written as numbers, never quoted or prefixed: -0.5 is a value, not a formula.
  */
 import { EVENT_META, PLANT_UNIT, SERIES_NAMES, unitOf } from "./palette";
 import { upperBound, lowerBound } from "./lookup";
@@ -13,13 +15,18 @@ import { fileSlugFor } from "~/utils/file-name";
 
 export type CsvCell = string | number | null | undefined;
 
-const FORMULA_START = /^[=+\-@\t\r]/;
+const FORMULA_START = /^'*[=+\-@\t\r\uff1d\uff0b\uff0d\uff20]/;
 
 export function csvCell(v: CsvCell): string {
   if (v == null) return "";
   if (typeof v === "number") return Number.isFinite(v) ? String(v) : "";
   const text = FORMULA_START.test(v) ? `'${v}` : v;
   return /[",\r\n]/.test(text) || text !== text.trim() ? `"${text.replace(/"/g, '""')}"` : text;
+}
+
+/** A text cell read back from a file we wrote: the neutralising quote taken off again. */
+export function unneutraliseCell(text: string): string {
+  return text.startsWith("'") && FORMULA_START.test(text) ? text.slice(1) : text;
 }
 
 export function toCsv(rows: readonly (readonly CsvCell[])[]): string {

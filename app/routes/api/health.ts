@@ -1,4 +1,5 @@
 import { sql } from "drizzle-orm";
+import { methodNotAllowed } from "~/api.server";
 import { getDb } from "~/db/client.server";
 
 /** GET /api/health: the database answers a query, and which version runs. */
@@ -14,4 +15,9 @@ export function loader() {
     { status: ok ? "ok" : "degraded", version: __APP_VERSION__, checks: { database } },
     { status: ok ? 200 : 503, headers: { "Cache-Control": "no-store" } },
   );
+}
+
+/** Health is read-only. Any other method: 405 in the API's JSON shape. */
+export function action() {
+  return methodNotAllowed(["GET"]);
 }

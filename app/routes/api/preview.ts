@@ -1,11 +1,11 @@
-import { RateLimiterMemory } from "rate-limiter-flexible";
 import { z } from "zod";
 import type { Route } from "./+types/preview";
 import { parseScenario } from "../../../models";
-import { apiError, apiFind, json, readJson, zodIssues } from "~/api.server";
+import { apiError, apiFind, json, readJson, zodIssues, methodNotAllowed } from "~/api.server";
 import { displayKeyFigures, displaySeries } from "~/display-figures.server";
 import { requireApiUser } from "~/permissions.server";
 import { runOrRefuse } from "~/scenario-api.server";
+import { unknownSettingKeys } from "~/settings-patch.server";
 import { readStoredSettings, withTankTargets } from "~/simulation.server";
 import { requireOwnedScenarioById } from "~/tanks.server";
 import { displayUnitsFor } from "~/utils/display-units";
@@ -14,9 +14,6 @@ import { applyWhatIf, WhatIfSchema } from "~/what-if.server";
 /** Previews are for trying things: at most a year of model time, at most ~1,500 chart points. */
 export const PREVIEW_MAX_DAYS = 365;
 const MAX_POINTS = 1500;
-export const PREVIEWS_PER_MINUTE = 60;
-
-const limiter = new RateLimiterMemory({ points: PREVIEWS_PER_MINUTE, duration: 60 });
 
 const BodySchema = z.union([
   z.object({ settings: z.unknown() }).strict(),
@@ -31,17 +28,20 @@ const BodySchema = z.union([
 export async function action({ request }: Route.ActionArgs) {
   const user = await requireApiUser(request);
   if (request.method !== "POST") return apiError(405, "Use POST to preview.");
-  try {
-    await limiter.consume(String(user.id));
-  } catch {
-    return apiError(429, `Too many previews: at most ${PREVIEWS_PER_MINUTE} a minute. Wait a moment.`);
-  }
   const body = BodySchema.safeParse(await readJson(request));
   if (!body.success) {
     return apiError(400, "Send { settings } or { scenarioId, whatIf }.", zodIssues(body.error));
   }
   let scenario;
   if ("settings" in body.data) {
+    const unknown = unknownSettingKeys(body.data.settings);
+    if (unknown.length) {
+      return apiError(
+        400,
+        `The settings have names Fernwater does not know: ${unknown.join(", ")}.`,
+        unknown.map((path) => ({ path: `settings.${path}`, message: "Unknown setting." })),
+      );
+    }
     const parsed = parseScenario(body.data.settings ?? {});
     if (!parsed.success) {
       return apiError(400, "The settings are not valid.", zodIssues(parsed.error).map((i) => ({ ...i, path: `settings.${i.path}` })));
@@ -63,7 +63,11 @@ export async function action({ request }: Route.ActionArgs) {
     scenario = { ...parsed.data, run: { ...parsed.data.run, lengthDays: Math.min(parsed.data.run.lengthDays, PREVIEW_MAX_DAYS) } };
   }
   const interval = Math.max(scenario.run.outputIntervalDays, scenario.run.lengthDays / MAX_POINTS);
-  const result = await runOrRefuse({ ...scenario, run: { ...scenario.run, outputIntervalDays: Math.min(7, interval) } });
+  // Counted against the person's previews a minute and runs in flight (app/run-gate.server.ts).
+  const result = await runOrRefuse(
+    { ...scenario, run: { ...scenario.run, outputIntervalDays: Math.min(7, interval) } },
+    { userId: user.id, purpose: "preview" },
+  );
   const display = new URL(request.url).searchParams.get("units") === "display";
   if (display) {
     const units = displayUnitsFor(user);
@@ -82,4 +86,9 @@ export async function action({ request }: Route.ActionArgs) {
     series: result.series,
     stats: result.stats,
   });
+}
+
+/** POST /api/preview only. Any other method: 405 in the API's JSON shape. */
+export function loader() {
+  return methodNotAllowed(["POST"]);
 }

@@ -1,6 +1,6 @@
 import { and, eq } from "drizzle-orm";
 import type { Route } from "./+types/run";
-import { apiError, json } from "~/api.server";
+import { apiError, json, methodNotAllowed } from "~/api.server";
 import { toCsv, type CsvCell } from "~/components/charts/csv";
 import { getDb } from "~/db/client.server";
 import { runs, scenarios, tanks } from "~/db/schema";
@@ -70,4 +70,9 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   }
   if (format !== "json") return apiError(400, "format must be json or csv.", [{ path: "format", message: "Use json or csv." }]);
   return json({ run: { ...runSummaryJson(run), series: run.series } });
+}
+
+/** A run is read-only. Any other method: 405 in the API's JSON shape. */
+export function action() {
+  return methodNotAllowed(["GET"]);
 }

@@ -1,5 +1,5 @@
 import type { Route } from "./+types/scenario-calibrations";
-import { apiError, readJson, zodIssues } from "~/api.server";
+import { apiError, readJson, zodIssues, methodNotAllowed } from "~/api.server";
 import { CalibrateInputSchema, startCalibration } from "~/calibration.server";
 import { modelStartMs } from "~/readings.server";
 import { jobAccepted, requireApiScenario } from "~/scenario-api.server";
@@ -18,4 +18,9 @@ export async function action({ request, params }: Route.ActionArgs) {
   return jobAccepted(() =>
     startCalibration(user, row, tank.id, scenario, modelStartMs(row), input.data.fit, displayUnitsFor(user)),
   );
+}
+
+/** Calibrations are started with POST; poll /api/jobs/:id for them. Any other method: 405 in the API's JSON shape. */
+export function loader() {
+  return methodNotAllowed(["POST"]);
 }

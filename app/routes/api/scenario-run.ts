@@ -1,8 +1,8 @@
 import type { Route } from "./+types/scenario-run";
 import { apiError, apiFind, json } from "~/api.server";
 import { requireApiUser } from "~/permissions.server";
-import { runOrRefuse, runSummaryJson } from "~/scenario-api.server";
-import { findRun, readStoredSettings, settingsHash, storeRun, withTankTargets } from "~/simulation.server";
+import { runOrRefuseForStorage, runSummaryJson, writeOrRefuse } from "~/scenario-api.server";
+import { findRun, getRun, insertRun, readStoredSettings, settingsHash, withTankTargets } from "~/simulation.server";
 import { requireOwnedScenarioById } from "~/tanks.server";
 
 const NOT_FOUND = "There is no such scenario among yours.";
@@ -17,7 +17,9 @@ async function currentRun(request: Request, scenarioIdParam: string | undefined,
   const existing = findRun(scenario.id, hash);
   if (existing) return { run: existing, reused: true };
   if (!runIfMissing) throw apiError(404, "This scenario has no run for its current settings yet: POST to run it.");
-  return { run: storeRun(scenario.id, hash, await runOrRefuse(withTargets)), reused: false };
+  const fresh = await runOrRefuseForStorage(withTargets, { userId: user.id, purpose: "save" });
+  const id = writeOrRefuse((tx) => insertRun(tx, scenario.id, hash, fresh));
+  return { run: getRun(id)!, reused: false };
 }
 
 /** GET /api/scenarios/:scenarioId/run: the run of the current settings (404 if not run yet). */

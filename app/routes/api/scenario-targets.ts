@@ -1,5 +1,5 @@
 import type { Route } from "./+types/scenario-targets";
-import { apiError, readJson, zodIssues } from "~/api.server";
+import { apiError, readJson, zodIssues, methodNotAllowed } from "~/api.server";
 import { jobAccepted, requireApiScenario } from "~/scenario-api.server";
 import { startTargetSearch, TargetInputSchema } from "~/target-finder.server";
 import { displayUnitsFor } from "~/utils/display-units";
@@ -15,4 +15,9 @@ export async function action({ request, params }: Route.ActionArgs) {
   const input = TargetInputSchema.safeParse(await readJson(request, 4 * 1024));
   if (!input.success) return apiError(400, "The target search is not valid.", zodIssues(input.error));
   return jobAccepted(() => startTargetSearch(user, row.id, scenario, input.data, displayUnitsFor(user)));
+}
+
+/** Target searches are started with POST; poll /api/jobs/:id for them. Any other method: 405 in the API's JSON shape. */
+export function loader() {
+  return methodNotAllowed(["POST"]);
 }

@@ -1,5 +1,5 @@
 import type { Route } from "./+types/tank-readings";
-import { apiFind, json } from "~/api.server";
+import { apiFind, json, methodNotAllowed } from "~/api.server";
 import { requireApiUser } from "~/permissions.server";
 import { allReadings } from "~/readings.server";
 import { requireOwnedTank } from "~/tanks.server";
@@ -22,4 +22,9 @@ export async function loader({ request, params }: Route.LoaderArgs) {
       note: r.note,
     })),
   });
+}
+
+/** Readings are added on the readings page (form or CSV). Any other method: 405 in the API's JSON shape. */
+export function action() {
+  return methodNotAllowed(["GET"]);
 }

@@ -1,6 +1,6 @@
 import { asc, eq } from "drizzle-orm";
 import type { Route } from "./+types/tanks";
-import { json } from "~/api.server";
+import { json, methodNotAllowed } from "~/api.server";
 import { getDb } from "~/db/client.server";
 import { tanks } from "~/db/schema";
 import { requireApiUser } from "~/permissions.server";
@@ -23,4 +23,9 @@ export async function loader({ request }: Route.LoaderArgs) {
     .orderBy(asc(tanks.id))
     .all();
   return json({ tanks: list });
+}
+
+/** Tanks are made on the tanks page. Any other method: 405 in the API's JSON shape. */
+export function action() {
+  return methodNotAllowed(["GET"]);
 }

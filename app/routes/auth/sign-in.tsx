@@ -1,6 +1,6 @@
 import { Form, Link, redirect, useNavigation, useSearchParams } from "react-router";
 import type { Route } from "./+types/sign-in";
-import { authenticator, clearFailedSignIns, recordFailedSignIn, SignInError, signInRetryAfter } from "~/auth.server";
+import { authenticateSignIn, SignInError } from "~/auth.server";
 import { FormMessage, TextField } from "~/components/ui/field";
 import { clientIpContext } from "~/context";
 import { createUserSession, getSessionUser, safeRedirect } from "~/session.server";
@@ -14,27 +14,14 @@ export async function loader({ request }: Route.LoaderArgs) {
 }
 
 export async function action({ request, context }: Route.ActionArgs) {
-  // The strategy reads the body itself; peek at a clone for the rate-limit key and redirect.
+  // The strategy reads the body itself; peek at a clone for the redirect.
   const peek = await readForm(request.clone());
-  const email = String(peek.get("email") ?? "").trim().toLowerCase().slice(0, 254);
   const redirectTo = safeRedirect(peek.get("redirectTo"));
-  const ip = context.get(clientIpContext);
-  const wait = await signInRetryAfter(email, ip);
-  if (wait > 0) {
-    return invalid(
-      { "": `Too many failed sign-in attempts. Wait ${wait} second${wait === 1 ? "" : "s"} and try again.` },
-      { email, redirectTo },
-    );
-  }
   try {
-    const user = await authenticator.authenticate("password", request);
-    await clearFailedSignIns(email);
+    const user = await authenticateSignIn(request, context.get(clientIpContext));
     return createUserSession(request, user.id, redirectTo);
   } catch (error) {
-    if (error instanceof SignInError) {
-      await recordFailedSignIn(email, ip);
-      return invalid(error.errors, { ...error.values, redirectTo });
-    }
+    if (error instanceof SignInError) return invalid(error.errors, { ...error.values, redirectTo }, error.status);
     throw error;
   }
 }

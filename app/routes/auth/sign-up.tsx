@@ -1,11 +1,11 @@
-import { eq } from "drizzle-orm";
 import { Form, Link, redirect, useNavigation, useSearchParams } from "react-router";
 import type { Route } from "./+types/sign-up";
-import { hashPassword } from "~/auth.server";
+import { takeSignUpAttempt } from "~/auth.server";
 import { FormMessage, TextField } from "~/components/ui/field";
-import { getDb } from "~/db/client.server";
-import { users } from "~/db/schema";
-import { createUserSession, getSessionUser, safeRedirect } from "~/session.server";
+import { clientIpContext } from "~/context";
+import { waitText } from "~/rate-limits.server";
+import { getSessionUser, safeRedirect } from "~/session.server";
+import { requestSignUp, SIGN_UP_LINK_HOURS } from "~/sign-up.server";
 import { SignUpSchema } from "~/utils/account-schemas";
 import { fieldErrors, formValues } from "~/utils/form-errors";
 import { invalid, readForm } from "~/utils/http.server";
@@ -17,31 +17,47 @@ export async function loader({ request }: Route.LoaderArgs) {
   return null;
 }
 
-export async function action({ request }: Route.ActionArgs) {
+export async function action({ request, context }: Route.ActionArgs) {
   const form = await readForm(request);
   const values = formValues(form);
   const parsed = SignUpSchema.safeParse(values);
   if (!parsed.success) return invalid(fieldErrors(parsed.error), values);
-  const { name, email, password } = parsed.data;
-  const db = getDb();
-  const taken = db.select({ id: users.id }).from(users).where(eq(users.email, email)).get();
-  if (taken) {
-    return invalid({ email: "An account with this e-mail already exists. Sign in, or reset your password." }, values);
+  const wait = await takeSignUpAttempt(context.get(clientIpContext));
+  if (wait > 0) {
+    return invalid({ "": `Too many sign-ups from your network for now. Try again in ${waitText(wait)}.` }, values, 429);
   }
-  const passwordHash = await hashPassword(password);
-  // The unique index settles a race between two sign-ups with the same address.
-  const created = db.insert(users).values({ name, email, passwordHash }).onConflictDoNothing().returning({ id: users.id }).get();
-  if (!created) return invalid({ email: "An account with this e-mail already exists." }, values);
-  // Back to where sign-up started (a share link, a class invitation), same-site paths only.
-  return createUserSession(request, created.id, safeRedirect(values.redirectTo));
+  const { name, email, password } = parsed.data;
+  // The same answer whether or not the address has an account (the mail tells its owner which).
+  await requestSignUp(request, { name, email, password, redirectTo: safeRedirect(values.redirectTo) });
+  return { sent: true as const, email, hours: SIGN_UP_LINK_HOURS };
 }
 
 export default function SignUpPage({ actionData }: Route.ComponentProps) {
   const [params] = useSearchParams();
-  const redirectTo = actionData?.values.redirectTo ?? params.get("redirectTo") ?? "/tanks";
-  const errors = actionData?.errors ?? {};
-  const values = actionData?.values ?? {};
+  const failure = actionData && "errors" in actionData ? actionData : null;
+  const sent = actionData && "sent" in actionData ? actionData : null;
+  const redirectTo = failure?.values.redirectTo ?? params.get("redirectTo") ?? "/tanks";
+  const errors = failure?.errors ?? {};
+  const values = failure?.values ?? {};
   const busy = useNavigation().state === "submitting";
+  if (sent) {
+    return (
+      <section className="card mx-auto max-w-md space-y-4" aria-live="polite">
+        <h1 className="text-2xl">Check your e-mail</h1>
+        <FormMessage tone="success">
+          We have sent a mail to {sent.email}. Open the link in it within {sent.hours} hours to finish creating your
+          account. If the address already has an account, the mail says so instead.
+        </FormMessage>
+        <p className="text-sm">
+          No mail after a few minutes? Look in the spam folder, or{" "}
+          <Link to="/sign-up" className="link">
+            sign up again
+          </Link>
+          .
+        </p>
+      </section>
+    );
+  }
   return (
     <section className="card mx-auto max-w-md space-y-4">
       <h1 className="text-2xl">Create an account</h1>

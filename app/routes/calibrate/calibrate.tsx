@@ -1,7 +1,7 @@
 import { Form, Link, data, redirect, useNavigation } from "react-router";
 import type { Route } from "./+types/calibrate";
 import { CalibrationReport } from "~/components/calibration-report";
-import { JobProgress, useJob } from "~/components/job-progress";
+import { jobActive, JobProgress, useJob } from "~/components/job-progress";
 import { FormMessage } from "~/components/ui/field";
 import {
   CalibrateInputSchema,
@@ -20,6 +20,7 @@ import { displayUnitsFor } from "~/utils/display-units";
 import { fieldErrors, formValues, type FormFailure } from "~/utils/form-errors";
 import { invalid, readForm } from "~/utils/http.server";
 import { MULTIPLIER_KEYS, withMultipliers } from "../../../models/nitrogen/calibrate";
+import { refusal } from "~/copies.server";
 import { saveScenarioVariant } from "~/scenario-variant.server";
 import { Breadcrumbs } from "~/components/breadcrumbs";
 
@@ -95,10 +96,8 @@ export async function action({ request, params }: Route.ActionArgs) {
       const id = await saveScenarioVariant(tank, row.id, startMs, name, withMultipliers(settings, multipliers));
       return redirect(`/tanks/${tank.id}/scenarios/${id}`);
     } catch (error) {
-      if (error instanceof Response) {
-        const body = (await error.json()) as { error: string };
-        return invalid({ "": `The model could not run the fitted settings: ${body.error}` }, values);
-      }
+      const refused = await refusal(error);
+      if (refused) return invalid({ "": refused.message }, values, refused.status);
       throw error;
     }
   }
@@ -170,7 +169,7 @@ export default function CalibratePage({ loaderData, actionData }: Route.Componen
               </p>
             ) : null}
           </fieldset>
-          <button type="submit" className="btn" disabled={busy || inRun === 0 || job?.status === "running"}>
+          <button type="submit" className="btn" disabled={busy || inRun === 0 || jobActive(job)}>
             Fit to {inRun} reading{inRun === 1 ? "" : "s"}
           </button>
           {inRun === 0 ? (

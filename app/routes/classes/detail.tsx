@@ -16,6 +16,7 @@ import {
 import { getDb } from "~/db/client.server";
 import { users } from "~/db/schema";
 import { requireUser } from "~/permissions.server";
+import { READ_ONLY_CLASS } from "~/utils/class-messages";
 import { fieldErrors, formValues } from "~/utils/form-errors";
 import { invalid, readForm } from "~/utils/http.server";
 import { Breadcrumbs } from "~/components/breadcrumbs";
@@ -27,6 +28,17 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const { cls, as } = requireClassAccess(user, params.classId);
   const lessons = listLessons(cls.id);
   const base = { cls: { id: cls.id, name: cls.name } };
+  if (as === "former educator") {
+    // Read-only: what the class was, without the students' e-mails, the join code or invitations.
+    return {
+      ...base,
+      as,
+      educatorName: user.name,
+      lessons: lessons.map((l) => ({ id: l.id, title: l.title, status: "" })),
+      teacher: null,
+      formerStudents: roster(cls.id).map((s) => ({ id: s.id, name: s.name })),
+    };
+  }
   if (as === "student") {
     const educator = getDb().select({ name: users.name }).from(users).where(eq(users.id, cls.educatorId)).get();
     return {
@@ -38,6 +50,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
         return { id: l.id, title: l.title, status: copy?.handedInAt ? "handed in" : copy ? "started" : "not started" };
       }),
       teacher: null,
+      formerStudents: null,
     };
   }
   return {
@@ -59,6 +72,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
         expiresAt: i.expiresAt.toISOString().slice(0, 10),
       })),
     },
+    formerStudents: null,
   };
 }
 
@@ -86,7 +100,7 @@ export async function action({ request, params }: Route.ActionArgs) {
     const parsed = InviteSchema.safeParse(values);
     if (!parsed.success) return invalid(fieldErrors(parsed.error), values);
     const sent = await inviteByEmail(request, cls, user, parsed.data.email);
-    if (!sent.ok) return invalid({ email: sent.message }, values);
+    if (!sent.ok) return invalid({ email: sent.message }, values, sent.status ?? 400);
     return { done: `Invitation sent to ${parsed.data.email}.` };
   }
   if (values.intent === "remove") {
@@ -104,7 +118,7 @@ export async function action({ request, params }: Route.ActionArgs) {
 }
 
 export default function ClassPage({ loaderData, actionData }: Route.ComponentProps) {
-  const { cls, as, lessons, teacher, educatorName } = loaderData;
+  const { cls, as, lessons, teacher, educatorName, formerStudents } = loaderData;
   const [params] = useSearchParams();
   const busy = useNavigation().state === "submitting";
   const errors = actionData && "errors" in actionData ? actionData.errors : {};
@@ -120,6 +134,7 @@ export default function ClassPage({ loaderData, actionData }: Route.ComponentPro
       {params.get("joined") === "1" ? <FormMessage tone="success">You joined the class.</FormMessage> : null}
       {done ? <FormMessage tone="success">{done}</FormMessage> : null}
       {errors[""] ? <FormMessage>{errors[""]}</FormMessage> : null}
+      {as === "former educator" ? <FormMessage tone="info">{READ_ONLY_CLASS}</FormMessage> : null}
 
       <section aria-labelledby="lessons-title" className="space-y-3">
         <div className="flex flex-wrap items-center justify-between gap-3">
@@ -147,6 +162,19 @@ export default function ClassPage({ loaderData, actionData }: Route.ComponentPro
           </ul>
         )}
       </section>
+
+      {formerStudents ? (
+        <section aria-labelledby="former-roster-title" className="space-y-2">
+          <h2 id="former-roster-title" className="text-lg">
+            Students ({formerStudents.length})
+          </h2>
+          <ul className="text-sm">
+            {formerStudents.map((s) => (
+              <li key={s.id}>{s.name}</li>
+            ))}
+          </ul>
+        </section>
+      ) : null}
 
       {teacher ? (
         <>

@@ -29,7 +29,7 @@ export async function action({ request, params }: Route.ActionArgs) {
   const user = await requireUser(request);
   if (!findOpenInvite(params.token)) notFound(USED);
   const outcome = acceptInvite(user, params.token);
-  if (!outcome.ok) return invalid({ "": outcome.message });
+  if (!outcome.ok) return invalid({ "": outcome.message }, {}, outcome.status ?? 400);
   return redirect(`/classes/${outcome.classId}?joined=1`);
 }
 

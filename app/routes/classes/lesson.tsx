@@ -1,8 +1,8 @@
-import { Form, Link, redirect, useNavigation } from "react-router";
+import { data, Form, Link, redirect, useNavigation } from "react-router";
 import type { Route } from "./+types/lesson";
 import { FormMessage } from "~/components/ui/field";
-import { findCopy, handInTable, requireClassAccess, requireLesson, startCopy } from "~/classes.server";
-import { refusedRunMessage } from "~/copies.server";
+import { findCopy, handInTable, READ_ONLY_CLASS, requireClassAccess, requireLesson, startCopy } from "~/classes.server";
+import { refusal } from "~/copies.server";
 import { displayKeyFigures } from "~/display-figures.server";
 import { requireUser } from "~/permissions.server";
 import { displayUnitsFor, formatNumber, unitLabels } from "~/utils/display-units";
@@ -20,6 +20,10 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     cls: { id: cls.id, name: cls.name },
     lesson: { id: lesson.id, title: lesson.title, question: lesson.question },
   };
+  if (as === "former educator") {
+    // Read-only: the lesson's question, not the students' hand-ins.
+    return { ...base, as, started: false, handedIn: false, handIns: null, labels: null, unlockedCount: lesson.unlockedFields.length };
+  }
   if (as === "student") {
     const copy = findCopy(lesson.id, user.id);
     return {
@@ -57,6 +61,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 export async function action({ request, params }: Route.ActionArgs) {
   const user = await requireUser(request);
   const { cls, as } = requireClassAccess(user, params.classId);
+  if (as === "former educator") throw data({ message: READ_ONLY_CLASS }, { status: 403 });
   const lesson = requireLesson(cls, params.lessonId);
   const values = formValues(await readForm(request));
   if (values.intent !== "start") return invalid({ "": "Unknown action." }, values);
@@ -69,12 +74,15 @@ export async function action({ request, params }: Route.ActionArgs) {
         values,
       );
   } catch (error) {
-    const message = await refusedRunMessage(error);
-    if (message) return invalid({ "": message }, values);
+    const refused = await refusal(error);
+    if (refused) return invalid({ "": refused.message }, values, refused.status);
     throw error;
   }
   return redirect(`/classes/${cls.id}/lessons/${lesson.id}/work`);
 }
+
+const READ_ONLY_CLASS_TEXT =
+  "You are no longer an educator, so this lesson is read-only and its hand-ins are hidden. An admin can hand the class to another educator.";
 
 export default function LessonPage({ loaderData, actionData }: Route.ComponentProps) {
   const { cls, lesson, as, started, handedIn, handIns, labels, unlockedCount } = loaderData;
@@ -97,7 +105,9 @@ export default function LessonPage({ loaderData, actionData }: Route.ComponentPr
         <p className="whitespace-pre-line">{lesson.question}</p>
       </section>
       {actionData?.errors[""] ? <FormMessage>{actionData.errors[""]}</FormMessage> : null}
-      {as === "student" ? (
+      {as === "former educator" ? (
+        <FormMessage tone="info">{READ_ONLY_CLASS_TEXT}</FormMessage>
+      ) : as === "student" ? (
         started ? (
           <p className="flex flex-wrap items-center gap-3">
             <Link to={`${base}/work`} className="btn">

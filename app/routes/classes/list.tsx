@@ -12,7 +12,9 @@ export const meta: Route.MetaFunction = () => [{ title: "Classes · Fernwater" }
 export async function loader({ request }: Route.LoaderArgs) {
   const user = await requireUser(request);
   const { running, member } = classesOf(user.id);
-  return { canRun: hasRole(user, "educator"), running, member };
+  const canRun = hasRole(user, "educator");
+  // A former educator's join codes no longer work: they are not shown.
+  return { canRun, running: canRun ? running : running.map((c) => ({ ...c, joinCode: "" })), member };
 }
 
 const CreateSchema = z.object({
@@ -36,7 +38,7 @@ export async function action({ request }: Route.ActionArgs) {
   const parsed = JoinSchema.safeParse(values);
   if (!parsed.success) return invalid(values.intent === "join" ? fieldErrors(parsed.error) : { "": "Unknown action." }, values);
   const joined = await joinWithCode(user, parsed.data.code);
-  if (!joined.ok) return invalid({ code: joined.message }, values);
+  if (!joined.ok) return invalid({ code: joined.message }, values, joined.status ?? 400);
   return redirect(`/classes/${joined.classId}?joined=1`);
 }
 
@@ -86,6 +88,28 @@ export default function ClassesPage({ loaderData, actionData }: Route.ComponentP
               Create class
             </button>
           </Form>
+        </section>
+      ) : null}
+      {!canRun && running.length > 0 ? (
+        <section aria-labelledby="former-title" className="space-y-3">
+          <h2 id="former-title" className="text-lg">
+            Classes you ran (read-only)
+          </h2>
+          <p className="text-sm text-stone-700">
+            You are no longer an educator, so these classes are read-only. An admin can hand them to another educator.
+          </p>
+          <ul className="space-y-2">
+            {running.map((c) => (
+              <li key={c.id}>
+                <Link to={`/classes/${c.id}`} className="link font-semibold">
+                  {c.name}
+                </Link>{" "}
+                <span className="text-sm text-stone-600">
+                  {c.students} {c.students === 1 ? "student" : "students"}
+                </span>
+              </li>
+            ))}
+          </ul>
         </section>
       ) : null}
       <section aria-labelledby="member-title" className="space-y-3">

@@ -9,7 +9,7 @@ import { FormMessage } from "~/components/ui/field";
 import { lessonRun, requireLesson, requireOwnClass } from "~/classes.server";
 import { requireUser } from "~/permissions.server";
 import { packedResultsPayload, resultsPayload } from "~/results.server";
-import { isModelError } from "~/simulation.server";
+import { runProblem } from "~/simulation.server";
 import { displayUnitsFor, formatNumber } from "~/utils/display-units";
 import { unpackSeries } from "~/utils/series-packing";
 import { Breadcrumbs } from "~/components/breadcrumbs";
@@ -27,7 +27,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     lesson: { id: lesson.id, title: lesson.title, question: lesson.question },
   };
   try {
-    const found = await lessonRun(lesson);
+    const found = await lessonRun(lesson, user.id);
     if (!found) return { ...base, results: null, error: "The lesson’s settings can no longer be read." };
     return {
       ...base,
@@ -35,7 +35,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
       error: null,
     };
   } catch (error) {
-    if (isModelError(error)) return { ...base, results: null, error: error.message };
+    const problem = runProblem(error);
+    if (problem) return { ...base, results: null, error: problem };
     throw error;
   }
 }

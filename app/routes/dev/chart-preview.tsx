@@ -1,11 +1,10 @@
 import { useLayoutEffect, useMemo, useRef, useState } from "react";
-import { data } from "react-router";
 import type { Route } from "./+types/chart-preview";
 import { BudgetBar, BudgetTable } from "~/components/charts/budget";
 import { CompareChart } from "~/components/charts/compare-chart";
 import { TimeSeriesChart } from "~/components/charts/time-series-chart";
 import type { ChartEvent, ChartOverlay, ChartReading, ChartSeries, ChartUnits } from "~/components/charts/types";
-import { getEnv } from "~/env.server";
+import { requireLocalTool } from "~/local-tools.server";
 import { ScenarioSchema, getPreset, plantGroupFromForm, simulate, type ScenarioInput } from "../../../models";
 
 export const meta: Route.MetaFunction = () => [{ title: "Chart preview (local) · Fernwater" }];
@@ -37,9 +36,9 @@ function run(scenario: ScenarioInput, lengthDays: number, outputIntervalDays: nu
   };
 }
 
-/** Local mode only: the chart components on engine output, to look at and to time. */
-export function loader() {
-  if (getEnv().mode !== "local") throw data({ message: "Not found" }, { status: 404 });
+/** Local mode, this machine only: the chart components on engine output, to look at and to time. */
+export function loader({ request, context }: Route.LoaderArgs) {
+  requireLocalTool(request, context);
   const crowded = getPreset("crowded-reach")!.scenario;
   const floating: ScenarioInput = {
     ...crowded,

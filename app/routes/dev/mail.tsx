@@ -1,15 +1,17 @@
-import { data } from "react-router";
 import type { Route } from "./+types/mail";
 import { getEnv } from "~/env.server";
+import { requireLocalTool } from "~/local-tools.server";
 import { listCapturedMail } from "~/mail/captured-mail.server";
 
 export const meta: Route.MetaFunction = () => [{ title: "Captured mail (local) · Fernwater" }];
 
-/** Local mode only: the messages the fake SMTP server caught, newest first, with their links. */
-export function loader() {
-  const env = getEnv();
-  if (env.mode !== "local") throw data({ message: "Not found" }, { status: 404 });
-  return { messages: listCapturedMail(env.MAIL_CAPTURE_DIR).slice(0, 50) };
+/**
+ * Local mode, this machine only (the mail holds password-reset links): the messages the fake
+ * SMTP server caught, newest first, with their links.
+ */
+export function loader({ request, context }: Route.LoaderArgs) {
+  requireLocalTool(request, context);
+  return { messages: listCapturedMail(getEnv().MAIL_CAPTURE_DIR).slice(0, 50) };
 }
 
 export default function DevMailPage({ loaderData }: Route.ComponentProps) {

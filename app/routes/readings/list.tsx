@@ -7,6 +7,7 @@ import { FormMessage, TextField } from "~/components/ui/field";
 import { getDb } from "~/db/client.server";
 import { readings } from "~/db/schema";
 import { requireUser } from "~/permissions.server";
+import { checkNewReadings, QuotaExceeded } from "~/quotas.server";
 import {
   findReading,
   listReadings,
@@ -89,10 +90,19 @@ export async function action({ request, params }: Route.ActionArgs) {
     return invalid({ takenAt: clashMessage(reading.takenAt) }, values);
   const row = { ...reading, takenAt: new Date(reading.takenAt) };
   if (existing) db.update(readings).set(row).where(eq(readings.id, existing.id)).run();
-  else
-    db.insert(readings)
-      .values({ ...row, tankId: tank.id })
-      .run();
+  else {
+    try {
+      db.transaction((tx) => {
+        checkNewReadings(tx, user.id, 1);
+        tx.insert(readings)
+          .values({ ...row, tankId: tank.id })
+          .run();
+      });
+    } catch (error) {
+      if (error instanceof QuotaExceeded) return invalid({ "": error.message }, values, 413);
+      throw error;
+    }
+  }
   return redirect(listHref(tank.id, { ...back, edit: undefined, saved: existing ? "updated" : "added" }));
 }
 

@@ -5,6 +5,7 @@ import { FormMessage, SelectField } from "~/components/ui/field";
 import { getDb } from "~/db/client.server";
 import { requireUser } from "~/permissions.server";
 import { MAX_CSV_BYTES, MAX_CSV_ROWS, parseReadingsCsv, type CsvProblem } from "~/readings-csv.server";
+import { checkNewReadings, QuotaExceeded } from "~/quotas.server";
 import { insertReadings, measureUnitsFor, storedTimes, type MeasureUnits } from "~/readings.server";
 import { requireOwnedTank } from "~/tanks.server";
 import { readUpload, UploadError } from "~/uploads.server";
@@ -96,8 +97,12 @@ export async function action({ request, params }: Route.ActionArgs) {
   if (!parsed.ok) return answer({ error: parsed.message, problems: parsed.problems, more: parsed.more }, 400);
   try {
     // All rows or none.
-    getDb().transaction((tx) => insertReadings(tx, tank.id, parsed.rows));
+    getDb().transaction((tx) => {
+      checkNewReadings(tx, user.id, parsed.rows.length);
+      insertReadings(tx, tank.id, parsed.rows);
+    });
   } catch (error) {
+    if (error instanceof QuotaExceeded) return answer({ error: error.message }, 413);
     if ((error as { code?: string }).code === "SQLITE_CONSTRAINT_UNIQUE") {
       return answer(
         {

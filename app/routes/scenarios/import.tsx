@@ -3,6 +3,7 @@ import type { Route } from "./+types/import";
 import { FormMessage } from "~/components/ui/field";
 import { requireUser } from "~/permissions.server";
 import { readScenarioFile } from "~/scenario-file.server";
+import { refusal } from "~/copies.server";
 import { saveScenarioWithRun } from "~/scenario-api.server";
 import { requireOwnedTank } from "~/tanks.server";
 import { readUpload, UploadError } from "~/uploads.server";
@@ -43,10 +44,8 @@ export async function action({ request, params }: Route.ActionArgs) {
     const id = await saveScenarioWithRun(tank, "new", name || "Imported scenario", read.scenario);
     return redirect(`/tanks/${tank.id}/scenarios/${id}`);
   } catch (error) {
-    if (error instanceof Response) {
-      const body = (await error.json()) as { error: string };
-      return invalid({ file: `The model could not run the imported settings: ${body.error}` });
-    }
+    const refused = await refusal(error);
+    if (refused) return invalid({ file: refused.message }, {}, refused.status);
     throw error;
   }
 }

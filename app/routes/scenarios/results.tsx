@@ -10,8 +10,9 @@ import { WhatIfPanel, type WhatIfPreview } from "~/components/what-if-panel";
 import { requireUser } from "~/permissions.server";
 import { modelStartMs, readingsForChart } from "~/readings.server";
 import { packedResultsPayload, resultsPayload } from "~/results.server";
+import { refusal } from "~/copies.server";
 import { saveScenarioWithRun } from "~/scenario-api.server";
-import { ensureRun, isModelError, readStoredSettings, withTankTargets } from "~/simulation.server";
+import { ensureRun, readStoredSettings, runProblem, withTankTargets } from "~/simulation.server";
 import { requireOwnedScenario } from "~/tanks.server";
 import { displayUnitsFor, formatNumber } from "~/utils/display-units";
 import { formValues } from "~/utils/form-errors";
@@ -41,7 +42,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const withTargets = withTankTargets(settings, tank);
   const units = displayUnitsFor(user);
   try {
-    const run = await ensureRun(scenario.id, withTargets);
+    const run = await ensureRun(scenario.id, withTargets, user.id);
     return {
       ...base,
       error: null,
@@ -50,7 +51,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
       whatIf: { base: whatIfBase(withTargets), hasPlants: withTargets.plants.length > 0 },
     };
   } catch (error) {
-    if (isModelError(error)) return { ...base, error: error.message, results: null, whatIf: null, readings: [] };
+    const problem = runProblem(error);
+    if (problem) return { ...base, error: problem, results: null, whatIf: null, readings: [] };
     throw error;
   }
 }
@@ -76,10 +78,8 @@ export async function action({ request, params }: Route.ActionArgs) {
     const id = await saveScenarioWithRun(tank, "new", name.data, applyWhatIf(saved, changes.data));
     return redirect(`/tanks/${tank.id}/scenarios/${id}`);
   } catch (error) {
-    if (error instanceof Response) {
-      const body = (await error.json()) as { error: string };
-      return invalid({ "": `The model could not run those settings: ${body.error}` }, values);
-    }
+    const refused = await refusal(error);
+    if (refused) return invalid({ "": refused.message }, values, refused.status);
     throw error;
   }
 }

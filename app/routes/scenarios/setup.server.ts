@@ -17,7 +17,17 @@ import {
   renumberPlantRows,
 } from "~/scenario-form.server";
 import type { SessionUser } from "~/session.server";
-import { insertRun, isModelError, runEngine, settingsHash, withTankTargets } from "~/simulation.server";
+import { checkNewScenario } from "~/quotas.server";
+import {
+  insertRun,
+  isModelError,
+  QuotaExceeded,
+  RunRefused,
+  runEngineForStorage,
+  settingsHash,
+  withTankTargets,
+  type StorableRun,
+} from "~/simulation.server";
 import type { TankRow } from "~/tanks.server";
 import { displayUnitsFor, unitLabels, type DisplayUnits } from "~/utils/display-units";
 import { type FieldErrors, formValues } from "~/utils/form-errors";
@@ -114,22 +124,47 @@ export async function handleSetupSubmission(
   const scenario = withTankTargets(parsed.scenario, tank);
   let result;
   try {
-    result = await runEngine(scenario);
+    // Off the request thread unless provably cheap, within the person's limits (app/run-gate.server.ts).
+    result = await runEngineForStorage(scenario, { userId: user.id, purpose: "save" });
   } catch (error) {
     if (isModelError(error)) {
       return redraw(values, units, { "": `The model could not run these settings: ${error.message}` }, 400);
     }
+    if (error instanceof RunRefused) return redraw(values, units, { "": error.message }, 429);
     throw error;
   }
   const hash = settingsHash(scenario);
-  const scenarioId = getDb().transaction((tx) => {
+  let scenarioId: number;
+  try {
+    scenarioId = write(tank, target, intent, name.data, scenario, start, hash, result);
+  } catch (error) {
+    // Past a quota nothing was written (one transaction): say what to do, keep the input.
+    if (error instanceof QuotaExceeded) return redraw(values, units, { "": error.message }, 413);
+    throw error;
+  }
+  return { scenarioId };
+}
+
+/** The scenario (new or overwritten) and its run, in one transaction. */
+function write(
+  tank: TankRow,
+  target: "new" | number,
+  intent: string,
+  name: string,
+  scenario: Scenario,
+  start: { startDate?: Date | null },
+  hash: string,
+  result: StorableRun,
+): number {
+  return getDb().transaction((tx) => {
     let id: number;
     if (target === "new" || intent === "save-as-new") {
+      checkNewScenario(tx, tank.id);
       id = tx
         .insert(scenarios)
         .values({
           tankId: tank.id,
-          name: name.data,
+          name,
           settings: scenario,
           schemaVersion: scenario.schemaVersion,
           copiedFromId: target === "new" ? null : target,
@@ -140,7 +175,7 @@ export async function handleSetupSubmission(
     } else {
       id = target;
       tx.update(scenarios)
-        .set({ name: name.data, settings: scenario, schemaVersion: scenario.schemaVersion, updatedAt: new Date(), ...start })
+        .set({ name, settings: scenario, schemaVersion: scenario.schemaVersion, updatedAt: new Date(), ...start })
         .where(eq(scenarios.id, target))
         .run();
     }
@@ -148,5 +183,4 @@ export async function handleSetupSubmission(
     tx.update(tanks).set({ updatedAt: new Date() }).where(eq(tanks.id, tank.id)).run();
     return id;
   });
-  return { scenarioId };
 }

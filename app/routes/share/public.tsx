@@ -4,7 +4,7 @@ import { z } from "zod";
 import type { Route } from "./+types/public";
 import { ReadOnlyResults } from "~/components/read-only-results";
 import { FormMessage, SelectField } from "~/components/ui/field";
-import { copyScenarioInto, refusedRunMessage, type CopyDestination } from "~/copies.server";
+import { copyScenarioInto, refusal, type CopyDestination } from "~/copies.server";
 import { getDb } from "~/db/client.server";
 import { tanks } from "~/db/schema";
 import { absoluteUrl } from "~/email.server";
@@ -113,8 +113,8 @@ export async function action({ request, params }: Route.ActionArgs) {
     const copy = await copyScenarioInto(user.id, destination, found.scenario.name, settings, found.scenario.id);
     return redirect(`/tanks/${copy.tankId}/scenarios/${copy.scenarioId}`);
   } catch (error) {
-    const message = await refusedRunMessage(error);
-    if (message) return invalid({ "": message }, values);
+    const refused = await refusal(error);
+    if (refused) return invalid({ "": refused.message }, values, refused.status);
     throw error;
   }
 }

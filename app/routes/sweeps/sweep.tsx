@@ -2,7 +2,7 @@ import { useMemo, useState } from "react";
 import { Form, Link, data, redirect, useNavigation } from "react-router";
 import type { Route } from "./+types/sweep";
 import { XYChart } from "~/components/charts/xy-chart";
-import { JobProgress, useJob } from "~/components/job-progress";
+import { jobActive, JobProgress, useJob } from "~/components/job-progress";
 import { FormMessage, SelectField, TextField } from "~/components/ui/field";
 import { cancelJob, findScenarioJob, JOB_LIMITS, jobJson, JobRefused } from "~/jobs.server";
 import { requireUser } from "~/permissions.server";
@@ -176,7 +176,7 @@ export default function SweepPage({ loaderData, actionData }: Route.ComponentPro
               className="figure"
             />
           </div>
-          <button type="submit" className="btn" disabled={busy || job?.status === "running"}>
+          <button type="submit" className="btn" disabled={busy || jobActive(job)}>
             Run the sweep
           </button>
         </Form>

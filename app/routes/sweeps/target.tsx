@@ -3,7 +3,7 @@ import { Form, data, redirect, useNavigation } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/target";
 import { CautionsPanel } from "~/components/cautions";
-import { JobProgress, useJob } from "~/components/job-progress";
+import { jobActive, JobProgress, useJob } from "~/components/job-progress";
 import { FormMessage, SelectField, TextField } from "~/components/ui/field";
 import { FREE_NH3_CAUTION_MG_N } from "~/display-figures.server";
 import { speciesFactor } from "~/display-units.server";
@@ -11,6 +11,7 @@ import { cancelJob, findScenarioJob, jobJson, JobRefused } from "~/jobs.server";
 import { requireUser } from "~/permissions.server";
 import { DRINKING_WATER_NITRATE_MG_N } from "~/results.server";
 import { modelStartMs } from "~/readings.server";
+import { refusal } from "~/copies.server";
 import { saveScenarioVariant } from "~/scenario-variant.server";
 import { readStoredSettings, withTankTargets } from "~/simulation.server";
 import {
@@ -116,10 +117,8 @@ export async function action({ request, params }: Route.ActionArgs) {
       );
       return redirect(`/tanks/${tank.id}/scenarios/${id}`);
     } catch (error) {
-      if (error instanceof Response) {
-        const body = (await error.json()) as { error: string };
-        return invalid({ "": `The model could not run those settings: ${body.error}` }, values);
-      }
+      const refused = await refusal(error);
+      if (refused) return invalid({ "": refused.message }, values, refused.status);
       throw error;
     }
   }
@@ -206,7 +205,7 @@ export default function TargetPage({ loaderData, actionData }: Route.ComponentPr
               />
             ) : null}
           </div>
-          <button type="submit" className="btn" disabled={busy || job?.status === "running"}>
+          <button type="submit" className="btn" disabled={busy || jobActive(job)}>
             Find it
           </button>
         </Form>

@@ -7,7 +7,7 @@ import { keyFigureRows } from "~/components/key-figures";
 import { FormMessage } from "~/components/ui/field";
 import { requireUser } from "~/permissions.server";
 import { resultsPayload } from "~/results.server";
-import { ensureRun, isModelError, readStoredSettings, withTankTargets } from "~/simulation.server";
+import { ensureRun, readStoredSettings, runProblem, withTankTargets } from "~/simulation.server";
 import { listScenarios, requireOwnedTank } from "~/tanks.server";
 import { displayUnitsFor, formatNumber } from "~/utils/display-units";
 import { budgetSections } from "~/components/charts/budget-model";
@@ -48,10 +48,11 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     if (!settings) return { ...base, message: `The settings of “${s!.name}” can no longer be read.`, runs: [] };
     const withTargets = withTankTargets(settings, tank);
     try {
-      const run = await ensureRun(s!.id, withTargets);
+      const run = await ensureRun(s!.id, withTargets, user.id);
       runs.push({ id: s!.id, name: s!.name, ...resultsPayload(run, withTargets, units) });
     } catch (error) {
-      if (isModelError(error)) return { ...base, message: `“${s!.name}” could not be run: ${error.message}`, runs: [] };
+      const problem = runProblem(error);
+      if (problem) return { ...base, message: `“${s!.name}” could not be run: ${problem}`, runs: [] };
       throw error;
     }
   }

@@ -7,6 +7,7 @@ import { getDb } from "~/db/client.server";
 import { scenarios, tanks } from "~/db/schema";
 import { displayKeyFigures } from "~/display-figures.server";
 import { speciesFactor } from "~/display-units.server";
+import { handedInCopyIn } from "~/classes.server";
 import { requireUser } from "~/permissions.server";
 import { latestKeyFigures } from "~/simulation.server";
 import { requireOwnedTank } from "~/tanks.server";
@@ -110,26 +111,39 @@ export async function action({ request, params }: Route.ActionArgs) {
     const parsed = DeleteTankSchema.safeParse(values);
     if (!parsed.success) return invalid(fieldErrors(parsed.error), values);
     // Scenarios, runs, readings, share links and lesson copies go with it (foreign keys cascade), all or nothing.
-    db.transaction((tx) => {
+    const kept = db.transaction((tx) => {
+      const handedIn = handedInCopyIn({ tankId: tank.id });
+      if (handedIn) return handedIn;
       tx.delete(tanks)
         .where(and(eq(tanks.id, tank.id), eq(tanks.ownerId, user.id)))
         .run();
+      return null;
     });
+    if (kept) return invalid({ "": handedInMessage(kept.lessonTitle, "tank") }, values, 409);
     return redirect("/tanks");
   }
 
   if (values.intent === "delete-scenario") {
     const parsed = DeleteScenarioSchema.safeParse(values);
     if (!parsed.success) return invalid(fieldErrors(parsed.error), values);
-    const done = db
-      .delete(scenarios)
-      .where(and(eq(scenarios.id, parsed.data.scenarioId), eq(scenarios.tankId, tank.id)))
-      .run();
-    if (done.changes === 0) return invalid({ "": "That scenario is not in this tank." }, values);
+    const outcome = db.transaction((tx) => {
+      const handedIn = handedInCopyIn({ scenarioId: parsed.data.scenarioId });
+      if (handedIn) return handedIn;
+      return tx
+        .delete(scenarios)
+        .where(and(eq(scenarios.id, parsed.data.scenarioId), eq(scenarios.tankId, tank.id)))
+        .run().changes;
+    });
+    if (typeof outcome === "object") return invalid({ "": handedInMessage(outcome.lessonTitle, "scenario") }, values, 409);
+    if (outcome === 0) return invalid({ "": "That scenario is not in this tank." }, values);
     return redirect(`/tanks/${tank.id}`);
   }
 
   return invalid({ "": "Unknown action." }, values);
+}
+
+function handedInMessage(lessonTitle: string, what: "tank" | "scenario"): string {
+  return `This ${what} holds your hand-in for the lesson “${lessonTitle}”. It stays, so your teacher can read what you handed in.`;
 }
 
 export default function TankPage({ loaderData, actionData }: Route.ComponentProps) {

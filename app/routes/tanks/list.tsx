@@ -6,6 +6,7 @@ import { getDb } from "~/db/client.server";
 import { tanks } from "~/db/schema";
 import { displayKeyFigures } from "~/display-figures.server";
 import { requireUser } from "~/permissions.server";
+import { checkNewTank, QuotaExceeded } from "~/quotas.server";
 import { displayUnitsFor, formatNumber, unitLabels } from "~/utils/display-units";
 import { fieldErrors, formValues } from "~/utils/form-errors";
 import { invalid, readForm } from "~/utils/http.server";
@@ -40,12 +41,16 @@ export async function action({ request }: Route.ActionArgs) {
   const values = formValues(await readForm(request));
   const parsed = CreateTankSchema.safeParse(values);
   if (!parsed.success) return invalid(fieldErrors(parsed.error), values);
-  const tank = getDb()
-    .insert(tanks)
-    .values({ ownerId: user.id, name: parsed.data.name, notes: parsed.data.notes })
-    .returning({ id: tanks.id })
-    .get();
-  return redirect(`/tanks/${tank.id}`);
+  try {
+    const tank = getDb().transaction((tx) => {
+      checkNewTank(tx, user.id);
+      return tx.insert(tanks).values({ ownerId: user.id, name: parsed.data.name, notes: parsed.data.notes }).returning({ id: tanks.id }).get();
+    });
+    return redirect(`/tanks/${tank.id}`);
+  } catch (error) {
+    if (error instanceof QuotaExceeded) return invalid({ name: error.message }, values, 413);
+    throw error;
+  }
 }
 
 export default function TanksPage({ loaderData, actionData }: Route.ComponentProps) {

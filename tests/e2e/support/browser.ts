@@ -82,6 +82,25 @@ export async function waitForMail(to: string, subject: RegExp, timeoutMs = 10_00
   }
 }
 
+/**
+ * Signs up through the form, then opens the confirmation mail's link and presses its button,
+ * as a person would; ends signed in, on the tanks page (or where sign-up was sent back to).
+ */
+export async function signUp(page: Page, name: string, email: string, password: string, shotName?: string): Promise<void> {
+  await page.goto("/sign-up");
+  await page.getByLabel("Name").fill(name);
+  await page.getByLabel("E-mail").fill(email);
+  await page.getByLabel("Password", { exact: true }).fill(password);
+  await page.getByLabel("Password again").fill(password);
+  if (shotName) await shot(page, shotName);
+  await page.getByRole("button", { name: "Create account" }).click();
+  await page.getByRole("heading", { name: "Check your e-mail" }).waitFor();
+  const mail = await waitForMail(email, /Confirm your Fernwater account/);
+  await page.goto(mail.links.find((l) => l.includes("/sign-up/confirm?token="))!);
+  await page.getByRole("button", { name: "Create my account" }).click();
+  await page.waitForURL((url) => !url.pathname.startsWith("/sign-up"));
+}
+
 export function expectNoConsoleErrors(page: PageWithErrors): void {
   expect(page.consoleErrors).toEqual([]);
 }

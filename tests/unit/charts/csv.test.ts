@@ -22,6 +22,11 @@ describe("csvCell", () => {
     expect(csvCell("@sum")).toBe("'@sum");
     expect(csvCell("\tx")).toBe("'\tx");
     expect(csvCell("Stem thicket")).toBe("Stem thicket");
+    // Full-width forms, which some spreadsheets also run.
+    expect(csvCell("＝1+1")).toBe("'＝1+1");
+    expect(csvCell("＋1")).toBe("'＋1");
+    expect(csvCell("－1")).toBe("'－1");
+    expect(csvCell("＠x")).toBe("'＠x");
   });
 
   it("quotes cells with commas, quotes, line breaks or edge spaces", () => {

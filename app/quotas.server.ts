@@ -1,0 +1,122 @@
+/**
+ * What one person may keep (the README's "Reliability" lists the numbers). Checked inside the
+ * transaction that writes, so a refusal leaves nothing half-written, and answered with 413 and
+ * what to do. Stored runs are counted in bytes as stored (long runs are kept packed).
+ */
+import { and, count, eq, ne, sql } from "drizzle-orm";
+import type { getDb } from "~/db/client.server";
+import { readings, runs, scenarios, tanks } from "~/db/schema";
+
+export const QUOTAS = {
+  tanksPerPerson: 50,
+  scenariosPerTank: 100,
+  readingsPerPerson: 20_000,
+  storedRunBytesPerPerson: 50 * 1024 * 1024,
+} as const;
+
+type Tx = Parameters<Parameters<ReturnType<typeof getDb>["transaction"]>[0]>[0];
+type Reader = Pick<Tx, "select">;
+
+/** A write past a quota: 413 with a sentence saying what to do. Thrown inside the transaction. */
+export class QuotaExceeded extends Error {
+  readonly status = 413;
+  override name = "QuotaExceeded";
+}
+
+const mb = (bytes: number) => `${(bytes / (1024 * 1024)).toFixed(1)} MB`;
+
+export function tanksOf(db: Reader, ownerId: number): number {
+  return db.select({ n: count() }).from(tanks).where(eq(tanks.ownerId, ownerId)).get()?.n ?? 0;
+}
+
+export function scenariosIn(db: Reader, tankId: number): number {
+  return db.select({ n: count() }).from(scenarios).where(eq(scenarios.tankId, tankId)).get()?.n ?? 0;
+}
+
+export function readingsOf(db: Reader, ownerId: number): number {
+  return (
+    db
+      .select({ n: count() })
+      .from(readings)
+      .innerJoin(tanks, eq(tanks.id, readings.tankId))
+      .where(eq(tanks.ownerId, ownerId))
+      .get()?.n ?? 0
+  );
+}
+
+/** Bytes of a person's stored runs, leaving out one scenario's (the run about to be replaced). */
+export function runBytesOf(db: Reader, ownerId: number, exceptScenarioId = 0): number {
+  const size = sql<number>`coalesce(sum(length(cast(${runs.series} as blob)) + coalesce(length(${runs.seriesPacked}), 0) + length(cast(${runs.events} as blob)) + length(cast(${runs.keyFigures} as blob)) + length(cast(${runs.budget} as blob)) + length(cast(${runs.stats} as blob))), 0)`;
+  return (
+    db
+      .select({ bytes: size })
+      .from(runs)
+      .innerJoin(scenarios, eq(scenarios.id, runs.scenarioId))
+      .innerJoin(tanks, eq(tanks.id, scenarios.tankId))
+      .where(and(eq(tanks.ownerId, ownerId), ne(runs.scenarioId, exceptScenarioId)))
+      .get()?.bytes ?? 0
+  );
+}
+
+export function checkNewTank(tx: Reader, ownerId: number): void {
+  if (tanksOf(tx, ownerId) + 1 > QUOTAS.tanksPerPerson) {
+    throw new QuotaExceeded(
+      `You have ${QUOTAS.tanksPerPerson} tanks, the most one account keeps. Delete a tank you no longer need, then add this one.`,
+    );
+  }
+}
+
+export function checkNewScenario(tx: Reader, tankId: number): void {
+  if (scenariosIn(tx, tankId) + 1 > QUOTAS.scenariosPerTank) {
+    throw new QuotaExceeded(
+      `This tank holds ${QUOTAS.scenariosPerTank} scenarios, the most a tank keeps. Delete scenarios you no longer need, or use another tank.`,
+    );
+  }
+}
+
+export function checkNewReadings(tx: Reader, ownerId: number, adding: number): void {
+  const have = readingsOf(tx, ownerId);
+  if (have + adding > QUOTAS.readingsPerPerson) {
+    throw new QuotaExceeded(
+      `Your tanks hold ${have.toLocaleString("en")} readings; these ${adding.toLocaleString("en")} would pass the ${QUOTAS.readingsPerPerson.toLocaleString("en")} one account keeps. Delete old readings first, or upload fewer.`,
+    );
+  }
+}
+
+/** The scenario's owner may store a run of `bytes` in place of the scenario's current run. */
+export function checkRunBytes(tx: Reader, scenarioId: number, bytes: number): void {
+  const owner = tx
+    .select({ ownerId: tanks.ownerId })
+    .from(scenarios)
+    .innerJoin(tanks, eq(tanks.id, scenarios.tankId))
+    .where(eq(scenarios.id, scenarioId))
+    .get();
+  if (!owner) return;
+  const others = runBytesOf(tx, owner.ownerId, scenarioId);
+  if (others + bytes > QUOTAS.storedRunBytesPerPerson) {
+    throw new QuotaExceeded(
+      `Your stored runs take ${mb(others)} of the ${mb(QUOTAS.storedRunBytesPerPerson)} one account keeps, and this run needs ${mb(bytes)}. Delete scenarios you no longer need, or run with daily chart points or a shorter run.`,
+    );
+  }
+}
+
+/** What the account page shows. */
+export function usageOf(db: Reader, ownerId: number) {
+  const fullest =
+    db
+      .select({ n: count() })
+      .from(scenarios)
+      .innerJoin(tanks, eq(tanks.id, scenarios.tankId))
+      .where(eq(tanks.ownerId, ownerId))
+      .groupBy(scenarios.tankId)
+      .all()
+      .reduce((m, r) => Math.max(m, r.n), 0) ?? 0;
+  return {
+    tanks: { used: tanksOf(db, ownerId), limit: QUOTAS.tanksPerPerson },
+    scenariosInFullestTank: { used: fullest, limit: QUOTAS.scenariosPerTank },
+    readings: { used: readingsOf(db, ownerId), limit: QUOTAS.readingsPerPerson },
+    storedRunBytes: { used: runBytesOf(db, ownerId), limit: QUOTAS.storedRunBytesPerPerson },
+  };
+}
+
+export type Usage = ReturnType<typeof usageOf>;
