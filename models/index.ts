@@ -21,6 +21,7 @@ export {
   FishlessCyclingSchema,
   TargetsSchema,
   MultipliersSchema,
+  SURFACE_AGITATION,
   SCHEMA_VERSION,
   MIGRATIONS,
   ScenarioVersionError,
@@ -37,16 +38,23 @@ export type {
   FieldMeta,
   ScenarioField,
   Migration,
+  SurfaceAgitation,
 } from "./nitrogen/scenario";
 
 export { simulate, ENGINE_VERSION, round6 } from "./nitrogen/simulate";
 export type { SimulateOptions, SimulationResult, SimulationStats, Series, KeyFigures, Peak } from "./nitrogen/simulate";
+export type { RawSeries } from "./nitrogen/recorder";
 export type { NitrogenBudget } from "./nitrogen/budget";
-export type { Stocks } from "./nitrogen/processes";
+export type { Stocks } from "./nitrogen/stocks";
+export { findWarnings } from "./nitrogen/warnings";
+export type { ModelWarning, WarningCode } from "./nitrogen/warnings";
+export { ammoniaCriteria } from "./nitrogen/criteria";
+export type { AmmoniaCriteria } from "./nitrogen/criteria";
+export type { ZoneCapacity } from "./nitrogen/low-oxygen-zones";
 
 export { PRESETS, GROWTH_FORM_DEFAULTS, getPreset, plantGroupFromForm } from "./nitrogen/presets";
 export type { Preset } from "./nitrogen/presets";
-export { GROWTH_FORMS, SCENARIO_DEFAULTS, listParameters } from "./nitrogen/parameters";
+export { GROWTH_FORMS, OXYGEN, SCENARIO_DEFAULTS, listParameters } from "./nitrogen/parameters";
 export type { GrowthForm, GrowthFormDefaults, Sourced } from "./nitrogen/parameters";
 
 export { OUTCOMES, sweep, setScenarioValue } from "./nitrogen/sweep";
@@ -55,6 +63,8 @@ export type { SweepOutcome, SweepPoint } from "./nitrogen/sweep";
 export {
   ammoniumPKa,
   freeAmmoniaFraction,
+  freeNitrousAcidFraction,
+  oxygenSaturation,
   tanFromFeed,
   phFromKh,
   N_FRACTION,
