@@ -9,13 +9,16 @@ import type { Sourced } from "./sourced";
 // Nitrifying bacteria
 // ---------------------------------------------------------------------------------------------
 
-/** Ammonia oxidisers (AOB): Monod growth on TAN at 20 °C. */
+/**
+ * Ammonia oxidisers (AOB): Monod growth on TAN at 20 °C. Growth follows the cardinal
+ * temperature model (parameters/environment.ts), which near 20–25 °C rises about as fast as
+ * Metcalf & Eddy's θ = 1.072 per °C but has an optimum; decay keeps its θ.
+ */
 export const AOB = {
   muMax: p(0.9, "1/day at 20 °C", "Metcalf & Eddy Table 8-14"),
   halfSaturation: p(0.5, "mg N/L", "Metcalf & Eddy Table 8-14"),
   yield: p(0.15, "g VSS per g N oxidised", "Metcalf & Eddy Table 8-14"),
   decay: p(0.17, "1/day at 20 °C", "Metcalf & Eddy Table 8-14"),
-  thetaGrowth: p(1.072, "per °C", "Metcalf & Eddy Table 8-14"),
   thetaDecay: p(1.029, "per °C", "Metcalf & Eddy Table 8-14"),
 } as const;
 
@@ -25,7 +28,6 @@ export const NOB = {
   halfSaturation: p(0.25, "mg N/L", "Metcalf & Eddy Table 8-14 (from memory; middle of 0.2–0.3)"),
   yield: p(0.05, "g VSS per g N oxidised", "Metcalf & Eddy Table 8-14 (from memory)"),
   decay: p(0.17, "1/day at 20 °C", "model choice, no source (taken equal to the AOB value)"),
-  thetaGrowth: p(1.06, "per °C", "Metcalf & Eddy Table 8-14 (from memory)"),
   thetaDecay: p(1.029, "per °C", "Metcalf & Eddy Table 8-14"),
 } as const;
 
