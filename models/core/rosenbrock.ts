@@ -1,6 +1,6 @@
 /**
  * RODAS4, the L-stable, stiffly accurate Rosenbrock method of order 4(3) of Hairer & Wanner,
- * "Solving Ordinary Differential Equations II", 2nd ed. (1996), §IV.7 (docs/sources.md §12).
+ * "Solving Ordinary Differential Equations II", 2nd ed. (1996), §IV.7 (docs/sources.md §15).
  * Used for segments the extrapolation solver cannot finish in a reasonable number of steps:
  * a stiff tank (a large drip, many plants or strong low-oxygen zones in a small volume).
  *
