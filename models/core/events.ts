@@ -41,7 +41,7 @@ export interface ScheduledEvent {
 export const TIME_EPS = 1e-9;
 
 /** Most events one periodic schedule may add (meals 12 a day for two years are 8 760). */
-export const MAX_EVENTS_PER_SCHEDULE = 20_000;
+const MAX_EVENTS_PER_SCHEDULE = 20_000;
 
 /**
  * Times first, first + interval, … strictly before `end` (days). Computed by multiplication so

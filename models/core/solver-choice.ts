@@ -12,7 +12,7 @@ import { integrateSegment } from "./solver";
 import { integrateStiffSegment } from "./rosenbrock";
 
 /** odex steps in one segment after which the segment is handed to the stiff solver. */
-export const STIFF_PROBE_STEPS = 1000;
+const STIFF_PROBE_STEPS = 1000;
 /** Over the run, after this many odex steps … */
 const RATE_MIN_STEPS = 2000;
 /** … more than this many steps per simulated day switch the rest of the run. */

@@ -6,10 +6,10 @@
  */
 
 /** Atomic weights used for every "as N" factor (g/mol). Values as listed in docs/sources.md §0. */
-export const ATOMIC_WEIGHT = { N: 14.007, O: 15.999, H: 1.008, C: 12.011, Ca: 40.078 } as const;
+const ATOMIC_WEIGHT = { N: 14.007, O: 15.999, H: 1.008, C: 12.011, Ca: 40.078 } as const;
 
 /** Molar masses (g/mol) of the ions and molecules a test kit may report. */
-export const MOLAR_MASS = {
+const MOLAR_MASS = {
   NO3: ATOMIC_WEIGHT.N + 3 * ATOMIC_WEIGHT.O,
   NO2: ATOMIC_WEIGHT.N + 2 * ATOMIC_WEIGHT.O,
   NH4: ATOMIC_WEIGHT.N + 4 * ATOMIC_WEIGHT.H,
@@ -156,8 +156,8 @@ export function freeNitrousAcidFraction(temperatureC: number, pH: number): numbe
 }
 
 /** pH bounds the engine will report; outside them the carbonate relation no longer describes a tank. */
-export const PH_FLOOR = 4;
-export const PH_CEILING = 10;
+const PH_FLOOR = 4;
+const PH_CEILING = 10;
 
 /**
  * pH when "pH follows KH": at constant dissolved CO2 the carbonate relation

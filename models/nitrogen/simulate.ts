@@ -113,5 +113,5 @@ export function simulate(scenario: Scenario, options: SimulateOptions = {}): Sim
   return recorder.raw ? Object.assign(result, { rawSeries: recorder.raw }) : result;
 }
 
-export { ENGINE_VERSION, round6 } from "./result";
+export { ENGINE_VERSION } from "./result";
 export type { KeyFigures, Peak, Series, SimulateOptions, SimulationResult, SimulationStats } from "./result";

@@ -110,17 +110,17 @@ const nobCardinal = { min: CT.nobMin.value, opt: CT.nobOpt.value, max: CT.nobMax
 const plantCardinal = { min: CT.plantMin.value, opt: CT.plantOpt.value, max: CT.plantMax.value };
 
 /** Maximum growth rate (1/day) at `t` °C: the 20 °C value scaled by the cardinal temperature model. */
-export function nitrifierGrowth(p: typeof AOB | typeof NOB, t: number): number {
+function nitrifierGrowth(p: typeof AOB | typeof NOB, t: number): number {
   return p.muMax.value * relativeGrowth(t, 20, p === AOB ? aobCardinal : nobCardinal);
 }
 
 /** Plant growth at `t` °C relative to the growth rate the keeper states (at 25 °C). */
-export function plantTemperatureFactor(t: number): number {
+function plantTemperatureFactor(t: number): number {
   return relativeGrowth(t, CT.plantReference.value, plantCardinal);
 }
 
 /** Surface plus filter exchange coefficient (1/day) for a scenario. */
-export function exchangeRate(s: Scenario): number {
+function exchangeRate(s: Scenario): number {
   const surface = {
     still: OXYGEN.exchangeStill.value,
     gentle: OXYGEN.exchangeGentle.value,

@@ -34,18 +34,18 @@ export interface ModelWarning {
 }
 
 /** Feed per litre per day above which stocking is far beyond usual aquarium practice (g/L/day). */
-export const HEAVY_FEEDING_G_PER_L_DAY = 0.03; // common practice, no source (a crowded tank is ~0.01)
+const HEAVY_FEEDING_G_PER_L_DAY = 0.03; // common practice, no source (a crowded tank is ~0.01)
 /** Dissolved nitrogen above which the numbers are outside anything a tank with life could hold (mg N/L). */
-export const OUTSIDE_RANGE_MG_N_PER_L = 500; // model choice, no source
+const OUTSIDE_RANGE_MG_N_PER_L = 500; // model choice, no source
 /** KH (dKH) below which nitrification stalls for want of carbonate buffer. */
-export const KH_EXHAUSTED_DKH = 0.5; // model choice, no source (the switch's half-saturation)
+const KH_EXHAUSTED_DKH = 0.5; // model choice, no source (the switch's half-saturation)
 
 /**
  * Oxygen the feed needs once fully processed (mg O2/day): the fish's respiration, nitrifying
  * the TAN they excrete (Timmons & Ebeling's 0.092 factor, then 4.57 g O2 per g N) and
  * mineralising and nitrifying the faeces and leftovers.
  */
-export function feedOxygenDemand(s: Scenario, c: TankConstants): number {
+function feedOxygenDemand(s: Scenario, c: TankConstants): number {
   const feedG = s.fish.feedGPerDay * s.multipliers.feedLoad;
   const excretedTan = tanFromFeed(feedG * c.eatenShare, s.fish.proteinFraction) * 1000;
   const toDetritus = c.feedN * (c.eatenShare * EATEN_N_SPLIT.faeces + (c.leftoversRemoved ? 0 : 1 - c.eatenShare));
@@ -54,7 +54,7 @@ export function feedOxygenDemand(s: Scenario, c: TankConstants): number {
 }
 
 /** Most oxygen the air can bring in per day (mg O2/day): exchange at full deficit. */
-export function oxygenSupplyCeiling(c: TankConstants): number {
+function oxygenSupplyCeiling(c: TankConstants): number {
   return (c.kla * c.volumeL + c.dripLPerDay) * c.o2Sat;
 }
 
