@@ -16,7 +16,7 @@ const STIFF_PROBE_STEPS = 1000;
 /** Over the run, after this many odex steps … */
 const RATE_MIN_STEPS = 2000;
 /** … more than this many steps per simulated day switch the rest of the run. */
-const RATE_STEPS_PER_DAY = 400;
+const RATE_STEPS_PER_DAY = 150;
 
 interface Counters {
   steps: number;
