@@ -1,7 +1,4 @@
-/**
- * A keeper's message for a run that could not be solved: names the fastest process in the
- * scenario (the usual culprit) and the settings that drive it.
- */
+/** Keepers' messages for runs the solvers could not finish. */
 import type { FailureCode } from "../core/simulate";
 import { PLANT_UPTAKE } from "./parameters";
 import type { Scenario } from "./scenario";

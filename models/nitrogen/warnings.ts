@@ -117,7 +117,12 @@ export function findWarnings(s: Scenario, c: TankConstants, series: Series, extr
       day: roundDay(extremes.o2Low.day),
     });
   }
-  // Ammonia against the US EPA (2013) criteria at each sample's pH.
+  // Ammonia against the US EPA (2013) criteria at each sample's pH. A tank cycled without fish
+  // is meant to carry ammonia: the advice is then to wait before adding fish.
+  const fishless = s.fish.feedGPerDay === 0 && s.fishlessCycling.enabled;
+  const advice = fishless
+    ? " Add fish only once the tank has cycled and ammonia and nitrite read zero."
+    : " Test the water and change some of it now.";
   let acute = { ratio: 0, value: 0, limit: 0, day: 0 };
   for (let k = 0; k < series.t.length; k++) {
     const limit = ammoniaCriteria(series.ph[k], c.temperatureC).acuteTanMgNPerL;
@@ -128,7 +133,7 @@ export function findWarnings(s: Scenario, c: TankConstants, series: Series, extr
     out.push({
       code: "ammoniaAboveAcuteCriterion",
       severity: "caution",
-      message: `Total ammonia reaches ${round6(acute.value)} mg N/L, above the acute criterion of ${round6(acute.limit)} at this pH and temperature (US EPA 2013): deadly to many fish within hours.`,
+      message: `Total ammonia reaches ${round6(acute.value)} mg N/L, above the acute criterion of ${round6(acute.limit)} at this pH and temperature (US EPA 2013): deadly to many fish within hours.${advice}`,
       value: round6(acute.value),
       unit: "mg N/L",
       limit: round6(acute.limit),
@@ -145,8 +150,8 @@ export function findWarnings(s: Scenario, c: TankConstants, series: Series, extr
       code: "ammoniaAboveChronicCriterion",
       severity: "caution",
       message: byMonth
-        ? `Total ammonia averages ${round6(month.value)} mg N/L over 30 days, above the chronic criterion of ${round6(chronic)} (US EPA 2013).`
-        : `Total ammonia averages ${round6(fourDays.value)} mg N/L over 4 days, above 2.5 times the chronic criterion of ${round6(chronic)} (US EPA 2013).`,
+        ? `Total ammonia averages ${round6(month.value)} mg N/L over 30 days, above the chronic criterion of ${round6(chronic)} (US EPA 2013).${advice}`
+        : `Total ammonia averages ${round6(fourDays.value)} mg N/L over 4 days, above 2.5 times the chronic criterion of ${round6(chronic)} (US EPA 2013).${advice}`,
       value: round6(byMonth ? month.value : fourDays.value),
       unit: "mg N/L",
       limit: round6(byMonth ? chronic : 2.5 * chronic),

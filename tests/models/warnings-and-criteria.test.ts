@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { ScenarioSchema, ammoniaCriteria, simulate } from "../../models/index";
+import { ScenarioSchema, ammoniaCriteria, getPreset, simulate } from "../../models/index";
 import { bareTank, rel } from "./helpers";
 
 describe("US EPA (2013) ammonia criteria", () => {
@@ -57,5 +57,13 @@ describe("plausibility warnings", () => {
     expect(acute!.value).toBeGreaterThan(acute!.limit);
     expect(acute!.day).toBeGreaterThan(0);
     expect(r.warnings.some((w) => w.code === "ammoniaAboveChronicCriterion")).toBe(true);
+    expect(acute!.message).toMatch(/change some of it now/);
+  });
+
+  it("a tank cycled without fish is told to wait for fish, not to change water", () => {
+    // our own wording (common practice, no source: fish go in once ammonia and nitrite read zero)
+    const r = simulate(ScenarioSchema.parse(getPreset("first-light-fishless")!.scenario));
+    const acute = r.warnings.find((w) => w.code === "ammoniaAboveAcuteCriterion");
+    expect(acute?.message).toMatch(/Add fish only once the tank has cycled/);
   });
 });
