@@ -130,7 +130,7 @@ function toFormField(field: ScenarioField, name: string, raw: unknown, units: Di
     unit: unitFor(field, units),
     min: displayBound(field, field.min, units),
     max: displayBound(field, field.max, units),
-    options: field.options ? field.options.map((o) => ({ value: o, label: ENUM_LABELS[o] ?? o })) : null,
+    options: field.options ? field.options.map((o) => ({ value: o, label: field.meta.optionLabels?.[o] ?? ENUM_LABELS[o] ?? o })) : null,
   };
 }
 

@@ -20,7 +20,7 @@ mg N/L, g, days) and prints the result as JSON, or the time series as CSV with -
 Reads standard input when no file (or "-") is given. See docs/engine.md.`;
 
 /** The series as CSV: one row per sample, canonical units in the header. */
-export function seriesToCsv(result: SimulationResult): string {
+function seriesToCsv(result: SimulationResult): string {
   const s = result.series;
   const cols: [string, number[]][] = [
     ["day", s.t],

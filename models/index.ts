@@ -9,21 +9,7 @@ export type { EventKind, EventRecord } from "./core/events";
 
 export {
   ScenarioSchema,
-  WaterSchema,
-  FishSchema,
-  PlantGroupSchema,
-  TrimSchema,
-  FilterSchema,
-  MaintenanceSchema,
-  TapWaterSchema,
-  LowOxygenSchema,
-  RunSchema,
-  FishlessCyclingSchema,
-  TargetsSchema,
-  MultipliersSchema,
   SCHEMA_VERSION,
-  MIGRATIONS,
-  ScenarioVersionError,
   migrateScenario,
   parseScenario,
   describeScenarioIssues,
@@ -36,18 +22,23 @@ export type {
   Quantity,
   FieldMeta,
   ScenarioField,
-  Migration,
+  SurfaceAgitation,
 } from "./nitrogen/scenario";
 
-export { simulate, ENGINE_VERSION, round6 } from "./nitrogen/simulate";
+export { simulate, ENGINE_VERSION } from "./nitrogen/simulate";
 export type { SimulateOptions, SimulationResult, SimulationStats, Series, KeyFigures, Peak } from "./nitrogen/simulate";
+export type { RawSeries } from "./nitrogen/recorder";
 export type { NitrogenBudget } from "./nitrogen/budget";
-export type { Stocks } from "./nitrogen/processes";
+export type { Stocks } from "./nitrogen/stocks";
+export type { ModelWarning, WarningCode } from "./nitrogen/warnings";
+export { ammoniaCriteria } from "./nitrogen/criteria";
+export type { AmmoniaCriteria } from "./nitrogen/criteria";
+export type { ZoneCapacity } from "./nitrogen/low-oxygen-zones";
 
 export { PRESETS, GROWTH_FORM_DEFAULTS, getPreset, plantGroupFromForm } from "./nitrogen/presets";
 export type { Preset } from "./nitrogen/presets";
-export { GROWTH_FORMS, SCENARIO_DEFAULTS, listParameters } from "./nitrogen/parameters";
-export type { GrowthForm, GrowthFormDefaults, Sourced } from "./nitrogen/parameters";
+export { GROWTH_FORMS, OXYGEN, listParameters } from "./nitrogen/parameters";
+export type { GrowthForm } from "./nitrogen/parameters";
 
 export { OUTCOMES, sweep, setScenarioValue } from "./nitrogen/sweep";
 export type { SweepOutcome, SweepPoint } from "./nitrogen/sweep";
@@ -55,10 +46,10 @@ export type { SweepOutcome, SweepPoint } from "./nitrogen/sweep";
 export {
   ammoniumPKa,
   freeAmmoniaFraction,
+  oxygenSaturation,
   tanFromFeed,
   phFromKh,
   N_FRACTION,
-  MG_CACO3_PER_DKH,
   ALK_MG_CACO3_PER_MG_N_NITRIFIED,
   ALK_MG_CACO3_PER_MG_N_DENITRIFIED,
   ANAMMOX,

@@ -16,26 +16,37 @@ export interface EventRecord {
 export type EventKind = "waterChange" | "filterCleaning" | "trim" | "dose" | "dosingStopped" | "feeding";
 
 /**
- * A scheduled jump. `apply` receives the loop's own copy of the state at time `t`, may change
- * it in place, and returns the records to list (none if nothing happened, e.g. a trim with
- * nothing to trim). `order` breaks ties between events at the same time (lower first).
+ * What an event does: the state just after it (a new array; the state before is never changed)
+ * and the records to list (none if nothing happened, e.g. a trim with nothing to trim).
+ */
+export interface EventOutcome {
+  readonly y: readonly number[];
+  readonly records: readonly EventRecord[];
+}
+
+/** An event that changes nothing. */
+export const unchanged = (y: readonly number[]): EventOutcome => ({ y, records: [] });
+
+/**
+ * A scheduled jump: `apply` maps the state at time `t` to the state just after the event.
+ * `order` breaks ties between events at the same time (lower first).
  */
 export interface ScheduledEvent {
   readonly t: number;
   readonly order: number;
-  apply(y: number[], t: number): EventRecord[];
+  apply(y: readonly number[], t: number): EventOutcome;
 }
 
 /** Times are treated as equal when closer than this (days, ~0.1 ms). */
 export const TIME_EPS = 1e-9;
 
+/** Most events one periodic schedule may add (meals 12 a day for two years are 8 760). */
+const MAX_EVENTS_PER_SCHEDULE = 20_000;
+
 /**
  * Times first, first + interval, … strictly before `end` (days). Computed by multiplication so
  * long runs do not drift. An interval ≤ 0 gives no times.
  */
-/** Most events one periodic schedule may add (meals 12 a day for two years are 8 760). */
-export const MAX_EVENTS_PER_SCHEDULE = 20_000;
-
 export function periodicTimes(interval: number, end: number, first = interval): number[] {
   const out: number[] = [];
   if (!(interval > 0)) return out;

@@ -5,10 +5,11 @@
  * nitrogen; the tank model supplies the problem, the events and the messages.
  */
 import { ModelError } from "./errors";
-import type { EventRecord, ScheduledEvent } from "./events";
+import type { EventOutcome, EventRecord, ScheduledEvent } from "./events";
 import { TIME_EPS, batchEvents } from "./events";
 import type { OdeProblem, Watch } from "./problem";
-import { integrateSegment } from "./solver";
+import type { SegmentResult } from "./segment";
+import { SolverChoice } from "./solver-choice";
 
 export interface LoopLimits {
   /** Total accepted + rejected steps over the run. */
@@ -19,6 +20,8 @@ export interface LoopLimits {
   readonly maxWallMs: number;
 }
 
+export type FailureCode = "MAX_STEPS" | "WALL_TIME" | "NON_FINITE";
+
 export interface LoopSpec {
   readonly problem: OdeProblem;
   readonly y0: readonly number[];
@@ -28,15 +31,15 @@ export interface LoopSpec {
   readonly outputInterval: number;
   readonly schedule: readonly ScheduledEvent[];
   readonly watches: readonly Watch[];
-  /** Apply the conditional event for watch `index` at time t (y is the loop's copy). */
-  onCrossing(index: number, t: number, y: number[]): EventRecord[];
+  /** The conditional event for watch `index` at time t. */
+  onCrossing(index: number, t: number, y: readonly number[]): EventOutcome;
   /** Record a sample. `y` must not be kept (copy what you need). */
   sample(t: number, y: readonly number[]): void;
   /** Called after every accepted solver step. */
   onStep?(t: number, y: readonly number[]): void;
   readonly limits: LoopLimits;
   /** Keeper's message for a failure at simulated day `day`. */
-  describeFailure(code: "MAX_STEPS" | "WALL_TIME" | "NON_FINITE", day: number): string;
+  describeFailure(code: FailureCode, day: number): string;
 }
 
 export interface LoopStats {
@@ -48,117 +51,160 @@ export interface LoopStats {
   rejected: number;
   /** Integration segments (one per gap between events). */
   segments: number;
+  /** Segments (or their remainders) integrated by the stiff solver. */
+  stiffSegments: number;
 }
 
 export interface LoopResult {
   /** State at tEnd. */
-  readonly y: number[];
+  readonly y: readonly number[];
   readonly events: EventRecord[];
   readonly stats: LoopStats;
 }
 
 const now = (): number => (typeof performance !== "undefined" ? performance.now() : Date.now());
 
-/** Run the loop. Throws ModelError (MAX_STEPS, WALL_TIME, NON_FINITE) instead of returning bad output. */
-export function runLoop(spec: LoopSpec): LoopResult {
-  const { problem, tEnd, outputInterval, limits } = spec;
-  const deadline = now() + limits.maxWallMs;
-  const stats: LoopStats = { steps: 0, rhsEvals: 0, rejected: 0, segments: 0 };
-  const events: EventRecord[] = [];
-  let y = spec.y0.slice();
-  let t = 0;
-  let h = Math.min(0.01, tEnd / 10);
-
-  // Regular output times after 0; 0 and tEnd are sampled explicitly.
+/** Regular output times strictly inside (0, tEnd); 0 and tEnd are sampled explicitly. */
+function outputTimes(outputInterval: number, tEnd: number): number[] {
   const outputs: number[] = [];
   for (let k = 1; ; k++) {
     const to = k * outputInterval;
     if (to >= tEnd - TIME_EPS) break;
     outputs.push(to);
   }
-  let out = 0;
+  return outputs;
+}
 
-  const fail = (code: "MAX_STEPS" | "WALL_TIME" | "NON_FINITE", day: number): never => {
-    throw new ModelError(code, spec.describeFailure(code, day), { day });
-  };
+/** Mutable run state shared by the helpers below (one per run, never exported). */
+interface Run {
+  readonly spec: LoopSpec;
+  readonly deadline: number;
+  readonly stats: LoopStats;
+  readonly events: EventRecord[];
+  readonly solver: SolverChoice;
+  t: number;
+  y: readonly number[];
+  h: number;
+}
 
-  /** Fire watches already at or above their threshold (after a jump or at the start). */
-  const fireStandingWatches = (): void => {
-    for (let guard = 0; guard < 100; guard++) {
-      const w = spec.watches.findIndex((wt) => y[wt.index] >= wt.threshold);
-      if (w < 0) return;
-      const recs = spec.onCrossing(w, t, y);
-      events.push(...recs);
-      if (y[spec.watches[w].index] >= spec.watches[w].threshold) {
-        throw new ModelError("INVALID", "A trimming rule leaves the plants above the level that triggers it.");
-      }
+function fail(code: FailureCode, run: Run, day: number): never {
+  throw new ModelError(code, run.spec.describeFailure(code, day), { day });
+}
+
+/** Adopt an event's outcome: its state becomes the run's, its records are listed. */
+function adopt(run: Run, outcome: EventOutcome): void {
+  run.y = outcome.y;
+  run.events.push(...outcome.records);
+}
+
+/** Fire watches already at or above their threshold (after a jump or at the start). */
+function fireStandingWatches(run: Run): void {
+  const { watches } = run.spec;
+  for (let guard = 0; guard < 100; guard++) {
+    const w = watches.findIndex((wt) => run.y[wt.index] >= wt.threshold);
+    if (w < 0) return;
+    adopt(run, run.spec.onCrossing(w, run.t, run.y));
+    if (run.y[watches[w].index] >= watches[w].threshold) {
+      throw new ModelError("INVALID", "A trimming rule leaves the plants above the level that triggers it.");
     }
-  };
-
-  spec.sample(0, y);
-  const batches = batchEvents(spec.schedule).filter((b) => b.t < tEnd - TIME_EPS);
-  let bi = 0;
-  // Events at the very start: the initial sample serves as "before".
-  if (bi < batches.length && batches[bi].t <= TIME_EPS) {
-    for (const e of batches[bi].events) events.push(...e.apply(y, 0));
-    bi++;
   }
-  fireStandingWatches();
-  if (events.length > 0) spec.sample(0, y);
+}
 
-  while (t < tEnd) {
-    const tb = bi < batches.length ? batches[bi].t : tEnd;
-    let crossings = 0;
-    while (tb - t > TIME_EPS) {
-      while (out < outputs.length && outputs[out] <= t + TIME_EPS) out++;
-      const sampleTimes: number[] = [];
-      for (let k = out; k < outputs.length && outputs[k] < tb - TIME_EPS; k++) sampleTimes.push(outputs[k]);
-      const budget = Math.min(limits.maxStepsPerSegment, limits.maxSteps - stats.steps);
-      if (budget <= 0) fail("MAX_STEPS", t);
-      if (now() > deadline) fail("WALL_TIME", t);
-      const seg = integrateSegment({
-        problem,
-        t0: t,
-        y0: y,
+/** Apply one batch of simultaneous events, with a sample just before and just after. */
+function applyBatch(run: Run, events: readonly ScheduledEvent[], sampleBefore: boolean): void {
+  if (sampleBefore) run.spec.sample(run.t, run.y);
+  for (const e of events) adopt(run, e.apply(run.y, run.t));
+  fireStandingWatches(run);
+  run.spec.sample(run.t, run.y);
+}
+
+/** Book one solver answer into the stats and turn numerical trouble into the typed error. */
+function book(run: Run, seg: SegmentResult): void {
+  run.stats.steps += seg.steps;
+  run.stats.rhsEvals += seg.rhsEvals;
+  run.stats.rejected += seg.rejected;
+  if (seg.lastStepSize > 0) run.h = seg.lastStepSize;
+  if (seg.status === "maxSteps") fail("MAX_STEPS", run, seg.t);
+  if (seg.status === "wallTime") fail("WALL_TIME", run, seg.t);
+  if (seg.status === "nonFinite") fail("NON_FINITE", run, seg.t);
+}
+
+/** Integrate from run.t up to `tb` (the next batch of events), handling crossings on the way. */
+function integrateTo(run: Run, tb: number, outputs: readonly number[], cursor: { out: number }): void {
+  const { spec, stats } = run;
+  const { limits } = spec;
+  let crossings = 0;
+  while (tb - run.t > TIME_EPS) {
+    while (cursor.out < outputs.length && outputs[cursor.out] <= run.t + TIME_EPS) cursor.out++;
+    const sampleTimes: number[] = [];
+    for (let k = cursor.out; k < outputs.length && outputs[k] < tb - TIME_EPS; k++) sampleTimes.push(outputs[k]);
+    const budget = Math.min(limits.maxStepsPerSegment, limits.maxSteps - stats.steps);
+    if (budget <= 0) fail("MAX_STEPS", run, run.t);
+    if (now() > run.deadline) fail("WALL_TIME", run, run.t);
+    const seg = run.solver.integrate(
+      {
+        problem: spec.problem,
+        t0: run.t,
+        y0: run.y,
         t1: tb,
         sampleTimes,
         onSample: (ts, ys) => spec.sample(ts, ys),
         onStep: spec.onStep,
         watches: spec.watches,
         maxSteps: budget,
-        deadline,
-        initialStepSize: h,
-      });
-      stats.steps += seg.steps;
-      stats.rhsEvals += seg.rhsEvals;
-      stats.rejected += seg.rejected;
-      stats.segments++;
-      if (seg.lastStepSize > 0) h = seg.lastStepSize;
-      if (seg.status === "maxSteps") fail("MAX_STEPS", seg.t);
-      if (seg.status === "wallTime") fail("WALL_TIME", seg.t);
-      if (seg.status === "nonFinite") fail("NON_FINITE", seg.t);
-      t = seg.t;
-      y = seg.y;
-      if (seg.status === "crossed") {
-        if (++crossings > 10000) fail("MAX_STEPS", t);
-        spec.sample(t, y);
-        events.push(...spec.onCrossing(seg.crossed, t, y));
-        fireStandingWatches();
-        spec.sample(t, y);
-      } else {
-        t = tb;
-      }
-    }
-    if (bi < batches.length) {
-      spec.sample(t, y);
-      for (const e of batches[bi].events) events.push(...e.apply(y, t));
-      fireStandingWatches();
-      spec.sample(t, y);
-      bi++;
+        deadline: run.deadline,
+        initialStepSize: run.h,
+      },
+      stats,
+    );
+    book(run, seg);
+    stats.segments++;
+    run.t = seg.t;
+    run.y = seg.y;
+    if (seg.status === "crossed") {
+      if (++crossings > 10000) fail("MAX_STEPS", run, run.t);
+      spec.sample(run.t, run.y);
+      adopt(run, spec.onCrossing(seg.crossed, run.t, run.y));
+      fireStandingWatches(run);
+      spec.sample(run.t, run.y);
     } else {
-      break;
+      run.t = tb;
     }
   }
-  spec.sample(tEnd, y);
-  return { y, events, stats };
+}
+
+/** Run the loop. Throws ModelError (MAX_STEPS, WALL_TIME, NON_FINITE) instead of returning bad output. */
+export function runLoop(spec: LoopSpec): LoopResult {
+  const { tEnd } = spec;
+  const run: Run = {
+    spec,
+    deadline: now() + spec.limits.maxWallMs,
+    stats: { steps: 0, rhsEvals: 0, rejected: 0, segments: 0, stiffSegments: 0 },
+    events: [],
+    solver: new SolverChoice(),
+    t: 0,
+    y: spec.y0.slice(),
+    h: Math.min(0.01, tEnd / 10),
+  };
+  const outputs = outputTimes(spec.outputInterval, tEnd);
+  const cursor = { out: 0 };
+
+  spec.sample(0, run.y);
+  const batches = batchEvents(spec.schedule).filter((b) => b.t < tEnd - TIME_EPS);
+  let bi = 0;
+  // Events at the very start: the initial sample serves as "before".
+  if (bi < batches.length && batches[bi].t <= TIME_EPS) {
+    for (const e of batches[bi].events) adopt(run, e.apply(run.y, 0));
+    bi++;
+  }
+  fireStandingWatches(run);
+  if (run.events.length > 0) spec.sample(0, run.y);
+
+  for (; bi < batches.length; bi++) {
+    integrateTo(run, batches[bi].t, outputs, cursor);
+    applyBatch(run, batches[bi].events, true);
+  }
+  integrateTo(run, tEnd, outputs, cursor);
+  spec.sample(tEnd, run.y);
+  return { y: run.y, events: run.events, stats: run.stats };
 }

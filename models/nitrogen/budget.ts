@@ -3,8 +3,9 @@
  * All values in mg N, cumulative from day 0 to the end.
  */
 import { EATEN_N_SPLIT } from "./chemistry";
-import type { Stocks, TankConstants } from "./processes";
-import { IX } from "./processes";
+import { IX } from "./state";
+import type { Stocks } from "./stocks";
+import type { TankConstants } from "./tank-constants";
 
 /** Flows booked at discrete events (and the analytic continuous ones), in mg N. */
 export interface EventFlows {
@@ -20,6 +21,25 @@ export interface EventFlows {
   gravelCleaning: number;
   /** Eaten feed N put into the fish by meals (pulsed feeding). */
   eatenIntoGut: number;
+}
+
+/** Flow amounts an event books (mg N), by name; trims also say which group. */
+export type FlowBooking = Partial<Record<Exclude<keyof EventFlows, "trimsByGroup">, number>> & {
+  readonly trimmedGroup?: { readonly index: number; readonly mgN: number; readonly dryG: number };
+};
+
+/** Add one event's booking to the running flows (and the trimmed dry mass per group). */
+export function bookFlows(flows: EventFlows, trimmedG: number[], booking: FlowBooking): void {
+  for (const [key, value] of Object.entries(booking)) {
+    if (key === "trimmedGroup" || typeof value !== "number") continue;
+    flows[key as Exclude<keyof EventFlows, "trimsByGroup">] += value;
+  }
+  const t = booking.trimmedGroup;
+  if (t) {
+    flows.trims += t.mgN;
+    flows.trimsByGroup[t.index] += t.mgN;
+    trimmedG[t.index] += t.dryG;
+  }
 }
 
 export function emptyFlows(plantCount: number): EventFlows {

@@ -48,7 +48,7 @@ export type Species = (typeof SPECIES)[number];
  * 1.13 mg N/L = 5 mg/L NO3): a miss smaller than a step is within what the kit can tell.
  * Common practice, no source.
  */
-export const KIT_RESOLUTION_MG_N: Record<Species, number> = { tan: 0.2, no2: 0.075, no3: 1.13 };
+const KIT_RESOLUTION_MG_N: Record<Species, number> = { tan: 0.2, no2: 0.075, no3: 1.13 };
 
 /** A test reading on a model day, mg N/L; absent or null = not measured. */
 export type CalibrationReading = { day: number; tan?: number | null; no2?: number | null; no3?: number | null };
@@ -69,12 +69,12 @@ export function residualScales(readings: readonly CalibrationReading[]): Record<
 }
 
 /** How many residuals the readings give (one per measured species per reading). */
-export function countResiduals(readings: readonly CalibrationReading[]): number {
+function countResiduals(readings: readonly CalibrationReading[]): number {
   return readings.reduce((n, r) => n + SPECIES.filter((k) => r[k] != null && Number.isFinite(r[k])).length, 0);
 }
 
 /** Weighted residuals (model − reading)/scale, in reading order then species order. NaN if the model has no value. */
-export function weightedResiduals(
+function weightedResiduals(
   readings: readonly CalibrationReading[],
   model: ModelSamples,
   scales: Record<Species, number>,
@@ -91,10 +91,7 @@ export function weightedResiduals(
 }
 
 /** Root mean square of (model − reading) per species, mg N/L; null where the species was never measured. */
-export function rmseBySpecies(
-  readings: readonly CalibrationReading[],
-  model: ModelSamples,
-): Record<Species, number | null> {
+function rmseBySpecies(readings: readonly CalibrationReading[], model: ModelSamples): Record<Species, number | null> {
   const out = {} as Record<Species, number | null>;
   for (const k of SPECIES) {
     let sum = 0;

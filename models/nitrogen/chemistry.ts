@@ -6,10 +6,10 @@
  */
 
 /** Atomic weights used for every "as N" factor (g/mol). Values as listed in docs/sources.md §0. */
-export const ATOMIC_WEIGHT = { N: 14.007, O: 15.999, H: 1.008, C: 12.011, Ca: 40.078 } as const;
+const ATOMIC_WEIGHT = { N: 14.007, O: 15.999, H: 1.008, C: 12.011, Ca: 40.078 } as const;
 
 /** Molar masses (g/mol) of the ions and molecules a test kit may report. */
-export const MOLAR_MASS = {
+const MOLAR_MASS = {
   NO3: ATOMIC_WEIGHT.N + 3 * ATOMIC_WEIGHT.O,
   NO2: ATOMIC_WEIGHT.N + 2 * ATOMIC_WEIGHT.O,
   NH4: ATOMIC_WEIGHT.N + 4 * ATOMIC_WEIGHT.H,
@@ -51,6 +51,23 @@ export const DKH_PER_MG_N_NITRIFIED = ALK_MG_CACO3_PER_MG_N_NITRIFIED / MG_CACO3
 
 /** dKH regained per mg N/L denitrified (≈ 0.200). */
 export const DKH_PER_MG_N_DENITRIFIED = ALK_MG_CACO3_PER_MG_N_DENITRIFIED / MG_CACO3_PER_DKH;
+
+/**
+ * dKH per mg N/L per equivalent of alkalinity per mole of N (≈ 0.200). Counting NH4⁺ as a
+ * cation and NO2⁻, NO3⁻ as anions of strong acids (US EPA 1993; Metcalf & Eddy), each process
+ * moves alkalinity by a whole number of equivalents per N:
+ *   organic N → NH4⁺ (fish excretion, urea, mineralisation)  +1
+ *   NH4⁺ → NO2⁻ (ammonia oxidisers)                           −2
+ *   NO2⁻ → NO3⁻ (nitrite oxidisers)                            0
+ *   NH4⁺ taken into plants or bacteria                        −1
+ *   NO3⁻ or NO2⁻ taken into plants or bacteria                +1
+ *   NO3⁻ → N2 (denitrification)                                +1
+ *   NH4⁺ + 1.32 NO2⁻ → 1.02 N2 + 0.26 NO3⁻ (anammox)           +0.06 per NH4⁺
+ */
+export const DKH_PER_EQUIVALENT_N = DKH_PER_MG_N_DENITRIFIED;
+
+/** Alkalinity equivalents per mol NH4⁺ used by anammox: −1 + 1.32 − 0.26 (Strous et al. 1998). */
+export const ANAMMOX_ALKALINITY_EQ = -1 + 1.32 - 0.26;
 
 /**
  * Anammox, Strous et al. 1998: NH4⁺ + 1.32 NO2⁻ → 1.02 N2 + 0.26 NO3⁻ (+ a small biomass term).
@@ -119,9 +136,28 @@ export function tanFromFeed(feedGPerDay: number, proteinFraction: number): numbe
   return feedGPerDay * proteinFraction * FEED_N.nitrogenInProtein * EATEN_N_SPLIT.tan;
 }
 
+/**
+ * Oxygen saturation of fresh water at 1 atm (mg/L), Benson & Krause (1984) as used by APHA
+ * Standard Methods 4500-O and the USGS: ln C = −139.34411 + 1.575701e5/T − 6.642308e7/T² +
+ * 1.243800e10/T³ − 8.621949e11/T⁴, T in kelvin. 0–40 °C.
+ */
+export function oxygenSaturation(temperatureC: number): number {
+  const T = temperatureC + 273.15;
+  return Math.exp(-139.34411 + 1.575701e5 / T - 6.642308e7 / T ** 2 + 1.2438e10 / T ** 3 - 8.621949e11 / T ** 4);
+}
+
+/**
+ * Share of nitrite-N present as free nitrous acid, Anthonisen et al. (1976):
+ * HNO2-N / NO2-N = 1 / (1 + Ka·10^pH) with Ka = exp(−2300 / T(K)).
+ */
+export function freeNitrousAcidFraction(temperatureC: number, pH: number): number {
+  const ka = Math.exp(-2300 / (temperatureC + 273.15));
+  return 1 / (1 + ka * Math.pow(10, pH));
+}
+
 /** pH bounds the engine will report; outside them the carbonate relation no longer describes a tank. */
-export const PH_FLOOR = 4;
-export const PH_CEILING = 10;
+const PH_FLOOR = 4;
+const PH_CEILING = 10;
 
 /**
  * pH when "pH follows KH": at constant dissolved CO2 the carbonate relation
@@ -129,7 +165,11 @@ export const PH_CEILING = 10;
  * steady (aeration or steady injection) and that KH is all bicarbonate. Clamped to 4–10.
  */
 export function phFromKh(ph0: number, kh0Dkh: number, khDkh: number): number {
-  const ratio = Math.max(khDkh, 1e-3) / Math.max(kh0Dkh, 1e-3);
-  const ph = ph0 + Math.log10(ratio);
+  const ph = phFromKhUnclamped(ph0, kh0Dkh, khDkh);
   return ph < PH_FLOOR ? PH_FLOOR : ph > PH_CEILING ? PH_CEILING : ph;
+}
+
+/** The same carbonate relation without the 4–10 clamp (for checks on what the model computed). */
+export function phFromKhUnclamped(ph0: number, kh0Dkh: number, khDkh: number): number {
+  return ph0 + Math.log10(Math.max(khDkh, 1e-3) / Math.max(kh0Dkh, 1e-3));
 }

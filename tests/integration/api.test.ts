@@ -1,4 +1,5 @@
 import { describe, expect, it } from "vitest";
+import { SCHEMA_VERSION } from "../../models";
 import { action as previewAction } from "~/routes/api/preview";
 import { loader as runLoader } from "~/routes/api/run";
 import { loader as scenarioLoader, action as scenarioAction } from "~/routes/api/scenario";
@@ -144,7 +145,7 @@ describe("scenario files", () => {
     const file = await call(exportLoader, get(`/tanks/${tankId}/scenarios/${scenarioId}/export`, keeper.cookie), params);
     expect(file.headers.get("Content-Disposition")).toMatch(/exported-one\.fernwater\.json/);
     const json = typeof file.data === "string" ? JSON.parse(file.data) : file.data;
-    expect(json).toMatchObject({ fernwater: "scenario", schemaVersion: 1, name: "Exported one" });
+    expect(json).toMatchObject({ fernwater: "scenario", schemaVersion: SCHEMA_VERSION, name: "Exported one" });
 
     const upload = (content: string) => {
       const form = new FormData();
@@ -156,6 +157,11 @@ describe("scenario files", () => {
     expect(imported.status).toBe(302);
     expect(countScenarios()).toBe(before + 1);
 
+    // a file written before model v2 (schema 1) still imports, migrated
+    const v1 = { ...json, schemaVersion: 1, settings: { water: { volumeL: 50 }, lowOxygen: { enabled: true, denitrificationCapacityMgNPerDay: 9 } } };
+    expect((await call(importAction, upload(JSON.stringify(v1)), { tankId: String(tankId) })).status).toBe(302);
+    expect(countScenarios()).toBe(before + 2);
+
     const newer = await call(importAction, upload(JSON.stringify({ ...json, schemaVersion: 7 })), { tankId: String(tankId) });
     expect(newer.status).toBe(400);
     expect(newer.data.errors.file).toMatch(/newer version of Fernwater \(schema 7\)/);
@@ -165,7 +171,7 @@ describe("scenario files", () => {
     expect(invalidValues.data.errors.file).toMatch(/water\.volumeL/);
     const tooBig = await call(importAction, upload("x".repeat(300 * 1024)), { tankId: String(tankId) });
     expect(tooBig.data.errors.file).toMatch(/larger than 256 kB/);
-    expect(countScenarios()).toBe(before + 1);
+    expect(countScenarios()).toBe(before + 2);
   });
 
   it("PATCH merges a partial settings object into the saved one; unknown names answer 400 naming them, and nothing changes", async () => {

@@ -47,7 +47,7 @@ describe("Bateman chain through the solver adapter", () => {
       outputInterval: 0.001,
       schedule: [],
       watches: [],
-      onCrossing: () => [],
+      onCrossing: (_w, _t, y) => ({ y, records: [] }),
       sample: (t, y) => {
         if (y[1] > best.b) best = { t, b: y[1] };
       },

@@ -1,6 +1,9 @@
+import { readFileSync, readdirSync } from "node:fs";
+import { join } from "node:path";
 import { describe, expect, it } from "vitest";
 import {
   GROWTH_FORM_DEFAULTS,
+  PRESETS,
   SCHEMA_VERSION,
   ScenarioSchema,
   listParameters,
@@ -71,7 +74,7 @@ describe("versions", () => {
     if (r.success) return;
     expect(r.error.issues[0].path).toEqual(["schemaVersion"]);
     expect(r.error.issues[0].message).toBe(
-      "This file was made by a newer version of Fernwater (schema 3); this version reads up to 1.",
+      "This file was made by a newer version of Fernwater (schema 3); this version reads up to 2.",
     );
   });
 
@@ -100,6 +103,39 @@ describe("versions", () => {
   });
 });
 
+describe("reading version 1 files", () => {
+  it("keeps a version 1 file's low-oxygen capacities and fills the new settings with defaults", () => {
+    // our own worked example of the 1 → 2 migration (docs/engine.md, scenario format)
+    const v1 = Object.freeze({
+      schemaVersion: 1,
+      lowOxygen: Object.freeze({ enabled: true, denitrificationCapacityMgNPerDay: 7 }),
+    });
+    const r = parseScenario(v1);
+    expect(r.success).toBe(true);
+    if (!r.success) return;
+    expect(r.data.schemaVersion).toBe(2);
+    expect(r.data.lowOxygen).toMatchObject({
+      enabled: true,
+      zoneSize: "fromCapacity",
+      denitrificationCapacityMgNPerDay: 7,
+    });
+    expect(r.data.water.surfaceAgitation).toBe("rippling");
+    expect(r.data.filter.turnoverPerHour).toBe(4);
+    expect(v1.lowOxygen).toEqual({ enabled: true, denitrificationCapacityMgNPerDay: 7 });
+    // a version 1 file without the section gets version 2's defaults (zones sized from media)
+    const bare = parseScenario({ schemaVersion: 1 });
+    expect(bare.success && bare.data.lowOxygen.zoneSize).toBe("fromMedia");
+  });
+
+  it("reads every example file and every preset", () => {
+    const dir = join(__dirname, "../../models/examples");
+    const files = readdirSync(dir).filter((f) => f.endsWith(".json"));
+    expect(files.length).toBeGreaterThan(0);
+    for (const f of files) expect(parseScenario(JSON.parse(readFileSync(join(dir, f), "utf8"))).success, f).toBe(true);
+    for (const p of PRESETS) expect(parseScenario(p.scenario).success, p.id).toBe(true);
+  });
+});
+
 describe("form metadata", () => {
   const fields = listScenarioFields();
 
@@ -122,6 +158,14 @@ describe("form metadata", () => {
     expect(byKey["plants.*.trim.rule"].options).toEqual(["none", "whenFull", "everyDays"]);
     expect(byKey["filter.establishedAtStart"]).toMatchObject({ kind: "boolean", defaultValue: true });
     expect(byKey["multipliers.feedLoad"]).toMatchObject({ min: 0.1, max: 10, defaultValue: 1 });
+    // the settings new in version 2 carry the same metadata
+    expect(byKey["water.surfaceAgitation"]).toMatchObject({ kind: "enum", defaultValue: "rippling" });
+    expect(byKey["water.surfaceAgitation"].meta.optionLabels?.strong).toMatch(/air stone/);
+    expect(byKey["filter.turnoverPerHour"]).toMatchObject({ kind: "number", min: 0, max: 30, defaultValue: 4 });
+    expect(byKey["lowOxygen.porousRockL"]).toMatchObject({ min: 0, max: 500, defaultValue: 2 });
+    expect(byKey["lowOxygen.porousRockL"].meta.quantity).toBe("volume");
+    expect(byKey["lowOxygen.sandBedDepthCm"].meta.unit).toBe("cm");
+    expect(byKey["lowOxygen.capacityEstimate"].options).toEqual(["low", "typical", "high"]);
   });
 });
 

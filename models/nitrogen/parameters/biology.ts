@@ -1,36 +1,24 @@
 /**
- * Every default number the engine uses, each with its source. This is the one place to look
- * up where a value comes from; the scenario schema, the presets and the processes read here.
- *
- * Source words follow docs/sources.md:
- * - a named publication (e.g. "Metcalf & Eddy Table 8-14") when the value is published there;
- * - "computed" when worked from a stated formula;
- * - "from memory" when recalled but not checked against the publication;
- * - "common practice, no source" for a hobby rule of thumb;
- * - "model choice, no source" for a knob of this model that has no measured counterpart
- *   (for example how fast detritus drifts into the filter). These are the first to calibrate.
+ * Biology of the tank with sources: nitrifying bacteria, feed and organic matter, plants and
+ * low-oxygen zones (docs/sources.md §4–§8).
  */
-
-/** A number with its unit and where it comes from. */
-export interface Sourced {
-  readonly value: number;
-  readonly unit: string;
-  readonly source: string;
-}
-
-const p = (value: number, unit: string, source: string): Sourced => ({ value, unit, source });
+import { p } from "./sourced";
+import type { Sourced } from "./sourced";
 
 // ---------------------------------------------------------------------------------------------
 // Nitrifying bacteria
 // ---------------------------------------------------------------------------------------------
 
-/** Ammonia oxidisers (AOB): Monod growth on TAN at 20 °C. */
+/**
+ * Ammonia oxidisers (AOB): Monod growth on TAN at 20 °C. Growth follows the cardinal
+ * temperature model (parameters/environment.ts), which near 20–25 °C rises about as fast as
+ * Metcalf & Eddy's θ = 1.072 per °C but has an optimum; decay keeps its θ.
+ */
 export const AOB = {
   muMax: p(0.9, "1/day at 20 °C", "Metcalf & Eddy Table 8-14"),
   halfSaturation: p(0.5, "mg N/L", "Metcalf & Eddy Table 8-14"),
   yield: p(0.15, "g VSS per g N oxidised", "Metcalf & Eddy Table 8-14"),
   decay: p(0.17, "1/day at 20 °C", "Metcalf & Eddy Table 8-14"),
-  thetaGrowth: p(1.072, "per °C", "Metcalf & Eddy Table 8-14"),
   thetaDecay: p(1.029, "per °C", "Metcalf & Eddy Table 8-14"),
 } as const;
 
@@ -40,7 +28,6 @@ export const NOB = {
   halfSaturation: p(0.25, "mg N/L", "Metcalf & Eddy Table 8-14 (from memory; middle of 0.2–0.3)"),
   yield: p(0.05, "g VSS per g N oxidised", "Metcalf & Eddy Table 8-14 (from memory)"),
   decay: p(0.17, "1/day at 20 °C", "model choice, no source (taken equal to the AOB value)"),
-  thetaGrowth: p(1.06, "per °C", "Metcalf & Eddy Table 8-14 (from memory)"),
   thetaDecay: p(1.029, "per °C", "Metcalf & Eddy Table 8-14"),
 } as const;
 
@@ -66,6 +53,12 @@ export const BACTERIA = {
   ),
   /** Floor for "established" bacteria when the tank has no load at the start. */
   establishedFloorFraction: p(1e-3, "fraction of full biomass", "model choice, no source"),
+  /**
+   * Resident population below which bacteria no longer decay: what a brand-new filter starts
+   * with (the seed). Biofilm on every surface keeps at least this much, so a load after months
+   * of plants taking all the ammonia meets bacteria that can grow back.
+   */
+  residentFloorFraction: p(1e-5, "fraction of full biomass", "model choice, no source (equal to the seed)"),
   /** Share of nitrifiers that live in the filter media (the rest on gravel, glass, plants). */
   shareInFilter: p(0.85, "fraction", "common practice, no source"),
   /** Share of filter nitrifiers killed by rinsing media in chlorinated tap water. */
@@ -162,98 +155,24 @@ export const LOW_OXYGEN = {
   denitrificationNitrateHalfSaturation: p(0.5, "mg N/L", "from memory"),
   anammoxAmmoniumHalfSaturation: p(0.07, "mg N/L", "from memory"),
   anammoxNitriteHalfSaturation: p(0.05, "mg N/L", "from memory"),
+  /**
+   * Organic carbon burnt per mg of nitrate-N reduced to N2, as chemical oxygen demand:
+   * 5 electrons per N against 4 per O2, 5/4 × 32/14.007 = 2.857 (computed; Metcalf & Eddy
+   * give 2.86 g COD per g NO3-N without cell growth).
+   */
+  codPerNitrateN: p(2.857, "mg O2-equivalent per mg NO3-N", "computed (Metcalf & Eddy: 2.86)"),
+  /**
+   * Half-saturation of denitrification in the organic matter of the tank (tank and filter
+   * detritus per litre of water, as organic N).
+   */
+  organicHalfSaturation: p(1, "mg organic N/L", "model choice, no source"),
+  /**
+   * Share of the water's oxygen that reaches the inside of a low-oxygen zone: the zone is
+   * low in oxygen because diffusion cannot keep up, not because the water is.
+   */
+  oxygenReachingZone: p(0.02, "fraction", "model choice, no source"),
+  /** Oxygen (inside the zone) that halves denitrification: ASM1's K_OH. */
+  denitrificationOxygenInhibition: p(0.2, "mg O2/L", "Henze et al. ASM1 (from memory)"),
+  /** Oxygen (inside the zone) that halves anammox: inhibited above about 0.5 % of air saturation. */
+  anammoxOxygenInhibition: p(0.02, "mg O2/L", "Strous et al. 1997 (from memory)"),
 } as const;
-
-// ---------------------------------------------------------------------------------------------
-// Scenario defaults: what a keeper gets before changing anything (a 100 L planted community tank)
-// ---------------------------------------------------------------------------------------------
-
-/** 5 and 20 mg/L as NO3⁻ expressed as N (× 0.22590, computed). */
-const NO3_AS_N = 0.2259;
-
-export const SCENARIO_DEFAULTS = {
-  water: {
-    volumeL: p(100, "L", "common practice, no source"),
-    temperatureC: p(25, "°C", "common practice, no source"),
-    pH: p(7.2, "pH", "common practice, no source"),
-    khDkh: p(4, "dKH", "common practice, no source"),
-    startTan: p(0, "mg N/L", "common practice, no source"),
-    startNitrite: p(0, "mg N/L", "common practice, no source"),
-    startNitrate: p(10 * NO3_AS_N, "mg N/L", "common practice, no source (10 mg/L as NO3)"),
-  },
-  fish: {
-    feedGPerDay: p(0.4, "g/day", "common practice, no source (a modestly stocked 100 L tank)"),
-    proteinFraction: p(0.45, "fraction", "common practice, no source (flake food label)"),
-    feedsPerDay: p(2, "count", "common practice, no source"),
-    fractionEaten: p(0.9, "fraction", "common practice, no source"),
-  },
-  filter: {
-    /** About 0.5 m² of colonised media at the Zhu & Chen rate of 0.59 g TAN/m²/day at 1 mg/L. */
-    capacityMgTanPerDay: p(300, "mg TAN-N/day", "Zhu & Chen (1999), 0.5 m² of media"),
-    cleaningIntervalDays: p(30, "days", "common practice, no source"),
-    organicsRemovedFraction: p(0.5, "fraction", "common practice, no source"),
-  },
-  maintenance: {
-    waterChangeIntervalDays: p(7, "days", "common practice, no source"),
-    waterChangeFraction: p(0.25, "fraction", "common practice, no source"),
-    gravelCleaningFraction: p(0.2, "fraction", "common practice, no source"),
-    dripLPerDay: p(0, "L/day", "common practice, no source"),
-  },
-  tapWater: {
-    nitrate: p(5 * NO3_AS_N, "mg N/L", "common practice, no source (5 mg/L as NO3)"),
-    tan: p(0, "mg N/L", "common practice, no source"),
-    khDkh: p(5, "dKH", "common practice, no source"),
-    roShare: p(0, "fraction", "common practice, no source"),
-  },
-  lowOxygen: {
-    denitrificationCapacityMgNPerDay: p(
-      20,
-      "mg N/day",
-      "model choice, no source (no published rate for porous media; docs/sources.md §8)",
-    ),
-    anammoxCapacityMgNPerDay: p(5, "mg NH4-N/day", "model choice, no source"),
-  },
-  run: {
-    lengthDays: p(180, "days", "common practice, no source"),
-    outputIntervalDays: p(1, "days", "common practice, no source"),
-  },
-  fishlessCycling: {
-    /** 2 mg/L of "ammonia" on a kit reading as NH4⁺ is about 1.5 mg N/L. */
-    doseMgNPerL: p(1.5, "mg N/L per dose", "common practice, no source"),
-    doseIntervalDays: p(1, "days", "common practice, no source"),
-    stopAfterDays: p(42, "days", "common practice, no source"),
-  },
-  targets: {
-    nitrateLow: p(5 * NO3_AS_N, "mg N/L", "common practice, no source (5 mg/L as NO3, docs/sources.md §9)"),
-    nitrateHigh: p(20 * NO3_AS_N, "mg N/L", "common practice, no source (20 mg/L as NO3, docs/sources.md §9)"),
-  },
-  cycling: {
-    /** TAN and nitrite-N both below this count as "processed". */
-    clearThreshold: p(0.1, "mg N/L", "common practice, no source"),
-    /** TAN or nitrite-N at or above this means the tank went through a cycle. */
-    cycleSeenThreshold: p(0.5, "mg N/L", "common practice, no source"),
-  },
-} as const;
-
-/**
- * Every sourced parameter, flattened to "group.name" → Sourced, for documentation and the
- * parameters table the web app may show.
- */
-export function listParameters(): { key: string; value: number; unit: string; source: string }[] {
-  const out: { key: string; value: number; unit: string; source: string }[] = [];
-  const walk = (prefix: string, node: unknown): void => {
-    if (node && typeof node === "object" && "value" in node && "source" in node) {
-      const s = node as Sourced;
-      out.push({ key: prefix, value: s.value, unit: s.unit, source: s.source });
-      return;
-    }
-    if (node && typeof node === "object") {
-      for (const [k, v] of Object.entries(node)) {
-        if (k === "label") continue;
-        walk(prefix ? `${prefix}.${k}` : k, v);
-      }
-    }
-  };
-  walk("", { AOB, NOB, BACTERIA, ORGANICS, PLANT_UPTAKE, GROWTH_FORM_DEFAULTS, LOW_OXYGEN, SCENARIO_DEFAULTS });
-  return out;
-}

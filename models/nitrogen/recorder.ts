@@ -1,0 +1,105 @@
+/**
+ * Records what a run reports: the chart series (rounded, clamped at zero for display), running
+ * peaks and lows over every solver step and sample, and — on request — the raw, unclamped
+ * samples the series were made from (for checks that must see what the solver produced).
+ */
+import { phFromKhUnclamped } from "./chemistry";
+import type { Peak, Series } from "./result";
+import { nonNeg, round6, roundDay } from "./result";
+import { fnh3At, phAt } from "./rhs";
+import type { Scenario } from "./scenario";
+import { IX, PLANT0, STATE_NAMES } from "./state";
+import type { TankConstants } from "./tank-constants";
+
+/** Unrounded, unclamped samples: one row per sample, columns named in `names`. */
+export interface RawSeries {
+  /** State names, then "pH (unclamped)". */
+  names: string[];
+  t: number[];
+  rows: number[][];
+}
+
+export interface Extremes {
+  nh3: Peak;
+  tan: Peak;
+  no2: Peak;
+  no3: Peak;
+  /** Lowest oxygen and KH (value, day). */
+  o2Low: Peak;
+  khLow: Peak;
+}
+
+export interface Recorder {
+  readonly series: Series;
+  readonly extremes: Extremes;
+  readonly raw: RawSeries | null;
+  /** Track peaks and lows at a solver step. */
+  track(t: number, y: readonly number[]): void;
+  /** Record a chart sample (and track it). */
+  sample(t: number, y: readonly number[]): void;
+}
+
+export function createRecorder(s: Scenario, c: TankConstants, keepRaw: boolean): Recorder {
+  const np = c.plantCount;
+  const series: Series = {
+    t: [],
+    tan: [],
+    nh3: [],
+    no2: [],
+    no3: [],
+    kh: [],
+    ph: [],
+    plants: s.plants.map((g) => ({ id: g.id, name: g.name, massG: [] })),
+    aob: [],
+    nob: [],
+    organicWater: [],
+    organicFilter: [],
+    o2: [],
+  };
+  const extremes: Extremes = {
+    nh3: { value: 0, day: 0 },
+    tan: { value: 0, day: 0 },
+    no2: { value: 0, day: 0 },
+    no3: { value: 0, day: 0 },
+    o2Low: { value: Infinity, day: 0 },
+    khLow: { value: Infinity, day: 0 },
+  };
+  const raw: RawSeries | null = keepRaw
+    ? { names: [...STATE_NAMES, ...s.plants.map((g) => `plants "${g.name}" (g)`), "pH (unclamped)"], t: [], rows: [] }
+    : null;
+
+  const track = (t: number, y: readonly number[]) => {
+    const tan = y[IX.tan];
+    const nh3 = tan * fnh3At(c, y[IX.kh]);
+    if (nh3 > extremes.nh3.value) extremes.nh3 = { value: nh3, day: t };
+    if (tan > extremes.tan.value) extremes.tan = { value: tan, day: t };
+    if (y[IX.no2] > extremes.no2.value) extremes.no2 = { value: y[IX.no2], day: t };
+    if (y[IX.no3] > extremes.no3.value) extremes.no3 = { value: y[IX.no3], day: t };
+    if (y[IX.o2] < extremes.o2Low.value) extremes.o2Low = { value: y[IX.o2], day: t };
+    if (y[IX.kh] < extremes.khLow.value) extremes.khLow = { value: y[IX.kh], day: t };
+  };
+
+  const sample = (t: number, y: readonly number[]) => {
+    track(t, y);
+    const kh = y[IX.kh];
+    series.t.push(roundDay(t));
+    series.tan.push(nonNeg(y[IX.tan]));
+    series.nh3.push(nonNeg(y[IX.tan] * fnh3At(c, kh)));
+    series.no2.push(nonNeg(y[IX.no2]));
+    series.no3.push(nonNeg(y[IX.no3]));
+    series.kh.push(nonNeg(kh));
+    series.ph.push(round6(phAt(c, kh)));
+    for (let i = 0; i < np; i++) series.plants[i].massG.push(nonNeg(y[PLANT0 + i]));
+    series.aob.push(nonNeg(y[IX.aob]));
+    series.nob.push(nonNeg(y[IX.nob]));
+    series.organicWater.push(nonNeg(y[IX.orgW]));
+    series.organicFilter.push(nonNeg(y[IX.orgF]));
+    series.o2.push(nonNeg(y[IX.o2]));
+    if (raw) {
+      raw.t.push(t);
+      raw.rows.push([...y, c.phFollowsKh ? phFromKhUnclamped(c.ph0, c.kh0, kh) : c.ph0]);
+    }
+  };
+
+  return { series, extremes, raw, track, sample };
+}

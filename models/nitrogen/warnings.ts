@@ -1,0 +1,185 @@
+/**
+ * Warnings, not errors: a run that finished but whose settings are far beyond what a tank of
+ * that size can carry, or whose water would harm fish. Each has a code for the app, a sentence
+ * for people, the value behind it, its unit, the limit it crossed and the day (null when it is
+ * about the settings rather than a moment).
+ */
+import { EATEN_N_SPLIT, tanFromFeed } from "./chemistry";
+import { ammoniaCriteria } from "./criteria";
+import { OXYGEN } from "./parameters";
+import type { Extremes } from "./recorder";
+import type { Series } from "./result";
+import { round6, roundDay } from "./result";
+import type { Scenario } from "./scenario";
+import type { TankConstants } from "./tank-constants";
+
+export type WarningCode =
+  | "feedBeyondOxygenSupply"
+  | "heavyFeedingForVolume"
+  | "lowOxygen"
+  | "ammoniaAboveAcuteCriterion"
+  | "ammoniaAboveChronicCriterion"
+  | "khExhausted"
+  | "outsideModelRange";
+
+export interface ModelWarning {
+  code: WarningCode;
+  /** "implausible": the settings are beyond what a real tank could be; "caution": the water would harm fish. */
+  severity: "caution" | "implausible";
+  message: string;
+  value: number;
+  unit: string;
+  limit: number;
+  day: number | null;
+}
+
+/** Feed per litre per day above which stocking is far beyond usual aquarium practice (g/L/day). */
+const HEAVY_FEEDING_G_PER_L_DAY = 0.03; // common practice, no source (a crowded tank is ~0.01)
+/** Dissolved nitrogen above which the numbers are outside anything a tank with life could hold (mg N/L). */
+const OUTSIDE_RANGE_MG_N_PER_L = 500; // model choice, no source
+/** KH (dKH) below which nitrification stalls for want of carbonate buffer. */
+const KH_EXHAUSTED_DKH = 0.5; // model choice, no source (the switch's half-saturation)
+
+/**
+ * Oxygen the feed needs once fully processed (mg O2/day): the fish's respiration, nitrifying
+ * the TAN they excrete (Timmons & Ebeling's 0.092 factor, then 4.57 g O2 per g N) and
+ * mineralising and nitrifying the faeces and leftovers.
+ */
+function feedOxygenDemand(s: Scenario, c: TankConstants): number {
+  const feedG = s.fish.feedGPerDay * s.multipliers.feedLoad;
+  const excretedTan = tanFromFeed(feedG * c.eatenShare, s.fish.proteinFraction) * 1000;
+  const toDetritus = c.feedN * (c.eatenShare * EATEN_N_SPLIT.faeces + (c.leftoversRemoved ? 0 : 1 - c.eatenShare));
+  const nitrify = c.o2PerAmmonium + c.o2PerNitrite;
+  return c.fishO2 + excretedTan * nitrify + toDetritus * (c.o2PerOrganicN + nitrify);
+}
+
+/** Most oxygen the air can bring in per day (mg O2/day): exchange at full deficit. */
+function oxygenSupplyCeiling(c: TankConstants): number {
+  return (c.kla * c.volumeL + c.dripLPerDay) * c.o2Sat;
+}
+
+/** Highest average of `values` over any window of `days` (trapezoid between samples). */
+function highestAverage(t: readonly number[], values: readonly number[], days: number): { value: number; day: number } {
+  let best = { value: 0, day: 0 };
+  let j = 0;
+  let area = 0;
+  for (let k = 1; k < t.length; k++) {
+    area += ((values[k] + values[k - 1]) / 2) * (t[k] - t[k - 1]);
+    while (t[k] - t[j] > days) {
+      area -= ((values[j + 1] + values[j]) / 2) * (t[j + 1] - t[j]);
+      j++;
+    }
+    const span = t[k] - t[j];
+    if (span >= Math.min(days, t[t.length - 1]) - 1e-9 && span > 0 && area / span > best.value) {
+      best = { value: area / span, day: t[k] };
+    }
+  }
+  return best;
+}
+
+export function findWarnings(s: Scenario, c: TankConstants, series: Series, extremes: Extremes): ModelWarning[] {
+  const out: ModelWarning[] = [];
+  const V = c.volumeL;
+  const feedPerL = (s.fish.feedGPerDay * s.multipliers.feedLoad) / V;
+  const demand = feedOxygenDemand(s, c);
+  const supply = oxygenSupplyCeiling(c);
+  if (demand > supply) {
+    out.push({
+      code: "feedBeyondOxygenSupply",
+      severity: "implausible",
+      message: `The food needs about ${Math.round(demand)} mg of oxygen a day, more than the water's surface and filter can take up (${Math.round(supply)} mg a day at most): no tank of ${round6(V)} L could carry this feeding.`,
+      value: round6(demand / supply),
+      unit: "× the oxygen supply",
+      limit: 1,
+      day: null,
+    });
+  }
+  if (feedPerL > HEAVY_FEEDING_G_PER_L_DAY) {
+    out.push({
+      code: "heavyFeedingForVolume",
+      severity: "implausible",
+      message: `${round6(feedPerL)} g of food per litre a day is far beyond what aquaria are stocked for; check the food per day and the water volume.`,
+      value: round6(feedPerL),
+      unit: "g/L/day",
+      limit: HEAVY_FEEDING_G_PER_L_DAY,
+      day: null,
+    });
+  }
+  const caution = OXYGEN.cautionMgPerL.value;
+  if (extremes.o2Low.value < caution) {
+    out.push({
+      code: "lowOxygen",
+      severity: "caution",
+      message: `Dissolved oxygen falls to ${round6(Math.max(extremes.o2Low.value, 0))} mg/L, below the ${caution} mg/L fish need: more surface movement or less food.`,
+      value: round6(Math.max(extremes.o2Low.value, 0)),
+      unit: "mg O2/L",
+      limit: caution,
+      day: roundDay(extremes.o2Low.day),
+    });
+  }
+  // Ammonia against the US EPA (2013) criteria at each sample's pH. A tank cycled without fish
+  // is meant to carry ammonia: the advice is then to wait before adding fish.
+  const fishless = s.fish.feedGPerDay === 0 && s.fishlessCycling.enabled;
+  const advice = fishless
+    ? " Add fish only once the tank has cycled and ammonia and nitrite read zero."
+    : " Test the water and change some of it now.";
+  let acute = { ratio: 0, value: 0, limit: 0, day: 0 };
+  for (let k = 0; k < series.t.length; k++) {
+    const limit = ammoniaCriteria(series.ph[k], c.temperatureC).acuteTanMgNPerL;
+    const ratio = series.tan[k] / limit;
+    if (ratio > acute.ratio) acute = { ratio, value: series.tan[k], limit, day: series.t[k] };
+  }
+  if (acute.ratio > 1) {
+    out.push({
+      code: "ammoniaAboveAcuteCriterion",
+      severity: "caution",
+      message: `Total ammonia reaches ${round6(acute.value)} mg N/L, above the acute criterion of ${round6(acute.limit)} at this pH and temperature (US EPA 2013): deadly to many fish within hours.${advice}`,
+      value: round6(acute.value),
+      unit: "mg N/L",
+      limit: round6(acute.limit),
+      day: acute.day,
+    });
+  }
+  const meanPh = series.ph.reduce((a, b) => a + b, 0) / Math.max(series.ph.length, 1);
+  const chronic = ammoniaCriteria(meanPh, c.temperatureC).chronicTanMgNPerL;
+  const month = highestAverage(series.t, series.tan, 30);
+  const fourDays = highestAverage(series.t, series.tan, 4);
+  if (month.value > chronic || fourDays.value > 2.5 * chronic) {
+    const byMonth = month.value > chronic;
+    out.push({
+      code: "ammoniaAboveChronicCriterion",
+      severity: "caution",
+      message: byMonth
+        ? `Total ammonia averages ${round6(month.value)} mg N/L over 30 days, above the chronic criterion of ${round6(chronic)} (US EPA 2013).${advice}`
+        : `Total ammonia averages ${round6(fourDays.value)} mg N/L over 4 days, above 2.5 times the chronic criterion of ${round6(chronic)} (US EPA 2013).${advice}`,
+      value: round6(byMonth ? month.value : fourDays.value),
+      unit: "mg N/L",
+      limit: round6(byMonth ? chronic : 2.5 * chronic),
+      day: byMonth ? month.day : fourDays.day,
+    });
+  }
+  if (extremes.khLow.value < KH_EXHAUSTED_DKH && s.water.khDkh >= KH_EXHAUSTED_DKH) {
+    out.push({
+      code: "khExhausted",
+      severity: "caution",
+      message: `KH is used up (down to ${round6(Math.max(extremes.khLow.value, 0))} dKH): the filter bacteria stall and pH can crash. Change water or add buffer.`,
+      value: round6(Math.max(extremes.khLow.value, 0)),
+      unit: "dKH",
+      limit: KH_EXHAUSTED_DKH,
+      day: roundDay(extremes.khLow.day),
+    });
+  }
+  const highest = [extremes.tan, extremes.no2, extremes.no3].reduce((a, b) => (b.value > a.value ? b : a));
+  if (highest.value > OUTSIDE_RANGE_MG_N_PER_L) {
+    out.push({
+      code: "outsideModelRange",
+      severity: "implausible",
+      message: `Dissolved nitrogen reaches ${round6(highest.value)} mg N/L, far outside anything a tank with living fish or plants could hold; the model's numbers mean little here.`,
+      value: round6(highest.value),
+      unit: "mg N/L",
+      limit: OUTSIDE_RANGE_MG_N_PER_L,
+      day: roundDay(highest.day),
+    });
+  }
+  return out;
+}
