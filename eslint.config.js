@@ -17,6 +17,25 @@ export default tseslint.config(
     },
   },
   {
+    // One import style in the web app: ~/ for app code, ~models for the engine; relative paths
+    // only for React Router's generated ./+types (docs/decisions/0008-feature-folders.md).
+    files: ["app/**/*.{ts,tsx}"],
+    ignores: ["app/routes.ts"],
+    rules: {
+      "no-restricted-imports": [
+        "error",
+        {
+          patterns: [
+            {
+              regex: "^\\.{1,2}/(?!\\+types/)",
+              message: "Import app code as ~/… and the engine as ~models (only ./+types/… stays relative).",
+            },
+          ],
+        },
+      ],
+    },
+  },
+  {
     files: ["app/**/*.tsx"],
     plugins: { "react-hooks": reactHooks },
     rules: {

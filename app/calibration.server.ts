@@ -4,7 +4,7 @@
  * person's units. Saving the fitted multipliers makes a new scenario (same start date).
  */
 import { z } from "zod";
-import type { Scenario } from "../models";
+import type { Scenario } from "~models";
 import {
   calibrateMultipliers,
   MULTIPLIER_BOUNDS,
@@ -13,7 +13,7 @@ import {
   type CalibrationResult,
   type MultiplierKey,
   type Species,
-} from "../models/nitrogen/calibrate";
+} from "~models/nitrogen/calibrate";
 import { speciesFactor } from "~/display-units.server";
 import { KeeperError, startJob, type JobContext } from "~/jobs.server";
 import { readingsForCalibration } from "~/readings.server";

@@ -19,7 +19,7 @@
  */
 import { and, asc, eq, inArray } from "drizzle-orm";
 import { data } from "react-router";
-import type { Scenario } from "../models";
+import type { Scenario } from "~models";
 import { getDb } from "~/db/client.server";
 import { classes, classMembers, lessonCopies, lessons, scenarios, tanks, users } from "~/db/schema";
 import { hasRole, notFound } from "~/permissions.server";

@@ -4,7 +4,7 @@
  * synchronous), then the new tank if any, the scenario, its run and the caller's own rows are
  * written in one transaction, so nothing is ever half-copied.
  */
-import type { Scenario } from "../models";
+import type { Scenario } from "~models";
 import { getDb } from "~/db/client.server";
 import { tanks } from "~/db/schema";
 import { checkNewTank } from "~/quotas.server";

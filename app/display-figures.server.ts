@@ -1,5 +1,5 @@
 /** Key figures, series and guides converted from the engine's mg N/L into a viewer's units. */
-import type { KeyFigures, Series } from "../models";
+import type { KeyFigures, Series } from "~models";
 import { speciesFactor } from "~/display-units.server";
 import type { DisplayKeyFigures } from "~/components/key-figures";
 import type { ChartGuides, ChartSeries } from "~/components/charts/types";

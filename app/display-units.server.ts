@@ -2,8 +2,8 @@
  * Converts the engine's canonical numbers (mg N/L, L, °C, dKH) to and from what a person sees.
  * Server-only: it uses models/units.ts, which needs mathjs.
  */
-import type { Quantity } from "../models";
-import { fromCanonical, toCanonical } from "../models/units";
+import type { Quantity } from "~models";
+import { fromCanonical, toCanonical } from "~models/units";
 import type { DisplayUnits } from "~/utils/display-units";
 
 type Convertible = "volume" | "temperature" | "nitrate" | "nitrite" | "ammonia" | "kh";

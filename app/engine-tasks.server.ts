@@ -15,7 +15,7 @@ import {
   type Scenario,
   type SimulateOptions,
   type SweepPoint,
-} from "../models";
+} from "~models";
 import { valueAt } from "~/components/charts/lookup";
 import { toStorableSync, type StorableRun } from "~/run-packing.server";
 

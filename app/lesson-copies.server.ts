@@ -3,7 +3,7 @@
  * handed in once (and then kept: a handed-in copy cannot be deleted), and read by the educator.
  */
 import { and, desc, eq, inArray, isNotNull, isNull } from "drizzle-orm";
-import type { KeyFigures } from "../models";
+import type { KeyFigures } from "~models";
 import { copyScenarioInto } from "~/copies.server";
 import { getDb } from "~/db/client.server";
 import { lessonCopies, lessons, runs, scenarios, tanks } from "~/db/schema";

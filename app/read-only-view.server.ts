@@ -3,7 +3,7 @@
  * share page, an admin reviewing a link, an educator opening a student's lesson copy. It
  * reuses the stored run (ensureRun runs the engine only if the settings or engine changed).
  */
-import type { Scenario } from "../models";
+import type { Scenario } from "~models";
 import { packedResultsPayload, resultsPayload } from "~/results.server";
 import { buildScenarioForm } from "~/scenario-form.server";
 import { ensureRun, readStoredSettings, runProblem, withTankTargets } from "~/simulation.server";

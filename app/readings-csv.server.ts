@@ -13,7 +13,7 @@
  * The export and the template use the same names, so an exported file uploads again unchanged.
  */
 import { parse } from "csv-parse/sync";
-import { fromCanonical } from "../models/units";
+import { fromCanonical } from "~models/units";
 import { toCsv, unneutraliseCell, type CsvCell } from "~/components/charts/csv";
 import { formatDateTime, parseDateOnly, parseDateTime, parseTimeOfDay } from "~/utils/dates";
 import {

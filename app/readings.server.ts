@@ -14,12 +14,12 @@ import {
   type NitrateUnit,
   type NitriteUnit,
   type TemperatureUnit,
-} from "../models/units";
+} from "~models/units";
 import type { ChartReading } from "~/components/charts/types";
 import { getDb, type Db } from "~/db/client.server";
 import { readings } from "~/db/schema";
 import { speciesFactor, toDisplay } from "~/display-units.server";
-import type { CalibrationReading } from "../models/nitrogen/calibrate";
+import type { CalibrationReading } from "~models/nitrogen/calibrate";
 import { DAY_MS, startOfDay } from "~/utils/dates";
 import { unitLabels, type DisplayUnits } from "~/utils/display-units";
 

@@ -2,7 +2,7 @@
  * Everything a results view draws for one run, in the viewer's units. Shared by the owner's
  * results page, the public share page and the classroom views, so they all show the same.
  */
-import type { NitrogenBudget, Scenario } from "../models";
+import type { NitrogenBudget, Scenario } from "~models";
 import type { ChartEvent } from "~/components/charts/types";
 import { displayGuides, displayKeyFigures, displaySeries } from "~/display-figures.server";
 import { speciesFactor } from "~/display-units.server";

@@ -16,7 +16,7 @@ import {
   type Scenario,
   type SimulateOptions,
   type SimulationResult,
-} from "../models";
+} from "~models";
 import { getEnginePool } from "~/jobs.server";
 import { LIMITS, take, waitText } from "~/rate-limits.server";
 import { toStorable, type StorableRun } from "~/run-packing.server";

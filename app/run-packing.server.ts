@@ -6,7 +6,7 @@
  */
 import { promisify } from "node:util";
 import zlib from "node:zlib";
-import type { Series, SimulationResult } from "../models";
+import type { Series, SimulationResult } from "~models";
 
 /** Series JSON above this size is stored packed. */
 export const PACK_ABOVE_BYTES = 64 * 1024;

@@ -1,7 +1,7 @@
 /** Server code shared by the scenario API routes: validation of bodies, JSON shapes, saving with a run. */
 import { eq } from "drizzle-orm";
 import { z } from "zod";
-import { parseScenario, type Scenario, type SimulationResult } from "../models";
+import { parseScenario, type Scenario, type SimulationResult } from "~models";
 import { apiError, apiFind, json, zodIssues } from "~/api.server";
 import { jobJson, JobRefused, type Job } from "~/jobs.server";
 import { requireApiUser } from "~/permissions.server";

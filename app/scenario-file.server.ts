@@ -5,7 +5,7 @@
  * migrated by the engine; a newer one is refused with a message saying so.
  */
 import { z } from "zod";
-import { parseScenario, type Scenario } from "../models";
+import { parseScenario, type Scenario } from "~models";
 import type { FieldErrors } from "~/utils/form-errors";
 
 const FileSchema = z.object({

@@ -11,7 +11,7 @@ import {
   plantGroupFromForm,
   type Scenario,
   type ScenarioField,
-} from "../models";
+} from "~models";
 import { fromDisplay, toDisplay } from "~/display-units.server";
 import type { DisplayUnits } from "~/utils/display-units";
 import { unitLabels } from "~/utils/display-units";

@@ -4,7 +4,7 @@
  * with it the same way, and remembers where it came from.
  */
 import { eq } from "drizzle-orm";
-import type { Scenario } from "../models";
+import type { Scenario } from "~models";
 import { scenarios } from "~/db/schema";
 import { insertScenarioWithRun, runOrRefuseForStorage, writeOrRefuse } from "~/scenario-api.server";
 import { withTankTargets } from "~/simulation.server";

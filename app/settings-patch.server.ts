@@ -4,7 +4,7 @@
  * PATCH merges a partial `settings` into the saved ones instead of resetting the rest to defaults.
  */
 import type { z } from "zod";
-import { ScenarioSchema } from "../models";
+import { ScenarioSchema } from "~models";
 
 type Def = {
   type: string;

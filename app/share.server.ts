@@ -10,7 +10,7 @@
  * cannot make a new link for that scenario; an admin may restore the link.
  */
 import { and, desc, eq, isNotNull, isNull } from "drizzle-orm";
-import { ENGINE_VERSION } from "../models";
+import { ENGINE_VERSION } from "~models";
 import { getDb } from "~/db/client.server";
 import { scenarios, shareLinks, tanks, users } from "~/db/schema";
 import type { ScenarioRow, TankRow } from "~/tanks.server";

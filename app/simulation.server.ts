@@ -15,8 +15,8 @@ import {
   type Series,
   type SimulationResult,
   type SimulationStats,
-} from "../models";
-import type { EventRecord } from "../models";
+} from "~models";
+import type { EventRecord } from "~models";
 import { getDb, type Db } from "~/db/client.server";
 import { runs } from "~/db/schema";
 import { checkRunBytes, QuotaExceeded } from "~/quotas.server";

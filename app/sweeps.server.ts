@@ -6,7 +6,7 @@
  * the maximum fixed is not monotone (a group near its maximum takes up little; docs/engine.md).
  */
 import { z } from "zod";
-import { listScenarioFields, OUTCOMES, type Quantity, type Scenario, type ScenarioField } from "../models";
+import { listScenarioFields, OUTCOMES, type Quantity, type Scenario, type ScenarioField } from "~models";
 import { fromDisplay, speciesFactor, toDisplay } from "~/display-units.server";
 import type { SettingChange } from "~/engine-tasks.server";
 import { JOB_LIMITS, startJob, type JobContext } from "~/jobs.server";

@@ -10,7 +10,7 @@
  * most change the lever allows: if that misses the goal, no value of this lever can meet it.
  */
 import { z } from "zod";
-import { setScenarioValue, type Scenario } from "../models";
+import { setScenarioValue, type Scenario } from "~models";
 import type { GoalFigures, SettingChange } from "~/engine-tasks.server";
 import { speciesFactor } from "~/display-units.server";
 import { startJob, type JobContext } from "~/jobs.server";

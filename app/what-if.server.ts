@@ -3,7 +3,7 @@
  * Values are canonical (g/day, fraction 0–1, days, mg N/L), plus a factor on plant mass.
  */
 import { z } from "zod";
-import type { Scenario } from "../models";
+import type { Scenario } from "~models";
 
 export const WhatIfSchema = z
   .object({

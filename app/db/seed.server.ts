@@ -6,10 +6,10 @@
 import { and, eq } from "drizzle-orm";
 import { hashPassword } from "~/auth.server";
 import { hashToken } from "~/utils/crypto.server";
-import type { Db } from "./client.server";
-import { classes, classMembers, lessons, scenarios, shareLinks, tanks, users } from "./schema";
-import { seedDemoReadings } from "./seed-readings.server";
-import { seedDemoScenarios } from "./seed-scenarios.server";
+import type { Db } from "~/db/client.server";
+import { classes, classMembers, lessons, scenarios, shareLinks, tanks, users } from "~/db/schema";
+import { seedDemoReadings } from "~/db/seed-readings.server";
+import { seedDemoScenarios } from "~/db/seed-scenarios.server";
 
 export const DEMO_PASSWORD = "tidewell-demo-2026";
 

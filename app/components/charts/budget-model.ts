@@ -2,8 +2,8 @@
  * The nitrogen budget arranged for display (pure): the segments of "where the nitrogen went"
  * and the rows of the budget table.
  */
-import { SERIES_COLORS } from "./palette";
-import type { ChartBudget } from "./types";
+import { SERIES_COLORS } from "~/components/charts/palette";
+import type { ChartBudget } from "~/components/charts/types";
 
 export type BudgetSegment = {
   key: string;

@@ -3,9 +3,9 @@
  * (one run in detail, or several runs side by side with differences marked).
  */
 import { memo } from "react";
-import { budgetSections, budgetSegments, stockRows, type BudgetSegment } from "./budget-model";
-import { formatMgN, formatPercent, splitMgN } from "./format";
-import type { ChartBudget } from "./types";
+import { budgetSections, budgetSegments, stockRows, type BudgetSegment } from "~/components/charts/budget-model";
+import { formatMgN, formatPercent, splitMgN } from "~/components/charts/format";
+import type { ChartBudget } from "~/components/charts/types";
 
 export type BudgetBarProps = {
   budget: ChartBudget;

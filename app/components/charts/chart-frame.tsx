@@ -10,13 +10,13 @@
  */
 import { scaleLinear, type ScaleLinear } from "d3-scale";
 import { useId, useMemo, type ReactNode } from "react";
-import { useContainerWidth, type CursorVia } from "./hooks";
-import { PATH_SCALE, linePath, scaledDash } from "./paths";
-import { nearestIndex, sampleSide, valueAt } from "./lookup";
-import { EVENT_META, GRID, INK, MONO_STACK, SERIF_STACK, type EventKind } from "./palette";
-import { EVENT_ROW, dayDomain, maxFinite, plotBox, spreadLabels, tickCounts, ticksOf, valueDomain } from "./scales";
-import { formatDay } from "./format";
-import type { ChartEvent } from "./types";
+import { useContainerWidth, type CursorVia } from "~/components/charts/hooks";
+import { PATH_SCALE, linePath, scaledDash } from "~/components/charts/paths";
+import { nearestIndex, sampleSide, valueAt } from "~/components/charts/lookup";
+import { EVENT_META, GRID, INK, MONO_STACK, SERIF_STACK, type EventKind } from "~/components/charts/palette";
+import { EVENT_ROW, dayDomain, maxFinite, plotBox, spreadLabels, tickCounts, ticksOf, valueDomain } from "~/components/charts/scales";
+import { formatDay } from "~/components/charts/format";
+import type { ChartEvent } from "~/components/charts/types";
 
 export type Axis = "left" | "right";
 

@@ -4,15 +4,15 @@
  * cursor, readout, table and downloads as the results chart (drawing shared through ChartFrame).
  */
 import { memo, useCallback, useId, useMemo, useRef, useState } from "react";
-import { ChartDataTable, compareTableColumns } from "./chart-data-table";
-import { ChartDownloads } from "./chart-downloads";
-import { ChartFrame, type FrameBand, type FrameGuide, type FrameLine } from "./chart-frame";
-import { compareCsv, fileSlug, speciesValues } from "./csv";
-import type { LegendItem } from "./downloads";
-import { formatDay, formatNumber, formatSigned } from "./format";
-import { useControllable, useDayCursor } from "./hooks";
-import { EventKey, LineSwatch, ToggleButton } from "./legend";
-import { sampleSide, valueAt } from "./lookup";
+import { ChartDataTable, compareTableColumns } from "~/components/charts/chart-data-table";
+import { ChartDownloads } from "~/components/charts/chart-downloads";
+import { ChartFrame, type FrameBand, type FrameGuide, type FrameLine } from "~/components/charts/chart-frame";
+import { compareCsv, fileSlug, speciesValues } from "~/components/charts/csv";
+import type { LegendItem } from "~/components/charts/downloads";
+import { formatDay, formatNumber, formatSigned } from "~/components/charts/format";
+import { useControllable, useDayCursor } from "~/components/charts/hooks";
+import { EventKey, LineSwatch, ToggleButton } from "~/components/charts/legend";
+import { sampleSide, valueAt } from "~/components/charts/lookup";
 import {
   BAND_COLOR,
   COMPARE_COLORS,
@@ -23,8 +23,8 @@ import {
   SERIES_NAMES,
   unitOf,
   type EventKind,
-} from "./palette";
-import type { ChartEvent, ChartGuides, ChartSeries, ChartUnits, SeriesKey } from "./types";
+} from "~/components/charts/palette";
+import type { ChartEvent, ChartGuides, ChartSeries, ChartUnits, SeriesKey } from "~/components/charts/types";
 
 export type CompareRun = { label: string; series: ChartSeries };
 

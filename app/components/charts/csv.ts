@@ -8,9 +8,9 @@
  * character, so reading a file back (unneutraliseCell) gives every text exactly as it was.
  * Numbers are written as numbers, never quoted or prefixed: -0.5 is a value, not a formula.
  */
-import { EVENT_META, PLANT_UNIT, SERIES_NAMES, unitOf } from "./palette";
-import { upperBound, lowerBound } from "./lookup";
-import type { ChartEvent, ChartSeries, ChartUnits, SeriesKey } from "./types";
+import { EVENT_META, PLANT_UNIT, SERIES_NAMES, unitOf } from "~/components/charts/palette";
+import { upperBound, lowerBound } from "~/components/charts/lookup";
+import type { ChartEvent, ChartSeries, ChartUnits, SeriesKey } from "~/components/charts/types";
 import { fileSlugFor } from "~/utils/file-name";
 
 export type CsvCell = string | number | null | undefined;

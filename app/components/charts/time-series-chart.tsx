@@ -5,15 +5,15 @@
  * table and downloads. Drawing is shared with CompareChart through ChartFrame.
  */
 import { memo, useCallback, useEffect, useMemo, useRef, useState } from "react";
-import { ChartDataTable, seriesTableColumns } from "./chart-data-table";
-import { ChartDownloads } from "./chart-downloads";
-import { ChartFrame, type FrameBand, type FrameGuide, type FrameLine, type FramePoint } from "./chart-frame";
-import { seriesCsv, fileSlug } from "./csv";
-import type { LegendItem } from "./downloads";
-import { formatDay, formatNumber, formatSigned } from "./format";
-import { useControllable, useDayCursor } from "./hooks";
-import { EventKey, LineSwatch, ToggleButton } from "./legend";
-import { nearestIndex, residualsNear, sampleSide, valueAt, type Side } from "./lookup";
+import { ChartDataTable, seriesTableColumns } from "~/components/charts/chart-data-table";
+import { ChartDownloads } from "~/components/charts/chart-downloads";
+import { ChartFrame, type FrameBand, type FrameGuide, type FrameLine, type FramePoint } from "~/components/charts/chart-frame";
+import { seriesCsv, fileSlug } from "~/components/charts/csv";
+import type { LegendItem } from "~/components/charts/downloads";
+import { formatDay, formatNumber, formatSigned } from "~/components/charts/format";
+import { useControllable, useDayCursor } from "~/components/charts/hooks";
+import { EventKey, LineSwatch, ToggleButton } from "~/components/charts/legend";
+import { nearestIndex, residualsNear, sampleSide, valueAt, type Side } from "~/components/charts/lookup";
 import {
   BAND_COLOR,
   DEFAULT_EVENT_KINDS,
@@ -27,7 +27,7 @@ import {
   SERIES_NAMES,
   unitOf,
   type EventKind,
-} from "./palette";
+} from "~/components/charts/palette";
 import type {
   ChartEvent,
   ChartGuides,
@@ -37,7 +37,7 @@ import type {
   ChartUnits,
   SeriesKey,
   SpeciesKey,
-} from "./types";
+} from "~/components/charts/types";
 
 export type Visibility = Record<SeriesKey, boolean>;
 

@@ -4,7 +4,7 @@
  * values and `units` holds their labels.
  */
 
-import type { NitrogenBudget, Stocks } from "../../../models";
+import type { NitrogenBudget, Stocks } from "~models";
 
 /** The species a chart can show; "plants" is drawn on a second axis (g dry mass). */
 export type SpeciesKey = "tan" | "nh3" | "no2" | "no3";

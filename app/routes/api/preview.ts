@@ -1,6 +1,6 @@
 import { z } from "zod";
 import type { Route } from "./+types/preview";
-import { parseScenario } from "../../../models";
+import { parseScenario } from "~models";
 import { apiError, apiFind, json, readJson, zodIssues, methodNotAllowed } from "~/api.server";
 import { displayKeyFigures, displaySeries } from "~/display-figures.server";
 import { requireApiUser } from "~/permissions.server";

@@ -19,7 +19,7 @@ import { formatDate } from "~/utils/dates";
 import { displayUnitsFor } from "~/utils/display-units";
 import { fieldErrors, formValues, type FormFailure } from "~/utils/form-errors";
 import { invalid, readForm } from "~/utils/http.server";
-import { MULTIPLIER_KEYS, withMultipliers } from "../../../models/nitrogen/calibrate";
+import { MULTIPLIER_KEYS, withMultipliers } from "~models/nitrogen/calibrate";
 import { refusal } from "~/copies.server";
 import { saveScenarioVariant } from "~/scenario-variant.server";
 import { Breadcrumbs } from "~/components/breadcrumbs";

@@ -5,7 +5,7 @@ import { CompareChart } from "~/components/charts/compare-chart";
 import { TimeSeriesChart } from "~/components/charts/time-series-chart";
 import type { ChartEvent, ChartOverlay, ChartReading, ChartSeries, ChartUnits } from "~/components/charts/types";
 import { requireLocalTool } from "~/local-tools.server";
-import { ScenarioSchema, getPreset, plantGroupFromForm, simulate, type ScenarioInput } from "../../../models";
+import { ScenarioSchema, getPreset, plantGroupFromForm, simulate, type ScenarioInput } from "~models";
 
 export const meta: Route.MetaFunction = () => [{ title: "Chart preview (local) · Fernwater" }];
 

@@ -22,7 +22,7 @@ import { listScenarios, requireOwnedTank } from "~/tanks.server";
 import { displayUnitsFor, formatNumber } from "~/utils/display-units";
 import { formValues } from "~/utils/form-errors";
 import { invalid, readForm } from "~/utils/http.server";
-import { listHref } from "./list-href";
+import { listHref } from "~/routes/readings/list-href";
 import {
   clashMessage,
   displayRow,
@@ -31,7 +31,7 @@ import {
   takenAtClash,
   type DisplayReading,
   type ListQuery,
-} from "./readings.server";
+} from "~/routes/readings/readings.server";
 import { Breadcrumbs } from "~/components/breadcrumbs";
 
 export const meta: Route.MetaFunction = ({ data }) => [

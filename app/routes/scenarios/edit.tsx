@@ -9,7 +9,7 @@ import { readStoredSettings } from "~/simulation.server";
 import { requireOwnedScenario } from "~/tanks.server";
 import { formatDate } from "~/utils/dates";
 import { readForm } from "~/utils/http.server";
-import { handleSetupSubmission, unitsOf, unitsSummary } from "./setup.server";
+import { handleSetupSubmission, unitsOf, unitsSummary } from "~/routes/scenarios/setup.server";
 import { Breadcrumbs } from "~/components/breadcrumbs";
 
 export const meta: Route.MetaFunction = ({ data }) => [

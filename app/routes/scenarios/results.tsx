@@ -19,7 +19,7 @@ import { formValues } from "~/utils/form-errors";
 import { unpackSeries } from "~/utils/series-packing";
 import { invalid, readForm } from "~/utils/http.server";
 import { applyWhatIf, whatIfBase, WhatIfSchema } from "~/what-if.server";
-import { ScenarioNameSchema } from "./setup.server";
+import { ScenarioNameSchema } from "~/routes/scenarios/setup.server";
 import { Breadcrumbs } from "~/components/breadcrumbs";
 
 export const meta: Route.MetaFunction = ({ data }) => [

@@ -5,7 +5,7 @@
  */
 import { data } from "react-router";
 import { z } from "zod";
-import { ScenarioSchema, type Scenario } from "../../../models";
+import { ScenarioSchema, type Scenario } from "~models";
 import { getDb } from "~/db/client.server";
 import { scenarios, tanks } from "~/db/schema";
 import { eq } from "drizzle-orm";

@@ -14,7 +14,7 @@ import { requireOwnedTank } from "~/tanks.server";
 import { displayUnitsFor, formatNumber, unitLabels } from "~/utils/display-units";
 import { fieldErrors, formValues } from "~/utils/form-errors";
 import { invalid, readForm } from "~/utils/http.server";
-import { TankNameSchema, TankNotesSchema } from "./tanks.server";
+import { TankNameSchema, TankNotesSchema } from "~/routes/tanks/tanks.server";
 import { Breadcrumbs } from "~/components/breadcrumbs";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.tank.name ?? "Tank"} · Fernwater` }];

@@ -11,7 +11,7 @@ import { displayUnitsFor, formatNumber, unitLabels } from "~/utils/display-units
 import { fieldErrors, formValues } from "~/utils/form-errors";
 import { invalid, readForm } from "~/utils/http.server";
 import { z } from "zod";
-import { latestFiguresByTank, TankNameSchema, TankNotesSchema } from "./tanks.server";
+import { latestFiguresByTank, TankNameSchema, TankNotesSchema } from "~/routes/tanks/tanks.server";
 
 export const meta: Route.MetaFunction = () => [{ title: "Your tanks · Fernwater" }];
 

@@ -1,6 +1,6 @@
 import { desc, eq, inArray } from "drizzle-orm";
 import { z } from "zod";
-import type { KeyFigures } from "../../../models";
+import type { KeyFigures } from "~models";
 import { getDb } from "~/db/client.server";
 import { runs, scenarios, tanks } from "~/db/schema";
 
