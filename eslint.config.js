@@ -5,7 +5,7 @@ import globals from "globals";
 import tseslint from "typescript-eslint";
 
 export default tseslint.config(
-  { ignores: ["build/", ".react-router/", "node_modules/", "test-results/", "data/", "drizzle/", "coverage/"] },
+  { ignores: ["build/", "build-*/", ".react-router/", "node_modules/", "test-results/", "data/", "drizzle/", "coverage/"] },
   js.configs.recommended,
   ...tseslint.configs.recommended,
   {

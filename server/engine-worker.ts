@@ -6,7 +6,7 @@
 import fs from "node:fs";
 import os from "node:os";
 import { parentPort } from "node:worker_threads";
-import { runEngineTask, type EngineTask } from "~/engine-tasks.server";
+import { runEngineTask, type EngineTask } from "~/features/jobs/engine-tasks.server";
 
 if (!parentPort) throw new Error("engine-worker runs as a worker thread only");
 const port = parentPort;

@@ -5,7 +5,7 @@
  */
 import { eq } from "drizzle-orm";
 import { toCanonical } from "~models/units";
-import { insertReadings, type ReadingInput } from "~/readings.server";
+import { insertReadings, type ReadingInput } from "~/features/readings/readings.server";
 import { DAY_MS, startOfDay } from "~/utils/dates";
 import type { Db } from "~/db/client.server";
 import { scenarios } from "~/db/schema";

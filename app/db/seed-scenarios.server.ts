@@ -3,7 +3,7 @@
  * invented variants, each stored with its run so the demo opens straight onto charts.
  */
 import { getPreset, plantGroupFromForm, ScenarioSchema, simulate, type ScenarioInput } from "~models";
-import { REQUEST_RUN_LIMITS, settingsHash, insertRun } from "~/simulation.server";
+import { REQUEST_RUN_LIMITS, settingsHash, insertRun } from "~/features/runs/simulation.server";
 import type { Db } from "~/db/client.server";
 import { scenarios, tanks } from "~/db/schema";
 import { eq } from "drizzle-orm";

@@ -1,7 +1,7 @@
 import { afterEach, describe, expect, it } from "vitest";
 import type { Scenario } from "../../models/index";
-import { runEngineTask } from "~/engine-tasks.server";
-import { clearJobs, startJob, type Job } from "~/jobs.server";
+import { runEngineTask } from "~/features/jobs/engine-tasks.server";
+import { clearJobs, startJob, type Job } from "~/features/jobs/jobs.server";
 import {
   findLeastChange,
   judge,
@@ -10,7 +10,7 @@ import {
   type Goal,
   type SearchLever,
   type TargetResultJson,
-} from "~/target-finder.server";
+} from "~/features/sweeps/target-finder.server";
 import { displayUnitsFor, DEFAULT_PREFERENCES } from "~/utils/display-units";
 import { bareTank, feedForLoad } from "../models/helpers";
 

@@ -1,6 +1,6 @@
 import type { Route } from "./+types/job";
-import { apiError, json } from "~/api.server";
-import { cancelJob, findJob, jobJson } from "~/jobs.server";
+import { apiError, json } from "~/http/api.server";
+import { cancelJob, findJob, jobJson } from "~/features/jobs/jobs.server";
 import { requireApiUser } from "~/permissions.server";
 
 const NOT_FOUND = "There is no such job among yours (a finished job is kept for 15 minutes).";

@@ -1,15 +1,15 @@
 import { z } from "zod";
 import type { Route } from "./+types/preview";
 import { parseScenario } from "~models";
-import { apiError, apiFind, json, readJson, zodIssues, methodNotAllowed } from "~/api.server";
-import { displayKeyFigures, displaySeries } from "~/display-figures.server";
+import { apiError, apiFind, json, readJson, zodIssues, methodNotAllowed } from "~/http/api.server";
+import { displayKeyFigures, displaySeries } from "~/features/runs/display-figures.server";
 import { requireApiUser } from "~/permissions.server";
-import { runOrRefuse } from "~/scenario-api.server";
-import { unknownSettingKeys } from "~/settings-patch.server";
-import { readStoredSettings, withTankTargets } from "~/simulation.server";
-import { requireOwnedScenarioById } from "~/tanks.server";
+import { runOrRefuse } from "~/features/scenarios/scenario-api.server";
+import { unknownSettingKeys } from "~/features/scenarios/settings-patch.server";
+import { readStoredSettings, withTankTargets } from "~/features/runs/simulation.server";
+import { requireOwnedScenarioById } from "~/features/tanks/tanks.server";
 import { displayUnitsFor } from "~/utils/display-units";
-import { applyWhatIf, WhatIfSchema } from "~/what-if.server";
+import { applyWhatIf, WhatIfSchema } from "~/features/runs/what-if.server";
 
 /** Previews are for trying things: at most a year of model time, at most ~1,500 chart points. */
 export const PREVIEW_MAX_DAYS = 365;

@@ -1,12 +1,12 @@
 import { and, eq } from "drizzle-orm";
 import type { Route } from "./+types/run";
-import { apiError, json, methodNotAllowed } from "~/api.server";
+import { apiError, json, methodNotAllowed } from "~/http/api.server";
 import { toCsv, type CsvCell } from "~/components/charts/csv";
 import { getDb } from "~/db/client.server";
 import { runs, scenarios, tanks } from "~/db/schema";
 import { requireApiUser } from "~/permissions.server";
-import { runSummaryJson } from "~/scenario-api.server";
-import { getRun, type StoredRun } from "~/simulation.server";
+import { runSummaryJson } from "~/features/scenarios/scenario-api.server";
+import { getRun, type StoredRun } from "~/features/runs/simulation.server";
 
 /** The run's series in canonical units, one row per sample (both samples of each event). */
 function runCsv(run: StoredRun): string {

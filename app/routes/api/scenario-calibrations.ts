@@ -1,8 +1,8 @@
 import type { Route } from "./+types/scenario-calibrations";
-import { apiError, readJson, zodIssues, methodNotAllowed } from "~/api.server";
-import { CalibrateInputSchema, startCalibration } from "~/calibration.server";
-import { modelStartMs } from "~/readings.server";
-import { jobAccepted, requireApiScenario } from "~/scenario-api.server";
+import { apiError, readJson, zodIssues, methodNotAllowed } from "~/http/api.server";
+import { CalibrateInputSchema, startCalibration } from "~/features/calibration/calibration.server";
+import { modelStartMs } from "~/features/readings/readings.server";
+import { jobAccepted, requireApiScenario } from "~/features/scenarios/scenario-api.server";
 import { displayUnitsFor } from "~/utils/display-units";
 
 /**

@@ -1,9 +1,9 @@
 import type { Route } from "./+types/scenario-run";
-import { apiError, apiFind, json } from "~/api.server";
+import { apiError, apiFind, json } from "~/http/api.server";
 import { requireApiUser } from "~/permissions.server";
-import { runOrRefuseForStorage, runSummaryJson, writeOrRefuse } from "~/scenario-api.server";
-import { findRun, getRun, insertRun, readStoredSettings, settingsHash, withTankTargets } from "~/simulation.server";
-import { requireOwnedScenarioById } from "~/tanks.server";
+import { runOrRefuseForStorage, runSummaryJson, writeOrRefuse } from "~/features/scenarios/scenario-api.server";
+import { findRun, getRun, insertRun, readStoredSettings, settingsHash, withTankTargets } from "~/features/runs/simulation.server";
+import { requireOwnedScenarioById } from "~/features/tanks/tanks.server";
 
 const NOT_FOUND = "There is no such scenario among yours.";
 

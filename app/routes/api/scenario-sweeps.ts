@@ -1,8 +1,8 @@
 import type { Route } from "./+types/scenario-sweeps";
-import { apiError, json, readJson, zodIssues } from "~/api.server";
-import { JOB_LIMITS } from "~/jobs.server";
-import { jobAccepted, requireApiScenario } from "~/scenario-api.server";
-import { leverJson, startSweep, SWEEP_OUTCOMES, sweepInputSchema, sweepLevers } from "~/sweeps.server";
+import { apiError, json, readJson, zodIssues } from "~/http/api.server";
+import { JOB_LIMITS } from "~/features/jobs/jobs.server";
+import { jobAccepted, requireApiScenario } from "~/features/scenarios/scenario-api.server";
+import { leverJson, startSweep, SWEEP_OUTCOMES, sweepInputSchema, sweepLevers } from "~/features/sweeps/sweeps.server";
 import { displayUnitsFor } from "~/utils/display-units";
 
 async function sweepable(request: Request, scenarioIdParam: string | undefined) {

@@ -1,7 +1,7 @@
 import type { Route } from "./+types/scenario-targets";
-import { apiError, readJson, zodIssues, methodNotAllowed } from "~/api.server";
-import { jobAccepted, requireApiScenario } from "~/scenario-api.server";
-import { startTargetSearch, TargetInputSchema } from "~/target-finder.server";
+import { apiError, readJson, zodIssues, methodNotAllowed } from "~/http/api.server";
+import { jobAccepted, requireApiScenario } from "~/features/scenarios/scenario-api.server";
+import { startTargetSearch, TargetInputSchema } from "~/features/sweeps/target-finder.server";
 import { displayUnitsFor } from "~/utils/display-units";
 
 /**

@@ -1,14 +1,14 @@
 import type { Route } from "./+types/scenario";
-import { apiError, apiFind, json, readJson, zodIssues } from "~/api.server";
+import { apiError, apiFind, json, readJson, zodIssues } from "~/http/api.server";
 import { getDb } from "~/db/client.server";
 import { scenarios } from "~/db/schema";
 import { eq } from "drizzle-orm";
 import { requireApiUser } from "~/permissions.server";
-import { ScenarioPatchSchema, requireValidSettings, saveScenarioWithRun, scenarioJson } from "~/scenario-api.server";
-import { mergeSettings } from "~/settings-patch.server";
-import { readStoredSettings } from "~/simulation.server";
-import { requireOwnedScenarioById } from "~/tanks.server";
-import { lessonCopyPath } from "~/classes.server";
+import { ScenarioPatchSchema, requireValidSettings, saveScenarioWithRun, scenarioJson } from "~/features/scenarios/scenario-api.server";
+import { mergeSettings } from "~/features/scenarios/settings-patch.server";
+import { readStoredSettings } from "~/features/runs/simulation.server";
+import { requireOwnedScenarioById } from "~/features/tanks/tanks.server";
+import { lessonCopyPath } from "~/features/classes/classes.server";
 
 const NOT_FOUND = "There is no such scenario among yours.";
 

@@ -1,8 +1,8 @@
 import type { Route } from "./+types/tank-readings";
-import { apiFind, json, methodNotAllowed } from "~/api.server";
+import { apiFind, json, methodNotAllowed } from "~/http/api.server";
 import { requireApiUser } from "~/permissions.server";
-import { allReadings } from "~/readings.server";
-import { requireOwnedTank } from "~/tanks.server";
+import { allReadings } from "~/features/readings/readings.server";
+import { requireOwnedTank } from "~/features/tanks/tanks.server";
 
 /** GET /api/tanks/:tankId/readings: the tank's test readings, oldest first, canonical units (mg N/L, dKH, °C). */
 export async function loader({ request, params }: Route.LoaderArgs) {

@@ -1,8 +1,8 @@
 import type { Route } from "./+types/tank-scenarios";
-import { apiError, apiFind, json, readJson, zodIssues } from "~/api.server";
+import { apiError, apiFind, json, readJson, zodIssues } from "~/http/api.server";
 import { requireApiUser } from "~/permissions.server";
-import { ScenarioBodySchema, requireValidSettings, saveScenarioWithRun, scenarioJson } from "~/scenario-api.server";
-import { listScenarios, requireOwnedTank } from "~/tanks.server";
+import { ScenarioBodySchema, requireValidSettings, saveScenarioWithRun, scenarioJson } from "~/features/scenarios/scenario-api.server";
+import { listScenarios, requireOwnedTank } from "~/features/tanks/tanks.server";
 import { getDb } from "~/db/client.server";
 import { scenarios } from "~/db/schema";
 import { eq } from "drizzle-orm";

@@ -1,6 +1,6 @@
 import { asc, eq } from "drizzle-orm";
 import type { Route } from "./+types/tanks";
-import { json, methodNotAllowed } from "~/api.server";
+import { json, methodNotAllowed } from "~/http/api.server";
 import { getDb } from "~/db/client.server";
 import { tanks } from "~/db/schema";
 import { requireApiUser } from "~/permissions.server";

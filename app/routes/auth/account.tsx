@@ -6,14 +6,14 @@ import { hashPassword, verifyPassword } from "~/auth.server";
 import { FormMessage, SelectField, TextField } from "~/components/ui/field";
 import { getDb } from "~/db/client.server";
 import { users } from "~/db/schema";
-import { spendResetLinks } from "~/password-reset.server";
+import { spendResetLinks } from "~/features/accounts/password-reset.server";
 import { requireUser } from "~/permissions.server";
 import { usageOf } from "~/quotas.server";
 import { giveBack, take, waitText } from "~/rate-limits.server";
 import { createUserSession, revokeAllSessions } from "~/session.server";
 import { ChangePasswordSchema, UnitPreferencesSchema } from "~/utils/account-schemas";
 import { fieldErrors, formValues } from "~/utils/form-errors";
-import { invalid, readForm } from "~/utils/http.server";
+import { invalid, readForm } from "~/http/pages.server";
 import {
   KH_UNIT_OPTIONS,
   NITRATE_UNIT_OPTIONS,

@@ -9,19 +9,19 @@ import {
   SaveFittedSchema,
   startCalibration,
   type CalibrationJson,
-} from "~/calibration.server";
-import { cancelJob, findScenarioJob, jobJson, JobRefused } from "~/jobs.server";
+} from "~/features/calibration/calibration.server";
+import { cancelJob, findScenarioJob, jobJson, JobRefused } from "~/features/jobs/jobs.server";
 import { requireUser } from "~/permissions.server";
-import { countReadings, modelStartMs, readingsForCalibration } from "~/readings.server";
-import { readStoredSettings, withTankTargets } from "~/simulation.server";
-import { requireOwnedScenario } from "~/tanks.server";
+import { countReadings, modelStartMs, readingsForCalibration } from "~/features/readings/readings.server";
+import { readStoredSettings, withTankTargets } from "~/features/runs/simulation.server";
+import { requireOwnedScenario } from "~/features/tanks/tanks.server";
 import { formatDate } from "~/utils/dates";
 import { displayUnitsFor } from "~/utils/display-units";
 import { fieldErrors, formValues, type FormFailure } from "~/utils/form-errors";
-import { invalid, readForm } from "~/utils/http.server";
+import { invalid, readForm } from "~/http/pages.server";
 import { MULTIPLIER_KEYS, withMultipliers } from "~models/nitrogen/calibrate";
-import { refusal } from "~/copies.server";
-import { saveScenarioVariant } from "~/scenario-variant.server";
+import { refusal } from "~/features/scenarios/copies.server";
+import { saveScenarioVariant } from "~/features/scenarios/scenario-variant.server";
 import { Breadcrumbs } from "~/components/breadcrumbs";
 
 export const meta: Route.MetaFunction = ({ data }) => [

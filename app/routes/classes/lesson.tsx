@@ -1,12 +1,12 @@
 import { data, Form, Link, redirect, useNavigation } from "react-router";
 import type { Route } from "./+types/lesson";
 import { FormMessage } from "~/components/ui/field";
-import { findCopy, handInTable, READ_ONLY_CLASS, requireClassAccess, requireLesson, startCopy } from "~/classes.server";
-import { refusal } from "~/copies.server";
-import { displayKeyFigures } from "~/display-figures.server";
+import { findCopy, handInTable, READ_ONLY_CLASS, requireClassAccess, requireLesson, startCopy } from "~/features/classes/classes.server";
+import { refusal } from "~/features/scenarios/copies.server";
+import { displayKeyFigures } from "~/features/runs/display-figures.server";
 import { requireUser } from "~/permissions.server";
 import { displayUnitsFor, formatNumber, unitLabels } from "~/utils/display-units";
-import { invalid, readForm } from "~/utils/http.server";
+import { invalid, readForm } from "~/http/pages.server";
 import { formValues } from "~/utils/form-errors";
 import { Breadcrumbs } from "~/components/breadcrumbs";
 

@@ -4,7 +4,7 @@ import { BudgetBar, BudgetTable } from "~/components/charts/budget";
 import { CompareChart } from "~/components/charts/compare-chart";
 import { TimeSeriesChart } from "~/components/charts/time-series-chart";
 import type { ChartEvent, ChartOverlay, ChartReading, ChartSeries, ChartUnits } from "~/components/charts/types";
-import { requireLocalTool } from "~/local-tools.server";
+import { requireLocalTool } from "~/routes/dev/local-tools.server";
 import { ScenarioSchema, getPreset, plantGroupFromForm, simulate, type ScenarioInput } from "~models";
 
 export const meta: Route.MetaFunction = () => [{ title: "Chart preview (local) · Fernwater" }];

@@ -17,11 +17,11 @@ import {
   measureUnitsFor,
   type MeasureKey,
   type SortKey,
-} from "~/readings.server";
-import { listScenarios, requireOwnedTank } from "~/tanks.server";
+} from "~/features/readings/readings.server";
+import { listScenarios, requireOwnedTank } from "~/features/tanks/tanks.server";
 import { displayUnitsFor, formatNumber } from "~/utils/display-units";
 import { formValues } from "~/utils/form-errors";
-import { invalid, readForm } from "~/utils/http.server";
+import { invalid, readForm } from "~/http/pages.server";
 import { listHref } from "~/routes/readings/list-href";
 import {
   clashMessage,
@@ -31,7 +31,7 @@ import {
   takenAtClash,
   type DisplayReading,
   type ListQuery,
-} from "~/routes/readings/readings.server";
+} from "~/routes/readings/readings-page.server";
 import { Breadcrumbs } from "~/components/breadcrumbs";
 
 export const meta: Route.MetaFunction = ({ data }) => [

@@ -4,11 +4,11 @@ import type { Route } from "./+types/upload";
 import { FormMessage, SelectField } from "~/components/ui/field";
 import { getDb } from "~/db/client.server";
 import { requireUser } from "~/permissions.server";
-import { MAX_CSV_BYTES, MAX_CSV_ROWS, parseReadingsCsv, type CsvProblem } from "~/readings-csv.server";
+import { MAX_CSV_BYTES, MAX_CSV_ROWS, parseReadingsCsv, type CsvProblem } from "~/features/readings/readings-csv.server";
 import { checkNewReadings, QuotaExceeded } from "~/quotas.server";
-import { insertReadings, measureUnitsFor, storedTimes, type MeasureUnits } from "~/readings.server";
-import { requireOwnedTank } from "~/tanks.server";
-import { readUpload, UploadError } from "~/uploads.server";
+import { insertReadings, measureUnitsFor, storedTimes, type MeasureUnits } from "~/features/readings/readings.server";
+import { requireOwnedTank } from "~/features/tanks/tanks.server";
+import { readUpload, UploadError } from "~/http/uploads.server";
 import { displayUnitsFor } from "~/utils/display-units";
 import { Breadcrumbs } from "~/components/breadcrumbs";
 

@@ -2,12 +2,12 @@ import { Form, redirect, useNavigation } from "react-router";
 import type { Route } from "./+types/import";
 import { FormMessage } from "~/components/ui/field";
 import { requireUser } from "~/permissions.server";
-import { readScenarioFile } from "~/scenario-file.server";
-import { refusal } from "~/copies.server";
-import { saveScenarioWithRun } from "~/scenario-api.server";
-import { requireOwnedTank } from "~/tanks.server";
-import { readUpload, UploadError } from "~/uploads.server";
-import { invalid } from "~/utils/http.server";
+import { readScenarioFile } from "~/features/scenarios/scenario-file.server";
+import { refusal } from "~/features/scenarios/copies.server";
+import { saveScenarioWithRun } from "~/features/scenarios/scenario-api.server";
+import { requireOwnedTank } from "~/features/tanks/tanks.server";
+import { readUpload, UploadError } from "~/http/uploads.server";
+import { invalid } from "~/http/pages.server";
 import { Breadcrumbs } from "~/components/breadcrumbs";
 
 export const meta: Route.MetaFunction = () => [{ title: "Import a scenario · Fernwater" }];

@@ -8,18 +8,18 @@ import { KeyFiguresList } from "~/components/key-figures";
 import { FormMessage } from "~/components/ui/field";
 import { WhatIfPanel, type WhatIfPreview } from "~/components/what-if-panel";
 import { requireUser } from "~/permissions.server";
-import { modelStartMs, readingsForChart } from "~/readings.server";
-import { packedResultsPayload, resultsPayload } from "~/results.server";
-import { refusal } from "~/copies.server";
-import { saveScenarioWithRun } from "~/scenario-api.server";
-import { ensureRun, readStoredSettings, runProblem, withTankTargets } from "~/simulation.server";
-import { requireOwnedScenario } from "~/tanks.server";
+import { modelStartMs, readingsForChart } from "~/features/readings/readings.server";
+import { packedResultsPayload, resultsPayload } from "~/features/runs/results.server";
+import { refusal } from "~/features/scenarios/copies.server";
+import { saveScenarioWithRun } from "~/features/scenarios/scenario-api.server";
+import { ensureRun, readStoredSettings, runProblem, withTankTargets } from "~/features/runs/simulation.server";
+import { requireOwnedScenario } from "~/features/tanks/tanks.server";
 import { displayUnitsFor, formatNumber } from "~/utils/display-units";
 import { formValues } from "~/utils/form-errors";
-import { unpackSeries } from "~/utils/series-packing";
-import { invalid, readForm } from "~/utils/http.server";
-import { applyWhatIf, whatIfBase, WhatIfSchema } from "~/what-if.server";
-import { ScenarioNameSchema } from "~/routes/scenarios/setup.server";
+import { unpackSeries } from "~/features/runs/series-packing";
+import { invalid, readForm } from "~/http/pages.server";
+import { applyWhatIf, whatIfBase, WhatIfSchema } from "~/features/runs/what-if.server";
+import { ScenarioNameSchema } from "~/features/scenarios/scenario-setup.server";
 import { Breadcrumbs } from "~/components/breadcrumbs";
 
 export const meta: Route.MetaFunction = ({ data }) => [

@@ -4,9 +4,9 @@ import type { Route } from "./+types/sweep";
 import { XYChart } from "~/components/charts/xy-chart";
 import { jobActive, JobProgress, useJob } from "~/components/job-progress";
 import { FormMessage, SelectField, TextField } from "~/components/ui/field";
-import { cancelJob, findScenarioJob, JOB_LIMITS, jobJson, JobRefused } from "~/jobs.server";
+import { cancelJob, findScenarioJob, JOB_LIMITS, jobJson, JobRefused } from "~/features/jobs/jobs.server";
 import { requireUser } from "~/permissions.server";
-import { readStoredSettings, withTankTargets } from "~/simulation.server";
+import { readStoredSettings, withTankTargets } from "~/features/runs/simulation.server";
 import {
   leverJson,
   startSweep,
@@ -14,11 +14,11 @@ import {
   sweepInputSchema,
   sweepLevers,
   type SweepResultJson,
-} from "~/sweeps.server";
-import { requireOwnedScenario } from "~/tanks.server";
+} from "~/features/sweeps/sweeps.server";
+import { requireOwnedScenario } from "~/features/tanks/tanks.server";
 import { displayUnitsFor, formatNumber } from "~/utils/display-units";
 import { fieldErrors, formValues, type FormFailure } from "~/utils/form-errors";
-import { invalid, readForm } from "~/utils/http.server";
+import { invalid, readForm } from "~/http/pages.server";
 import { Breadcrumbs } from "~/components/breadcrumbs";
 
 export const meta: Route.MetaFunction = ({ data }) => [

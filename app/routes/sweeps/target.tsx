@@ -5,27 +5,27 @@ import type { Route } from "./+types/target";
 import { CautionsPanel } from "~/components/cautions";
 import { jobActive, JobProgress, useJob } from "~/components/job-progress";
 import { FormMessage, SelectField, TextField } from "~/components/ui/field";
-import { FREE_NH3_CAUTION_MG_N } from "~/display-figures.server";
+import { FREE_NH3_CAUTION_MG_N } from "~/features/runs/display-figures.server";
 import { speciesFactor } from "~/display-units.server";
-import { cancelJob, findScenarioJob, jobJson, JobRefused } from "~/jobs.server";
+import { cancelJob, findScenarioJob, jobJson, JobRefused } from "~/features/jobs/jobs.server";
 import { requireUser } from "~/permissions.server";
-import { DRINKING_WATER_NITRATE_MG_N } from "~/results.server";
-import { modelStartMs } from "~/readings.server";
-import { refusal } from "~/copies.server";
-import { saveScenarioVariant } from "~/scenario-variant.server";
-import { readStoredSettings, withTankTargets } from "~/simulation.server";
+import { DRINKING_WATER_NITRATE_MG_N } from "~/features/runs/results.server";
+import { modelStartMs } from "~/features/readings/readings.server";
+import { refusal } from "~/features/scenarios/copies.server";
+import { saveScenarioVariant } from "~/features/scenarios/scenario-variant.server";
+import { readStoredSettings, withTankTargets } from "~/features/runs/simulation.server";
 import {
   applyLever,
   searchLever,
   startTargetSearch,
   TargetInputSchema,
   type TargetResultJson,
-} from "~/target-finder.server";
-import { requireOwnedScenario } from "~/tanks.server";
+} from "~/features/sweeps/target-finder.server";
+import { requireOwnedScenario } from "~/features/tanks/tanks.server";
 import { displayUnitsFor, formatNumber, unitLabels } from "~/utils/display-units";
-import { TARGET_LEVER_LABELS, TARGET_LEVERS } from "~/utils/target-levers";
+import { TARGET_LEVER_LABELS, TARGET_LEVERS } from "~/features/sweeps/target-levers";
 import { fieldErrors, formValues, type FormFailure } from "~/utils/form-errors";
-import { invalid, readForm } from "~/utils/http.server";
+import { invalid, readForm } from "~/http/pages.server";
 import { Breadcrumbs } from "~/components/breadcrumbs";
 
 export const meta: Route.MetaFunction = ({ data }) => [

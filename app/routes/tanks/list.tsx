@@ -4,14 +4,14 @@ import type { Route } from "./+types/list";
 import { FormMessage, TextField } from "~/components/ui/field";
 import { getDb } from "~/db/client.server";
 import { tanks } from "~/db/schema";
-import { displayKeyFigures } from "~/display-figures.server";
+import { displayKeyFigures } from "~/features/runs/display-figures.server";
 import { requireUser } from "~/permissions.server";
 import { checkNewTank, QuotaExceeded } from "~/quotas.server";
 import { displayUnitsFor, formatNumber, unitLabels } from "~/utils/display-units";
 import { fieldErrors, formValues } from "~/utils/form-errors";
-import { invalid, readForm } from "~/utils/http.server";
+import { invalid, readForm } from "~/http/pages.server";
 import { z } from "zod";
-import { latestFiguresByTank, TankNameSchema, TankNotesSchema } from "~/routes/tanks/tanks.server";
+import { latestFiguresByTank, TankNameSchema, TankNotesSchema } from "~/routes/tanks/tanks-page.server";
 
 export const meta: Route.MetaFunction = () => [{ title: "Your tanks · Fernwater" }];
 

@@ -16,8 +16,8 @@ import {
   type MeasureUnits,
   type ReadingInput,
   type ReadingRow,
-} from "~/readings.server";
-import { MAX_NOTE_LENGTH } from "~/readings-csv.server";
+} from "~/features/readings/readings.server";
+import { MAX_NOTE_LENGTH } from "~/features/readings/readings-csv.server";
 import { formatDateTime, parseDateTime, toDateTimeInput } from "~/utils/dates";
 import type { DisplayUnits } from "~/utils/display-units";
 import type { FieldErrors } from "~/utils/form-errors";

@@ -17,9 +17,9 @@ import {
   type SimulateOptions,
   type SimulationResult,
 } from "~models";
-import { getEnginePool } from "~/jobs.server";
+import { getEnginePool } from "~/features/jobs/jobs.server";
 import { LIMITS, take, waitText } from "~/rate-limits.server";
-import { toStorable, type StorableRun } from "~/run-packing.server";
+import { toStorable, type StorableRun } from "~/features/runs/run-packing.server";
 
 /** Bounds for runs started by a request: a bad parameter set fails fast instead of hanging. */
 export const REQUEST_RUN_LIMITS = { maxWallMs: 3000, maxSteps: 300_000 } satisfies SimulateOptions;

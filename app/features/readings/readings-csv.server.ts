@@ -25,7 +25,7 @@ import {
   type MeasureUnits,
   type ReadingInput,
   type ReadingRow,
-} from "~/readings.server";
+} from "~/features/readings/readings.server";
 
 export const MAX_CSV_BYTES = 1024 * 1024;
 export const MAX_CSV_ROWS = 5000;

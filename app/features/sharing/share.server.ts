@@ -13,7 +13,7 @@ import { and, desc, eq, isNotNull, isNull } from "drizzle-orm";
 import { ENGINE_VERSION } from "~models";
 import { getDb } from "~/db/client.server";
 import { scenarios, shareLinks, tanks, users } from "~/db/schema";
-import type { ScenarioRow, TankRow } from "~/tanks.server";
+import type { ScenarioRow, TankRow } from "~/features/tanks/tanks.server";
 import { hashToken, randomToken } from "~/utils/crypto.server";
 
 export const SHARE_TOKEN_BYTES = 32;

@@ -4,10 +4,10 @@
  * reuses the stored run (ensureRun runs the engine only if the settings or engine changed).
  */
 import type { Scenario } from "~models";
-import { packedResultsPayload, resultsPayload } from "~/results.server";
-import { buildScenarioForm } from "~/scenario-form.server";
-import { ensureRun, readStoredSettings, runProblem, withTankTargets } from "~/simulation.server";
-import type { ScenarioRow } from "~/tanks.server";
+import { packedResultsPayload, resultsPayload } from "~/features/runs/results.server";
+import { buildScenarioForm } from "~/features/scenarios/scenario-form.server";
+import { ensureRun, readStoredSettings, runProblem, withTankTargets } from "~/features/runs/simulation.server";
+import type { ScenarioRow } from "~/features/tanks/tanks.server";
 import type { DisplayUnits } from "~/utils/display-units";
 import { formatNumber } from "~/utils/display-units";
 

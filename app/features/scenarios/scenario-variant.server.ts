@@ -6,9 +6,9 @@
 import { eq } from "drizzle-orm";
 import type { Scenario } from "~models";
 import { scenarios } from "~/db/schema";
-import { insertScenarioWithRun, runOrRefuseForStorage, writeOrRefuse } from "~/scenario-api.server";
-import { withTankTargets } from "~/simulation.server";
-import type { TankRow } from "~/tanks.server";
+import { insertScenarioWithRun, runOrRefuseForStorage, writeOrRefuse } from "~/features/scenarios/scenario-api.server";
+import { withTankTargets } from "~/features/runs/simulation.server";
+import type { TankRow } from "~/features/tanks/tanks.server";
 
 /**
  * Runs `settings` (with the tank's targets) and stores them as a new scenario with its run and

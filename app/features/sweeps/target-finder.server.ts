@@ -11,12 +11,12 @@
  */
 import { z } from "zod";
 import { setScenarioValue, type Scenario } from "~models";
-import type { GoalFigures, SettingChange } from "~/engine-tasks.server";
+import type { GoalFigures, SettingChange } from "~/features/jobs/engine-tasks.server";
 import { speciesFactor } from "~/display-units.server";
-import { startJob, type JobContext } from "~/jobs.server";
-import { JOB_RUN_LIMITS, plantMassLever } from "~/sweeps.server";
+import { startJob, type JobContext } from "~/features/jobs/jobs.server";
+import { JOB_RUN_LIMITS, plantMassLever } from "~/features/sweeps/sweeps.server";
 import { unitLabels, formatNumber, type DisplayUnits } from "~/utils/display-units";
-import { TARGET_LEVER_LABELS, TARGET_LEVERS, type TargetLeverId } from "~/utils/target-levers";
+import { TARGET_LEVER_LABELS, TARGET_LEVERS, type TargetLeverId } from "~/features/sweeps/target-levers";
 
 export { TARGET_LEVER_LABELS, TARGET_LEVERS, type TargetLeverId };
 

@@ -8,9 +8,9 @@ import type { Scenario } from "~models";
 import { getDb } from "~/db/client.server";
 import { tanks } from "~/db/schema";
 import { checkNewTank } from "~/quotas.server";
-import { insertScenarioWithRun, runOrRefuseForStorage, writeOrRefuse } from "~/scenario-api.server";
-import { withTankTargets } from "~/simulation.server";
-import type { TankRow } from "~/tanks.server";
+import { insertScenarioWithRun, runOrRefuseForStorage, writeOrRefuse } from "~/features/scenarios/scenario-api.server";
+import { withTankTargets } from "~/features/runs/simulation.server";
+import type { TankRow } from "~/features/tanks/tanks.server";
 
 type Tx = Parameters<Parameters<ReturnType<typeof getDb>["transaction"]>[0]>[0];
 

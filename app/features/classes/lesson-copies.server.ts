@@ -4,15 +4,15 @@
  */
 import { and, desc, eq, inArray, isNotNull, isNull } from "drizzle-orm";
 import type { KeyFigures } from "~models";
-import { copyScenarioInto } from "~/copies.server";
+import { copyScenarioInto } from "~/features/scenarios/copies.server";
 import { getDb } from "~/db/client.server";
 import { lessonCopies, lessons, runs, scenarios, tanks } from "~/db/schema";
 import { notFound } from "~/permissions.server";
 import type { SessionUser } from "~/session.server";
-import { readStoredSettings } from "~/simulation.server";
-import { parseId, type ScenarioRow, type TankRow } from "~/tanks.server";
-import type { ClassRow, LessonCopyRow, LessonRow } from "~/classes.server";
-import { roster } from "~/class-members.server";
+import { readStoredSettings } from "~/features/runs/simulation.server";
+import { parseId, type ScenarioRow, type TankRow } from "~/features/tanks/tanks.server";
+import type { ClassRow, LessonCopyRow, LessonRow } from "~/features/classes/classes.server";
+import { roster } from "~/features/classes/class-members.server";
 
 // ---------------------------------------------------------------------------------------------
 // Students' copies

@@ -8,9 +8,9 @@
 import { z } from "zod";
 import { listScenarioFields, OUTCOMES, type Quantity, type Scenario, type ScenarioField } from "~models";
 import { fromDisplay, speciesFactor, toDisplay } from "~/display-units.server";
-import type { SettingChange } from "~/engine-tasks.server";
-import { JOB_LIMITS, startJob, type JobContext } from "~/jobs.server";
-import { unitFor } from "~/scenario-form.server";
+import type { SettingChange } from "~/features/jobs/engine-tasks.server";
+import { JOB_LIMITS, startJob, type JobContext } from "~/features/jobs/jobs.server";
+import { unitFor } from "~/features/scenarios/scenario-form.server";
 import type { DisplayUnits } from "~/utils/display-units";
 import { unitLabels } from "~/utils/display-units";
 import type { Role } from "~/db/schema";

@@ -20,12 +20,12 @@ import type { EventRecord } from "~models";
 import { getDb, type Db } from "~/db/client.server";
 import { runs } from "~/db/schema";
 import { checkRunBytes, QuotaExceeded } from "~/quotas.server";
-import { RunRefused, runForRequest, runForStorage, type RunRequest } from "~/run-gate.server";
-import { PACKED_MARKER, readStoredSeries, storedBytes, toStorableSync, type StorableRun } from "~/run-packing.server";
+import { RunRefused, runForRequest, runForStorage, type RunRequest } from "~/features/runs/run-gate.server";
+import { PACKED_MARKER, readStoredSeries, storedBytes, toStorableSync, type StorableRun } from "~/features/runs/run-packing.server";
 
-export { isQuickRun, REQUEST_RUN_LIMITS, RunRefused, type RunRequest } from "~/run-gate.server";
+export { isQuickRun, REQUEST_RUN_LIMITS, RunRefused, type RunRequest } from "~/features/runs/run-gate.server";
 export { QuotaExceeded } from "~/quotas.server";
-export type { StorableRun } from "~/run-packing.server";
+export type { StorableRun } from "~/features/runs/run-packing.server";
 
 export type StoredRun = {
   id: number;

@@ -4,11 +4,11 @@
  */
 import type { NitrogenBudget, Scenario } from "~models";
 import type { ChartEvent } from "~/components/charts/types";
-import { displayGuides, displayKeyFigures, displaySeries } from "~/display-figures.server";
+import { displayGuides, displayKeyFigures, displaySeries } from "~/features/runs/display-figures.server";
 import { speciesFactor } from "~/display-units.server";
-import type { StoredRun } from "~/simulation.server";
+import type { StoredRun } from "~/features/runs/simulation.server";
 import { unitLabels, type DisplayUnits } from "~/utils/display-units";
-import { packSeries, type PackedSeries } from "~/utils/series-packing";
+import { packSeries, type PackedSeries } from "~/features/runs/series-packing";
 
 /** WHO Guidelines for Drinking-water Quality: nitrate 50 mg/L as NO3 = 11.29 mg/L as N. */
 export const DRINKING_WATER_NITRATE_MG_N = 50 * 0.2259;

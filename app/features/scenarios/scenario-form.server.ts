@@ -16,7 +16,7 @@ import { fromDisplay, toDisplay } from "~/display-units.server";
 import type { DisplayUnits } from "~/utils/display-units";
 import { unitLabels } from "~/utils/display-units";
 import type { FieldErrors } from "~/utils/form-errors";
-import type { FormField, FormSection, PlantRow, ScenarioFormModel } from "~/utils/scenario-form-types";
+import type { FormField, FormSection, PlantRow, ScenarioFormModel } from "~/features/scenarios/scenario-form-types";
 
 const SECTIONS: { id: FormSection["id"]; keys: string[]; title: string; intro: string }[] = [
   { id: "water", keys: ["water"], title: "Water", intro: "The tank's water and what it holds on day one." },

@@ -13,8 +13,8 @@
  * dropped); a waiting job is cancelled at once.
  */
 import type { Role } from "~/db/schema";
-import { getEnginePool } from "~/engine-pool.server";
-import type { EngineTask, EngineTaskResult } from "~/engine-tasks.server";
+import { getEnginePool } from "~/features/jobs/engine-pool.server";
+import type { EngineTask, EngineTaskResult } from "~/features/jobs/engine-tasks.server";
 import { randomToken } from "~/utils/crypto.server";
 
 export {
@@ -25,7 +25,7 @@ export {
   setEnginePool,
   sourceWorkerUrl,
   type EnginePool,
-} from "~/engine-pool.server";
+} from "~/features/jobs/engine-pool.server";
 
 // ---------------------------------------------------------------------------------------------
 // Jobs

@@ -17,7 +17,7 @@ import {
   type SweepPoint,
 } from "~models";
 import { valueAt } from "~/components/charts/lookup";
-import { toStorableSync, type StorableRun } from "~/run-packing.server";
+import { toStorableSync, type StorableRun } from "~/features/runs/run-packing.server";
 
 export type SettingPath = readonly (string | number)[];
 

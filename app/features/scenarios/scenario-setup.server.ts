@@ -15,7 +15,7 @@ import {
   parseScenarioForm,
   plantRowsFromValues,
   renumberPlantRows,
-} from "~/scenario-form.server";
+} from "~/features/scenarios/scenario-form.server";
 import type { SessionUser } from "~/session.server";
 import { checkNewScenario } from "~/quotas.server";
 import {
@@ -27,11 +27,11 @@ import {
   settingsHash,
   withTankTargets,
   type StorableRun,
-} from "~/simulation.server";
-import type { TankRow } from "~/tanks.server";
+} from "~/features/runs/simulation.server";
+import type { TankRow } from "~/features/tanks/tanks.server";
 import { displayUnitsFor, unitLabels, type DisplayUnits } from "~/utils/display-units";
 import { type FieldErrors, formValues } from "~/utils/form-errors";
-import type { ScenarioFormModel } from "~/utils/scenario-form-types";
+import type { ScenarioFormModel } from "~/features/scenarios/scenario-form-types";
 import { parseDateOnly } from "~/utils/dates";
 
 export const ScenarioNameSchema = z

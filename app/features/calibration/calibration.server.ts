@@ -15,9 +15,9 @@ import {
   type Species,
 } from "~models/nitrogen/calibrate";
 import { speciesFactor } from "~/display-units.server";
-import { KeeperError, startJob, type JobContext } from "~/jobs.server";
-import { readingsForCalibration } from "~/readings.server";
-import { JOB_RUN_LIMITS } from "~/sweeps.server";
+import { KeeperError, startJob, type JobContext } from "~/features/jobs/jobs.server";
+import { readingsForCalibration } from "~/features/readings/readings.server";
+import { JOB_RUN_LIMITS } from "~/features/sweeps/sweeps.server";
 import { unitLabels, type DisplayUnits } from "~/utils/display-units";
 
 export const MULTIPLIER_LABELS: Record<MultiplierKey, { label: string; hint: string }> = {

@@ -2,10 +2,10 @@
 import { eq } from "drizzle-orm";
 import { z } from "zod";
 import { parseScenario, type Scenario, type SimulationResult } from "~models";
-import { apiError, apiFind, json, zodIssues } from "~/api.server";
-import { jobJson, JobRefused, type Job } from "~/jobs.server";
+import { apiError, apiFind, json, zodIssues } from "~/http/api.server";
+import { jobJson, JobRefused, type Job } from "~/features/jobs/jobs.server";
 import { requireApiUser } from "~/permissions.server";
-import { requireOwnedScenarioById } from "~/tanks.server";
+import { requireOwnedScenarioById } from "~/features/tanks/tanks.server";
 import { getDb } from "~/db/client.server";
 import { scenarios } from "~/db/schema";
 import { QuotaExceeded, checkNewScenario } from "~/quotas.server";
@@ -21,9 +21,9 @@ import {
   type RunRequest,
   type StorableRun,
   type StoredRun,
-} from "~/simulation.server";
-import { unknownSettingKeys } from "~/settings-patch.server";
-import type { ScenarioRow, TankRow } from "~/tanks.server";
+} from "~/features/runs/simulation.server";
+import { unknownSettingKeys } from "~/features/scenarios/settings-patch.server";
+import type { ScenarioRow, TankRow } from "~/features/tanks/tanks.server";
 
 export const ScenarioBodySchema = z
   .object({

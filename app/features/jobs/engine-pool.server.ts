@@ -17,7 +17,7 @@
 import fs from "node:fs";
 import os from "node:os";
 import { Worker } from "node:worker_threads";
-import { runEngineTask, type EngineTask, type EngineTaskResult } from "~/engine-tasks.server";
+import { runEngineTask, type EngineTask, type EngineTaskResult } from "~/features/jobs/engine-tasks.server";
 
 export type Lane = "interactive" | "job";
 export type RunOptions = { lane?: Lane; owner?: string };
@@ -39,7 +39,7 @@ export function defaultPoolSize(): number {
 
 /** The worker from its TypeScript source, through tsx (server/engine-worker-source.mjs); for tests. */
 export function sourceWorkerUrl(): URL {
-  const relative = "../server/engine-worker-source.mjs"; // a variable, so the bundler leaves it alone
+  const relative = "../../../server/engine-worker-source.mjs"; // a variable, so the bundler leaves it alone
   return new URL(relative, import.meta.url);
 }
 
