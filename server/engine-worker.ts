@@ -1,5 +1,5 @@
 /**
- * A worker thread of the engine pool (app/jobs.server.ts): receives `{ id, task }`, runs one
+ * A worker thread of the engine pool (app/features/jobs/jobs.server.ts): receives `{ id, task }`, runs one
  * engine task, answers `{ id, result }` or `{ id, error }`. Built as a second SSR entry
  * (vite.config.ts) into build/server/engine-worker.js, next to the server bundle.
  */

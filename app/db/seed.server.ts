@@ -16,7 +16,7 @@ export const DEMO_PASSWORD = "tidewell-demo-2026";
 /**
  * The demo public link, /s/tidewell-demo-theo-as-kept-now (Theo's "As kept now"). A fixed,
  * guessable token is acceptable only because the demo club is seeded on local machines only;
- * real links carry 256 random bits (app/share.server.ts). Stored hashed like any other.
+ * real links carry 256 random bits (app/features/sharing/share.server.ts). Stored hashed like any other.
  */
 export const DEMO_SHARE_TOKEN = "tidewell-demo-theo-as-kept-now";
 

@@ -1,7 +1,7 @@
 /**
  * Quotas and run limits (issue 10): what one person may keep and run, answered with 413 or 429
  * and what to do, never a partial write; long runs stored compactly. Our own checks against the
- * numbers in app/quotas.server.ts and app/run-gate.server.ts.
+ * numbers in app/quotas.server.ts and app/features/runs/run-gate.server.ts.
  */
 import { count, eq } from "drizzle-orm";
 import { afterEach, describe, expect, it } from "vitest";

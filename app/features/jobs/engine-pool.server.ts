@@ -1,6 +1,6 @@
 /**
  * The engine's worker threads: a small pool that each run one engine task at a time
- * (app/engine-tasks.server.ts), fed from a fair queue.
+ * (app/features/jobs/engine-tasks.server.ts), fed from a fair queue.
  *
  * The pool runs the built worker (build/server/engine-worker.js, a second SSR entry in
  * vite.config.ts) when there is one beside the server bundle. From the TypeScript sources

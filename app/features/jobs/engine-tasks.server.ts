@@ -1,5 +1,5 @@
 /**
- * One engine run as a message: what the worker pool (app/jobs.server.ts) hands to a worker
+ * One engine run as a message: what the worker pool (app/features/jobs/jobs.server.ts) hands to a worker
  * thread (server/engine-worker.ts), or runs in-process when there is no built worker (tests,
  * `npm run dev`). Pure: the engine, a chart lookup helper and zlib (to pack long runs) only — no
  * database, no HTTP — so a worker does not open the database or pull in the web app.

@@ -1,7 +1,7 @@
 /**
  * Long engine work off the request thread: a registry of jobs (sweeps, calibrations, target
  * searches) whose progress the browser polls, each running its engine tasks on the worker pool
- * (app/engine-pool.server.ts, re-exported here).
+ * (app/features/jobs/engine-pool.server.ts, re-exported here).
  *
  * Fairness and limits: one job per person at a time (running or waiting; a second answers 429),
  * a cap on sweep points by role, and a cap on jobs running at once. Past that cap a job waits in

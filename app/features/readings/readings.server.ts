@@ -2,7 +2,7 @@
  * Test-kit readings of a tank: what each measure is, how a typed value in some unit becomes the
  * stored canonical one (mg N/L, dKH, °C) with its range check, listing with sorting and paging,
  * and the readings on a scenario's timeline (its day 0 is the scenario's start date) for the
- * chart and for calibration. The CSV side is app/readings-csv.server.ts.
+ * chart and for calibration. The CSV side is app/features/readings/readings-csv.server.ts.
  */
 import { and, asc, count, desc, eq, gte, lte, sql } from "drizzle-orm";
 import {

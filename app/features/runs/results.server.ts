@@ -53,7 +53,7 @@ export type ResultsPayload = ReturnType<typeof buildPayload>;
 const packed = new WeakMap<ResultsPayload, Omit<ResultsPayload, "series"> & { packedSeries: PackedSeries }>();
 
 /**
- * The payload with its series packed into strings (app/utils/series-packing.ts) for the
+ * The payload with its series packed into strings (app/features/runs/series-packing.ts) for the
  * busiest page, the owner's results: far cheaper to send. Cached with the payload.
  */
 export function packedResultsPayload(payload: ResultsPayload) {

@@ -60,7 +60,7 @@ export function withTankTargets(scenario: Scenario, tank: { nitrateTargetLow: nu
 
 /**
  * Runs the engine for a request, off the request thread unless provably cheap, within the
- * person's limits (app/run-gate.server.ts). Throws ModelError, or RunRefused (429).
+ * person's limits (app/features/runs/run-gate.server.ts). Throws ModelError, or RunRefused (429).
  */
 export function runEngine(scenario: Scenario, request: RunRequest): Promise<SimulationResult> {
   return runForRequest(scenario, request);

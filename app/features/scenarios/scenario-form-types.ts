@@ -1,4 +1,4 @@
-/** The setup form as the page draws it: built on the server (app/scenario-form.server.ts), plain data. */
+/** The setup form as the page draws it: built on the server (app/features/scenarios/scenario-form.server.ts), plain data. */
 
 export type FormFieldKind = "number" | "integer" | "boolean" | "enum" | "text";
 

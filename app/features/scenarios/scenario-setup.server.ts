@@ -124,7 +124,7 @@ export async function handleSetupSubmission(
   const scenario = withTankTargets(parsed.scenario, tank);
   let result;
   try {
-    // Off the request thread unless provably cheap, within the person's limits (app/run-gate.server.ts).
+    // Off the request thread unless provably cheap, within the person's limits (app/features/runs/run-gate.server.ts).
     result = await runEngineForStorage(scenario, { userId: user.id, purpose: "save" });
   } catch (error) {
     if (isModelError(error)) {

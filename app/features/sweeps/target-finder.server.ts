@@ -6,7 +6,7 @@
  * Bisection needs the goal to be met on one side of a single threshold. That holds for these
  * levers where the science says so: a larger water-change fraction, more frequent changes, more
  * reverse-osmosis water, less feed and more plants (start and maximum scaled together — see
- * app/sweeps.server.ts) each lower nitrate (and ammonia) or leave it. The search first runs the
+ * app/features/sweeps/sweeps.server.ts) each lower nitrate (and ammonia) or leave it. The search first runs the
  * most change the lever allows: if that misses the goal, no value of this lever can meet it.
  */
 import { z } from "zod";

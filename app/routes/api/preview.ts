@@ -63,7 +63,7 @@ export async function action({ request }: Route.ActionArgs) {
     scenario = { ...parsed.data, run: { ...parsed.data.run, lengthDays: Math.min(parsed.data.run.lengthDays, PREVIEW_MAX_DAYS) } };
   }
   const interval = Math.max(scenario.run.outputIntervalDays, scenario.run.lengthDays / MAX_POINTS);
-  // Counted against the person's previews a minute and runs in flight (app/run-gate.server.ts).
+  // Counted against the person's previews a minute and runs in flight (app/features/runs/run-gate.server.ts).
   const result = await runOrRefuse(
     { ...scenario, run: { ...scenario.run, outputIntervalDays: Math.min(7, interval) } },
     { userId: user.id, purpose: "preview" },
