@@ -1,6 +1,6 @@
 import { useEffect, useRef, useState } from "react";
 import { Form, useFetcher } from "react-router";
-import type { ChartSeries } from "~/components/charts/types";
+import type { ChartSeries } from "~/utils/chart-data";
 import type { DisplayKeyFigures } from "~/components/key-figures";
 import { formatNumber } from "~/utils/display-units";
 

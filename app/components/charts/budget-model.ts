@@ -3,7 +3,7 @@
  * and the rows of the budget table.
  */
 import { SERIES_COLORS } from "~/components/charts/palette";
-import type { ChartBudget } from "~/components/charts/types";
+import type { ChartBudget } from "~/utils/chart-data";
 
 export type BudgetSegment = {
   key: string;

@@ -5,7 +5,7 @@
 import { memo } from "react";
 import { budgetSections, budgetSegments, stockRows, type BudgetSegment } from "~/components/charts/budget-model";
 import { formatMgN, formatPercent, splitMgN } from "~/components/charts/format";
-import type { ChartBudget } from "~/components/charts/types";
+import type { ChartBudget } from "~/utils/chart-data";
 
 export type BudgetBarProps = {
   budget: ChartBudget;

@@ -12,11 +12,11 @@ import { scaleLinear, type ScaleLinear } from "d3-scale";
 import { useId, useMemo, type ReactNode } from "react";
 import { useContainerWidth, type CursorVia } from "~/components/charts/hooks";
 import { PATH_SCALE, linePath, scaledDash } from "~/components/charts/paths";
-import { nearestIndex, sampleSide, valueAt } from "~/components/charts/lookup";
+import { nearestIndex, sampleSide, valueAt } from "~/utils/series-lookup";
 import { EVENT_META, GRID, INK, MONO_STACK, SERIF_STACK, type EventKind } from "~/components/charts/palette";
 import { EVENT_ROW, dayDomain, maxFinite, plotBox, spreadLabels, tickCounts, ticksOf, valueDomain } from "~/components/charts/scales";
 import { formatDay } from "~/components/charts/format";
-import type { ChartEvent } from "~/components/charts/types";
+import type { ChartEvent } from "~/utils/chart-data";
 
 export type Axis = "left" | "right";
 

@@ -7,12 +7,12 @@ import { memo, useCallback, useId, useMemo, useRef, useState } from "react";
 import { ChartDataTable, compareTableColumns } from "~/components/charts/chart-data-table";
 import { ChartDownloads } from "~/components/charts/chart-downloads";
 import { ChartFrame, type FrameBand, type FrameGuide, type FrameLine } from "~/components/charts/chart-frame";
-import { compareCsv, fileSlug, speciesValues } from "~/components/charts/csv";
+import { compareCsv, fileSlug, speciesValues } from "~/utils/csv";
 import type { LegendItem } from "~/components/charts/downloads";
 import { formatDay, formatNumber, formatSigned } from "~/components/charts/format";
 import { useControllable, useDayCursor } from "~/components/charts/hooks";
 import { EventKey, LineSwatch, ToggleButton } from "~/components/charts/legend";
-import { sampleSide, valueAt } from "~/components/charts/lookup";
+import { sampleSide, valueAt } from "~/utils/series-lookup";
 import {
   BAND_COLOR,
   COMPARE_COLORS,
@@ -24,7 +24,7 @@ import {
   unitOf,
   type EventKind,
 } from "~/components/charts/palette";
-import type { ChartEvent, ChartGuides, ChartSeries, ChartUnits, SeriesKey } from "~/components/charts/types";
+import type { ChartEvent, ChartGuides, ChartSeries, ChartUnits, SeriesKey } from "~/utils/chart-data";
 
 export type CompareRun = { label: string; series: ChartSeries };
 

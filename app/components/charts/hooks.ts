@@ -1,6 +1,6 @@
 /** Hooks shared by the chart components (client behaviour; SSR-safe). */
 import { useCallback, useEffect, useLayoutEffect, useRef, useState } from "react";
-import { stepCursor } from "~/components/charts/lookup";
+import { stepCursor } from "~/utils/series-lookup";
 
 /** useLayoutEffect in the browser, useEffect on the server (where neither runs). */
 export const useIsomorphicLayoutEffect = typeof window === "undefined" ? useEffect : useLayoutEffect;

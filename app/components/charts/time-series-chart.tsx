@@ -8,12 +8,12 @@ import { memo, useCallback, useEffect, useMemo, useRef, useState } from "react";
 import { ChartDataTable, seriesTableColumns } from "~/components/charts/chart-data-table";
 import { ChartDownloads } from "~/components/charts/chart-downloads";
 import { ChartFrame, type FrameBand, type FrameGuide, type FrameLine, type FramePoint } from "~/components/charts/chart-frame";
-import { seriesCsv, fileSlug } from "~/components/charts/csv";
+import { seriesCsv, fileSlug } from "~/utils/csv";
 import type { LegendItem } from "~/components/charts/downloads";
 import { formatDay, formatNumber, formatSigned } from "~/components/charts/format";
 import { useControllable, useDayCursor } from "~/components/charts/hooks";
 import { EventKey, LineSwatch, ToggleButton } from "~/components/charts/legend";
-import { nearestIndex, residualsNear, sampleSide, valueAt, type Side } from "~/components/charts/lookup";
+import { nearestIndex, residualsNear, sampleSide, valueAt, type Side } from "~/utils/series-lookup";
 import {
   BAND_COLOR,
   DEFAULT_EVENT_KINDS,
@@ -37,7 +37,7 @@ import type {
   ChartUnits,
   SeriesKey,
   SpeciesKey,
-} from "~/components/charts/types";
+} from "~/utils/chart-data";
 
 export type Visibility = Record<SeriesKey, boolean>;
 

@@ -16,7 +16,7 @@ import {
   type SimulateOptions,
   type SweepPoint,
 } from "~models";
-import { valueAt } from "~/components/charts/lookup";
+import { valueAt } from "~/utils/series-lookup";
 import { toStorableSync, type StorableRun } from "~/features/runs/run-packing.server";
 
 export type SettingPath = readonly (string | number)[];

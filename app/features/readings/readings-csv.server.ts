@@ -14,7 +14,7 @@
  */
 import { parse } from "csv-parse/sync";
 import { fromCanonical } from "~models/units";
-import { toCsv, unneutraliseCell, type CsvCell } from "~/components/charts/csv";
+import { toCsv, unneutraliseCell, type CsvCell } from "~/utils/csv";
 import { formatDateTime, parseDateOnly, parseDateTime, parseTimeOfDay } from "~/utils/dates";
 import {
   checkTakenAt,

@@ -15,7 +15,7 @@ import {
   type NitriteUnit,
   type TemperatureUnit,
 } from "~models/units";
-import type { ChartReading } from "~/components/charts/types";
+import type { ChartReading } from "~/utils/chart-data";
 import { getDb, type Db } from "~/db/client.server";
 import { readings } from "~/db/schema";
 import { speciesFactor, toDisplay } from "~/display-units.server";

@@ -2,7 +2,7 @@
 import type { KeyFigures, Series } from "~models";
 import { speciesFactor } from "~/display-units.server";
 import type { DisplayKeyFigures } from "~/components/key-figures";
-import type { ChartGuides, ChartSeries } from "~/components/charts/types";
+import type { ChartGuides, ChartSeries } from "~/utils/chart-data";
 import type { DisplayUnits } from "~/utils/display-units";
 
 export function displayKeyFigures(k: KeyFigures, units: DisplayUnits): DisplayKeyFigures {

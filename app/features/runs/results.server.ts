@@ -3,7 +3,7 @@
  * results page, the public share page and the classroom views, so they all show the same.
  */
 import type { NitrogenBudget, Scenario } from "~models";
-import type { ChartEvent } from "~/components/charts/types";
+import type { ChartEvent } from "~/utils/chart-data";
 import { displayGuides, displayKeyFigures, displaySeries } from "~/features/runs/display-figures.server";
 import { speciesFactor } from "~/display-units.server";
 import type { StoredRun } from "~/features/runs/simulation.server";

@@ -3,7 +3,7 @@
  * turbo-stream encoding spends most of a results request on number arrays, while one
  * comma-joined string per column costs almost nothing to send and little to read back.
  */
-import type { ChartSeries } from "~/components/charts/types";
+import type { ChartSeries } from "~/utils/chart-data";
 
 export type PackedSeries = {
   t: string;

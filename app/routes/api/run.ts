@@ -1,7 +1,7 @@
 import { and, eq } from "drizzle-orm";
 import type { Route } from "./+types/run";
 import { apiError, json, methodNotAllowed } from "~/http/api.server";
-import { toCsv, type CsvCell } from "~/components/charts/csv";
+import { toCsv, type CsvCell } from "~/utils/csv";
 import { getDb } from "~/db/client.server";
 import { runs, scenarios, tanks } from "~/db/schema";
 import { requireApiUser } from "~/permissions.server";

@@ -2,7 +2,7 @@ import { useEffect, useMemo, useState } from "react";
 import {  } from "react-router";
 import type { Route } from "./+types/present";
 import { CautionsPanel } from "~/components/cautions";
-import { nearestIndex } from "~/components/charts/lookup";
+import { nearestIndex } from "~/utils/series-lookup";
 import { SERIES_COLORS } from "~/components/charts/palette";
 import { TimeSeriesChart } from "~/components/charts/time-series-chart";
 import { FormMessage } from "~/components/ui/field";

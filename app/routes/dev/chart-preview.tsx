@@ -3,7 +3,7 @@ import type { Route } from "./+types/chart-preview";
 import { BudgetBar, BudgetTable } from "~/components/charts/budget";
 import { CompareChart } from "~/components/charts/compare-chart";
 import { TimeSeriesChart } from "~/components/charts/time-series-chart";
-import type { ChartEvent, ChartOverlay, ChartReading, ChartSeries, ChartUnits } from "~/components/charts/types";
+import type { ChartEvent, ChartOverlay, ChartReading, ChartSeries, ChartUnits } from "~/utils/chart-data";
 import { requireLocalTool } from "~/routes/dev/local-tools.server";
 import { ScenarioSchema, getPreset, plantGroupFromForm, simulate, type ScenarioInput } from "~models";
 

@@ -1,7 +1,7 @@
 import { Form } from "react-router";
 import type { Route } from "./+types/compare";
 import { CompareChart } from "~/components/charts/compare-chart";
-import type { SeriesKey } from "~/components/charts/types";
+import type { SeriesKey } from "~/utils/chart-data";
 import { CautionsPanel } from "~/components/cautions";
 import { keyFigureRows } from "~/components/key-figures";
 import { FormMessage } from "~/components/ui/field";

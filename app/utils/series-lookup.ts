@@ -2,7 +2,7 @@
  * Finding samples by day and moving the day cursor (pure). Series times are non-decreasing;
  * an event appears as two samples with the same day: the one before the jump, then the one after.
  */
-import type { ChartReading, SpeciesKey } from "~/components/charts/types";
+import type { ChartReading, SpeciesKey } from "~/utils/chart-data";
 
 export type Side = "before" | "after";
 

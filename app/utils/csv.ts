@@ -9,8 +9,8 @@
  * Numbers are written as numbers, never quoted or prefixed: -0.5 is a value, not a formula.
  */
 import { EVENT_META, PLANT_UNIT, SERIES_NAMES, unitOf } from "~/components/charts/palette";
-import { upperBound, lowerBound } from "~/components/charts/lookup";
-import type { ChartEvent, ChartSeries, ChartUnits, SeriesKey } from "~/components/charts/types";
+import { upperBound, lowerBound } from "~/utils/series-lookup";
+import type { ChartEvent, ChartSeries, ChartUnits, SeriesKey } from "~/utils/chart-data";
 import { fileSlugFor } from "~/utils/file-name";
 
 export type CsvCell = string | number | null | undefined;
