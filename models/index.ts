@@ -14,6 +14,12 @@ export {
   parseScenario,
   describeScenarioIssues,
   listScenarioFields,
+  applyChanges,
+  PLANT_MASS,
+  scenarioSetting,
+  scenarioSettings,
+  setScenarioValue,
+  settingField,
 } from "./nitrogen/scenario";
 export type {
   Scenario,
@@ -23,6 +29,9 @@ export type {
   FieldMeta,
   ScenarioField,
   SurfaceAgitation,
+  Setting,
+  SettingChange,
+  SettingPath,
 } from "./nitrogen/scenario";
 
 export { simulate, ENGINE_VERSION } from "./nitrogen/simulate";
@@ -40,7 +49,7 @@ export type { Preset } from "./nitrogen/presets";
 export { GROWTH_FORMS, OXYGEN, listParameters } from "./nitrogen/parameters";
 export type { GrowthForm } from "./nitrogen/parameters";
 
-export { OUTCOMES, sweep, setScenarioValue } from "./nitrogen/sweep";
+export { OUTCOMES, sweep } from "./nitrogen/sweep";
 export type { SweepOutcome, SweepPoint } from "./nitrogen/sweep";
 
 export {

@@ -3,6 +3,7 @@
  * (early hints). Messages are written for the person at the form.
  */
 import { z } from "zod";
+import { PREFERENCE_CHOICES } from "~/utils/display-units";
 
 const COMMON_PASSWORDS = new Set([
   "password",
@@ -85,8 +86,8 @@ export const ChangePasswordSchema = z
 
 export const UnitPreferencesSchema = z.object({
   name: NameSchema,
-  volumeUnit: z.enum(["L", "usgal", "impgal"], { error: "Choose a volume unit." }),
-  temperatureUnit: z.enum(["C", "F"], { error: "Choose a temperature unit." }),
-  nitrateUnit: z.enum(["NO3", "N"], { error: "Choose how nitrate is shown." }),
-  khUnit: z.enum(["dKH", "CaCO3"], { error: "Choose a KH unit." }),
+  volumeUnit: z.enum(PREFERENCE_CHOICES.volumeUnit, { error: "Choose a volume unit." }),
+  temperatureUnit: z.enum(PREFERENCE_CHOICES.temperatureUnit, { error: "Choose a temperature unit." }),
+  nitrateUnit: z.enum(PREFERENCE_CHOICES.nitrateUnit, { error: "Choose how nitrate is shown." }),
+  khUnit: z.enum(PREFERENCE_CHOICES.khUnit, { error: "Choose a KH unit." }),
 });

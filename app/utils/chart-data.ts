@@ -75,3 +75,15 @@ export type ChartStocks = Stocks;
  * the engine's object straight through.
  */
 export type ChartBudget = NitrogenBudget;
+
+/** Key figures of a run, already in display units, for lists, results and compare. */
+export type DisplayKeyFigures = {
+  peakFreeNh3: { value: number; day: number };
+  peakNitrite: { value: number; day: number };
+  nitrateEnd: number;
+  nitrateBeforeLastWaterChange: number | null;
+  daysAboveNitrateTarget: number;
+  cyclingFinishedDay: number | null;
+  cycleSeen: boolean;
+  plantsTrimmedG: number;
+};

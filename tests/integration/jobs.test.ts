@@ -24,7 +24,7 @@ import { loader as resultsLoader } from "~/routes/scenarios/results";
 import { action as sweepAction, loader as sweepLoader } from "~/routes/sweeps/sweep";
 import { action as targetAction } from "~/routes/sweeps/target";
 import { readStoredSettings } from "~/features/runs/simulation.server";
-import { startSweep, sweepLevers } from "~/features/sweeps/sweeps.server";
+import { leverJson, startSweep, sweepLevers } from "~/features/sweeps/sweeps.server";
 import { DEFAULT_PREFERENCES, displayUnitsFor } from "~/utils/display-units";
 import { call, get, ORIGIN, post, postJson } from "../support/routes";
 import { createScenario, createTank } from "../support/tanks";
@@ -476,8 +476,8 @@ describe("the job registry", () => {
   it("labels a sweep with the person's units", () => {
     const units = displayUnitsFor({ ...DEFAULT_PREFERENCES, volumeUnit: "usgal" });
     const s = ScenarioSchema.parse(PLANTED);
-    const lever = sweepLevers(s, units).find((l) => l.id === "maintenance.dripLPerDay")!;
-    expect(lever.unit).toBe("US gal/day");
+    const lever = sweepLevers(s).find((l) => l.id === "maintenance.dripLPerDay")!;
+    expect(leverJson(lever, units).unit).toBe("US gal/day");
     const job = startSweep(
       { id: 30_000 },
       1,

@@ -14,10 +14,10 @@ import {
   type MultiplierKey,
   type Species,
 } from "~models/nitrogen/calibrate";
-import { speciesFactor } from "~/display-units.server";
+import { speciesFactor } from "~models/units";
 import { KeeperError, startJob, type JobContext } from "~/features/jobs/jobs.server";
 import { readingsForCalibration } from "~/features/readings/readings.server";
-import { JOB_RUN_LIMITS } from "~/features/sweeps/sweeps.server";
+import { JOB_RUN_LIMITS } from "~/features/jobs/jobs.server";
 import { unitLabels, type DisplayUnits } from "~/utils/display-units";
 
 export const MULTIPLIER_LABELS: Record<MultiplierKey, { label: string; hint: string }> = {

@@ -11,18 +11,14 @@ import {
   type ModelErrorCode,
   type SimulationResult,
   sweep,
-  setScenarioValue,
+  applyChanges,
+  type SettingChange,
   type Scenario,
   type SimulateOptions,
   type SweepPoint,
 } from "~models";
 import { valueAt } from "~/utils/series-lookup";
 import { toStorableSync, type StorableRun } from "~/features/runs/run-packing.server";
-
-export type SettingPath = readonly (string | number)[];
-
-/** One setting set to one canonical value. */
-export type SettingChange = { path: SettingPath; value: number };
 
 export type EngineTask =
   | {
@@ -111,16 +107,13 @@ export function runEngineTask(task: EngineTask): EngineTaskResult {
   if (task.kind === "outcomes") {
     const [first, ...rest] = task.changes;
     if (!first) throw new RangeError("An outcomes task needs at least one setting change.");
-    let base = task.scenario;
-    for (const c of rest) base = setScenarioValue(base, c.path, c.value);
+    const base = applyChanges(task.scenario, rest);
     // The engine's own sweep validates the changed settings and turns a ModelError into a message.
     const [point] = sweep(base, first.path, [first.value], { ...task.limits, outcomes: task.outcomes });
     return { kind: "outcomes", point };
   }
   if (task.kind === "goal") {
-    let scenario = task.scenario;
-    for (const c of task.changes) scenario = setScenarioValue(scenario, c.path, c.value);
-    const parsed = ScenarioSchema.safeParse(scenario);
+    const parsed = ScenarioSchema.safeParse(applyChanges(task.scenario, task.changes));
     if (!parsed.success)
       return { kind: "goal", figures: null, error: parsed.error.issues.map((i) => i.message).join("; ") };
     try {

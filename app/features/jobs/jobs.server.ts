@@ -30,6 +30,9 @@ export {
 // ---------------------------------------------------------------------------------------------
 // Jobs
 
+/** Limits for a run inside a job: like a request's, a bad point fails fast. */
+export const JOB_RUN_LIMITS = { maxWallMs: 3000, maxSteps: 300_000 };
+
 export type JobKind = "sweep" | "calibration" | "target";
 export type JobStatus = "waiting" | "running" | "done" | "failed" | "cancelled";
 

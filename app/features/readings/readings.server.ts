@@ -18,10 +18,10 @@ import {
 import type { ChartReading } from "~/utils/chart-data";
 import { getDb, type Db } from "~/db/client.server";
 import { readings } from "~/db/schema";
-import { speciesFactor, toDisplay } from "~/display-units.server";
+import { speciesFactor, toDisplay } from "~models/units";
 import type { CalibrationReading } from "~models/nitrogen/calibrate";
 import { DAY_MS, startOfDay } from "~/utils/dates";
-import { unitLabels, type DisplayUnits } from "~/utils/display-units";
+import type { DisplayUnits } from "~/utils/display-units";
 
 export type ReadingRow = typeof readings.$inferSelect;
 
@@ -69,18 +69,7 @@ export function measureUnitsFor(units: DisplayUnits): MeasureUnits {
 /** The unit label a measure is written in ("mg/L NO3", "°F", "" for pH). */
 export function measureUnitLabel(key: MeasureKey, units: MeasureUnits): string {
   const q = MEASURES[key].quantity;
-  if (!q) return "";
-  // Ammonia as NH4 is a CSV choice only (no account shows it): the engine's symbol for it.
-  if (q === "ammonia" && units.tan === "asNH4") return unitSymbol("ammonia", "asNH4");
-  const labels = unitLabels({
-    volume: "L",
-    temperature: units.temperatureC,
-    nitrate: units.nitrate,
-    nitrite: units.nitrite,
-    ammonia: units.tan as "asN" | "asNH3",
-    kh: units.kh,
-  });
-  return labels[q];
+  return q ? unitSymbol(q, units[key as Exclude<MeasureKey, "ph">]) : "";
 }
 
 /** Accepts "12.5", and "12,5" where a decimal comma is expected; nothing else that is not a plain number. */

@@ -4,8 +4,8 @@
  */
 import type { NitrogenBudget, Scenario } from "~models";
 import type { ChartEvent } from "~/utils/chart-data";
-import { displayGuides, displayKeyFigures, displaySeries } from "~/features/runs/display-figures.server";
-import { speciesFactor } from "~/display-units.server";
+import { displayGuides, displayKeyFigures, displaySeries } from "~/features/runs/display-figures";
+import { speciesFactor } from "~models/units";
 import type { StoredRun } from "~/features/runs/simulation.server";
 import { unitLabels, type DisplayUnits } from "~/utils/display-units";
 import { packSeries, type PackedSeries } from "~/features/runs/series-packing";
@@ -41,7 +41,6 @@ function buildPayload(run: StoredRun, scenario: Scenario, units: DisplayUnits) {
     budget: run.budget as NitrogenBudget,
     stats: { steps: run.stats.steps, rhsEvals: run.stats.rhsEvals, wallMs: Math.round(run.stats.wallMs * 10) / 10 },
     engineVersion: run.engineVersion,
-    nitrateFactor: speciesFactor("nitrate", units),
     tapNitrateAboveDrinkingLimit: scenario.tapWater.nitrate > DRINKING_WATER_NITRATE_MG_N,
     tapNitrateDisplay: scenario.tapWater.nitrate * speciesFactor("nitrate", units),
     lengthDays: scenario.run.lengthDays,

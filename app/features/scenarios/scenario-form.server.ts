@@ -12,9 +12,8 @@ import {
   type Scenario,
   type ScenarioField,
 } from "~models";
-import { fromDisplay, toDisplay } from "~/display-units.server";
+import { fromDisplay, toDisplay, unitLabel } from "~models/units";
 import type { DisplayUnits } from "~/utils/display-units";
-import { unitLabels } from "~/utils/display-units";
 import type { FieldErrors } from "~/utils/form-errors";
 import type { FormField, FormSection, PlantRow, ScenarioFormModel } from "~/features/scenarios/scenario-form-types";
 
@@ -71,25 +70,7 @@ const FIELDS = listScenarioFields().filter((f) => !HIDDEN.has(f.key));
 
 /** The unit label a field is shown in, in the viewer's units ("mg/L NO3", "%", "g/day"). */
 export function unitFor(field: ScenarioField, units: DisplayUnits): string {
-  const labels = unitLabels(units);
-  switch (field.meta.quantity) {
-    case "volume":
-      return field.meta.unit.endsWith("/day") ? `${labels.volume}/day` : labels.volume;
-    case "temperature":
-      return labels.temperature;
-    case "nitrate":
-      return labels.nitrate;
-    case "nitrite":
-      return labels.nitrite;
-    case "ammonia":
-      return labels.ammonia;
-    case "kh":
-      return labels.kh;
-    case "fraction":
-      return "%";
-    default:
-      return field.meta.unit;
-  }
+  return unitLabel(field.meta.quantity, units, field.meta.unit);
 }
 
 /**

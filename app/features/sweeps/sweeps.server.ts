@@ -6,95 +6,22 @@
  * the maximum fixed is not monotone (a group near its maximum takes up little; docs/engine.md).
  */
 import { z } from "zod";
-import { listScenarioFields, OUTCOMES, type Quantity, type Scenario, type ScenarioField } from "~models";
-import { fromDisplay, speciesFactor, toDisplay } from "~/display-units.server";
-import type { SettingChange } from "~/features/jobs/engine-tasks.server";
-import { JOB_LIMITS, startJob, type JobContext } from "~/features/jobs/jobs.server";
-import { unitFor } from "~/features/scenarios/scenario-form.server";
+import { OUTCOMES, scenarioSettings, type Quantity, type Scenario, type Setting } from "~models";
+import { fromDisplay, toDisplay, unitLabel } from "~models/units";
+import { JOB_LIMITS, JOB_RUN_LIMITS, startJob, type JobContext } from "~/features/jobs/jobs.server";
 import type { DisplayUnits } from "~/utils/display-units";
-import { unitLabels } from "~/utils/display-units";
 import type { Role } from "~/db/schema";
 
-/** Limits for a run inside a job: like a request's, a bad point fails fast. */
-export const JOB_RUN_LIMITS = { maxWallMs: 3000, maxSteps: 300_000 };
+/** A setting a sweep can vary (models/nitrogen/scenario/settings.ts), canonical units. */
+export type Lever = Setting;
 
-/** A setting a sweep or the target finder can vary, in canonical units. */
-export type Lever = {
-  id: string;
-  label: string;
-  hint: string;
-  quantity: Quantity;
-  /** Unit shown to the person. */
-  unit: string;
-  min: number;
-  max: number;
-  integer: boolean;
-  /** The scenario's value now. */
-  current: number;
-  /** The setting changes for a value of this lever. */
-  changes(value: number): SettingChange[];
-};
-
-/** Settings not offered: the file version, the tank's nitrate band, chart spacing and run length, per-group plant fields. */
-const EXCLUDED = /^(schemaVersion|targets\.|run\.|plants\.)/;
-
-function fieldLever(field: ScenarioField, scenario: Scenario, units: DisplayUnits): Lever | null {
-  if ((field.kind !== "number" && field.kind !== "integer") || EXCLUDED.test(field.key)) return null;
-  const path = field.path as string[];
-  let current: unknown = scenario;
-  for (const p of path) current = (current as Record<string, unknown> | undefined)?.[p];
-  if (typeof current !== "number") return null;
-  return {
-    id: field.key,
-    label: field.meta.label,
-    hint: field.meta.hint,
-    quantity: field.meta.quantity,
-    unit: unitFor(field, units),
-    min: field.min ?? 0,
-    max: field.max ?? current * 10,
-    integer: field.kind === "integer",
-    current,
-    changes: (value) => [{ path, value }],
-  };
+/** Every setting of a scenario a sweep offers: plant mass first (when there are plants), then the numeric fields in form order. */
+export function sweepLevers(scenario: Scenario): Lever[] {
+  return scenarioSettings(scenario);
 }
 
-/** Plant mass of all groups, start and maximum scaled together; the lever's value is the total start mass, g dry. */
-export function plantMassLever(scenario: Scenario): Lever | null {
-  const total = scenario.plants.reduce((s, g) => s + g.startMassG, 0);
-  if (scenario.plants.length === 0 || !(total > 0)) return null;
-  const biggestMax = Math.max(...scenario.plants.map((g) => g.maxMassG));
-  const minMax = Math.min(...scenario.plants.map((g) => g.maxMassG));
-  // Scale factor k: every max stays within the schema's 0.01–5000 g.
-  const kMin = 0.01 / minMax;
-  const kMax = 5000 / biggestMax;
-  return {
-    id: "plantMass",
-    label: "Plant mass, all groups",
-    hint: "Every group's start mass and “most the tank holds” scaled together.",
-    quantity: "mass",
-    unit: "g dry",
-    min: Math.max(0.01, total * kMin),
-    max: total * kMax,
-    integer: false,
-    current: total,
-    changes: (value) => {
-      const k = value / total;
-      return scenario.plants.flatMap((g, i) => [
-        { path: ["plants", i, "startMassG"], value: g.startMassG * k },
-        { path: ["plants", i, "maxMassG"], value: g.maxMassG * k },
-      ]);
-    },
-  };
-}
-
-const FIELDS = listScenarioFields();
-
-/** Every lever of a scenario: plant mass first (when there are plants), then the numeric fields in form order. */
-export function sweepLevers(scenario: Scenario, units: DisplayUnits): Lever[] {
-  const plant = plantMassLever(scenario);
-  const fields = FIELDS.map((f) => fieldLever(f, scenario, units)).filter((l): l is Lever => l !== null);
-  return plant ? [plant, ...fields] : fields;
-}
+/** The unit a lever is shown in, in the person's units. */
+const shownUnit = (lever: Lever, units: DisplayUnits) => unitLabel(lever.quantity, units, lever.unit);
 
 const display = (lever: Lever, v: number, units: DisplayUnits) =>
   Number(toDisplay(lever.quantity, v, units).toPrecision(6));
@@ -105,7 +32,7 @@ export function leverJson(lever: Lever, units: DisplayUnits) {
     id: lever.id,
     label: lever.label,
     hint: lever.hint,
-    unit: lever.unit,
+    unit: shownUnit(lever, units),
     min: display(lever, lever.min, units),
     max: display(lever, lever.max, units),
     current: display(lever, lever.current, units),
@@ -119,10 +46,7 @@ export function outcomeDisplay(
   unit: string,
   units: DisplayUnits,
 ): { factor: number; unit: string } {
-  if (quantity === "nitrate" || quantity === "nitrite" || quantity === "ammonia") {
-    return { factor: speciesFactor(quantity, units), unit: unitLabels(units)[quantity] };
-  }
-  return { factor: 1, unit };
+  return { factor: toDisplay(quantity, 1, units), unit: unitLabel(quantity, units, unit) };
 }
 
 export const SWEEP_OUTCOMES = OUTCOMES.map((o) => ({ id: o.id, label: o.label }));
@@ -154,7 +78,7 @@ export function sweepInputSchema(levers: Lever[], units: DisplayUnits, role: Rol
           ctx.addIssue({
             code: "custom",
             path: [key],
-            message: `Keep ${lever.label.toLowerCase()} between ${lo} and ${hi} ${lever.unit}.`,
+            message: `Keep ${lever.label.toLowerCase()} between ${lo} and ${hi} ${shownUnit(lever, units)}.`,
           });
         }
       }
@@ -201,7 +125,7 @@ export function startSweep(
   input: SweepInput,
   units: DisplayUnits,
 ) {
-  const levers = sweepLevers(scenario, units);
+  const levers = sweepLevers(scenario);
   const lever = levers.find((l) => l.id === input.setting)!;
   const outcome = OUTCOMES.find((o) => o.id === input.outcome)!;
   const { factor, unit } = outcomeDisplay(outcome.quantity, outcome.unit, units);
@@ -210,7 +134,7 @@ export function startSweep(
     setting: {
       id: lever.id,
       label: lever.label,
-      unit: lever.unit,
+      unit: shownUnit(lever, units),
       current: display(lever, lever.current, units),
       from: input.from,
       to: input.to,
@@ -221,7 +145,7 @@ export function startSweep(
     {
       user,
       kind: "sweep",
-      label: `${lever.label} from ${input.from} to ${input.to} ${lever.unit}, ${input.points} points`,
+      label: `${lever.label} from ${input.from} to ${input.to} ${shownUnit(lever, units)}, ${input.points} points`,
       total: input.points,
       params: { scenarioId, input },
     },

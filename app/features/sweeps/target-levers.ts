@@ -9,3 +9,12 @@ export const TARGET_LEVER_LABELS: Record<TargetLeverId, string> = {
   feed: "Food per day",
   roShare: "Reverse-osmosis share of the change water",
 };
+
+/** The setting of the shared vocabulary (models/nitrogen/scenario/settings.ts) each lever changes. */
+export const TARGET_LEVER_SETTINGS: Record<TargetLeverId, string> = {
+  waterChangeFraction: "maintenance.waterChangeFraction",
+  waterChangeInterval: "maintenance.waterChangeIntervalDays",
+  plantMass: "plantMass",
+  feed: "fish.feedGPerDay",
+  roShare: "tapWater.roShare",
+};

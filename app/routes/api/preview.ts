@@ -2,7 +2,7 @@ import { z } from "zod";
 import type { Route } from "./+types/preview";
 import { parseScenario } from "~models";
 import { apiError, apiFind, json, readJson, zodIssues, methodNotAllowed } from "~/http/api.server";
-import { displayKeyFigures, displaySeries } from "~/features/runs/display-figures.server";
+import { displayKeyFigures, displaySeries } from "~/features/runs/display-figures";
 import { requireApiUser } from "~/permissions.server";
 import { runOrRefuse } from "~/features/scenarios/scenario-api.server";
 import { unknownSettingKeys } from "~/features/scenarios/settings-patch.server";

@@ -8,7 +8,7 @@ import { displayUnitsFor } from "~/utils/display-units";
 async function sweepable(request: Request, scenarioIdParam: string | undefined) {
   const { user, row, scenario } = await requireApiScenario(request, scenarioIdParam);
   const units = displayUnitsFor(user);
-  return { user, row, scenario, units, levers: sweepLevers(scenario, units) };
+  return { user, row, scenario, units, levers: sweepLevers(scenario) };
 }
 
 /** GET /api/scenarios/:scenarioId/sweeps: the settings (with bounds, in your units) and outcomes a sweep can use. */

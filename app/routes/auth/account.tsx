@@ -14,12 +14,7 @@ import { createUserSession, revokeAllSessions } from "~/session.server";
 import { ChangePasswordSchema, UnitPreferencesSchema } from "~/utils/account-schemas";
 import { fieldErrors, formValues } from "~/utils/form-errors";
 import { invalid, readForm } from "~/http/pages.server";
-import {
-  KH_UNIT_OPTIONS,
-  NITRATE_UNIT_OPTIONS,
-  TEMPERATURE_UNIT_OPTIONS,
-  VOLUME_UNIT_OPTIONS,
-} from "~/utils/unit-options";
+import { PREFERENCE_OPTIONS } from "~/utils/display-units";
 
 export const meta: Route.MetaFunction = () => [{ title: "Your account · Fernwater" }];
 
@@ -108,21 +103,21 @@ export default function AccountPage({ loaderData, actionData }: Route.ComponentP
             label="Volume"
             name="volumeUnit"
             defaultValue={user.volumeUnit}
-            options={VOLUME_UNIT_OPTIONS}
+            options={PREFERENCE_OPTIONS.volumeUnit}
             error={forPrefs ? errors.volumeUnit : undefined}
           />
           <SelectField
             label="Temperature"
             name="temperatureUnit"
             defaultValue={user.temperatureUnit}
-            options={TEMPERATURE_UNIT_OPTIONS}
+            options={PREFERENCE_OPTIONS.temperatureUnit}
             error={forPrefs ? errors.temperatureUnit : undefined}
           />
           <SelectField
             label="Nitrate, nitrite and ammonia"
             name="nitrateUnit"
             defaultValue={user.nitrateUnit}
-            options={NITRATE_UNIT_OPTIONS}
+            options={PREFERENCE_OPTIONS.nitrateUnit}
             hint="Most hobby test kits read nitrate as NO3; lab reports often give it as N."
             error={forPrefs ? errors.nitrateUnit : undefined}
           />
@@ -130,7 +125,7 @@ export default function AccountPage({ loaderData, actionData }: Route.ComponentP
             label="Carbonate hardness (KH)"
             name="khUnit"
             defaultValue={user.khUnit}
-            options={KH_UNIT_OPTIONS}
+            options={PREFERENCE_OPTIONS.khUnit}
             error={forPrefs ? errors.khUnit : undefined}
           />
           <div className="sm:col-span-2">

@@ -3,7 +3,7 @@ import type { Route } from "./+types/lesson";
 import { FormMessage } from "~/components/ui/field";
 import { findCopy, handInTable, READ_ONLY_CLASS, requireClassAccess, requireLesson, startCopy } from "~/features/classes/classes.server";
 import { refusal } from "~/features/scenarios/copies.server";
-import { displayKeyFigures } from "~/features/runs/display-figures.server";
+import { displayKeyFigures } from "~/features/runs/display-figures";
 import { requireUser } from "~/permissions.server";
 import { displayUnitsFor, formatNumber, unitLabels } from "~/utils/display-units";
 import { invalid, readForm } from "~/http/pages.server";

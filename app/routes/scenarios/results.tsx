@@ -18,7 +18,7 @@ import { displayUnitsFor, formatNumber } from "~/utils/display-units";
 import { formValues } from "~/utils/form-errors";
 import { unpackSeries } from "~/features/runs/series-packing";
 import { invalid, readForm } from "~/http/pages.server";
-import { applyWhatIf, whatIfBase, WhatIfSchema } from "~/features/runs/what-if.server";
+import { applyWhatIf, whatIfBase, whatIfSettings, WhatIfSchema } from "~/features/runs/what-if.server";
 import { ScenarioNameSchema } from "~/features/scenarios/scenario-setup.server";
 import { Breadcrumbs } from "~/components/breadcrumbs";
 
@@ -48,7 +48,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
       error: null,
       results: packedResultsPayload(resultsPayload(run, withTargets, units)),
       readings: readingsForChart(tank.id, modelStartMs(scenario), withTargets.run.lengthDays, units),
-      whatIf: { base: whatIfBase(withTargets), hasPlants: withTargets.plants.length > 0 },
+      whatIf: { base: whatIfBase(withTargets), hasPlants: withTargets.plants.length > 0, settings: whatIfSettings(), units },
     };
   } catch (error) {
     const problem = runProblem(error);
@@ -183,8 +183,8 @@ export default function ResultsPage({ loaderData, actionData }: Route.ComponentP
               scenarioName={scenario.name}
               base={whatIf.base}
               hasPlants={whatIf.hasPlants}
-              nitrateFactor={results.nitrateFactor}
-              nitrateLabel={results.labels.nitrate}
+              settings={whatIf.settings}
+              units={whatIf.units}
               onPreview={onPreview}
             />
           ) : null}

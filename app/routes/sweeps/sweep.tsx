@@ -31,7 +31,7 @@ async function context(request: Request, params: Route.LoaderArgs["params"]) {
   const settings = readStoredSettings(row.settings);
   const units = displayUnitsFor(user);
   const scenario = settings ? withTankTargets(settings, tank) : null;
-  return { user, tank, row, units, scenario, levers: scenario ? sweepLevers(scenario, units) : [] };
+  return { user, tank, row, units, scenario, levers: scenario ? sweepLevers(scenario) : [] };
 }
 
 export async function loader({ request, params }: Route.LoaderArgs) {

@@ -5,8 +5,8 @@ import type { Route } from "./+types/target";
 import { CautionsPanel } from "~/components/cautions";
 import { jobActive, JobProgress, useJob } from "~/components/job-progress";
 import { FormMessage, SelectField, TextField } from "~/components/ui/field";
-import { FREE_NH3_CAUTION_MG_N } from "~/features/runs/display-figures.server";
-import { speciesFactor } from "~/display-units.server";
+import { FREE_NH3_CAUTION_MG_N } from "~/features/runs/display-figures";
+import { speciesFactor } from "~models/units";
 import { cancelJob, findScenarioJob, jobJson, JobRefused } from "~/features/jobs/jobs.server";
 import { requireUser } from "~/permissions.server";
 import { DRINKING_WATER_NITRATE_MG_N } from "~/features/runs/results.server";
@@ -14,13 +14,8 @@ import { modelStartMs } from "~/features/readings/readings.server";
 import { refusal } from "~/features/scenarios/copies.server";
 import { saveScenarioVariant } from "~/features/scenarios/scenario-variant.server";
 import { readStoredSettings, withTankTargets } from "~/features/runs/simulation.server";
-import {
-  applyLever,
-  searchLever,
-  startTargetSearch,
-  TargetInputSchema,
-  type TargetResultJson,
-} from "~/features/sweeps/target-finder.server";
+import { applyLever, searchLever } from "~/features/sweeps/search-levers.server";
+import { startTargetSearch, TargetInputSchema, type TargetResultJson } from "~/features/sweeps/target-finder.server";
 import { requireOwnedScenario } from "~/features/tanks/tanks.server";
 import { displayUnitsFor, formatNumber, unitLabels } from "~/utils/display-units";
 import { TARGET_LEVER_LABELS, TARGET_LEVERS } from "~/features/sweeps/target-levers";

@@ -4,7 +4,7 @@ import type { Route } from "./+types/list";
 import { FormMessage, TextField } from "~/components/ui/field";
 import { getDb } from "~/db/client.server";
 import { tanks } from "~/db/schema";
-import { displayKeyFigures } from "~/features/runs/display-figures.server";
+import { displayKeyFigures } from "~/features/runs/display-figures";
 import { requireUser } from "~/permissions.server";
 import { checkNewTank, QuotaExceeded } from "~/quotas.server";
 import { displayUnitsFor, formatNumber, unitLabels } from "~/utils/display-units";

@@ -19,3 +19,5 @@ export type { Migration } from "./migrations";
 export { describeScenarioIssues, parseScenario } from "./parse";
 export { listScenarioFields } from "./fields";
 export type { ScenarioField } from "./fields";
+export { applyChanges, PLANT_MASS, scenarioSetting, scenarioSettings, setScenarioValue, settingField } from "./settings";
+export type { Setting, SettingChange, SettingPath } from "./settings";

@@ -1,8 +1,10 @@
-/** Key figures, series and guides converted from the engine's mg N/L into a viewer's units. */
+/**
+ * Key figures, series and guides converted from the engine's mg N/L into a viewer's units.
+ * Isomorphic: loaders convert stored runs with it, and the what-if panel converts previews.
+ */
 import type { KeyFigures, Series } from "~models";
-import { speciesFactor } from "~/display-units.server";
-import type { DisplayKeyFigures } from "~/components/key-figures";
-import type { ChartGuides, ChartSeries } from "~/utils/chart-data";
+import { speciesFactor } from "~models/units";
+import type { ChartGuides, ChartSeries, DisplayKeyFigures } from "~/utils/chart-data";
 import type { DisplayUnits } from "~/utils/display-units";
 
 export function displayKeyFigures(k: KeyFigures, units: DisplayUnits): DisplayKeyFigures {
