@@ -1,5 +1,10 @@
-/** Helpers for the JSON API (resource routes under /api): one error shape everywhere. */
+/**
+ * The route edge for the JSON API (resource routes under /api): one error shape everywhere.
+ * Every API loader and action runs inside apiRoute, which turns what feature code throws — a
+ * typed refusal, a page guard's 404 — into `{ status, error, issues? }`.
+ */
 import type { z } from "zod";
+import { refusalOf } from "~/http/refusals.server";
 
 export type ApiIssue = { path: string; message: string };
 
@@ -64,18 +69,43 @@ export async function readBodyText(request: Request, maxBytes: number): Promise<
   }
 }
 
+/** What React Router's `data(…, { status })` throws (page guards: notFound, requireRole). */
+type ThrownData = { type: "DataWithResponseInit"; data: unknown; init: { status?: number } | null };
+
+function isThrownData(thrown: unknown): thrown is ThrownData {
+  return typeof thrown === "object" && thrown !== null && (thrown as { type?: unknown }).type === "DataWithResponseInit";
+}
+
 /**
- * Runs a page guard (which throws a 404 meant for the HTML error page) and turns any 404 it
- * throws into the API's JSON 404 instead.
+ * The API's answer to what a handler threw: a typed refusal (app/http/refusals.server.ts) with
+ * its status (a model refusal names "settings" as the field), a page guard's 4xx with the
+ * guard's message. Null for anything else (a Response passes as it is; an Error is a bug).
  */
-export function apiFind<T>(find: () => T, message: string): T {
-  try {
-    return find();
-  } catch (thrown) {
-    const status = thrown instanceof Response ? thrown.status : (thrown as { init?: { status?: number } })?.init?.status;
-    if (status === 404) throw apiError(404, message);
-    throw thrown;
+export function apiAnswer(thrown: unknown): Response | null {
+  const refused = refusalOf(thrown);
+  if (refused) {
+    const issues = refused.kind === "model" ? [{ path: "settings", message: refused.message }] : undefined;
+    return apiError(refused.status, refused.message, issues);
   }
+  const status = isThrownData(thrown) ? (thrown.init?.status ?? 500) : 0;
+  if (status >= 400 && status < 500) {
+    const message = (thrown as ThrownData).data as { message?: unknown } | null;
+    return apiError(status, typeof message?.message === "string" ? message.message : "Not found.");
+  }
+  return null;
+}
+
+/** Wraps an API loader or action: what it throws is answered by apiAnswer, the rest rethrown. */
+export function apiRoute<A, R>(handler: (args: A) => Promise<R> | R): (args: A) => Promise<R | Response> {
+  return async (args) => {
+    try {
+      return await handler(args);
+    } catch (thrown) {
+      const answer = apiAnswer(thrown);
+      if (answer) return answer;
+      throw thrown;
+    }
+  };
 }
 
 /**

@@ -6,7 +6,8 @@
 import type { Scenario } from "~models";
 import { packedResultsPayload, resultsPayload } from "~/features/runs/results.server";
 import { buildScenarioForm } from "~/features/scenarios/scenario-form.server";
-import { ensureRun, readStoredSettings, runProblem, withTankTargets } from "~/features/runs/simulation.server";
+import { ensureRun, readStoredSettings, withTankTargets } from "~/features/runs/simulation.server";
+import { runProblem } from "~/http/pages.server";
 import type { ScenarioRow } from "~/features/tanks/tanks.server";
 import type { DisplayUnits } from "~/utils/display-units";
 import { formatNumber } from "~/utils/display-units";

@@ -7,7 +7,6 @@ import { createHash } from "node:crypto";
 import { and, desc, eq, inArray, sql } from "drizzle-orm";
 import {
   ENGINE_VERSION,
-  isModelError,
   parseScenario,
   type KeyFigures,
   type NitrogenBudget,
@@ -19,12 +18,11 @@ import {
 import type { EventRecord } from "~models";
 import { getDb, type Db } from "~/db/client.server";
 import { runs } from "~/db/schema";
-import { checkRunBytes, QuotaExceeded } from "~/quotas.server";
-import { RunRefused, runForRequest, runForStorage, type RunRequest } from "~/features/runs/run-gate.server";
+import { checkRunBytes } from "~/quotas.server";
+import { runForRequest, runForStorage, type RunRequest } from "~/features/runs/run-gate.server";
 import { PACKED_MARKER, readStoredSeries, storedBytes, toStorableSync, type StorableRun } from "~/features/runs/run-packing.server";
 
-export { isQuickRun, REQUEST_RUN_LIMITS, RunRefused, type RunRequest } from "~/features/runs/run-gate.server";
-export { QuotaExceeded } from "~/quotas.server";
+export { REQUEST_RUN_LIMITS, type RunRequest } from "~/features/runs/run-gate.server";
 export type { StorableRun } from "~/features/runs/run-packing.server";
 
 export type StoredRun = {
@@ -64,18 +62,6 @@ export function withTankTargets(scenario: Scenario, tank: { nitrateTargetLow: nu
  */
 export function runEngine(scenario: Scenario, request: RunRequest): Promise<SimulationResult> {
   return runForRequest(scenario, request);
-}
-
-export { isModelError };
-
-/**
- * The sentence for a page that needed a run and could not have one: the model could not run
- * the settings, a limit on runs, or the owner's storage quota. Null for anything else (a bug).
- */
-export function runProblem(error: unknown): string | null {
-  if (isModelError(error)) return error.message;
-  if (error instanceof RunRefused || error instanceof QuotaExceeded) return error.message;
-  return null;
 }
 
 const cache = new Map<number, StoredRun>();

@@ -8,8 +8,8 @@ import type { Scenario } from "~models";
 import { getDb } from "~/db/client.server";
 import { tanks } from "~/db/schema";
 import { checkNewTank } from "~/quotas.server";
-import { insertScenarioWithRun, runOrRefuseForStorage, writeOrRefuse } from "~/features/scenarios/scenario-api.server";
-import { withTankTargets } from "~/features/runs/simulation.server";
+import { insertScenarioWithRun, write } from "~/features/scenarios/scenario-api.server";
+import { runEngineForStorage, withTankTargets } from "~/features/runs/simulation.server";
 import type { TankRow } from "~/features/tanks/tanks.server";
 
 type Tx = Parameters<Parameters<ReturnType<typeof getDb>["transaction"]>[0]>[0];
@@ -19,7 +19,7 @@ export type CopyDestination = { tank: TankRow } | { newTank: { name: string; not
 /**
  * Copies `settings` into the destination. A new tank takes the nitrate band the settings were
  * made with, so the copy's chart and key figures match what the person saw.
- * Throws the API's JSON 422 Response when the engine cannot run the settings.
+ * Throws ModelError when the engine cannot run the settings, RunRefused or QuotaExceeded.
  */
 export async function copyScenarioInto(
   ownerId: number,
@@ -34,8 +34,8 @@ export async function copyScenarioInto(
       ? destination.tank
       : { nitrateTargetLow: settings.targets.nitrateLow, nitrateTargetHigh: settings.targets.nitrateHigh };
   const scenario = withTankTargets(settings, band);
-  const result = await runOrRefuseForStorage(scenario, { userId: ownerId, purpose: "save" });
-  return writeOrRefuse((tx) => {
+  const result = await runEngineForStorage(scenario, { userId: ownerId, purpose: "save" });
+  return write((tx) => {
     if (!("tank" in destination)) checkNewTank(tx, ownerId);
     const tankId =
       "tank" in destination
@@ -49,15 +49,4 @@ export async function copyScenarioInto(
     also?.(tx, { tankId, scenarioId });
     return { tankId, scenarioId };
   });
-}
-
-/**
- * A refusal thrown as the API's JSON Response — the model could not run the settings (422), a
- * rate or concurrency limit (429), a storage quota (413) — as a form's message and status.
- */
-export async function refusal(thrown: unknown): Promise<{ message: string; status: 400 | 413 | 429 } | null> {
-  if (!(thrown instanceof Response) || ![413, 422, 429].includes(thrown.status)) return null;
-  const body = (await thrown.clone().json()) as { error?: string };
-  if (thrown.status === 422) return { message: `The model could not run these settings: ${body.error ?? "unknown problem"}`, status: 400 };
-  return { message: body.error ?? "Refused.", status: thrown.status as 413 | 429 };
 }

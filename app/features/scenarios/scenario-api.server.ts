@@ -1,24 +1,20 @@
 /** Server code shared by the scenario API routes: validation of bodies, JSON shapes, saving with a run. */
 import { eq } from "drizzle-orm";
 import { z } from "zod";
-import { parseScenario, type Scenario, type SimulationResult } from "~models";
-import { apiError, apiFind, json, zodIssues } from "~/http/api.server";
-import { jobJson, JobRefused, type Job } from "~/features/jobs/jobs.server";
+import { parseScenario, type Scenario } from "~models";
+import { apiError, json, zodIssues } from "~/http/api.server";
+import { jobJson, type Job } from "~/features/jobs/jobs.server";
 import { requireApiUser } from "~/permissions.server";
 import { requireOwnedScenarioById } from "~/features/tanks/tanks.server";
 import { getDb } from "~/db/client.server";
 import { scenarios } from "~/db/schema";
-import { QuotaExceeded, checkNewScenario } from "~/quotas.server";
+import { checkNewScenario } from "~/quotas.server";
 import {
   insertRun,
-  isModelError,
   readStoredSettings,
-  RunRefused,
-  runEngine,
   runEngineForStorage,
   settingsHash,
   withTankTargets,
-  type RunRequest,
   type StorableRun,
   type StoredRun,
 } from "~/features/runs/simulation.server";
@@ -85,39 +81,9 @@ export function runSummaryJson(run: StoredRun) {
   };
 }
 
-/** An engine refusal or a limit as the API's JSON answer: 422 (model), 429 (rate/concurrency), 413 (quota). */
-function asApiRefusal(error: unknown): unknown {
-  if (isModelError(error)) return apiError(422, error.message, [{ path: "settings", message: error.message }]);
-  if (error instanceof RunRefused) return apiError(429, error.message);
-  if (error instanceof QuotaExceeded) return apiError(413, error.message);
-  return error;
-}
-
-/** Runs the engine on settings for a request; a refusal becomes the API's JSON Response (asApiRefusal). */
-export async function runOrRefuse(scenario: Scenario, request: RunRequest): Promise<SimulationResult> {
-  try {
-    return await runEngine(scenario, request);
-  } catch (error) {
-    throw asApiRefusal(error);
-  }
-}
-
-/** The same for a run about to be stored (long series come back packed). */
-export async function runOrRefuseForStorage(scenario: Scenario, request: RunRequest): Promise<StorableRun> {
-  try {
-    return await runEngineForStorage(scenario, request);
-  } catch (error) {
-    throw asApiRefusal(error);
-  }
-}
-
-/** Runs a writing transaction; a quota refusal inside it (nothing written) becomes the API's 413. */
-export function writeOrRefuse<T>(write: (tx: Tx) => T): T {
-  try {
-    return getDb().transaction(write);
-  } catch (error) {
-    throw asApiRefusal(error);
-  }
+/** Runs a writing transaction (a quota refusal inside it writes nothing and throws QuotaExceeded). */
+export function write<T>(work: (tx: Tx) => T): T {
+  return getDb().transaction(work);
 }
 
 type Tx = Parameters<Parameters<ReturnType<typeof getDb>["transaction"]>[0]>[0];
@@ -153,8 +119,8 @@ export async function saveScenarioWithRun(
   settings: Scenario,
 ): Promise<number> {
   const scenario = withTankTargets(settings, tank);
-  const result = await runOrRefuseForStorage(scenario, { userId: tank.ownerId, purpose: "save" });
-  return writeOrRefuse((tx) => {
+  const result = await runEngineForStorage(scenario, { userId: tank.ownerId, purpose: "save" });
+  return write((tx) => {
     if (target === "new") return insertScenarioWithRun(tx, tank.id, name, scenario, result);
     tx.update(scenarios)
       .set({ name, settings: scenario, schemaVersion: scenario.schemaVersion, updatedAt: new Date() })
@@ -171,22 +137,13 @@ export async function saveScenarioWithRun(
  */
 export async function requireApiScenario(request: Request, scenarioIdParam: string | undefined) {
   const user = await requireApiUser(request);
-  const { tank, scenario: row } = apiFind(
-    () => requireOwnedScenarioById(user.id, scenarioIdParam),
-    "There is no such scenario among yours.",
-  );
+  const { tank, scenario: row } = requireOwnedScenarioById(user.id, scenarioIdParam);
   const settings = readStoredSettings(row.settings);
   if (!settings) throw apiError(409, "The saved settings can no longer be read; update the scenario first.");
   return { user, tank, row, scenario: withTankTargets(settings, tank) };
 }
 
-/** 202 with the started job and where to poll it; a refused start (one job at a time, busy) keeps its status. */
-export function jobAccepted(start: () => Job): Response {
-  try {
-    const job = start();
-    return json({ job: jobJson(job), links: { progress: `/api/jobs/${job.id}` } }, { status: 202 });
-  } catch (error) {
-    if (error instanceof JobRefused) return apiError(error.status, error.message);
-    throw error;
-  }
+/** 202 with the started job and where to poll it (a refused start throws JobRefused: apiRoute answers it). */
+export function jobAccepted(job: Job): Response {
+  return json({ job: jobJson(job), links: { progress: `/api/jobs/${job.id}` } }, { status: 202 });
 }

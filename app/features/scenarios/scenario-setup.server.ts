@@ -20,9 +20,6 @@ import type { SessionUser } from "~/session.server";
 import { checkNewScenario } from "~/quotas.server";
 import {
   insertRun,
-  isModelError,
-  QuotaExceeded,
-  RunRefused,
   runEngineForStorage,
   settingsHash,
   withTankTargets,
@@ -33,6 +30,7 @@ import { displayUnitsFor, unitLabels, type DisplayUnits } from "~/utils/display-
 import { type FieldErrors, formValues } from "~/utils/form-errors";
 import type { ScenarioFormModel } from "~/features/scenarios/scenario-form-types";
 import { parseDateOnly } from "~/utils/dates";
+import { formRefusal } from "~/http/pages.server";
 
 export const ScenarioNameSchema = z
   .string({ error: "Give the scenario a name." })
@@ -122,25 +120,16 @@ export async function handleSetupSubmission(
   if (refused) return redraw(values, units, refused, 400);
 
   const scenario = withTankTargets(parsed.scenario, tank);
-  let result;
-  try {
-    // Off the request thread unless provably cheap, within the person's limits (app/features/runs/run-gate.server.ts).
-    result = await runEngineForStorage(scenario, { userId: user.id, purpose: "save" });
-  } catch (error) {
-    if (isModelError(error)) {
-      return redraw(values, units, { "": `The model could not run these settings: ${error.message}` }, 400);
-    }
-    if (error instanceof RunRefused) return redraw(values, units, { "": error.message }, 429);
-    throw error;
-  }
-  const hash = settingsHash(scenario);
   let scenarioId: number;
   try {
-    scenarioId = write(tank, target, intent, name.data, scenario, start, hash, result);
+    // Off the request thread unless provably cheap, within the person's limits (app/features/runs/run-gate.server.ts).
+    const result = await runEngineForStorage(scenario, { userId: user.id, purpose: "save" });
+    // Past a quota nothing is written (one transaction).
+    scenarioId = write(tank, target, intent, name.data, scenario, start, settingsHash(scenario), result);
   } catch (error) {
-    // Past a quota nothing was written (one transaction): say what to do, keep the input.
-    if (error instanceof QuotaExceeded) return redraw(values, units, { "": error.message }, 413);
-    throw error;
+    const refused = formRefusal(error);
+    if (!refused) throw error;
+    return redraw(values, units, { "": refused.message }, refused.status);
   }
   return { scenarioId };
 }

@@ -6,14 +6,14 @@
 import { eq } from "drizzle-orm";
 import type { Scenario } from "~models";
 import { scenarios } from "~/db/schema";
-import { insertScenarioWithRun, runOrRefuseForStorage, writeOrRefuse } from "~/features/scenarios/scenario-api.server";
-import { withTankTargets } from "~/features/runs/simulation.server";
+import { insertScenarioWithRun, write } from "~/features/scenarios/scenario-api.server";
+import { runEngineForStorage, withTankTargets } from "~/features/runs/simulation.server";
 import type { TankRow } from "~/features/tanks/tanks.server";
 
 /**
  * Runs `settings` (with the tank's targets) and stores them as a new scenario with its run and
- * start date in one transaction; returns the new id. A ModelError comes back as the API's 422
- * Response (runOrRefuse).
+ * start date in one transaction; returns the new id. Throws ModelError, RunRefused or
+ * QuotaExceeded (the route's edge answers them).
  */
 export async function saveScenarioVariant(
   tank: TankRow,
@@ -23,8 +23,8 @@ export async function saveScenarioVariant(
   settings: Scenario,
 ): Promise<number> {
   const scenario = withTankTargets(settings, tank);
-  const result = await runOrRefuseForStorage(scenario, { userId: tank.ownerId, purpose: "save" });
-  return writeOrRefuse((tx) => {
+  const result = await runEngineForStorage(scenario, { userId: tank.ownerId, purpose: "save" });
+  return write((tx) => {
     const id = insertScenarioWithRun(tx, tank.id, name, scenario, result, sourceId);
     tx.update(scenarios)
       .set({ startDate: new Date(startMs) })

@@ -10,11 +10,11 @@ import { notFound } from "~/permissions.server";
 export type TankRow = typeof tanks.$inferSelect;
 export type ScenarioRow = typeof scenarios.$inferSelect;
 
-/** Route params are strings; anything but a positive integer id is simply "not found". */
-export function parseId(raw: string | undefined): number {
-  if (!raw || !/^\d{1,12}$/.test(raw)) notFound();
+/** Route params are strings; anything but a positive integer id is simply "not found" (with `message`). */
+export function parseId(raw: string | undefined, message?: string): number {
+  if (!raw || !/^\d{1,12}$/.test(raw)) notFound(message);
   const id = Number(raw);
-  if (!Number.isSafeInteger(id) || id <= 0) notFound();
+  if (!Number.isSafeInteger(id) || id <= 0) notFound(message);
   return id;
 }
 
@@ -42,9 +42,9 @@ function prepared() {
 }
 
 export function requireOwnedTank(userId: number, tankIdParam: string | undefined): TankRow {
-  const tankId = parseId(tankIdParam);
-  const tank = prepared().ownedTank.get({ tankId, userId });
-  if (!tank) notFound("There is no such tank among yours.");
+  const message = "There is no such tank among yours.";
+  const tank = prepared().ownedTank.get({ tankId: parseId(tankIdParam, message), userId });
+  if (!tank) notFound(message);
   return tank;
 }
 
@@ -54,22 +54,23 @@ export function requireOwnedScenario(
   scenarioIdParam: string | undefined,
 ): { tank: TankRow; scenario: ScenarioRow } {
   const tank = requireOwnedTank(userId, tankIdParam);
-  const scenarioId = parseId(scenarioIdParam);
-  const scenario = prepared().scenarioInTank.get({ scenarioId, tankId: tank.id });
-  if (!scenario) notFound("There is no such scenario in this tank.");
+  const message = "There is no such scenario in this tank.";
+  const scenario = prepared().scenarioInTank.get({ scenarioId: parseId(scenarioIdParam, message), tankId: tank.id });
+  if (!scenario) notFound(message);
   return { tank, scenario };
 }
 
 /** A scenario by id alone, for the API (owner checked through its tank). */
 export function requireOwnedScenarioById(userId: number, scenarioIdParam: string | undefined): { tank: TankRow; scenario: ScenarioRow } {
-  const scenarioId = parseId(scenarioIdParam);
+  const message = "There is no such scenario among yours.";
+  const scenarioId = parseId(scenarioIdParam, message);
   const row = getDb()
     .select({ scenario: scenarios, tank: tanks })
     .from(scenarios)
     .innerJoin(tanks, eq(tanks.id, scenarios.tankId))
     .where(and(eq(scenarios.id, scenarioId), eq(tanks.ownerId, userId)))
     .get();
-  if (!row) notFound("There is no such scenario among yours.");
+  if (!row) notFound(message);
   return row;
 }
 

@@ -9,7 +9,7 @@ import { FormMessage } from "~/components/ui/field";
 import { lessonRun, requireLesson, requireOwnClass } from "~/features/classes/classes.server";
 import { requireUser } from "~/permissions.server";
 import { packedResultsPayload, resultsPayload } from "~/features/runs/results.server";
-import { runProblem } from "~/features/runs/simulation.server";
+import { runProblem } from "~/http/pages.server";
 import { displayUnitsFor, formatNumber } from "~/utils/display-units";
 import { unpackSeries } from "~/features/runs/series-packing";
 import { Breadcrumbs } from "~/components/breadcrumbs";

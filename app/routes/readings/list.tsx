@@ -7,7 +7,7 @@ import { FormMessage, TextField } from "~/components/ui/field";
 import { getDb } from "~/db/client.server";
 import { readings } from "~/db/schema";
 import { requireUser } from "~/permissions.server";
-import { checkNewReadings, QuotaExceeded } from "~/quotas.server";
+import { checkNewReadings } from "~/quotas.server";
 import {
   findReading,
   listReadings,
@@ -21,7 +21,7 @@ import {
 import { listScenarios, requireOwnedTank } from "~/features/tanks/tanks.server";
 import { displayUnitsFor, formatNumber } from "~/utils/display-units";
 import { formValues } from "~/utils/form-errors";
-import { invalid, readForm } from "~/http/pages.server";
+import { invalid, readForm, refusedForm } from "~/http/pages.server";
 import { listHref } from "~/routes/readings/list-href";
 import {
   clashMessage,
@@ -99,8 +99,7 @@ export async function action({ request, params }: Route.ActionArgs) {
           .run();
       });
     } catch (error) {
-      if (error instanceof QuotaExceeded) return invalid({ "": error.message }, values, 413);
-      throw error;
+      return refusedForm(error, values);
     }
   }
   return redirect(listHref(tank.id, { ...back, edit: undefined, saved: existing ? "updated" : "added" }));

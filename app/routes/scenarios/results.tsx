@@ -10,9 +10,9 @@ import { WhatIfPanel, type WhatIfPreview } from "~/components/what-if-panel";
 import { requireUser } from "~/permissions.server";
 import { modelStartMs, readingsForChart } from "~/features/readings/readings.server";
 import { packedResultsPayload, resultsPayload } from "~/features/runs/results.server";
-import { refusal } from "~/features/scenarios/copies.server";
 import { saveScenarioWithRun } from "~/features/scenarios/scenario-api.server";
-import { ensureRun, readStoredSettings, runProblem, withTankTargets } from "~/features/runs/simulation.server";
+import { ensureRun, readStoredSettings, withTankTargets } from "~/features/runs/simulation.server";
+import { refusedForm, runProblem } from "~/http/pages.server";
 import { requireOwnedScenario } from "~/features/tanks/tanks.server";
 import { displayUnitsFor, formatNumber } from "~/utils/display-units";
 import { formValues } from "~/utils/form-errors";
@@ -78,9 +78,7 @@ export async function action({ request, params }: Route.ActionArgs) {
     const id = await saveScenarioWithRun(tank, "new", name.data, applyWhatIf(saved, changes.data));
     return redirect(`/tanks/${tank.id}/scenarios/${id}`);
   } catch (error) {
-    const refused = await refusal(error);
-    if (refused) return invalid({ "": refused.message }, values, refused.status);
-    throw error;
+    return refusedForm(error, values);
   }
 }
 
