@@ -1,6 +1,6 @@
 /**
- * The engine's worker threads: a small pool that each run one engine task at a time
- * (app/features/jobs/engine-tasks.server.ts), fed from a fair queue.
+ * The engine's worker threads: a piscina pool whose workers each run one engine task at a time
+ * (app/features/jobs/engine-tasks.server.ts), fed from our fair queue (piscina's taskQueue).
  *
  * The pool runs the built worker (build/server/engine-worker.js, a second SSR entry in
  * vite.config.ts) when there is one beside the server bundle. From the TypeScript sources
@@ -16,7 +16,7 @@
  */
 import fs from "node:fs";
 import os from "node:os";
-import { Worker } from "node:worker_threads";
+import Piscina, { queueOptionsSymbol, type TaskQueue } from "piscina";
 import { runEngineTask, type EngineTask, type EngineTaskResult } from "~/features/jobs/engine-tasks.server";
 
 export type Lane = "interactive" | "job";
@@ -83,6 +83,19 @@ export class FairQueue<T> {
     return undefined;
   }
 
+  /** Takes an item out wherever it waits (an aborted task). */
+  remove(item: T): void {
+    for (const owners of Object.values(this.lanes)) {
+      for (const [owner, list] of owners) {
+        const i = list.indexOf(item);
+        if (i < 0) continue;
+        list.splice(i, 1);
+        if (!list.length) owners.delete(owner);
+        return;
+      }
+    }
+  }
+
   size(lane: Lane): number {
     let n = 0;
     for (const list of this.lanes[lane].values()) n += list.length;
@@ -93,6 +106,36 @@ export class FairQueue<T> {
     const all = [...this.lanes.interactive.values(), ...this.lanes.job.values()].flat();
     this.lanes = { interactive: new Map(), job: new Map() };
     return all;
+  }
+}
+
+/** Where a task waits: carried on the task under piscina's queue-options symbol (not sent to the worker). */
+type QueuePlace = { lane: Lane; owner: string };
+type PlacedTask = EngineTask & { [queueOptionsSymbol]: QueuePlace };
+
+/** The fair queue as piscina's task queue: each task's lane and owner come with it. */
+export class FairTaskQueue implements TaskQueue {
+  private readonly queue = new FairQueue<Parameters<TaskQueue["push"]>[0]>();
+
+  get size(): number {
+    return this.queue.size("interactive") + this.queue.size("job");
+  }
+
+  push(task: Parameters<TaskQueue["push"]>[0]): void {
+    const place = task[queueOptionsSymbol] as QueuePlace | null;
+    this.queue.push(task, place?.lane ?? "job", place?.owner ?? "anyone");
+  }
+
+  shift(): Parameters<TaskQueue["push"]>[0] | null {
+    return this.queue.next() ?? null;
+  }
+
+  remove(task: Parameters<TaskQueue["push"]>[0]): void {
+    this.queue.remove(task);
+  }
+
+  waiting(lane: Lane): number {
+    return this.queue.size(lane);
   }
 }
 
@@ -132,70 +175,34 @@ function inlinePool(): EnginePool {
 }
 
 function threadPool(workerUrl: URL, size: number): EnginePool {
-  type Slot = { worker: Worker; current: (Pending & { id: number }) | null };
-  const slots: Slot[] = [];
-  const queue = new FairQueue<Pending>();
-  let nextId = 1;
+  const queue = new FairTaskQueue();
+  const piscina = new Piscina<PlacedTask, EngineTaskResult>({
+    filename: workerUrl.href,
+    minThreads: size,
+    maxThreads: size,
+    concurrentTasksPerWorker: 1,
+    // Workers stay up: starting one costs the engine's module load again.
+    idleTimeout: Number.MAX_SAFE_INTEGER,
+    taskQueue: queue,
+  });
   let closed = false;
-
-  const spawn = (): Slot => {
-    const worker = new Worker(workerUrl);
-    const slot: Slot = { worker, current: null };
-    worker.unref(); // an idle pool never keeps the process alive
-    worker.on("message", (msg: { id: number; result?: EngineTaskResult; error?: string }) => {
-      const job = slot.current;
-      if (!job || job.id !== msg.id) return;
-      slot.current = null;
-      worker.unref();
-      if (msg.error !== undefined) job.reject(new Error(msg.error));
-      else job.resolve(msg.result!);
-      pump();
-    });
-    const fail = (error: Error) => {
-      const job = slot.current;
-      slot.current = null;
-      const i = slots.indexOf(slot);
-      if (i >= 0) slots.splice(i, 1);
-      job?.reject(new Error(`An engine worker stopped: ${error.message}`));
-      if (!closed) {
-        slots.push(spawn());
-        pump();
-      }
-    };
-    worker.on("error", fail);
-    worker.on("exit", (code) => {
-      if (!closed && slots.includes(slot)) fail(new Error(`exit code ${code}`));
-    });
-    return slot;
-  };
-
-  const pump = () => {
-    for (const slot of slots) {
-      if (slot.current) continue;
-      const next = queue.next();
-      if (!next) return;
-      const id = nextId++;
-      slot.current = { ...next, id };
-      slot.worker.ref(); // busy: keep the process alive until the answer comes
-      slot.worker.postMessage({ id, task: next.task });
-    }
-  };
-
-  for (let i = 0; i < size; i++) slots.push(spawn());
   return {
     mode: "threads",
     size,
-    run: (task, options) =>
-      new Promise((resolve, reject) => {
-        if (closed) return reject(new Error("The engine pool is closed."));
-        queue.push({ task, resolve, reject }, options?.lane ?? "job", ownerOf(options));
-        pump();
-      }),
-    waiting: () => ({ interactive: queue.size("interactive"), job: queue.size("job") }),
+    run: async (task, options) => {
+      if (closed) throw new Error("The engine pool is closed.");
+      const placed = { ...task, [queueOptionsSymbol]: { lane: options?.lane ?? "job", owner: ownerOf(options) } };
+      try {
+        return await piscina.run(placed as PlacedTask);
+      } catch (error) {
+        if (closed) throw new Error("The engine pool is closed.", { cause: error });
+        throw error instanceof Error ? error : new Error(String(error));
+      }
+    },
+    waiting: () => ({ interactive: queue.waiting("interactive"), job: queue.waiting("job") }),
     close: async () => {
       closed = true;
-      for (const p of queue.drain()) p.reject(new Error("The engine pool is closed."));
-      await Promise.all(slots.splice(0).map((s) => s.worker.terminate()));
+      await piscina.destroy();
     },
   };
 }
