@@ -1,6 +1,6 @@
 import type { Route } from "./+types/export";
 import { requireUser } from "~/permissions.server";
-import { readingsCsv } from "~/features/readings/readings-csv.server";
+import { readingsCsv } from "~/features/readings/readings-csv-export.server";
 import { allReadings, measureUnitsFor } from "~/features/readings/readings.server";
 import { requireOwnedTank } from "~/features/tanks/tanks.server";
 import { displayUnitsFor } from "~/utils/display-units";

@@ -1,6 +1,6 @@
 import type { Route } from "./+types/template";
 import { requireUser } from "~/permissions.server";
-import { templateCsv } from "~/features/readings/readings-csv.server";
+import { templateCsv } from "~/features/readings/readings-csv-export.server";
 import { measureUnitsFor } from "~/features/readings/readings.server";
 import { requireOwnedTank } from "~/features/tanks/tanks.server";
 import { displayUnitsFor } from "~/utils/display-units";
