@@ -39,7 +39,7 @@ export type { SimulateOptions, SimulationResult, SimulationStats, Series, KeyFig
 export type { RawSeries } from "./nitrogen/recorder";
 export type { NitrogenBudget } from "./nitrogen/budget";
 export type { Stocks } from "./nitrogen/stocks";
-export type { ModelWarning, WarningCode } from "./nitrogen/warnings";
+export type { ModelWarning, WarningCode } from "./nitrogen/result";
 export { ammoniaCriteria } from "./nitrogen/criteria";
 export type { AmmoniaCriteria } from "./nitrogen/criteria";
 export type { ZoneCapacity } from "./nitrogen/low-oxygen-zones";

@@ -12,7 +12,7 @@ import { hasRole } from "~/permissions.server";
 import { giveBack, LIMITS, take, takeAll, waitText } from "~/rate-limits.server";
 import type { SessionUser } from "~/session.server";
 import { hashToken, randomToken } from "~/utils/crypto.server";
-import type { ClassRow } from "~/features/classes/classes.server";
+import type { ClassRow } from "~/features/classes/class-rows";
 
 // ---------------------------------------------------------------------------------------------
 // Join codes

@@ -21,20 +21,26 @@ import { and, asc, eq, inArray } from "drizzle-orm";
 import { data } from "react-router";
 import type { Scenario } from "~models";
 import { getDb } from "~/db/client.server";
-import { classes, classMembers, lessonCopies, lessons, scenarios, tanks, users } from "~/db/schema";
+import { classes, classMembers, lessons, scenarios, tanks, users } from "~/db/schema";
 import { hasRole, notFound } from "~/permissions.server";
 import { buildScenarioForm } from "~/features/scenarios/scenario-form.server";
 import type { SessionUser } from "~/session.server";
-import { findRun, readStoredSettings, runEngine, settingsHash, type StoredRun } from "~/features/runs/simulation.server";
+import {
+  findRun,
+  readStoredSettings,
+  runEngine,
+  settingsHash,
+  type StoredRun,
+} from "~/features/runs/simulation.server";
 import { parseId } from "~/features/tanks/tanks.server";
 import { READ_ONLY_CLASS } from "~/features/classes/class-messages";
 import type { DisplayUnits } from "~/utils/display-units";
 import type { FieldErrors } from "~/utils/form-errors";
 import type { FormField, ScenarioFormModel } from "~/features/scenarios/scenario-form-types";
 
-export type ClassRow = typeof classes.$inferSelect;
-export type LessonRow = typeof lessons.$inferSelect;
-export type LessonCopyRow = typeof lessonCopies.$inferSelect;
+import type { ClassRow, LessonRow } from "~/features/classes/class-rows";
+
+export type { ClassRow, LessonCopyRow, LessonRow } from "~/features/classes/class-rows";
 
 // Membership (codes, roster, invitations) and students' copies live in their own modules.
 export * from "~/features/classes/class-members.server";

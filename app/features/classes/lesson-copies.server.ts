@@ -11,7 +11,7 @@ import { notFound } from "~/permissions.server";
 import type { SessionUser } from "~/session.server";
 import { readStoredSettings } from "~/features/runs/simulation.server";
 import { parseId, type ScenarioRow, type TankRow } from "~/features/tanks/tanks.server";
-import type { ClassRow, LessonCopyRow, LessonRow } from "~/features/classes/classes.server";
+import type { ClassRow, LessonCopyRow, LessonRow } from "~/features/classes/class-rows";
 import { roster } from "~/features/classes/class-members.server";
 
 // ---------------------------------------------------------------------------------------------
