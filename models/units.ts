@@ -56,7 +56,7 @@ export const UNITS = {
 } as const satisfies Record<string, Record<string, UnitDef>>;
 
 export type ConvertibleQuantity = keyof typeof UNITS;
-export type VolumeUnit = keyof typeof UNITS.volume;
+type VolumeUnit = keyof typeof UNITS.volume;
 export type TemperatureUnit = keyof typeof UNITS.temperature;
 export type NitrateUnit = keyof typeof UNITS.nitrate;
 export type NitriteUnit = keyof typeof UNITS.nitrite;
@@ -76,7 +76,7 @@ export type DisplayUnits = {
 /** The engine's own units: what the API speaks. */
 export const CANONICAL_UNITS: DisplayUnits = { volume: "L", temperature: "C", nitrate: "asN", nitrite: "asN", ammonia: "asN", kh: "dKH" };
 
-export function isConvertible(quantity: string): quantity is ConvertibleQuantity {
+function isConvertible(quantity: string): quantity is ConvertibleQuantity {
   return Object.hasOwn(UNITS, quantity);
 }
 

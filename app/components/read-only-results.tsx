@@ -5,7 +5,7 @@ import { CautionsPanel } from "~/components/cautions";
 import { KeyFiguresList } from "~/components/key-figures";
 import { SettingsSummary } from "~/components/settings-summary";
 import { FormMessage } from "~/components/ui/field";
-import type { ReadOnlyView } from "~/features/runs/read-only-view.server";
+import type { ReadOnlyView } from "~/features/runs/results-payload";
 import { formatNumber } from "~/utils/display-units";
 import { unpackSeries } from "~/features/runs/series-packing";
 

@@ -29,7 +29,7 @@ export function openSqlite(file: string): Database.Database {
 }
 
 /** Applies the committed migrations in drizzle/ (relative to the working directory). */
-export function migrateDb(db: Db): void {
+function migrateDb(db: Db): void {
   migrate(db, { migrationsFolder: path.resolve("drizzle") });
 }
 

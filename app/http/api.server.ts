@@ -36,7 +36,7 @@ export function json(data: unknown, init: ResponseInit = {}): Response {
 }
 
 /** The body as UTF-8 text, reading no more than `maxBytes` (the rest is never buffered). */
-export async function readBodyText(request: Request, maxBytes: number): Promise<string> {
+async function readBodyText(request: Request, maxBytes: number): Promise<string> {
   if (!request.body) return "";
   const reader = request.body.getReader();
   const chunks: Uint8Array[] = [];

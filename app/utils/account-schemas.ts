@@ -18,7 +18,7 @@ const COMMON_PASSWORDS = new Set([
   "fishtank123",
 ]);
 
-export const EmailSchema = z
+const EmailSchema = z
   .string({ error: "Enter your e-mail address." })
   .trim()
   .toLowerCase()
@@ -26,14 +26,14 @@ export const EmailSchema = z
   .max(254, "That e-mail address is too long.")
   .pipe(z.email("Enter an e-mail address like name@example.org."));
 
-export const NewPasswordSchema = z
+const NewPasswordSchema = z
   .string({ error: "Choose a password." })
   .min(10, "Use at least 10 characters.")
   .max(200, "Use at most 200 characters.")
   .refine((p) => !COMMON_PASSWORDS.has(p.toLowerCase()), "That password is too common; choose another.")
   .refine((p) => new Set(p).size >= 4, "That password is too easy to guess; mix more characters.");
 
-export const NameSchema = z
+const NameSchema = z
   .string({ error: "Tell us what to call you." })
   .trim()
   .min(1, "Tell us what to call you.")

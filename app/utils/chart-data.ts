@@ -4,7 +4,7 @@
  * values and `units` holds their labels.
  */
 
-import type { NitrogenBudget, Stocks } from "~models";
+import type { NitrogenBudget } from "~models";
 
 /** The species a chart can show; "plants" is drawn on a second axis (g dry mass). */
 export type SpeciesKey = "tan" | "nh3" | "no2" | "no3";
@@ -63,12 +63,6 @@ export type ChartOverlay = {
   label: string;
   series: ChartSeries;
 };
-
-/**
- * Nitrogen held in each pool at one moment, mg N: the engine's own type (a type-only import,
- * so no engine code reaches the browser). `plantsByGroup` follows `ChartSeries.plants`.
- */
-export type ChartStocks = Stocks;
 
 /**
  * The nitrogen budget of a run, cumulative, mg N: the engine's own type, so a loader passes

@@ -85,7 +85,7 @@ export function speciesValues(series: ChartSeries, key: SeriesKey): ArrayLike<nu
 const totals = new WeakMap<object, Float64Array>();
 
 /** Sum of all plant groups per sample (cached per series). */
-export function totalPlantMass(series: ChartSeries): Float64Array {
+function totalPlantMass(series: ChartSeries): Float64Array {
   const hit = totals.get(series);
   if (hit) return hit;
   const sum = new Float64Array(series.t.length);

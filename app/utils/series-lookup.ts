@@ -54,8 +54,6 @@ export function sampleSide(t: ArrayLike<number>, i: number): Side | null {
   return null;
 }
 
-export const CURSOR_KEYS = ["ArrowLeft", "ArrowRight", "ArrowUp", "ArrowDown", "PageUp", "PageDown", "Home", "End"];
-
 /**
  * The cursor's next sample for a key, following the slider pattern of the WAI-ARIA Authoring
  * Practices: →/↑ one sample later, ←/↓ one earlier, Page Up/Page Down `pageDays` (7) later or

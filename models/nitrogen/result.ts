@@ -8,7 +8,7 @@ import type { ZoneCapacity } from "./low-oxygen-zones";
 
 /** Version of the engine's numbers: bump when a change alters results for the same scenario. */
 /** What the warnings of a run (warnings.ts) say. */
-export type WarningCode =
+type WarningCode =
   | "feedBeyondOxygenSupply"
   | "heavyFeedingForVolume"
   | "lowOxygen"

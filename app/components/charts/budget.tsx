@@ -113,7 +113,7 @@ function Segment({
   );
 }
 
-export type BudgetColumn = { label: string; budget: ChartBudget; plantNames?: readonly string[] };
+type BudgetColumn = { label: string; budget: ChartBudget; plantNames?: readonly string[] };
 
 export type BudgetTableProps = {
   /** One run (shown in detail) or 2–4 runs side by side, the first as reference. */

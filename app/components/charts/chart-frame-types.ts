@@ -31,7 +31,7 @@ export type FramePoint = {
   title: string;
 };
 
-export type FrameCursor = {
+type FrameCursor = {
   index: number;
   moveTo: (i: number, via: CursorVia) => void;
   onKeyDown: (e: React.KeyboardEvent) => void;

@@ -26,7 +26,7 @@ import {
 } from "~/components/charts/palette";
 import type { ChartEvent, ChartGuides, ChartSeries, ChartUnits, SeriesKey } from "~/utils/chart-data";
 
-export type CompareRun = { label: string; series: ChartSeries };
+type CompareRun = { label: string; series: ChartSeries };
 
 export type CompareChartProps = {
   title: string;
@@ -54,7 +54,7 @@ export type CompareChartProps = {
 const EMPTY: readonly never[] = [];
 
 /** Colour and dash of the k-th scenario: the species' own colour first, then ours. */
-export function compareStyle(k: number, key: SeriesKey): { color: string; dash: string | undefined } {
+function compareStyle(k: number, key: SeriesKey): { color: string; dash: string | undefined } {
   return {
     color: k === 0 ? SERIES_COLORS[key] : COMPARE_COLORS[(k - 1) % COMPARE_COLORS.length],
     dash: COMPARE_DASHES[k % COMPARE_DASHES.length],

@@ -3,7 +3,7 @@ import { useCallback, useEffect, useLayoutEffect, useRef, useState } from "react
 import { stepCursor } from "~/utils/series-lookup";
 
 /** useLayoutEffect in the browser, useEffect on the server (where neither runs). */
-export const useIsomorphicLayoutEffect = typeof window === "undefined" ? useEffect : useLayoutEffect;
+const useIsomorphicLayoutEffect = typeof window === "undefined" ? useEffect : useLayoutEffect;
 
 /**
  * Width of an element in whole px, from a ResizeObserver. Null until mounted in the browser:

@@ -7,8 +7,7 @@ import { take } from "~/rate-limits.server";
 import { revokeAllSessions } from "~/session.server";
 import { hashToken, randomToken } from "~/utils/crypto.server";
 
-export const RESET_TOKEN_TTL_MS = 60 * 60 * 1000;
-
+const RESET_TOKEN_TTL_MS = 60 * 60 * 1000;
 
 /**
  * Starts a reset for `email` if it has an account. The caller answers the same either way,

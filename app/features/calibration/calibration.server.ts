@@ -30,7 +30,7 @@ export const MULTIPLIER_LABELS: Record<MultiplierKey, { label: string; hint: str
 };
 
 /** Iterations of the fit at most: with three multipliers about 150 engine runs. */
-export const MAX_ITERATIONS = 25;
+const MAX_ITERATIONS = 25;
 
 export const CalibrateInputSchema = z.object({
   fit: z

@@ -46,7 +46,7 @@ export function isMember(classId: number, userId: number): boolean {
     .get();
 }
 
-export function classIsRun(cls: Pick<ClassRow, "educatorId">): boolean {
+function classIsRun(cls: Pick<ClassRow, "educatorId">): boolean {
   const educator = getDb().select({ role: users.role }).from(users).where(eq(users.id, cls.educatorId)).get();
   return !!educator && hasRole(educator, "educator");
 }
@@ -113,7 +113,7 @@ export async function joinWithCode(user: SessionUser, input: string): Promise<Jo
 // ---------------------------------------------------------------------------------------------
 // Invitations
 
-export const INVITE_DAYS = 14;
+const INVITE_DAYS = 14;
 
 /**
  * Sends an invitation with a single-use link (the token is stored hashed). The row is written

@@ -40,7 +40,7 @@ import type { FormField, ScenarioFormModel } from "~/features/scenarios/scenario
 
 import type { ClassRow, LessonRow } from "~/features/classes/class-rows";
 
-export type { ClassRow, LessonCopyRow, LessonRow } from "~/features/classes/class-rows";
+export type { ClassRow, LessonRow } from "~/features/classes/class-rows";
 
 // Membership (codes, roster, invitations) and students' copies live in their own modules.
 export * from "~/features/classes/class-members.server";

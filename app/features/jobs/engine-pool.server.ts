@@ -20,7 +20,7 @@ import Piscina, { queueOptionsSymbol, type TaskQueue } from "piscina";
 import { runEngineTask, type EngineTask, type EngineTaskResult } from "~/features/jobs/engine-tasks.server";
 
 export type Lane = "interactive" | "job";
-export type RunOptions = { lane?: Lane; owner?: string };
+type RunOptions = { lane?: Lane; owner?: string };
 
 export type EnginePool = {
   readonly mode: "threads" | "inline";
@@ -32,7 +32,7 @@ export type EnginePool = {
 };
 
 /** Workers: one fewer than the cores (the request thread keeps one), at least 1, at most 4. */
-export function defaultPoolSize(): number {
+function defaultPoolSize(): number {
   const cores = typeof os.availableParallelism === "function" ? os.availableParallelism() : os.cpus().length;
   return Math.max(1, Math.min(4, cores - 1));
 }
@@ -44,7 +44,7 @@ export function sourceWorkerUrl(): URL {
 }
 
 /** The built worker beside the server bundle (server code sits in build/server/assets/), or null from sources. */
-export function builtWorkerUrl(): URL | null {
+function builtWorkerUrl(): URL | null {
   for (const relative of ["../engine-worker.js", "./engine-worker.js"]) {
     const url = new URL(relative, import.meta.url);
     if (url.protocol === "file:" && fs.existsSync(url)) return url;
@@ -58,7 +58,7 @@ type Pending = { task: EngineTask; resolve: (r: EngineTaskResult) => void; rejec
  * Tasks by lane, then by owner; `next()` takes the interactive lane first and, within a lane,
  * the owner whose turn it is (each owner's own tasks in order).
  */
-export class FairQueue<T> {
+class FairQueue<T> {
   private lanes: Record<Lane, Map<string, T[]>> = { interactive: new Map(), job: new Map() };
 
   push(item: T, lane: Lane, owner: string): void {

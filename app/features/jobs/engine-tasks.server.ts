@@ -56,7 +56,7 @@ export type EngineTask =
       limits: SimulateOptions;
     };
 
-export type Samples = { tan: number[]; no2: number[]; no3: number[] };
+type Samples = { tan: number[]; no2: number[]; no3: number[] };
 
 /**
  * What the target finder judges, mg N/L. "Inorganic N" is TAN + nitrite-N + nitrate-N: the
@@ -74,7 +74,7 @@ export type GoalFigures = {
 };
 
 /** A ModelError as plain data, so it crosses the thread boundary and can be thrown again. */
-export type ModelErrorData = { code: ModelErrorCode; message: string; day: number | null; detail: readonly string[] };
+type ModelErrorData = { code: ModelErrorCode; message: string; day: number | null; detail: readonly string[] };
 
 export type EngineTaskResult =
   | { kind: "simulate"; result: SimulationResult | null; error: ModelErrorData | null }

@@ -16,15 +16,14 @@ import type { Role } from "~/db/schema";
 import { getEnginePool } from "~/features/jobs/engine-pool.server";
 import type { EngineTask, EngineTaskResult } from "~/features/jobs/engine-tasks.server";
 import { randomToken } from "~/utils/crypto.server";
+import type { JobJson, JobKind, JobStatus } from "~/features/jobs/job-json";
+export type { JobJson, JobKind } from "~/features/jobs/job-json";
 
 export {
-  builtWorkerUrl,
   createEnginePool,
-  defaultPoolSize,
   getEnginePool,
   setEnginePool,
   sourceWorkerUrl,
-  type EnginePool,
 } from "~/features/jobs/engine-pool.server";
 
 // ---------------------------------------------------------------------------------------------
@@ -33,8 +32,6 @@ export {
 /** Limits for a run inside a job: like a request's, a bad point fails fast. */
 export const JOB_RUN_LIMITS = { maxWallMs: 3000, maxSteps: 300_000 };
 
-export type JobKind = "sweep" | "calibration" | "target";
-export type JobStatus = "waiting" | "running" | "done" | "failed" | "cancelled";
 
 /** Limits that keep one person from tying up the server. */
 export const JOB_LIMITS = {
@@ -85,7 +82,7 @@ export class JobRefused extends Error {
 }
 
 /** Thrown inside a job's work when it was cancelled. */
-export class JobCancelled extends Error {
+class JobCancelled extends Error {
   constructor() {
     super("Cancelled.");
   }
@@ -130,7 +127,7 @@ function prune(now = Date.now()) {
 }
 
 /** This person's job that is running or waiting, if any. */
-export function runningJobOf(userId: number): Job | null {
+function runningJobOf(userId: number): Job | null {
   for (const job of jobs.values()) if (job.userId === userId && isActive(job)) return job;
   return null;
 }
@@ -151,7 +148,7 @@ function admitWaiting(): void {
 }
 
 /** How many jobs are ahead of this one in line (0 when it is next, or running). */
-export function jobsAhead(job: Job): number {
+function jobsAhead(job: Job): number {
   const i = line.findIndex((w) => w.job === job);
   return i < 0 ? 0 : i;
 }
@@ -296,7 +293,7 @@ export function cancelJob(userId: number, id: string): Job | null {
 }
 
 /** What a poll answers. */
-export function jobJson(job: Job) {
+export function jobJson(job: Job): JobJson {
   return {
     id: job.id,
     kind: job.kind,
@@ -315,8 +312,6 @@ export function jobJson(job: Job) {
     elapsedMs: (job.finishedAt ?? Date.now()) - job.startedAt,
   };
 }
-
-export type JobJson = ReturnType<typeof jobJson>;
 
 /**
  * An error whose message is meant for the keeper (e.g. "no readings fall within the run"): the

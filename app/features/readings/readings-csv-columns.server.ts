@@ -59,7 +59,7 @@ export function mapHeader(header: string): Target | null {
 }
 
 /** The column name the export and template use for a measure in a unit. */
-export function columnName(key: MeasureKey, units: MeasureUnits): string {
+function columnName(key: MeasureKey, units: MeasureUnits): string {
   switch (key) {
     case "tan":
       return { asN: "tan_n_mg_l", asNH3: "tan_nh3_mg_l", asNH4: "tan_nh4_mg_l" }[units.tan];

@@ -53,8 +53,8 @@ export const MEASURES: Record<MeasureKey, { label: string; quantity: Quantity; m
 };
 
 /** Earliest reading accepted, and how far ahead of now a reading may be dated (clock differences). */
-export const EARLIEST_READING_MS = Date.UTC(1990, 0, 1);
-export const FUTURE_SLACK_MS = DAY_MS;
+const EARLIEST_READING_MS = Date.UTC(1990, 0, 1);
+const FUTURE_SLACK_MS = DAY_MS;
 
 export function measureUnitsFor(units: DisplayUnits): MeasureUnits {
   return {
@@ -73,7 +73,7 @@ export function measureUnitLabel(key: MeasureKey, units: MeasureUnits): string {
 }
 
 /** Accepts "12.5", and "12,5" where a decimal comma is expected; nothing else that is not a plain number. */
-export function parseDecimal(text: string, decimalComma: boolean): number | null {
+function parseDecimal(text: string, decimalComma: boolean): number | null {
   let t = text.trim();
   if (decimalComma) t = t.replace(/^([-+]?\d*),(\d+)$/, "$1.$2");
   if (!/^[-+]?(\d+\.?\d*|\.\d+)([eE][-+]?\d+)?$/.test(t)) return null;
@@ -138,7 +138,7 @@ export type ReadingInput = Record<MeasureKey, number | null> & { takenAt: number
 
 export const SORT_KEYS = ["takenAt", ...MEASURE_KEYS] as const;
 export type SortKey = (typeof SORT_KEYS)[number];
-export const PAGE_SIZE = 25;
+const PAGE_SIZE = 25;
 
 export function listReadings(tankId: number, sort: SortKey, dir: "asc" | "desc", page: number) {
   const db = getDb();

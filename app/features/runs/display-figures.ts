@@ -45,7 +45,7 @@ export function displaySeries(s: Series, units: DisplayUnits): ChartSeries {
  * from memory) and nitrite caution 0.1 mg/L NO2-N (common practice, no source).
  */
 export const FREE_NH3_CAUTION_MG_N = 0.02 * 0.82244;
-export const NITRITE_CAUTION_MG_N = 0.1;
+const NITRITE_CAUTION_MG_N = 0.1;
 
 export function displayGuides(targets: { nitrateLow: number; nitrateHigh: number }, units: DisplayUnits): ChartGuides {
   const no3 = speciesFactor("nitrate", units);

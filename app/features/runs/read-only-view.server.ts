@@ -11,8 +11,10 @@ import { runProblem } from "~/http/pages.server";
 import type { ScenarioRow } from "~/features/tanks/tanks.server";
 import type { DisplayUnits } from "~/utils/display-units";
 import { formatNumber } from "~/utils/display-units";
+import type { ReadOnlyView } from "~/features/runs/results-payload";
+export type { ReadOnlyView } from "~/features/runs/results-payload";
 
-const views = new Map<string, ReadOnlyViewData>();
+const views = new Map<string, ReadOnlyView>();
 const VIEW_CACHE_SIZE = 64;
 
 /**
@@ -23,7 +25,7 @@ export async function readOnlyScenarioView(
   scenario: Pick<ScenarioRow, "id" | "name" | "settings" | "updatedAt">,
   band: { nitrateTargetLow: number; nitrateTargetHigh: number; ownerId: number },
   units: DisplayUnits,
-): Promise<ReadOnlyViewData> {
+): Promise<ReadOnlyView> {
   const key = [scenario.id, scenario.updatedAt.getTime(), band.nitrateTargetLow, band.nitrateTargetHigh, ...Object.values(units)].join("|");
   const hit = views.get(key);
   if (hit) return hit;
@@ -39,7 +41,7 @@ async function buildView(
   scenario: Pick<ScenarioRow, "id" | "name" | "settings">,
   band: { nitrateTargetLow: number; nitrateTargetHigh: number; ownerId: number },
   units: DisplayUnits,
-) {
+): Promise<ReadOnlyView> {
   const ownerId = band.ownerId;
   const settings = readStoredSettings(scenario.settings);
   if (!settings) return { error: "The saved settings of this scenario can no longer be read.", results: null, settings: null };
@@ -56,9 +58,6 @@ async function buildView(
   }
 }
 
-type ReadOnlyViewData = Awaited<ReturnType<typeof buildView>>;
-
-export type ReadOnlyView = ReadOnlyViewData;
 
 /** One sentence for a page description or a forum preview, in the view's units. */
 export function describeView(view: ReadOnlyView): string {

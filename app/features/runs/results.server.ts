@@ -8,14 +8,16 @@ import { displayGuides, displayKeyFigures, displaySeries } from "~/features/runs
 import { speciesFactor } from "~models/units";
 import type { StoredRun } from "~/features/runs/simulation.server";
 import { unitLabels, type DisplayUnits } from "~/utils/display-units";
-import { packSeries, type PackedSeries } from "~/features/runs/series-packing";
+import { packSeries } from "~/features/runs/series-packing";
+import type { PackedResultsPayload, ResultsPayload } from "~/features/runs/results-payload";
+export type { ResultsPayload } from "~/features/runs/results-payload";
 
 /** WHO Guidelines for Drinking-water Quality: nitrate 50 mg/L as NO3 = 11.29 mg/L as N. */
 export const DRINKING_WATER_NITRATE_MG_N = 50 * 0.2259;
 
 // Runs never change once stored, and the scenario a run belongs to is fixed by its settings
 // hash: the converted payload can be kept per run and viewer units.
-const payloads = new Map<string, ReturnType<typeof buildPayload>>();
+const payloads = new Map<string, ResultsPayload>();
 const PAYLOAD_CACHE_SIZE = 64;
 
 /** Everything a results view draws, in `units`; cached per run, settings and units. */
@@ -29,7 +31,7 @@ export function resultsPayload(run: StoredRun, scenario: Scenario, units: Displa
   return payload;
 }
 
-function buildPayload(run: StoredRun, scenario: Scenario, units: DisplayUnits) {
+function buildPayload(run: StoredRun, scenario: Scenario, units: DisplayUnits): ResultsPayload {
   const labels = unitLabels(units);
   return {
     runId: run.id,
@@ -47,15 +49,13 @@ function buildPayload(run: StoredRun, scenario: Scenario, units: DisplayUnits) {
   };
 }
 
-export type ResultsPayload = ReturnType<typeof buildPayload>;
-
-const packed = new WeakMap<ResultsPayload, Omit<ResultsPayload, "series"> & { packedSeries: PackedSeries }>();
+const packed = new WeakMap<ResultsPayload, PackedResultsPayload>();
 
 /**
  * The payload with its series packed into strings (app/features/runs/series-packing.ts) for the
  * busiest page, the owner's results: far cheaper to send. Cached with the payload.
  */
-export function packedResultsPayload(payload: ResultsPayload) {
+export function packedResultsPayload(payload: ResultsPayload): PackedResultsPayload {
   let hit = packed.get(payload);
   if (!hit) {
     const { series, ...rest } = payload;

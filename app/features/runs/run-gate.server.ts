@@ -24,7 +24,7 @@ import { toStorable, type StorableRun } from "~/features/runs/run-packing.server
 /** Bounds for runs started by a request: a bad parameter set fails fast instead of hanging. */
 export const REQUEST_RUN_LIMITS = { maxWallMs: 3000, maxSteps: 300_000 } satisfies SimulateOptions;
 /** Request-thread time a run that looks short may take before it moves to a worker. */
-export const INLINE_BUDGET_MS = 25;
+const INLINE_BUDGET_MS = 25;
 export const RUNS_IN_FLIGHT_PER_PERSON = 2;
 
 /** Who asks for a run, and why: "save" and "preview" have rate limits, "view" does not. */
@@ -40,7 +40,7 @@ export class RunRefused extends Error {
  * Whether a run is short enough to try on the request thread: up to about a year at daily
  * points without modelled meals usually takes 5–15 ms. The budget still stops it if not.
  */
-export function isQuickRun(scenario: Scenario): boolean {
+function isQuickRun(scenario: Scenario): boolean {
   const samples = scenario.run.lengthDays / scenario.run.outputIntervalDays;
   return scenario.run.lengthDays <= 400 && samples <= 1000 && !scenario.fish.pulsedFeeding;
 }

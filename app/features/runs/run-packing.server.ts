@@ -9,7 +9,7 @@ import zlib from "node:zlib";
 import type { Series, SimulationResult } from "~models";
 
 /** Series JSON above this size is stored packed. */
-export const PACK_ABOVE_BYTES = 64 * 1024;
+const PACK_ABOVE_BYTES = 64 * 1024;
 
 /** What the `series` column holds for a packed run (the data is in series_packed). */
 export const PACKED_MARKER = { packed: "deflate-raw" } as const;

@@ -39,7 +39,7 @@ export type StoredRun = {
 };
 
 /** JSON with object keys sorted, so equal settings hash equally whatever their key order. */
-export function canonicalJson(value: unknown): string {
+function canonicalJson(value: unknown): string {
   return JSON.stringify(value, (_key, v) =>
     v && typeof v === "object" && !Array.isArray(v)
       ? Object.fromEntries(Object.entries(v as Record<string, unknown>).sort(([a], [b]) => (a < b ? -1 : 1)))
@@ -173,7 +173,7 @@ export function insertRun(tx: Tx, scenarioId: number, hash: string, run: Storabl
 }
 
 /** Stores a finished run in its own transaction. */
-export function storeRun(scenarioId: number, hash: string, run: StorableRun): StoredRun {
+function storeRun(scenarioId: number, hash: string, run: StorableRun): StoredRun {
   const id = getDb().transaction((tx) => insertRun(tx, scenarioId, hash, run));
   return getRun(id)!;
 }

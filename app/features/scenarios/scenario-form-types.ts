@@ -1,6 +1,6 @@
 /** The setup form as the page draws it: built on the server (app/features/scenarios/scenario-form.server.ts), plain data. */
 
-export type FormFieldKind = "number" | "integer" | "boolean" | "enum" | "text";
+type FormFieldKind = "number" | "integer" | "boolean" | "enum" | "text";
 
 export type FormField = {
   /** Input name: the scenario path, e.g. "water.volumeL" or "plants.0.startMassG". */
@@ -32,7 +32,7 @@ export type PlantRow = {
 };
 
 /** Typical values of each growth form in display units, keyed by field suffix ("startMassG"…). */
-export type GrowthFormPresets = Record<string, Record<string, string>>;
+type GrowthFormPresets = Record<string, Record<string, string>>;
 
 export type ScenarioFormModel = {
   name: string;

@@ -69,7 +69,7 @@ const HIDDEN = new Set(["schemaVersion", "plants.*.id", "targets.nitrateLow", "t
 const FIELDS = listScenarioFields().filter((f) => !HIDDEN.has(f.key));
 
 /** The unit label a field is shown in, in the viewer's units ("mg/L NO3", "%", "g/day"). */
-export function unitFor(field: ScenarioField, units: DisplayUnits): string {
+function unitFor(field: ScenarioField, units: DisplayUnits): string {
   return unitLabel(field.meta.quantity, units, field.meta.unit);
 }
 
@@ -77,7 +77,7 @@ export function unitFor(field: ScenarioField, units: DisplayUnits): string {
  * Up to 4 significant figures, no float noise ("26.42", not "26.417205235814845"). Saving an
  * untouched field keeps its exact stored value (see parseScenarioForm's baseline).
  */
-export function formatInput(x: number): string {
+function formatInput(x: number): string {
   if (!Number.isFinite(x)) return "";
   return String(Number(x.toPrecision(4)));
 }
@@ -175,7 +175,7 @@ export function buildScenarioForm(
 }
 
 /** Row indexes present in a submitted form ("plants.3.name" → 3), in order. */
-export function submittedPlantIndexes(values: Record<string, string>): number[] {
+function submittedPlantIndexes(values: Record<string, string>): number[] {
   const found = new Set<number>();
   for (const key of Object.keys(values)) {
     const m = /^plants\.(\d{1,2})\./.exec(key);

@@ -39,7 +39,7 @@ export const ScenarioNameSchema = z
   .max(120, "Keep the name under 120 characters.");
 
 /** "Run starts on": a date (YYYY-MM-DD) or empty (null: the day the scenario was made); absent when the form does not show it. */
-export const StartDateSchema = z
+const StartDateSchema = z
   .string()
   .trim()
   .optional()
@@ -54,7 +54,7 @@ export const StartDateSchema = z
     return new Date(ms);
   });
 
-export type SetupActionData = { form: ScenarioFormModel; errors: FieldErrors };
+type SetupActionData = { form: ScenarioFormModel; errors: FieldErrors };
 
 export function unitsOf(user: SessionUser): DisplayUnits {
   return displayUnitsFor(user);

@@ -16,7 +16,7 @@ import { scenarios, shareLinks, tanks, users } from "~/db/schema";
 import type { ScenarioRow, TankRow } from "~/features/tanks/tanks.server";
 import { hashToken, randomToken } from "~/utils/crypto.server";
 
-export const SHARE_TOKEN_BYTES = 32;
+const SHARE_TOKEN_BYTES = 32;
 /** randomToken(32) gives 43 base64url characters; anything else is not a token of ours. */
 const TOKEN_PATTERN = /^[A-Za-z0-9_-]{16,128}$/;
 

@@ -41,7 +41,7 @@ export function leverJson(lever: Lever, units: DisplayUnits) {
 }
 
 /** Factor from an outcome's canonical unit to what the person sees, and its unit label. */
-export function outcomeDisplay(
+function outcomeDisplay(
   quantity: Quantity,
   unit: string,
   units: DisplayUnits,
@@ -88,7 +88,7 @@ export function sweepInputSchema(levers: Lever[], units: DisplayUnits, role: Rol
 
 export type SweepInput = z.infer<ReturnType<typeof sweepInputSchema>>;
 
-export type SweepPointJson = { x: number; y: number | null; error: string | null };
+type SweepPointJson = { x: number; y: number | null; error: string | null };
 
 export type SweepResultJson = {
   setting: { id: string; label: string; unit: string; current: number; from: number; to: number };
@@ -97,7 +97,7 @@ export type SweepResultJson = {
 };
 
 /** The values of a sweep, canonical: evenly spaced in display units (what the person typed), integers rounded. */
-export function sweepValues(
+function sweepValues(
   lever: Lever,
   input: SweepInput,
   units: DisplayUnits,

@@ -38,7 +38,7 @@ export function judge(value: number, figures: GoalFigures | null, error: string 
 }
 
 /** Points of the first scan from the least change to the most (see findLeastChange). */
-export const SCAN_STEPS = 8;
+const SCAN_STEPS = 8;
 
 /** Runs of a search at most: the scan, then halving the bracket it found. */
 export function searchRuns(lever: SearchLever): number {

@@ -22,7 +22,7 @@ import { formatDateTime, parseDateTime, toDateTimeInput } from "~/utils/dates";
 import type { DisplayUnits } from "~/utils/display-units";
 import type { FieldErrors } from "~/utils/form-errors";
 
-export const ListQuerySchema = z.object({
+const ListQuerySchema = z.object({
   sort: z.enum(SORT_KEYS).catch("takenAt"),
   dir: z.enum(["asc", "desc"]).catch("desc"),
   page: z.coerce.number().int().min(1).max(100_000).catch(1),
