@@ -4,6 +4,8 @@
  * person's units. Saving the fitted multipliers makes a new scenario (same start date).
  */
 import { z } from "zod";
+import type { CalibrationJson } from "~/features/calibration/calibration-json";
+export type { CalibrationJson } from "~/features/calibration/calibration-json";
 import type { Scenario } from "~models";
 import {
   calibrateMultipliers,
@@ -46,30 +48,6 @@ const SPECIES_UNIT: Record<Species, "ammonia" | "nitrite" | "nitrate"> = {
 };
 const SPECIES_NAME: Record<Species, string> = { tan: "TAN", no2: "Nitrite", no3: "Nitrate" };
 
-export type CalibrationJson = {
-  scenario: { id: number; name: string };
-  readingsUsed: number;
-  residualCount: number;
-  multipliers: {
-    key: MultiplierKey;
-    label: string;
-    fitted: boolean;
-    start: number;
-    value: number;
-    standardError: number | null;
-    low95: number | null;
-    high95: number | null;
-    atBound: boolean;
-  }[];
-  rmse: { species: Species; name: string; unit: string; before: number | null; after: number | null }[];
-  weightedRmseBefore: number;
-  weightedRmseAfter: number;
-  /** Residuals (reading − model) per species, display units, before and after, for the residual plot. */
-  residuals: { species: Species; day: number; before: number; after: number }[];
-  iterations: number;
-  evaluations: number;
-  converged: boolean;
-};
 
 function toJson(
   scenario: { id: number; name: string },
