@@ -27,7 +27,7 @@ export default defineConfig({
   // The custom server (server/app.ts) is the SSR entry: it wraps the React Router handler.
   // With the Vite Environment API (v8_viteEnvironmentApi) the entry is set per environment.
   // The engine worker (server/engine-worker.ts) is a second entry, built next to it as
-  // engine-worker.js so the worker pool (app/jobs.server.ts) finds it beside the bundle.
+  // engine-worker.js so the worker pool (app/features/jobs/jobs.server.ts) finds it beside the bundle.
   environments: {
     ssr: { build: { rollupOptions: { input: { index: "./server/app.ts", "engine-worker": "./server/engine-worker.ts" } } } },
   },

@@ -5,7 +5,7 @@
  * through one slot at a time; others wait their turn without blocking anything, and when too
  * many are already waiting the request is told to come back in a moment.
  */
-export const PASSWORD_WORK = { concurrent: 1, maxWaiting: 64 } as const;
+const PASSWORD_WORK = { concurrent: 1, maxWaiting: 64 } as const;
 
 export class PasswordWorkBusy extends Error {
   constructor() {

@@ -18,10 +18,6 @@ export async function requireUser(request: Request): Promise<SessionUser> {
   return user;
 }
 
-export async function requireUserId(request: Request): Promise<number> {
-  return (await requireUser(request)).id;
-}
-
 /** Roles in order of reach: an admin may do what an educator may, an educator what a keeper may. */
 const RANK: Record<Role, number> = { keeper: 0, educator: 1, admin: 2 };
 

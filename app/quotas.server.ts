@@ -25,15 +25,15 @@ export class QuotaExceeded extends Error {
 
 const mb = (bytes: number) => `${(bytes / (1024 * 1024)).toFixed(1)} MB`;
 
-export function tanksOf(db: Reader, ownerId: number): number {
+function tanksOf(db: Reader, ownerId: number): number {
   return db.select({ n: count() }).from(tanks).where(eq(tanks.ownerId, ownerId)).get()?.n ?? 0;
 }
 
-export function scenariosIn(db: Reader, tankId: number): number {
+function scenariosIn(db: Reader, tankId: number): number {
   return db.select({ n: count() }).from(scenarios).where(eq(scenarios.tankId, tankId)).get()?.n ?? 0;
 }
 
-export function readingsOf(db: Reader, ownerId: number): number {
+function readingsOf(db: Reader, ownerId: number): number {
   return (
     db
       .select({ n: count() })
@@ -45,7 +45,7 @@ export function readingsOf(db: Reader, ownerId: number): number {
 }
 
 /** Bytes of a person's stored runs, leaving out one scenario's (the run about to be replaced). */
-export function runBytesOf(db: Reader, ownerId: number, exceptScenarioId = 0): number {
+function runBytesOf(db: Reader, ownerId: number, exceptScenarioId = 0): number {
   const size = sql<number>`coalesce(sum(length(cast(${runs.series} as blob)) + coalesce(length(${runs.seriesPacked}), 0) + length(cast(${runs.events} as blob)) + length(cast(${runs.keyFigures} as blob)) + length(cast(${runs.budget} as blob)) + length(cast(${runs.stats} as blob))), 0)`;
   return (
     db
@@ -119,4 +119,3 @@ export function usageOf(db: Reader, ownerId: number) {
   };
 }
 
-export type Usage = ReturnType<typeof usageOf>;

@@ -82,11 +82,6 @@ export async function waitFor(name: LimitName, key: string): Promise<number> {
   return Math.max(1, Math.ceil(state.msBeforeNext / 1000));
 }
 
-/** Forgets one key's count (a correct join code does not clear wrong ones, a test does). */
-export async function forget(name: LimitName, key: string): Promise<void> {
-  await limiter(name).delete(key);
-}
-
 /** Forgets every count (tests). */
 export function resetRateLimits(): void {
   limiters.clear();

@@ -11,7 +11,7 @@ import {
   useRouteLoaderData,
 } from "react-router";
 import type { Route } from "./+types/root";
-import "./app.css";
+import "~/app.css";
 import { FooterCaution } from "~/components/cautions";
 import { getEnv } from "~/env.server";
 import { getSessionUser } from "~/session.server";

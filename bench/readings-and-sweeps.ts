@@ -13,7 +13,7 @@
  * within 150 ms of its p95 alone (the request thread never runs the engine).
  */
 import process from "node:process";
-import { runEngineTask } from "../app/engine-tasks.server";
+import { runEngineTask } from "../app/features/jobs/engine-tasks.server";
 import type { Scenario } from "../models/index";
 import { withMultipliers } from "../models/nitrogen/calibrate";
 import { signInOverHttp, startBuiltServer } from "../tests/support/built-server";

@@ -1,6 +1,7 @@
 // The engine worker run from its TypeScript source through tsx's loader (tests; the build has
-// its own compiled build/server/engine-worker.js). See app/jobs.server.ts.
+// its own compiled build/server/engine-worker.js). Piscina calls the default export.
 import { register } from "tsx/esm/api";
 
 register();
-await import("./engine-worker.ts");
+const worker = await import("./engine-worker.ts");
+export default worker.default;

@@ -1,15 +1,15 @@
 /**
- * A worker thread of the engine pool (app/jobs.server.ts): receives `{ id, task }`, runs one
- * engine task, answers `{ id, result }` or `{ id, error }`. Built as a second SSR entry
- * (vite.config.ts) into build/server/engine-worker.js, next to the server bundle.
+ * A worker thread of the engine pool (app/features/jobs/engine-pool.server.ts, on piscina):
+ * piscina calls the default export with one engine task and sends back what it returns. Built
+ * as a second SSR entry (vite.config.ts) into build/server/engine-worker.js, next to the server
+ * bundle.
  */
 import fs from "node:fs";
 import os from "node:os";
-import { parentPort } from "node:worker_threads";
-import { runEngineTask, type EngineTask } from "~/engine-tasks.server";
+import { isMainThread } from "node:worker_threads";
+import { runEngineTask, type EngineTask, type EngineTaskResult } from "~/features/jobs/engine-tasks.server";
 
-if (!parentPort) throw new Error("engine-worker runs as a worker thread only");
-const port = parentPort;
+if (isMainThread) throw new Error("engine-worker runs as a worker thread only");
 
 /**
  * Run this thread at a lower scheduling priority than the request thread: on a busy machine the
@@ -17,7 +17,7 @@ const port = parentPort;
  * Linux keeps a priority per thread; /proc/thread-self names this thread's id. Elsewhere (or
  * where it is not allowed) the worker simply runs at normal priority.
  */
-export const WORKER_NICE = 10;
+const WORKER_NICE = 10;
 try {
   const tid = Number(fs.readlinkSync("/proc/thread-self").split("/").pop());
   if (Number.isInteger(tid) && tid > 0) os.setPriority(tid, WORKER_NICE);
@@ -25,10 +25,7 @@ try {
   // not Linux, or not permitted: normal priority
 }
 
-port.on("message", (message: { id: number; task: EngineTask }) => {
-  try {
-    port.postMessage({ id: message.id, result: runEngineTask(message.task) });
-  } catch (error) {
-    port.postMessage({ id: message.id, error: error instanceof Error ? error.message : String(error) });
-  }
-});
+/** One engine task; a throw here is a bug (settings the engine refuses come back as data). */
+export default function runTask(task: EngineTask): EngineTaskResult {
+  return runEngineTask(task);
+}

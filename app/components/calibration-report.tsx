@@ -8,7 +8,7 @@ import { Form, useNavigation } from "react-router";
 import { XYChart, type XYSeries } from "~/components/charts/xy-chart";
 import { SERIES_COLORS } from "~/components/charts/palette";
 import { FormMessage, TextField } from "~/components/ui/field";
-import type { CalibrationJson } from "~/calibration.server";
+import type { CalibrationJson } from "~/features/calibration/calibration-json";
 import { formatNumber } from "~/utils/display-units";
 
 const SPECIES_COLOR = { tan: SERIES_COLORS.tan, no2: SERIES_COLORS.no2, no3: SERIES_COLORS.no3 } as const;

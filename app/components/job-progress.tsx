@@ -6,7 +6,7 @@
  */
 import { useEffect } from "react";
 import { useFetcher } from "react-router";
-import type { JobJson } from "~/jobs.server";
+import type { JobJson } from "~/features/jobs/job-json";
 
 /** How often a running job is asked for its progress, ms. */
 const POLL_MS = 300;

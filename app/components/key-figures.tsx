@@ -1,16 +1,5 @@
+import type { DisplayKeyFigures } from "~/utils/chart-data";
 import { formatNumber } from "~/utils/display-units";
-
-/** Key figures of a run, already in display units, for lists, results and compare. */
-export type DisplayKeyFigures = {
-  peakFreeNh3: { value: number; day: number };
-  peakNitrite: { value: number; day: number };
-  nitrateEnd: number;
-  nitrateBeforeLastWaterChange: number | null;
-  daysAboveNitrateTarget: number;
-  cyclingFinishedDay: number | null;
-  cycleSeen: boolean;
-  plantsTrimmedG: number;
-};
 
 export type FigureUnits = { ammonia: string; nitrite: string; nitrate: string };
 

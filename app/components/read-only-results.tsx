@@ -5,9 +5,9 @@ import { CautionsPanel } from "~/components/cautions";
 import { KeyFiguresList } from "~/components/key-figures";
 import { SettingsSummary } from "~/components/settings-summary";
 import { FormMessage } from "~/components/ui/field";
-import type { ReadOnlyView } from "~/read-only-view.server";
+import type { ReadOnlyView } from "~/features/runs/results-payload";
 import { formatNumber } from "~/utils/display-units";
-import { unpackSeries } from "~/utils/series-packing";
+import { unpackSeries } from "~/features/runs/series-packing";
 
 /**
  * A scenario's results for someone who may look but not change them (share page, admin review,

@@ -2,7 +2,7 @@ import { useRef, useState } from "react";
 import { Form, useNavigation } from "react-router";
 import { FormMessage } from "~/components/ui/field";
 import type { FieldErrors } from "~/utils/form-errors";
-import type { FormField, PlantRow, ScenarioFormModel } from "~/utils/scenario-form-types";
+import type { FormField, PlantRow, ScenarioFormModel } from "~/features/scenarios/scenario-form-types";
 
 type Props = {
   model: ScenarioFormModel;

@@ -1,4 +1,4 @@
-import type { FormField, ScenarioFormModel } from "~/utils/scenario-form-types";
+import type { FormField, ScenarioFormModel } from "~/features/scenarios/scenario-form-types";
 
 /** A form field's value as a person reads it: "yes"/"no", an option's label, or the number. */
 export function fieldText(field: Pick<FormField, "kind" | "value" | "options">): string {

@@ -1,28 +1,27 @@
 import { useEffect, useRef, useState } from "react";
 import { Form, useFetcher } from "react-router";
-import type { ChartSeries } from "~/components/charts/types";
-import type { DisplayKeyFigures } from "~/components/key-figures";
-import { formatNumber } from "~/utils/display-units";
+import type { KeyFigures, Series } from "~models";
+import { toDisplay, unitLabel } from "~models/units";
+import { displayKeyFigures, displaySeries } from "~/features/runs/display-figures";
+import type { WhatIfSettings, WhatIfValues } from "~/features/runs/what-if";
+import type { ChartSeries, DisplayKeyFigures } from "~/utils/chart-data";
+import { formatNumber, type DisplayUnits } from "~/utils/display-units";
 
-/** Starting values, canonical (g/day, 0–1, days, factor, mg N/L). */
-export type WhatIfValues = {
-  feedGPerDay: number;
-  waterChangeFraction: number;
-  waterChangeIntervalDays: number;
-  plantMassFactor: number;
-  tapNitrate: number;
-};
+/** A preview in the viewer's units, converted here from the API's canonical answer. */
+export type WhatIfPreview = { keyFigures: DisplayKeyFigures; series: ChartSeries };
 
-export type WhatIfPreview = { keyFigures: DisplayKeyFigures; series: ChartSeries; lengthDays: number };
+/** The preview API's canonical answer (docs/api.md), or its error. */
+type PreviewAnswer = { keyFigures: KeyFigures; series: Series } | { error: string };
 
 type Props = {
   scenarioId: number;
   scenarioName: string;
   base: WhatIfValues;
   hasPlants: boolean;
-  /** mg N/L → the viewer's nitrate unit. */
-  nitrateFactor: number;
-  nitrateLabel: string;
+  /** Labels and quantities of the sliders' settings (the settings vocabulary). */
+  settings: WhatIfSettings;
+  /** The viewer's units: the panel converts canonical values itself. */
+  units: DisplayUnits;
   onPreview: (preview: WhatIfPreview | null) => void;
 };
 
@@ -76,8 +75,8 @@ function Slider({
  * Sliders for a few settings; each change (debounced) asks the preview API for a run of the
  * changed scenario, and the page overlays it on the saved run. "Save as a new scenario" keeps it.
  */
-export function WhatIfPanel({ scenarioId, scenarioName, base, hasPlants, nitrateFactor, nitrateLabel, onPreview }: Props) {
-  const fetcher = useFetcher<WhatIfPreview & { error?: string }>();
+export function WhatIfPanel({ scenarioId, scenarioName, base, hasPlants, settings, units, onPreview }: Props) {
+  const fetcher = useFetcher<PreviewAnswer>();
   const [values, setValues] = useState(base);
   const changed = (Object.keys(base) as (keyof WhatIfValues)[]).some((k) => Math.abs(values[k] - base[k]) > 1e-12);
   const timer = useRef<ReturnType<typeof setTimeout> | undefined>(undefined);
@@ -92,7 +91,7 @@ export function WhatIfPanel({ scenarioId, scenarioName, base, hasPlants, nitrate
     timer.current = setTimeout(() => {
       submit(
         { scenarioId, whatIf: values },
-        { method: "post", action: "/api/preview?units=display", encType: "application/json" },
+        { method: "post", action: "/api/preview", encType: "application/json" },
       );
     }, DEBOUNCE_MS);
     return () => clearTimeout(timer.current);
@@ -100,13 +99,18 @@ export function WhatIfPanel({ scenarioId, scenarioName, base, hasPlants, nitrate
 
   useEffect(() => {
     if (!changed) return;
-    if (fetcher.data && "series" in fetcher.data && fetcher.data.series) onPreview(fetcher.data);
-  }, [fetcher.data, changed, onPreview]);
+    const data = fetcher.data;
+    if (data && "series" in data && data.series) {
+      onPreview({ keyFigures: displayKeyFigures(data.keyFigures, units), series: displaySeries(data.series, units) });
+    }
+  }, [fetcher.data, changed, onPreview, units]);
 
   const set = (key: keyof WhatIfValues) => (v: number) => setValues((old) => ({ ...old, [key]: v }));
   const feedMax = Math.max(2, base.feedGPerDay * 3);
   const tapMax = Math.max(25, base.tapNitrate * 2) ;
   const error = fetcher.data && "error" in fetcher.data ? fetcher.data.error : null;
+  const shown = (key: keyof WhatIfSettings) =>
+    `${formatNumber(toDisplay(settings[key].quantity, values[key], units))} ${unitLabel(settings[key].quantity, units, settings[key].unit)}`;
 
   return (
     <section className="card space-y-4" aria-labelledby="what-if-title">
@@ -121,10 +125,10 @@ export function WhatIfPanel({ scenarioId, scenarioName, base, hasPlants, nitrate
       <Form method="post" className="space-y-4">
         <input type="hidden" name="intent" value="save-what-if" />
         <div className="grid gap-4 sm:grid-cols-2">
-          <Slider name="feedGPerDay" label="Food per day" value={values.feedGPerDay} min={0} max={feedMax} step={0.05} display={`${formatNumber(values.feedGPerDay)} g`} onChange={set("feedGPerDay")} />
+          <Slider name="feedGPerDay" label={settings.feedGPerDay.label} value={values.feedGPerDay} min={0} max={feedMax} step={0.05} display={`${formatNumber(values.feedGPerDay)} g`} onChange={set("feedGPerDay")} />
           <Slider
             name="waterChangeFraction"
-            label="Share of water changed"
+            label={settings.waterChangeFraction.label}
             value={values.waterChangeFraction}
             min={0}
             max={0.9}
@@ -134,7 +138,7 @@ export function WhatIfPanel({ scenarioId, scenarioName, base, hasPlants, nitrate
           />
           <Slider
             name="waterChangeIntervalDays"
-            label="Change water every"
+            label={settings.waterChangeIntervalDays.label}
             value={values.waterChangeIntervalDays}
             min={0}
             max={42}
@@ -154,12 +158,12 @@ export function WhatIfPanel({ scenarioId, scenarioName, base, hasPlants, nitrate
           />
           <Slider
             name="tapNitrate"
-            label="Tap water nitrate"
+            label={settings.tapNitrate.label}
             value={values.tapNitrate}
             min={0}
             max={tapMax}
             step={tapMax / 100}
-            display={`${formatNumber(values.tapNitrate * nitrateFactor)} ${nitrateLabel}`}
+            display={shown("tapNitrate")}
             onChange={set("tapNitrate")}
           />
         </div>

@@ -1,7 +1,7 @@
 // `npm run db:backup [-- <file>]`: an online backup of DATABASE_URL (safe while the server runs).
 import path from "node:path";
-import { databasePath } from "./client.server";
-import { backupDatabase } from "./backup.server";
+import { databasePath } from "~/db/client.server";
+import { backupDatabase } from "~/db/backup.server";
 import { getEnv } from "~/env.server";
 
 const source = databasePath(getEnv().DATABASE_URL);

@@ -5,7 +5,7 @@
 import fs from "node:fs";
 import path from "node:path";
 import Database from "better-sqlite3";
-import { openSqlite } from "./client.server";
+import { openSqlite } from "~/db/client.server";
 
 export type TableCounts = Record<string, number>;
 

@@ -4,7 +4,7 @@ import Database from "better-sqlite3";
 import { drizzle, type BetterSQLite3Database } from "drizzle-orm/better-sqlite3";
 import { migrate } from "drizzle-orm/better-sqlite3/migrator";
 import { getEnv } from "~/env.server";
-import * as schema from "./schema";
+import * as schema from "~/db/schema";
 
 export type Db = BetterSQLite3Database<typeof schema> & { $client: Database.Database };
 
@@ -29,7 +29,7 @@ export function openSqlite(file: string): Database.Database {
 }
 
 /** Applies the committed migrations in drizzle/ (relative to the working directory). */
-export function migrateDb(db: Db): void {
+function migrateDb(db: Db): void {
   migrate(db, { migrationsFolder: path.resolve("drizzle") });
 }
 

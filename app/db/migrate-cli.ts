@@ -1,5 +1,5 @@
 // `npm run db:migrate`: applies the committed migrations in drizzle/ to DATABASE_URL.
-import { closeDb, databasePath, getDb } from "./client.server";
+import { closeDb, databasePath, getDb } from "~/db/client.server";
 import { getEnv } from "~/env.server";
 
 getDb();

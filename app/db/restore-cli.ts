@@ -1,6 +1,6 @@
 // `npm run db:restore -- <backup file> --yes`: replaces DATABASE_URL with a backup. Stop the server first.
-import { databasePath } from "./client.server";
-import { restoreDatabase } from "./backup.server";
+import { databasePath } from "~/db/client.server";
+import { restoreDatabase } from "~/db/backup.server";
 import { getEnv } from "~/env.server";
 
 const file = process.argv.slice(2).find((a) => !a.startsWith("--"));

@@ -9,14 +9,14 @@
  */
 import { sql } from "drizzle-orm";
 import { blob, index, integer, primaryKey, real, sqliteTable, text, uniqueIndex } from "drizzle-orm/sqlite-core";
+import { PREFERENCE_CHOICES } from "~/utils/display-units";
 
 export const ROLES = ["keeper", "educator", "admin"] as const;
 export type Role = (typeof ROLES)[number];
 
-export const VOLUME_UNITS = ["L", "usgal", "impgal"] as const;
-export const TEMPERATURE_UNITS = ["C", "F"] as const;
-export const NITRATE_UNITS = ["NO3", "N"] as const;
-export const KH_UNITS = ["dKH", "CaCO3"] as const;
+// The account's unit preferences: the choices are the units vocabulary's (app/utils/display-units.ts).
+const { volumeUnit: VOLUME_UNITS, temperatureUnit: TEMPERATURE_UNITS, nitrateUnit: NITRATE_UNITS, khUnit: KH_UNITS } =
+  PREFERENCE_CHOICES;
 
 const createdAt = () =>
   integer("created_at", { mode: "timestamp_ms" })

@@ -1,9 +1,9 @@
 // `npm run seed`: seeds the demo club into an empty database; `-- --reset` wipes it first.
 import fs from "node:fs";
 import { count } from "drizzle-orm";
-import { closeDb, databasePath, getDb } from "./client.server";
-import { users } from "./schema";
-import { DEMO_PASSWORD, DEMO_USERS, seedDemoData } from "./seed.server";
+import { closeDb, databasePath, getDb } from "~/db/client.server";
+import { users } from "~/db/schema";
+import { DEMO_PASSWORD, DEMO_USERS, seedDemoData } from "~/db/seed.server";
 import { getEnv } from "~/env.server";
 
 const reset = process.argv.includes("--reset");

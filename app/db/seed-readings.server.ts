@@ -4,11 +4,11 @@
  * scenarios moved so the readings fall on their charts: day 0 is 35 days before the seed.
  */
 import { eq } from "drizzle-orm";
-import { toCanonical } from "../../models/units";
-import { insertReadings, type ReadingInput } from "~/readings.server";
+import { toCanonical } from "~models/units";
+import { insertReadings, type ReadingInput } from "~/features/readings/readings.server";
 import { DAY_MS, startOfDay } from "~/utils/dates";
-import type { Db } from "./client.server";
-import { scenarios } from "./schema";
+import type { Db } from "~/db/client.server";
+import { scenarios } from "~/db/schema";
 
 type Tx = Parameters<Parameters<Db["transaction"]>[0]>[0];
 

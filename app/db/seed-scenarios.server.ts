@@ -2,10 +2,10 @@
  * Demo scenarios for the seeded club's tanks, built from the engine's presets and our own
  * invented variants, each stored with its run so the demo opens straight onto charts.
  */
-import { getPreset, plantGroupFromForm, ScenarioSchema, simulate, type ScenarioInput } from "../../models";
-import { REQUEST_RUN_LIMITS, settingsHash, insertRun } from "~/simulation.server";
-import type { Db } from "./client.server";
-import { scenarios, tanks } from "./schema";
+import { getPreset, plantGroupFromForm, ScenarioSchema, simulate, type ScenarioInput } from "~models";
+import { REQUEST_RUN_LIMITS, settingsHash, insertRun } from "~/features/runs/simulation.server";
+import type { Db } from "~/db/client.server";
+import { scenarios, tanks } from "~/db/schema";
 import { eq } from "drizzle-orm";
 
 type Tx = Parameters<Parameters<Db["transaction"]>[0]>[0];

@@ -6,17 +6,17 @@
 import { and, eq } from "drizzle-orm";
 import { hashPassword } from "~/auth.server";
 import { hashToken } from "~/utils/crypto.server";
-import type { Db } from "./client.server";
-import { classes, classMembers, lessons, scenarios, shareLinks, tanks, users } from "./schema";
-import { seedDemoReadings } from "./seed-readings.server";
-import { seedDemoScenarios } from "./seed-scenarios.server";
+import type { Db } from "~/db/client.server";
+import { classes, classMembers, lessons, scenarios, shareLinks, tanks, users } from "~/db/schema";
+import { seedDemoReadings } from "~/db/seed-readings.server";
+import { seedDemoScenarios } from "~/db/seed-scenarios.server";
 
 export const DEMO_PASSWORD = "tidewell-demo-2026";
 
 /**
  * The demo public link, /s/tidewell-demo-theo-as-kept-now (Theo's "As kept now"). A fixed,
  * guessable token is acceptable only because the demo club is seeded on local machines only;
- * real links carry 256 random bits (app/share.server.ts). Stored hashed like any other.
+ * real links carry 256 random bits (app/features/sharing/share.server.ts). Stored hashed like any other.
  */
 export const DEMO_SHARE_TOKEN = "tidewell-demo-theo-as-kept-now";
 

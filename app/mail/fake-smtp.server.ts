@@ -9,7 +9,7 @@ import fs from "node:fs";
 import path from "node:path";
 import { simpleParser } from "mailparser";
 import { SMTPServer } from "smtp-server";
-import { type CapturedMail, extractLinks } from "./captured-mail.server";
+import { type CapturedMail, extractLinks } from "~/mail/captured-mail.server";
 
 export type FakeSmtp = { url: string; port: number; close: () => Promise<void> };
 

@@ -3,6 +3,7 @@
  * (early hints). Messages are written for the person at the form.
  */
 import { z } from "zod";
+import { PREFERENCE_CHOICES } from "~/utils/display-units";
 
 const COMMON_PASSWORDS = new Set([
   "password",
@@ -17,7 +18,7 @@ const COMMON_PASSWORDS = new Set([
   "fishtank123",
 ]);
 
-export const EmailSchema = z
+const EmailSchema = z
   .string({ error: "Enter your e-mail address." })
   .trim()
   .toLowerCase()
@@ -25,14 +26,14 @@ export const EmailSchema = z
   .max(254, "That e-mail address is too long.")
   .pipe(z.email("Enter an e-mail address like name@example.org."));
 
-export const NewPasswordSchema = z
+const NewPasswordSchema = z
   .string({ error: "Choose a password." })
   .min(10, "Use at least 10 characters.")
   .max(200, "Use at most 200 characters.")
   .refine((p) => !COMMON_PASSWORDS.has(p.toLowerCase()), "That password is too common; choose another.")
   .refine((p) => new Set(p).size >= 4, "That password is too easy to guess; mix more characters.");
 
-export const NameSchema = z
+const NameSchema = z
   .string({ error: "Tell us what to call you." })
   .trim()
   .min(1, "Tell us what to call you.")
@@ -85,8 +86,8 @@ export const ChangePasswordSchema = z
 
 export const UnitPreferencesSchema = z.object({
   name: NameSchema,
-  volumeUnit: z.enum(["L", "usgal", "impgal"], { error: "Choose a volume unit." }),
-  temperatureUnit: z.enum(["C", "F"], { error: "Choose a temperature unit." }),
-  nitrateUnit: z.enum(["NO3", "N"], { error: "Choose how nitrate is shown." }),
-  khUnit: z.enum(["dKH", "CaCO3"], { error: "Choose a KH unit." }),
+  volumeUnit: z.enum(PREFERENCE_CHOICES.volumeUnit, { error: "Choose a volume unit." }),
+  temperatureUnit: z.enum(PREFERENCE_CHOICES.temperatureUnit, { error: "Choose a temperature unit." }),
+  nitrateUnit: z.enum(PREFERENCE_CHOICES.nitrateUnit, { error: "Choose how nitrate is shown." }),
+  khUnit: z.enum(PREFERENCE_CHOICES.khUnit, { error: "Choose a KH unit." }),
 });

@@ -1,28 +1,21 @@
+/**
+ * The units a person sees, from their account preferences. Isomorphic: the conversions and the
+ * unit labels are the engine's one units table (models/units.ts), which runs in the browser too.
+ */
+import { unitSymbol, UNITS, type DisplayUnits } from "~models/units";
 import { formatSignificant } from "~/utils/format";
 
-/**
- * The units a person sees, derived from their account preferences. Isomorphic: labels only,
- * no conversion code (conversions run on the server, app/display-units.server.ts, so mathjs
- * stays out of the browser bundle).
- */
+export type { DisplayUnits } from "~models/units";
 
-/** Account preferences as stored on the user row. */
-export type UnitPreferences = {
-  volumeUnit: "L" | "usgal" | "impgal";
-  temperatureUnit: "C" | "F";
-  nitrateUnit: "NO3" | "N";
-  khUnit: "dKH" | "CaCO3";
-};
+/** Account preferences as stored on the user row (the columns' enums in app/db/schema.ts). */
+export const PREFERENCE_CHOICES = {
+  volumeUnit: ["L", "usgal", "impgal"],
+  temperatureUnit: ["C", "F"],
+  nitrateUnit: ["NO3", "N"],
+  khUnit: ["dKH", "CaCO3"],
+} as const;
 
-/** Unit ids of the engine's conversion module (models/units.ts) for each quantity. */
-export type DisplayUnits = {
-  volume: "L" | "usgal" | "impgal";
-  temperature: "C" | "F";
-  nitrate: "asNO3" | "asN";
-  nitrite: "asNO2" | "asN";
-  ammonia: "asNH3" | "asN";
-  kh: "dKH" | "mgCaCO3";
-};
+export type UnitPreferences = { [K in keyof typeof PREFERENCE_CHOICES]: (typeof PREFERENCE_CHOICES)[K][number] };
 
 /** Metric, nitrate as NO3: what an anonymous viewer sees. */
 export const DEFAULT_PREFERENCES: UnitPreferences = { volumeUnit: "L", temperatureUnit: "C", nitrateUnit: "NO3", khUnit: "dKH" };
@@ -43,25 +36,38 @@ export function displayUnitsFor(p: UnitPreferences): DisplayUnits {
   };
 }
 
-const SYMBOLS = {
-  volume: { L: "L", usgal: "US gal", impgal: "imp gal" },
-  temperature: { C: "°C", F: "°F" },
-  nitrate: { asNO3: "mg/L NO3", asN: "mg/L NO3-N" },
-  nitrite: { asNO2: "mg/L NO2", asN: "mg/L NO2-N" },
-  ammonia: { asNH3: "mg/L NH3", asN: "mg/L NH3-N" },
-  kh: { dKH: "dKH", mgCaCO3: "mg/L CaCO3" },
-} as const;
+/** The choices of the account page, in the units table's words. */
+export const PREFERENCE_OPTIONS = {
+  volumeUnit: [
+    { value: "L", label: `${UNITS.volume.L.label} (L)` },
+    { value: "usgal", label: UNITS.volume.usgal.label },
+    { value: "impgal", label: UNITS.volume.impgal.label },
+  ],
+  temperatureUnit: [
+    { value: "C", label: `${UNITS.temperature.C.label} (${UNITS.temperature.C.symbol})` },
+    { value: "F", label: `${UNITS.temperature.F.label} (${UNITS.temperature.F.symbol})` },
+  ],
+  nitrateUnit: [
+    { value: "NO3", label: `as nitrate, ${UNITS.nitrate.asNO3.symbol} (most test kits)` },
+    { value: "N", label: `as nitrogen, ${UNITS.nitrate.asN.symbol}` },
+  ],
+  khUnit: [
+    { value: "dKH", label: `degrees of carbonate hardness (${UNITS.kh.dKH.symbol})` },
+    { value: "CaCO3", label: UNITS.kh.mgCaCO3.label },
+  ],
+} as const satisfies { [K in keyof UnitPreferences]: readonly { value: UnitPreferences[K]; label: string }[] };
 
 export type UnitLabels = { [K in keyof DisplayUnits]: string };
 
+/** The label of each convertible quantity in `u` ("mg/L NO3", "US gal", "°F"…). */
 export function unitLabels(u: DisplayUnits): UnitLabels {
   return {
-    volume: SYMBOLS.volume[u.volume],
-    temperature: SYMBOLS.temperature[u.temperature],
-    nitrate: SYMBOLS.nitrate[u.nitrate],
-    nitrite: SYMBOLS.nitrite[u.nitrite],
-    ammonia: SYMBOLS.ammonia[u.ammonia],
-    kh: SYMBOLS.kh[u.kh],
+    volume: unitSymbol("volume", u.volume),
+    temperature: unitSymbol("temperature", u.temperature),
+    nitrate: unitSymbol("nitrate", u.nitrate),
+    nitrite: unitSymbol("nitrite", u.nitrite),
+    ammonia: unitSymbol("ammonia", u.ammonia),
+    kh: unitSymbol("kh", u.kh),
   };
 }
 

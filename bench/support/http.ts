@@ -17,7 +17,7 @@ export type LoadResult = {
   statusCounts: Record<string, number>;
 };
 
-export function percentile(sorted: number[], p: number): number {
+function percentile(sorted: number[], p: number): number {
   if (sorted.length === 0) return NaN;
   const i = Math.min(sorted.length - 1, Math.max(0, Math.ceil((p / 100) * sorted.length) - 1));
   return sorted[i];

@@ -13,7 +13,7 @@ export interface EventRecord {
   readonly detail: string;
 }
 
-export type EventKind = "waterChange" | "filterCleaning" | "trim" | "dose" | "dosingStopped" | "feeding";
+type EventKind = "waterChange" | "filterCleaning" | "trim" | "dose" | "dosingStopped" | "feeding";
 
 /**
  * What an event does: the state just after it (a new array; the state before is never changed)
@@ -23,9 +23,6 @@ export interface EventOutcome {
   readonly y: readonly number[];
   readonly records: readonly EventRecord[];
 }
-
-/** An event that changes nothing. */
-export const unchanged = (y: readonly number[]): EventOutcome => ({ y, records: [] });
 
 /**
  * A scheduled jump: `apply` maps the state at time `t` to the state just after the event.

@@ -11,7 +11,7 @@ import type { OdeProblem, Watch } from "./problem";
 import type { SegmentResult } from "./segment";
 import { SolverChoice } from "./solver-choice";
 
-export interface LoopLimits {
+interface LoopLimits {
   /** Total accepted + rejected steps over the run. */
   readonly maxSteps: number;
   /** Steps allowed between two events. */
@@ -42,7 +42,7 @@ export interface LoopSpec {
   describeFailure(code: FailureCode, day: number): string;
 }
 
-export interface LoopStats {
+interface LoopStats {
   /** Solver steps (accepted and rejected). */
   steps: number;
   /** Right-hand-side evaluations. */

@@ -12,7 +12,7 @@
 import { Outcome, Solver } from "odex";
 import type { SegmentRequest, SegmentResult, SegmentStatus } from "./segment";
 
-export type { SegmentRequest, SegmentResult, SegmentStatus } from "./segment";
+export type { SegmentRequest, SegmentResult } from "./segment";
 
 const now = (): number => (typeof performance !== "undefined" ? performance.now() : Date.now());
 

@@ -258,7 +258,7 @@ export async function levenbergMarquardt(opts: LeastSquaresOptions): Promise<Lea
 // ---------------------------------------------------------------------------------------------
 // Multipliers
 
-export type FittedMultiplier = {
+type FittedMultiplier = {
   key: MultiplierKey;
   /** Fitted (or, when not fitted, the scenario's) value, ×. */
   value: number;

@@ -15,7 +15,7 @@ export interface Effect {
 }
 
 const pct = (f: number) => `${Math.round(f * 100)} %`;
-export const mg = (x: number) => `${x >= 100 ? Math.round(x) : Number(x.toPrecision(3))} mg N`;
+const mg = (x: number) => `${x >= 100 ? Math.round(x) : Number(x.toPrecision(3))} mg N`;
 
 /** A fraction `f` of the water replaced by change water (at oxygen saturation); a share `gravel` of tank detritus siphoned. */
 export function waterChange(

@@ -5,9 +5,29 @@ import type { EventRecord } from "../core/events";
 import type { NitrogenBudget } from "./budget";
 import type { AmmoniaCriteria } from "./criteria";
 import type { ZoneCapacity } from "./low-oxygen-zones";
-import type { ModelWarning } from "./warnings";
 
 /** Version of the engine's numbers: bump when a change alters results for the same scenario. */
+/** What the warnings of a run (warnings.ts) say. */
+type WarningCode =
+  | "feedBeyondOxygenSupply"
+  | "heavyFeedingForVolume"
+  | "lowOxygen"
+  | "ammoniaAboveAcuteCriterion"
+  | "ammoniaAboveChronicCriterion"
+  | "khExhausted"
+  | "outsideModelRange";
+
+export interface ModelWarning {
+  code: WarningCode;
+  /** "implausible": the settings are beyond what a real tank could be; "caution": the water would harm fish. */
+  severity: "caution" | "implausible";
+  message: string;
+  value: number;
+  unit: string;
+  limit: number;
+  day: number | null;
+}
+
 export const ENGINE_VERSION = "fernwater-engine 2.0.0";
 
 export interface SimulateOptions {

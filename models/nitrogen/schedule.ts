@@ -17,7 +17,7 @@ import { IX, PLANT0 } from "./state";
 import type { TankConstants } from "./tank-constants";
 
 /** What events booked over a run. */
-export interface Ledger {
+interface Ledger {
   readonly flows: EventFlows;
   /** Dry mass trimmed per group, g. */
   readonly trimmedG: number[];

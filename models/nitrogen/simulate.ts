@@ -114,4 +114,4 @@ export function simulate(scenario: Scenario, options: SimulateOptions = {}): Sim
 }
 
 export { ENGINE_VERSION } from "./result";
-export type { KeyFigures, Peak, Series, SimulateOptions, SimulationResult, SimulationStats } from "./result";
+export type { KeyFigures, Series, SimulateOptions, SimulationResult, SimulationStats } from "./result";

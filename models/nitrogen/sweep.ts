@@ -4,8 +4,8 @@
  */
 import type { KeyFigures, SimulateOptions, SimulationResult } from "./simulate";
 import { simulate } from "./simulate";
-import type { Quantity, Scenario } from "./scenario";
-import { ScenarioSchema } from "./scenario";
+import type { Quantity, Scenario, SettingPath } from "./scenario";
+import { ScenarioSchema, setScenarioValue } from "./scenario";
 
 /** An outcome a sweep or comparison can plot. */
 export interface SweepOutcome {
@@ -76,24 +76,6 @@ export const OUTCOMES: readonly SweepOutcome[] = [
   },
 ];
 
-/**
- * A copy of `scenario` with the value at `path` replaced (e.g. ["plants", 0, "startMassG"]).
- * The input is not modified. Throws if the path does not exist.
- */
-export function setScenarioValue(scenario: Scenario, path: readonly (string | number)[], value: unknown): Scenario {
-  const copy = structuredClone(scenario) as unknown as Record<string | number, unknown>;
-  let node: Record<string | number, unknown> = copy;
-  for (let i = 0; i < path.length - 1; i++) {
-    const next = node[path[i]];
-    if (next === null || typeof next !== "object") throw new RangeError(`No setting at ${path.join(".")}`);
-    node = next as Record<string | number, unknown>;
-  }
-  const last = path[path.length - 1];
-  if (!(last in node)) throw new RangeError(`No setting at ${path.join(".")}`);
-  node[last] = value;
-  return copy as unknown as Scenario;
-}
-
 export interface SweepPoint {
   value: number;
   /** Outcome values by id; null where an outcome does not apply. */
@@ -108,7 +90,7 @@ export interface SweepPoint {
  */
 export function sweep(
   scenario: Scenario,
-  path: readonly (string | number)[],
+  path: SettingPath,
   values: readonly number[],
   options: SimulateOptions & {
     outcomes?: readonly string[];

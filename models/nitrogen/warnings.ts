@@ -8,30 +8,10 @@ import { EATEN_N_SPLIT, tanFromFeed } from "./chemistry";
 import { ammoniaCriteria } from "./criteria";
 import { OXYGEN } from "./parameters";
 import type { Extremes } from "./recorder";
-import type { Series } from "./result";
+import type { ModelWarning, Series } from "./result";
 import { round6, roundDay } from "./result";
 import type { Scenario } from "./scenario";
 import type { TankConstants } from "./tank-constants";
-
-export type WarningCode =
-  | "feedBeyondOxygenSupply"
-  | "heavyFeedingForVolume"
-  | "lowOxygen"
-  | "ammoniaAboveAcuteCriterion"
-  | "ammoniaAboveChronicCriterion"
-  | "khExhausted"
-  | "outsideModelRange";
-
-export interface ModelWarning {
-  code: WarningCode;
-  /** "implausible": the settings are beyond what a real tank could be; "caution": the water would harm fish. */
-  severity: "caution" | "implausible";
-  message: string;
-  value: number;
-  unit: string;
-  limit: number;
-  day: number | null;
-}
 
 /** Feed per litre per day above which stocking is far beyond usual aquarium practice (g/L/day). */
 const HEAVY_FEEDING_G_PER_L_DAY = 0.03; // common practice, no source (a crowded tank is ~0.01)

@@ -1,6 +1,6 @@
 import { and, eq } from "drizzle-orm";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { JOIN_ATTEMPTS, lessonEnforcer, newJoinCode, normaliseJoinCode } from "~/classes.server";
+import { JOIN_ATTEMPTS, lessonEnforcer, newJoinCode, normaliseJoinCode } from "~/features/classes/classes.server";
 import { getDb } from "~/db/client.server";
 import { classInvites, classMembers, classes, lessonCopies, lessons, scenarios, tanks, users } from "~/db/schema";
 import { action as scenarioApiAction } from "~/routes/api/scenario";
@@ -15,8 +15,8 @@ import { loader as presentLoader } from "~/routes/classes/present";
 import { action as editAction, loader as editLoader } from "~/routes/scenarios/edit";
 import { action as tankAction } from "~/routes/tanks/detail";
 import { ScenarioSchema } from "../../models";
-import type { ScenarioFormModel } from "~/utils/scenario-form-types";
-import { unpackSeries } from "~/utils/series-packing";
+import type { ScenarioFormModel } from "~/features/scenarios/scenario-form-types";
+import { unpackSeries } from "~/features/runs/series-packing";
 import { startMailFake, waitForMail } from "../support/mail";
 import { call, get, post, postJson } from "../support/routes";
 import { createScenario, createTank } from "../support/tanks";

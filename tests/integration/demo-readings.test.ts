@@ -3,7 +3,7 @@ import { beforeAll, describe, expect, it } from "vitest";
 import { getDb } from "~/db/client.server";
 import { scenarios, tanks } from "~/db/schema";
 import { DEMO_PASSWORD, seedDemoData } from "~/db/seed.server";
-import { clearJobs, findJob, type Job } from "~/jobs.server";
+import { clearJobs, findJob, type Job } from "~/features/jobs/jobs.server";
 import { action as calibrateAction } from "~/routes/calibrate/calibrate";
 import { loader as resultsLoader } from "~/routes/scenarios/results";
 import { call, get, ORIGIN } from "../support/routes";

@@ -14,7 +14,7 @@ import fc from "fast-check";
 import { afterAll, beforeAll, beforeEach, describe, expect, it } from "vitest";
 import { getDb } from "~/db/client.server";
 import { resetRateLimits } from "~/rate-limits.server";
-import { resetRunGate } from "~/run-gate.server";
+import { resetRunGate } from "~/features/runs/run-gate.server";
 import { REDIRECT_BYPASSES } from "../support/attack-inputs";
 import { startMailFake } from "../support/mail";
 import { call, ORIGIN } from "../support/routes";

@@ -2,7 +2,7 @@ import { eq } from "drizzle-orm";
 import { afterEach, describe, expect, it } from "vitest";
 import { getDb } from "~/db/client.server";
 import { readings, scenarios } from "~/db/schema";
-import { runEngineTask } from "~/engine-tasks.server";
+import { runEngineTask } from "~/features/jobs/engine-tasks.server";
 import {
   cancelJob,
   clearJobs,
@@ -14,7 +14,7 @@ import {
   sourceWorkerUrl,
   startJob,
   type JobJson,
-} from "~/jobs.server";
+} from "~/features/jobs/jobs.server";
 import { action as calibrateAction, loader as calibrateLoader } from "~/routes/calibrate/calibrate";
 import { action as jobApiAction, loader as jobApi } from "~/routes/api/job";
 import { action as calibrationsApi } from "~/routes/api/scenario-calibrations";
@@ -23,8 +23,8 @@ import { action as targetsApi } from "~/routes/api/scenario-targets";
 import { loader as resultsLoader } from "~/routes/scenarios/results";
 import { action as sweepAction, loader as sweepLoader } from "~/routes/sweeps/sweep";
 import { action as targetAction } from "~/routes/sweeps/target";
-import { readStoredSettings } from "~/simulation.server";
-import { startSweep, sweepLevers } from "~/sweeps.server";
+import { readStoredSettings } from "~/features/runs/simulation.server";
+import { leverJson, startSweep, sweepLevers } from "~/features/sweeps/sweeps.server";
 import { DEFAULT_PREFERENCES, displayUnitsFor } from "~/utils/display-units";
 import { call, get, ORIGIN, post, postJson } from "../support/routes";
 import { createScenario, createTank } from "../support/tanks";
@@ -476,8 +476,8 @@ describe("the job registry", () => {
   it("labels a sweep with the person's units", () => {
     const units = displayUnitsFor({ ...DEFAULT_PREFERENCES, volumeUnit: "usgal" });
     const s = ScenarioSchema.parse(PLANTED);
-    const lever = sweepLevers(s, units).find((l) => l.id === "maintenance.dripLPerDay")!;
-    expect(lever.unit).toBe("US gal/day");
+    const lever = sweepLevers(s).find((l) => l.id === "maintenance.dripLPerDay")!;
+    expect(leverJson(lever, units).unit).toBe("US gal/day");
     const job = startSweep(
       { id: 30_000 },
       1,

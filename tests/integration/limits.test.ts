@@ -6,7 +6,7 @@
 import bcrypt from "bcryptjs";
 import { eq } from "drizzle-orm";
 import { afterAll, afterEach, beforeAll, describe, expect, it, vi } from "vitest";
-import { createClass } from "~/classes.server";
+import { createClass } from "~/features/classes/classes.server";
 import { getDb } from "~/db/client.server";
 import { classInvites, signUpRequests, users } from "~/db/schema";
 import { LIMITS, resetRateLimits } from "~/rate-limits.server";

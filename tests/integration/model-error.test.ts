@@ -7,8 +7,8 @@ import { userWithCookie } from "../support/users";
 
 // The engine's typed error reaches the form as a message, not a 500. The engine itself is
 // tested for when it throws (tests/models/errors.test.ts); here it is made to throw.
-vi.mock("~/simulation.server", async (importOriginal) => {
-  const original = await importOriginal<typeof import("~/simulation.server")>();
+vi.mock("~/features/runs/simulation.server", async (importOriginal) => {
+  const original = await importOriginal<typeof import("~/features/runs/simulation.server")>();
   const fail = async () => {
     throw new ModelError("MAX_STEPS", "The model could not settle: the plants' uptake is far outside the usual range. Check the growth rate.");
   };

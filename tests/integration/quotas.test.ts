@@ -1,18 +1,18 @@
 /**
  * Quotas and run limits (issue 10): what one person may keep and run, answered with 413 or 429
  * and what to do, never a partial write; long runs stored compactly. Our own checks against the
- * numbers in app/quotas.server.ts and app/run-gate.server.ts.
+ * numbers in app/quotas.server.ts and app/features/runs/run-gate.server.ts.
  */
 import { count, eq } from "drizzle-orm";
 import { afterEach, describe, expect, it } from "vitest";
 import { ScenarioSchema, simulate } from "../../models";
 import { getDb } from "~/db/client.server";
-import { setEnginePool } from "~/engine-pool.server";
-import { runEngineTask } from "~/engine-tasks.server";
+import { setEnginePool } from "~/features/jobs/engine-pool.server";
+import { runEngineTask } from "~/features/jobs/engine-tasks.server";
 import { readings, runs, scenarios, tanks } from "~/db/schema";
 import { QUOTAS } from "~/quotas.server";
 import { LIMITS, resetRateLimits } from "~/rate-limits.server";
-import { REQUEST_RUN_LIMITS, resetRunGate, RUNS_IN_FLIGHT_PER_PERSON } from "~/run-gate.server";
+import { REQUEST_RUN_LIMITS, resetRunGate, RUNS_IN_FLIGHT_PER_PERSON } from "~/features/runs/run-gate.server";
 import { loader as accountLoader } from "~/routes/auth/account";
 import { action as previewAction } from "~/routes/api/preview";
 import { loader as runLoader } from "~/routes/api/run";

@@ -7,7 +7,7 @@ import { loader as adminLinkLoader } from "~/routes/admin/link";
 import { action as manageAction, loader as manageLoader } from "~/routes/share/manage";
 import { action as publicAction, loader as publicLoader, meta as publicMeta, middleware } from "~/routes/share/public";
 import { hashToken } from "~/utils/crypto.server";
-import { unpackSeries } from "~/utils/series-packing";
+import { unpackSeries } from "~/features/runs/series-packing";
 import { call, get, post, ORIGIN } from "../support/routes";
 import { createScenario, createTank } from "../support/tanks";
 import { userWithCookie } from "../support/users";

@@ -8,7 +8,7 @@ import {
   type ScenarioInput,
   type SimulationResult,
 } from "../../models/index";
-import { REQUEST_RUN_LIMITS } from "~/simulation.server";
+import { REQUEST_RUN_LIMITS } from "~/features/runs/simulation.server";
 
 // Our own check of the engine's contract under the bounds the web app runs it with
 // (REQUEST_RUN_LIMITS: 3 s of wall time, 300 000 solver steps): every scenario the schema

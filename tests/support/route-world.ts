@@ -18,11 +18,11 @@
 import { eq } from "drizzle-orm";
 import { expect } from "vitest";
 import routeConfig from "~/routes";
-import { createClass, insertLesson } from "~/classes.server";
+import { createClass, insertLesson } from "~/features/classes/classes.server";
 import { getDb } from "~/db/client.server";
 import { classInvites, classMembers, lessonCopies, runs, scenarios, shareLinks, users } from "~/db/schema";
-import { makeLink } from "~/share.server";
-import { readStoredSettings } from "~/simulation.server";
+import { makeLink } from "~/features/sharing/share.server";
+import { readStoredSettings } from "~/features/runs/simulation.server";
 import { hashToken } from "~/utils/crypto.server";
 import { call, get, ORIGIN } from "./routes";
 import { createScenario, createTank } from "./tanks";

@@ -1,7 +1,7 @@
 import { ScenarioSchema, type ScenarioInput } from "../../models";
 import { getDb } from "~/db/client.server";
 import { scenarios, tanks } from "~/db/schema";
-import { saveScenarioWithRun } from "~/scenario-api.server";
+import { saveScenarioWithRun } from "~/features/scenarios/scenario-api.server";
 
 export function createTank(ownerId: number, name = "Test tank"): number {
   return getDb().insert(tanks).values({ ownerId, name }).returning({ id: tanks.id }).get().id;

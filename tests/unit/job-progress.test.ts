@@ -3,7 +3,7 @@ import { renderToString } from "react-dom/server";
 import { createRoutesStub } from "react-router";
 import { describe, expect, it } from "vitest";
 import { JobProgress } from "~/components/job-progress";
-import type { JobJson } from "~/jobs.server";
+import type { JobJson } from "~/features/jobs/jobs.server";
 
 // Our own check of the progress bar's words: a job in line says how many are ahead of it
 // instead of the server refusing it (issue 10).

@@ -1,6 +1,8 @@
 import { describe, expect, it } from "vitest";
-import { mapHeader, MAX_CSV_ROWS, parseReadingsCsv, readingsCsv, templateCsv } from "~/readings-csv.server";
-import type { MeasureUnits, ReadingRow } from "~/readings.server";
+import { mapHeader } from "~/features/readings/readings-csv-columns.server";
+import { readingsCsv, templateCsv } from "~/features/readings/readings-csv-export.server";
+import { MAX_CSV_ROWS, parseReadingsCsv } from "~/features/readings/readings-csv.server";
+import type { MeasureUnits, ReadingRow } from "~/features/readings/readings.server";
 
 const METRIC: MeasureUnits = { tan: "asNH3", nitrite: "asNO2", nitrate: "asNO3", kh: "dKH", temperatureC: "C" };
 const NOW = Date.UTC(2026, 2, 20, 12, 0);

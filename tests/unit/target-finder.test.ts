@@ -1,16 +1,10 @@
 import { afterEach, describe, expect, it } from "vitest";
 import type { Scenario } from "../../models/index";
-import { runEngineTask } from "~/engine-tasks.server";
-import { clearJobs, startJob, type Job } from "~/jobs.server";
-import {
-  findLeastChange,
-  judge,
-  searchLever,
-  startTargetSearch,
-  type Goal,
-  type SearchLever,
-  type TargetResultJson,
-} from "~/target-finder.server";
+import { runEngineTask } from "~/features/jobs/engine-tasks.server";
+import { clearJobs, startJob, type Job } from "~/features/jobs/jobs.server";
+import { searchLever, type SearchLever } from "~/features/sweeps/search-levers.server";
+import { startTargetSearch, type TargetResultJson } from "~/features/sweeps/target-finder.server";
+import { findLeastChange, judge, type Goal } from "~/features/sweeps/target-search.server";
 import { displayUnitsFor, DEFAULT_PREFERENCES } from "~/utils/display-units";
 import { bareTank, feedForLoad } from "../models/helpers";
 

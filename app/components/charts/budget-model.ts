@@ -2,8 +2,8 @@
  * The nitrogen budget arranged for display (pure): the segments of "where the nitrogen went"
  * and the rows of the budget table.
  */
-import { SERIES_COLORS } from "./palette";
-import type { ChartBudget } from "./types";
+import { SERIES_COLORS } from "~/components/charts/palette";
+import type { ChartBudget } from "~/utils/chart-data";
 
 export type BudgetSegment = {
   key: string;
@@ -21,7 +21,7 @@ export type BudgetSegment = {
  * tones, each a step apart in lightness from its neighbours in the bar. The dissolved species
  * and plants keep their chart colours.
  */
-export const BUDGET_COLORS = {
+const BUDGET_COLORS = {
   waterChanges: "#475569",
   drip: "#94a3b8",
   trims: "#a3b18a",
@@ -117,7 +117,7 @@ export function budgetSegments(budget: ChartBudget, plantNames: readonly string[
     .filter((seg) => seg.mg > 0);
 }
 
-export type BudgetRow = {
+type BudgetRow = {
   key: string;
   label: string;
   /** Indent level: 1 for a part of the row above (e.g. TAN within "In the water"). */

@@ -3,9 +3,9 @@
  * (one run in detail, or several runs side by side with differences marked).
  */
 import { memo } from "react";
-import { budgetSections, budgetSegments, stockRows, type BudgetSegment } from "./budget-model";
-import { formatMgN, formatPercent, splitMgN } from "./format";
-import type { ChartBudget } from "./types";
+import { budgetSections, budgetSegments, stockRows, type BudgetSegment } from "~/components/charts/budget-model";
+import { formatMgN, formatPercent, splitMgN } from "~/components/charts/format";
+import type { ChartBudget } from "~/utils/chart-data";
 
 export type BudgetBarProps = {
   budget: ChartBudget;
@@ -113,7 +113,7 @@ function Segment({
   );
 }
 
-export type BudgetColumn = { label: string; budget: ChartBudget; plantNames?: readonly string[] };
+type BudgetColumn = { label: string; budget: ChartBudget; plantNames?: readonly string[] };
 
 export type BudgetTableProps = {
   /** One run (shown in detail) or 2–4 runs side by side, the first as reference. */

@@ -3,12 +3,12 @@
  * (or per sample when output is daily or coarser), folded under "Show the numbers as a table".
  */
 import { memo, useId, useMemo, useState } from "react";
-import { eventRows, describeEvent, speciesValues } from "./csv";
-import { formatDay, formatNumber } from "./format";
-import { lowerBound, sampleSide, valueAt } from "./lookup";
-import { PLANT_UNIT, SERIES_NAMES, unitOf } from "./palette";
-import { tableRowIndices } from "./table-rows";
-import type { ChartEvent, ChartSeries, ChartUnits, SeriesKey } from "./types";
+import { eventRows, describeEvent, speciesValues } from "~/utils/csv";
+import { formatDay, formatNumber } from "~/components/charts/format";
+import { lowerBound, sampleSide, valueAt } from "~/utils/series-lookup";
+import { PLANT_UNIT, SERIES_NAMES, unitOf } from "~/components/charts/palette";
+import { tableRowIndices } from "~/components/charts/table-rows";
+import type { ChartEvent, ChartSeries, ChartUnits, SeriesKey } from "~/utils/chart-data";
 
 export type TableColumn = {
   key: string;

@@ -1,6 +1,6 @@
 /** Three buttons: the series as CSV, the chart as SVG, the chart as PNG (all made in the browser). */
 import { useState } from "react";
-import { downloadBlob, downloadCsv, standaloneSvg, svgToPng, type LegendItem } from "./downloads";
+import { downloadBlob, downloadCsv, standaloneSvg, svgToPng, type LegendItem } from "~/components/charts/downloads";
 
 export type ChartDownloadsProps = {
   /** File name without extension, e.g. "crowded-reach-year". */

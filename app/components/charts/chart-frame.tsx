@@ -8,74 +8,27 @@
  * resulting element is reused as is, so React skips it; only the cursor layer and the readout
  * re-render when the cursor moves.
  */
-import { scaleLinear, type ScaleLinear } from "d3-scale";
+import { scaleLinear } from "d3-scale";
 import { useId, useMemo, type ReactNode } from "react";
-import { useContainerWidth, type CursorVia } from "./hooks";
-import { PATH_SCALE, linePath, scaledDash } from "./paths";
-import { nearestIndex, sampleSide, valueAt } from "./lookup";
-import { EVENT_META, GRID, INK, MONO_STACK, SERIF_STACK, type EventKind } from "./palette";
-import { EVENT_ROW, dayDomain, maxFinite, plotBox, spreadLabels, tickCounts, ticksOf, valueDomain } from "./scales";
-import { formatDay } from "./format";
-import type { ChartEvent } from "./types";
+import { useContainerWidth, type CursorVia } from "~/components/charts/hooks";
+import { PATH_SCALE, linePath, scaledDash } from "~/components/charts/paths";
+import { nearestIndex, sampleSide, valueAt } from "~/utils/series-lookup";
+import { GRID, INK, MONO_STACK, SERIF_STACK } from "~/components/charts/palette";
+import {
+  EVENT_ROW,
+  dayDomain,
+  maxFinite,
+  plotBox,
+  spreadLabels,
+  tickCounts,
+  ticksOf,
+  valueDomain,
+} from "~/components/charts/scales";
+import { formatDay } from "~/components/charts/format";
+import { EVENT_ORDER, EventStrip } from "~/components/charts/event-strip";
+import type { Axis, ChartFrameProps } from "~/components/charts/chart-frame-types";
 
-export type Axis = "left" | "right";
-
-export type FrameLine = {
-  key: string;
-  t: ArrayLike<number>;
-  y: ArrayLike<number>;
-  axis: Axis;
-  color: string;
-  dash?: string;
-  width: number;
-  opacity?: number;
-  /** Direct label at the line's right end (colour is never the only cue). */
-  label?: string;
-  /** Draw a dot where the cursor crosses this line (default true). */
-  cursorDot?: boolean;
-};
-
-export type FrameBand = { key: string; low: number; high: number; color: string; label: string };
-export type FrameGuide = { key: string; value: number; color: string; label: string };
-export type FramePoint = {
-  key: string;
-  day: number;
-  value: number;
-  color: string;
-  shape: "filled" | "ring" | "dot";
-  title: string;
-};
-
-export type FrameCursor = {
-  index: number;
-  moveTo: (i: number, via: CursorVia) => void;
-  onKeyDown: (e: React.KeyboardEvent) => void;
-};
-
-export type ChartFrameProps = {
-  title: string;
-  description: string;
-  /** Sample days the cursor steps through (the main run's). */
-  t: ArrayLike<number>;
-  lines: readonly FrameLine[];
-  leftLabel: string | null;
-  rightLabel: string | null;
-  bands?: readonly FrameBand[];
-  guides?: readonly FrameGuide[];
-  points?: readonly FramePoint[];
-  events?: readonly ChartEvent[];
-  height: number;
-  cursor: FrameCursor;
-  /** What the cursor shows, next to the chart (below it on narrow screens). */
-  readout: ReactNode;
-  /** Text for the polite live region (set on keyboard moves and clicks). */
-  announcement: string;
-  /** Toggles and legend above the chart. */
-  toolbar?: ReactNode;
-  /** Below the chart (downloads, table). */
-  footer?: ReactNode;
-  svgRef?: React.Ref<SVGSVGElement>;
-};
+export type { FrameBand, FrameGuide, FrameLine, FramePoint } from "~/components/charts/chart-frame-types";
 
 const EMPTY: readonly never[] = [];
 
@@ -431,59 +384,4 @@ export function ChartFrame({
 function lastFinite(a: ArrayLike<number>): number {
   for (let i = a.length - 1; i >= 0; i--) if (Number.isFinite(a[i])) return a[i];
   return 0;
-}
-
-/** Rows of the event strip, top to bottom. */
-const EVENT_ORDER: readonly EventKind[] = ["waterChange", "filterCleaning", "trim", "dose", "dosingStopped", "feeding"];
-
-/**
- * Event glyphs under the plot, one row per kind. Events of a kind closer than a glyph's width
- * share one glyph (its title lists them all), so a year of weekly water changes on a phone
- * stays a row of marks rather than a smear.
- */
-function EventStrip({
-  events,
-  kinds,
-  x,
-  y,
-  width,
-}: {
-  events: readonly ChartEvent[];
-  kinds: readonly EventKind[];
-  x: ScaleLinear<number, number>;
-  y: number;
-  width: number;
-}) {
-  const glyphs: ReactNode[] = [];
-  kinds.forEach((kind, row) => {
-    const meta = EVENT_META[kind];
-    const stroked = kind === "dosingStopped";
-    const buckets = new Map<number, ChartEvent[]>();
-    for (const e of events) {
-      if (e.kind !== kind) continue;
-      const px = x(e.day);
-      if (!(px >= -1 && px <= width + 1)) continue;
-      const b = Math.round(px / 8);
-      const list = buckets.get(b);
-      if (list) list.push(e);
-      else buckets.set(b, [e]);
-    }
-    for (const [b, items] of buckets) {
-      const px = items.reduce((s, e) => s + x(e.day), 0) / items.length;
-      const title = items.map((e) => `${meta.label}, ${formatDay(e.day)}${e.detail ? `: ${e.detail}` : ""}`).join("\n");
-      glyphs.push(
-        <g key={`${kind}-${b}`} transform={`translate(${px},${y + row * EVENT_ROW + EVENT_ROW / 2})`}>
-          <title>{title}</title>
-          <path
-            d={meta.glyph}
-            transform="scale(0.85)"
-            fill={stroked ? "none" : INK}
-            stroke={stroked ? INK : "#ffffff"}
-            strokeWidth={stroked ? 1.75 : 0.75}
-          />
-        </g>,
-      );
-    }
-  });
-  return <g>{glyphs}</g>;
 }

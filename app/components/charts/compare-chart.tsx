@@ -4,15 +4,15 @@
  * cursor, readout, table and downloads as the results chart (drawing shared through ChartFrame).
  */
 import { memo, useCallback, useId, useMemo, useRef, useState } from "react";
-import { ChartDataTable, compareTableColumns } from "./chart-data-table";
-import { ChartDownloads } from "./chart-downloads";
-import { ChartFrame, type FrameBand, type FrameGuide, type FrameLine } from "./chart-frame";
-import { compareCsv, fileSlug, speciesValues } from "./csv";
-import type { LegendItem } from "./downloads";
-import { formatDay, formatNumber, formatSigned } from "./format";
-import { useControllable, useDayCursor } from "./hooks";
-import { EventKey, LineSwatch, ToggleButton } from "./legend";
-import { sampleSide, valueAt } from "./lookup";
+import { ChartDataTable, compareTableColumns } from "~/components/charts/chart-data-table";
+import { ChartDownloads } from "~/components/charts/chart-downloads";
+import { ChartFrame, type FrameBand, type FrameGuide, type FrameLine } from "~/components/charts/chart-frame";
+import { compareCsv, fileSlug, speciesValues } from "~/utils/csv";
+import type { LegendItem } from "~/components/charts/downloads";
+import { formatDay, formatNumber, formatSigned } from "~/components/charts/format";
+import { useControllable, useDayCursor } from "~/components/charts/hooks";
+import { EventKey, LineSwatch, ToggleButton } from "~/components/charts/legend";
+import { sampleSide, valueAt } from "~/utils/series-lookup";
 import {
   BAND_COLOR,
   COMPARE_COLORS,
@@ -23,10 +23,10 @@ import {
   SERIES_NAMES,
   unitOf,
   type EventKind,
-} from "./palette";
-import type { ChartEvent, ChartGuides, ChartSeries, ChartUnits, SeriesKey } from "./types";
+} from "~/components/charts/palette";
+import type { ChartEvent, ChartGuides, ChartSeries, ChartUnits, SeriesKey } from "~/utils/chart-data";
 
-export type CompareRun = { label: string; series: ChartSeries };
+type CompareRun = { label: string; series: ChartSeries };
 
 export type CompareChartProps = {
   title: string;
@@ -54,7 +54,7 @@ export type CompareChartProps = {
 const EMPTY: readonly never[] = [];
 
 /** Colour and dash of the k-th scenario: the species' own colour first, then ours. */
-export function compareStyle(k: number, key: SeriesKey): { color: string; dash: string | undefined } {
+function compareStyle(k: number, key: SeriesKey): { color: string; dash: string | undefined } {
   return {
     color: k === 0 ? SERIES_COLORS[key] : COMPARE_COLORS[(k - 1) % COMPARE_COLORS.length],
     dash: COMPARE_DASHES[k % COMPARE_DASHES.length],

@@ -4,7 +4,7 @@
  * and an object URL. Functions that touch the DOM run only from click handlers; the string
  * helpers are pure and unit-tested.
  */
-import { INK, SERIF_STACK } from "./palette";
+import { INK, SERIF_STACK } from "~/components/charts/palette";
 
 export type LegendItem = { label: string; color: string; dash?: string; width?: number; opacity?: number };
 

@@ -1,9 +1,9 @@
 /** Hooks shared by the chart components (client behaviour; SSR-safe). */
 import { useCallback, useEffect, useLayoutEffect, useRef, useState } from "react";
-import { stepCursor } from "./lookup";
+import { stepCursor } from "~/utils/series-lookup";
 
 /** useLayoutEffect in the browser, useEffect on the server (where neither runs). */
-export const useIsomorphicLayoutEffect = typeof window === "undefined" ? useEffect : useLayoutEffect;
+const useIsomorphicLayoutEffect = typeof window === "undefined" ? useEffect : useLayoutEffect;
 
 /**
  * Width of an element in whole px, from a ResizeObserver. Null until mounted in the browser:

@@ -1,7 +1,7 @@
 /** Toggle buttons with a line sample: the charts' legend and series switches in one. */
 import type { ReactNode } from "react";
-import { EVENT_META, INK } from "./palette";
-import type { ChartEvent } from "./types";
+import { EVENT_META, INK } from "~/components/charts/palette";
+import type { ChartEvent } from "~/utils/chart-data";
 
 /** A short line in the series' colour and dash, as drawn on the chart. */
 export function LineSwatch({

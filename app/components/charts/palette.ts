@@ -3,7 +3,7 @@
  * only cue: every series also has a name on its toggle and a direct label at the end of its line,
  * and the series that share a colour differ by dash.
  */
-import type { ChartEvent, ChartUnits, SeriesKey } from "./types";
+import type { ChartEvent, ChartUnits, SeriesKey } from "~/utils/chart-data";
 
 export const SERIES_COLORS: Record<SeriesKey, string> = {
   tan: "#4338ca",

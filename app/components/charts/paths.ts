@@ -8,7 +8,7 @@
  * vector-effect), so exported files look the same in any viewer.
  */
 import { line as d3line } from "d3-shape";
-import { decimateCached } from "./decimate";
+import { decimateCached } from "~/components/charts/decimate";
 
 export const PATH_SCALE = 10;
 

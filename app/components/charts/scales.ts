@@ -9,7 +9,7 @@
  */
 import { scaleLinear, type ScaleLinear } from "d3-scale";
 
-export type Margins = { top: number; right: number; bottom: number; left: number };
+type Margins = { top: number; right: number; bottom: number; left: number };
 
 export type PlotBox = {
   width: number;

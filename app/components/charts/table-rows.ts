@@ -1,5 +1,5 @@
 /** Which samples the data table lists (pure). */
-import { lowerBound, typicalSpacing } from "./lookup";
+import { lowerBound, typicalSpacing } from "~/utils/series-lookup";
 
 /**
  * Rows for the table: with output finer than a day, one row per whole day (the first sample of

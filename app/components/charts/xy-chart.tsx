@@ -13,11 +13,11 @@
 import { scaleLinear } from "d3-scale";
 import { line as d3line } from "d3-shape";
 import { useId, useMemo } from "react";
-import { formatNumber } from "./format";
-import { useContainerWidth } from "./hooks";
-import { LineSwatch } from "./legend";
-import { GRID, INK, MONO_STACK, SERIF_STACK } from "./palette";
-import { plotBox, tickCounts, ticksOf } from "./scales";
+import { formatNumber } from "~/components/charts/format";
+import { useContainerWidth } from "~/components/charts/hooks";
+import { LineSwatch } from "~/components/charts/legend";
+import { GRID, INK, MONO_STACK, SERIF_STACK } from "~/components/charts/palette";
+import { plotBox, tickCounts, ticksOf } from "~/components/charts/scales";
 
 export type XYPoint = { x: number; y: number | null };
 
@@ -49,7 +49,7 @@ export type XYChartProps = {
  * A domain covering `values` (and 0 when asked), made round; a flat set widens by ±1 (or ±10 %).
  * `pad` adds 5 % headroom (values), none for the x axis (a sweep's range is exactly what was asked).
  */
-export function signedDomain(
+function signedDomain(
   values: readonly number[],
   ticks: number,
   withZero: boolean,

@@ -4,12 +4,12 @@ import { z } from "zod";
 import type { Route } from "./+types/classes";
 import { AdminNav } from "~/components/admin-nav";
 import { FormMessage } from "~/components/ui/field";
-import { handOverClass } from "~/classes.server";
+import { handOverClass } from "~/features/classes/classes.server";
 import { getDb } from "~/db/client.server";
 import { classes, classMembers, users } from "~/db/schema";
 import { hasRole, requireRole } from "~/permissions.server";
 import { fieldErrors, formValues } from "~/utils/form-errors";
-import { invalid, readForm } from "~/utils/http.server";
+import { invalid, readForm } from "~/http/pages.server";
 
 export const meta: Route.MetaFunction = () => [{ title: "Classes · Admin · Fernwater" }];
 

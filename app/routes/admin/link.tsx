@@ -6,9 +6,9 @@ import { ReadOnlyResults } from "~/components/read-only-results";
 import { getDb } from "~/db/client.server";
 import { users } from "~/db/schema";
 import { notFound, requireRole } from "~/permissions.server";
-import { readOnlyScenarioView } from "~/read-only-view.server";
-import { findLinkById } from "~/share.server";
-import { parseId } from "~/tanks.server";
+import { readOnlyScenarioView } from "~/features/runs/read-only-view.server";
+import { findLinkById } from "~/features/sharing/share.server";
+import { parseId } from "~/features/tanks/tanks.server";
 import { displayUnitsFor } from "~/utils/display-units";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `Review ${data?.name ?? "link"} · Admin · Fernwater` }];

@@ -4,9 +4,9 @@ import type { Route } from "./+types/links";
 import { AdminNav } from "~/components/admin-nav";
 import { FormMessage } from "~/components/ui/field";
 import { requireRole } from "~/permissions.server";
-import { findLinkByToken, listPublicLinks, restoreLink, takeDownLink } from "~/share.server";
+import { findLinkByToken, listPublicLinks, restoreLink, takeDownLink } from "~/features/sharing/share.server";
 import { fieldErrors, formValues } from "~/utils/form-errors";
-import { invalid, readForm } from "~/utils/http.server";
+import { invalid, readForm } from "~/http/pages.server";
 
 export const meta: Route.MetaFunction = () => [{ title: "Public links · Admin · Fernwater" }];
 

@@ -8,7 +8,7 @@ import { getDb } from "~/db/client.server";
 import { ROLES, users } from "~/db/schema";
 import { requireRole } from "~/permissions.server";
 import { fieldErrors, formValues } from "~/utils/form-errors";
-import { invalid, readForm } from "~/utils/http.server";
+import { invalid, readForm } from "~/http/pages.server";
 
 export const meta: Route.MetaFunction = () => [{ title: "Users · Admin · Fernwater" }];
 

@@ -1,5 +1,5 @@
 import { sql } from "drizzle-orm";
-import { methodNotAllowed } from "~/api.server";
+import { methodNotAllowed } from "~/http/api.server";
 import { getDb } from "~/db/client.server";
 
 /** GET /api/health: the database answers a query, and which version runs. */

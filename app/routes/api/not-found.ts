@@ -1,4 +1,4 @@
-import { apiError } from "~/api.server";
+import { apiError } from "~/http/api.server";
 
 /** Any address under /api that is not a route: the API's JSON 404, whatever the method. */
 export function loader() {

@@ -1,15 +1,14 @@
 import { z } from "zod";
 import type { Route } from "./+types/preview";
-import { parseScenario } from "../../../models";
-import { apiError, apiFind, json, readJson, zodIssues, methodNotAllowed } from "~/api.server";
-import { displayKeyFigures, displaySeries } from "~/display-figures.server";
+import { parseScenario } from "~models";
+import { apiError, apiRoute, json, methodNotAllowed, readJson, zodIssues } from "~/http/api.server";
+import { displayKeyFigures, displaySeries } from "~/features/runs/display-figures";
 import { requireApiUser } from "~/permissions.server";
-import { runOrRefuse } from "~/scenario-api.server";
-import { unknownSettingKeys } from "~/settings-patch.server";
-import { readStoredSettings, withTankTargets } from "~/simulation.server";
-import { requireOwnedScenarioById } from "~/tanks.server";
+import { unknownSettingKeys } from "~/features/scenarios/settings-patch.server";
+import { readStoredSettings, runEngine, withTankTargets } from "~/features/runs/simulation.server";
+import { requireOwnedScenarioById } from "~/features/tanks/tanks.server";
 import { displayUnitsFor } from "~/utils/display-units";
-import { applyWhatIf, WhatIfSchema } from "~/what-if.server";
+import { applyWhatIf, WhatIfSchema } from "~/features/runs/what-if.server";
 
 /** Previews are for trying things: at most a year of model time, at most ~1,500 chart points. */
 export const PREVIEW_MAX_DAYS = 365;
@@ -25,7 +24,7 @@ const BodySchema = z.union([
  * scenario, canonical units) or `{ scenarioId, whatIf }` (changes on top of a saved scenario).
  * `?units=display` answers in the signed-in person's units (what the results page overlays).
  */
-export async function action({ request }: Route.ActionArgs) {
+export const action = apiRoute(async ({ request }: Route.ActionArgs) => {
   const user = await requireApiUser(request);
   if (request.method !== "POST") return apiError(405, "Use POST to preview.");
   const body = BodySchema.safeParse(await readJson(request));
@@ -54,7 +53,7 @@ export async function action({ request }: Route.ActionArgs) {
     scenario = parsed.data;
   } else {
     const { scenarioId, whatIf } = body.data;
-    const { tank, scenario: row } = apiFind(() => requireOwnedScenarioById(user.id, String(scenarioId)), "There is no such scenario among yours.");
+    const { tank, scenario: row } = requireOwnedScenarioById(user.id, String(scenarioId));
     const saved = readStoredSettings(row.settings);
     if (!saved) return apiError(409, "The saved settings can no longer be read.");
     const changed = withTankTargets(applyWhatIf(saved, whatIf), tank);
@@ -63,8 +62,8 @@ export async function action({ request }: Route.ActionArgs) {
     scenario = { ...parsed.data, run: { ...parsed.data.run, lengthDays: Math.min(parsed.data.run.lengthDays, PREVIEW_MAX_DAYS) } };
   }
   const interval = Math.max(scenario.run.outputIntervalDays, scenario.run.lengthDays / MAX_POINTS);
-  // Counted against the person's previews a minute and runs in flight (app/run-gate.server.ts).
-  const result = await runOrRefuse(
+  // Counted against the person's previews a minute and runs in flight (app/features/runs/run-gate.server.ts).
+  const result = await runEngine(
     { ...scenario, run: { ...scenario.run, outputIntervalDays: Math.min(7, interval) } },
     { userId: user.id, purpose: "preview" },
   );
@@ -86,7 +85,7 @@ export async function action({ request }: Route.ActionArgs) {
     series: result.series,
     stats: result.stats,
   });
-}
+});
 
 /** POST /api/preview only. Any other method: 405 in the API's JSON shape. */
 export function loader() {

@@ -1,12 +1,12 @@
 import { and, eq } from "drizzle-orm";
 import type { Route } from "./+types/run";
-import { apiError, json, methodNotAllowed } from "~/api.server";
-import { toCsv, type CsvCell } from "~/components/charts/csv";
+import { apiError, apiRoute, json, methodNotAllowed } from "~/http/api.server";
+import { toCsv, type CsvCell } from "~/utils/csv";
 import { getDb } from "~/db/client.server";
 import { runs, scenarios, tanks } from "~/db/schema";
 import { requireApiUser } from "~/permissions.server";
-import { runSummaryJson } from "~/scenario-api.server";
-import { getRun, type StoredRun } from "~/simulation.server";
+import { runSummaryJson } from "~/features/scenarios/scenario-api.server";
+import { getRun, type StoredRun } from "~/features/runs/simulation.server";
 
 /** The run's series in canonical units, one row per sample (both samples of each event). */
 function runCsv(run: StoredRun): string {
@@ -46,7 +46,7 @@ function runCsv(run: StoredRun): string {
 }
 
 /** GET /api/runs/:runId — the whole run as JSON; `?format=csv` for the series as CSV. */
-export async function loader({ request, params }: Route.LoaderArgs) {
+export const loader = apiRoute(async ({ request, params }: Route.LoaderArgs) => {
   const user = await requireApiUser(request);
   const runId = /^\d{1,12}$/.test(params.runId ?? "") ? Number(params.runId) : 0;
   const owned = getDb()
@@ -70,7 +70,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   }
   if (format !== "json") return apiError(400, "format must be json or csv.", [{ path: "format", message: "Use json or csv." }]);
   return json({ run: { ...runSummaryJson(run), series: run.series } });
-}
+});
 
 /** A run is read-only. Any other method: 405 in the API's JSON shape. */
 export function action() {

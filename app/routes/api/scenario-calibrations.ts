@@ -1,8 +1,8 @@
 import type { Route } from "./+types/scenario-calibrations";
-import { apiError, readJson, zodIssues, methodNotAllowed } from "~/api.server";
-import { CalibrateInputSchema, startCalibration } from "~/calibration.server";
-import { modelStartMs } from "~/readings.server";
-import { jobAccepted, requireApiScenario } from "~/scenario-api.server";
+import { apiError, apiRoute, methodNotAllowed, readJson, zodIssues } from "~/http/api.server";
+import { CalibrateInputSchema, startCalibration } from "~/features/calibration/calibration.server";
+import { modelStartMs } from "~/features/readings/readings.server";
+import { jobAccepted, requireApiScenario } from "~/features/scenarios/scenario-api.server";
 import { displayUnitsFor } from "~/utils/display-units";
 
 /**
@@ -10,15 +10,15 @@ import { displayUnitsFor } from "~/utils/display-units";
  * fits those multipliers to the tank's readings within the scenario's run; 202 with the job to
  * poll at /api/jobs/:id.
  */
-export async function action({ request, params }: Route.ActionArgs) {
+export const action = apiRoute(async ({ request, params }: Route.ActionArgs) => {
   if (request.method !== "POST") return apiError(405, "Use POST to start a calibration.");
   const { user, tank, row, scenario } = await requireApiScenario(request, params.scenarioId);
   const input = CalibrateInputSchema.safeParse(await readJson(request, 4 * 1024));
   if (!input.success) return apiError(400, "The calibration is not valid.", zodIssues(input.error));
-  return jobAccepted(() =>
+  return jobAccepted(
     startCalibration(user, row, tank.id, scenario, modelStartMs(row), input.data.fit, displayUnitsFor(user)),
   );
-}
+});
 
 /** Calibrations are started with POST; poll /api/jobs/:id for them. Any other method: 405 in the API's JSON shape. */
 export function loader() {

@@ -1,7 +1,7 @@
 import type { Route } from "./+types/scenario-targets";
-import { apiError, readJson, zodIssues, methodNotAllowed } from "~/api.server";
-import { jobAccepted, requireApiScenario } from "~/scenario-api.server";
-import { startTargetSearch, TargetInputSchema } from "~/target-finder.server";
+import { apiError, apiRoute, methodNotAllowed, readJson, zodIssues } from "~/http/api.server";
+import { jobAccepted, requireApiScenario } from "~/features/scenarios/scenario-api.server";
+import { startTargetSearch, TargetInputSchema } from "~/features/sweeps/target-finder.server";
 import { displayUnitsFor } from "~/utils/display-units";
 
 /**
@@ -9,13 +9,13 @@ import { displayUnitsFor } from "~/utils/display-units";
  * (goals in your units, either may be null): searches for the least change of `lever` that meets
  * the goal; 202 with the job to poll at /api/jobs/:id.
  */
-export async function action({ request, params }: Route.ActionArgs) {
+export const action = apiRoute(async ({ request, params }: Route.ActionArgs) => {
   if (request.method !== "POST") return apiError(405, "Use POST to start a target search.");
   const { user, row, scenario } = await requireApiScenario(request, params.scenarioId);
   const input = TargetInputSchema.safeParse(await readJson(request, 4 * 1024));
   if (!input.success) return apiError(400, "The target search is not valid.", zodIssues(input.error));
-  return jobAccepted(() => startTargetSearch(user, row.id, scenario, input.data, displayUnitsFor(user)));
-}
+  return jobAccepted( startTargetSearch(user, row.id, scenario, input.data, displayUnitsFor(user)));
+});
 
 /** Target searches are started with POST; poll /api/jobs/:id for them. Any other method: 405 in the API's JSON shape. */
 export function loader() {

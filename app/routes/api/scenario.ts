@@ -1,32 +1,30 @@
 import type { Route } from "./+types/scenario";
-import { apiError, apiFind, json, readJson, zodIssues } from "~/api.server";
+import { apiError, apiRoute, json, readJson, zodIssues } from "~/http/api.server";
 import { getDb } from "~/db/client.server";
 import { scenarios } from "~/db/schema";
 import { eq } from "drizzle-orm";
 import { requireApiUser } from "~/permissions.server";
-import { ScenarioPatchSchema, requireValidSettings, saveScenarioWithRun, scenarioJson } from "~/scenario-api.server";
-import { mergeSettings } from "~/settings-patch.server";
-import { readStoredSettings } from "~/simulation.server";
-import { requireOwnedScenarioById } from "~/tanks.server";
-import { lessonCopyPath } from "~/classes.server";
-
-const NOT_FOUND = "There is no such scenario among yours.";
+import { ScenarioPatchSchema, requireValidSettings, saveScenarioWithRun, scenarioJson } from "~/features/scenarios/scenario-api.server";
+import { mergeSettings } from "~/features/scenarios/settings-patch.server";
+import { readStoredSettings } from "~/features/runs/simulation.server";
+import { requireOwnedScenarioById } from "~/features/tanks/tanks.server";
+import { lessonCopyPath } from "~/features/classes/classes.server";
 
 /** GET /api/scenarios/:scenarioId */
-export async function loader({ request, params }: Route.LoaderArgs) {
+export const loader = apiRoute(async ({ request, params }: Route.LoaderArgs) => {
   const user = await requireApiUser(request);
-  const { scenario } = apiFind(() => requireOwnedScenarioById(user.id, params.scenarioId), NOT_FOUND);
+  const { scenario } = requireOwnedScenarioById(user.id, params.scenarioId);
   return json({ scenario: scenarioJson(scenario) });
-}
+});
 
 /**
  * PUT or PATCH /api/scenarios/:scenarioId { name?, settings? }: update, validate and re-run.
  * PUT replaces the settings (what is left out takes its default); PATCH merges the settings sent
  * into the saved ones (what is left out stays as it was).
  */
-export async function action({ request, params }: Route.ActionArgs) {
+export const action = apiRoute(async ({ request, params }: Route.ActionArgs) => {
   const user = await requireApiUser(request);
-  const { tank, scenario } = apiFind(() => requireOwnedScenarioById(user.id, params.scenarioId), NOT_FOUND);
+  const { tank, scenario } = requireOwnedScenarioById(user.id, params.scenarioId);
   if (request.method !== "PUT" && request.method !== "PATCH") return apiError(405, "Use PUT or PATCH to update a scenario.");
   const lessonPath = lessonCopyPath(scenario.id);
   if (lessonPath) return apiError(409, `This scenario is a lesson copy: change it on its lesson page, ${lessonPath}, where the lesson's locks apply.`);
@@ -47,4 +45,4 @@ export async function action({ request, params }: Route.ActionArgs) {
   await saveScenarioWithRun(tank, scenario.id, body.data.name ?? scenario.name, settings);
   const row = getDb().select().from(scenarios).where(eq(scenarios.id, scenario.id)).get()!;
   return json({ scenario: scenarioJson(row) });
-}
+});

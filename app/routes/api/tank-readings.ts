@@ -1,13 +1,13 @@
 import type { Route } from "./+types/tank-readings";
-import { apiFind, json, methodNotAllowed } from "~/api.server";
+import { apiRoute, json, methodNotAllowed } from "~/http/api.server";
 import { requireApiUser } from "~/permissions.server";
-import { allReadings } from "~/readings.server";
-import { requireOwnedTank } from "~/tanks.server";
+import { allReadings } from "~/features/readings/readings.server";
+import { requireOwnedTank } from "~/features/tanks/tanks.server";
 
 /** GET /api/tanks/:tankId/readings: the tank's test readings, oldest first, canonical units (mg N/L, dKH, °C). */
-export async function loader({ request, params }: Route.LoaderArgs) {
+export const loader = apiRoute(async ({ request, params }: Route.LoaderArgs) => {
   const user = await requireApiUser(request);
-  const tank = apiFind(() => requireOwnedTank(user.id, params.tankId), "There is no such tank among yours.");
+  const tank = requireOwnedTank(user.id, params.tankId);
   return json({
     tankId: tank.id,
     readings: allReadings(tank.id).map((r) => ({
@@ -22,7 +22,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
       note: r.note,
     })),
   });
-}
+});
 
 /** Readings are added on the readings page (form or CSV). Any other method: 405 in the API's JSON shape. */
 export function action() {

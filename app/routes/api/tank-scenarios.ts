@@ -1,21 +1,21 @@
 import type { Route } from "./+types/tank-scenarios";
-import { apiError, apiFind, json, readJson, zodIssues } from "~/api.server";
+import { apiError, apiRoute, json, readJson, zodIssues } from "~/http/api.server";
 import { requireApiUser } from "~/permissions.server";
-import { ScenarioBodySchema, requireValidSettings, saveScenarioWithRun, scenarioJson } from "~/scenario-api.server";
-import { listScenarios, requireOwnedTank } from "~/tanks.server";
+import { ScenarioBodySchema, requireValidSettings, saveScenarioWithRun, scenarioJson } from "~/features/scenarios/scenario-api.server";
+import { listScenarios, requireOwnedTank } from "~/features/tanks/tanks.server";
 import { getDb } from "~/db/client.server";
 import { scenarios } from "~/db/schema";
 import { eq } from "drizzle-orm";
 
 /** GET /api/tanks/:tankId/scenarios: the tank's scenarios (settings included). */
-export async function loader({ request, params }: Route.LoaderArgs) {
+export const loader = apiRoute(async ({ request, params }: Route.LoaderArgs) => {
   const user = await requireApiUser(request);
   const tank = requireOwnedTankForApi(user.id, params.tankId);
   return json({ scenarios: listScenarios(tank.id).map(scenarioJson) });
-}
+});
 
 /** POST /api/tanks/:tankId/scenarios: create a scenario { name, settings } and run it. */
-export async function action({ request, params }: Route.ActionArgs) {
+export const action = apiRoute(async ({ request, params }: Route.ActionArgs) => {
   const user = await requireApiUser(request);
   const tank = requireOwnedTankForApi(user.id, params.tankId);
   if (request.method !== "POST") return apiError(405, "Use POST to create a scenario.");
@@ -25,8 +25,8 @@ export async function action({ request, params }: Route.ActionArgs) {
   const id = await saveScenarioWithRun(tank, "new", body.data.name, settings);
   const row = getDb().select().from(scenarios).where(eq(scenarios.id, id)).get()!;
   return json({ scenario: scenarioJson(row), links: { run: `/api/scenarios/${id}/run` } }, { status: 201 });
-}
+});
 
 function requireOwnedTankForApi(userId: number, tankId: string | undefined) {
-  return apiFind(() => requireOwnedTank(userId, tankId), "There is no such tank among yours.");
+  return requireOwnedTank(userId, tankId);
 }

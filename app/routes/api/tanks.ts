@@ -1,12 +1,12 @@
 import { asc, eq } from "drizzle-orm";
 import type { Route } from "./+types/tanks";
-import { json, methodNotAllowed } from "~/api.server";
+import { apiRoute, json, methodNotAllowed } from "~/http/api.server";
 import { getDb } from "~/db/client.server";
 import { tanks } from "~/db/schema";
 import { requireApiUser } from "~/permissions.server";
 
 /** GET /api/tanks: the signed-in keeper's tanks. */
-export async function loader({ request }: Route.LoaderArgs) {
+export const loader = apiRoute(async ({ request }: Route.LoaderArgs) => {
   const user = await requireApiUser(request);
   const list = getDb()
     .select({
@@ -23,7 +23,7 @@ export async function loader({ request }: Route.LoaderArgs) {
     .orderBy(asc(tanks.id))
     .all();
   return json({ tanks: list });
-}
+});
 
 /** Tanks are made on the tanks page. Any other method: 405 in the API's JSON shape. */
 export function action() {

@@ -6,20 +6,15 @@ import { hashPassword, verifyPassword } from "~/auth.server";
 import { FormMessage, SelectField, TextField } from "~/components/ui/field";
 import { getDb } from "~/db/client.server";
 import { users } from "~/db/schema";
-import { spendResetLinks } from "~/password-reset.server";
+import { spendResetLinks } from "~/features/accounts/password-reset.server";
 import { requireUser } from "~/permissions.server";
 import { usageOf } from "~/quotas.server";
 import { giveBack, take, waitText } from "~/rate-limits.server";
 import { createUserSession, revokeAllSessions } from "~/session.server";
 import { ChangePasswordSchema, UnitPreferencesSchema } from "~/utils/account-schemas";
 import { fieldErrors, formValues } from "~/utils/form-errors";
-import { invalid, readForm } from "~/utils/http.server";
-import {
-  KH_UNIT_OPTIONS,
-  NITRATE_UNIT_OPTIONS,
-  TEMPERATURE_UNIT_OPTIONS,
-  VOLUME_UNIT_OPTIONS,
-} from "~/utils/unit-options";
+import { invalid, readForm } from "~/http/pages.server";
+import { PREFERENCE_OPTIONS } from "~/utils/display-units";
 
 export const meta: Route.MetaFunction = () => [{ title: "Your account · Fernwater" }];
 
@@ -108,21 +103,21 @@ export default function AccountPage({ loaderData, actionData }: Route.ComponentP
             label="Volume"
             name="volumeUnit"
             defaultValue={user.volumeUnit}
-            options={VOLUME_UNIT_OPTIONS}
+            options={PREFERENCE_OPTIONS.volumeUnit}
             error={forPrefs ? errors.volumeUnit : undefined}
           />
           <SelectField
             label="Temperature"
             name="temperatureUnit"
             defaultValue={user.temperatureUnit}
-            options={TEMPERATURE_UNIT_OPTIONS}
+            options={PREFERENCE_OPTIONS.temperatureUnit}
             error={forPrefs ? errors.temperatureUnit : undefined}
           />
           <SelectField
             label="Nitrate, nitrite and ammonia"
             name="nitrateUnit"
             defaultValue={user.nitrateUnit}
-            options={NITRATE_UNIT_OPTIONS}
+            options={PREFERENCE_OPTIONS.nitrateUnit}
             hint="Most hobby test kits read nitrate as NO3; lab reports often give it as N."
             error={forPrefs ? errors.nitrateUnit : undefined}
           />
@@ -130,7 +125,7 @@ export default function AccountPage({ loaderData, actionData }: Route.ComponentP
             label="Carbonate hardness (KH)"
             name="khUnit"
             defaultValue={user.khUnit}
-            options={KH_UNIT_OPTIONS}
+            options={PREFERENCE_OPTIONS.khUnit}
             error={forPrefs ? errors.khUnit : undefined}
           />
           <div className="sm:col-span-2">

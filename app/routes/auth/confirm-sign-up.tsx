@@ -2,9 +2,9 @@ import { Form, Link, useNavigation } from "react-router";
 import type { Route } from "./+types/confirm-sign-up";
 import { FormMessage } from "~/components/ui/field";
 import { createUserSession } from "~/session.server";
-import { confirmSignUp, findSignUpRequest } from "~/sign-up.server";
+import { confirmSignUp, findSignUpRequest } from "~/features/accounts/sign-up.server";
 import { formValues } from "~/utils/form-errors";
-import { invalid, readForm } from "~/utils/http.server";
+import { invalid, readForm } from "~/http/pages.server";
 
 export const meta: Route.MetaFunction = () => [
   { title: "Finish creating your account · Fernwater" },

@@ -1,10 +1,10 @@
 import { Form, Link, useNavigation } from "react-router";
 import type { Route } from "./+types/forgot-password";
 import { FormMessage, TextField } from "~/components/ui/field";
-import { requestPasswordReset } from "~/password-reset.server";
+import { requestPasswordReset } from "~/features/accounts/password-reset.server";
 import { ForgotPasswordSchema } from "~/utils/account-schemas";
 import { fieldErrors, formValues } from "~/utils/form-errors";
-import { invalid, readForm } from "~/utils/http.server";
+import { invalid, readForm } from "~/http/pages.server";
 
 export const meta: Route.MetaFunction = () => [{ title: "Forgot password · Fernwater" }];
 

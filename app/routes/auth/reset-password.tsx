@@ -1,10 +1,10 @@
 import { Form, Link, redirect, useNavigation } from "react-router";
 import type { Route } from "./+types/reset-password";
 import { FormMessage, TextField } from "~/components/ui/field";
-import { completePasswordReset, findLiveResetToken } from "~/password-reset.server";
+import { completePasswordReset, findLiveResetToken } from "~/features/accounts/password-reset.server";
 import { ResetPasswordSchema } from "~/utils/account-schemas";
 import { fieldErrors, formValues } from "~/utils/form-errors";
-import { invalid, readForm } from "~/utils/http.server";
+import { invalid, readForm } from "~/http/pages.server";
 
 export const meta: Route.MetaFunction = () => [{ title: "Choose a new password · Fernwater" }];
 

@@ -4,7 +4,7 @@ import { authenticateSignIn, SignInError } from "~/auth.server";
 import { FormMessage, TextField } from "~/components/ui/field";
 import { clientIpContext } from "~/context";
 import { createUserSession, getSessionUser, safeRedirect } from "~/session.server";
-import { invalid, readForm } from "~/utils/http.server";
+import { invalid, readForm } from "~/http/pages.server";
 
 export const meta: Route.MetaFunction = () => [{ title: "Sign in · Fernwater" }];
 

@@ -5,10 +5,10 @@ import { FormMessage, TextField } from "~/components/ui/field";
 import { clientIpContext } from "~/context";
 import { waitText } from "~/rate-limits.server";
 import { getSessionUser, safeRedirect } from "~/session.server";
-import { requestSignUp, SIGN_UP_LINK_HOURS } from "~/sign-up.server";
+import { requestSignUp, SIGN_UP_LINK_HOURS } from "~/features/accounts/sign-up.server";
 import { SignUpSchema } from "~/utils/account-schemas";
 import { fieldErrors, formValues } from "~/utils/form-errors";
-import { invalid, readForm } from "~/utils/http.server";
+import { invalid, readForm } from "~/http/pages.server";
 
 export const meta: Route.MetaFunction = () => [{ title: "Create an account · Fernwater" }];
 

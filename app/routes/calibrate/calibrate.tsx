@@ -1,4 +1,4 @@
-import { Form, Link, data, redirect, useNavigation } from "react-router";
+import { Form, Link, redirect, useNavigation } from "react-router";
 import type { Route } from "./+types/calibrate";
 import { CalibrationReport } from "~/components/calibration-report";
 import { jobActive, JobProgress, useJob } from "~/components/job-progress";
@@ -9,19 +9,18 @@ import {
   SaveFittedSchema,
   startCalibration,
   type CalibrationJson,
-} from "~/calibration.server";
-import { cancelJob, findScenarioJob, jobJson, JobRefused } from "~/jobs.server";
+} from "~/features/calibration/calibration.server";
+import { cancelJob, findScenarioJob, jobJson } from "~/features/jobs/jobs.server";
 import { requireUser } from "~/permissions.server";
-import { countReadings, modelStartMs, readingsForCalibration } from "~/readings.server";
-import { readStoredSettings, withTankTargets } from "~/simulation.server";
-import { requireOwnedScenario } from "~/tanks.server";
+import { countReadings, modelStartMs, readingsForCalibration } from "~/features/readings/readings.server";
+import { readStoredSettings, withTankTargets } from "~/features/runs/simulation.server";
+import { requireOwnedScenario } from "~/features/tanks/tanks.server";
 import { formatDate } from "~/utils/dates";
 import { displayUnitsFor } from "~/utils/display-units";
-import { fieldErrors, formValues, type FormFailure } from "~/utils/form-errors";
-import { invalid, readForm } from "~/utils/http.server";
-import { MULTIPLIER_KEYS, withMultipliers } from "../../../models/nitrogen/calibrate";
-import { refusal } from "~/copies.server";
-import { saveScenarioVariant } from "~/scenario-variant.server";
+import { fieldErrors, formValues } from "~/utils/form-errors";
+import { invalid, readForm, refusedForm } from "~/http/pages.server";
+import { MULTIPLIER_KEYS, withMultipliers } from "~models/nitrogen/calibrate";
+import { saveScenarioVariant } from "~/features/scenarios/scenario-variant.server";
 import { Breadcrumbs } from "~/components/breadcrumbs";
 
 export const meta: Route.MetaFunction = ({ data }) => [
@@ -83,9 +82,7 @@ export async function action({ request, params }: Route.ActionArgs) {
       );
       return redirect(`${here}?job=${job.id}`);
     } catch (error) {
-      if (error instanceof JobRefused)
-        return data<FormFailure>({ errors: { "": error.message }, values }, { status: error.status });
-      throw error;
+      return refusedForm(error, values);
     }
   }
   if (values.intent === "save") {
@@ -96,9 +93,7 @@ export async function action({ request, params }: Route.ActionArgs) {
       const id = await saveScenarioVariant(tank, row.id, startMs, name, withMultipliers(settings, multipliers));
       return redirect(`/tanks/${tank.id}/scenarios/${id}`);
     } catch (error) {
-      const refused = await refusal(error);
-      if (refused) return invalid({ "": refused.message }, values, refused.status);
-      throw error;
+      return refusedForm(error, values);
     }
   }
   return invalid({ "": "Unknown action." }, values);

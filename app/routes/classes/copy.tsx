@@ -10,13 +10,13 @@ import {
   requireCopyOfLesson,
   requireLesson,
   requireOwnClass,
-} from "~/classes.server";
+} from "~/features/classes/classes.server";
 import { getDb } from "~/db/client.server";
 import { users } from "~/db/schema";
 import { requireUser } from "~/permissions.server";
-import { readOnlyScenarioView } from "~/read-only-view.server";
-import { buildScenarioForm } from "~/scenario-form.server";
-import { readStoredSettings } from "~/simulation.server";
+import { readOnlyScenarioView } from "~/features/runs/read-only-view.server";
+import { buildScenarioForm } from "~/features/scenarios/scenario-form.server";
+import { readStoredSettings } from "~/features/runs/simulation.server";
 import { displayUnitsFor } from "~/utils/display-units";
 import { Breadcrumbs } from "~/components/breadcrumbs";
 

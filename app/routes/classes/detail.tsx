@@ -12,13 +12,13 @@ import {
   requireClassAccess,
   requireOwnClass,
   roster,
-} from "~/classes.server";
+} from "~/features/classes/classes.server";
 import { getDb } from "~/db/client.server";
 import { users } from "~/db/schema";
 import { requireUser } from "~/permissions.server";
-import { READ_ONLY_CLASS } from "~/utils/class-messages";
+import { READ_ONLY_CLASS } from "~/features/classes/class-messages";
 import { fieldErrors, formValues } from "~/utils/form-errors";
-import { invalid, readForm } from "~/utils/http.server";
+import { invalid, readForm } from "~/http/pages.server";
 import { Breadcrumbs } from "~/components/breadcrumbs";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.cls.name ?? "Class"} · Fernwater` }];

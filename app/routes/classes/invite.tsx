@@ -1,10 +1,10 @@
 import { Form, Link, redirect, useNavigation } from "react-router";
 import type { Route } from "./+types/invite";
 import { FormMessage } from "~/components/ui/field";
-import { acceptInvite, findOpenInvite } from "~/classes.server";
+import { acceptInvite, findOpenInvite } from "~/features/classes/classes.server";
 import { notFound, requireUser } from "~/permissions.server";
 import { getSessionUser } from "~/session.server";
-import { invalid } from "~/utils/http.server";
+import { invalid } from "~/http/pages.server";
 
 const USED = "This invitation has been used or has expired. Ask your teacher for the class’s join code.";
 

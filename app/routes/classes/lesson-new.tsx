@@ -10,15 +10,15 @@ import {
   lessonFieldNames,
   PLANT_GROUPS_FIELD,
   requireOwnClass,
-} from "~/classes.server";
+} from "~/features/classes/classes.server";
 import { requireRole } from "~/permissions.server";
-import { buildScenarioForm } from "~/scenario-form.server";
+import { buildScenarioForm } from "~/features/scenarios/scenario-form.server";
 import type { SessionUser } from "~/session.server";
-import { readStoredSettings, withTankTargets } from "~/simulation.server";
-import { requireOwnedScenarioById } from "~/tanks.server";
+import { readStoredSettings, withTankTargets } from "~/features/runs/simulation.server";
+import { requireOwnedScenarioById } from "~/features/tanks/tanks.server";
 import { displayUnitsFor } from "~/utils/display-units";
 import { fieldErrors, formValues } from "~/utils/form-errors";
-import { invalid, readForm } from "~/utils/http.server";
+import { invalid, readForm } from "~/http/pages.server";
 import { Breadcrumbs } from "~/components/breadcrumbs";
 
 export const meta: Route.MetaFunction = ({ data }) => [

@@ -14,15 +14,15 @@ import {
   PLANT_GROUPS_FIELD,
   requireClassAccess,
   requireLesson,
-} from "~/classes.server";
+} from "~/features/classes/classes.server";
 import { notFound, requireUser } from "~/permissions.server";
-import { readOnlyScenarioView } from "~/read-only-view.server";
-import { buildScenarioForm } from "~/scenario-form.server";
-import { readStoredSettings } from "~/simulation.server";
+import { readOnlyScenarioView } from "~/features/runs/read-only-view.server";
+import { buildScenarioForm } from "~/features/scenarios/scenario-form.server";
+import { readStoredSettings } from "~/features/runs/simulation.server";
 import { displayUnitsFor } from "~/utils/display-units";
 import { fieldErrors, formValues } from "~/utils/form-errors";
-import { invalid, readForm } from "~/utils/http.server";
-import { handleSetupSubmission, unitsSummary } from "~/routes/scenarios/setup.server";
+import { invalid, readForm } from "~/http/pages.server";
+import { handleSetupSubmission, unitsSummary } from "~/features/scenarios/scenario-setup.server";
 import { Breadcrumbs } from "~/components/breadcrumbs";
 
 export const meta: Route.MetaFunction = ({ data }) => [

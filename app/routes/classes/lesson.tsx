@@ -1,12 +1,11 @@
 import { data, Form, Link, redirect, useNavigation } from "react-router";
 import type { Route } from "./+types/lesson";
 import { FormMessage } from "~/components/ui/field";
-import { findCopy, handInTable, READ_ONLY_CLASS, requireClassAccess, requireLesson, startCopy } from "~/classes.server";
-import { refusal } from "~/copies.server";
-import { displayKeyFigures } from "~/display-figures.server";
+import { findCopy, handInTable, READ_ONLY_CLASS, requireClassAccess, requireLesson, startCopy } from "~/features/classes/classes.server";
+import { displayKeyFigures } from "~/features/runs/display-figures";
 import { requireUser } from "~/permissions.server";
 import { displayUnitsFor, formatNumber, unitLabels } from "~/utils/display-units";
-import { invalid, readForm } from "~/utils/http.server";
+import { invalid, readForm, refusedForm } from "~/http/pages.server";
 import { formValues } from "~/utils/form-errors";
 import { Breadcrumbs } from "~/components/breadcrumbs";
 
@@ -74,9 +73,7 @@ export async function action({ request, params }: Route.ActionArgs) {
         values,
       );
   } catch (error) {
-    const refused = await refusal(error);
-    if (refused) return invalid({ "": refused.message }, values, refused.status);
-    throw error;
+    return refusedForm(error, values);
   }
   return redirect(`/classes/${cls.id}/lessons/${lesson.id}/work`);
 }

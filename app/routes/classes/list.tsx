@@ -2,10 +2,10 @@ import { Form, Link, redirect, useNavigation } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/list";
 import { FormMessage, TextField } from "~/components/ui/field";
-import { classesOf, createClass, joinWithCode } from "~/classes.server";
+import { classesOf, createClass, joinWithCode } from "~/features/classes/classes.server";
 import { hasRole, requireRole, requireUser } from "~/permissions.server";
 import { fieldErrors, formValues } from "~/utils/form-errors";
-import { invalid, readForm } from "~/utils/http.server";
+import { invalid, readForm } from "~/http/pages.server";
 
 export const meta: Route.MetaFunction = () => [{ title: "Classes · Fernwater" }];
 

@@ -2,16 +2,16 @@ import { useEffect, useMemo, useState } from "react";
 import {  } from "react-router";
 import type { Route } from "./+types/present";
 import { CautionsPanel } from "~/components/cautions";
-import { nearestIndex } from "~/components/charts/lookup";
+import { nearestIndex } from "~/utils/series-lookup";
 import { SERIES_COLORS } from "~/components/charts/palette";
 import { TimeSeriesChart } from "~/components/charts/time-series-chart";
 import { FormMessage } from "~/components/ui/field";
-import { lessonRun, requireLesson, requireOwnClass } from "~/classes.server";
+import { lessonRun, requireLesson, requireOwnClass } from "~/features/classes/classes.server";
 import { requireUser } from "~/permissions.server";
-import { packedResultsPayload, resultsPayload } from "~/results.server";
-import { runProblem } from "~/simulation.server";
+import { packedResultsPayload, resultsPayload } from "~/features/runs/results.server";
+import { runProblem } from "~/http/pages.server";
 import { displayUnitsFor, formatNumber } from "~/utils/display-units";
-import { unpackSeries } from "~/utils/series-packing";
+import { unpackSeries } from "~/features/runs/series-packing";
 import { Breadcrumbs } from "~/components/breadcrumbs";
 
 export const meta: Route.MetaFunction = ({ data }) => [

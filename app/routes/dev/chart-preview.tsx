@@ -3,9 +3,9 @@ import type { Route } from "./+types/chart-preview";
 import { BudgetBar, BudgetTable } from "~/components/charts/budget";
 import { CompareChart } from "~/components/charts/compare-chart";
 import { TimeSeriesChart } from "~/components/charts/time-series-chart";
-import type { ChartEvent, ChartOverlay, ChartReading, ChartSeries, ChartUnits } from "~/components/charts/types";
-import { requireLocalTool } from "~/local-tools.server";
-import { ScenarioSchema, getPreset, plantGroupFromForm, simulate, type ScenarioInput } from "../../../models";
+import type { ChartEvent, ChartOverlay, ChartReading, ChartSeries, ChartUnits } from "~/utils/chart-data";
+import { requireLocalTool } from "~/routes/dev/local-tools.server";
+import { ScenarioSchema, getPreset, plantGroupFromForm, simulate, type ScenarioInput } from "~models";
 
 export const meta: Route.MetaFunction = () => [{ title: "Chart preview (local) · Fernwater" }];
 

@@ -1,6 +1,6 @@
 import type { Route } from "./+types/mail";
 import { getEnv } from "~/env.server";
-import { requireLocalTool } from "~/local-tools.server";
+import { requireLocalTool } from "~/routes/dev/local-tools.server";
 import { listCapturedMail } from "~/mail/captured-mail.server";
 
 export const meta: Route.MetaFunction = () => [{ title: "Captured mail (local) · Fernwater" }];

@@ -1,8 +1,8 @@
 import type { Route } from "./+types/export";
 import { requireUser } from "~/permissions.server";
-import { readingsCsv } from "~/readings-csv.server";
-import { allReadings, measureUnitsFor } from "~/readings.server";
-import { requireOwnedTank } from "~/tanks.server";
+import { readingsCsv } from "~/features/readings/readings-csv-export.server";
+import { allReadings, measureUnitsFor } from "~/features/readings/readings.server";
+import { requireOwnedTank } from "~/features/tanks/tanks.server";
 import { displayUnitsFor } from "~/utils/display-units";
 import { fileSlugFor } from "~/utils/file-name";
 

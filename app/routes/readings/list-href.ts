@@ -1,5 +1,5 @@
 /** Links of the readings page (client-safe: the page's component builds them). */
-import type { ListQuery } from "./readings.server";
+import type { ListQuery } from "~/routes/readings/readings-page.server";
 
 /** The page's URL with some query values changed. */
 export function listHref(tankId: number, q: Partial<ListQuery> & { saved?: string }): string {

@@ -7,7 +7,7 @@ import { FormMessage, TextField } from "~/components/ui/field";
 import { getDb } from "~/db/client.server";
 import { readings } from "~/db/schema";
 import { requireUser } from "~/permissions.server";
-import { checkNewReadings, QuotaExceeded } from "~/quotas.server";
+import { checkNewReadings } from "~/quotas.server";
 import {
   findReading,
   listReadings,
@@ -17,12 +17,12 @@ import {
   measureUnitsFor,
   type MeasureKey,
   type SortKey,
-} from "~/readings.server";
-import { listScenarios, requireOwnedTank } from "~/tanks.server";
+} from "~/features/readings/readings.server";
+import { listScenarios, requireOwnedTank } from "~/features/tanks/tanks.server";
 import { displayUnitsFor, formatNumber } from "~/utils/display-units";
 import { formValues } from "~/utils/form-errors";
-import { invalid, readForm } from "~/utils/http.server";
-import { listHref } from "./list-href";
+import { invalid, readForm, refusedForm } from "~/http/pages.server";
+import { listHref } from "~/routes/readings/list-href";
 import {
   clashMessage,
   displayRow,
@@ -31,7 +31,7 @@ import {
   takenAtClash,
   type DisplayReading,
   type ListQuery,
-} from "./readings.server";
+} from "~/routes/readings/readings-page.server";
 import { Breadcrumbs } from "~/components/breadcrumbs";
 
 export const meta: Route.MetaFunction = ({ data }) => [
@@ -99,8 +99,7 @@ export async function action({ request, params }: Route.ActionArgs) {
           .run();
       });
     } catch (error) {
-      if (error instanceof QuotaExceeded) return invalid({ "": error.message }, values, 413);
-      throw error;
+      return refusedForm(error, values);
     }
   }
   return redirect(listHref(tank.id, { ...back, edit: undefined, saved: existing ? "updated" : "added" }));

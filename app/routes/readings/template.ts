@@ -1,8 +1,8 @@
 import type { Route } from "./+types/template";
 import { requireUser } from "~/permissions.server";
-import { templateCsv } from "~/readings-csv.server";
-import { measureUnitsFor } from "~/readings.server";
-import { requireOwnedTank } from "~/tanks.server";
+import { templateCsv } from "~/features/readings/readings-csv-export.server";
+import { measureUnitsFor } from "~/features/readings/readings.server";
+import { requireOwnedTank } from "~/features/tanks/tanks.server";
 import { displayUnitsFor } from "~/utils/display-units";
 
 /** GET /tanks/:tankId/readings/template — a CSV template in the person's units, with three example rows to overwrite. */

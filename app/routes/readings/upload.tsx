@@ -4,11 +4,12 @@ import type { Route } from "./+types/upload";
 import { FormMessage, SelectField } from "~/components/ui/field";
 import { getDb } from "~/db/client.server";
 import { requireUser } from "~/permissions.server";
-import { MAX_CSV_BYTES, MAX_CSV_ROWS, parseReadingsCsv, type CsvProblem } from "~/readings-csv.server";
-import { checkNewReadings, QuotaExceeded } from "~/quotas.server";
-import { insertReadings, measureUnitsFor, storedTimes, type MeasureUnits } from "~/readings.server";
-import { requireOwnedTank } from "~/tanks.server";
-import { readUpload, UploadError } from "~/uploads.server";
+import { MAX_CSV_BYTES, MAX_CSV_ROWS, parseReadingsCsv, type CsvProblem } from "~/features/readings/readings-csv.server";
+import { checkNewReadings } from "~/quotas.server";
+import { insertReadings, measureUnitsFor, storedTimes, type MeasureUnits } from "~/features/readings/readings.server";
+import { requireOwnedTank } from "~/features/tanks/tanks.server";
+import { formRefusal } from "~/http/pages.server";
+import { readUpload, UploadError } from "~/http/uploads.server";
 import { displayUnitsFor } from "~/utils/display-units";
 import { Breadcrumbs } from "~/components/breadcrumbs";
 
@@ -102,7 +103,8 @@ export async function action({ request, params }: Route.ActionArgs) {
       insertReadings(tx, tank.id, parsed.rows);
     });
   } catch (error) {
-    if (error instanceof QuotaExceeded) return answer({ error: error.message }, 413);
+    const refused = formRefusal(error);
+    if (refused) return answer({ error: refused.message }, refused.status);
     if ((error as { code?: string }).code === "SQLITE_CONSTRAINT_UNIQUE") {
       return answer(
         {

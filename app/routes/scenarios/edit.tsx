@@ -1,15 +1,15 @@
 import { Link, redirect } from "react-router";
 import type { Route } from "./+types/edit";
-import { lessonCopyPath } from "~/classes.server";
+import { lessonCopyPath } from "~/features/classes/classes.server";
 import { ScenarioForm } from "~/components/scenario-form";
 import { FormMessage } from "~/components/ui/field";
 import { requireUser } from "~/permissions.server";
-import { buildScenarioForm } from "~/scenario-form.server";
-import { readStoredSettings } from "~/simulation.server";
-import { requireOwnedScenario } from "~/tanks.server";
+import { buildScenarioForm } from "~/features/scenarios/scenario-form.server";
+import { readStoredSettings } from "~/features/runs/simulation.server";
+import { requireOwnedScenario } from "~/features/tanks/tanks.server";
 import { formatDate } from "~/utils/dates";
-import { readForm } from "~/utils/http.server";
-import { handleSetupSubmission, unitsOf, unitsSummary } from "./setup.server";
+import { readForm } from "~/http/pages.server";
+import { handleSetupSubmission, unitsOf, unitsSummary } from "~/features/scenarios/scenario-setup.server";
 import { Breadcrumbs } from "~/components/breadcrumbs";
 
 export const meta: Route.MetaFunction = ({ data }) => [

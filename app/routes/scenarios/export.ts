@@ -1,9 +1,9 @@
 import type { Route } from "./+types/export";
 import { requireUser } from "~/permissions.server";
 import { fileSlugFor } from "~/utils/file-name";
-import { scenarioFile } from "~/scenario-file.server";
-import { readStoredSettings } from "~/simulation.server";
-import { requireOwnedScenario } from "~/tanks.server";
+import { scenarioFile } from "~/features/scenarios/scenario-file.server";
+import { readStoredSettings } from "~/features/runs/simulation.server";
+import { requireOwnedScenario } from "~/features/tanks/tanks.server";
 
 /** GET …/scenarios/:scenarioId/export — the scenario as a JSON file to keep or share. */
 export async function loader({ request, params }: Route.LoaderArgs) {

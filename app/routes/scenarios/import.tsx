@@ -2,12 +2,11 @@ import { Form, redirect, useNavigation } from "react-router";
 import type { Route } from "./+types/import";
 import { FormMessage } from "~/components/ui/field";
 import { requireUser } from "~/permissions.server";
-import { readScenarioFile } from "~/scenario-file.server";
-import { refusal } from "~/copies.server";
-import { saveScenarioWithRun } from "~/scenario-api.server";
-import { requireOwnedTank } from "~/tanks.server";
-import { readUpload, UploadError } from "~/uploads.server";
-import { invalid } from "~/utils/http.server";
+import { readScenarioFile } from "~/features/scenarios/scenario-file.server";
+import { saveScenarioWithRun } from "~/features/scenarios/scenario-api.server";
+import { requireOwnedTank } from "~/features/tanks/tanks.server";
+import { readUpload, UploadError } from "~/http/uploads.server";
+import { invalid, refusedForm } from "~/http/pages.server";
 import { Breadcrumbs } from "~/components/breadcrumbs";
 
 export const meta: Route.MetaFunction = () => [{ title: "Import a scenario · Fernwater" }];
@@ -44,9 +43,7 @@ export async function action({ request, params }: Route.ActionArgs) {
     const id = await saveScenarioWithRun(tank, "new", name || "Imported scenario", read.scenario);
     return redirect(`/tanks/${tank.id}/scenarios/${id}`);
   } catch (error) {
-    const refused = await refusal(error);
-    if (refused) return invalid({ file: refused.message }, {}, refused.status);
-    throw error;
+    return refusedForm(error, {}, "file");
   }
 }
 

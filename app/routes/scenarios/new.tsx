@@ -1,12 +1,12 @@
 import { Link, redirect } from "react-router";
 import type { Route } from "./+types/new";
-import { getPreset, PRESETS, ScenarioSchema } from "../../../models";
+import { getPreset, PRESETS, ScenarioSchema } from "~models";
 import { ScenarioForm } from "~/components/scenario-form";
 import { requireUser } from "~/permissions.server";
-import { buildScenarioForm } from "~/scenario-form.server";
-import { requireOwnedTank } from "~/tanks.server";
-import { readForm } from "~/utils/http.server";
-import { handleSetupSubmission, unitsOf, unitsSummary } from "./setup.server";
+import { buildScenarioForm } from "~/features/scenarios/scenario-form.server";
+import { requireOwnedTank } from "~/features/tanks/tanks.server";
+import { readForm } from "~/http/pages.server";
+import { handleSetupSubmission, unitsOf, unitsSummary } from "~/features/scenarios/scenario-setup.server";
 import { Breadcrumbs } from "~/components/breadcrumbs";
 
 export const meta: Route.MetaFunction = ({ data }) => [

@@ -8,18 +8,18 @@ import { KeyFiguresList } from "~/components/key-figures";
 import { FormMessage } from "~/components/ui/field";
 import { WhatIfPanel, type WhatIfPreview } from "~/components/what-if-panel";
 import { requireUser } from "~/permissions.server";
-import { modelStartMs, readingsForChart } from "~/readings.server";
-import { packedResultsPayload, resultsPayload } from "~/results.server";
-import { refusal } from "~/copies.server";
-import { saveScenarioWithRun } from "~/scenario-api.server";
-import { ensureRun, readStoredSettings, runProblem, withTankTargets } from "~/simulation.server";
-import { requireOwnedScenario } from "~/tanks.server";
+import { modelStartMs, readingsForChart } from "~/features/readings/readings.server";
+import { packedResultsPayload, resultsPayload } from "~/features/runs/results.server";
+import { saveScenarioWithRun } from "~/features/scenarios/scenario-api.server";
+import { ensureRun, readStoredSettings, withTankTargets } from "~/features/runs/simulation.server";
+import { refusedForm, runProblem } from "~/http/pages.server";
+import { requireOwnedScenario } from "~/features/tanks/tanks.server";
 import { displayUnitsFor, formatNumber } from "~/utils/display-units";
 import { formValues } from "~/utils/form-errors";
-import { unpackSeries } from "~/utils/series-packing";
-import { invalid, readForm } from "~/utils/http.server";
-import { applyWhatIf, whatIfBase, WhatIfSchema } from "~/what-if.server";
-import { ScenarioNameSchema } from "./setup.server";
+import { unpackSeries } from "~/features/runs/series-packing";
+import { invalid, readForm } from "~/http/pages.server";
+import { applyWhatIf, whatIfBase, whatIfSettings, WhatIfSchema } from "~/features/runs/what-if.server";
+import { ScenarioNameSchema } from "~/features/scenarios/scenario-setup.server";
 import { Breadcrumbs } from "~/components/breadcrumbs";
 
 export const meta: Route.MetaFunction = ({ data }) => [
@@ -48,7 +48,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
       error: null,
       results: packedResultsPayload(resultsPayload(run, withTargets, units)),
       readings: readingsForChart(tank.id, modelStartMs(scenario), withTargets.run.lengthDays, units),
-      whatIf: { base: whatIfBase(withTargets), hasPlants: withTargets.plants.length > 0 },
+      whatIf: { base: whatIfBase(withTargets), hasPlants: withTargets.plants.length > 0, settings: whatIfSettings(), units },
     };
   } catch (error) {
     const problem = runProblem(error);
@@ -78,9 +78,7 @@ export async function action({ request, params }: Route.ActionArgs) {
     const id = await saveScenarioWithRun(tank, "new", name.data, applyWhatIf(saved, changes.data));
     return redirect(`/tanks/${tank.id}/scenarios/${id}`);
   } catch (error) {
-    const refused = await refusal(error);
-    if (refused) return invalid({ "": refused.message }, values, refused.status);
-    throw error;
+    return refusedForm(error, values);
   }
 }
 
@@ -183,8 +181,8 @@ export default function ResultsPage({ loaderData, actionData }: Route.ComponentP
               scenarioName={scenario.name}
               base={whatIf.base}
               hasPlants={whatIf.hasPlants}
-              nitrateFactor={results.nitrateFactor}
-              nitrateLabel={results.labels.nitrate}
+              settings={whatIf.settings}
+              units={whatIf.units}
               onPreview={onPreview}
             />
           ) : null}

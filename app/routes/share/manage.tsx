@@ -5,10 +5,10 @@ import type { Route } from "./+types/manage";
 import { FormMessage } from "~/components/ui/field";
 import { absoluteUrl } from "~/email.server";
 import { requireUser } from "~/permissions.server";
-import { makeLink, sharePath, shareState, turnOffLink } from "~/share.server";
-import { requireOwnedScenario } from "~/tanks.server";
+import { makeLink, sharePath, shareState, turnOffLink } from "~/features/sharing/share.server";
+import { requireOwnedScenario } from "~/features/tanks/tanks.server";
 import { fieldErrors, formValues } from "~/utils/form-errors";
-import { invalid, readForm } from "~/utils/http.server";
+import { invalid, readForm } from "~/http/pages.server";
 import { Breadcrumbs } from "~/components/breadcrumbs";
 
 export const meta: Route.MetaFunction = ({ data }) => [

@@ -4,19 +4,19 @@ import { z } from "zod";
 import type { Route } from "./+types/public";
 import { ReadOnlyResults } from "~/components/read-only-results";
 import { FormMessage, SelectField } from "~/components/ui/field";
-import { copyScenarioInto, refusal, type CopyDestination } from "~/copies.server";
+import { copyScenarioInto, type CopyDestination } from "~/features/scenarios/copies.server";
 import { getDb } from "~/db/client.server";
 import { tanks } from "~/db/schema";
 import { absoluteUrl } from "~/email.server";
 import { notFound, requireUser } from "~/permissions.server";
-import { describeView, readOnlyScenarioView } from "~/read-only-view.server";
+import { describeView, readOnlyScenarioView } from "~/features/runs/read-only-view.server";
 import { getSessionUser } from "~/session.server";
-import { etagMatches, findLinkByToken, isLive, sharePath, shareEtag } from "~/share.server";
-import { readStoredSettings } from "~/simulation.server";
-import { requireOwnedTank } from "~/tanks.server";
+import { etagMatches, findLinkByToken, isLive, sharePath, shareEtag } from "~/features/sharing/share.server";
+import { readStoredSettings } from "~/features/runs/simulation.server";
+import { requireOwnedTank } from "~/features/tanks/tanks.server";
 import { DEFAULT_PREFERENCES, displayUnitsFor } from "~/utils/display-units";
 import { formValues } from "~/utils/form-errors";
-import { invalid, readForm } from "~/utils/http.server";
+import { invalid, readForm, refusedForm } from "~/http/pages.server";
 
 const GONE = "This link is not shared, or no longer: its owner may have turned it off or made a new one.";
 const SHARED_TANK = { name: "Shared with me", notes: "Copies of scenarios other people shared." };
@@ -113,9 +113,7 @@ export async function action({ request, params }: Route.ActionArgs) {
     const copy = await copyScenarioInto(user.id, destination, found.scenario.name, settings, found.scenario.id);
     return redirect(`/tanks/${copy.tankId}/scenarios/${copy.scenarioId}`);
   } catch (error) {
-    const refused = await refusal(error);
-    if (refused) return invalid({ "": refused.message }, values, refused.status);
-    throw error;
+    return refusedForm(error, values);
   }
 }
 

@@ -1,12 +1,12 @@
 import { useMemo, useState } from "react";
-import { Form, Link, data, redirect, useNavigation } from "react-router";
+import { Form, Link, redirect, useNavigation } from "react-router";
 import type { Route } from "./+types/sweep";
 import { XYChart } from "~/components/charts/xy-chart";
 import { jobActive, JobProgress, useJob } from "~/components/job-progress";
 import { FormMessage, SelectField, TextField } from "~/components/ui/field";
-import { cancelJob, findScenarioJob, JOB_LIMITS, jobJson, JobRefused } from "~/jobs.server";
+import { cancelJob, findScenarioJob, JOB_LIMITS, jobJson } from "~/features/jobs/jobs.server";
 import { requireUser } from "~/permissions.server";
-import { readStoredSettings, withTankTargets } from "~/simulation.server";
+import { readStoredSettings, withTankTargets } from "~/features/runs/simulation.server";
 import {
   leverJson,
   startSweep,
@@ -14,11 +14,11 @@ import {
   sweepInputSchema,
   sweepLevers,
   type SweepResultJson,
-} from "~/sweeps.server";
-import { requireOwnedScenario } from "~/tanks.server";
+} from "~/features/sweeps/sweeps.server";
+import { requireOwnedScenario } from "~/features/tanks/tanks.server";
 import { displayUnitsFor, formatNumber } from "~/utils/display-units";
-import { fieldErrors, formValues, type FormFailure } from "~/utils/form-errors";
-import { invalid, readForm } from "~/utils/http.server";
+import { fieldErrors, formValues } from "~/utils/form-errors";
+import { invalid, readForm, refusedForm } from "~/http/pages.server";
 import { Breadcrumbs } from "~/components/breadcrumbs";
 
 export const meta: Route.MetaFunction = ({ data }) => [
@@ -31,7 +31,7 @@ async function context(request: Request, params: Route.LoaderArgs["params"]) {
   const settings = readStoredSettings(row.settings);
   const units = displayUnitsFor(user);
   const scenario = settings ? withTankTargets(settings, tank) : null;
-  return { user, tank, row, units, scenario, levers: scenario ? sweepLevers(scenario, units) : [] };
+  return { user, tank, row, units, scenario, levers: scenario ? sweepLevers(scenario) : [] };
 }
 
 export async function loader({ request, params }: Route.LoaderArgs) {
@@ -64,9 +64,7 @@ export async function action({ request, params }: Route.ActionArgs) {
     const job = startSweep(user, row.id, scenario, parsed.data, units);
     return redirect(`${here}?job=${job.id}`);
   } catch (error) {
-    if (error instanceof JobRefused)
-      return data<FormFailure>({ errors: { "": error.message }, values }, { status: error.status });
-    throw error;
+    return refusedForm(error, values);
   }
 }
 

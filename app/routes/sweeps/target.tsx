@@ -1,31 +1,25 @@
 import { useState } from "react";
-import { Form, data, redirect, useNavigation } from "react-router";
+import { Form, redirect, useNavigation } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/target";
 import { CautionsPanel } from "~/components/cautions";
 import { jobActive, JobProgress, useJob } from "~/components/job-progress";
 import { FormMessage, SelectField, TextField } from "~/components/ui/field";
-import { FREE_NH3_CAUTION_MG_N } from "~/display-figures.server";
-import { speciesFactor } from "~/display-units.server";
-import { cancelJob, findScenarioJob, jobJson, JobRefused } from "~/jobs.server";
+import { FREE_NH3_CAUTION_MG_N } from "~/features/runs/display-figures";
+import { speciesFactor } from "~models/units";
+import { cancelJob, findScenarioJob, jobJson } from "~/features/jobs/jobs.server";
 import { requireUser } from "~/permissions.server";
-import { DRINKING_WATER_NITRATE_MG_N } from "~/results.server";
-import { modelStartMs } from "~/readings.server";
-import { refusal } from "~/copies.server";
-import { saveScenarioVariant } from "~/scenario-variant.server";
-import { readStoredSettings, withTankTargets } from "~/simulation.server";
-import {
-  applyLever,
-  searchLever,
-  startTargetSearch,
-  TargetInputSchema,
-  type TargetResultJson,
-} from "~/target-finder.server";
-import { requireOwnedScenario } from "~/tanks.server";
+import { DRINKING_WATER_NITRATE_MG_N } from "~/features/runs/results.server";
+import { modelStartMs } from "~/features/readings/readings.server";
+import { saveScenarioVariant } from "~/features/scenarios/scenario-variant.server";
+import { readStoredSettings, withTankTargets } from "~/features/runs/simulation.server";
+import { applyLever, searchLever } from "~/features/sweeps/search-levers.server";
+import { startTargetSearch, TargetInputSchema, type TargetResultJson } from "~/features/sweeps/target-finder.server";
+import { requireOwnedScenario } from "~/features/tanks/tanks.server";
 import { displayUnitsFor, formatNumber, unitLabels } from "~/utils/display-units";
-import { TARGET_LEVER_LABELS, TARGET_LEVERS } from "~/utils/target-levers";
-import { fieldErrors, formValues, type FormFailure } from "~/utils/form-errors";
-import { invalid, readForm } from "~/utils/http.server";
+import { TARGET_LEVER_LABELS, TARGET_LEVERS } from "~/features/sweeps/target-levers";
+import { fieldErrors, formValues } from "~/utils/form-errors";
+import { invalid, readForm, refusedForm } from "~/http/pages.server";
 import { Breadcrumbs } from "~/components/breadcrumbs";
 
 export const meta: Route.MetaFunction = ({ data }) => [
@@ -92,9 +86,7 @@ export async function action({ request, params }: Route.ActionArgs) {
       const job = startTargetSearch(user, row.id, withTankTargets(settings, tank), parsed.data, units);
       return redirect(`${here}?job=${job.id}`);
     } catch (error) {
-      if (error instanceof JobRefused)
-        return data<FormFailure>({ errors: { "": error.message }, values }, { status: error.status });
-      throw error;
+      return refusedForm(error, values);
     }
   }
   if (values.intent === "save") {
@@ -117,9 +109,7 @@ export async function action({ request, params }: Route.ActionArgs) {
       );
       return redirect(`/tanks/${tank.id}/scenarios/${id}`);
     } catch (error) {
-      const refused = await refusal(error);
-      if (refused) return invalid({ "": refused.message }, values, refused.status);
-      throw error;
+      return refusedForm(error, values);
     }
   }
   return invalid({ "": "Unknown action." }, values);

@@ -4,14 +4,14 @@ import type { Route } from "./+types/list";
 import { FormMessage, TextField } from "~/components/ui/field";
 import { getDb } from "~/db/client.server";
 import { tanks } from "~/db/schema";
-import { displayKeyFigures } from "~/display-figures.server";
+import { displayKeyFigures } from "~/features/runs/display-figures";
 import { requireUser } from "~/permissions.server";
-import { checkNewTank, QuotaExceeded } from "~/quotas.server";
+import { checkNewTank } from "~/quotas.server";
 import { displayUnitsFor, formatNumber, unitLabels } from "~/utils/display-units";
 import { fieldErrors, formValues } from "~/utils/form-errors";
-import { invalid, readForm } from "~/utils/http.server";
+import { invalid, readForm, refusedForm } from "~/http/pages.server";
 import { z } from "zod";
-import { latestFiguresByTank, TankNameSchema, TankNotesSchema } from "./tanks.server";
+import { latestFiguresByTank, TankNameSchema, TankNotesSchema } from "~/routes/tanks/tanks-page.server";
 
 export const meta: Route.MetaFunction = () => [{ title: "Your tanks · Fernwater" }];
 
@@ -48,8 +48,7 @@ export async function action({ request }: Route.ActionArgs) {
     });
     return redirect(`/tanks/${tank.id}`);
   } catch (error) {
-    if (error instanceof QuotaExceeded) return invalid({ name: error.message }, values, 413);
-    throw error;
+    return refusedForm(error, values, "name");
   }
 }
 

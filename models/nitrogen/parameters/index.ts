@@ -11,7 +11,6 @@ import type { Sourced } from "./sourced";
 export * from "./biology";
 export * from "./environment";
 export { SCENARIO_DEFAULTS } from "./scenario-defaults";
-export type { Sourced } from "./sourced";
 
 /**
  * Every sourced parameter, flattened to "group.name" → Sourced, for documentation and the

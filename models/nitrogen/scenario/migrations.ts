@@ -17,7 +17,7 @@ const isObject = (v: unknown): v is Record<string, unknown> => v !== null && typ
  * sizing its zones "fromCapacity" (version 2's default sizes them from rock and sand). Surface
  * movement and filter flow are new and take their defaults.
  */
-export const MIGRATIONS: Readonly<Record<number, Migration>> = {
+const MIGRATIONS: Readonly<Record<number, Migration>> = {
   1: (raw) => {
     const out: Record<string, unknown> = { ...raw, schemaVersion: 2 };
     if (isObject(raw.lowOxygen)) out.lowOxygen = { ...raw.lowOxygen, zoneSize: "fromCapacity" };

@@ -7,8 +7,7 @@ import { GROWTH_FORM_DEFAULTS, GROWTH_FORMS, SCENARIO_DEFAULTS as D } from "../p
 import { bool, choice, fraction, num, text } from "./field-kit";
 
 /** How much the water surface moves (sets the oxygen exchange with the air). */
-export const SURFACE_AGITATION = ["still", "gentle", "rippling", "strong"] as const;
-export type SurfaceAgitation = (typeof SURFACE_AGITATION)[number];
+const SURFACE_AGITATION = ["still", "gentle", "rippling", "strong"] as const;
 
 export const WaterSchema = z.object({
   volumeL: num(
@@ -124,7 +123,7 @@ export const FishSchema = z.object({
   }),
 });
 
-export const TrimSchema = z.object({
+const TrimSchema = z.object({
   rule: choice(
     ["none", "whenFull", "everyDays"],
     "whenFull",

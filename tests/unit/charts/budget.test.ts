@@ -1,7 +1,7 @@
 import { describe, expect, it } from "vitest";
 import { budgetSections, budgetSegments, luminance, stockRows, textOn } from "~/components/charts/budget-model";
 import { differs } from "~/components/charts/budget";
-import type { ChartBudget } from "~/components/charts/types";
+import type { ChartBudget } from "~/utils/chart-data";
 import { ScenarioSchema, getPreset, simulate } from "../../../models";
 
 function runPreset(id: string, lengthDays = 120): ChartBudget & { names: string[] } {

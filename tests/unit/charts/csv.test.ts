@@ -1,8 +1,8 @@
 // Our own worked examples of CSV output; the formula-neutralising rule follows the OWASP
 // "CSV Injection" guidance (cells starting with = + - @ tab or carriage return).
 import { describe, expect, it } from "vitest";
-import { compareCsv, csvCell, eventRows, fileSlug, seriesCsv, toCsv } from "~/components/charts/csv";
-import type { ChartSeries, ChartUnits } from "~/components/charts/types";
+import { compareCsv, csvCell, eventRows, fileSlug, seriesCsv, toCsv } from "~/utils/csv";
+import type { ChartSeries, ChartUnits } from "~/utils/chart-data";
 
 const units: ChartUnits = { ammonia: "mg N/L", nitrite: "mg N/L", nitrate: "mg/L NO3" };
 

@@ -9,7 +9,7 @@ import {
   typicalSpacing,
   upperBound,
   valueAt,
-} from "~/components/charts/lookup";
+} from "~/utils/series-lookup";
 
 // Samples every half day with an event pair at day 2 (before: index 4, after: index 5).
 const t = [0, 0.5, 1, 1.5, 2, 2, 2.5, 3];

@@ -1,0 +1,64 @@
+/** What ChartFrame (chart-frame.tsx) draws: lines, bands, guides, points and the cursor, described by the charts. */
+import { type ReactNode } from "react";
+import { type CursorVia } from "~/components/charts/hooks";
+import type { ChartEvent } from "~/utils/chart-data";
+
+export type Axis = "left" | "right";
+
+export type FrameLine = {
+  key: string;
+  t: ArrayLike<number>;
+  y: ArrayLike<number>;
+  axis: Axis;
+  color: string;
+  dash?: string;
+  width: number;
+  opacity?: number;
+  /** Direct label at the line's right end (colour is never the only cue). */
+  label?: string;
+  /** Draw a dot where the cursor crosses this line (default true). */
+  cursorDot?: boolean;
+};
+
+export type FrameBand = { key: string; low: number; high: number; color: string; label: string };
+export type FrameGuide = { key: string; value: number; color: string; label: string };
+export type FramePoint = {
+  key: string;
+  day: number;
+  value: number;
+  color: string;
+  shape: "filled" | "ring" | "dot";
+  title: string;
+};
+
+type FrameCursor = {
+  index: number;
+  moveTo: (i: number, via: CursorVia) => void;
+  onKeyDown: (e: React.KeyboardEvent) => void;
+};
+
+export type ChartFrameProps = {
+  title: string;
+  description: string;
+  /** Sample days the cursor steps through (the main run's). */
+  t: ArrayLike<number>;
+  lines: readonly FrameLine[];
+  leftLabel: string | null;
+  rightLabel: string | null;
+  bands?: readonly FrameBand[];
+  guides?: readonly FrameGuide[];
+  points?: readonly FramePoint[];
+  events?: readonly ChartEvent[];
+  height: number;
+  cursor: FrameCursor;
+  /** What the cursor shows, next to the chart (below it on narrow screens). */
+  readout: ReactNode;
+  /** Text for the polite live region (set on keyboard moves and clicks). */
+  announcement: string;
+  /** Toggles and legend above the chart. */
+  toolbar?: ReactNode;
+  /** Below the chart (downloads, table). */
+  footer?: ReactNode;
+  svgRef?: React.Ref<SVGSVGElement>;
+};
+
