@@ -140,6 +140,8 @@ export async function calibrateMultipliers(opts: CalibrateOptions): Promise<Cali
 
   // Every distinct run once: the same point with the same pins gives the same answer.
   const cache = new Map<string, Promise<Observed | null>>();
+  /** Every free run made, by point: the ranges take in any the likelihood ratio allows. */
+  const freeRuns: { theta: number[]; observed: Promise<Observed | null> }[] = [];
   let evaluations = 0;
   const evaluate = async (points: number[][], pins: Pins | null) => {
     const keys = points.map((p) => `${p.join(",")}|${pins ? JSON.stringify(pins) : "free"}`);
@@ -176,13 +178,18 @@ export async function calibrateMultipliers(opts: CalibrateOptions): Promise<Cali
   const nllAt = negLogLikelihood(observations, valuesOf(best.observed), best.tau);
   // Other points the search met that explain the readings about as well (another valley of
   // the likelihood) belong to the range too.
-  const alsoInside = best.visited
-    .filter((v) => 2 * (negLogLikelihood(observations, valuesOf(v.observed), best.tau) - nllAt) <= CHI2_95_1DF)
-    .map((v) => v.theta);
-  const ranges = await likelihoodRanges({
+  const lrOf = (o: Observed | null) =>
+    o ? 2 * (negLogLikelihood(observations, valuesOf(o), best.tau) - nllAt) : Infinity;
+  const inside = async () => {
+    const runs = await Promise.all(freeRuns.map((f) => f.observed));
+    return freeRuns.filter((_f, i) => lrOf(runs[i]) <= CHI2_95_1DF).map((f) => f.theta);
+  };
+  const alsoInside = await inside();
+  const lineRanges = await likelihoodRanges({
     theta,
     nllAt,
     alsoInside,
+    scanOthers: observations.some((o) => o.lo !== o.hi),
     jacobian: best.fit.jacobian,
     residualsOf: (o) => pseudoResiduals(observations, valuesOf(o), best.tau),
     tau: best.tau,
@@ -192,6 +199,13 @@ export async function calibrateMultipliers(opts: CalibrateOptions): Promise<Cali
     observations,
     valuesOf,
     evaluate: (points) => evaluate(points, null),
+  });
+  // The probes themselves may have found points inside off the lines: the ranges hold them too.
+  const seen = await inside();
+  const ranges = lineRanges.map((r, j) => {
+    const low = Math.min(r.low, ...seen.map((t) => t[j]));
+    const high = Math.max(r.high, ...seen.map((t) => t[j]));
+    return { low, high, lowOpen: r.lowOpen || low <= lo + 1e-9, highOpen: r.highOpen || high >= hi - 1e-9 };
   });
   // Sensitivities at the fit (pinned like the local fit's own Jacobian, so these runs are cached).
   const steps = theta.map((v, j) => (v + STEP <= upper[j] ? STEP : -STEP));

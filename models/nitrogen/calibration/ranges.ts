@@ -76,6 +76,8 @@ export async function likelihoodRanges(opts: {
   /** Residuals of a run (½Σr² = −ln L + const) and their Jacobian at θ̂, for the profile correction. */
   residualsOf: (o: Observed) => number[];
   jacobian: readonly number[][];
+  /** Also look along the other multipliers at each probe (for kit readings; costs runs). */
+  scanOthers?: boolean;
   /** Other points already known to lie within the range (other local optima), in log units. */
   alsoInside?: readonly number[][];
 }): Promise<Range[]> {
@@ -134,12 +136,32 @@ export async function likelihoodRanges(opts: {
     if (batch.length === 0) break;
     const points = batch.map(({ q, t }) => pointAt(q.j, q.side * t));
     const runs = await opts.evaluate(points);
-    // Profile correction: one Gauss–Newton step of the other multipliers at the probe (with
-    // θ̂'s Jacobian), so a curved valley is followed rather than left.
-    const corrected = batch.map(({ q }, i) => (runs[i] && p > 1 ? correct(points[i], runs[i]!, q.j) : null));
-    const again = await opts.evaluate(corrected.filter((c): c is number[] => c !== null));
-    let k = 0;
-    const values = batch.map((_b, i) => Math.min(lr(runs[i]), corrected[i] ? lr(again[k++]) : Infinity));
+    // Two Gauss–Newton corrections of the other multipliers (θ̂'s Jacobian, the probe's residuals).
+    const values = runs.map(lr);
+    let at = points;
+    let last = runs;
+    for (let step = 0; step < 2 && p > 1; step++) {
+      const corrected = batch.map(({ q }, i) => (last[i] ? correct(at[i], last[i]!, q.j) : null));
+      const again = await opts.evaluate(corrected.map((c, i) => c ?? at[i]));
+      again.forEach((o, i) => (values[i] = Math.min(values[i], corrected[i] ? lr(o) : Infinity)));
+      at = corrected.map((c, i) => c ?? at[i]);
+      last = again;
+    }
+    if (opts.scanOthers && p > 1) {
+      // Kit readings: the likelihood is flat inside the readings' intervals, so its curvature
+      // says little about where the valley runs. Look along every other multiplier as well.
+      const offsets = [-0.5, -0.25, 0.25, 0.5];
+      const scan = batch.flatMap(({ q }, i) =>
+        at[i]
+          .map((_v, k) => k)
+          .filter((k) => k !== q.j)
+          .flatMap((k) =>
+            offsets.map((d) => ({ i, point: at[i].map((v, m) => (m === k ? clamp(v + d, lower[m], upper[m]) : v)) })),
+          ),
+      );
+      const found = await opts.evaluate(scan.map((x) => x.point));
+      found.forEach((o, n) => (values[scan[n].i] = Math.min(values[scan[n].i], lr(o))));
+    }
     batch.forEach(({ q, t }, i) => {
       q.rounds++;
       const value = values[i];

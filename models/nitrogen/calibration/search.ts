@@ -12,8 +12,8 @@
  *    re-pinned from a free run at the result, and the fit repeats until the pinned and free
  *    trim days (and the noise level) agree: at that point the pinned run is the free run.
  * 3. A neighbourhood check before a result is called converged: the free model a little way
- *    along every axis and along the valley floor (the weakest direction of JᵀJ); a lower point
- *    there restarts the local fit from it.
+ *    along every axis, and near and far along the valley floor (the weakest direction of JᵀJ);
+ *    a lower point there restarts the local fit from it.
  */
 import { eigs } from "mathjs";
 import type { Observed } from "./observe";
@@ -136,7 +136,7 @@ export async function localFit(ctx: SearchContext, start: number[]): Promise<Loc
   return { theta, observed, pins: observed.trimDays, tau, nll, fit: fit!, converged: agreed && fit!.converged };
 }
 
-/** Points around theta: ±0.05 on each axis, ±0.15 along the valley floor (ln units: ±5 %, ±16 %). */
+/** Points around theta: ±0.05 on each axis, ±0.15, ±0.35 and ±0.7 along the valley floor (ln units). */
 function neighbours(ctx: SearchContext, best: LocalResult): number[][] {
   const { theta, fit } = best;
   const p = theta.length;
