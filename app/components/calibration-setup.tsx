@@ -43,6 +43,7 @@ const CHOICE_LABELS = {
   card: "A colour card",
   steps: "Rounded to even steps",
 } as const;
+const SHORT_LABELS = { exact: "exact numbers", card: "a colour card", steps: "even steps" } as const;
 
 function KitField({
   kit,
@@ -64,7 +65,7 @@ function KitField({
         error={errors[name]}
         hint={kit.inferred ? `Your readings’ values suggest: ${kit.text}.` : kit.text}
         options={[
-          { value: "auto", label: `As the values suggest (${CHOICE_LABELS[kit.choice].toLowerCase()})` },
+          { value: "auto", label: `As the values suggest: ${SHORT_LABELS[kit.choice]}` },
           { value: "card", label: CHOICE_LABELS.card },
           { value: "steps", label: CHOICE_LABELS.steps },
           { value: "exact", label: CHOICE_LABELS.exact },
