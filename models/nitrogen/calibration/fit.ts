@@ -11,10 +11,12 @@ import { effectOfDoubling, MULTIPLIER_KEYS, MULTIPLIER_NAMES, sensitivity, sugge
 import type { Kit, Kits, Species } from "./kits";
 import { inferKit, readingInterval, SPECIES } from "./kits";
 import type { CalibrationReading, Observation } from "./likelihood";
-import { negLogLikelihood, observationsOf, pseudoResiduals, residualScales, scaledMisses } from "./likelihood";
+import { observationsOf, pseudoResiduals, residualScales, scaledMisses } from "./likelihood";
 import { clamp } from "./least-squares";
 import type { ModelSamples, Observed } from "./observe";
-import { CHI2_95_1DF, correlationOf, covarianceOf, likelihoodRanges } from "./ranges";
+import type { Range } from "./ranges";
+import { BETTER_BY, correlationOf, covarianceOf, likelihoodRanges, profiledNll } from "./ranges";
+import { rangeThreshold } from "./threshold";
 import type { Pins } from "./search";
 import { robustSearch } from "./search";
 import { MULTIPLIER_BOUNDS, withMultipliers } from "./multipliers";
@@ -78,6 +80,9 @@ export type CalibrateOptions = {
   maxIterations?: number;
   onProgress?: (info: { stage: string; runs: number }) => void;
 };
+
+/** How many times the fit may move to a better point the ranges met. Model choice, no source. */
+const MAX_MOVES = 2;
 
 /** Forward-difference step in ln(multiplier) for sensitivities (as the local fits use). */
 const STEP = 1e-3;
@@ -149,12 +154,11 @@ export async function calibrateMultipliers(opts: CalibrateOptions): Promise<Cali
     if (missing.length) {
       evaluations += missing.length;
       const answers = opts.predict(missing.map(({ i }) => ({ scenario: scenarioAt(points[i]), pinnedTrimDays: pins })));
-      missing.forEach(({ k }, m) =>
-        cache.set(
-          k,
-          answers.then((a) => a[m]),
-        ),
-      );
+      missing.forEach(({ k, i }, m) => {
+        const observed = answers.then((a) => a[m]);
+        cache.set(k, observed);
+        if (!pins) freeRuns.push({ theta: points[i], observed });
+      });
       opts.onProgress?.({ stage: "runs", runs: evaluations });
     }
     return Promise.all(keys.map((k) => cache.get(k)!));
@@ -162,51 +166,65 @@ export async function calibrateMultipliers(opts: CalibrateOptions): Promise<Cali
 
   const [before] = await evaluate([start], null);
   if (!before) throw new Error("The model could not be run at the starting multipliers.");
-  const best = await robustSearch({
-    observations,
-    valuesOf,
-    evaluate,
-    start,
-    lower,
-    upper,
-    maxIterations: opts.maxIterations ?? 40,
-    onProgress: (stage) => opts.onProgress?.({ stage, runs: evaluations }),
-  });
-  opts.onProgress?.({ stage: "ranges", runs: evaluations });
+  const threshold = rangeThreshold(n, fit.length);
+  const search = (extraStarts: number[][]) =>
+    robustSearch({
+      observations,
+      valuesOf,
+      evaluate,
+      start,
+      lower,
+      upper,
+      extraStarts,
+      maxIterations: opts.maxIterations ?? 40,
+      onProgress: (stage) => opts.onProgress?.({ stage, runs: evaluations }),
+    });
+  const profiled = (o: Observed) => profiledNll(observations, valuesOf(o));
+  /** Every free run made so far with its profiled −ln L: the ranges take in any the threshold allows. */
+  const freeRunsScored = async () => {
+    const runs = await Promise.all(freeRuns.map((f) => f.observed));
+    return freeRuns.flatMap((f, i) => (runs[i] ? [{ theta: f.theta, nll: profiled(runs[i]!) }] : []));
+  };
+  const extraStarts: number[][] = [];
+  let best = await search(extraStarts);
+  let ranges: Range[] = [];
+  // The ranges explore the likelihood further than the search did; when they meet a clearly
+  // better point (another valley), the fit moves there and its ranges are taken again.
+  for (let attempt = 0; ; attempt++) {
+    opts.onProgress?.({ stage: "ranges", runs: evaluations });
+    const nllAt = profiled(best.observed);
+    const met = await freeRunsScored();
+    const lowest = met.reduce((a, b) => (b.nll < a.nll ? b : a), { theta: best.theta, nll: nllAt });
+    if (lowest.nll < nllAt - BETTER_BY && attempt < MAX_MOVES) {
+      extraStarts.push(lowest.theta);
+      best = await search(extraStarts);
+      continue;
+    }
+    const found = await likelihoodRanges({
+      theta: best.theta,
+      nllAt,
+      threshold,
+      alsoInside: met.filter((m) => 2 * (m.nll - nllAt) <= threshold).map((m) => m.theta),
+      scanOthers: observations.some((o) => o.lo !== o.hi),
+      jacobian: best.fit.jacobian,
+      residualsOf: (o) => pseudoResiduals(observations, valuesOf(o), best.tau),
+      covariance: covarianceOf(best.fit.jacobian, fit.length),
+      lower,
+      upper,
+      observations,
+      valuesOf,
+      evaluate: (points) => evaluate(points, null),
+      stopAtBetter: attempt < MAX_MOVES,
+    });
+    if (!found.better) {
+      ranges = found.ranges;
+      break;
+    }
+    extraStarts.push(found.better);
+    best = await search(extraStarts);
+  }
   const theta = best.theta;
   const covariance = covarianceOf(best.fit.jacobian, fit.length);
-  const nllAt = negLogLikelihood(observations, valuesOf(best.observed), best.tau);
-  // Other points the search met that explain the readings about as well (another valley of
-  // the likelihood) belong to the range too.
-  const lrOf = (o: Observed | null) =>
-    o ? 2 * (negLogLikelihood(observations, valuesOf(o), best.tau) - nllAt) : Infinity;
-  const inside = async () => {
-    const runs = await Promise.all(freeRuns.map((f) => f.observed));
-    return freeRuns.filter((_f, i) => lrOf(runs[i]) <= CHI2_95_1DF).map((f) => f.theta);
-  };
-  const alsoInside = await inside();
-  const lineRanges = await likelihoodRanges({
-    theta,
-    nllAt,
-    alsoInside,
-    scanOthers: observations.some((o) => o.lo !== o.hi),
-    jacobian: best.fit.jacobian,
-    residualsOf: (o) => pseudoResiduals(observations, valuesOf(o), best.tau),
-    tau: best.tau,
-    covariance,
-    lower,
-    upper,
-    observations,
-    valuesOf,
-    evaluate: (points) => evaluate(points, null),
-  });
-  // The probes themselves may have found points inside off the lines: the ranges hold them too.
-  const seen = await inside();
-  const ranges = lineRanges.map((r, j) => {
-    const low = Math.min(r.low, ...seen.map((t) => t[j]));
-    const high = Math.max(r.high, ...seen.map((t) => t[j]));
-    return { low, high, lowOpen: r.lowOpen || low <= lo + 1e-9, highOpen: r.highOpen || high >= hi - 1e-9 };
-  });
   // Sensitivities at the fit (pinned like the local fit's own Jacobian, so these runs are cached).
   const steps = theta.map((v, j) => (v + STEP <= upper[j] ? STEP : -STEP));
   const perturbed = await evaluate(

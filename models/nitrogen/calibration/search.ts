@@ -36,6 +36,8 @@ export type SearchContext = {
   lower: number[];
   upper: number[];
   maxIterations: number;
+  /** More starting points for local fits (better points the ranges met), in log units. */
+  extraStarts?: readonly number[][];
   onProgress?: (stage: string) => void;
 };
 
@@ -150,10 +152,11 @@ function neighbours(ctx: SearchContext, best: LocalResult): number[][] {
       const v = (weakest.vector as unknown as number[]).map(Number);
       const norm = Math.hypot(...v);
       if (norm > 0)
-        push(
-          v.map((x) => x / norm),
-          0.15,
-        );
+        for (const size of [0.15, 0.35, 0.7])
+          push(
+            v.map((x) => x / norm),
+            size,
+          );
     } catch {
       // A degenerate JᵀJ: the axis points still check the neighbourhood.
     }
@@ -194,9 +197,10 @@ export async function robustSearch(
     .map((point, i) => ({ point, cost: runs[i] ? profileNll(ctx, runs[i]!) : Infinity }))
     .filter((x) => Number.isFinite(x.cost))
     .sort((a, b) => a.cost - b.cost);
-  const starts: number[][] = [ctx.start];
+  const starts: number[][] = [ctx.start, ...(ctx.extraStarts ?? [])];
+  const limit = starts.length + 2;
   for (const { point } of ranked) {
-    if (starts.length >= 3) break;
+    if (starts.length >= limit) break;
     if (starts.every((s) => distance(s, point) > 0.4)) starts.push(point);
   }
   let best: LocalResult | null = null;
