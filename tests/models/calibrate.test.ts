@@ -12,6 +12,7 @@ import {
   type Kit,
 } from "../../models/nitrogen/calibrate";
 import { logPhi, logPhiDifference } from "../../models/nitrogen/calibration/normal";
+import { rangeThreshold, studentT975 } from "../../models/nitrogen/calibration/threshold";
 import { DAYS, MOSSBANK, PLANTED_120, predictIn } from "./calibration-cases";
 
 import { toCanonical } from "../../models/units";
@@ -65,6 +66,28 @@ describe("the normal distribution's tails", () => {
     expect(Math.exp(logPhiDifference(-1.96, 1.96))).toBeCloseTo(0.95, 4);
     // Far into one tail the difference is still computed without cancellation.
     expect(logPhiDifference(30, 31)).toBeCloseTo(logPhi(-30) + Math.log1p(-Math.exp(logPhi(-31) - logPhi(-30))), 8);
+  });
+});
+
+describe("the 95 % range's threshold", () => {
+  it("matches Student's t table and tends to χ² with one degree of freedom", () => {
+    // Abramowitz & Stegun (1964) Table 26.10, t at 0.975 (docs/sources.md §17).
+    const table: [number, number][] = [
+      [1, 12.706],
+      [4, 2.776],
+      [5, 2.571],
+      [10, 2.228],
+      [20, 2.086],
+      [30, 2.042],
+      [60, 2.0],
+      [120, 1.98],
+    ];
+    for (const [nu, t] of table) expect(Math.abs(studentT975(nu) - t), `ν = ${nu}`).toBeLessThan(0.001);
+    // Bates & Watts (1988) §6.1: n·ln(1 + t²(n − p)/(n − p)); 30 readings, 2 multipliers: t(28) = 2.048.
+    expect(rangeThreshold(30, 2)).toBeCloseTo(30 * Math.log(1 + 2.048 ** 2 / 28), 2);
+    // χ² with one degree of freedom at 0.95 is 3.841 (Abramowitz & Stegun Table 26.8).
+    expect(rangeThreshold(1e6, 2)).toBeCloseTo(3.841, 2);
+    expect(rangeThreshold(2, 2)).toBe(Infinity);
   });
 });
 

@@ -206,8 +206,10 @@ export function startCalibration(
 ) {
   const readings = readingsForCalibration(tankId, startMs, scenario.run.lengthDays);
   const days = readings.map((r) => r.day);
-  // Global stage, three local fits of a few iterations, the neighbourhood and the ranges.
-  const estimate = 4 + 4 * fit.length + 3 * 6 * (fit.length + 1) + 2 * (fit.length + 1) + 12 * fit.length;
+  // Engine runs to expect, for the progress bar: the recovery suite's fits take about 110 per
+  // multiplier with exact readings and 180–350 with kit readings (their ranges look further).
+  const kitReadings = kitsFor(readings, kits, preferredUnits(units)).some((k) => k.kit.kind !== "exact");
+  const estimate = (kitReadings ? 250 : 110) * fit.length;
   return startJob<CalibrationJson>(
     {
       user,
