@@ -65,6 +65,9 @@ export function profiledNll(obs: readonly Observation[], mu: readonly number[]):
  */
 export const BETTER_BY = 2;
 
+/** χ² with one degree of freedom, 95 % point (Abramowitz & Stegun Table 26.8): where the quadratic approximation's t = 1.96 lands. */
+const CHI2_95_1DF = 3.841;
+
 /** Offsets (ln units) at which a probe still outside looks along each other multiplier: coarse, then fine. */
 const COARSE = [-1, -0.5, -0.25, -0.1, 0.1, 0.25, 0.5, 1];
 /** While bisecting, the valley floor is known from the probes around: a narrower look. */
@@ -192,17 +195,37 @@ export async function likelihoodRanges(opts: {
   // the profile may dip inside again further out (another valley). Then bisection between the
   // farthest point inside and the nearest outside beyond it.
   const lookPast = opts.scanOthers ? LOOK_PAST * threshold : threshold;
+  // A smooth likelihood (exact readings) is close to quadratic about the fit, so √LR is close to
+  // linear along a probe's line: its steps and ends follow that, and stop once both sides are near.
+  const smooth = !opts.scanOthers;
+  /** Where √LR, linear in t between the farthest point inside and the nearest outside, reaches the threshold. */
+  const crossing = (q: Probe) => {
+    if (!Number.isFinite(q.lrOut)) return (q.tIn + q.tOut!) / 2;
+    const a = Math.sqrt(Math.max(0, q.lrIn));
+    const b = Math.sqrt(q.lrOut);
+    const w = b > a ? (Math.sqrt(threshold) - a) / (b - a) : 0.5;
+    return q.tIn + clamp(w, 0, 1) * (q.tOut! - q.tIn);
+  };
   const next = (q: Probe): number | null => {
     if (q.open) return null;
     const limit = Math.abs(tLimit(q.j, q.side));
     if (q.bracketing) {
-      if (q.rounds < 10 && q.tFar < limit && q.lrFar <= lookPast)
-        return Math.min(q.rounds === 0 ? 1.96 : q.tFar * (q.tOut === null ? 2.5 : 1.6), limit);
+      if (q.rounds < 10 && q.tFar < limit && q.lrFar <= lookPast) {
+        let t = q.tIn * 2.5;
+        if (q.rounds === 0) t = 1.96 * Math.sqrt(threshold / CHI2_95_1DF);
+        else if (q.tOut !== null)
+          t = q.tFar * 1.6; // looking past an outside point
+        else if (smooth && q.lrIn > 0.05 * threshold) t = q.tIn * clamp(1.1 * Math.sqrt(threshold / q.lrIn), 1.2, 2.5);
+        return Math.min(t, limit);
+      }
       q.bracketing = false;
     }
     if (q.tOut === null) return null;
-    if (q.rounds >= 20 || q.tOut - q.tIn < 0.04 * q.tOut) return null;
-    return (q.tIn + q.tOut) / 2;
+    const width = q.tOut - q.tIn;
+    if (q.rounds >= 20 || width < 0.04 * q.tOut) return null;
+    if (!smooth) return (q.tIn + q.tOut) / 2;
+    if (q.lrIn >= 0.5 * threshold && q.lrOut <= 2 * threshold) return null;
+    return clamp(crossing(q), q.tIn + 0.15 * width, q.tOut - 0.15 * width);
   };
   /** Looks along every other multiplier from each probe's best point at `offsets`; keeps what is lower. */
   const scan = async (
@@ -293,9 +316,7 @@ export async function likelihoodRanges(opts: {
         const t = q.open ? Math.abs(tLimit(j, side)) : q.tIn;
         return { at: clamp(v + side * t * dirs[j][j], lower[j], upper[j]), open: q.open || q.tOut === null };
       }
-      // Linear in LR between the last point inside and the first outside.
-      const w = Number.isFinite(q.lrOut) ? (threshold - q.lrIn) / (q.lrOut - q.lrIn) : 0.5;
-      const t = q.tIn + clamp(w, 0, 1) * (q.tOut - q.tIn);
+      const t = crossing(q);
       return { at: clamp(v + side * t * dirs[j][j], lower[j], upper[j]), open: false };
     };
     const hi = end(dirs[j][j] >= 0 ? 1 : -1);
