@@ -1,7 +1,9 @@
 /**
- * What a calibration found: the fitted multipliers with their uncertainty, the error of the
- * model against the readings before and after, residual plots (one per measured species, so
- * ammonia's small numbers are not squashed by nitrate's), and "save as a new scenario".
+ * What a calibration found: the fitted multipliers with their 95 % ranges and, for each, plainly
+ * whether the readings determine it (and if not, why and which reading would help); the kits the
+ * readings were read with; the error of the model against the readings before and after;
+ * residual plots (one per measured species, so ammonia's small numbers are not squashed by
+ * nitrate's); and "save as a new scenario".
  */
 import { useMemo } from "react";
 import { Form, useNavigation } from "react-router";
@@ -12,6 +14,39 @@ import type { CalibrationJson } from "~/features/calibration/calibration-json";
 import { formatNumber } from "~/utils/display-units";
 
 const SPECIES_COLOR = { tan: SERIES_COLORS.tan, no2: SERIES_COLORS.no2, no3: SERIES_COLORS.no3 } as const;
+
+const WHY = {
+  noEffect: (m: CalibrationJson["multipliers"][number]) =>
+    `changing it barely moves what you measured (a doubling moves no reading by more than ${formatNumber(m.effectPercent, 2)} % of its level)`,
+  correlated: (m: CalibrationJson["multipliers"][number]) =>
+    `it trades off against ${m.correlatedWith?.label.toLowerCase() ?? "another multiplier"} (correlation ${formatNumber(m.correlatedWith?.correlation ?? 0, 2)}): the readings fix their combination, not each one`,
+  wide: () => "its 95 % range is too wide to act on",
+  determined: () => "",
+} as const;
+
+/** One plain sentence per fitted multiplier: determined or not, why, and which reading would help. */
+function Verdicts({ result }: { result: CalibrationJson }) {
+  const fitted = result.multipliers.filter((m) => m.fitted);
+  return (
+    <ul className="space-y-2 text-sm" aria-label="What the readings tell">
+      {fitted.map((m) => (
+        <li key={m.key} data-verdict-of={m.key} className={m.determined ? "text-fern-900" : "text-amber-900"}>
+          {m.determined ? (
+            <>
+              <strong>{m.label} is determined</strong> by your readings: ×{formatNumber(m.value)}, about 95 % sure
+              between {formatNumber(m.low95)} and {formatNumber(m.high95)}.
+            </>
+          ) : (
+            <>
+              <strong>{m.label} is not determined</strong> by these readings: {WHY[m.reason ?? "wide"](m)}. Keep its
+              value with care. {m.suggestion}
+            </>
+          )}
+        </li>
+      ))}
+    </ul>
+  );
+}
 
 export function CalibrationReport({
   result,
@@ -52,9 +87,11 @@ export function CalibrationReport({
     <div className="space-y-5">
       {!result.converged ? (
         <FormMessage tone="info">
-          The fit stopped at its limit of iterations before settling; the values below are its best so far.
+          The fit did not settle on one best point within its limits (or found a better one nearby at the last check);
+          the values below are the best it found.
         </FormMessage>
       ) : null}
+      <Verdicts result={result} />
       <div className="overflow-x-auto">
         <table className="w-full text-sm">
           <caption className="mb-1 text-left font-semibold">
@@ -71,8 +108,11 @@ export function CalibrationReport({
               <th scope="col" className="py-1 pr-3 text-right font-normal">
                 Fitted
               </th>
-              <th scope="col" className="py-1 text-right font-normal">
+              <th scope="col" className="py-1 pr-3 text-right font-normal">
                 About 95 % sure between
+              </th>
+              <th scope="col" className="py-1 text-left font-normal">
+                Told by the readings?
               </th>
             </tr>
           </thead>
@@ -85,21 +125,17 @@ export function CalibrationReport({
                 <td className="num py-1 pr-3 text-right">×{formatNumber(m.start)}</td>
                 <td className="num py-1 pr-3 text-right font-semibold">
                   {m.fitted ? `×${formatNumber(m.value)}` : "not fitted"}
-                  {m.fitted && m.standardError !== null ? (
-                    <span className="font-normal text-stone-600"> ± {formatNumber(m.standardError, 2)}</span>
-                  ) : null}
                 </td>
-                <td className="num py-1 text-right">
-                  {!m.fitted
+                <td className="num py-1 pr-3 text-right">
+                  {!m.fitted || m.low95 === null
                     ? ""
-                    : m.low95 === null
-                      ? "cannot tell from these readings"
-                      : `${formatNumber(m.low95)}–${formatNumber(m.high95)}`}
-                  {m.atBound ? (
-                    <span className="block text-xs text-amber-800">
-                      at the limit of 0.1–10: the readings push further than the model allows
-                    </span>
-                  ) : null}
+                    : `${m.lowOpen ? "≤ " : ""}${formatNumber(m.low95)}–${formatNumber(m.high95)}${m.highOpen ? " or more" : ""}`}
+                </td>
+                <td
+                  className="py-1 text-left"
+                  data-verdict={m.fitted ? (m.determined ? "determined" : "undetermined") : "not-fitted"}
+                >
+                  {!m.fitted ? "" : m.determined ? "yes" : "no"}
                 </td>
               </tr>
             ))}
@@ -159,9 +195,11 @@ export function CalibrationReport({
         ))}
       </div>
       <p className="text-xs text-stone-600">
-        {result.iterations} iterations, {result.evaluations} model runs. The ranges assume the model’s shape is right
-        and the readings’ errors are independent: treat them as a guide. A fitted model is still a model, not a water
-        test.
+        {result.evaluations} model runs from {result.localFits} starting points. Readings were taken as:{" "}
+        {result.kits.map((k) => `${k.name} ${k.text}`).join("; ")}; beyond that, the readings and the model disagree by
+        about {formatNumber(result.noisePercent, 2)} % of each species’ level. The ranges assume the model’s shape is
+        right and the readings’ errors are independent: treat them as a guide. A fitted model is still a model, not a
+        water test.
       </p>
       {fitted.length ? (
         <Form method="post" className="flex flex-wrap items-end gap-3 border-t border-stone-200 pt-4">

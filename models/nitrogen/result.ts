@@ -44,6 +44,14 @@ export interface SimulateOptions {
    * clamp), for checks on what the solver produced rather than what the chart shows.
    */
   rawSeries?: boolean;
+  /**
+   * Calibration only: trim each listed "when full" plant group (by index in `plants`) on these
+   * days instead of when it fills up. Pinning the trims while multipliers change keeps the
+   * readings' model values smooth in the multipliers (a trim crossing a reading's time would
+   * otherwise kink them); models/nitrogen/calibration/ re-pins them from a free run until the
+   * pinned and the free trim days agree.
+   */
+  pinnedTrimDays?: readonly (readonly number[] | null | undefined)[];
 }
 
 /**

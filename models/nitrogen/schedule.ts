@@ -32,7 +32,12 @@ export interface TankSchedule {
   readonly ledger: Ledger;
 }
 
-export function buildSchedule(s: Scenario, c: TankConstants, tEnd: number): TankSchedule {
+export function buildSchedule(
+  s: Scenario,
+  c: TankConstants,
+  tEnd: number,
+  pinnedTrimDays?: readonly (readonly number[] | null | undefined)[],
+): TankSchedule {
   const ledger: Ledger = {
     flows: emptyFlows(c.plantCount),
     trimmedG: new Array<number>(c.plantCount).fill(0),
@@ -75,6 +80,8 @@ export function buildSchedule(s: Scenario, c: TankConstants, tEnd: number): Tank
   s.plants.forEach((g, i) => {
     if (g.trim.rule === "everyDays") {
       for (const t of periodicTimes(g.trim.everyDays, tEnd)) at(t, 50 + i, (y) => trimGroup(i, t, y));
+    } else if (g.trim.rule === "whenFull" && pinnedTrimDays?.[i]) {
+      for (const t of pinnedTrimDays[i]!) if (t >= 0 && t < tEnd) at(t, 50 + i, (y) => trimGroup(i, t, y));
     } else if (g.trim.rule === "whenFull") {
       watches.push({ index: PLANT0 + i, threshold: g.trim.fullAtFraction * g.maxMassG });
       watchGroup.push(i);

@@ -73,7 +73,7 @@ export function simulate(scenario: Scenario, options: SimulateOptions = {}): Sim
     relativeTolerance: 1e-6,
   };
   const recorder = createRecorder(s, c, options.rawSeries === true);
-  const schedule = buildSchedule(s, c, tEnd);
+  const schedule = buildSchedule(s, c, tEnd, options.pinnedTrimDays);
   const maxWallMs = options.maxWallMs ?? 2000;
   const loop = runLoop({
     problem,

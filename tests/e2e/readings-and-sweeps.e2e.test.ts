@@ -86,16 +86,53 @@ describe("readings, calibration and sweeps in the browser", () => {
     await expect.poll(() => points.count()).toBe(4);
     await shot(page, "readings-on-chart");
 
-    // Calibrate the feed load against them.
+    // Calibrate against them: the page first says which multipliers these readings can tell
+    // and pre-ticks only those, and asks how each species was tested.
     await page.getByRole("link", { name: "Calibrate against them" }).click();
     await page.waitForURL(/\/calibrate$/);
     await page.getByText(/4\s+of the tank’s 4 readings fall within it/).waitFor();
+    const notes = page.locator("[data-assessment]");
+    await expect.poll(() => notes.count()).toBe(3);
+    for (const key of ["feedLoad", "plantUptake", "nitrifierCapacity"]) {
+      const row = page.locator(`[data-multiplier-choice="${key}"]`);
+      const determinable = (await row.locator("[data-assessment]").getAttribute("data-assessment")) === "determinable";
+      expect(await row.locator('input[type="checkbox"]').isChecked(), key).toBe(determinable);
+    }
+    // Four readings over a week cannot tell the filter's capacity: said plainly, with what would help.
+    const filter = page.locator('[data-multiplier-choice="nitrifierCapacity"] [data-assessment]');
+    expect(await filter.getAttribute("data-assessment")).toBe("undetermined");
+    await expect.poll(() => filter.textContent()).toMatch(/cannot tell this one.*test ammonia and nitrite/i);
+    // The nitrate readings' values suggest a kit; say it was a colour card instead.
+    const nitrateKit = page.getByLabel("Nitrate: how you tested");
+    await expect.poll(() => page.locator('[data-kit="no3"]').textContent()).toMatch(/Your readings’ values suggest/);
+    await nitrateKit.selectOption("card");
+    await shot(page, "calibration-setup");
+    await page.getByLabel(/Feed load/).check();
     await page.getByLabel(/Plant uptake/).uncheck();
-    await page.getByLabel(/Filter capacity/).uncheck();
+    await page.getByLabel(/Filter capacity/).check();
     await page.getByRole("button", { name: "Fit to 4 readings" }).click();
     await page.getByRole("heading", { name: "The fit" }).waitFor({ timeout: 30_000 });
     const fitted = page.locator('tr[data-multiplier="feedLoad"] td').nth(1);
     await expect.poll(() => fitted.textContent()).toMatch(/^×\d+(\.\d+)?/);
+    // What the person reads is what the engine reported: verdicts, reasons and the kit used.
+    const jobId = new URL(page.url()).searchParams.get("job")!;
+    const job = (await (await page.request.get(`${new URL(page.url()).origin}/api/jobs/${jobId}`)).json()) as {
+      job: {
+        result: {
+          multipliers: { key: string; fitted: boolean; determined: boolean | null; suggestion: string | null }[];
+        };
+      };
+    };
+    for (const m of job.job.result.multipliers.filter((x) => x.fitted)) {
+      const verdict = page.locator(`[data-verdict-of="${m.key}"]`);
+      await expect.poll(() => verdict.textContent()).toMatch(m.determined ? /is determined/ : /is not determined/);
+      if (!m.determined) expect(await verdict.textContent()).toContain(m.suggestion!.slice(0, 40));
+      expect(await page.locator(`tr[data-multiplier="${m.key}"] [data-verdict]`).getAttribute("data-verdict")).toBe(
+        m.determined ? "determined" : "undetermined",
+      );
+    }
+    expect(job.job.result.multipliers.find((m) => m.key === "nitrifierCapacity")!.determined).toBe(false);
+    await expect.poll(() => page.getByText(/Nitrate colour card 0, 5, 10, 20, 40, 80, 160/).count()).toBeGreaterThan(0);
     await page.getByRole("button", { name: "Save the fitted multipliers as a new scenario" }).waitFor();
     await shot(page, "calibration-fit");
 

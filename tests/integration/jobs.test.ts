@@ -30,6 +30,10 @@ import { call, get, ORIGIN, post, postJson } from "../support/routes";
 import { createScenario, createTank } from "../support/tanks";
 import { userWithCookie } from "../support/users";
 import { ScenarioSchema, plantGroupFromForm, type ScenarioInput } from "../../models/index";
+import { calibrateMultipliers, SPECIES } from "../../models/nitrogen/calibrate";
+import { readingsForCalibration } from "~/features/readings/readings.server";
+import type { CalibrationJson } from "~/features/calibration/calibration-json";
+import { CARD_KITS, DAYS, PLANTED_120, predictIn, readingsOf } from "../models/calibration-cases";
 
 const DAY = 86_400_000;
 const PLANTED: ScenarioInput = {
@@ -336,6 +340,83 @@ describe("calibration", () => {
     expect(outOfBounds.data.errors.feedLoad).toMatch(/between 0.1 and 10/);
   });
 
+  it("reports what the engine reports: a recovery case's kit readings, fitted on the page, give the suite's ranges and verdicts", async () => {
+    // A case of the recovery suite (tests/models/calibration-recovery.test.ts): feed ×1.3, plant
+    // uptake ×0.7, all three species read off colour cards after 5 % seeded noise — our own
+    // worked example. The page's job must give the engine's own ranges, and they cover the truth.
+    const truth = { feedLoad: 1.3, plantUptake: 0.7 };
+    const c = { name: "", scenario: PLANTED_120, truth, species: SPECIES, kits: CARD_KITS, noise: 0.05, seed: 23 };
+    const user = await userWithCookie("keeper");
+    const tankId = createTank(user.id);
+    const scenarioId = await createScenario(user.id, tankId, PLANTED_120);
+    const start = Date.UTC(2026, 0, 1);
+    getDb()
+      .update(scenarios)
+      .set({ startDate: new Date(start) })
+      .where(eq(scenarios.id, scenarioId))
+      .run();
+    const made = readingsOf(c);
+    getDb()
+      .insert(readings)
+      .values(
+        made.map((r) => ({
+          tankId,
+          takenAt: new Date(start + Math.round(r.day * DAY)),
+          tan: r.tan,
+          nitrite: r.no2,
+          nitrate: r.no3,
+        })),
+      )
+      .run();
+    const base = `/tanks/${tankId}/scenarios/${scenarioId}`;
+    const form = new URLSearchParams([
+      ["intent", "start"],
+      ["fit", "feedLoad"],
+      ["fit", "plantUptake"],
+      ["kit.tan", "card"],
+      ["kit.no2", "card"],
+      ["kit.no3", "card"],
+    ]);
+    const started = await call(
+      calibrateAction,
+      new Request(`${ORIGIN}${base}/calibrate`, {
+        method: "POST",
+        body: form,
+        headers: { "Content-Type": "application/x-www-form-urlencoded", Cookie: user.cookie, Origin: ORIGIN },
+      }),
+      { tankId: String(tankId), scenarioId: String(scenarioId) },
+    );
+    expect(started.status).toBe(302);
+    const { job } = await poll(jobIdOf(started.location), user.cookie);
+    expect(job.status).toBe("done");
+    const shown = (job.result as CalibrationJson).multipliers.filter((m) => m.fitted);
+
+    const engine = await calibrateMultipliers({
+      scenario: PLANTED_120,
+      readings: readingsForCalibration(tankId, start, PLANTED_120.run.lengthDays),
+      fit: ["feedLoad", "plantUptake"],
+      kits: CARD_KITS,
+      predict: predictIn(DAYS),
+    });
+    const round = (v: number | null) => (v === null ? null : Number(v.toPrecision(4)));
+    for (const m of shown) {
+      const e = engine.multipliers.find((x) => x.key === m.key)!;
+      expect(
+        { value: m.value, low95: m.low95, high95: m.high95, determined: m.determined, reason: m.reason },
+        m.key,
+      ).toEqual({
+        value: round(e.value),
+        low95: round(e.low95),
+        high95: round(e.high95),
+        determined: e.verdict!.determined,
+        reason: e.verdict!.reason,
+      });
+      const t = truth[m.key as keyof typeof truth];
+      expect(m.low95!, m.key).toBeLessThanOrEqual(t);
+      expect(m.high95!, m.key).toBeGreaterThanOrEqual(t);
+    }
+  }, 120_000);
+
   it("refuses to start without a multiplier, and fails plainly when no reading falls within the run", async () => {
     const { user, tankId, scenarioId, base } = await world();
     const none = await call(calibrateAction, post(`${base}/calibrate`, { intent: "start" }, user.cookie), {
@@ -437,7 +518,9 @@ describe("the job registry", () => {
     const releases: (() => void)[] = [];
     const held = () => new Promise<string>((resolve) => releases.push(() => resolve("done")));
     const capacity = JOB_LIMITS.runningPerWorker * getEnginePool().size;
-    const running = Array.from({ length: capacity }, (_, i) => startJob({ user: { id: 10_000 + i }, kind: "sweep", label: "x", total: 1 }, held));
+    const running = Array.from({ length: capacity }, (_, i) =>
+      startJob({ user: { id: 10_000 + i }, kind: "sweep", label: "x", total: 1 }, held),
+    );
     expect(running.every((j) => j.status === "running")).toBe(true);
     // Before: the next person got "the server is busy" (503). Now they wait in line.
     const fifth = startJob({ user: { id: 20_000 }, kind: "sweep", label: "fifth", total: 1 }, held);
@@ -445,7 +528,9 @@ describe("the job registry", () => {
     expect([fifth.status, sixth.status]).toEqual(["waiting", "waiting"]);
     expect([jobJson(fifth).ahead, jobJson(sixth).ahead]).toEqual([0, 1]);
     // Still one job per person, waiting included.
-    expect(() => startJob({ user: { id: 20_001 }, kind: "calibration", label: "again", total: 1 }, held)).toThrow(/already have a sweep/);
+    expect(() => startJob({ user: { id: 20_001 }, kind: "calibration", label: "again", total: 1 }, held)).toThrow(
+      /already have a sweep/,
+    );
     // The waiting one can be cancelled at once; the one behind it moves up.
     const seventh = startJob({ user: { id: 20_002 }, kind: "sweep", label: "seventh", total: 1 }, held);
     expect(jobJson(seventh).ahead).toBe(2);
@@ -469,8 +554,11 @@ describe("the job registry", () => {
   it("refuses a start only when the line itself is full, with a 503 message", () => {
     const never = () => new Promise<never>(() => {});
     const capacity = JOB_LIMITS.runningPerWorker * getEnginePool().size;
-    for (let i = 0; i < capacity + JOB_LIMITS.maxWaiting; i++) startJob({ user: { id: 40_000 + i }, kind: "sweep", label: "x", total: 1 }, never);
-    expect(() => startJob({ user: { id: 50_000 }, kind: "sweep", label: "x", total: 1 }, never)).toThrow(/line .* is full/);
+    for (let i = 0; i < capacity + JOB_LIMITS.maxWaiting; i++)
+      startJob({ user: { id: 40_000 + i }, kind: "sweep", label: "x", total: 1 }, never);
+    expect(() => startJob({ user: { id: 50_000 }, kind: "sweep", label: "x", total: 1 }, never)).toThrow(
+      /line .* is full/,
+    );
   });
 
   it("labels a sweep with the person's units", () => {

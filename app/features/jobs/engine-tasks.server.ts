@@ -17,6 +17,7 @@ import {
   type SimulateOptions,
   type SweepPoint,
 } from "~models";
+import { observe, type Observed } from "~models/nitrogen/calibrate";
 import { valueAt } from "~/utils/series-lookup";
 import { toStorableSync, type StorableRun } from "~/features/runs/run-packing.server";
 
@@ -54,6 +55,14 @@ export type EngineTask =
       scenario: Scenario;
       days: readonly number[];
       limits: SimulateOptions;
+    }
+  | {
+      /** Calibration: run the scenario (its "when full" trims pinned when given) and read it at the readings' days. */
+      kind: "observe";
+      scenario: Scenario;
+      days: readonly number[];
+      pinnedTrimDays: number[][] | null;
+      limits: SimulateOptions;
     };
 
 type Samples = { tan: number[]; no2: number[]; no3: number[] };
@@ -81,7 +90,8 @@ export type EngineTaskResult =
   | { kind: "store"; run: StorableRun | null; error: ModelErrorData | null }
   | { kind: "outcomes"; point: SweepPoint }
   | { kind: "goal"; figures: GoalFigures | null; error: string | null }
-  | { kind: "sample"; samples: Samples | null; error: string | null };
+  | { kind: "sample"; samples: Samples | null; error: string | null }
+  | { kind: "observe"; observed: Observed | null; error: string | null };
 
 /**
  * Runs one task. Settings the engine refuses or cannot solve come back as an `error` message
@@ -93,7 +103,11 @@ export function runEngineTask(task: EngineTask): EngineTaskResult {
       return { kind: "store", run: toStorableSync(simulate(task.scenario, task.limits)), error: null };
     } catch (error) {
       if (!isModelError(error)) throw error;
-      return { kind: "store", run: null, error: { code: error.code, message: error.message, day: error.day, detail: error.detail } };
+      return {
+        kind: "store",
+        run: null,
+        error: { code: error.code, message: error.message, day: error.day, detail: error.detail },
+      };
     }
   }
   if (task.kind === "simulate") {
@@ -101,7 +115,11 @@ export function runEngineTask(task: EngineTask): EngineTaskResult {
       return { kind: "simulate", result: simulate(task.scenario, task.limits), error: null };
     } catch (error) {
       if (!isModelError(error)) throw error;
-      return { kind: "simulate", result: null, error: { code: error.code, message: error.message, day: error.day, detail: error.detail } };
+      return {
+        kind: "simulate",
+        result: null,
+        error: { code: error.code, message: error.message, day: error.day, detail: error.detail },
+      };
     }
   }
   if (task.kind === "outcomes") {
@@ -111,6 +129,14 @@ export function runEngineTask(task: EngineTask): EngineTaskResult {
     // The engine's own sweep validates the changed settings and turns a ModelError into a message.
     const [point] = sweep(base, first.path, [first.value], { ...task.limits, outcomes: task.outcomes });
     return { kind: "outcomes", point };
+  }
+  if (task.kind === "observe") {
+    try {
+      const limits = { ...task.limits, pinnedTrimDays: task.pinnedTrimDays ?? undefined };
+      return { kind: "observe", observed: observe(task.scenario, task.days, limits), error: null };
+    } catch (error) {
+      return { kind: "observe", observed: null, error: error instanceof Error ? error.message : String(error) };
+    }
   }
   if (task.kind === "goal") {
     const parsed = ScenarioSchema.safeParse(applyChanges(task.scenario, task.changes));

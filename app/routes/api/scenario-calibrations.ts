@@ -6,7 +6,9 @@ import { jobAccepted, requireApiScenario } from "~/features/scenarios/scenario-a
 import { displayUnitsFor } from "~/utils/display-units";
 
 /**
- * POST /api/scenarios/:scenarioId/calibrations `{ fit: ["feedLoad", "plantUptake", "nitrifierCapacity"] }`:
+ * POST /api/scenarios/:scenarioId/calibrations `{ fit: ["feedLoad", "plantUptake", "nitrifierCapacity"], kits? }`
+ * (`kits`: per species `{ kind: "exact" }`, `{ kind: "steps", unit, step }` or `{ kind: "card", unit, values }`;
+ * a species left out is read with the kit its values suggest):
  * fits those multipliers to the tank's readings within the scenario's run; 202 with the job to
  * poll at /api/jobs/:id.
  */
@@ -16,7 +18,16 @@ export const action = apiRoute(async ({ request, params }: Route.ActionArgs) => 
   const input = CalibrateInputSchema.safeParse(await readJson(request, 4 * 1024));
   if (!input.success) return apiError(400, "The calibration is not valid.", zodIssues(input.error));
   return jobAccepted(
-    startCalibration(user, row, tank.id, scenario, modelStartMs(row), input.data.fit, displayUnitsFor(user)),
+    startCalibration(
+      user,
+      row,
+      tank.id,
+      scenario,
+      modelStartMs(row),
+      input.data.fit,
+      displayUnitsFor(user),
+      input.data.kits,
+    ),
   );
 });
 

@@ -1,10 +1,14 @@
-import { Form, Link, redirect, useNavigation } from "react-router";
+import { Link, redirect, useNavigation } from "react-router";
 import type { Route } from "./+types/calibrate";
 import { CalibrationReport } from "~/components/calibration-report";
 import { jobActive, JobProgress, useJob } from "~/components/job-progress";
 import { FormMessage } from "~/components/ui/field";
+import { CalibrationSetup } from "~/components/calibration-setup";
 import {
+  assessCalibration,
   CalibrateInputSchema,
+  inferredKits,
+  kitsFromForm,
   MULTIPLIER_LABELS,
   SaveFittedSchema,
   startCalibration,
@@ -38,6 +42,13 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const { user, tank, row, settings, startMs } = await context(request, params);
   const job = findScenarioJob(user.id, request, "calibration", row.id);
   const lengthDays = settings?.run.lengthDays ?? 0;
+  const hasPlants = (settings?.plants.length ?? 0) > 0;
+  const units = displayUnitsFor(user);
+  const candidates = MULTIPLIER_KEYS.filter((k) => hasPlants || k !== "plantUptake");
+  const scenario = settings ? withTankTargets(settings, tank) : null;
+  // Which multipliers the readings can tell (a few short runs), so only those start ticked.
+  const assessment =
+    scenario && !job ? await assessCalibration(user, tank.id, scenario, startMs, units, candidates) : null;
   return {
     tank: { id: tank.id, name: tank.name },
     scenario: { id: row.id, name: row.name },
@@ -46,12 +57,15 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     lengthDays,
     inRun: settings ? readingsForCalibration(tank.id, startMs, lengthDays).length : 0,
     total: countReadings(tank.id),
-    hasPlants: (settings?.plants.length ?? 0) > 0,
+    hasPlants,
     multipliers: MULTIPLIER_KEYS.map((k) => ({
       key: k,
       ...MULTIPLIER_LABELS[k],
       value: settings?.multipliers[k] ?? 1,
+      assessment: assessment?.multipliers.find((m) => m.key === k) ?? null,
     })),
+    kits: assessment?.kits ?? (scenario ? inferredKits(tank.id, scenario, startMs, units) : []),
+    units: { tan: units.ammonia, no2: units.nitrite, no3: units.nitrate },
     job: job ? jobJson(job) : null,
     fit: job ? (job.params as { fit: string[] }).fit : null,
   };
@@ -68,8 +82,11 @@ export async function action({ request, params }: Route.ActionArgs) {
   }
   if (!settings) return invalid({ "": "The saved settings of this scenario can no longer be read." }, values);
   if (values.intent === "start") {
-    const input = CalibrateInputSchema.safeParse({ fit: form.getAll("fit") });
-    if (!input.success) return invalid({ fit: input.error.issues[0].message }, values);
+    const units = displayUnitsFor(user);
+    const { kits, errors } = kitsFromForm(values, units);
+    const input = CalibrateInputSchema.safeParse({ fit: form.getAll("fit"), kits });
+    if (!input.success) return invalid({ fit: input.error.issues[0].message, ...errors }, values);
+    if (Object.keys(errors).length) return invalid(errors, values);
     try {
       const job = startCalibration(
         user,
@@ -78,7 +95,8 @@ export async function action({ request, params }: Route.ActionArgs) {
         withTankTargets(settings, tank),
         startMs,
         input.data.fit,
-        displayUnitsFor(user),
+        units,
+        input.data.kits,
       );
       return redirect(`${here}?job=${job.id}`);
     } catch (error) {
@@ -100,13 +118,20 @@ export async function action({ request, params }: Route.ActionArgs) {
 }
 
 export default function CalibratePage({ loaderData, actionData }: Route.ComponentProps) {
-  const { tank, scenario, startDate, lengthDays, inRun, total, hasPlants, multipliers, readable } = loaderData;
+  const { tank, scenario, startDate, lengthDays, inRun, total, hasPlants, multipliers, readable, kits } = loaderData;
   const job = useJob(loaderData.job);
   const busy = useNavigation().state === "submitting";
   const errors = actionData?.errors ?? {};
+  const values = actionData?.values ?? {};
+  const assessed = multipliers.some((m) => m.assessment);
+  // Pre-tick what the readings can tell; without an assessment, the old defaults.
   const chosen = new Set(
     loaderData.fit ??
-      (hasPlants ? ["feedLoad", "plantUptake", "nitrifierCapacity"] : ["feedLoad", "nitrifierCapacity"]),
+      (assessed
+        ? multipliers.filter((m) => m.assessment?.determinable).map((m) => m.key)
+        : hasPlants
+          ? ["feedLoad", "plantUptake", "nitrifierCapacity"]
+          : ["feedLoad", "nitrifierCapacity"]),
   );
   const result = job?.status === "done" ? (job.result as CalibrationJson) : null;
   return (
@@ -121,10 +146,10 @@ export default function CalibratePage({ loaderData, actionData }: Route.Componen
       />
       <h1 className="text-2xl">Calibrate {scenario.name} against your readings</h1>
       <p className="text-sm text-stone-700">
-        Calibration adjusts a few multipliers of the model until its curves pass as close as they can to your test
-        results (least squares, each species weighed on its own scale so nitrate does not drown out ammonia and
-        nitrite). Day 0 of this scenario is {startDate}; its run covers {lengthDays} days. <strong>{inRun}</strong> of
-        the tank’s {total} readings fall within it.{" "}
+        Calibration adjusts a few multipliers of the model until its curves explain your test results as well as they
+        can, taking each kit’s colour steps as ranges rather than exact numbers, and says which multipliers your
+        readings really tell. Day 0 of this scenario is {startDate}; its run covers {lengthDays} days.{" "}
+        <strong>{inRun}</strong> of the tank’s {total} readings fall within it.{" "}
         <Link className="link" to={`/tanks/${tank.id}/readings`}>
           Readings
         </Link>{" "}
@@ -135,44 +160,16 @@ export default function CalibratePage({ loaderData, actionData }: Route.Componen
       </p>
       {errors[""] ? <FormMessage>{errors[""]}</FormMessage> : null}
       {readable ? (
-        <Form method="post" className="card space-y-4">
-          <input type="hidden" name="intent" value="start" />
-          <fieldset className="space-y-2" aria-describedby={errors.fit ? "fit-error" : undefined}>
-            <legend className="text-sm font-semibold">Multipliers to fit (0.1 to 10 each)</legend>
-            {multipliers.map((m) => {
-              const disabled = m.key === "plantUptake" && !hasPlants;
-              return (
-                <label key={m.key} className="flex items-start gap-2 text-sm">
-                  <input
-                    type="checkbox"
-                    name="fit"
-                    value={m.key}
-                    defaultChecked={chosen.has(m.key) && !disabled}
-                    disabled={disabled}
-                    className="mt-1 h-4 w-4 accent-fern-700"
-                  />
-                  <span>
-                    <span className="font-semibold">{m.label}</span> (now ×{m.value}) — {m.hint}
-                    {disabled ? " This scenario has no plants." : ""}
-                  </span>
-                </label>
-              );
-            })}
-            {errors.fit ? (
-              <p id="fit-error" className="text-sm font-semibold text-red-800" role="alert">
-                {errors.fit}
-              </p>
-            ) : null}
-          </fieldset>
-          <button type="submit" className="btn" disabled={busy || inRun === 0 || jobActive(job)}>
-            Fit to {inRun} reading{inRun === 1 ? "" : "s"}
-          </button>
-          {inRun === 0 ? (
-            <p className="text-sm text-stone-700">
-              Add readings dated within the run first, or change the scenario’s start date.
-            </p>
-          ) : null}
-        </Form>
+        <CalibrationSetup
+          multipliers={multipliers}
+          hasPlants={hasPlants}
+          chosen={chosen}
+          kits={kits}
+          errors={errors}
+          values={values}
+          inRun={inRun}
+          disabled={busy || inRun === 0 || jobActive(job)}
+        />
       ) : (
         <FormMessage>The saved settings of this scenario can no longer be read.</FormMessage>
       )}
