@@ -10,7 +10,7 @@ import { WhatIfPanel, type WhatIfPreview } from "~/components/what-if-panel";
 import { requireUser } from "~/permissions.server";
 import { modelStartMs, readingsForChart } from "~/features/readings/readings.server";
 import { packedResultsPayload, resultsPayload } from "~/features/runs/results.server";
-import { saveScenarioWithRun } from "~/features/scenarios/scenario-api.server";
+import { saveScenarioVariant } from "~/features/scenarios/scenario-variant.server";
 import { ensureRun, readStoredSettings, withTankTargets } from "~/features/runs/simulation.server";
 import { refusedForm, runProblem } from "~/http/pages.server";
 import { requireOwnedScenario } from "~/features/tanks/tanks.server";
@@ -75,7 +75,10 @@ export async function action({ request, params }: Route.ActionArgs) {
   const saved = readStoredSettings(scenario.settings);
   if (!saved) return invalid({ "": "The saved settings of this scenario can no longer be read." }, values);
   try {
-    const id = await saveScenarioWithRun(tank, "new", name.data, applyWhatIf(saved, changes.data));
+    // Only the levers the person moved change; every other setting, and the start date (so
+    // readings still line up), stay exactly as saved.
+    const startMs = scenario.startDate?.getTime() ?? null;
+    const id = await saveScenarioVariant(tank, scenario.id, startMs, name.data, applyWhatIf(saved, changes.data));
     return redirect(`/tanks/${tank.id}/scenarios/${id}`);
   } catch (error) {
     return refusedForm(error, values);
@@ -177,6 +180,8 @@ export default function ResultsPage({ loaderData, actionData }: Route.ComponentP
           </p>
           {whatIf ? (
             <WhatIfPanel
+              // A new scenario (saved from here) starts with fresh sliders and name.
+              key={scenario.id}
               scenarioId={scenario.id}
               scenarioName={scenario.name}
               base={whatIf.base}
