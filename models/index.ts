@@ -40,6 +40,7 @@ export type {
 } from "./nitrogen/simulate";
 
 export type { NitrogenBudget } from "./nitrogen/budget";
+export type { ModelWarning } from "./nitrogen/result";
 
 export { ammoniaCriteria } from "./nitrogen/criteria";
 

@@ -56,6 +56,8 @@ export type ChartGuides = {
   freeAmmoniaCaution?: number;
   /** Nitrite caution level in units.nitrite. */
   nitriteCaution?: number;
+  /** The pH- and temperature-dependent chronic ammonia criterion (US EPA 2013), TAN in units.ammonia. */
+  tanCriterion?: number;
 };
 
 /** A second run drawn over the first (what-if preview, or one scenario of a comparison). */

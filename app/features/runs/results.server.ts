@@ -6,6 +6,7 @@ import type { NitrogenBudget, Scenario } from "~models";
 import type { ChartEvent } from "~/utils/chart-data";
 import { displayGuides, displayKeyFigures, displaySeries } from "~/features/runs/display-figures";
 import { speciesFactor } from "~models/units";
+import { resultWarnings } from "~/features/runs/run-warnings";
 import type { StoredRun } from "~/features/runs/simulation.server";
 import { unitLabels, type DisplayUnits } from "~/utils/display-units";
 import { packSeries } from "~/features/runs/series-packing";
@@ -38,7 +39,7 @@ function buildPayload(run: StoredRun, scenario: Scenario, units: DisplayUnits): 
     labels,
     series: displaySeries(run.series, units),
     events: run.events.map((e): ChartEvent => ({ day: e.day, kind: e.kind, detail: e.detail })),
-    guides: displayGuides(scenario.targets, units),
+    guides: displayGuides(scenario.targets, units, run.findings.ammoniaCriteria.chronicTanMgNPerL),
     keyFigures: displayKeyFigures(run.keyFigures, units),
     budget: run.budget as NitrogenBudget,
     stats: { steps: run.stats.steps, rhsEvals: run.stats.rhsEvals, wallMs: Math.round(run.stats.wallMs * 10) / 10 },
@@ -46,6 +47,7 @@ function buildPayload(run: StoredRun, scenario: Scenario, units: DisplayUnits): 
     tapNitrateAboveDrinkingLimit: scenario.tapWater.nitrate > DRINKING_WATER_NITRATE_MG_N,
     tapNitrateDisplay: scenario.tapWater.nitrate * speciesFactor("nitrate", units),
     lengthDays: scenario.run.lengthDays,
+    warnings: resultWarnings({ keyFigures: run.keyFigures, warnings: run.findings.warnings, tapWater: scenario.tapWater }, units),
   };
 }
 

@@ -5,6 +5,7 @@ import { BudgetBar, BudgetTable } from "~/components/charts/budget";
 import { TimeSeriesChart } from "~/components/charts/time-series-chart";
 import { CautionsPanel } from "~/components/cautions";
 import { KeyFiguresList } from "~/components/key-figures";
+import { RunWarnings } from "~/components/run-warnings";
 import { FormMessage } from "~/components/ui/field";
 import { WhatIfPanel, type WhatIfPreview } from "~/components/what-if-panel";
 import { requireUser } from "~/permissions.server";
@@ -48,7 +49,12 @@ export async function loader({ request, params }: Route.LoaderArgs) {
       error: null,
       results: packedResultsPayload(resultsPayload(run, withTargets, units)),
       readings: readingsForChart(tank.id, modelStartMs(scenario), withTargets.run.lengthDays, units),
-      whatIf: { base: whatIfBase(withTargets), hasPlants: withTargets.plants.length > 0, settings: whatIfSettings(), units },
+      whatIf: {
+        base: whatIfBase(withTargets),
+        hasPlants: withTargets.plants.length > 0,
+        settings: whatIfSettings(),
+        units,
+      },
     };
   } catch (error) {
     const problem = runProblem(error);
@@ -137,7 +143,11 @@ export default function ResultsPage({ loaderData, actionData }: Route.ComponentP
             <h2 id="figures-title" className="sr-only">
               Key figures
             </h2>
-            <KeyFiguresList figures={results.keyFigures} units={results.labels} />
+            <KeyFiguresList
+              figures={results.keyFigures}
+              units={results.labels}
+              flagged={results.warnings.map((w) => w.figure)}
+            />
             {preview ? (
               <p className="text-sm text-stone-700" aria-live="polite">
                 What if: nitrate at the end {formatNumber(preview.keyFigures.nitrateEnd)} {results.labels.nitrate}{" "}
@@ -147,6 +157,7 @@ export default function ResultsPage({ loaderData, actionData }: Route.ComponentP
               </p>
             ) : null}
           </section>
+          <RunWarnings warnings={results.warnings} />
           <TimeSeriesChart
             title={`${scenario.name}: nitrogen over ${results.lengthDays} days`}
             series={series}
