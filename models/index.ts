@@ -41,6 +41,7 @@ export type {
 
 export type { NitrogenBudget } from "./nitrogen/budget";
 export type { ModelWarning } from "./nitrogen/result";
+export { OXYGEN } from "./nitrogen/parameters";
 
 export { ammoniaCriteria } from "./nitrogen/criteria";
 

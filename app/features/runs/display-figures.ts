@@ -37,6 +37,7 @@ export function displaySeries(s: Series, units: DisplayUnits): ChartSeries {
     no2: scale(s.no2, speciesFactor("nitrite", units)),
     no3: scale(s.no3, speciesFactor("nitrate", units)),
     plants: s.plants.map((p) => ({ id: p.id, name: p.name, massG: p.massG.map(round4) })),
+    ...(s.o2 ? { o2: s.o2.map(round4) } : {}),
   };
 }
 
