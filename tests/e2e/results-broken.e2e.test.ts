@@ -93,6 +93,10 @@ describe("saving a what-if", () => {
     for (let i = 0; i < 10; i++) await page.keyboard.press("ArrowRight");
     await expect.poll(() => plants.inputValue()).toBe("2");
     await page.getByText("The changed run is drawn thin").waitFor();
+    // The answer stays beside the sliders: nitrate before the last water change and its change.
+    const summary = page.locator("[data-what-if-summary]");
+    await expect.poll(() => summary.textContent(), { timeout: 15_000 }).toMatch(/against the saved run/);
+    expect(await summary.textContent()).toMatch(/Nitrate before the last water change[\d.]+ mg\/L NO3\s?\((−[\d.]+|no change)\)/);
     await expect.poll(() => page.locator("#what-if-name").inputValue()).toBe("Baseline (what if)");
     await page.getByRole("button", { name: "Save as a new scenario" }).click();
     await page.waitForURL((url) => /\/scenarios\/\d+$/.test(url.pathname) && url.pathname !== originalPath);

@@ -43,6 +43,18 @@ describe("specific warnings where fish can be harmed", () => {
   });
 });
 
+describe("anonymous visitors see the product", () => {
+  it("the home page links to a live example, the demo club's shared scenario", async () => {
+    const page = await newPage();
+    await page.goto("/");
+    await page.getByRole("link", { name: "See a live example, no account needed" }).click();
+    await page.waitForURL(/\/s\//);
+    await page.getByRole("heading", { name: "As kept now", level: 1 }).waitFor();
+    await page.getByRole("application").waitFor();
+    expectNoConsoleErrors(page);
+  });
+});
+
 describe("results screens for a person to look at", () => {
   it("a keeper's results, compare and a phone at 390 px", async () => {
     const page = await newPage();

@@ -9,6 +9,7 @@ import { RunWarnings } from "~/components/run-warnings";
 import { OxygenChart } from "~/components/charts/oxygen-chart";
 import { FormMessage } from "~/components/ui/field";
 import { WhatIfPanel, type WhatIfPreview } from "~/components/what-if-panel";
+import { WhatIfSummary } from "~/components/what-if-summary";
 import { requireUser } from "~/permissions.server";
 import { modelStartMs, readingsForChart } from "~/features/readings/readings.server";
 import { packedResultsPayload, resultsPayload } from "~/features/runs/results.server";
@@ -149,14 +150,6 @@ export default function ResultsPage({ loaderData, actionData }: Route.ComponentP
               units={results.labels}
               flagged={results.warnings.map((w) => w.figure)}
             />
-            {preview ? (
-              <p className="text-sm text-stone-700" aria-live="polite">
-                What if: nitrate at the end {formatNumber(preview.keyFigures.nitrateEnd)} {results.labels.nitrate}{" "}
-                (saved {formatNumber(results.keyFigures.nitrateEnd)}), peak free ammonia{" "}
-                {formatNumber(preview.keyFigures.peakFreeNh3.value)} {results.labels.ammonia},{" "}
-                {formatNumber(preview.keyFigures.daysAboveNitrateTarget)} days above the target.
-              </p>
-            ) : null}
           </section>
           <RunWarnings warnings={results.warnings} />
           <TimeSeriesChart
@@ -191,17 +184,20 @@ export default function ResultsPage({ loaderData, actionData }: Route.ComponentP
             </Link>
           </p>
           {whatIf ? (
-            <WhatIfPanel
-              // A new scenario (saved from here) starts with fresh sliders and name.
-              key={scenario.id}
-              scenarioId={scenario.id}
-              scenarioName={scenario.name}
-              base={whatIf.base}
-              hasPlants={whatIf.hasPlants}
-              settings={whatIf.settings}
-              units={whatIf.units}
-              onPreview={onPreview}
-            />
+            <div className="grid items-start gap-4 lg:grid-cols-[1fr_17rem]">
+              <WhatIfPanel
+                // A new scenario (saved from here) starts with fresh sliders and name.
+                key={scenario.id}
+                scenarioId={scenario.id}
+                scenarioName={scenario.name}
+                base={whatIf.base}
+                hasPlants={whatIf.hasPlants}
+                settings={whatIf.settings}
+                units={whatIf.units}
+                onPreview={onPreview}
+              />
+              <WhatIfSummary saved={results.keyFigures} preview={preview?.keyFigures ?? null} labels={results.labels} />
+            </div>
           ) : null}
           <OxygenChart series={series} caution={results.guides.oxygenCaution} name={scenario.name} />
           <section aria-labelledby="budget-title" className="card space-y-4">
