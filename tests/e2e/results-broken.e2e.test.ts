@@ -96,7 +96,9 @@ describe("saving a what-if", () => {
     // The answer stays beside the sliders: nitrate before the last water change and its change.
     const summary = page.locator("[data-what-if-summary]");
     await expect.poll(() => summary.textContent(), { timeout: 15_000 }).toMatch(/against the saved run/);
-    expect(await summary.textContent()).toMatch(/Nitrate before the last water change[\d.]+ mg\/L NO3\s?\((−[\d.]+|no change)\)/);
+    expect(await summary.textContent()).toMatch(
+      /Nitrate before the last water change[\d.]+ mg\/L NO3\s?\((−[\d.]+|no change)\)/,
+    );
     await expect.poll(() => page.locator("#what-if-name").inputValue()).toBe("Baseline (what if)");
     await page.getByRole("button", { name: "Save as a new scenario" }).click();
     await page.waitForURL((url) => /\/scenarios\/\d+$/.test(url.pathname) && url.pathname !== originalPath);
@@ -125,6 +127,13 @@ describe("saving a what-if", () => {
     const originalStart = await startDateOf(page, originalPath);
     expect(originalStart).toMatch(/^\d{4}-\d\d-\d\d$/);
     expect(await startDateOf(page, variantPath)).toBe(originalStart);
+
+    // Leave the demo tank as it was for the other tests.
+    await page.goto(variantPath);
+    await page.getByLabel("Yes, delete this scenario").check();
+    await page.getByRole("button", { name: "Delete scenario" }).click();
+    await page.waitForURL((url) => /^\/tanks\/\d+$/.test(url.pathname));
+    await page.getByRole("link", { name: "Baseline (what if)" }).waitFor({ state: "detached" });
     expectNoConsoleErrors(page);
   });
 });

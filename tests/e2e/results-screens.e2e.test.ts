@@ -68,7 +68,7 @@ describe("results screens for a person to look at", () => {
     await shot(page, "results");
 
     await page.goto(tankUrl);
-    await page.getByLabel("Compare Baseline").check();
+    await page.getByLabel("Compare Baseline", { exact: true }).check();
     await page.getByLabel("Compare With floating plants").check();
     await page.getByRole("button", { name: /Compare the ticked scenarios/ }).click();
     await page.waitForURL(/\/compare\?/);
