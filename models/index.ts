@@ -40,6 +40,8 @@ export type {
 } from "./nitrogen/simulate";
 
 export type { NitrogenBudget } from "./nitrogen/budget";
+export type { ModelWarning } from "./nitrogen/result";
+export { OXYGEN } from "./nitrogen/parameters";
 
 export { ammoniaCriteria } from "./nitrogen/criteria";
 

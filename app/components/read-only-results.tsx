@@ -3,6 +3,8 @@ import { BudgetBar, BudgetTable } from "~/components/charts/budget";
 import { TimeSeriesChart } from "~/components/charts/time-series-chart";
 import { CautionsPanel } from "~/components/cautions";
 import { KeyFiguresList } from "~/components/key-figures";
+import { RunWarnings } from "~/components/run-warnings";
+import { OxygenChart } from "~/components/charts/oxygen-chart";
 import { SettingsSummary } from "~/components/settings-summary";
 import { FormMessage } from "~/components/ui/field";
 import type { ReadOnlyView } from "~/features/runs/results-payload";
@@ -28,7 +30,10 @@ export function ReadOnlyResults({
   const { results, settings, error } = view;
   const series = useMemo(() => (results ? unpackSeries(results.packedSeries) : null), [results]);
   const plantNames = useMemo(() => series?.plants.map((p) => p.name) ?? [], [series]);
-  const budgets = useMemo(() => (results ? [{ label: name, budget: results.budget, plantNames }] : []), [results, name, plantNames]);
+  const budgets = useMemo(
+    () => (results ? [{ label: name, budget: results.budget, plantNames }] : []),
+    [results, name, plantNames],
+  );
   return (
     <div className="space-y-6">
       {error ? <FormMessage>{error}</FormMessage> : null}
@@ -38,8 +43,13 @@ export function ReadOnlyResults({
             <h2 id="figures-title" className="sr-only">
               Key figures
             </h2>
-            <KeyFiguresList figures={results.keyFigures} units={results.labels} />
+            <KeyFiguresList
+              figures={results.keyFigures}
+              units={results.labels}
+              flagged={results.warnings.map((w) => w.figure)}
+            />
           </section>
+          <RunWarnings warnings={results.warnings} />
           <TimeSeriesChart
             title={`${name}: nitrogen over ${results.lengthDays} days`}
             series={series}
@@ -48,6 +58,7 @@ export function ReadOnlyResults({
             guides={results.guides}
             downloadName={downloadName}
           />
+          <OxygenChart series={series} caution={results.guides.oxygenCaution} name={name} />
           <section aria-labelledby="budget-title" className="card space-y-4">
             <h2 id="budget-title" className="text-lg">
               Nitrogen budget

@@ -3,7 +3,7 @@ import { Form, useFetcher } from "react-router";
 import type { KeyFigures, Series } from "~models";
 import { toDisplay, unitLabel } from "~models/units";
 import { displayKeyFigures, displaySeries } from "~/features/runs/display-figures";
-import type { WhatIfSettings, WhatIfValues } from "~/features/runs/what-if";
+import { whatIfName, type WhatIfSettings, type WhatIfValues } from "~/features/runs/what-if";
 import type { ChartSeries, DisplayKeyFigures } from "~/utils/chart-data";
 import { formatNumber, type DisplayUnits } from "~/utils/display-units";
 
@@ -26,6 +26,15 @@ type Props = {
 };
 
 const DEBOUNCE_MS = 300;
+
+/** The levers moved away from the saved values, at the value held. */
+function movedValues(values: WhatIfValues, base: WhatIfValues): Partial<WhatIfValues> {
+  return Object.fromEntries(
+    (Object.keys(base) as (keyof WhatIfValues)[])
+      .filter((k) => Math.abs(values[k] - base[k]) > 1e-12)
+      .map((k) => [k, values[k]]),
+  );
+}
 
 function Slider({
   name,
@@ -57,7 +66,6 @@ function Slider({
       </label>
       <input
         id={id}
-        name={name}
         type="range"
         min={min}
         max={max}
@@ -78,7 +86,8 @@ function Slider({
 export function WhatIfPanel({ scenarioId, scenarioName, base, hasPlants, settings, units, onPreview }: Props) {
   const fetcher = useFetcher<PreviewAnswer>();
   const [values, setValues] = useState(base);
-  const changed = (Object.keys(base) as (keyof WhatIfValues)[]).some((k) => Math.abs(values[k] - base[k]) > 1e-12);
+  const moved = Object.keys(movedValues(values, base)) as (keyof WhatIfValues)[];
+  const changed = moved.length > 0;
   const timer = useRef<ReturnType<typeof setTimeout> | undefined>(undefined);
   const submit = fetcher.submit;
 
@@ -90,12 +99,12 @@ export function WhatIfPanel({ scenarioId, scenarioName, base, hasPlants, setting
     }
     timer.current = setTimeout(() => {
       submit(
-        { scenarioId, whatIf: values },
+        { scenarioId, whatIf: movedValues(values, base) },
         { method: "post", action: "/api/preview", encType: "application/json" },
       );
     }, DEBOUNCE_MS);
     return () => clearTimeout(timer.current);
-  }, [values, changed, scenarioId, submit, onPreview]);
+  }, [values, base, changed, scenarioId, submit, onPreview]);
 
   useEffect(() => {
     if (!changed) return;
@@ -107,7 +116,7 @@ export function WhatIfPanel({ scenarioId, scenarioName, base, hasPlants, setting
 
   const set = (key: keyof WhatIfValues) => (v: number) => setValues((old) => ({ ...old, [key]: v }));
   const feedMax = Math.max(2, base.feedGPerDay * 3);
-  const tapMax = Math.max(25, base.tapNitrate * 2) ;
+  const tapMax = Math.max(25, base.tapNitrate * 2);
   const error = fetcher.data && "error" in fetcher.data ? fetcher.data.error : null;
   const shown = (key: keyof WhatIfSettings) =>
     `${formatNumber(toDisplay(settings[key].quantity, values[key], units))} ${unitLabel(settings[key].quantity, units, settings[key].unit)}`;
@@ -119,13 +128,31 @@ export function WhatIfPanel({ scenarioId, scenarioName, base, hasPlants, setting
           What if…
         </h2>
         <p className="text-sm text-stone-600" aria-live="polite">
-          {fetcher.state !== "idle" ? "Running the model…" : changed ? "The changed run is drawn thin over the saved one." : "Move a slider to try a change."}
+          {fetcher.state !== "idle"
+            ? "Running the model…"
+            : changed
+              ? "The changed run is drawn thin over the saved one."
+              : "Move a slider to try a change."}
         </p>
       </div>
       <Form method="post" className="space-y-4">
         <input type="hidden" name="intent" value="save-what-if" />
+        {/* Only the levers moved, at the value held (a range input would post its step-snapped
+            value, changing settings nobody touched). */}
+        {moved.map((key) => (
+          <input key={key} type="hidden" name={key} value={String(values[key])} />
+        ))}
         <div className="grid gap-4 sm:grid-cols-2">
-          <Slider name="feedGPerDay" label={settings.feedGPerDay.label} value={values.feedGPerDay} min={0} max={feedMax} step={0.05} display={`${formatNumber(values.feedGPerDay)} g`} onChange={set("feedGPerDay")} />
+          <Slider
+            name="feedGPerDay"
+            label={settings.feedGPerDay.label}
+            value={values.feedGPerDay}
+            min={0}
+            max={feedMax}
+            step={0.05}
+            display={`${formatNumber(values.feedGPerDay)} g`}
+            onChange={set("feedGPerDay")}
+          />
           <Slider
             name="waterChangeFraction"
             label={settings.waterChangeFraction.label}
@@ -177,7 +204,13 @@ export function WhatIfPanel({ scenarioId, scenarioName, base, hasPlants, setting
             <label htmlFor="what-if-name" className="block text-sm font-semibold">
               Name of the new scenario
             </label>
-            <input id="what-if-name" name="name" className="input" defaultValue={`${scenarioName} (what if)`} maxLength={120} />
+            <input
+              id="what-if-name"
+              name="name"
+              className="input"
+              defaultValue={whatIfName(scenarioName)}
+              maxLength={120}
+            />
           </div>
           <button type="submit" className="btn" disabled={!changed}>
             Save as a new scenario

@@ -153,6 +153,11 @@ export const runs = sqliteTable(
     series: text("series", { mode: "json" }).notNull(),
     seriesPacked: blob("series_packed", { mode: "buffer" }),
     stats: text("stats", { mode: "json" }).notNull(),
+    /**
+     * What the engine found beyond the series: `{ warnings, lowOxygenZones, ammoniaCriteria }`
+     * (RunFindings). Null on runs stored before it was kept: those are run again on view.
+     */
+    findings: text("findings", { mode: "json" }),
     createdAt: createdAt(),
   },
   (t) => [index("runs_scenario_idx").on(t.scenarioId, t.settingsHash, t.engineVersion)],

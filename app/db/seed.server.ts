@@ -3,6 +3,7 @@
  * with a class, and an admin. Every name, e-mail and tank here is made up for the demo;
  * the password is for local use only and is printed in README.md.
  */
+import { DEFAULT_NITRATE_TARGETS } from "~/features/tanks/nitrate-targets";
 import { and, eq } from "drizzle-orm";
 import { hashPassword } from "~/auth.server";
 import { hashToken } from "~/utils/crypto.server";
@@ -43,21 +44,67 @@ export async function seedDemoData(db: Db): Promise<void> {
       ids.set(u.email, row.id);
     }
     const tankIds = {
-      jonah: tx.insert(tanks).values({ ownerId: ids.get("jonah@tidewell.example")!, name: "Living-room 120", notes: "Community tank, moderately planted." }).returning({ id: tanks.id }).get().id,
-      ines: tx.insert(tanks).values({ ownerId: ids.get("ines@tidewell.example")!, name: "Shrimp nano", notes: "Small tank with mosses and floating plants." }).returning({ id: tanks.id }).get().id,
-      theo: tx.insert(tanks).values({ ownerId: ids.get("theo@tidewell.example")!, name: "Cichlid 200", notes: "Heavily stocked, few plants; tap water carries nitrate." }).returning({ id: tanks.id }).get().id,
-      teacher: tx.insert(tanks).values({ ownerId: ids.get("teacher@tidewell.example")!, name: "Classroom demo tank", notes: "Prepared scenarios for lessons." }).returning({ id: tanks.id }).get().id,
+      jonah: tx
+        .insert(tanks)
+        .values({
+          ownerId: ids.get("jonah@tidewell.example")!,
+          name: "Living-room 120",
+          notes: "Community tank, moderately planted.",
+          ...DEFAULT_NITRATE_TARGETS,
+        })
+        .returning({ id: tanks.id })
+        .get().id,
+      ines: tx
+        .insert(tanks)
+        .values({
+          ownerId: ids.get("ines@tidewell.example")!,
+          name: "Shrimp nano",
+          notes: "Small tank with mosses and floating plants.",
+          ...DEFAULT_NITRATE_TARGETS,
+        })
+        .returning({ id: tanks.id })
+        .get().id,
+      theo: tx
+        .insert(tanks)
+        .values({
+          ownerId: ids.get("theo@tidewell.example")!,
+          name: "Cichlid 200",
+          notes: "Heavily stocked, few plants; tap water carries nitrate.",
+          ...DEFAULT_NITRATE_TARGETS,
+        })
+        .returning({ id: tanks.id })
+        .get().id,
+      teacher: tx
+        .insert(tanks)
+        .values({
+          ownerId: ids.get("teacher@tidewell.example")!,
+          name: "Classroom demo tank",
+          notes: "Prepared scenarios for lessons.",
+          ...DEFAULT_NITRATE_TARGETS,
+        })
+        .returning({ id: tanks.id })
+        .get().id,
     };
     seedDemoScenarios(tx, tankIds);
     seedDemoReadings(tx, tankIds.jonah);
     const cls = tx
       .insert(classes)
-      .values({ educatorId: ids.get("teacher@tidewell.example")!, name: "Year 9 Biology: the nitrogen cycle", joinCode: "TIDE-NINE" })
+      .values({
+        educatorId: ids.get("teacher@tidewell.example")!,
+        name: "Year 9 Biology: the nitrogen cycle",
+        joinCode: "TIDE-NINE",
+      })
       .returning({ id: classes.id })
       .get();
-    tx.insert(classMembers).values({ classId: cls.id, userId: ids.get("student@tidewell.example")! }).run();
+    tx.insert(classMembers)
+      .values({ classId: cls.id, userId: ids.get("student@tidewell.example")! })
+      .run();
     const scenarioIn = (tankId: number, name: string) =>
-      tx.select().from(scenarios).where(and(eq(scenarios.tankId, tankId), eq(scenarios.name, name))).get()!;
+      tx
+        .select()
+        .from(scenarios)
+        .where(and(eq(scenarios.tankId, tankId), eq(scenarios.name, name)))
+        .get()!;
     const cycling = scenarioIn(tankIds.teacher, "A new tank cycling without fish");
     tx.insert(lessons)
       .values({
@@ -71,6 +118,8 @@ export async function seedDemoData(db: Db): Promise<void> {
       })
       .run();
     const asKept = scenarioIn(tankIds.theo, "As kept now");
-    tx.insert(shareLinks).values({ scenarioId: asKept.id, tokenHash: hashToken(DEMO_SHARE_TOKEN) }).run();
+    tx.insert(shareLinks)
+      .values({ scenarioId: asKept.id, tokenHash: hashToken(DEMO_SHARE_TOKEN) })
+      .run();
   });
 }

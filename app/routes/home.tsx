@@ -1,6 +1,8 @@
 import { Link } from "react-router";
 import type { Route } from "./+types/home";
 import { getSessionUser } from "~/session.server";
+import { DEMO_SHARE_TOKEN } from "~/db/seed.server";
+import { findLinkByToken, isLive, sharePath } from "~/features/sharing/share.server";
 
 export const meta: Route.MetaFunction = () => [
   { title: "Fernwater · where the nitrogen in your aquarium goes" },
@@ -13,7 +15,9 @@ export const meta: Route.MetaFunction = () => [
 
 export async function loader({ request }: Route.LoaderArgs) {
   const user = await getSessionUser(request);
-  return { signedIn: Boolean(user) };
+  // The demo club's shared scenario, where the demo data is loaded and the link is still on.
+  const demo = findLinkByToken(DEMO_SHARE_TOKEN);
+  return { signedIn: Boolean(user), example: demo && isLive(demo.link) ? sharePath(DEMO_SHARE_TOKEN) : null };
 }
 
 export default function HomePage({ loaderData }: Route.ComponentProps) {
@@ -42,6 +46,11 @@ export default function HomePage({ loaderData }: Route.ComponentProps) {
               </Link>
             </>
           )}
+          {loaderData.example ? (
+            <Link to={loaderData.example} className="btn-secondary">
+              See a live example, no account needed
+            </Link>
+          ) : null}
         </p>
       </section>
       <section className="grid gap-4 sm:grid-cols-3" aria-label="Who Fernwater is for">
@@ -60,7 +69,9 @@ export default function HomePage({ loaderData }: Route.ComponentProps) {
         </div>
         <div className="card">
           <h2 className="text-lg">Forum members</h2>
-          <p className="text-sm text-stone-700">Post a read-only link to a scenario so others can see it and copy it.</p>
+          <p className="text-sm text-stone-700">
+            Post a read-only link to a scenario so others can see it and copy it.
+          </p>
         </div>
       </section>
     </div>

@@ -24,6 +24,8 @@ export type ChartSeries = {
   no3: number[];
   /** Dry mass per plant group, g. */
   plants: { id: string; name: string; massG: number[] }[];
+  /** Dissolved oxygen, mg O2/L (absent in series made before the engine modelled it). */
+  o2?: number[];
 };
 
 /** Unit labels for the axes, legend, table and CSV headers, e.g. "mg/L NO3". */
@@ -56,6 +58,10 @@ export type ChartGuides = {
   freeAmmoniaCaution?: number;
   /** Nitrite caution level in units.nitrite. */
   nitriteCaution?: number;
+  /** The pH- and temperature-dependent chronic ammonia criterion (US EPA 2013), TAN in units.ammonia. */
+  tanCriterion?: number;
+  /** Dissolved oxygen below which fish suffer, mg O2/L. */
+  oxygenCaution?: number;
 };
 
 /** A second run drawn over the first (what-if preview, or one scenario of a comparison). */

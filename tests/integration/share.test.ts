@@ -30,9 +30,9 @@ async function sharedScenario(input = {}) {
 const open = (token: string, cookie?: string) => call(publicLoader, get(`/s/${token}`, cookie), { token });
 
 /** Runs the share route's middleware as the router would, with a stand-in for the rest of the request. */
-async function throughMiddleware(token: string, headers: Record<string, string> = {}) {
+async function throughMiddleware(token: string, headers: Record<string, string> = {}, variant: "data" | "html" = "data") {
   let rendered = 0;
-  const request = new Request(`${ORIGIN}/s/${token}`, { headers });
+  const request = new Request(`${ORIGIN}/s/${token}${variant === "data" ? ".data" : ""}`, { headers });
   const response = (await middleware[0]({ request, params: { token }, context: undefined as never } as never, async () => {
     rendered++;
     return new Response("<html>page</html>", { status: 200, headers: { "Content-Type": "text/html" } });
@@ -144,7 +144,18 @@ describe("share links: the public page", () => {
     expect((await open("x".repeat(500))).status).toBe(404);
   });
 
-  it("validates anonymous views with an ETag: 304 while unchanged, a full answer once the link changes", async () => {
+  it("never validates the HTML, which carries a per-response CSP nonce: a cached body would have its scripts refused", async () => {
+    const { turnOn } = await sharedScenario();
+    const token = await turnOn();
+    const first = await throughMiddleware(token, {}, "html");
+    expect(first.response.headers.get("Cache-Control")).toBe("no-cache");
+    expect(first.response.headers.get("ETag")).toBeNull();
+    const again = await throughMiddleware(token, { "If-None-Match": "*" }, "html");
+    expect(again.response.status).toBe(200);
+    expect(again.rendered).toBe(1);
+  });
+
+  it("validates anonymous data requests with an ETag: 304 while unchanged, a full answer once the link changes", async () => {
     const { turnOn, owner, tankId, scenarioId } = await sharedScenario();
     const token = await turnOn();
     const first = await throughMiddleware(token);

@@ -196,6 +196,14 @@ export const TimeSeriesChart = memo(function TimeSeriesChart({
         label: `free NH3 caution ${formatNumber(guides.freeAmmoniaCaution)}`,
       });
     }
+    if (guides?.tanCriterion != null && visible.tan) {
+      g.push({
+        key: "tan-criterion",
+        value: guides.tanCriterion,
+        color: SERIES_COLORS.tan,
+        label: `TAN criterion at this pH and °C ${formatNumber(guides.tanCriterion)}`,
+      });
+    }
     if (guides?.nitriteCaution != null && visible.no2) {
       g.push({
         key: "no2-caution",

@@ -260,7 +260,15 @@ export async function lessonRun(
   let run = presented.get(hash);
   if (!run) {
     const result = await runEngine(settings, { userId: educatorId, purpose: "view" });
-    run = { id: 0, scenarioId: lesson.scenarioId ?? 0, settingsHash: hash, createdAt: new Date(), ...result };
+    const { warnings, lowOxygenZones, ammoniaCriteria } = result;
+    run = {
+      id: 0,
+      scenarioId: lesson.scenarioId ?? 0,
+      settingsHash: hash,
+      createdAt: new Date(),
+      ...result,
+      findings: { warnings, lowOxygenZones, ammoniaCriteria },
+    };
     presented.set(hash, run);
     if (presented.size > 16) presented.delete(presented.keys().next().value!);
   }

@@ -37,6 +37,7 @@ export function displaySeries(s: Series, units: DisplayUnits): ChartSeries {
     no2: scale(s.no2, speciesFactor("nitrite", units)),
     no3: scale(s.no3, speciesFactor("nitrate", units)),
     plants: s.plants.map((p) => ({ id: p.id, name: p.name, massG: p.massG.map(round4) })),
+    ...(s.o2 ? { o2: s.o2.map(round4) } : {}),
   };
 }
 
@@ -45,11 +46,22 @@ export function displaySeries(s: Series, units: DisplayUnits): ChartSeries {
  * from memory) and nitrite caution 0.1 mg/L NO2-N (common practice, no source).
  */
 export const FREE_NH3_CAUTION_MG_N = 0.02 * 0.82244;
-const NITRITE_CAUTION_MG_N = 0.1;
+export const NITRITE_CAUTION_MG_N = 0.1;
 
-export function displayGuides(targets: { nitrateLow: number; nitrateHigh: number }, units: DisplayUnits): ChartGuides {
+/**
+ * @param tanCriterionMgN the run's chronic ammonia criterion (US EPA 2013, docs/sources.md §2) at
+ *   its pH and temperature, mg TAN-N/L; drawn as a caution line on TAN when known.
+ */
+export function displayGuides(
+  targets: { nitrateLow: number; nitrateHigh: number },
+  units: DisplayUnits,
+  tanCriterionMgN?: number,
+): ChartGuides {
   const no3 = speciesFactor("nitrate", units);
   return {
+    ...(tanCriterionMgN !== undefined && Number.isFinite(tanCriterionMgN)
+      ? { tanCriterion: tanCriterionMgN * speciesFactor("ammonia", units) }
+      : {}),
     nitrateBand: { low: targets.nitrateLow * no3, high: targets.nitrateHigh * no3 },
     freeAmmoniaCaution: FREE_NH3_CAUTION_MG_N * speciesFactor("ammonia", units),
     nitriteCaution: NITRITE_CAUTION_MG_N * speciesFactor("nitrite", units),

@@ -3,6 +3,7 @@
  * results.server.ts), written out so browser code can use it without a *.server import.
  */
 import type { NitrogenBudget } from "~models";
+import type { ResultWarning } from "~/features/runs/run-warnings";
 import type { ChartEvent, ChartGuides, ChartSeries, DisplayKeyFigures } from "~/utils/chart-data";
 import type { UnitLabels } from "~/utils/display-units";
 import type { PackedSeries } from "~/features/runs/series-packing";
@@ -21,6 +22,8 @@ export type ResultsPayload = {
   tapNitrateAboveDrinkingLimit: boolean;
   tapNitrateDisplay: number;
   lengthDays: number;
+  /** What crosses a caution, in plain words (run-warnings.ts). */
+  warnings: ResultWarning[];
 };
 
 /** The payload with its series packed into strings: far cheaper to send. */

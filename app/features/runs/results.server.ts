@@ -2,10 +2,11 @@
  * Everything a results view draws for one run, in the viewer's units. Shared by the owner's
  * results page, the public share page and the classroom views, so they all show the same.
  */
-import type { NitrogenBudget, Scenario } from "~models";
+import { OXYGEN, type NitrogenBudget, type Scenario } from "~models";
 import type { ChartEvent } from "~/utils/chart-data";
 import { displayGuides, displayKeyFigures, displaySeries } from "~/features/runs/display-figures";
 import { speciesFactor } from "~models/units";
+import { resultWarnings } from "~/features/runs/run-warnings";
 import type { StoredRun } from "~/features/runs/simulation.server";
 import { unitLabels, type DisplayUnits } from "~/utils/display-units";
 import { packSeries } from "~/features/runs/series-packing";
@@ -38,7 +39,10 @@ function buildPayload(run: StoredRun, scenario: Scenario, units: DisplayUnits): 
     labels,
     series: displaySeries(run.series, units),
     events: run.events.map((e): ChartEvent => ({ day: e.day, kind: e.kind, detail: e.detail })),
-    guides: displayGuides(scenario.targets, units),
+    guides: {
+      ...displayGuides(scenario.targets, units, run.findings.ammoniaCriteria.chronicTanMgNPerL),
+      oxygenCaution: OXYGEN.cautionMgPerL.value,
+    },
     keyFigures: displayKeyFigures(run.keyFigures, units),
     budget: run.budget as NitrogenBudget,
     stats: { steps: run.stats.steps, rhsEvals: run.stats.rhsEvals, wallMs: Math.round(run.stats.wallMs * 10) / 10 },
@@ -46,6 +50,10 @@ function buildPayload(run: StoredRun, scenario: Scenario, units: DisplayUnits): 
     tapNitrateAboveDrinkingLimit: scenario.tapWater.nitrate > DRINKING_WATER_NITRATE_MG_N,
     tapNitrateDisplay: scenario.tapWater.nitrate * speciesFactor("nitrate", units),
     lengthDays: scenario.run.lengthDays,
+    warnings: resultWarnings(
+      { keyFigures: run.keyFigures, warnings: run.findings.warnings, tapWater: scenario.tapWater },
+      units,
+    ),
   };
 }
 

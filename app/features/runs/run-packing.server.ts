@@ -48,6 +48,7 @@ export function storedBytes(run: StorableRun): number {
     text(run.events) +
     text(run.keyFigures) +
     text(run.budget) +
-    text(run.stats)
+    text(run.stats) +
+    text({ warnings: run.warnings, lowOxygenZones: run.lowOxygenZones, ammoniaCriteria: run.ammoniaCriteria })
   );
 }

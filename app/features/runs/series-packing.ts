@@ -12,6 +12,7 @@ export type PackedSeries = {
   no2: string;
   no3: string;
   plants: { id: string; name: string; massG: string }[];
+  o2?: string;
 };
 
 const pack = (values: readonly number[]) => values.join(",");
@@ -25,6 +26,7 @@ export function packSeries(s: ChartSeries): PackedSeries {
     no2: pack(s.no2),
     no3: pack(s.no3),
     plants: s.plants.map((p) => ({ id: p.id, name: p.name, massG: pack(p.massG) })),
+    ...(s.o2 ? { o2: pack(s.o2) } : {}),
   };
 }
 
@@ -36,5 +38,6 @@ export function unpackSeries(p: PackedSeries): ChartSeries {
     no2: unpack(p.no2),
     no3: unpack(p.no3),
     plants: p.plants.map((g) => ({ id: g.id, name: g.name, massG: unpack(g.massG) })),
+    ...(p.o2 !== undefined ? { o2: unpack(p.o2) } : {}),
   };
 }

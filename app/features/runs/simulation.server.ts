@@ -4,7 +4,7 @@
  * so opening a results page does not re-read a megabyte of JSON each time.
  */
 import { createHash } from "node:crypto";
-import { and, desc, eq, inArray, sql } from "drizzle-orm";
+import { and, desc, eq, inArray, isNotNull, sql } from "drizzle-orm";
 import {
   ENGINE_VERSION,
   parseScenario,
@@ -20,7 +20,13 @@ import { getDb, type Db } from "~/db/client.server";
 import { runs } from "~/db/schema";
 import { checkRunBytes } from "~/quotas.server";
 import { runForRequest, runForStorage, type RunRequest } from "~/features/runs/run-gate.server";
-import { PACKED_MARKER, readStoredSeries, storedBytes, toStorableSync, type StorableRun } from "~/features/runs/run-packing.server";
+import {
+  PACKED_MARKER,
+  readStoredSeries,
+  storedBytes,
+  toStorableSync,
+  type StorableRun,
+} from "~/features/runs/run-packing.server";
 
 export { REQUEST_RUN_LIMITS, type RunRequest } from "~/features/runs/run-gate.server";
 export type { StorableRun } from "~/features/runs/run-packing.server";
@@ -35,8 +41,23 @@ export type StoredRun = {
   events: EventRecord[];
   series: Series;
   stats: SimulationStats;
+  /** Warnings, low-oxygen zones and ammonia criteria (runs stored before they were kept are run again). */
+  findings: RunFindings;
   createdAt: Date;
 };
+
+/** What the engine found beyond the series, kept with the stored run. */
+type RunFindings = Pick<SimulationResult, "warnings" | "lowOxygenZones" | "ammoniaCriteria">;
+
+/** A stored run's findings; runs stored before they were kept have none (findRun skips them). */
+function readFindings(value: unknown): RunFindings {
+  const f = (value ?? {}) as Partial<RunFindings>;
+  return {
+    warnings: Array.isArray(f.warnings) ? f.warnings : [],
+    lowOxygenZones: f.lowOxygenZones ?? null,
+    ammoniaCriteria: f.ammoniaCriteria ?? { acuteTanMgNPerL: Number.NaN, chronicTanMgNPerL: Number.NaN },
+  };
+}
 
 /** JSON with object keys sorted, so equal settings hash equally whatever their key order. */
 function canonicalJson(value: unknown): string {
@@ -52,7 +73,10 @@ export function settingsHash(scenario: Scenario): string {
 }
 
 /** The tank's nitrate band wins over the one saved in the scenario (the band is a tank setting). */
-export function withTankTargets(scenario: Scenario, tank: { nitrateTargetLow: number; nitrateTargetHigh: number }): Scenario {
+export function withTankTargets(
+  scenario: Scenario,
+  tank: { nitrateTargetLow: number; nitrateTargetHigh: number },
+): Scenario {
   return { ...scenario, targets: { nitrateLow: tank.nitrateTargetLow, nitrateHigh: tank.nitrateTargetHigh } };
 }
 
@@ -87,6 +111,7 @@ function fromRow(row: RunRow): StoredRun {
     events: row.events as EventRecord[],
     series: readStoredSeries(row.series, row.seriesPacked),
     stats: row.stats as SimulationStats,
+    findings: readFindings(row.findings),
     createdAt: row.createdAt,
   };
 }
@@ -110,6 +135,8 @@ function prepareRunLookup(db: Db) {
         eq(runs.scenarioId, sql.placeholder("scenarioId")),
         eq(runs.settingsHash, sql.placeholder("hash")),
         eq(runs.engineVersion, ENGINE_VERSION),
+        // Runs stored before the findings were kept are run again.
+        isNotNull(runs.findings),
       ),
     )
     .orderBy(desc(runs.id))
@@ -167,6 +194,11 @@ export function insertRun(tx: Tx, scenarioId: number, hash: string, run: Storabl
       series: storable.seriesPacked ? PACKED_MARKER : storable.series,
       seriesPacked: storable.seriesPacked ? Buffer.from(storable.seriesPacked) : null,
       stats: storable.stats,
+      findings: {
+        warnings: storable.warnings,
+        lowOxygenZones: storable.lowOxygenZones,
+        ammoniaCriteria: storable.ammoniaCriteria,
+      },
     })
     .returning({ id: runs.id })
     .get().id;

@@ -18,7 +18,7 @@ import type { TankRow } from "~/features/tanks/tanks.server";
 export async function saveScenarioVariant(
   tank: TankRow,
   sourceId: number,
-  startMs: number,
+  startMs: number | null,
   name: string,
   settings: Scenario,
 ): Promise<number> {
@@ -26,6 +26,7 @@ export async function saveScenarioVariant(
   const result = await runEngineForStorage(scenario, { userId: tank.ownerId, purpose: "save" });
   return write((tx) => {
     const id = insertScenarioWithRun(tx, tank.id, name, scenario, result, sourceId);
+    if (startMs === null) return id;
     tx.update(scenarios)
       .set({ startDate: new Date(startMs) })
       .where(eq(scenarios.id, id))

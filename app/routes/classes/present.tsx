@@ -13,6 +13,7 @@ import { runProblem } from "~/http/pages.server";
 import { displayUnitsFor, formatNumber } from "~/utils/display-units";
 import { unpackSeries } from "~/features/runs/series-packing";
 import { Breadcrumbs } from "~/components/breadcrumbs";
+import { RunWarnings } from "~/components/run-warnings";
 
 export const meta: Route.MetaFunction = ({ data }) => [
   { title: `Presenting ${data?.lesson.title ?? "a lesson"} · Fernwater` },
@@ -145,6 +146,7 @@ export default function PresentLessonPage({ loaderData }: Route.ComponentProps) 
               ))}
             </dl>
           </div>
+          <RunWarnings warnings={results.warnings} large />
           <TimeSeriesChart
             title={`${lesson.title}: nitrogen over ${results.lengthDays} days`}
             series={series}

@@ -5,12 +5,15 @@ import { BudgetBar, BudgetTable } from "~/components/charts/budget";
 import { TimeSeriesChart } from "~/components/charts/time-series-chart";
 import { CautionsPanel } from "~/components/cautions";
 import { KeyFiguresList } from "~/components/key-figures";
+import { RunWarnings } from "~/components/run-warnings";
+import { OxygenChart } from "~/components/charts/oxygen-chart";
 import { FormMessage } from "~/components/ui/field";
 import { WhatIfPanel, type WhatIfPreview } from "~/components/what-if-panel";
+import { WhatIfSummary } from "~/components/what-if-summary";
 import { requireUser } from "~/permissions.server";
 import { modelStartMs, readingsForChart } from "~/features/readings/readings.server";
 import { packedResultsPayload, resultsPayload } from "~/features/runs/results.server";
-import { saveScenarioWithRun } from "~/features/scenarios/scenario-api.server";
+import { saveScenarioVariant } from "~/features/scenarios/scenario-variant.server";
 import { ensureRun, readStoredSettings, withTankTargets } from "~/features/runs/simulation.server";
 import { refusedForm, runProblem } from "~/http/pages.server";
 import { requireOwnedScenario } from "~/features/tanks/tanks.server";
@@ -48,7 +51,12 @@ export async function loader({ request, params }: Route.LoaderArgs) {
       error: null,
       results: packedResultsPayload(resultsPayload(run, withTargets, units)),
       readings: readingsForChart(tank.id, modelStartMs(scenario), withTargets.run.lengthDays, units),
-      whatIf: { base: whatIfBase(withTargets), hasPlants: withTargets.plants.length > 0, settings: whatIfSettings(), units },
+      whatIf: {
+        base: whatIfBase(withTargets),
+        hasPlants: withTargets.plants.length > 0,
+        settings: whatIfSettings(),
+        units,
+      },
     };
   } catch (error) {
     const problem = runProblem(error);
@@ -75,7 +83,10 @@ export async function action({ request, params }: Route.ActionArgs) {
   const saved = readStoredSettings(scenario.settings);
   if (!saved) return invalid({ "": "The saved settings of this scenario can no longer be read." }, values);
   try {
-    const id = await saveScenarioWithRun(tank, "new", name.data, applyWhatIf(saved, changes.data));
+    // Only the levers the person moved change; every other setting, and the start date (so
+    // readings still line up), stay exactly as saved.
+    const startMs = scenario.startDate?.getTime() ?? null;
+    const id = await saveScenarioVariant(tank, scenario.id, startMs, name.data, applyWhatIf(saved, changes.data));
     return redirect(`/tanks/${tank.id}/scenarios/${id}`);
   } catch (error) {
     return refusedForm(error, values);
@@ -134,16 +145,13 @@ export default function ResultsPage({ loaderData, actionData }: Route.ComponentP
             <h2 id="figures-title" className="sr-only">
               Key figures
             </h2>
-            <KeyFiguresList figures={results.keyFigures} units={results.labels} />
-            {preview ? (
-              <p className="text-sm text-stone-700" aria-live="polite">
-                What if: nitrate at the end {formatNumber(preview.keyFigures.nitrateEnd)} {results.labels.nitrate}{" "}
-                (saved {formatNumber(results.keyFigures.nitrateEnd)}), peak free ammonia{" "}
-                {formatNumber(preview.keyFigures.peakFreeNh3.value)} {results.labels.ammonia},{" "}
-                {formatNumber(preview.keyFigures.daysAboveNitrateTarget)} days above the target.
-              </p>
-            ) : null}
+            <KeyFiguresList
+              figures={results.keyFigures}
+              units={results.labels}
+              flagged={results.warnings.map((w) => w.figure)}
+            />
           </section>
+          <RunWarnings warnings={results.warnings} />
           <TimeSeriesChart
             title={`${scenario.name}: nitrogen over ${results.lengthDays} days`}
             series={series}
@@ -176,16 +184,22 @@ export default function ResultsPage({ loaderData, actionData }: Route.ComponentP
             </Link>
           </p>
           {whatIf ? (
-            <WhatIfPanel
-              scenarioId={scenario.id}
-              scenarioName={scenario.name}
-              base={whatIf.base}
-              hasPlants={whatIf.hasPlants}
-              settings={whatIf.settings}
-              units={whatIf.units}
-              onPreview={onPreview}
-            />
+            <div className="grid items-start gap-4 lg:grid-cols-[1fr_17rem]">
+              <WhatIfPanel
+                // A new scenario (saved from here) starts with fresh sliders and name.
+                key={scenario.id}
+                scenarioId={scenario.id}
+                scenarioName={scenario.name}
+                base={whatIf.base}
+                hasPlants={whatIf.hasPlants}
+                settings={whatIf.settings}
+                units={whatIf.units}
+                onPreview={onPreview}
+              />
+              <WhatIfSummary saved={results.keyFigures} preview={preview?.keyFigures ?? null} labels={results.labels} />
+            </div>
           ) : null}
+          <OxygenChart series={series} caution={results.guides.oxygenCaution} name={scenario.name} />
           <section aria-labelledby="budget-title" className="card space-y-4">
             <h2 id="budget-title" className="text-lg">
               Nitrogen budget

@@ -41,19 +41,27 @@ export const meta: Route.MetaFunction = ({ data }) => {
 };
 
 /**
- * Anonymous views carry an ETag with `Cache-Control: no-cache`: every view asks again, so a
- * link turned off stops at once, but an unchanged page answers 304 without rendering.
- * Signed-in views (their own nav and tank list) are private and not validated.
+ * Every view asks again (`Cache-Control: no-cache`), so a link turned off stops at once. Only
+ * the page's data (`.data`, JSON) carries an ETag and may answer 304: the HTML carries this
+ * response's CSP nonce, and a cached body with an old nonce would have its inline scripts
+ * refused, so the page would never hydrate. Signed-in views (their own nav and tank list) are
+ * private and not validated.
  */
 export const middleware: Route.MiddlewareFunction[] = [
   async ({ request, params }, next) => {
     const viewer = await getSessionUser(request);
     const found = viewer || request.method !== "GET" ? null : findLinkByToken(params.token);
     const variant = new URL(request.url).pathname.endsWith(".data") ? "data" : "html";
-    const tag = found && isLive(found.link) ? shareEtag(found.link, found.scenario, found.tank, variant) : null;
+    const tag =
+      variant === "data" && found && isLive(found.link)
+        ? shareEtag(found.link, found.scenario, found.tank, variant)
+        : null;
     const cacheControl = viewer ? "private, no-cache" : "no-cache";
     if (tag && etagMatches(request.headers.get("If-None-Match"), tag)) {
-      return new Response(null, { status: 304, headers: { ETag: tag, "Cache-Control": cacheControl, "X-Robots-Tag": "noindex" } });
+      return new Response(null, {
+        status: 304,
+        headers: { ETag: tag, "Cache-Control": cacheControl, "X-Robots-Tag": "noindex" },
+      });
     }
     const response = (await next()) as Response;
     response.headers.set("Cache-Control", cacheControl);
@@ -71,14 +79,22 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   if (!isLive(link)) {
     // The owner learns why; for everyone else a taken-down link simply does not exist.
     if (viewer?.id === tank.ownerId && link.takenDownAt && !link.revokedAt) {
-      throw data({ message: `An admin took this link down. Their reason: ${link.takedownReason ?? "none given"}` }, { status: 410 });
+      throw data(
+        { message: `An admin took this link down. Their reason: ${link.takedownReason ?? "none given"}` },
+        { status: 410 },
+      );
     }
     notFound(GONE);
   }
   const units = displayUnitsFor(viewer ?? DEFAULT_PREFERENCES);
   const view = await readOnlyScenarioView(scenario, tank, units);
   const myTanks = viewer
-    ? getDb().select({ id: tanks.id, name: tanks.name }).from(tanks).where(eq(tanks.ownerId, viewer.id)).orderBy(asc(tanks.name)).all()
+    ? getDb()
+        .select({ id: tanks.id, name: tanks.name })
+        .from(tanks)
+        .where(eq(tanks.ownerId, viewer.id))
+        .orderBy(asc(tanks.name))
+        .all()
     : null;
   return {
     token: params.token,
@@ -106,9 +122,12 @@ export async function action({ request, params }: Route.ActionArgs) {
   const parsed = CopySchema.safeParse(values);
   if (!parsed.success) return invalid({ tankId: "Choose one of your tanks." }, values);
   const settings = readStoredSettings(found.scenario.settings);
-  if (!settings) return invalid({ "": "The settings of this scenario can no longer be read, so they cannot be copied." }, values);
+  if (!settings)
+    return invalid({ "": "The settings of this scenario can no longer be read, so they cannot be copied." }, values);
   const destination: CopyDestination =
-    parsed.data.tankId === "new" ? { newTank: SHARED_TANK } : { tank: requireOwnedTank(user.id, String(parsed.data.tankId)) };
+    parsed.data.tankId === "new"
+      ? { newTank: SHARED_TANK }
+      : { tank: requireOwnedTank(user.id, String(parsed.data.tankId)) };
   try {
     const copy = await copyScenarioInto(user.id, destination, found.scenario.name, settings, found.scenario.id);
     return redirect(`/tanks/${copy.tankId}/scenarios/${copy.scenarioId}`);
@@ -127,7 +146,9 @@ export default function SharedScenarioPage({ loaderData, actionData }: Route.Com
         <p className="text-sm text-stone-600">A scenario shared on Fernwater · read-only</p>
         <h1 className="text-2xl">{name}</h1>
         {viewer ? null : (
-          <p className="text-sm text-stone-700">Shown in litres, °C and nitrate as NO3. Signed-in visitors see their own units.</p>
+          <p className="text-sm text-stone-700">
+            Shown in litres, °C and nitrate as NO3. Signed-in visitors see their own units.
+          </p>
         )}
       </header>
       <section aria-labelledby="copy-title" className="card space-y-3">
@@ -187,7 +208,11 @@ export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
     <section className="card mx-auto max-w-xl space-y-3" aria-labelledby="share-error-title">
       <p className="figure text-sm text-stone-500">Error {status}</p>
       <h1 id="share-error-title" className="text-2xl">
-        {status === 410 ? "This link was taken down" : status === 404 ? "This shared link does not work" : "Something went wrong"}
+        {status === 410
+          ? "This link was taken down"
+          : status === 404
+            ? "This shared link does not work"
+            : "Something went wrong"}
       </h1>
       <p>{message ?? "Try again in a moment."}</p>
       <p>

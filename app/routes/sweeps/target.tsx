@@ -7,6 +7,7 @@ import { jobActive, JobProgress, useJob } from "~/components/job-progress";
 import { FormMessage, SelectField, TextField } from "~/components/ui/field";
 import { FREE_NH3_CAUTION_MG_N } from "~/features/runs/display-figures";
 import { speciesFactor } from "~models/units";
+import { typedTarget } from "~/features/tanks/nitrate-targets";
 import { cancelJob, findScenarioJob, jobJson } from "~/features/jobs/jobs.server";
 import { requireUser } from "~/permissions.server";
 import { DRINKING_WATER_NITRATE_MG_N } from "~/features/runs/results.server";
@@ -44,7 +45,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     readable: settings !== null,
     labels: unitLabels(units),
     defaults: {
-      nitrateMax: formatNumber(tank.nitrateTargetHigh * no3),
+      nitrateMax: String(typedTarget(tank.nitrateTargetHigh, no3)),
       nh3Max: formatNumber(FREE_NH3_CAUTION_MG_N * speciesFactor("ammonia", units)),
       intervalDays: m && m.waterChangeIntervalDays > 0 ? String(m.waterChangeIntervalDays) : "7",
       fractionPercent: m && m.waterChangeFraction > 0 ? formatNumber(m.waterChangeFraction * 100) : "25",

@@ -7,6 +7,7 @@ import { getDb } from "~/db/client.server";
 import { scenarios, tanks } from "~/db/schema";
 import { displayKeyFigures } from "~/features/runs/display-figures";
 import { speciesFactor } from "~models/units";
+import { typedTarget } from "~/features/tanks/nitrate-targets";
 import { handedInCopyIn } from "~/features/classes/classes.server";
 import { requireUser } from "~/permissions.server";
 import { latestKeyFigures } from "~/features/runs/simulation.server";
@@ -37,8 +38,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
       id: tank.id,
       name: tank.name,
       notes: tank.notes,
-      nitrateLow: formatNumber(tank.nitrateTargetLow * no3, 4),
-      nitrateHigh: formatNumber(tank.nitrateTargetHigh * no3, 4),
+      nitrateLow: String(typedTarget(tank.nitrateTargetLow, no3)),
+      nitrateHigh: String(typedTarget(tank.nitrateTargetHigh, no3)),
     },
     labels: unitLabels(units),
     scenarios: list.map((s) => {

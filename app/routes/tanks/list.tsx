@@ -1,5 +1,6 @@
 import { asc, eq } from "drizzle-orm";
 import { Form, Link, redirect, useNavigation } from "react-router";
+import { DEFAULT_NITRATE_TARGETS } from "~/features/tanks/nitrate-targets";
 import type { Route } from "./+types/list";
 import { FormMessage, TextField } from "~/components/ui/field";
 import { getDb } from "~/db/client.server";
@@ -29,7 +30,12 @@ export async function loader({ request }: Route.LoaderArgs) {
     labels: unitLabels(units),
     tanks: list.map((t) => {
       const latest = figures.get(t.id);
-      return { ...t, latest: latest ? { scenarioName: latest.scenarioName, figures: displayKeyFigures(latest.keyFigures, units) } : null };
+      return {
+        ...t,
+        latest: latest
+          ? { scenarioName: latest.scenarioName, figures: displayKeyFigures(latest.keyFigures, units) }
+          : null,
+      };
     }),
   };
 }
@@ -44,7 +50,11 @@ export async function action({ request }: Route.ActionArgs) {
   try {
     const tank = getDb().transaction((tx) => {
       checkNewTank(tx, user.id);
-      return tx.insert(tanks).values({ ownerId: user.id, name: parsed.data.name, notes: parsed.data.notes }).returning({ id: tanks.id }).get();
+      return tx
+        .insert(tanks)
+        .values({ ownerId: user.id, name: parsed.data.name, notes: parsed.data.notes, ...DEFAULT_NITRATE_TARGETS })
+        .returning({ id: tanks.id })
+        .get();
     });
     return redirect(`/tanks/${tank.id}`);
   } catch (error) {
@@ -81,7 +91,8 @@ export default function TanksPage({ loaderData, actionData }: Route.ComponentPro
                   <div>
                     <dt className="text-xs text-stone-600">Peak free ammonia</dt>
                     <dd className="figure">
-                      {formatNumber(t.latest.figures.peakFreeNh3.value)} <span className="text-xs">{labels.ammonia}</span>
+                      {formatNumber(t.latest.figures.peakFreeNh3.value)}{" "}
+                      <span className="text-xs">{labels.ammonia}</span>
                     </dd>
                   </div>
                   <div>
@@ -103,7 +114,13 @@ export default function TanksPage({ loaderData, actionData }: Route.ComponentPro
         </h2>
         {actionData?.errors[""] ? <FormMessage>{actionData.errors[""]}</FormMessage> : null}
         <Form method="post" className="space-y-3" noValidate>
-          <TextField label="Name" name="name" defaultValue={actionData?.values.name} error={actionData?.errors.name} required />
+          <TextField
+            label="Name"
+            name="name"
+            defaultValue={actionData?.values.name}
+            error={actionData?.errors.name}
+            required
+          />
           <TextField
             label="Notes"
             name="notes"

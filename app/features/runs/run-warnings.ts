@@ -1,0 +1,138 @@
+/**
+ * The run's specific warnings in plain words and the viewer's units: what crosses a caution,
+ * when, and by how much. Built on the server from the stored run (key figures and the engine's
+ * own warnings) and shown on the results, share and presentation pages. Client-safe.
+ */
+import type { KeyFigures, ModelWarning } from "~models";
+import { speciesFactor } from "~models/units";
+import { FREE_NH3_CAUTION_MG_N, NITRITE_CAUTION_MG_N } from "~/features/runs/display-figures";
+import { formatNumber, unitLabels, type DisplayUnits } from "~/utils/display-units";
+
+/** Which key-figure card a warning belongs to (the card is flagged). */
+type WarnedFigure = "peakFreeNh3" | "peakNitrite" | null;
+
+export type ResultWarning = {
+  code: string;
+  severity: "caution" | "implausible";
+  figure: WarnedFigure;
+  text: string;
+};
+
+/** KH below which a blend of tap and RO water buffers too little (common practice, no source). */
+const SAFE_BLEND_KH_DKH = 2;
+
+const SMALL = [
+  "",
+  "",
+  "twice",
+  "three",
+  "four",
+  "five",
+  "six",
+  "seven",
+  "eight",
+  "nine",
+  "ten",
+  "eleven",
+  "twelve",
+  "thirteen",
+  "fourteen",
+  "fifteen",
+  "sixteen",
+  "seventeen",
+  "eighteen",
+  "nineteen",
+  "twenty",
+];
+
+/** "twice the caution line", "twenty times …", "35 times …", "40 % above …". */
+export function howFarAbove(ratio: number): string {
+  if (ratio < 1.95) return `${Math.max(1, Math.round((ratio - 1) * 100))} % above`;
+  const n = Math.round(ratio);
+  if (n === 2) return "twice";
+  return n <= 20 ? `${SMALL[n]} times` : `${n} times`;
+}
+
+const day = (d: number) => `day ${formatNumber(d, 3)}`;
+
+type Input = {
+  keyFigures: KeyFigures;
+  warnings: readonly ModelWarning[];
+  tapWater: { khDkh: number; roShare?: number };
+};
+
+/** The warnings of a run, most harmful first; an empty list when nothing crosses a caution. */
+export function resultWarnings({ keyFigures: k, warnings, tapWater }: Input, units: DisplayUnits): ResultWarning[] {
+  const labels = unitLabels(units);
+  const nh3 = speciesFactor("ammonia", units);
+  const no2 = speciesFactor("nitrite", units);
+  const out: ResultWarning[] = [];
+
+  if (k.peakFreeNh3.value > FREE_NH3_CAUTION_MG_N) {
+    const ratio = k.peakFreeNh3.value / FREE_NH3_CAUTION_MG_N;
+    out.push({
+      code: "freeAmmoniaAboveCaution",
+      severity: "caution",
+      figure: "peakFreeNh3",
+      text: `Free ammonia reaches ${formatNumber(k.peakFreeNh3.value * nh3)} ${labels.ammonia} on ${day(k.peakFreeNh3.day)}, ${howFarAbove(ratio)} the caution line (${formatNumber(FREE_NH3_CAUTION_MG_N * nh3)} ${labels.ammonia}).`,
+    });
+  }
+  if (k.peakNitrite.value > NITRITE_CAUTION_MG_N) {
+    const ratio = k.peakNitrite.value / NITRITE_CAUTION_MG_N;
+    out.push({
+      code: "nitriteAboveCaution",
+      severity: "caution",
+      figure: "peakNitrite",
+      text: `Nitrite reaches ${formatNumber(k.peakNitrite.value * no2)} ${labels.nitrite} on ${day(k.peakNitrite.day)}, ${howFarAbove(ratio)} the caution line (${formatNumber(NITRITE_CAUTION_MG_N * no2)} ${labels.nitrite}).`,
+    });
+  }
+  for (const w of warnings) {
+    switch (w.code) {
+      case "ammoniaAboveAcuteCriterion":
+        out.push({
+          code: w.code,
+          severity: w.severity,
+          figure: "peakFreeNh3",
+          text: `Total ammonia reaches ${formatNumber(w.value * nh3)} ${labels.ammonia}${w.day === null ? "" : ` on ${day(w.day)}`}, ${howFarAbove(w.value / w.limit)} the short-term criterion at this pH and temperature (${formatNumber(w.limit * nh3)} ${labels.ammonia}, US EPA 2013): deadly to many fish within hours.`,
+        });
+        break;
+      case "ammoniaAboveChronicCriterion":
+        out.push({
+          code: w.code,
+          severity: w.severity,
+          figure: "peakFreeNh3",
+          text: `Total ammonia stays high: it averages ${formatNumber(w.value * nh3)} ${labels.ammonia} up to ${w.day === null ? "the end" : day(w.day)}, ${howFarAbove(w.value / w.limit)} the long-term limit at this pH and temperature (${formatNumber(w.limit * nh3)} ${labels.ammonia}, US EPA 2013).`,
+        });
+        break;
+      case "khExhausted":
+        out.push({
+          code: w.code,
+          severity: w.severity,
+          figure: null,
+          text: `KH runs out${w.day === null ? "" : ` on ${day(w.day)}`} (down to ${formatNumber(w.value)} dKH): the filter bacteria stall and pH can crash. Change water or add buffer.`,
+        });
+        break;
+      case "lowOxygen":
+        out.push({
+          code: w.code,
+          severity: w.severity,
+          figure: null,
+          text: `Dissolved oxygen falls to ${formatNumber(w.value)} mg/L${w.day === null ? "" : ` on ${day(w.day)}`}, below the ${formatNumber(w.limit)} mg/L fish need: more surface movement or less food.`,
+        });
+        break;
+      default:
+        out.push({ code: w.code, severity: w.severity, figure: null, text: w.message });
+    }
+  }
+  const roShare = tapWater.roShare ?? 0;
+  const blendKh = tapWater.khDkh * (1 - roShare);
+  if (roShare > 0 && blendKh < SAFE_BLEND_KH_DKH) {
+    out.push({
+      code: "blendBelowSafeKh",
+      severity: "caution",
+      figure: null,
+      text: `The change water, ${formatNumber(roShare * 100)} % RO water, has a KH of only ${formatNumber(blendKh)} dKH, below the ${SAFE_BLEND_KH_DKH} dKH that keeps pH steady: use less RO water or add buffer.`,
+    });
+  }
+  return out;
+}

@@ -1,0 +1,89 @@
+/**
+ * What the results screens show (issue 12): the engine's warnings in plain words where fish
+ * could be harmed, the oxygen panel, and screenshots of results, compare, presentation and a
+ * phone for a person to look at.
+ */
+import { describe, expect, it } from "vitest";
+import { DEMO, expectNoConsoleErrors, newPage, shot, signIn, useBrowser } from "./support/browser";
+
+useBrowser();
+
+describe("specific warnings where fish can be harmed", () => {
+  it("a new tank at pH 8 and 28 °C names free ammonia's peak, its day and how far above the caution line", async () => {
+    const page = await newPage();
+    await signIn(page, DEMO.teacher, DEMO.password);
+    await page.getByRole("link", { name: "Classroom demo tank" }).click();
+    await page.getByRole("link", { name: "The same at pH 8 and 28 °C" }).first().click();
+    await page.getByRole("application").waitFor();
+    const warning = page.locator('[data-warning="freeAmmoniaAboveCaution"]');
+    // The free-ammonia caution line, 0.02 mg/L NH3 (common practice, no source).
+    await expect
+      .poll(() => warning.textContent())
+      .toMatch(/^Free ammonia reaches [\d.]+ mg\/L NH3 on day [\d.]+, .+ the caution line \(0\.02 mg\/L NH3\)\.$/);
+    await page.getByText("Test the water now and on the days named").waitFor();
+    // The card of the figure crossing the caution is flagged.
+    expect(await page.locator("[data-flagged]").first().textContent()).toContain("Peak free ammonia");
+    await page.getByRole("heading", { name: "Dissolved oxygen" }).waitFor();
+    await shot(page, "results-warnings");
+    expectNoConsoleErrors(page);
+  });
+
+  it("the presentation shows the same warnings, large, at 1920×1080", async () => {
+    const page = await newPage({ width: 1920 });
+    await page.setViewportSize({ width: 1920, height: 1080 });
+    await signIn(page, DEMO.teacher, DEMO.password);
+    await page.goto("/classes");
+    await page.getByRole("link", { name: "Year 9 Biology: the nitrogen cycle" }).first().click();
+    await page.getByRole("link", { name: "How a new tank cycles" }).first().click();
+    await page.getByRole("link", { name: "Present to the class" }).click();
+    await page.getByRole("application").waitFor();
+    await page.locator("[data-run-warnings]").waitFor();
+    await page.screenshot({ path: "test-results/screenshots/presentation-1920.png" });
+    expectNoConsoleErrors(page);
+  });
+});
+
+describe("anonymous visitors see the product", () => {
+  it("the home page links to a live example, the demo club's shared scenario", async () => {
+    const page = await newPage();
+    await page.goto("/");
+    await page.getByRole("link", { name: "See a live example, no account needed" }).click();
+    await page.waitForURL(/\/s\//);
+    await page.getByRole("heading", { name: "As kept now", level: 1 }).waitFor();
+    await page.getByRole("application").waitFor();
+    expectNoConsoleErrors(page);
+  });
+});
+
+describe("results screens for a person to look at", () => {
+  it("a keeper's results, compare and a phone at 390 px", async () => {
+    const page = await newPage();
+    await signIn(page, DEMO.jonah, DEMO.password);
+    await page.getByRole("link", { name: "Living-room 120" }).click();
+    await page.waitForURL(/\/tanks\/\d+$/);
+    const tankUrl = page.url();
+    await page.getByRole("link", { name: "Baseline", exact: true }).first().click();
+    await page.getByRole("application").waitFor();
+    await page.getByRole("heading", { name: "Dissolved oxygen" }).waitFor();
+    await shot(page, "results");
+
+    await page.goto(tankUrl);
+    await page.getByLabel("Compare Baseline", { exact: true }).check();
+    await page.getByLabel("Compare With floating plants").check();
+    await page.getByRole("button", { name: /Compare the ticked scenarios/ }).click();
+    await page.waitForURL(/\/compare\?/);
+    await page.getByRole("application").first().waitFor();
+    await shot(page, "compare");
+    expectNoConsoleErrors(page);
+
+    const phone = await newPage({ width: 390 });
+    await signIn(phone, DEMO.jonah, DEMO.password);
+    await phone.getByRole("link", { name: "Living-room 120" }).click();
+    await phone.getByRole("link", { name: "Baseline", exact: true }).first().click();
+    await phone.getByRole("application").waitFor();
+    const overflow = await phone.evaluate(() => document.documentElement.scrollWidth > window.innerWidth + 1);
+    expect(overflow).toBe(false);
+    await shot(phone, "results-phone-390");
+    expectNoConsoleErrors(phone);
+  });
+});

@@ -1,0 +1,80 @@
+import { describe, expect, it } from "vitest";
+import type { KeyFigures } from "../../models";
+import { howFarAbove, resultWarnings } from "~/features/runs/run-warnings";
+import { DEFAULT_PREFERENCES, displayUnitsFor } from "~/utils/display-units";
+
+const units = displayUnitsFor(DEFAULT_PREFERENCES);
+// NH3 → N ×0.82244 and NO2⁻ → N ×0.30447, computed from atomic weights (docs/sources.md §0).
+const NH3_N = 0.82244;
+const NO2_N = 0.30447;
+
+function figures(over: Partial<KeyFigures> = {}): KeyFigures {
+  const zero = { value: 0, day: 0 };
+  return {
+    peakFreeNh3: zero,
+    peakTan: zero,
+    peakNitrite: zero,
+    nitrateEnd: 2,
+    peakNitrate: zero,
+    nitrateBeforeLastWaterChange: null,
+    daysAboveNitrateTarget: 0,
+    daysBelowNitrateTarget: 0,
+    cycleSeen: false,
+    cyclingFinishedDay: null,
+    plantsTrimmedG: 0,
+    lowestOxygen: { value: 8, day: 0 },
+    lowestKh: { value: 5, day: 0 },
+    ...over,
+  };
+}
+
+describe("the run's warnings in plain words", () => {
+  it("names free ammonia's peak, its day and how far above the caution line (0.02 mg/L NH3, common practice, no source)", () => {
+    const [w] = resultWarnings(
+      { keyFigures: figures({ peakFreeNh3: { value: 0.4 * NH3_N, day: 12 } }), warnings: [], tapWater: { khDkh: 6 } },
+      units,
+    );
+    expect(w.text).toBe("Free ammonia reaches 0.4 mg/L NH3 on day 12, twenty times the caution line (0.02 mg/L NH3).");
+    expect(w.figure).toBe("peakFreeNh3");
+  });
+
+  it("names nitrite above its caution line (0.1 mg/L NO2-N, common practice, no source)", () => {
+    const list = resultWarnings(
+      { keyFigures: figures({ peakNitrite: { value: 0.5, day: 20 } }), warnings: [], tapWater: { khDkh: 6 } },
+      units,
+    );
+    expect(list.map((w) => w.code)).toEqual(["nitriteAboveCaution"]);
+    expect(list[0].text).toContain(`${Number((0.5 / NO2_N).toPrecision(3))} mg/L NO2 on day 20, five times`);
+  });
+
+  it("says nothing for a run below every caution", () => {
+    expect(resultWarnings({ keyFigures: figures(), warnings: [], tapWater: { khDkh: 6 } }, units)).toEqual([]);
+  });
+
+  it("warns of KH running out and of change water blended below a safe KH (2 dKH, common practice, no source)", () => {
+    const list = resultWarnings(
+      {
+        keyFigures: figures(),
+        warnings: [
+          { code: "khExhausted", severity: "caution", message: "", value: 0.2, unit: "dKH", limit: 0.5, day: 40 },
+        ],
+        tapWater: { khDkh: 3, roShare: 0.5 },
+      },
+      units,
+    );
+    expect(list.map((w) => w.code)).toEqual(["khExhausted", "blendBelowSafeKh"]);
+    expect(list[0].text).toMatch(/^KH runs out on day 40 \(down to 0\.2 dKH\)/);
+    expect(list[1].text).toContain("1.5 dKH");
+    // 3 dKH with 25 % RO water is 2.25 dKH: no warning.
+    expect(
+      resultWarnings({ keyFigures: figures(), warnings: [], tapWater: { khDkh: 3, roShare: 0.25 } }, units),
+    ).toEqual([]);
+  });
+
+  it("puts the ratio in words", () => {
+    expect(howFarAbove(1.4)).toBe("40 % above");
+    expect(howFarAbove(2)).toBe("twice");
+    expect(howFarAbove(20.2)).toBe("twenty times");
+    expect(howFarAbove(35)).toBe("35 times");
+  });
+});
