@@ -21,25 +21,15 @@ export {
   setScenarioValue,
   settingField,
 } from "./nitrogen/scenario";
-export type {
-  Scenario,
-  ScenarioInput,
-  Quantity,
-  ScenarioField,
-  Setting,
-  SettingChange,
-} from "./nitrogen/scenario";
+export type { Scenario, ScenarioInput, Quantity, ScenarioField, Setting, SettingChange } from "./nitrogen/scenario";
 
 export { simulate, ENGINE_VERSION } from "./nitrogen/simulate";
-export type {
-  SimulateOptions,
-  SimulationResult,
-  SimulationStats,
-  Series,
-  KeyFigures,
-} from "./nitrogen/simulate";
+export type { SimulateOptions, SimulationResult, SimulationStats, Series, KeyFigures } from "./nitrogen/simulate";
 
 export type { NitrogenBudget } from "./nitrogen/budget";
+
+export type { TankEventInput } from "./nitrogen/tank-events";
+export { plannedEvents } from "./nitrogen/planned-events";
 
 export { ammoniaCriteria } from "./nitrogen/criteria";
 

@@ -5,6 +5,7 @@ import type { EventRecord } from "../core/events";
 import type { NitrogenBudget } from "./budget";
 import type { AmmoniaCriteria } from "./criteria";
 import type { ZoneCapacity } from "./low-oxygen-zones";
+import type { TankEventInput } from "./tank-events";
 
 /** Version of the engine's numbers: bump when a change alters results for the same scenario. */
 /** What the warnings of a run (warnings.ts) say. */
@@ -44,6 +45,11 @@ export interface SimulateOptions {
    * clamp), for checks on what the solver produced rather than what the chart shows.
    */
   rawSeries?: boolean;
+  /**
+   * An explicit event schedule ("these events on these days"): replaces the scenario's periodic
+   * water changes, filter cleanings, timed trims and doses (a tank replayed as it happened).
+   */
+  events?: readonly TankEventInput[];
 }
 
 /**

@@ -3,7 +3,7 @@
  * results page, the public share page and the classroom views, so they all show the same.
  */
 import type { NitrogenBudget, Scenario } from "~models";
-import type { ChartEvent } from "~/utils/chart-data";
+import { chartEventKind, type ChartEvent } from "~/utils/chart-data";
 import { displayGuides, displayKeyFigures, displaySeries } from "~/features/runs/display-figures";
 import { speciesFactor } from "~models/units";
 import type { StoredRun } from "~/features/runs/simulation.server";
@@ -37,7 +37,7 @@ function buildPayload(run: StoredRun, scenario: Scenario, units: DisplayUnits): 
     runId: run.id,
     labels,
     series: displaySeries(run.series, units),
-    events: run.events.map((e): ChartEvent => ({ day: e.day, kind: e.kind, detail: e.detail })),
+    events: run.events.map((e): ChartEvent => ({ day: e.day, kind: chartEventKind(e.kind), detail: e.detail })),
     guides: displayGuides(scenario.targets, units),
     keyFigures: displayKeyFigures(run.keyFigures, units),
     budget: run.budget as NitrogenBudget,
