@@ -29,7 +29,7 @@ export type { SimulateOptions, SimulationResult, SimulationStats, Series, KeyFig
 export type { NitrogenBudget } from "./nitrogen/budget";
 
 export type { TankEventInput } from "./nitrogen/tank-events";
-export { plannedEvents } from "./nitrogen/planned-events";
+export { plannedEvents, scenarioBacteriaShare } from "./nitrogen/planned-events";
 
 export { ammoniaCriteria } from "./nitrogen/criteria";
 

@@ -1,0 +1,124 @@
+/**
+ * The journal page's server side: the entries for the table, the "as it happened" curve of the
+ * chosen scenario with the readings over it, and the page's three actions (add, delete, upload).
+ */
+import { data } from "react-router";
+import { NO3_PER_N } from "~/features/journal/journal-chart";
+import { describeEntry, ENTRY_KINDS } from "~/features/journal/journal-entries";
+import { parseJournalCsv, MAX_JOURNAL_CSV_BYTES } from "~/features/journal/journal-csv.server";
+import { replayJournal } from "~/features/journal/journal-replay.server";
+import { addEntries, deleteEntry, JournalFull, listJournal, readEntry } from "~/features/journal/journal.server";
+import { allReadings } from "~/features/readings/readings.server";
+import { readStoredSettings } from "~/features/runs/simulation.server";
+import { listScenarios, type TankRow } from "~/features/tanks/tanks.server";
+import { readUpload, UploadError } from "~/http/uploads.server";
+import { runProblem } from "~/http/pages.server";
+import { DAY_MS, formatDateTime } from "~/utils/dates";
+import type { CsvProblem } from "~/csv-read.server";
+
+export function journalPageData(tank: TankRow, scenarioParam: string | null, now = Date.now()) {
+  const entries = listJournal(tank.id);
+  const scenarios = listScenarios(tank.id);
+  const chosen = scenarios.find((s) => String(s.id) === scenarioParam) ?? scenarios[0] ?? null;
+  let replay = null;
+  let problem: string | null = null;
+  const settings = chosen ? readStoredSettings(chosen.settings) : null;
+  if (settings) {
+    try {
+      const r = replayJournal(settings, entries, now);
+      if (r) {
+        const readings = allReadings(tank.id)
+          .filter((x) => x.nitrate !== null && x.takenAt.getTime() >= r.startMs)
+          .map((x) => ({ day: (x.takenAt.getTime() - r.startMs) / DAY_MS, no3: x.nitrate! * NO3_PER_N }));
+        replay = {
+          startMs: r.startMs,
+          lengthDays: r.lengthDays,
+          t: r.result.series.t,
+          no3: r.result.series.no3.map((v) => v * NO3_PER_N),
+          high: settings.targets.nitrateHigh * NO3_PER_N,
+          readings,
+          unused: r.unused,
+        };
+      }
+    } catch (error) {
+      problem = runProblem(error);
+      if (!problem) throw error;
+    }
+  }
+  return {
+    tank: { id: tank.id, name: tank.name },
+    scenarios: scenarios.map((s) => ({ id: s.id, name: s.name })),
+    scenarioId: chosen?.id ?? null,
+    entries: entries
+      .slice()
+      .reverse()
+      .map((e) => ({
+        id: e.id,
+        when: formatDateTime(e.doneAt),
+        kind: ENTRY_KINDS[e.kind],
+        what: describeEntry(e.kind, e.details),
+        note: e.note,
+      })),
+    replay,
+    problem,
+  };
+}
+
+export type JournalAnswer = {
+  intent: string;
+  errors?: Record<string, string>;
+  values?: Record<string, string>;
+  message?: string;
+  problems?: CsvProblem[];
+  more?: number;
+  stored?: number;
+};
+
+const refuse = (a: JournalAnswer, status = 400) => data(a, { status });
+
+export async function journalAction(request: Request, tank: TankRow) {
+  const type = request.headers.get("content-type") ?? "";
+  if (type.startsWith("multipart/form-data")) {
+    let upload;
+    try {
+      upload = await readUpload(request, MAX_JOURNAL_CSV_BYTES);
+    } catch (error) {
+      if (error instanceof UploadError) return refuse({ intent: "upload", message: error.message });
+      throw error;
+    }
+    if (!upload.file || upload.file.text.trim() === "")
+      return refuse({ intent: "upload", message: "Choose a CSV file to upload." });
+    const parsed = parseJournalCsv(upload.file.text);
+    if (!parsed.ok)
+      return refuse({ intent: "upload", message: parsed.message, problems: parsed.problems, more: parsed.more });
+    try {
+      addEntries(tank.id, parsed.entries);
+    } catch (error) {
+      if (error instanceof JournalFull) return refuse({ intent: "upload", message: error.message }, 413);
+      throw error;
+    }
+    return { intent: "upload", stored: parsed.entries.length } satisfies JournalAnswer;
+  }
+  const form = await request.formData();
+  const intent = String(form.get("intent") ?? "");
+  if (intent === "delete") {
+    const id = Number(form.get("entryId"));
+    if (!Number.isInteger(id) || !deleteEntry(tank.id, id))
+      return refuse({ intent, message: "That entry is not in this journal." }, 404);
+    return { intent, message: "Entry deleted." } satisfies JournalAnswer;
+  }
+  if (intent !== "add") return refuse({ intent, message: "Unknown action." });
+  const values = Object.fromEntries([...form.entries()].filter(([, v]) => typeof v === "string")) as Record<
+    string,
+    string
+  >;
+  const read = readEntry(values);
+  if (!read.ok) return refuse({ intent, errors: read.errors, values });
+  try {
+    addEntries(tank.id, [read.entry]);
+  } catch (error) {
+    if (error instanceof JournalFull) return refuse({ intent, message: error.message, values }, 413);
+    throw error;
+  }
+  return { intent, message: `${ENTRY_KINDS[read.entry.kind]} added to the journal.` } satisfies JournalAnswer;
+}
