@@ -144,19 +144,21 @@ export function readEntryFields(
   fields: Partial<Record<EntryField | "kind", string>>,
 ): { ok: true; kind: EntryKind; details: EntryDetails } | { ok: false; errors: FieldErrors } {
   const raw = Object.fromEntries(["kind", ...ENTRY_FIELDS].map((k) => [k, fields[k as EntryField] ?? ""]));
+  const errors: FieldErrors = {};
+  const kindId = raw.kind.trim() as EntryKind;
+  if (Object.hasOwn(KIND_FIELDS, kindId)) {
+    const uses = new Set(KIND_FIELDS[kindId]);
+    for (const k of ENTRY_FIELDS) {
+      if (!uses.has(k) && raw[k].trim() !== "")
+        errors[k] = `${ENTRY_KINDS[kindId]} does not use this field: leave it empty`;
+    }
+  }
   const parsed = FlatSchema.safeParse(raw);
   if (!parsed.success) {
-    const errors: FieldErrors = {};
     for (const i of parsed.error.issues) errors[i.path[0] as EntryField] ??= i.message;
     return { ok: false, errors };
   }
   const f = parsed.data;
-  const errors: FieldErrors = {};
-  const uses = new Set(KIND_FIELDS[f.kind]);
-  for (const k of ENTRY_FIELDS) {
-    if (!uses.has(k) && raw[k].trim() !== "")
-      errors[k] = `${ENTRY_KINDS[f.kind]} does not use this field: leave it empty`;
-  }
   const need = (k: EntryField, ok: boolean) => {
     if (!ok && !errors[k])
       errors[k] = `${FIELD_LABELS[k].replace(/^or /, "")} is needed for ${ENTRY_KINDS[f.kind].toLowerCase()}`;
