@@ -217,3 +217,33 @@ describe("the journal", () => {
     expect(getDb().select().from(readings).all().length).toBeGreaterThanOrEqual(0);
   });
 });
+
+describe("the forecast", () => {
+  it("says when nitrate crosses the upper target and which change keeps it under", async () => {
+    const keeper = await userWithCookie();
+    const tankId = createTank(keeper.id);
+    // Heavy feeding, no planned water changes: nitrate must climb past the target (our own worked example)
+    await createScenario(keeper.id, tankId, {
+      water: { volumeL: 100, startNitrate: 3 },
+      fish: { feedGPerDay: 0.4 },
+      plants: [],
+      maintenance: { waterChangeIntervalDays: 0 },
+      tapWater: { nitrate: 0, roShare: 0 },
+    });
+    const id = String(tankId);
+    await call(
+      pageAction,
+      post(
+        `/tanks/${id}/journal`,
+        { intent: "add", date: day(5), kind: "water_change", water_changed_percent: "50" },
+        keeper.cookie,
+      ),
+      { tankId: id },
+    );
+    const page = await call(pageLoader, get(`/tanks/${id}/journal`, keeper.cookie), { tankId: id });
+    // The tank's default upper target, 4.52 mg N/L, is 20 mg/L NO3 (docs/sources.md §0: ×4.4268)
+    expect(page.data.forecast).toMatch(
+      /^Nitrate reaches 20 mg\/L NO3 around \d+ \w+; a \d+ % change by \d+ \w+ keeps it below/,
+    );
+  });
+});

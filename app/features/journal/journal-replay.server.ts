@@ -5,7 +5,14 @@
  * notes) are shown on the page but change nothing; a plant group the scenario does not have is
  * reported, not guessed.
  */
-import { scenarioBacteriaShare, simulate, type Scenario, type SimulationResult, type TankEventInput } from "~models";
+import {
+  plannedEvents,
+  scenarioBacteriaShare,
+  simulate,
+  type Scenario,
+  type SimulationResult,
+  type TankEventInput,
+} from "~models";
 import type { JournalEntry } from "~/features/journal/journal.server";
 import { REQUEST_RUN_LIMITS } from "~/features/runs/simulation.server";
 import { DAY_MS, startOfDay } from "~/utils/dates";
@@ -101,4 +108,53 @@ export function replayJournal(s: Scenario, entries: readonly JournalEntry[], now
   // A journal of weeks runs in milliseconds: on the request thread, with the request bounds.
   const result = simulate(scenario, { ...REQUEST_RUN_LIMITS, events });
   return { startMs, lengthDays, result, unused };
+}
+
+export type Forecast =
+  | { kind: "below"; horizonDays: number }
+  | { kind: "crosses"; crossMs: number; high: number; fix: { share: number; byMs: number } | null };
+
+const FORECAST_DAYS = 60;
+
+/**
+ * From today forward under the planned schedule (the scenario's timetable, resumed from the last
+ * logged water change): when nitrate crosses the upper target, and the smallest extra water
+ * change two days before that keeps it under until the next planned change (or for a week).
+ */
+export function forecastJournal(s: Scenario, entries: readonly JournalEntry[], now = Date.now()): Forecast | null {
+  if (entries.length === 0) return null;
+  const startMs = startOfDay(Math.max(entries[0].doneAt, now - MAX_DAYS * DAY_MS));
+  const today = Math.max(1, Math.ceil((now - startMs) / DAY_MS));
+  const total = Math.min(MAX_DAYS, today + FORECAST_DAYS);
+  const { events } = journalEvents(
+    s,
+    entries.filter((e) => e.doneAt >= startMs && e.doneAt <= now),
+    startMs,
+  );
+  const lastChange = Math.max(-Infinity, ...events.filter((e) => e.kind === "waterChange").map((e) => e.day));
+  const resumeFrom = Number.isFinite(lastChange) ? lastChange : today;
+  const planned = plannedEvents(s, total, resumeFrom).filter((e) => e.day >= today);
+  const scenario: Scenario = { ...s, run: { ...s.run, lengthDays: total, outputIntervalDays: 0.25 } };
+  const run = (extra: TankEventInput[]) =>
+    simulate(scenario, { ...REQUEST_RUN_LIMITS, events: [...events, ...planned, ...extra] });
+  const high = s.targets.nitrateHigh;
+  const firstAbove = (r: SimulationResult, from: number, to: number) =>
+    r.series.t.findIndex((t, k) => t >= from && t <= to && r.series.no3[k] > high);
+  const base = run([]);
+  const k = firstAbove(base, today, total);
+  if (k < 0) return { kind: "below", horizonDays: total - today };
+  const crossDay = base.series.t[k];
+  const fixDay = Math.max(today, Math.floor(crossDay) - 2);
+  // Until the next planned change, or a week when none is planned (model choice, no source).
+  const nextPlanned =
+    planned.find((e) => e.kind === "waterChange" && e.day > fixDay)?.day ?? Math.min(total, fixDay + 7);
+  let fix = null;
+  for (let share = 0.1; share <= 0.9 + 1e-9; share += 0.1) {
+    const r = run([{ kind: "waterChange", day: fixDay, fraction: share }]);
+    if (firstAbove(r, fixDay, nextPlanned) < 0) {
+      fix = { share: Math.round(share * 100) / 100, byMs: startMs + fixDay * DAY_MS };
+      break;
+    }
+  }
+  return { kind: "crosses", crossMs: startMs + crossDay * DAY_MS, high, fix };
 }

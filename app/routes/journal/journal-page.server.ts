@@ -6,7 +6,7 @@ import { data } from "react-router";
 import { NO3_PER_N } from "~/features/journal/journal-chart";
 import { describeEntry, ENTRY_KINDS } from "~/features/journal/journal-entries";
 import { parseJournalCsv, MAX_JOURNAL_CSV_BYTES } from "~/features/journal/journal-csv.server";
-import { replayJournal } from "~/features/journal/journal-replay.server";
+import { forecastJournal, replayJournal, type Forecast } from "~/features/journal/journal-replay.server";
 import { addEntries, deleteEntry, JournalFull, listJournal, readEntry } from "~/features/journal/journal.server";
 import { allReadings } from "~/features/readings/readings.server";
 import { readStoredSettings } from "~/features/runs/simulation.server";
@@ -21,6 +21,7 @@ export function journalPageData(tank: TankRow, scenarioParam: string | null, now
   const scenarios = listScenarios(tank.id);
   const chosen = scenarios.find((s) => String(s.id) === scenarioParam) ?? scenarios[0] ?? null;
   let replay = null;
+  let forecast: string | null = null;
   let problem: string | null = null;
   const settings = chosen ? readStoredSettings(chosen.settings) : null;
   if (settings) {
@@ -39,6 +40,7 @@ export function journalPageData(tank: TankRow, scenarioParam: string | null, now
           readings,
           unused: r.unused,
         };
+        forecast = forecastSentence(forecastJournal(settings, entries, now));
       }
     } catch (error) {
       problem = runProblem(error);
@@ -60,8 +62,24 @@ export function journalPageData(tank: TankRow, scenarioParam: string | null, now
         note: e.note,
       })),
     replay,
+    forecast,
     problem,
   };
+}
+
+const dayText = (ms: number) =>
+  new Date(ms).toLocaleDateString("en-GB", { day: "numeric", month: "long", timeZone: "UTC" });
+const no3Text = (mgN: number) => `${Math.round(mgN * NO3_PER_N)} mg/L NO3`;
+
+/** "Nitrate reaches 40 mg/L NO3 around 14 December; a 40 % change by 12 December keeps it below 40 mg/L NO3." */
+function forecastSentence(f: Forecast | null): string | null {
+  if (!f) return null;
+  if (f.kind === "below")
+    return `Under your planned schedule nitrate stays below your upper target for the next ${f.horizonDays} days.`;
+  const cross = `Nitrate reaches ${no3Text(f.high)} around ${dayText(f.crossMs)}`;
+  if (!f.fix)
+    return `${cross}; even a 90 % change two days before does not keep it below: look at feeding and the plan.`;
+  return `${cross}; a ${Math.round(f.fix.share * 100)} % change by ${dayText(f.fix.byMs)} keeps it below ${no3Text(f.high)} until the next planned change (or for a week).`;
 }
 
 export type JournalAnswer = {

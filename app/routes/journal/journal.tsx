@@ -129,7 +129,7 @@ function EntryForm({ answer }: { answer: JournalAnswer | undefined }) {
 }
 
 export default function JournalPage({ loaderData, actionData }: Route.ComponentProps) {
-  const { tank, scenarios, scenarioId, entries, replay, problem } = loaderData;
+  const { tank, scenarios, scenarioId, entries, replay, forecast, problem } = loaderData;
   const answer = actionData as JournalAnswer | undefined;
   return (
     <main className="mx-auto max-w-4xl space-y-8 p-4">
@@ -184,6 +184,16 @@ export default function JournalPage({ loaderData, actionData }: Route.ComponentP
               : "Add a scenario describing this tank first."}
           </p>
         )}
+        {forecast ? (
+          <div className="rounded border border-stone-300 p-3" data-testid="forecast">
+            <h3 className="font-semibold">Forecast</h3>
+            <p>{forecast}</p>
+            <p className="text-sm text-stone-600">
+              A forecast is a model, not a water test: test your water before and after acting on it, and ask an
+              experienced keeper or a vet if fish show stress.
+            </p>
+          </div>
+        ) : null}
         {replay?.unused.map((u) => (
           <p key={u} className="text-sm text-amber-800">
             {u}
