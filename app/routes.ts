@@ -41,6 +41,8 @@ export default [
 
   // The public page of a share link (anyone with the token).
   route("s/:token", "routes/share/public.tsx"),
+  // A tank's maintenance calendar at its secret address (anyone with the token).
+  route("calendar/:token", "routes/calendar/feed.ts"),
 
   // Classes, invitations, lessons, students' copies and the classroom presentation.
   ...prefix("classes", [

@@ -207,6 +207,24 @@ export const journalEntries = sqliteTable(
   (t) => [index("journal_entries_tank_time_idx").on(t.tankId, t.doneAt)],
 );
 
+/** A tank's calendar feed address (/calendar/:token.ics), stored hashed like share links; revocable. */
+export const calendarFeeds = sqliteTable(
+  "calendar_feeds",
+  {
+    id: integer("id").primaryKey({ autoIncrement: true }),
+    tankId: integer("tank_id")
+      .notNull()
+      .references(() => tanks.id, { onDelete: "cascade" }),
+    scenarioId: integer("scenario_id")
+      .notNull()
+      .references(() => scenarios.id, { onDelete: "cascade" }),
+    tokenHash: text("token_hash").notNull().unique(),
+    createdAt: createdAt(),
+    revokedAt: integer("revoked_at", { mode: "timestamp_ms" }),
+  },
+  (t) => [index("calendar_feeds_tank_idx").on(t.tankId)],
+);
+
 export const shareLinks = sqliteTable(
   "share_links",
   {

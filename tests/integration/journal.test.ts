@@ -4,6 +4,8 @@ import { getDb } from "~/db/client.server";
 import { journalEntries, readings } from "~/db/schema";
 import { action as entryApi, loader as entryApiLoader } from "~/routes/api/tank-journal-entry";
 import { action as journalApiPost, loader as journalApi } from "~/routes/api/tank-journal";
+import ICAL from "ical.js";
+import { loader as feedLoader } from "~/routes/calendar/feed";
 import { loader as exportLoader } from "~/routes/journal/export";
 import { action as pageAction, loader as pageLoader } from "~/routes/journal/journal";
 import { call, get, ORIGIN, post, postJson } from "../support/routes";
@@ -245,5 +247,49 @@ describe("the forecast", () => {
     expect(page.data.forecast).toMatch(
       /^Nitrate reaches 20 mg\/L NO3 around \d+ \w+; a \d+ % change by \d+ \w+ keeps it below/,
     );
+  });
+});
+
+describe("the calendar feed", () => {
+  it("parses back as a valid RFC 5545 calendar with one event per planned task in the next 90 days; revoked answers 404", async () => {
+    const keeper = await userWithCookie();
+    const tankId = createTank(keeper.id);
+    await createScenario(keeper.id, tankId, {
+      maintenance: { waterChangeIntervalDays: 7, waterChangeFraction: 0.3 },
+      filter: { cleaningIntervalDays: 30 },
+    });
+    const id = String(tankId);
+    await call(
+      pageAction,
+      post(
+        `/tanks/${id}/journal`,
+        { intent: "add", date: day(2), kind: "water_change", water_changed_percent: "30" },
+        keeper.cookie,
+      ),
+      { tankId: id },
+    );
+    const page = await call(pageLoader, get(`/tanks/${id}/journal`, keeper.cookie), { tankId: id });
+    const on = await call(
+      pageAction,
+      post(`/tanks/${id}/journal`, { intent: "calendar-on", scenarioId: String(page.data.scenarioId) }, keeper.cookie),
+      { tankId: id },
+    );
+    const url = new URL(on.data.calendarUrl as string);
+    const token = url.pathname.split("/").at(-1)!;
+    const feed = await feedLoader({ params: { token }, request: new Request(url), context: {} } as never);
+    expect(feed.status).toBe(200);
+    expect(feed.headers.get("Content-Type")).toMatch(/^text\/calendar/);
+    // Parsed with ical.js, an independent RFC 5545 reader
+    const cal = new ICAL.Component(ICAL.parse(await feed.text()));
+    expect(cal.name).toBe("vcalendar");
+    const events = cal.getAllSubcomponents("vevent").map((v) => new ICAL.Event(v));
+    const titles = events.map((e) => e.summary);
+    // Weekly changes resumed from the one 2 days ago: days 5, 12, …, 89 → 13; monthly cleaning from day 0: 30, 60 → 2 (our own worked example)
+    expect(titles.filter((t) => t.startsWith("Water change"))).toHaveLength(13);
+    expect(titles.filter((t) => t.startsWith("Clean the filter"))).toHaveLength(2);
+    for (const e of events) expect(e.startDate.toJSDate().getTime()).toBeLessThan(Date.now() + 90 * DAY);
+    await call(pageAction, post(`/tanks/${id}/journal`, { intent: "calendar-off" }, keeper.cookie), { tankId: id });
+    const gone = await feedLoader({ params: { token }, request: new Request(url), context: {} } as never);
+    expect(gone.status).toBe(404);
   });
 });

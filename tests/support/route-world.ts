@@ -231,6 +231,19 @@ export const PERMISSION_MATRIX: Row[] = [
     form: { intent: "add", kind: "water_change" },
     expect: ACTION_PRIVATE,
   },
+  {
+    file: "routes/journal/journal.tsx",
+    handler: "action",
+    path: `${TANK}/journal`,
+    form: { intent: "calendar-on", scenarioId: "0" },
+    expect: ACTION_PRIVATE,
+  },
+  {
+    file: "routes/calendar/feed.ts",
+    handler: "loader",
+    path: "/calendar/not-a-live-calendar-token.ics",
+    expect: [404, 404, 404, 404, 404, 404],
+  },
   { file: "routes/journal/export.ts", handler: "loader", path: `${TANK}/journal/export`, expect: PAGE_PRIVATE },
   { file: "routes/calibrate/calibrate.tsx", handler: "loader", path: `${SCENARIO}/calibrate`, expect: PAGE_PRIVATE },
   {

@@ -6,6 +6,12 @@ import { data } from "react-router";
 import { NO3_PER_N } from "~/features/journal/journal-chart";
 import { describeEntry, ENTRY_KINDS } from "~/features/journal/journal-entries";
 import { parseJournalCsv, MAX_JOURNAL_CSV_BYTES } from "~/features/journal/journal-csv.server";
+import {
+  hasCalendarFeed,
+  makeCalendarFeed,
+  revokeCalendarFeed,
+  upcomingTasks,
+} from "~/features/journal/calendar-feed.server";
 import { forecastJournal, replayJournal, type Forecast } from "~/features/journal/journal-replay.server";
 import { addEntries, deleteEntry, JournalFull, listJournal, readEntry } from "~/features/journal/journal.server";
 import { allReadings } from "~/features/readings/readings.server";
@@ -64,6 +70,10 @@ export function journalPageData(tank: TankRow, scenarioParam: string | null, now
     replay,
     forecast,
     problem,
+    upcoming: settings
+      ? upcomingTasks(settings, entries, now, 21).map((t) => ({ title: t.title, when: dayText(t.atMs) }))
+      : [],
+    calendarOn: hasCalendarFeed(tank.id),
   };
 }
 
@@ -90,6 +100,7 @@ export type JournalAnswer = {
   problems?: CsvProblem[];
   more?: number;
   stored?: number;
+  calendarUrl?: string;
 };
 
 const refuse = (a: JournalAnswer, status = 400) => data(a, { status });
@@ -124,6 +135,21 @@ export async function journalAction(request: Request, tank: TankRow) {
     if (!Number.isInteger(id) || !deleteEntry(tank.id, id))
       return refuse({ intent, message: "That entry is not in this journal." }, 404);
     return { intent, message: "Entry deleted." } satisfies JournalAnswer;
+  }
+  if (intent === "calendar-on") {
+    const scenario = listScenarios(tank.id).find((x) => String(x.id) === String(form.get("scenarioId") ?? ""));
+    if (!scenario) return refuse({ intent, message: "Choose the scenario that describes this tank." });
+    const token = makeCalendarFeed(tank.id, scenario.id);
+    const origin = new URL(request.url).origin;
+    return {
+      intent,
+      message: "Calendar address made. Add it to your phone's calendar as a subscription.",
+      calendarUrl: `${origin}/calendar/${token}.ics`,
+    } satisfies JournalAnswer;
+  }
+  if (intent === "calendar-off") {
+    revokeCalendarFeed(tank.id);
+    return { intent, message: "The calendar address is turned off." } satisfies JournalAnswer;
   }
   if (intent !== "add") return refuse({ intent, message: "Unknown action." });
   const values = Object.fromEntries([...form.entries()].filter(([, v]) => typeof v === "string")) as Record<

@@ -129,7 +129,7 @@ function EntryForm({ answer }: { answer: JournalAnswer | undefined }) {
 }
 
 export default function JournalPage({ loaderData, actionData }: Route.ComponentProps) {
-  const { tank, scenarios, scenarioId, entries, replay, forecast, problem } = loaderData;
+  const { tank, scenarios, scenarioId, entries, replay, forecast, problem, upcoming, calendarOn } = loaderData;
   const answer = actionData as JournalAnswer | undefined;
   return (
     <main className="mx-auto max-w-4xl space-y-8 p-4">
@@ -199,6 +199,37 @@ export default function JournalPage({ loaderData, actionData }: Route.ComponentP
             {u}
           </p>
         ))}
+      </section>
+
+      <section className="space-y-3">
+        <h2 className="text-xl font-semibold">Upcoming</h2>
+        {upcoming.length ? (
+          <ul className="list-disc pl-5" aria-label="Planned tasks in the next three weeks">
+            {upcoming.map((u, i) => (
+              <li key={i}>
+                {u.when}: {u.title}
+              </li>
+            ))}
+          </ul>
+        ) : (
+          <p className="text-stone-600">Nothing planned in the next three weeks.</p>
+        )}
+        {answer?.calendarUrl ? (
+          <p className="text-sm">
+            Your calendar address (shown once; keep it private): <code className="break-all">{answer.calendarUrl}</code>
+          </p>
+        ) : null}
+        <Form method="post" className="flex gap-2">
+          <input type="hidden" name="scenarioId" value={String(scenarioId ?? "")} />
+          <button className="btn" name="intent" value="calendar-on" type="submit" disabled={!scenarioId}>
+            {calendarOn ? "Make a new calendar address" : "Subscribe in a calendar"}
+          </button>
+          {calendarOn ? (
+            <button className="btn-secondary" name="intent" value="calendar-off" type="submit">
+              Turn the calendar address off
+            </button>
+          ) : null}
+        </Form>
       </section>
 
       <section className="space-y-3">
