@@ -8,6 +8,7 @@ import { hashPassword } from "~/auth.server";
 import { hashToken } from "~/utils/crypto.server";
 import type { Db } from "~/db/client.server";
 import { classes, classMembers, lessons, scenarios, shareLinks, tanks, users } from "~/db/schema";
+import { seedDemoJournal } from "~/db/seed-journal.server";
 import { seedDemoReadings } from "~/db/seed-readings.server";
 import { seedDemoScenarios } from "~/db/seed-scenarios.server";
 
@@ -43,21 +44,64 @@ export async function seedDemoData(db: Db): Promise<void> {
       ids.set(u.email, row.id);
     }
     const tankIds = {
-      jonah: tx.insert(tanks).values({ ownerId: ids.get("jonah@tidewell.example")!, name: "Living-room 120", notes: "Community tank, moderately planted." }).returning({ id: tanks.id }).get().id,
-      ines: tx.insert(tanks).values({ ownerId: ids.get("ines@tidewell.example")!, name: "Shrimp nano", notes: "Small tank with mosses and floating plants." }).returning({ id: tanks.id }).get().id,
-      theo: tx.insert(tanks).values({ ownerId: ids.get("theo@tidewell.example")!, name: "Cichlid 200", notes: "Heavily stocked, few plants; tap water carries nitrate." }).returning({ id: tanks.id }).get().id,
-      teacher: tx.insert(tanks).values({ ownerId: ids.get("teacher@tidewell.example")!, name: "Classroom demo tank", notes: "Prepared scenarios for lessons." }).returning({ id: tanks.id }).get().id,
+      jonah: tx
+        .insert(tanks)
+        .values({
+          ownerId: ids.get("jonah@tidewell.example")!,
+          name: "Living-room 120",
+          notes: "Community tank, moderately planted.",
+        })
+        .returning({ id: tanks.id })
+        .get().id,
+      ines: tx
+        .insert(tanks)
+        .values({
+          ownerId: ids.get("ines@tidewell.example")!,
+          name: "Shrimp nano",
+          notes: "Small tank with mosses and floating plants.",
+        })
+        .returning({ id: tanks.id })
+        .get().id,
+      theo: tx
+        .insert(tanks)
+        .values({
+          ownerId: ids.get("theo@tidewell.example")!,
+          name: "Cichlid 200",
+          notes: "Heavily stocked, few plants; tap water carries nitrate.",
+        })
+        .returning({ id: tanks.id })
+        .get().id,
+      teacher: tx
+        .insert(tanks)
+        .values({
+          ownerId: ids.get("teacher@tidewell.example")!,
+          name: "Classroom demo tank",
+          notes: "Prepared scenarios for lessons.",
+        })
+        .returning({ id: tanks.id })
+        .get().id,
     };
     seedDemoScenarios(tx, tankIds);
     seedDemoReadings(tx, tankIds.jonah);
+    seedDemoJournal(tx, tankIds.jonah);
     const cls = tx
       .insert(classes)
-      .values({ educatorId: ids.get("teacher@tidewell.example")!, name: "Year 9 Biology: the nitrogen cycle", joinCode: "TIDE-NINE" })
+      .values({
+        educatorId: ids.get("teacher@tidewell.example")!,
+        name: "Year 9 Biology: the nitrogen cycle",
+        joinCode: "TIDE-NINE",
+      })
       .returning({ id: classes.id })
       .get();
-    tx.insert(classMembers).values({ classId: cls.id, userId: ids.get("student@tidewell.example")! }).run();
+    tx.insert(classMembers)
+      .values({ classId: cls.id, userId: ids.get("student@tidewell.example")! })
+      .run();
     const scenarioIn = (tankId: number, name: string) =>
-      tx.select().from(scenarios).where(and(eq(scenarios.tankId, tankId), eq(scenarios.name, name))).get()!;
+      tx
+        .select()
+        .from(scenarios)
+        .where(and(eq(scenarios.tankId, tankId), eq(scenarios.name, name)))
+        .get()!;
     const cycling = scenarioIn(tankIds.teacher, "A new tank cycling without fish");
     tx.insert(lessons)
       .values({
@@ -71,6 +115,8 @@ export async function seedDemoData(db: Db): Promise<void> {
       })
       .run();
     const asKept = scenarioIn(tankIds.theo, "As kept now");
-    tx.insert(shareLinks).values({ scenarioId: asKept.id, tokenHash: hashToken(DEMO_SHARE_TOKEN) }).run();
+    tx.insert(shareLinks)
+      .values({ scenarioId: asKept.id, tokenHash: hashToken(DEMO_SHARE_TOKEN) })
+      .run();
   });
 }
