@@ -30,6 +30,8 @@ export default [
     route(":tankId/readings/upload", "routes/readings/upload.tsx"),
     route(":tankId/readings/export", "routes/readings/export.ts"),
     route(":tankId/readings/template", "routes/readings/template.ts"),
+    route(":tankId/journal", "routes/journal/journal.tsx"),
+    route(":tankId/journal/export", "routes/journal/export.ts"),
     route(":tankId/scenarios/:scenarioId/calibrate", "routes/calibrate/calibrate.tsx"),
     route(":tankId/scenarios/:scenarioId/sweep", "routes/sweeps/sweep.tsx"),
     route(":tankId/scenarios/:scenarioId/target", "routes/sweeps/target.tsx"),
@@ -39,6 +41,8 @@ export default [
 
   // The public page of a share link (anyone with the token).
   route("s/:token", "routes/share/public.tsx"),
+  // A tank's maintenance calendar at its secret address (anyone with the token).
+  route("calendar/:token", "routes/calendar/feed.ts"),
 
   // Classes, invitations, lessons, students' copies and the classroom presentation.
   ...prefix("classes", [
@@ -70,6 +74,8 @@ export default [
     route("tanks", "routes/api/tanks.ts"),
     route("tanks/:tankId/scenarios", "routes/api/tank-scenarios.ts"),
     route("tanks/:tankId/readings", "routes/api/tank-readings.ts"),
+    route("tanks/:tankId/journal", "routes/api/tank-journal.ts"),
+    route("tanks/:tankId/journal/:entryId", "routes/api/tank-journal-entry.ts"),
     route("scenarios/:scenarioId", "routes/api/scenario.ts"),
     route("scenarios/:scenarioId/run", "routes/api/scenario-run.ts"),
     route("scenarios/:scenarioId/sweeps", "routes/api/scenario-sweeps.ts"),

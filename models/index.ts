@@ -21,27 +21,17 @@ export {
   setScenarioValue,
   settingField,
 } from "./nitrogen/scenario";
-export type {
-  Scenario,
-  ScenarioInput,
-  Quantity,
-  ScenarioField,
-  Setting,
-  SettingChange,
-} from "./nitrogen/scenario";
+export type { Scenario, ScenarioInput, Quantity, ScenarioField, Setting, SettingChange } from "./nitrogen/scenario";
 
 export { simulate, ENGINE_VERSION } from "./nitrogen/simulate";
-export type {
-  SimulateOptions,
-  SimulationResult,
-  SimulationStats,
-  Series,
-  KeyFigures,
-} from "./nitrogen/simulate";
+export type { SimulateOptions, SimulationResult, SimulationStats, Series, KeyFigures } from "./nitrogen/simulate";
 
 export type { NitrogenBudget } from "./nitrogen/budget";
 export type { ModelWarning } from "./nitrogen/result";
 export { OXYGEN } from "./nitrogen/parameters";
+
+export type { TankEventInput } from "./nitrogen/tank-events";
+export { plannedEvents, scenarioBacteriaShare } from "./nitrogen/planned-events";
 
 export { ammoniaCriteria } from "./nitrogen/criteria";
 

@@ -74,7 +74,14 @@ export type DisplayUnits = {
 };
 
 /** The engine's own units: what the API speaks. */
-export const CANONICAL_UNITS: DisplayUnits = { volume: "L", temperature: "C", nitrate: "asN", nitrite: "asN", ammonia: "asN", kh: "dKH" };
+export const CANONICAL_UNITS: DisplayUnits = {
+  volume: "L",
+  temperature: "C",
+  nitrate: "asN",
+  nitrite: "asN",
+  ammonia: "asN",
+  kh: "dKH",
+};
 
 function isConvertible(quantity: string): quantity is ConvertibleQuantity {
   return Object.hasOwn(UNITS, quantity);

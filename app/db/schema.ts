@@ -15,8 +15,12 @@ export const ROLES = ["keeper", "educator", "admin"] as const;
 export type Role = (typeof ROLES)[number];
 
 // The account's unit preferences: the choices are the units vocabulary's (app/utils/display-units.ts).
-const { volumeUnit: VOLUME_UNITS, temperatureUnit: TEMPERATURE_UNITS, nitrateUnit: NITRATE_UNITS, khUnit: KH_UNITS } =
-  PREFERENCE_CHOICES;
+const {
+  volumeUnit: VOLUME_UNITS,
+  temperatureUnit: TEMPERATURE_UNITS,
+  nitrateUnit: NITRATE_UNITS,
+  khUnit: KH_UNITS,
+} = PREFERENCE_CHOICES;
 
 const createdAt = () =>
   integer("created_at", { mode: "timestamp_ms" })
@@ -185,6 +189,45 @@ export const readings = sqliteTable(
     createdAt: createdAt(),
   },
   (t) => [uniqueIndex("readings_tank_time_uq").on(t.tankId, t.takenAt)],
+);
+
+/**
+ * What a keeper actually did to a tank and when (the journal): water changes, cleanings, plants,
+ * feeding, fish, doses, notes. `details` holds the kind's fields in canonical units (see
+ * app/features/journal/journal-entries.ts); the model replays these "as it happened".
+ */
+export const journalEntries = sqliteTable(
+  "journal_entries",
+  {
+    id: integer("id").primaryKey({ autoIncrement: true }),
+    tankId: integer("tank_id")
+      .notNull()
+      .references(() => tanks.id, { onDelete: "cascade" }),
+    doneAt: integer("done_at", { mode: "timestamp_ms" }).notNull(),
+    kind: text("kind").notNull(),
+    details: text("details", { mode: "json" }).notNull(),
+    note: text("note").notNull().default(""),
+    createdAt: createdAt(),
+  },
+  (t) => [index("journal_entries_tank_time_idx").on(t.tankId, t.doneAt)],
+);
+
+/** A tank's calendar feed address (/calendar/:token.ics), stored hashed like share links; revocable. */
+export const calendarFeeds = sqliteTable(
+  "calendar_feeds",
+  {
+    id: integer("id").primaryKey({ autoIncrement: true }),
+    tankId: integer("tank_id")
+      .notNull()
+      .references(() => tanks.id, { onDelete: "cascade" }),
+    scenarioId: integer("scenario_id")
+      .notNull()
+      .references(() => scenarios.id, { onDelete: "cascade" }),
+    tokenHash: text("token_hash").notNull().unique(),
+    createdAt: createdAt(),
+    revokedAt: integer("revoked_at", { mode: "timestamp_ms" }),
+  },
+  (t) => [index("calendar_feeds_tank_idx").on(t.tankId)],
 );
 
 export const shareLinks = sqliteTable(

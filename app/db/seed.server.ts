@@ -9,6 +9,7 @@ import { hashPassword } from "~/auth.server";
 import { hashToken } from "~/utils/crypto.server";
 import type { Db } from "~/db/client.server";
 import { classes, classMembers, lessons, scenarios, shareLinks, tanks, users } from "~/db/schema";
+import { seedDemoJournal } from "~/db/seed-journal.server";
 import { seedDemoReadings } from "~/db/seed-readings.server";
 import { seedDemoScenarios } from "~/db/seed-scenarios.server";
 
@@ -87,6 +88,7 @@ export async function seedDemoData(db: Db): Promise<void> {
     };
     seedDemoScenarios(tx, tankIds);
     seedDemoReadings(tx, tankIds.jonah);
+    seedDemoJournal(tx, tankIds.jonah);
     const cls = tx
       .insert(classes)
       .values({

@@ -4,7 +4,7 @@
  * values and `units` holds their labels.
  */
 
-import type { NitrogenBudget } from "~models";
+import type { EventRecord, NitrogenBudget } from "~models";
 
 /** The species a chart can show; "plants" is drawn on a second axis (g dry mass). */
 export type SpeciesKey = "tan" | "nh3" | "no2" | "no3";
@@ -41,6 +41,18 @@ export type ChartEvent = {
   kind: "waterChange" | "filterCleaning" | "trim" | "dose" | "dosingStopped" | "feeding";
   detail: string;
 };
+
+/**
+ * The chart's marker for an engine event: a replayed journal's extra kinds share the nearest
+ * marker (gravel cleaning with water changes, plants put in with trims, a new feeding amount
+ * with meals); the detail text still says what happened.
+ */
+export function chartEventKind(kind: EventRecord["kind"]): ChartEvent["kind"] {
+  if (kind === "gravelCleaning") return "waterChange";
+  if (kind === "plantsAdded") return "trim";
+  if (kind === "feedingChanged") return "feeding";
+  return kind;
+}
 
 /** A test-kit reading drawn as points over the curves (display units; absent = not measured). */
 export type ChartReading = {

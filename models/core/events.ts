@@ -13,7 +13,16 @@ export interface EventRecord {
   readonly detail: string;
 }
 
-type EventKind = "waterChange" | "filterCleaning" | "trim" | "dose" | "dosingStopped" | "feeding";
+type EventKind =
+  | "waterChange"
+  | "filterCleaning"
+  | "gravelCleaning"
+  | "trim"
+  | "plantsAdded"
+  | "dose"
+  | "dosingStopped"
+  | "feeding"
+  | "feedingChanged";
 
 /**
  * What an event does: the state just after it (a new array; the state before is never changed)

@@ -12,6 +12,8 @@ export interface EventFlows {
   feed: number;
   tapWaterByChanges: number;
   dosing: number;
+  /** Plant mass a keeper put in (a replayed journal), as N. */
+  plantsAdded: number;
   waterChanges: number;
   trims: number;
   trimsByGroup: number[];
@@ -47,6 +49,7 @@ export function emptyFlows(plantCount: number): EventFlows {
     feed: 0,
     tapWaterByChanges: 0,
     dosing: 0,
+    plantsAdded: 0,
     waterChanges: 0,
     trims: 0,
     trimsByGroup: new Array<number>(plantCount).fill(0),
@@ -65,6 +68,8 @@ export interface NitrogenBudget {
     /** Tap (blended) water: water changes plus drip. */
     tapWater: number;
     dosing: number;
+    /** Plants put into the tank (only in a replayed journal). */
+    plantsAdded: number;
     total: number;
   };
   /** mg N taken out or lost. */
@@ -113,9 +118,11 @@ export function buildBudget(
   start: Stocks,
   end: Stocks,
   flows: EventFlows,
+  /** Continuous feed N over the run when the rate changed during it (a replayed journal). */
+  feedContinuousMgN?: number,
 ): NitrogenBudget {
-  // Continuous feeding is a constant rate: its totals are exact products.
-  const feedContinuous = c.pulsedFeeding ? 0 : c.feedN * tEnd;
+  // Continuous feeding is a constant rate (or constant between changes): its totals are exact products.
+  const feedContinuous = c.pulsedFeeding ? 0 : (feedContinuousMgN ?? c.feedN * tEnd);
   const eatenContinuous = feedContinuous * c.eatenShare;
   const uneatenContinuous = feedContinuous - eatenContinuous;
   const fishGrowth = flows.fishGrowth + eatenContinuous * EATEN_N_SPLIT.fishGrowth;
@@ -126,9 +133,10 @@ export function buildBudget(
     feed: flows.feed + feedContinuous,
     tapWater: flows.tapWaterByChanges + dripIn,
     dosing: flows.dosing,
+    plantsAdded: flows.plantsAdded,
     total: 0,
   };
-  inputs.total = inputs.feed + inputs.tapWater + inputs.dosing;
+  inputs.total = inputs.feed + inputs.tapWater + inputs.dosing + inputs.plantsAdded;
   const outputs = {
     waterChanges: flows.waterChanges,
     drip: yEnd[IX.dripOut],

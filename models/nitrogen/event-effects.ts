@@ -130,3 +130,38 @@ export function meal(c: TankConstants, day: number, before: readonly number[]): 
     records: [{ day, kind: "feeding", detail: `Meal: ${mg(food)} in the food` }],
   };
 }
+
+/** Gravel siphoned without a water change: a share `f` of the tank's detritus out. */
+export function gravelCleaning(f: number, day: number, before: readonly number[]): Effect {
+  const y = before.slice();
+  const siphoned = f * y[IX.orgW];
+  y[IX.orgW] -= siphoned;
+  return {
+    y,
+    booking: { gravelCleaning: siphoned },
+    records: [
+      { day, kind: "gravelCleaning", detail: `Gravel cleaned: ${pct(f)} of the detritus siphoned (${mg(siphoned)})` },
+    ],
+  };
+}
+
+/** Plants put in: `addedG` dry mass joins group `index`, bringing its nitrogen with it. */
+export function addPlants(
+  c: TankConstants,
+  index: number,
+  name: string,
+  addedG: number,
+  day: number,
+  before: readonly number[],
+): Effect {
+  const y = before.slice();
+  const n = addedG * c.plantNmg[index];
+  y[PLANT0 + index] += addedG;
+  return {
+    y,
+    booking: { plantsAdded: n },
+    records: [
+      { day, kind: "plantsAdded", detail: `${name}: ${Number(addedG.toPrecision(3))} g dry put in (${mg(n)})` },
+    ],
+  };
+}

@@ -5,6 +5,7 @@ import type { EventRecord } from "../core/events";
 import type { NitrogenBudget } from "./budget";
 import type { AmmoniaCriteria } from "./criteria";
 import type { ZoneCapacity } from "./low-oxygen-zones";
+import type { TankEventInput } from "./tank-events";
 
 /** Version of the engine's numbers: bump when a change alters results for the same scenario. */
 /** What the warnings of a run (warnings.ts) say. */
@@ -52,6 +53,11 @@ export interface SimulateOptions {
    * pinned and the free trim days agree.
    */
   pinnedTrimDays?: readonly (readonly number[] | null | undefined)[];
+  /**
+   * An explicit event schedule ("these events on these days"): replaces the scenario's periodic
+   * water changes, filter cleanings, timed trims and doses (a tank replayed as it happened).
+   */
+  events?: readonly TankEventInput[];
 }
 
 /**

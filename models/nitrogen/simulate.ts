@@ -24,7 +24,22 @@ import { buildSchedule } from "./schedule";
 import { IX, PLANT0, STATE_NAMES } from "./state";
 import { stocks } from "./stocks";
 import { deriveConstants } from "./tank-constants";
+import type { TankEvent } from "./tank-events";
+import { TankEventsSchema } from "./tank-events";
 import { findWarnings } from "./warnings";
+
+/** The options' explicit event list, validated (the engine's boundary), or undefined. */
+function explicitSchedule(options: SimulateOptions): TankEvent[] | undefined {
+  if (options.events === undefined) return undefined;
+  const parsed = TankEventsSchema.safeParse(options.events);
+  if (!parsed.success) {
+    const lines = parsed.error.issues.map((i) => `${i.path.join(".")}: ${i.message}`);
+    throw new ModelError("INVALID", `The event list has entries the model cannot use: ${lines.join("; ")}`, {
+      detail: lines,
+    });
+  }
+  return parsed.data;
+}
 
 const now = (): number => (typeof performance !== "undefined" ? performance.now() : Date.now());
 
@@ -65,15 +80,15 @@ export function simulate(scenario: Scenario, options: SimulateOptions = {}): Sim
   const c = deriveConstants(s);
   const tEnd = s.run.lengthDays;
   const y0 = initialState(s, c);
+  const schedule = buildSchedule(s, c, tEnd, explicitSchedule(options), options.pinnedTrimDays);
   const problem: OdeProblem = {
     dim: PLANT0 + c.plantCount,
     names: [...STATE_NAMES, ...s.plants.map((g) => `plants "${g.name}" (g)`)],
-    rhs: makeRhs(c),
+    rhs: makeRhs(schedule.rates),
     absoluteTolerance: absoluteTolerances(c),
     relativeTolerance: 1e-6,
   };
   const recorder = createRecorder(s, c, options.rawSeries === true);
-  const schedule = buildSchedule(s, c, tEnd, options.pinnedTrimDays);
   const maxWallMs = options.maxWallMs ?? 2000;
   const loop = runLoop({
     problem,
@@ -93,12 +108,20 @@ export function simulate(scenario: Scenario, options: SimulateOptions = {}): Sim
     describeFailure: (code, day) => describeFailure(s, c, code, day, maxWallMs),
   });
   const yEnd = loop.y;
-  const budget = buildBudget(c, tEnd, yEnd, stocks(c, y0), stocks(c, yEnd), schedule.ledger.flows);
+  const { ledger } = schedule;
+  const budget = buildBudget(
+    c,
+    tEnd,
+    yEnd,
+    stocks(c, y0),
+    stocks(c, yEnd),
+    ledger.flows,
+    ledger.feedContinuousMgN ?? undefined,
+  );
   if (!Number.isFinite(budget.imbalance)) {
     throw new ModelError("NON_FINITE", describeFailure(s, c, "NON_FINITE", tEnd, 0), { day: tEnd });
   }
   const { series, extremes } = recorder;
-  const { ledger } = schedule;
   const result: SimulationResult = {
     engineVersion: ENGINE_VERSION,
     series,

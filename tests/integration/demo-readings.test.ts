@@ -6,6 +6,7 @@ import { DEMO_PASSWORD, seedDemoData } from "~/db/seed.server";
 import { clearJobs, findJob, type Job } from "~/features/jobs/jobs.server";
 import { action as calibrateAction } from "~/routes/calibrate/calibrate";
 import { loader as resultsLoader } from "~/routes/scenarios/results";
+import { loader as journalLoader } from "~/routes/journal/journal";
 import { call, get, ORIGIN } from "../support/routes";
 import { signIn } from "../support/users";
 
@@ -59,5 +60,21 @@ describe("demo readings", () => {
     // The invented readings climb faster than the baseline: more nitrogen comes in than the model assumed.
     expect(result.multipliers.find((m) => m.key === "feedLoad")!.value).toBeGreaterThan(1);
     clearJobs();
+  });
+});
+
+describe("demo journal", () => {
+  it("gives Jonah's tank a month of entries the model follows: water changes drop nitrate where his readings do", async () => {
+    const jonah = await signIn("jonah@tidewell.example", DEMO_PASSWORD);
+    const tank = getDb().select().from(tanks).where(eq(tanks.name, "Living-room 120")).get()!;
+    const tankId = String(tank.id);
+    const page = await call(journalLoader, get(`/tanks/${tankId}/journal`, jonah), { tankId });
+    expect(page.data.entries.length).toBeGreaterThanOrEqual(8);
+    const { t, no3, readings } = page.data.replay;
+    expect(readings.length).toBeGreaterThanOrEqual(12);
+    // Five 25 % changes in the journal: nitrate drops at each, and only there (dilution)
+    const drops = no3.filter((v: number, k: number) => k > 0 && t[k] === t[k - 1] && v < no3[k - 1] * 0.95).length;
+    expect(drops).toBe(5);
+    expect(page.data.forecast).toMatch(/Nitrate|nitrate/);
   });
 });

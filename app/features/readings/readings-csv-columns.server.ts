@@ -5,7 +5,9 @@
  */
 import { MEASURE_KEYS, type MeasureKey, type MeasureUnits } from "~/features/readings/readings.server";
 
-export type CsvProblem = { line: number; message: string };
+import type { CsvProblem } from "~/csv-read.server";
+
+export type { CsvProblem } from "~/csv-read.server";
 
 export type Target =
   | { kind: "datetime" }
@@ -97,7 +99,8 @@ export function readHeader(
     if (!c) continue;
     const id = c.target.kind === "measure" ? c.target.key : c.target.kind;
     const before = seen.get(id);
-    if (before) problems.push({ line, message: `the columns “${before}” and “${c.header}” hold the same thing: keep one.` });
+    if (before)
+      problems.push({ line, message: `the columns “${before}” and “${c.header}” hold the same thing: keep one.` });
     seen.set(id, c.header);
   }
   const kinds = new Set(columns.filter(Boolean).map((c) => c!.target.kind));

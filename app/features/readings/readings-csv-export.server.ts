@@ -4,7 +4,13 @@
  */
 import { fromCanonical } from "~models/units";
 import { exportHeader } from "~/features/readings/readings-csv-columns.server";
-import { MEASURE_KEYS, MEASURES, type MeasureKey, type MeasureUnits, type ReadingRow } from "~/features/readings/readings.server";
+import {
+  MEASURE_KEYS,
+  MEASURES,
+  type MeasureKey,
+  type MeasureUnits,
+  type ReadingRow,
+} from "~/features/readings/readings.server";
 import { toCsv, type CsvCell } from "~/utils/csv";
 import { formatDateTime } from "~/utils/dates";
 

@@ -12,7 +12,6 @@
  * `datetime` column (ISO 8601: 2026-03-01 or 2026-03-01T08:30) or `date` and `time` columns.
  * The export and the template use the same names, so an exported file uploads again unchanged.
  */
-import { parse } from "csv-parse/sync";
 import {
   readHeader,
   type CsvColumn,
@@ -30,14 +29,15 @@ import {
 } from "~/features/readings/readings.server";
 import { formatDateTime, parseDateOnly, parseDateTime, parseTimeOfDay } from "~/utils/dates";
 import { unneutraliseCell } from "~/utils/csv";
+import { csvFailure, detectDelimiter, readLines, type CsvFailure, type Line } from "~/csv-read.server";
 
 export type { CsvProblem } from "~/features/readings/readings-csv-columns.server";
 
 export const MAX_CSV_BYTES = 1024 * 1024;
 export const MAX_CSV_ROWS = 5000;
 export const MAX_NOTE_LENGTH = 500;
-/** Problems listed at most (the count says how many more). */
-const MAX_LISTED = 200;
+
+const EMPTY = "The file is empty. Download the template to see the columns we read.";
 
 type ParsedRow = ReadingInput & { line: number };
 
@@ -50,57 +50,7 @@ type CsvParseResult =
       ignoredColumns: string[];
       delimiter: "," | ";" | "\t";
     }
-  | { ok: false; message: string; problems: CsvProblem[]; more: number };
-
-function detectDelimiter(text: string): "," | ";" | "\t" {
-  const firstLine = text.split(/\r?\n/).find((l) => l.trim() !== "") ?? "";
-  const outside = firstLine.replace(/"[^"]*"/g, "");
-  const n = (c: string) => outside.split(c).length - 1;
-  if (n("\t") > n(",") && n("\t") > n(";")) return "\t";
-  return n(";") > n(",") ? ";" : ",";
-}
-
-const fail = (message: string, problems: CsvProblem[] = []): CsvParseResult => ({
-  ok: false,
-  message,
-  problems: problems.slice(0, MAX_LISTED),
-  more: Math.max(0, problems.length - MAX_LISTED),
-});
-
-const EMPTY = "The file is empty. Download the template to see the columns we read.";
-
-/** One record of the file, and the line it starts on (a quoted note may span lines). */
-type Line = { cells: string[]; line: number };
-
-/** The file's non-empty records, or why it cannot be read as CSV. */
-function readLines(body: string, delimiter: string): Line[] | CsvParseResult {
-  let records: { record: string[]; info: { lines: number } }[];
-  try {
-    records = parse(body, {
-      delimiter,
-      info: true,
-      skip_empty_lines: true,
-      relax_column_count: true,
-      trim: true,
-    }) as unknown as typeof records;
-  } catch (error) {
-    const e = error as { code?: string; lines?: number; message?: string };
-    const line = e.lines ?? 0;
-    const reason =
-      e.code === "CSV_QUOTE_NOT_CLOSED"
-        ? "a double quote opens a cell that is never closed"
-        : e.code === "CSV_INVALID_CLOSING_QUOTE"
-          ? "a double quote sits in the middle of a cell (put the whole cell in quotes and double the quote inside)"
-          : "this line is not valid CSV";
-    return fail(`Nothing was stored: the file could not be read as CSV at line ${line}.`, [{ line, message: reason }]);
-  }
-  return records
-    .filter((r) => r.record.some((c) => c !== ""))
-    .map((r) => ({
-      cells: r.record,
-      line: r.info.lines - r.record.reduce((n, c) => n + (c.match(/\n/g)?.length ?? 0), 0),
-    }));
-}
+  | CsvFailure;
 
 /** When a row was taken, from a "datetime" column or "date" and "time" columns, with its problems. */
 function readWhen(cell: (kind: Target["kind"]) => string | undefined, now: number, problems: string[]): number | null {
@@ -129,7 +79,13 @@ function readWhen(cell: (kind: Target["kind"]) => string | undefined, now: numbe
   return takenAt;
 }
 
-type RowContext = { columns: (CsvColumn | null)[]; width: number; units: MeasureUnits; decimalComma: boolean; now: number };
+type RowContext = {
+  columns: (CsvColumn | null)[];
+  width: number;
+  units: MeasureUnits;
+  decimalComma: boolean;
+  now: number;
+};
 
 /** One data row as a reading, or the sentence saying what is wrong with it. */
 function readRow({ cells, line }: Line, ctx: RowContext): { row: ParsedRow } | { problem: string } {
@@ -186,7 +142,10 @@ function withoutRepeats(parsed: ParsedRow[], stored: ReadonlyMap<number, number>
     }
     byTime.set(row.takenAt, row);
     if (stored.has(row.takenAt)) {
-      skipped.push({ line, message: `a reading at ${formatDateTime(row.takenAt)} is already stored; not added again.` });
+      skipped.push({
+        line,
+        message: `a reading at ${formatDateTime(row.takenAt)} is already stored; not added again.`,
+      });
       continue;
     }
     rows.push(row);
@@ -203,21 +162,21 @@ export function parseReadingsCsv(
   options: { units: MeasureUnits; stored: ReadonlyMap<number, number>; now?: number },
 ): CsvParseResult {
   const body = text.replace(/^\uFEFF/, "");
-  if (body.trim() === "") return fail(EMPTY);
+  if (body.trim() === "") return csvFailure(EMPTY);
   const delimiter = detectDelimiter(body);
   const lines = readLines(body, delimiter);
   if (!Array.isArray(lines)) return lines;
   const [header, ...data] = lines;
-  if (!header) return fail(EMPTY);
+  if (!header) return csvFailure(EMPTY);
   if (data.length > MAX_CSV_ROWS) {
-    return fail(
+    return csvFailure(
       `The file has ${data.length.toLocaleString("en")} rows; upload at most ${MAX_CSV_ROWS.toLocaleString("en")} at a time (split it into smaller files). Nothing was stored.`,
     );
   }
   const { columns, ignoredColumns, problems: headerProblems } = readHeader(header.cells, header.line);
-  if (headerProblems.length) return fail("Nothing was stored: the header row needs attention.", headerProblems);
+  if (headerProblems.length) return csvFailure("Nothing was stored: the header row needs attention.", headerProblems);
   if (data.length === 0) {
-    return fail(
+    return csvFailure(
       "The file has a header row but no readings under it: nothing was stored. Add one row per test below the header (the template shows how).",
     );
   }
@@ -239,7 +198,7 @@ export function parseReadingsCsv(
   if (problems.length) {
     problems.sort((a, b) => a.line - b.line);
     const n = problems.length;
-    return fail(
+    return csvFailure(
       `Nothing was stored: ${n === 1 ? "one row needs" : `${n.toLocaleString("en")} rows need`} attention. Correct ${n === 1 ? "it" : "them"} and upload the file again.`,
       problems,
     );

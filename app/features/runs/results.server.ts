@@ -3,7 +3,7 @@
  * results page, the public share page and the classroom views, so they all show the same.
  */
 import { OXYGEN, type NitrogenBudget, type Scenario } from "~models";
-import type { ChartEvent } from "~/utils/chart-data";
+import { chartEventKind, type ChartEvent } from "~/utils/chart-data";
 import { displayGuides, displayKeyFigures, displaySeries } from "~/features/runs/display-figures";
 import { speciesFactor } from "~models/units";
 import { resultWarnings } from "~/features/runs/run-warnings";
@@ -38,7 +38,7 @@ function buildPayload(run: StoredRun, scenario: Scenario, units: DisplayUnits): 
     runId: run.id,
     labels,
     series: displaySeries(run.series, units),
-    events: run.events.map((e): ChartEvent => ({ day: e.day, kind: e.kind, detail: e.detail })),
+    events: run.events.map((e): ChartEvent => ({ day: e.day, kind: chartEventKind(e.kind), detail: e.detail })),
     guides: {
       ...displayGuides(scenario.targets, units, run.findings.ammoniaCriteria.chronicTanMgNPerL),
       oxygenCaution: OXYGEN.cautionMgPerL.value,

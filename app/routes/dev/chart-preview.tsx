@@ -3,7 +3,14 @@ import type { Route } from "./+types/chart-preview";
 import { BudgetBar, BudgetTable } from "~/components/charts/budget";
 import { CompareChart } from "~/components/charts/compare-chart";
 import { TimeSeriesChart } from "~/components/charts/time-series-chart";
-import type { ChartEvent, ChartOverlay, ChartReading, ChartSeries, ChartUnits } from "~/utils/chart-data";
+import {
+  chartEventKind,
+  type ChartEvent,
+  type ChartOverlay,
+  type ChartReading,
+  type ChartSeries,
+  type ChartUnits,
+} from "~/utils/chart-data";
 import { requireLocalTool } from "~/routes/dev/local-tools.server";
 import { ScenarioSchema, getPreset, plantGroupFromForm, simulate, type ScenarioInput } from "~models";
 
@@ -24,7 +31,7 @@ function run(scenario: ScenarioInput, lengthDays: number, outputIntervalDays: nu
     no3: r.series.no3.map((v) => v * NO3_PER_N),
     plants: r.series.plants,
   };
-  const events: ChartEvent[] = r.events.map((e) => ({ day: e.day, kind: e.kind, detail: e.detail }));
+  const events: ChartEvent[] = r.events.map((e) => ({ day: e.day, kind: chartEventKind(e.kind), detail: e.detail }));
   const band = { low: s.targets.nitrateLow * NO3_PER_N, high: s.targets.nitrateHigh * NO3_PER_N };
   return {
     series,

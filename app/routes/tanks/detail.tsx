@@ -164,6 +164,9 @@ export default function TankPage({ loaderData, actionData }: Route.ComponentProp
           <Link to={`/tanks/${tank.id}/readings`} className="btn-secondary">
             Readings
           </Link>
+          <Link to={`/tanks/${tank.id}/journal`} className="btn-secondary">
+            Journal
+          </Link>
           <Link to={`/tanks/${tank.id}/import`} className="btn-secondary">
             Import a scenario file
           </Link>

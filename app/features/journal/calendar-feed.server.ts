@@ -1,0 +1,103 @@
+/**
+ * The tank's maintenance calendar as an RFC 5545 feed (ical-generator) at a secret address
+ * `/calendar/:token.ics`: one event per planned task (water change, filter cleaning, timed
+ * trim) in the next 90 days, from the scenario's timetable resumed at the last logged change.
+ * The token is random, stored hashed and revocable, like share links.
+ */
+import { and, eq, isNull } from "drizzle-orm";
+import ical from "ical-generator";
+import { plannedEvents, type Scenario } from "~models";
+import { getDb } from "~/db/client.server";
+import { calendarFeeds, scenarios, tanks } from "~/db/schema";
+import type { JournalEntry } from "~/features/journal/journal.server";
+import { listJournal } from "~/features/journal/journal.server";
+import { readStoredSettings } from "~/features/runs/simulation.server";
+import { hashToken, randomToken } from "~/utils/crypto.server";
+import { DAY_MS, startOfDay } from "~/utils/dates";
+
+const CALENDAR_DAYS = 90;
+
+/** A new feed address for the tank (any earlier one is revoked). Returns the raw token. */
+export function makeCalendarFeed(tankId: number, scenarioId: number): string {
+  const token = randomToken(24);
+  getDb().transaction((tx) => {
+    tx.update(calendarFeeds)
+      .set({ revokedAt: new Date() })
+      .where(and(eq(calendarFeeds.tankId, tankId), isNull(calendarFeeds.revokedAt)))
+      .run();
+    tx.insert(calendarFeeds)
+      .values({ tankId, scenarioId, tokenHash: hashToken(token) })
+      .run();
+  });
+  return token;
+}
+
+export function revokeCalendarFeed(tankId: number): boolean {
+  return (
+    getDb()
+      .update(calendarFeeds)
+      .set({ revokedAt: new Date() })
+      .where(and(eq(calendarFeeds.tankId, tankId), isNull(calendarFeeds.revokedAt)))
+      .run().changes > 0
+  );
+}
+
+export function hasCalendarFeed(tankId: number): boolean {
+  return !!getDb()
+    .select({ id: calendarFeeds.id })
+    .from(calendarFeeds)
+    .where(and(eq(calendarFeeds.tankId, tankId), isNull(calendarFeeds.revokedAt)))
+    .get();
+}
+
+const TASK_TITLES: Record<string, string> = {
+  waterChange: "Water change",
+  filterCleaning: "Clean the filter",
+  trim: "Trim plants",
+  dose: "Dose ammonia",
+};
+
+/** The planned tasks from today for `days` days: the scenario's timetable resumed at the last logged change. */
+export function upcomingTasks(s: Scenario, entries: readonly JournalEntry[], now: number, days = CALENDAR_DAYS) {
+  const today = startOfDay(now);
+  const lastChange = entries.filter((e) => e.kind === "water_change").at(-1)?.doneAt;
+  const lastClean = entries.filter((e) => e.kind === "filter_cleaned").at(-1)?.doneAt;
+  const fromDay = (ms: number | undefined) => (ms === undefined ? 0 : (startOfDay(ms) - today) / DAY_MS);
+  const byKind = (kind: string, from: number) =>
+    plannedEvents(s, days, from).filter((e) => e.kind === kind && e.day >= 0 && e.day < days);
+  const tasks = [
+    ...byKind("waterChange", fromDay(lastChange)),
+    ...byKind("filterCleaning", fromDay(lastClean)),
+    ...byKind("trim", 0),
+  ].map((e) => ({
+    kind: e.kind,
+    title: TASK_TITLES[e.kind] + (e.kind === "waterChange" ? ` (${Math.round(e.fraction * 100)} %)` : ""),
+    atMs: today + Math.round(e.day) * DAY_MS,
+  }));
+  return tasks.sort((a, b) => a.atMs - b.atMs);
+}
+
+/** The feed for a token, or null (unknown or revoked: the route answers 404). */
+export function calendarFor(token: string, now = Date.now()): string | null {
+  const feed = getDb()
+    .select()
+    .from(calendarFeeds)
+    .where(and(eq(calendarFeeds.tokenHash, hashToken(token)), isNull(calendarFeeds.revokedAt)))
+    .get();
+  if (!feed) return null;
+  const tank = getDb().select().from(tanks).where(eq(tanks.id, feed.tankId)).get();
+  const row = getDb().select().from(scenarios).where(eq(scenarios.id, feed.scenarioId)).get();
+  const s = row ? readStoredSettings(row.settings) : null;
+  if (!tank || !s) return null;
+  const cal = ical({ name: `${tank.name} · Fernwater`, prodId: { company: "Fernwater", product: "tank-calendar" } });
+  for (const t of upcomingTasks(s, listJournal(tank.id), now)) {
+    cal.createEvent({
+      id: `${feed.id}-${t.kind}-${t.atMs}@fernwater`,
+      start: new Date(t.atMs),
+      allDay: true,
+      summary: `${t.title} · ${tank.name}`,
+      description: "Planned in Fernwater. Test your water before and after; the model is not a water test.",
+    });
+  }
+  return cal.toString();
+}

@@ -1,0 +1,160 @@
+/**
+ * "As it happened": the tank's model (a scenario chosen as its description) replayed from the
+ * journal's first day to today with the journal's events instead of the scenario's periodic
+ * schedule (the engine's explicit event schedule). Entries the model has no process for (fish,
+ * notes) are shown on the page but change nothing; a plant group the scenario does not have is
+ * reported, not guessed.
+ */
+import {
+  plannedEvents,
+  scenarioBacteriaShare,
+  simulate,
+  type Scenario,
+  type SimulationResult,
+  type TankEventInput,
+} from "~models";
+import type { JournalEntry } from "~/features/journal/journal.server";
+import { REQUEST_RUN_LIMITS } from "~/features/runs/simulation.server";
+import { DAY_MS, startOfDay } from "~/utils/dates";
+
+const MAX_DAYS = 730;
+
+/** The journal's entries as the engine's events (days from `startMs`), and what could not be used. */
+function journalEvents(
+  s: Scenario,
+  entries: readonly JournalEntry[],
+  startMs: number,
+): { events: TankEventInput[]; unused: string[] } {
+  const events: TankEventInput[] = [];
+  const unused: string[] = [];
+  const groupOf = (name: string | undefined) => {
+    const n = (name ?? "").trim().toLowerCase();
+    return s.plants.find((g) => g.id.toLowerCase() === n || g.name.toLowerCase() === n);
+  };
+  for (const e of entries) {
+    const day = (e.doneAt - startMs) / DAY_MS;
+    const d = e.details;
+    switch (e.kind) {
+      case "water_change": {
+        const share = d.share ?? Math.min(0.95, (d.litres ?? 0) / s.water.volumeL);
+        events.push({
+          kind: "waterChange",
+          day,
+          fraction: share,
+          tapNitrate: d.tapNitrateMgN ?? null,
+          roShare: d.roShare ?? null,
+        });
+        break;
+      }
+      case "filter_cleaned": {
+        // model choice, no source: a light rinse takes half the sludge and half the bacteria of a thorough one
+        const light = d.thoroughness === "light" ? 0.5 : 1;
+        const tap = d.thoroughness === "tap_water";
+        events.push({
+          kind: "filterCleaning",
+          day,
+          sludgeFraction: light * s.filter.organicsRemovedFraction,
+          bacteriaShare: light * scenarioBacteriaShare(s, tap),
+          inTapWater: tap,
+        });
+        break;
+      }
+      case "gravel_cleaned":
+        events.push({ kind: "gravelCleaning", day, fraction: d.gravelShare ?? 0 });
+        break;
+      case "plants_added":
+      case "plants_removed":
+      case "plants_trimmed": {
+        const g = groupOf(d.plantGroup);
+        if (!g) {
+          unused.push(
+            `The scenario has no plant group “${d.plantGroup}”: the ${e.kind.replace("_", " ")} entry is not modelled.`,
+          );
+          break;
+        }
+        const sign = e.kind === "plants_added" ? 1 : -1;
+        events.push({ kind: "plants", day, groupId: g.id, changeG: sign * (d.plantDryG ?? 0) });
+        break;
+      }
+      case "feeding_changed":
+        events.push({ kind: "feeding", day, feedGPerDay: d.feedGPerDay ?? 0 });
+        break;
+      case "ammonia_dosed":
+        events.push({ kind: "dose", day, mgNPerL: d.ammoniaMgN ?? 0 });
+        break;
+      default:
+        break;
+    }
+  }
+  return { events, unused };
+}
+
+export type Replay = { startMs: number; lengthDays: number; result: SimulationResult; unused: string[] };
+
+/** The replay from the journal's first day to `now` (at least one day, at most two years), or null without entries. */
+export function replayJournal(s: Scenario, entries: readonly JournalEntry[], now = Date.now()): Replay | null {
+  if (entries.length === 0) return null;
+  const startMs = startOfDay(Math.max(entries[0].doneAt, now - MAX_DAYS * DAY_MS));
+  const lengthDays = Math.min(MAX_DAYS, Math.max(1, Math.ceil((now - startMs) / DAY_MS)));
+  const { events, unused } = journalEvents(
+    s,
+    entries.filter((e) => e.doneAt >= startMs),
+    startMs,
+  );
+  const scenario: Scenario = {
+    ...s,
+    run: { ...s.run, lengthDays, outputIntervalDays: Math.min(s.run.outputIntervalDays, 0.25) },
+  };
+  // A journal of weeks runs in milliseconds: on the request thread, with the request bounds.
+  const result = simulate(scenario, { ...REQUEST_RUN_LIMITS, events });
+  return { startMs, lengthDays, result, unused };
+}
+
+export type Forecast =
+  | { kind: "below"; horizonDays: number }
+  | { kind: "crosses"; crossMs: number; high: number; fix: { share: number; byMs: number } | null };
+
+const FORECAST_DAYS = 60;
+
+/**
+ * From today forward under the planned schedule (the scenario's timetable, resumed from the last
+ * logged water change): when nitrate crosses the upper target, and the smallest extra water
+ * change two days before that keeps it under until the next planned change (or for a week).
+ */
+export function forecastJournal(s: Scenario, entries: readonly JournalEntry[], now = Date.now()): Forecast | null {
+  if (entries.length === 0) return null;
+  const startMs = startOfDay(Math.max(entries[0].doneAt, now - MAX_DAYS * DAY_MS));
+  const today = Math.max(1, Math.ceil((now - startMs) / DAY_MS));
+  const total = Math.min(MAX_DAYS, today + FORECAST_DAYS);
+  const { events } = journalEvents(
+    s,
+    entries.filter((e) => e.doneAt >= startMs && e.doneAt <= now),
+    startMs,
+  );
+  const lastChange = Math.max(-Infinity, ...events.filter((e) => e.kind === "waterChange").map((e) => e.day));
+  const resumeFrom = Number.isFinite(lastChange) ? lastChange : today;
+  const planned = plannedEvents(s, total, resumeFrom).filter((e) => e.day >= today);
+  const scenario: Scenario = { ...s, run: { ...s.run, lengthDays: total, outputIntervalDays: 0.25 } };
+  const run = (extra: TankEventInput[]) =>
+    simulate(scenario, { ...REQUEST_RUN_LIMITS, events: [...events, ...planned, ...extra] });
+  const high = s.targets.nitrateHigh;
+  const firstAbove = (r: SimulationResult, from: number, to: number) =>
+    r.series.t.findIndex((t, k) => t >= from && t <= to && r.series.no3[k] > high);
+  const base = run([]);
+  const k = firstAbove(base, today, total);
+  if (k < 0) return { kind: "below", horizonDays: total - today };
+  const crossDay = base.series.t[k];
+  const fixDay = Math.max(today, Math.floor(crossDay) - 2);
+  // Until the next planned change, or a week when none is planned (model choice, no source).
+  const nextPlanned =
+    planned.find((e) => e.kind === "waterChange" && e.day > fixDay)?.day ?? Math.min(total, fixDay + 7);
+  let fix = null;
+  for (let share = 0.1; share <= 0.9 + 1e-9; share += 0.1) {
+    const r = run([{ kind: "waterChange", day: fixDay, fraction: share }]);
+    if (firstAbove(r, fixDay, nextPlanned) < 0) {
+      fix = { share: Math.round(share * 100) / 100, byMs: startMs + fixDay * DAY_MS };
+      break;
+    }
+  }
+  return { kind: "crosses", crossMs: startMs + crossDay * DAY_MS, high, fix };
+}

@@ -1,0 +1,128 @@
+/**
+ * The journal's rows: listing, adding (one or all of a file's rows in one transaction), editing
+ * and deleting, always within the owner's tank (the caller has checked the tank is theirs).
+ */
+import { and, asc, eq } from "drizzle-orm";
+import { getDb, type Db } from "~/db/client.server";
+import { journalEntries } from "~/db/schema";
+import {
+  ENTRY_FIELDS,
+  MAX_JOURNAL_NOTE,
+  readEntryFields,
+  type EntryDetails,
+  type EntryInput,
+  type EntryKind,
+} from "~/features/journal/journal-entries";
+import { checkTakenAt } from "~/features/readings/readings.server";
+import { parseDateTime } from "~/utils/dates";
+
+export type JournalEntry = {
+  id: number;
+  doneAt: number;
+  kind: EntryKind;
+  details: EntryDetails;
+  note: string;
+};
+
+const MAX_ENTRIES_PER_TANK = 20_000;
+
+/** Entries oldest first. */
+export function listJournal(tankId: number): JournalEntry[] {
+  return getDb()
+    .select()
+    .from(journalEntries)
+    .where(eq(journalEntries.tankId, tankId))
+    .orderBy(asc(journalEntries.doneAt), asc(journalEntries.id))
+    .all()
+    .map((r) => ({
+      id: r.id,
+      doneAt: r.doneAt.getTime(),
+      kind: r.kind as EntryKind,
+      details: r.details as EntryDetails,
+      note: r.note,
+    }));
+}
+
+type Tx = Parameters<Parameters<Db["transaction"]>[0]>[0];
+
+export class JournalFull extends Error {}
+
+/** Adds entries in the caller's transaction (all or none). */
+function insertEntries(tx: Tx, tankId: number, entries: readonly EntryInput[]): number[] {
+  const have = tx
+    .select({ id: journalEntries.id })
+    .from(journalEntries)
+    .where(eq(journalEntries.tankId, tankId))
+    .all().length;
+  if (have + entries.length > MAX_ENTRIES_PER_TANK) {
+    throw new JournalFull(`A tank's journal holds at most ${MAX_ENTRIES_PER_TANK.toLocaleString("en")} entries.`);
+  }
+  return entries.map(
+    (e) =>
+      tx
+        .insert(journalEntries)
+        .values({ tankId, doneAt: new Date(e.doneAt), kind: e.kind, details: e.details, note: e.note })
+        .returning({ id: journalEntries.id })
+        .get().id,
+  );
+}
+
+export function addEntries(tankId: number, entries: readonly EntryInput[]): number[] {
+  return getDb().transaction((tx) => insertEntries(tx, tankId, entries));
+}
+
+/** Replaces an entry of this tank; false if there is none with that id. */
+export function updateEntry(tankId: number, id: number, e: EntryInput): boolean {
+  const r = getDb()
+    .update(journalEntries)
+    .set({ doneAt: new Date(e.doneAt), kind: e.kind, details: e.details, note: e.note })
+    .where(and(eq(journalEntries.id, id), eq(journalEntries.tankId, tankId)))
+    .run();
+  return r.changes === 1;
+}
+
+export function deleteEntry(tankId: number, id: number): boolean {
+  const r = getDb()
+    .delete(journalEntries)
+    .where(and(eq(journalEntries.id, id), eq(journalEntries.tankId, tankId)))
+    .run();
+  return r.changes === 1;
+}
+
+/**
+ * One entry from text fields (a form or an API body): `date`, `kind`, the kind's fields, `note`.
+ * Field errors by name, or the entry.
+ */
+export function readEntry(
+  fields: Record<string, unknown>,
+  now = Date.now(),
+): { ok: true; entry: EntryInput } | { ok: false; errors: Record<string, string> } {
+  const str = (k: string) => {
+    const v = fields[k];
+    return typeof v === "string" ? v : typeof v === "number" && Number.isFinite(v) ? String(v) : "";
+  };
+  const errors: Record<string, string> = {};
+  for (const [k, v] of Object.entries(fields)) {
+    if (v !== undefined && v !== null && typeof v !== "string" && typeof v !== "number")
+      errors[k] = "Must be text or a number";
+  }
+  const date = str("date");
+  const doneAt = parseDateTime(date);
+  if (date.trim() === "") errors.date = "The date is needed";
+  else if (doneAt === null) errors.date = "Write the date as 2026-03-01 or 2026-03-01T08:30";
+  else {
+    const bad = checkTakenAt(doneAt, now);
+    if (bad) errors.date = bad;
+  }
+  const note = str("note").trim();
+  if (note.length > MAX_JOURNAL_NOTE) errors.note = `At most ${MAX_JOURNAL_NOTE} characters`;
+  const read = readEntryFields(Object.fromEntries(["kind", ...ENTRY_FIELDS].map((k) => [k, str(k)])));
+  if (!read.ok) Object.assign(errors, read.errors);
+  if (Object.keys(errors).length || !read.ok || doneAt === null) return { ok: false, errors };
+  return { ok: true, entry: { doneAt, kind: read.kind, details: read.details, note } };
+}
+
+/** An entry in the API's JSON shape (canonical units, ISO time). */
+export function entryJson(e: JournalEntry) {
+  return { id: e.id, doneAt: new Date(e.doneAt).toISOString(), kind: e.kind, details: e.details, note: e.note };
+}

@@ -1,0 +1,168 @@
+/**
+ * The journal page's server side: the entries for the table, the "as it happened" curve of the
+ * chosen scenario with the readings over it, and the page's three actions (add, delete, upload).
+ */
+import { data } from "react-router";
+import { NO3_PER_N } from "~/features/journal/journal-chart";
+import { describeEntry, ENTRY_KINDS } from "~/features/journal/journal-entries";
+import { parseJournalCsv, MAX_JOURNAL_CSV_BYTES } from "~/features/journal/journal-csv.server";
+import {
+  hasCalendarFeed,
+  makeCalendarFeed,
+  revokeCalendarFeed,
+  upcomingTasks,
+} from "~/features/journal/calendar-feed.server";
+import { forecastJournal, replayJournal, type Forecast } from "~/features/journal/journal-replay.server";
+import { addEntries, deleteEntry, JournalFull, listJournal, readEntry } from "~/features/journal/journal.server";
+import { allReadings } from "~/features/readings/readings.server";
+import { readStoredSettings } from "~/features/runs/simulation.server";
+import { listScenarios, type TankRow } from "~/features/tanks/tanks.server";
+import { readUpload, UploadError } from "~/http/uploads.server";
+import { runProblem } from "~/http/pages.server";
+import { DAY_MS, formatDateTime } from "~/utils/dates";
+import type { CsvProblem } from "~/csv-read.server";
+
+export function journalPageData(tank: TankRow, scenarioParam: string | null, now = Date.now()) {
+  const entries = listJournal(tank.id);
+  const scenarios = listScenarios(tank.id);
+  const chosen = scenarios.find((s) => String(s.id) === scenarioParam) ?? scenarios[0] ?? null;
+  let replay = null;
+  let forecast: string | null = null;
+  let problem: string | null = null;
+  const settings = chosen ? readStoredSettings(chosen.settings) : null;
+  if (settings) {
+    try {
+      const r = replayJournal(settings, entries, now);
+      if (r) {
+        const readings = allReadings(tank.id)
+          .filter((x) => x.nitrate !== null && x.takenAt.getTime() >= r.startMs)
+          .map((x) => ({ day: (x.takenAt.getTime() - r.startMs) / DAY_MS, no3: x.nitrate! * NO3_PER_N }));
+        replay = {
+          startMs: r.startMs,
+          lengthDays: r.lengthDays,
+          t: r.result.series.t,
+          no3: r.result.series.no3.map((v) => v * NO3_PER_N),
+          high: settings.targets.nitrateHigh * NO3_PER_N,
+          readings,
+          unused: r.unused,
+        };
+        forecast = forecastSentence(forecastJournal(settings, entries, now));
+      }
+    } catch (error) {
+      problem = runProblem(error);
+      if (!problem) throw error;
+    }
+  }
+  return {
+    tank: { id: tank.id, name: tank.name },
+    scenarios: scenarios.map((s) => ({ id: s.id, name: s.name })),
+    scenarioId: chosen?.id ?? null,
+    entries: entries
+      .slice()
+      .reverse()
+      .map((e) => ({
+        id: e.id,
+        when: formatDateTime(e.doneAt),
+        kind: ENTRY_KINDS[e.kind],
+        what: describeEntry(e.kind, e.details),
+        note: e.note,
+      })),
+    replay,
+    forecast,
+    problem,
+    upcoming: settings
+      ? upcomingTasks(settings, entries, now, 21).map((t) => ({ title: t.title, when: dayText(t.atMs) }))
+      : [],
+    calendarOn: hasCalendarFeed(tank.id),
+  };
+}
+
+const dayText = (ms: number) =>
+  new Date(ms).toLocaleDateString("en-GB", { day: "numeric", month: "long", timeZone: "UTC" });
+const no3Text = (mgN: number) => `${Math.round(mgN * NO3_PER_N)} mg/L NO3`;
+
+/** "Nitrate reaches 40 mg/L NO3 around 14 December; a 40 % change by 12 December keeps it below 40 mg/L NO3." */
+function forecastSentence(f: Forecast | null): string | null {
+  if (!f) return null;
+  if (f.kind === "below")
+    return `Under your planned schedule nitrate stays below your upper target for the next ${f.horizonDays} days.`;
+  const cross = `Nitrate reaches ${no3Text(f.high)} around ${dayText(f.crossMs)}`;
+  if (!f.fix)
+    return `${cross}; even a 90 % change two days before does not keep it below: look at feeding and the plan.`;
+  return `${cross}; a ${Math.round(f.fix.share * 100)} % change by ${dayText(f.fix.byMs)} keeps it below ${no3Text(f.high)} until the next planned change (or for a week).`;
+}
+
+export type JournalAnswer = {
+  intent: string;
+  errors?: Record<string, string>;
+  values?: Record<string, string>;
+  message?: string;
+  problems?: CsvProblem[];
+  more?: number;
+  stored?: number;
+  calendarUrl?: string;
+};
+
+const refuse = (a: JournalAnswer, status = 400) => data(a, { status });
+
+export async function journalAction(request: Request, tank: TankRow) {
+  const type = request.headers.get("content-type") ?? "";
+  if (type.startsWith("multipart/form-data")) {
+    let upload;
+    try {
+      upload = await readUpload(request, MAX_JOURNAL_CSV_BYTES);
+    } catch (error) {
+      if (error instanceof UploadError) return refuse({ intent: "upload", message: error.message });
+      throw error;
+    }
+    if (!upload.file || upload.file.text.trim() === "")
+      return refuse({ intent: "upload", message: "Choose a CSV file to upload." });
+    const parsed = parseJournalCsv(upload.file.text);
+    if (!parsed.ok)
+      return refuse({ intent: "upload", message: parsed.message, problems: parsed.problems, more: parsed.more });
+    try {
+      addEntries(tank.id, parsed.entries);
+    } catch (error) {
+      if (error instanceof JournalFull) return refuse({ intent: "upload", message: error.message }, 413);
+      throw error;
+    }
+    return { intent: "upload", stored: parsed.entries.length } satisfies JournalAnswer;
+  }
+  const form = await request.formData();
+  const intent = String(form.get("intent") ?? "");
+  if (intent === "delete") {
+    const id = Number(form.get("entryId"));
+    if (!Number.isInteger(id) || !deleteEntry(tank.id, id))
+      return refuse({ intent, message: "That entry is not in this journal." }, 404);
+    return { intent, message: "Entry deleted." } satisfies JournalAnswer;
+  }
+  if (intent === "calendar-on") {
+    const scenario = listScenarios(tank.id).find((x) => String(x.id) === String(form.get("scenarioId") ?? ""));
+    if (!scenario) return refuse({ intent, message: "Choose the scenario that describes this tank." });
+    const token = makeCalendarFeed(tank.id, scenario.id);
+    const origin = new URL(request.url).origin;
+    return {
+      intent,
+      message: "Calendar address made. Add it to your phone's calendar as a subscription.",
+      calendarUrl: `${origin}/calendar/${token}.ics`,
+    } satisfies JournalAnswer;
+  }
+  if (intent === "calendar-off") {
+    revokeCalendarFeed(tank.id);
+    return { intent, message: "The calendar address is turned off." } satisfies JournalAnswer;
+  }
+  if (intent !== "add") return refuse({ intent, message: "Unknown action." });
+  const values = Object.fromEntries([...form.entries()].filter(([, v]) => typeof v === "string")) as Record<
+    string,
+    string
+  >;
+  const read = readEntry(values);
+  if (!read.ok) return refuse({ intent, errors: read.errors, values });
+  try {
+    addEntries(tank.id, [read.entry]);
+  } catch (error) {
+    if (error instanceof JournalFull) return refuse({ intent, message: error.message, values }, 413);
+    throw error;
+  }
+  return { intent, message: `${ENTRY_KINDS[read.entry.kind]} added to the journal.` } satisfies JournalAnswer;
+}

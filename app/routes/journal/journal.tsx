@@ -1,0 +1,300 @@
+import { useState } from "react";
+import { Form, Link, useNavigation } from "react-router";
+import type { Route } from "./+types/journal";
+import { Breadcrumbs } from "~/components/breadcrumbs";
+import { FormMessage, SelectField, TextField } from "~/components/ui/field";
+import { replayPaths } from "~/features/journal/journal-chart";
+import {
+  ENTRY_KINDS,
+  FIELD_LABELS,
+  KIND_FIELDS,
+  THOROUGHNESS,
+  type EntryKind,
+} from "~/features/journal/journal-entries";
+import { requireOwnedTank } from "~/features/tanks/tanks.server";
+import { requireUser } from "~/permissions.server";
+import { journalAction, journalPageData, type JournalAnswer } from "~/routes/journal/journal-page.server";
+import { formatDate } from "~/utils/dates";
+
+export const meta: Route.MetaFunction = ({ data }) => [{ title: `Journal · ${data?.tank.name ?? "Tank"} · Fernwater` }];
+
+export async function loader({ request, params }: Route.LoaderArgs) {
+  const user = await requireUser(request);
+  const tank = requireOwnedTank(user.id, params.tankId);
+  return journalPageData(tank, new URL(request.url).searchParams.get("scenario"));
+}
+
+export async function action({ request, params }: Route.ActionArgs) {
+  const user = await requireUser(request);
+  const tank = requireOwnedTank(user.id, params.tankId);
+  return journalAction(request, tank);
+}
+
+function ReplayChart({ replay }: { replay: NonNullable<Route.ComponentProps["loaderData"]["replay"]> }) {
+  const W = 720;
+  const H = 260;
+  const p = replayPaths(replay, W, H);
+  return (
+    <figure>
+      <svg
+        viewBox={`0 0 ${W} ${H}`}
+        role="img"
+        aria-label="Nitrate as it happened, mg/L NO3, with test readings"
+        className="w-full"
+      >
+        {p.yTicks.map((t) => (
+          <g key={t.label}>
+            <line x1={40} x2={W - 10} y1={t.y} y2={t.y} stroke="#e7e5e4" />
+            <text x={34} y={t.y + 4} textAnchor="end" fontSize={11}>
+              {t.label}
+            </text>
+          </g>
+        ))}
+        {p.xTicks.map((t) => (
+          <text key={t.label} x={t.x} y={H - 6} textAnchor="middle" fontSize={11}>
+            {t.label}
+          </text>
+        ))}
+        <line x1={40} x2={W - 10} y1={p.highY} y2={p.highY} stroke="#b45309" strokeDasharray="6 4" />
+        <path d={p.path} fill="none" stroke="#0f766e" strokeWidth={2} data-testid="as-it-happened" />
+        {p.dots.map((d, i) => (
+          <circle key={i} cx={d.cx} cy={d.cy} r={4} fill="#1c1917" />
+        ))}
+      </svg>
+      <figcaption className="text-sm text-stone-600">
+        Nitrate (mg/L NO3) over the days since {formatDate(replay.startMs)}; dots are your test readings, the dashed
+        line your upper target. This is a model, not a water test: test your water before acting on it.
+      </figcaption>
+    </figure>
+  );
+}
+
+function EntryForm({ answer }: { answer: JournalAnswer | undefined }) {
+  const values = answer?.intent === "add" ? (answer.values ?? {}) : {};
+  const errors = answer?.intent === "add" ? (answer.errors ?? {}) : {};
+  const [kind, setKind] = useState<EntryKind>((values.kind as EntryKind) || "water_change");
+  const busy = useNavigation().state === "submitting";
+  return (
+    <Form
+      method="post"
+      className="space-y-3"
+      key={answer?.intent === "add" && !answer.errors ? answer.message : "form"}
+    >
+      <input type="hidden" name="intent" value="add" />
+      <div className="grid gap-3 sm:grid-cols-2">
+        <TextField
+          label="Date"
+          name="date"
+          type="date"
+          required
+          defaultValue={values.date ?? formatDate(Date.now())}
+          error={errors.date}
+        />
+        <SelectField
+          label="What was done"
+          name="kind"
+          value={kind}
+          onChange={(e) => setKind(e.target.value as EntryKind)}
+          options={Object.entries(ENTRY_KINDS).map(([value, label]) => ({ value, label }))}
+          error={errors.kind}
+        />
+        {KIND_FIELDS[kind].map((f) =>
+          f === "filter_thoroughness" ? (
+            <SelectField
+              key={f}
+              label={FIELD_LABELS[f]}
+              name={f}
+              defaultValue={values[f] ?? "thorough"}
+              options={Object.entries(THOROUGHNESS).map(([value, label]) => ({ value, label }))}
+              error={errors[f]}
+            />
+          ) : (
+            <TextField
+              key={f}
+              label={FIELD_LABELS[f]}
+              name={f}
+              defaultValue={values[f] ?? ""}
+              error={errors[f]}
+              inputMode={f === "plant_group" ? "text" : "decimal"}
+            />
+          ),
+        )}
+        <TextField label="Note" name="note" defaultValue={values.note ?? ""} error={errors.note} maxLength={500} />
+      </div>
+      <button type="submit" className="btn btn-primary" disabled={busy}>
+        Add to the journal
+      </button>
+    </Form>
+  );
+}
+
+export default function JournalPage({ loaderData, actionData }: Route.ComponentProps) {
+  const { tank, scenarios, scenarioId, entries, replay, forecast, problem, upcoming, calendarOn } = loaderData;
+  const answer = actionData as JournalAnswer | undefined;
+  return (
+    <main className="mx-auto max-w-4xl space-y-8 p-4">
+      <Breadcrumbs
+        trail={[
+          { to: "/tanks", label: "Tanks" },
+          { to: `/tanks/${tank.id}`, label: tank.name },
+        ]}
+        current="Journal"
+      />
+      <h1 className="text-2xl font-semibold">Journal of {tank.name}</h1>
+      <p className="text-stone-700">
+        What you actually did and when. The model replays it “as it happened” from the first entry to today.
+      </p>
+      {answer?.message ? (
+        <FormMessage tone={answer.errors || answer.problems ? "error" : "success"}>{answer.message}</FormMessage>
+      ) : null}
+      {answer?.stored ? <FormMessage tone="success">{answer.stored} entries added from the file.</FormMessage> : null}
+      {answer?.problems?.length ? (
+        <ul className="list-disc pl-5 text-sm" aria-label="Rows that need attention">
+          {answer.problems.map((p, i) => (
+            <li key={i}>
+              Line {p.line}: {p.message}
+            </li>
+          ))}
+          {answer.more ? <li>…and {answer.more} more.</li> : null}
+        </ul>
+      ) : null}
+
+      <section className="space-y-3">
+        <h2 className="text-xl font-semibold">As it happened</h2>
+        {scenarios.length > 1 ? (
+          <Form method="get" className="flex items-end gap-2">
+            <SelectField
+              label="Scenario that describes this tank"
+              name="scenario"
+              defaultValue={String(scenarioId)}
+              options={scenarios.map((s) => ({ value: String(s.id), label: s.name }))}
+            />
+            <button className="btn" type="submit">
+              Show
+            </button>
+          </Form>
+        ) : null}
+        {problem ? <FormMessage>{problem}</FormMessage> : null}
+        {replay ? (
+          <ReplayChart replay={replay} />
+        ) : (
+          <p className="text-stone-600">
+            {scenarioId
+              ? "Add an entry to see the model follow your tank."
+              : "Add a scenario describing this tank first."}
+          </p>
+        )}
+        {forecast ? (
+          <div className="rounded border border-stone-300 p-3" data-testid="forecast">
+            <h3 className="font-semibold">Forecast</h3>
+            <p>{forecast}</p>
+            <p className="text-sm text-stone-600">
+              A forecast is a model, not a water test: test your water before and after acting on it, and ask an
+              experienced keeper or a vet if fish show stress.
+            </p>
+          </div>
+        ) : null}
+        {replay?.unused.map((u) => (
+          <p key={u} className="text-sm text-amber-800">
+            {u}
+          </p>
+        ))}
+      </section>
+
+      <section className="space-y-3">
+        <h2 className="text-xl font-semibold">Upcoming</h2>
+        {upcoming.length ? (
+          <ul className="list-disc pl-5" aria-label="Planned tasks in the next three weeks">
+            {upcoming.map((u, i) => (
+              <li key={i}>
+                {u.when}: {u.title}
+              </li>
+            ))}
+          </ul>
+        ) : (
+          <p className="text-stone-600">Nothing planned in the next three weeks.</p>
+        )}
+        {answer?.calendarUrl ? (
+          <p className="text-sm">
+            Your calendar address (shown once; keep it private): <code className="break-all">{answer.calendarUrl}</code>
+          </p>
+        ) : null}
+        <Form method="post" className="flex gap-2">
+          <input type="hidden" name="scenarioId" value={String(scenarioId ?? "")} />
+          <button className="btn" name="intent" value="calendar-on" type="submit" disabled={!scenarioId}>
+            {calendarOn ? "Make a new calendar address" : "Subscribe in a calendar"}
+          </button>
+          {calendarOn ? (
+            <button className="btn-secondary" name="intent" value="calendar-off" type="submit">
+              Turn the calendar address off
+            </button>
+          ) : null}
+        </Form>
+      </section>
+
+      <section className="space-y-3">
+        <h2 className="text-xl font-semibold">Add an entry</h2>
+        <EntryForm answer={answer} />
+      </section>
+
+      <section className="space-y-3">
+        <h2 className="text-xl font-semibold">Entries</h2>
+        {entries.length === 0 ? (
+          <p className="text-stone-600">No entries yet.</p>
+        ) : (
+          <table className="w-full text-sm">
+            <thead>
+              <tr className="text-left">
+                <th>Date</th>
+                <th>What</th>
+                <th>Details</th>
+                <th>Note</th>
+                <th />
+              </tr>
+            </thead>
+            <tbody>
+              {entries.map((e) => (
+                <tr key={e.id} className="border-t border-stone-200">
+                  <td className="figure">{e.when}</td>
+                  <td>{e.kind}</td>
+                  <td>{e.what}</td>
+                  <td>{e.note}</td>
+                  <td>
+                    <Form method="post">
+                      <input type="hidden" name="intent" value="delete" />
+                      <input type="hidden" name="entryId" value={e.id} />
+                      <button
+                        type="submit"
+                        className="text-red-800 underline"
+                        aria-label={`Delete the entry of ${e.when}`}
+                      >
+                        Delete
+                      </button>
+                    </Form>
+                  </td>
+                </tr>
+              ))}
+            </tbody>
+          </table>
+        )}
+      </section>
+
+      <section className="space-y-3">
+        <h2 className="text-xl font-semibold">CSV</h2>
+        <p className="text-sm text-stone-700">
+          <Link to={`/tanks/${tank.id}/journal/export`} reloadDocument className="underline">
+            Download the journal as CSV
+          </Link>{" "}
+          — the same columns upload again. A file is stored whole or not at all; every row that needs attention is named
+          by its line.
+        </p>
+        <Form method="post" encType="multipart/form-data" className="flex items-end gap-2">
+          <input type="file" name="file" accept=".csv,text/csv" aria-label="Journal CSV file" required />
+          <button type="submit" className="btn">
+            Upload
+          </button>
+        </Form>
+      </section>
+    </main>
+  );
+}

@@ -1,0 +1,33 @@
+import { describe, expect, it } from "vitest";
+import { DEMO, expectNoConsoleErrors, newPage, shot, signIn, useBrowser } from "./support/browser";
+
+useBrowser();
+
+const DAY = 86_400_000;
+const isoDay = (daysAgo: number) =>
+  new Date(Math.floor(Date.now() / DAY) * DAY - daysAgo * DAY).toISOString().slice(0, 10);
+
+describe("the tank journal in the browser", () => {
+  it("logs a 50 % water change and the 'as it happened' curve follows it, with a forecast", async () => {
+    const page = await newPage();
+    await signIn(page, DEMO.jonah, DEMO.password);
+    await page.goto("/tanks");
+    await page.getByRole("link", { name: "Living-room 120" }).first().click();
+    await page.waitForURL(/\/tanks\/\d+$/);
+    await page.getByRole("link", { name: "Journal" }).click();
+    await page.waitForURL(/\/journal$/);
+    const curve = page.getByTestId("as-it-happened");
+    const before = await curve.getAttribute("d");
+    await expect(page.getByTestId("forecast").textContent()).resolves.toMatch(/model, not a water test/);
+
+    await page.getByLabel("Date").fill(isoDay(2));
+    await page.getByLabel("Water changed, %").fill("50");
+    await page.getByRole("button", { name: "Add to the journal" }).click();
+    await page.getByText("Water change added to the journal.").waitFor();
+    await page.getByRole("cell", { name: "50 % changed" }).waitFor();
+    const after = await page.getByTestId("as-it-happened").getAttribute("d");
+    expect(after).not.toBe(before);
+    await shot(page, "journal-after-water-change");
+    expectNoConsoleErrors(page);
+  });
+});
