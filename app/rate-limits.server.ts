@@ -32,6 +32,12 @@ export const LIMITS = {
   savesPerPerson: { points: 30, seconds: 60 },
   /** What-if previews per person. */
   previewsPerPerson: { points: 60, seconds: 60 },
+  /**
+   * Model runs of one person in flight at once, across every app process: taken when a run
+   * starts, given back when it ends. The window only frees a count a stopped process never gave
+   * back (a run takes at most a few seconds).
+   */
+  runsInFlightPerPerson: { points: 2, seconds: 60 },
 } as const satisfies Record<string, Limit>;
 
 export type LimitName = keyof typeof LIMITS;
@@ -101,6 +107,11 @@ export async function waitFor(name: LimitName, key: string): Promise<number> {
   const state = await limiter(name).get(key);
   if (!state || state.consumedPoints < LIMITS[name].points) return 0;
   return Math.max(1, Math.ceil(state.msBeforeNext / 1000));
+}
+
+/** Forgets the counts of one limit (tests). */
+export function resetLimit(name: LimitName): void {
+  getDb().$client.prepare("DELETE FROM rate_limits WHERE key LIKE ?").run(`${name}:%`);
 }
 
 /** Forgets every count (tests). */

@@ -3,6 +3,7 @@ import { getDb } from "~/db/client.server";
 import { users } from "~/db/schema";
 import { seedDemoData } from "~/db/seed.server";
 import { getEnv, redirectMailTo } from "~/env.server";
+import { abandonLocalJobs } from "~/features/jobs/jobs.server";
 import { startFakeSmtp, type FakeSmtp } from "~/mail/fake-smtp.server";
 
 /**
@@ -30,6 +31,7 @@ export async function boot(log: (line: string) => void = console.log): Promise<(
     }
   }
   return async () => {
+    abandonLocalJobs();
     await fake?.close();
   };
 }
