@@ -42,9 +42,9 @@ export type Job<R = unknown, P = unknown> = {
 
 /** How often a process refreshes the heartbeat of its jobs, and when a silent job counts as lost. */
 export const HEARTBEAT_MS = 2_000;
-export const LOST_AFTER_MS = 15_000;
+const LOST_AFTER_MS = 15_000;
 
-export const LOST_MESSAGE =
+const LOST_MESSAGE =
   "The server process running this job stopped before it finished. Nothing was saved; start it again.";
 
 const ACTIVE: JobStatus[] = ["waiting", "running"];
@@ -101,7 +101,7 @@ export function readJobRow(id: string): JobRow | null {
   return row;
 }
 
-export function writeJobRow(id: string, fields: Partial<Omit<JobRow, "id" | "userId" | "kind">>): void {
+function writeJobRow(id: string, fields: Partial<Omit<JobRow, "id" | "userId" | "kind">>): void {
   getDb().update(jobs).set(fields).where(eq(jobs.id, id)).run();
 }
 
