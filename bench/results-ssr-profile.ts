@@ -60,7 +60,7 @@ export async function run() {
   if (previous === undefined) delete process.env.SERVER_CPU_PROFILE_DIR;
   else process.env.SERVER_CPU_PROFILE_DIR = previous;
   const lines = ["results page SSR profile (built server, 20 connections, gzip)"];
-  let pages = 0;
+  let pages: number;
   try {
     const cookie = await signInOverHttp(server.baseURL, "jonah@tidewell.example", "tidewell-demo-2026");
     const headers = { Cookie: cookie, Origin: server.baseURL };
