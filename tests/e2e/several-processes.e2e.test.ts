@@ -125,6 +125,37 @@ describe("two app processes on one port", () => {
     expect((await request("POST", `/api/scenarios/${scenarioId}/sweeps`, { cookie, body: SWEEP })).status).toBe(202);
   }, 60_000);
 
+  it("saves from three people at once on both processes without a database error", async () => {
+    const people = await Promise.all(
+      ["jonah@tidewell.example", "ines@tidewell.example", "teacher@tidewell.example"].map((email) => signInOverHttp(server.baseURL, email, PASSWORD)),
+    );
+    const targets = await Promise.all(
+      people.map(async (cookie) => {
+        const tanks = JSON.parse((await request("GET", "/api/tanks", { cookie })).body).tanks as { id: number }[];
+        return { cookie, tankId: tanks[0].id };
+      }),
+    );
+    const statuses: number[] = [];
+    const seen = new Set<string>();
+    for (let round = 0; round < 4; round++) {
+      const answers = await Promise.all(
+        targets.flatMap(({ cookie, tankId }) =>
+          [0, 1].map((i) =>
+            request("POST", `/api/tanks/${tankId}/scenarios`, {
+              cookie,
+              body: JSON.stringify({ name: `Two processes ${round}.${i}`, settings: { run: { lengthDays: 30 } } }),
+            }),
+          ),
+        ),
+      );
+      answers.forEach((a) => (statuses.push(a.status), seen.add(a.instance)));
+    }
+    expect(seen.size).toBe(2);
+    // Read-then-write transactions from two processes: each waits for the lock, none fails with SQLITE_BUSY.
+    expect(statuses.filter((s) => s >= 500)).toEqual([]);
+    expect(statuses.filter((s) => s === 201).length).toBeGreaterThanOrEqual(20);
+  }, 60_000);
+
   it("counts a burst of wrong sign-ins against one limit across both processes", async () => {
     const body = new URLSearchParams({ email: "teacher@tidewell.example", password: "not-the-password" }).toString();
     const answers = await Promise.all(Array.from({ length: 30 }, () => request("POST", "/sign-in", { body, form: true })));
