@@ -24,7 +24,7 @@ export default defineConfig({
           name: "integration",
           include: ["tests/integration/**/*.test.ts"],
           // A fresh SQLite file and mail folder for every test file (see the setup file).
-          setupFiles: ["tests/support/integration-env.ts"],
+          setupFiles: ["tests/support/integration-env.ts", "tests/support/queue-worker.ts"],
         },
       },
       {

@@ -21,6 +21,8 @@ const EnvSchema = z
     APP_URL: z.string().url().optional(),
     PORT: z.coerce.number().int().min(0).max(65535).default(3000),
     SEED_IF_EMPTY: z.enum(["0", "1"]).optional(),
+    /** Redis for the job queue (BullMQ): sweeps, calibrations and target searches then run on `npm run worker` processes. */
+    REDIS_URL: z.string().regex(/^rediss?:\/\//, "REDIS_URL must start with redis:// or rediss://").optional(),
   })
   .transform((raw) => {
     const mode = raw.FERNWATER_MODE ?? (raw.NODE_ENV === "production" ? "production" : "local");

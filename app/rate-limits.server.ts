@@ -1,12 +1,15 @@
 /**
- * Every rate limit of Fernwater in one place (the README's "Reliability" lists them). In memory:
- * one app process holds the counts (README, "Scale on paper").
+ * Every rate limit of Fernwater in one place (the README's "Reliability" lists them). The counts
+ * live in the database (`rate_limits`, rate-limiter-flexible's SQLite store on better-sqlite3),
+ * so every app process on the machine counts against the same limit (README, "Scale on paper").
+ * Each take is one upsert in a transaction: two processes cannot both take the last point.
  *
  * Limits are counted before the work they guard — a request takes its point first and gives it
  * back if the limit was not meant for it (a successful sign-in) — so a burst of parallel
  * requests cannot all pass a check that only counted finished attempts.
  */
-import { RateLimiterMemory, RateLimiterRes } from "rate-limiter-flexible";
+import { RateLimiterRes, RateLimiterSQLite } from "rate-limiter-flexible";
+import { getDb } from "~/db/client.server";
 
 type Limit = { points: number; seconds: number };
 
@@ -29,15 +32,39 @@ export const LIMITS = {
   savesPerPerson: { points: 30, seconds: 60 },
   /** What-if previews per person. */
   previewsPerPerson: { points: 60, seconds: 60 },
+  /**
+   * Model runs of one person in flight at once, across every app process: taken when a run
+   * starts, given back when it ends. The window only frees a count a stopped process never gave
+   * back (a run takes at most a few seconds).
+   */
+  runsInFlightPerPerson: { points: 2, seconds: 60 },
 } as const satisfies Record<string, Limit>;
 
 export type LimitName = keyof typeof LIMITS;
 
-const limiters = new Map<LimitName, RateLimiterMemory>();
-function limiter(name: LimitName): RateLimiterMemory {
+const limiters = new Map<LimitName, RateLimiterSQLite>();
+let limitersClient: unknown = null;
+function limiter(name: LimitName): RateLimiterSQLite {
+  const client = getDb().$client;
+  // A reopened database (tests, restore) needs limiters bound to the new connection.
+  if (client !== limitersClient) {
+    limiters.clear();
+    limitersClient = client;
+  }
   let l = limiters.get(name);
-  if (!l)
-    limiters.set(name, (l = new RateLimiterMemory({ points: LIMITS[name].points, duration: LIMITS[name].seconds })));
+  if (!l) {
+    l = new RateLimiterSQLite({
+      storeClient: client,
+      storeType: "better-sqlite3",
+      tableName: "rate_limits",
+      tableCreated: true, // by the migrations (drizzle/), not by the library
+      keyPrefix: name,
+      clearExpiredByTimeout: true, // the library's sweep of windows that ended an hour ago
+      points: LIMITS[name].points,
+      duration: LIMITS[name].seconds,
+    });
+    limiters.set(name, l);
+  }
   return l;
 }
 
@@ -82,8 +109,14 @@ export async function waitFor(name: LimitName, key: string): Promise<number> {
   return Math.max(1, Math.ceil(state.msBeforeNext / 1000));
 }
 
+/** Forgets the counts of one limit (tests). */
+export function resetLimit(name: LimitName): void {
+  getDb().$client.prepare("DELETE FROM rate_limits WHERE key LIKE ?").run(`${name}:%`);
+}
+
 /** Forgets every count (tests). */
 export function resetRateLimits(): void {
+  getDb().$client.prepare("DELETE FROM rate_limits").run();
   limiters.clear();
 }
 

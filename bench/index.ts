@@ -9,7 +9,9 @@ const benches: { name: string; load: () => Promise<{ run: () => unknown }> }[] =
   { name: "results page", load: () => import("./results-page") },
   { name: "share page", load: () => import("./share-page") },
   { name: "readings, calibration and sweeps", load: () => import("./readings-and-sweeps") },
-  { name: "load mix", load: () => import("./load-mix") },
+  { name: "results page SSR profile", load: () => import("./results-ssr-profile") },
+  { name: "load mix (1 and 2 app processes)", load: () => import("./load-mix") },
+  { name: "sweeps on the queue (1 and 2 workers)", load: () => import("./queue-sweeps") },
 ];
 
 for (const bench of benches) {

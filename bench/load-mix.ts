@@ -93,8 +93,15 @@ function cycle(k: Keeper, base: string) {
 }
 
 export async function run() {
-  const server = await startBuiltServer();
-  const lines = [`load mix: ${CONNECTIONS} connections, ${KEEPERS} keepers, ${DURATION_S} s (built server, loopback)`];
+  // The same mix against one app process and against two (WEB_CONCURRENCY, node:cluster), issue 15.
+  for (const processes of [1, 2]) await runWith(processes);
+}
+
+async function runWith(processes: number) {
+  const server = await startBuiltServer({ env: { WEB_CONCURRENCY: String(processes) } });
+  const lines = [
+    `load mix: ${CONNECTIONS} connections, ${KEEPERS} keepers, ${DURATION_S} s, ${processes} app process${processes > 1 ? "es" : ""} (built server, loopback)`,
+  ];
   try {
     const keepers: Keeper[] = [];
     for (let n = 0; n < KEEPERS; n++) keepers.push(await makeKeeper(server.baseURL, server.databaseFile, n));

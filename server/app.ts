@@ -11,9 +11,10 @@ import { RouterContextProvider } from "react-router";
 import * as build from "virtual:react-router/server-build";
 import { clientIpContext, cspNonceContext, peerAddressContext } from "~/context";
 import { getEnv } from "~/env.server";
+import { INSTANCE } from "~/instance.server";
 import { contentSecurityPolicy, crossSiteRefusal } from "~/security.server";
 
-export { boot } from "./boot";
+export { boot, prepareDatabase } from "./boot";
 export { closeDb } from "~/db/client.server";
 
 export const app = express();
@@ -28,6 +29,12 @@ app.use(
     crossOriginEmbedderPolicy: false,
   }),
 );
+// Which app process answered (several share the port, server/start.mjs): for logs and tests.
+app.use((_req, res, next) => {
+  res.setHeader("X-Fernwater-Instance", INSTANCE);
+  next();
+});
+
 app.use((_req, res, next) => {
   if (!import.meta.env.DEV) {
     res.locals.cspNonce = randomBytes(16).toString("base64");

@@ -3,7 +3,26 @@ import { getDb } from "~/db/client.server";
 import { users } from "~/db/schema";
 import { seedDemoData } from "~/db/seed.server";
 import { getEnv, redirectMailTo } from "~/env.server";
+import { abandonLocalJobs } from "~/features/jobs/jobs.server";
 import { startFakeSmtp, type FakeSmtp } from "~/mail/fake-smtp.server";
+
+/**
+ * Migrates the database and seeds the demo data into an empty one. With several app processes
+ * (server/start.mjs) the primary does this once before starting them, so they never race.
+ */
+export async function prepareDatabase(log: (line: string) => void = console.log): Promise<void> {
+  const env = getEnv();
+  const db = getDb();
+  log(`[fernwater] database ${env.DATABASE_URL} migrated`);
+  const seedIfEmpty = env.SEED_IF_EMPTY ? env.SEED_IF_EMPTY === "1" : env.mode === "local";
+  if (seedIfEmpty) {
+    const existing = db.select({ n: count() }).from(users).get()?.n ?? 0;
+    if (existing === 0) {
+      await seedDemoData(db);
+      log("[fernwater] empty database: demo data seeded (accounts are listed in README.md)");
+    }
+  }
+}
 
 /**
  * Everything that must happen before the first request: check the environment, start the
@@ -19,17 +38,9 @@ export async function boot(log: (line: string) => void = console.log): Promise<(
     redirectMailTo(fake.url);
     log(`[fernwater] mail goes to the local fake SMTP server at ${fake.url}; read it at /dev/mail`);
   }
-  const db = getDb();
-  log(`[fernwater] database ${env.DATABASE_URL} migrated`);
-  const seedIfEmpty = env.SEED_IF_EMPTY ? env.SEED_IF_EMPTY === "1" : env.mode === "local";
-  if (seedIfEmpty) {
-    const existing = db.select({ n: count() }).from(users).get()?.n ?? 0;
-    if (existing === 0) {
-      await seedDemoData(db);
-      log("[fernwater] empty database: demo data seeded (accounts are listed in README.md)");
-    }
-  }
+  await prepareDatabase(log);
   return async () => {
+    abandonLocalJobs();
     await fake?.close();
   };
 }

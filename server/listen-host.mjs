@@ -4,7 +4,7 @@
 // Plain JavaScript so server/start.mjs can use it before the build is loaded.
 
 /** The mode as app/env.server.ts decides it: FERNWATER_MODE, else production under NODE_ENV=production. */
-function modeOf(env) {
+export function modeOf(env) {
   const mode = env.FERNWATER_MODE || (env.NODE_ENV === "production" ? "production" : "local");
   return mode === "production" ? "production" : "local";
 }

@@ -1,98 +1,58 @@
 // Starts Fernwater: `node server/start.mjs` serves the build; `--dev` serves through Vite.
 // The port comes from PORT (default 3000); HOST defaults to 127.0.0.1 in local mode and to
 // 0.0.0.0 in production (server/listen-host.mjs).
+//
+// WEB_CONCURRENCY app processes share the port (node:cluster): by default one per core in
+// production, one in local mode and in dev. They share everything through the SQLite file
+// (rate limits, jobs, sessions); the primary only migrates the database and keeps them running.
+import cluster from "node:cluster";
+import os from "node:os";
 import path from "node:path";
 import { pathToFileURL } from "node:url";
-import compression from "compression";
-import express from "express";
-import { chooseListenHost } from "./listen-host.mjs";
+import { webConcurrency } from "./web-concurrency.mjs";
 
 const dev = process.argv.includes("--dev");
 if (!dev) process.env.NODE_ENV ??= "production";
+const processes = dev ? 1 : webConcurrency(process.env, os.availableParallelism());
 
-const buildDir = path.resolve(process.env.FERNWATER_BUILD_DIR ?? "build");
-const port = Number(process.env.PORT ?? 3000);
-const { host, note: hostNote } = chooseListenHost(process.env);
+if (processes > 1 && cluster.isPrimary) await runPrimary(processes);
+else await import("./serve.mjs");
 
-const server = express();
-server.disable("x-powered-by");
-server.set("trust proxy", process.env.TRUST_PROXY === "1" ? 1 : false);
-// Level 1: most of the saving for a fraction of the CPU (the request thread is the bottleneck).
-server.use(compression({ level: 1 }));
-
-// Requests slower than SLOW_REQUEST_MS (default 1 s) are logged: the first thing to look at
-// when people say the site is slow.
-const slowMs = Number(process.env.SLOW_REQUEST_MS ?? 1000);
-server.use((req, res, next) => {
-  const started = process.hrtime.bigint();
-  res.on("finish", () => {
-    const ms = Number(process.hrtime.bigint() - started) / 1e6;
-    if (ms >= slowMs) console.warn(`[fernwater] slow request: ${req.method} ${req.originalUrl.split("?")[0]} ${res.statusCode} ${ms.toFixed(0)} ms`);
-  });
-  next();
-});
-
-let appModule;
-let stopBoot;
-try {
-  ({ appModule, stopBoot } = await loadApp());
-} catch (error) {
-  // A wrong environment is the operator's to fix: one clear line, not a stack.
-  if (error && typeof error === "object" && error.name === "FernwaterConfigError") {
-    console.error(`[fernwater] ${error.message}`);
-    process.exit(1);
+async function runPrimary(count) {
+  const buildDir = path.resolve(process.env.FERNWATER_BUILD_DIR ?? "build");
+  try {
+    const loaded = await import(pathToFileURL(path.join(buildDir, "server/index.js")).href);
+    await loaded.prepareDatabase();
+    loaded.closeDb();
+  } catch (error) {
+    if (error && typeof error === "object" && error.name === "FernwaterConfigError") {
+      console.error(`[fernwater] ${error.message}`);
+      process.exit(1);
+    }
+    throw error;
   }
-  throw error;
-}
-
-/** Loads the app (through Vite in dev, else the build) and boots it; an environment problem throws FernwaterConfigError. */
-async function loadApp() {
-  let loaded;
-  if (dev) {
-    const vite = await import("vite");
-    const viteDev = await vite.createServer({ server: { middlewareMode: true } });
-    server.use(viteDev.middlewares);
-    loaded = await viteDev.ssrLoadModule("./server/app.ts");
-    server.use(async (req, res, next) => {
-      try {
-        const fresh = await viteDev.ssrLoadModule("./server/app.ts");
-        return fresh.app(req, res, next);
-      } catch (error) {
-        if (typeof error === "object" && error instanceof Error) viteDev.ssrFixStacktrace(error);
-        next(error);
-      }
-    });
-  } else {
-    loaded = await import(pathToFileURL(path.join(buildDir, "server/index.js")).href);
-    // Fingerprinted assets never change; everything else in public/ may.
-    server.use("/assets", express.static(path.join(buildDir, "client/assets"), { immutable: true, maxAge: "1y", index: false }));
-    // Other public files (favicon…) only for paths that look like files, so page requests skip the disk.
-    const publicFiles = express.static(path.join(buildDir, "client"), { maxAge: "1h", index: false });
-    server.use((req, res, next) => (/\.[a-z0-9]{2,5}$/i.test(req.path) && !req.path.endsWith(".data") ? publicFiles(req, res, next) : next()));
-    server.use(loaded.app);
-  }
-  return { appModule: loaded, stopBoot: await loaded.boot() };
-}
-
-const listener = server.listen(port, host, () => {
-  const address = listener.address();
-  const actualPort = typeof address === "object" && address ? address.port : port;
-  if (hostNote) console.log(hostNote);
-  const shown = host === "0.0.0.0" || host === "::" || host === "127.0.0.1" ? "localhost" : host.includes(":") ? `[${host}]` : host;
-  console.log(`[fernwater] listening on http://${shown}:${actualPort} (address ${host})`);
-});
-
-let stopping = false;
-async function shutdown(signal) {
-  if (stopping) return;
-  stopping = true;
-  console.log(`[fernwater] ${signal}: finishing open requests, then stopping`);
-  listener.close(async () => {
-    await stopBoot();
-    appModule.closeDb?.();
-    process.exit(0);
+  console.log(`[fernwater] starting ${count} app processes (WEB_CONCURRENCY)`);
+  let stopping = false;
+  const startedAt = new Map();
+  const fork = () => startedAt.set(cluster.fork().id, Date.now());
+  for (let i = 0; i < count; i++) fork();
+  cluster.on("exit", (worker, code, signal) => {
+    if (stopping) {
+      if (Object.keys(cluster.workers ?? {}).length === 0) process.exit(0);
+      return;
+    }
+    // One that dies is replaced; one that dies at once (a wrong environment) stops everything.
+    const lived = Date.now() - (startedAt.get(worker.id) ?? 0);
+    console.error(`[fernwater] app process ${worker.process.pid} stopped (${signal ?? code})`);
+    if (lived < 5000 && code === 1) process.exit(1);
+    fork();
   });
-  setTimeout(() => process.exit(0), 5000).unref();
+  const stop = (signal) => {
+    if (stopping) return;
+    stopping = true;
+    for (const worker of Object.values(cluster.workers ?? {})) worker?.process.kill(signal);
+    setTimeout(() => process.exit(0), 8000).unref();
+  };
+  process.on("SIGTERM", () => stop("SIGTERM"));
+  process.on("SIGINT", () => stop("SIGINT"));
 }
-process.on("SIGTERM", () => shutdown("SIGTERM"));
-process.on("SIGINT", () => shutdown("SIGINT"));

@@ -33,11 +33,23 @@ function migrateDb(db: Db): void {
   migrate(db, { migrationsFolder: path.resolve("drizzle") });
 }
 
+/**
+ * Transactions take the write lock when they begin ("immediate"), not at their first write.
+ * With several app processes on one file (server/start.mjs), a transaction that reads and then
+ * writes would otherwise fail at once with SQLITE_BUSY when another process wrote in between
+ * (WAL cannot upgrade a stale snapshot); taking the lock first lets busy_timeout wait instead.
+ */
+function immediateByDefault(db: Db): void {
+  const transaction = db.transaction.bind(db);
+  db.transaction = ((fn, config) => transaction(fn, { behavior: "immediate", ...config })) as Db["transaction"];
+}
+
 /** The one Drizzle client of the process, migrated on first use. */
 export function getDb(): Db {
   if (!instance) {
     const sqlite = openSqlite(databasePath(getEnv().DATABASE_URL));
     instance = drizzle(sqlite, { schema }) as Db;
+    immediateByDefault(instance);
     migrateDb(instance);
   }
   return instance;

@@ -332,3 +332,44 @@ export const lessonCopies = sqliteTable(
   },
   (t) => [uniqueIndex("lesson_copies_lesson_student_uq").on(t.lessonId, t.studentId)],
 );
+
+/**
+ * Rate-limit counters, shared by every app process (app/rate-limits.server.ts). The columns are
+ * the ones rate-limiter-flexible's SQLite store reads and writes: points taken, and when the
+ * window ends (ms since the epoch).
+ */
+export const rateLimits = sqliteTable("rate_limits", {
+  key: text("key").primaryKey(),
+  points: integer("points").notNull().default(0),
+  expire: integer("expire"),
+});
+
+/**
+ * Long engine jobs (sweeps, calibrations, target searches) and their progress, so any app
+ * process can answer a poll or a cancel (app/features/jobs/jobs.server.ts). `instance` is the
+ * process running it; it refreshes `heartbeatAt`, and a job whose heartbeat stops is failed.
+ */
+export const jobs = sqliteTable(
+  "jobs",
+  {
+    id: text("id").primaryKey(),
+    userId: integer("user_id").notNull(),
+    kind: text("kind", { enum: ["sweep", "calibration", "target"] }).notNull(),
+    label: text("label").notNull(),
+    params: text("params", { mode: "json" }),
+    status: text("status", { enum: ["waiting", "running", "done", "failed", "cancelled"] }).notNull(),
+    done: integer("done").notNull().default(0),
+    total: integer("total").notNull().default(0),
+    partial: text("partial", { mode: "json" }),
+    result: text("result", { mode: "json" }),
+    error: text("error"),
+    cancelRequested: integer("cancel_requested", { mode: "boolean" }).notNull().default(false),
+    instance: text("instance"),
+    attempts: integer("attempts").notNull().default(0),
+    startedAt: integer("started_at").notNull(),
+    ranAt: integer("ran_at"),
+    finishedAt: integer("finished_at"),
+    heartbeatAt: integer("heartbeat_at"),
+  },
+  (t) => [index("jobs_user_status_idx").on(t.userId, t.status), index("jobs_status_idx").on(t.status, t.startedAt)],
+);

@@ -1,3 +1,4 @@
+import os from "node:os";
 import { describe, expect, it } from "vitest";
 import { action as adminAction, loader as adminLoader } from "~/routes/admin/users";
 import { loader as healthLoader } from "~/routes/api/health";
@@ -46,7 +47,7 @@ describe("health, 404 and the local mail page", () => {
   it("reports the database and version", async () => {
     const result = await call(healthLoader, get("/api/health"));
     expect(result.status).toBe(200);
-    expect(result.data).toEqual({ status: "ok", version: "test", checks: { database: "ok" } });
+    expect(result.data).toEqual({ status: "ok", version: "test", instance: `${os.hostname()}:${process.pid}`, checks: { database: "ok" } });
   });
 
   it("answers unknown addresses with 404", async () => {

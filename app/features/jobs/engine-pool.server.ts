@@ -18,6 +18,8 @@ import fs from "node:fs";
 import os from "node:os";
 import Piscina, { queueOptionsSymbol, type TaskQueue } from "piscina";
 import { runEngineTask, type EngineTask, type EngineTaskResult } from "~/features/jobs/engine-tasks.server";
+import { queuePool } from "~/features/jobs/queue-pool.server";
+import { getEnv } from "~/env.server";
 
 export type Lane = "interactive" | "job";
 type RunOptions = { lane?: Lane; owner?: string };
@@ -218,9 +220,13 @@ export function createEnginePool(options: { workerUrl: URL | null; size?: number
 
 let pool: EnginePool | undefined;
 
-/** The process's pool, started on first use. */
+/** The process's pool, started on first use; with REDIS_URL its job lane runs on the queue. */
 export function getEnginePool(): EnginePool {
-  pool ??= createEnginePool({ workerUrl: builtWorkerUrl() });
+  if (!pool) {
+    const local = createEnginePool({ workerUrl: builtWorkerUrl() });
+    const redisUrl = getEnv().REDIS_URL;
+    pool = redisUrl ? queuePool(redisUrl, local) : local;
+  }
   return pool;
 }
 

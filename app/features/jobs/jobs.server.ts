@@ -11,12 +11,34 @@
  * job lane lets owners take turns, so jobs interleave instead of one person's fifty runs going
  * first. A job is cancelled between engine runs (a run already started finishes; its result is
  * dropped); a waiting job is cancelled at once.
+ *
+ * Several app processes: every job and its progress is also a row of the jobs table
+ * (app/features/jobs/job-rows.server.ts), so any process answers a poll or a cancel, and the
+ * one-job-per-person check holds across processes. The process that started a job runs it on its
+ * own pool and line; a cancel asked through another process reaches it between engine runs.
  */
 import type { Role } from "~/db/schema";
 import { getEnginePool } from "~/features/jobs/engine-pool.server";
+import {
+  abandonJobs,
+  beat,
+  cancelRequested,
+  deleteAllJobRows,
+  dropPendingWrites,
+  fromRow,
+  type Job,
+  persist,
+  HEARTBEAT_MS,
+  insertJobExclusive,
+  pruneJobRows,
+  readJobRow,
+  requestCancel,
+  waitingAhead,
+} from "~/features/jobs/job-rows.server";
+export type { Job } from "~/features/jobs/job-rows.server";
 import type { EngineTask, EngineTaskResult } from "~/features/jobs/engine-tasks.server";
 import { randomToken } from "~/utils/crypto.server";
-import type { JobJson, JobKind, JobStatus } from "~/features/jobs/job-json";
+import type { JobJson, JobKind } from "~/features/jobs/job-json";
 export type { JobJson, JobKind } from "~/features/jobs/job-json";
 
 export {
@@ -49,27 +71,6 @@ export const JOB_LIMITS = {
   keptPerUser: 5,
 } as const;
 
-export type Job<R = unknown, P = unknown> = {
-  id: string;
-  userId: number;
-  kind: JobKind;
-  label: string;
-  /** What the job was started with (the page redraws its form from it). */
-  params: unknown;
-  status: JobStatus;
-  done: number;
-  total: number;
-  /** Results so far (e.g. the sweep points already run), for drawing while it runs. */
-  partial: P | null;
-  result: R | null;
-  error: string | null;
-  /** When it was asked for (it may wait before it runs). */
-  startedAt: number;
-  /** When it left the line and began to run (null while waiting). */
-  ranAt: number | null;
-  finishedAt: number | null;
-  controller: AbortController;
-};
 
 /** A job refused before it started: 429 (your own limit) or 503 (the line is full). */
 export class JobRefused extends Error {
@@ -102,46 +103,59 @@ export type JobContext<P> = {
   progress(done: number, total?: number, partial?: P): void;
 };
 
+/** This process's jobs that are running or waiting (finished ones live in the table only). */
 const jobs = new Map<string, Job>();
-/** Jobs waiting to run, in the order they were asked for, with what starts them. */
+/** Jobs waiting to run here, in the order they were asked for, with what starts them. */
 const line: { job: Job; begin: () => void }[] = [];
 
 const isActive = (job: Job) => job.status === "running" || job.status === "waiting";
 
+let lastPrune = 0;
 function prune(now = Date.now()) {
-  const finishedByUser = new Map<number, Job[]>();
-  for (const job of jobs.values()) {
-    if (isActive(job)) continue;
-    if (now - (job.finishedAt ?? now) > JOB_LIMITS.keepFinishedMs) {
-      jobs.delete(job.id);
-      continue;
-    }
-    const list = finishedByUser.get(job.userId) ?? [];
-    list.push(job);
-    finishedByUser.set(job.userId, list);
-  }
-  for (const list of finishedByUser.values()) {
-    list.sort((a, b) => b.finishedAt! - a.finishedAt!);
-    for (const old of list.slice(JOB_LIMITS.keptPerUser)) jobs.delete(old.id);
-  }
+  if (now - lastPrune < 10_000) return;
+  lastPrune = now;
+  pruneJobRows(JOB_LIMITS.keepFinishedMs, JOB_LIMITS.keptPerUser, now);
 }
 
-/** This person's job that is running or waiting, if any. */
-function runningJobOf(userId: number): Job | null {
-  for (const job of jobs.values()) if (job.userId === userId && isActive(job)) return job;
-  return null;
+let heartbeat: NodeJS.Timeout | null = null;
+/** Keeps this process's jobs alive in the table while it has any (see job-rows.server.ts). */
+function keepBeating(): void {
+  if (jobs.size && !heartbeat) {
+    heartbeat = setInterval(() => {
+      if (!jobs.size) {
+        clearInterval(heartbeat!);
+        heartbeat = null;
+        return;
+      }
+      beat([...jobs.keys()]);
+    }, HEARTBEAT_MS);
+    heartbeat.unref();
+  }
 }
 
 function capacity(): number {
   return JOB_LIMITS.runningPerWorker * getEnginePool().size;
 }
 
-/** Starts waiting jobs while there is room, oldest first. */
+function runningHere(): number {
+  let n = 0;
+  for (const j of jobs.values()) if (j.status === "running") n++;
+  return n;
+}
+
+/** Starts waiting jobs while there is room, oldest first (skipping any cancelled through another process). */
 function admitWaiting(): void {
-  let running = [...jobs.values()].filter((j) => j.status === "running").length;
+  let running = runningHere();
   while (running < capacity() && line.length) {
     const next = line.shift()!;
     if (next.job.status !== "waiting") continue;
+    const row = readJobRow(next.job.id);
+    if (!row || row.status !== "waiting") {
+      next.job.status = row?.status ?? "cancelled";
+      next.job.finishedAt = row?.finishedAt ?? Date.now();
+      jobs.delete(next.job.id);
+      continue;
+    }
     running++;
     next.begin();
   }
@@ -149,8 +163,10 @@ function admitWaiting(): void {
 
 /** How many jobs are ahead of this one in line (0 when it is next, or running). */
 function jobsAhead(job: Job): number {
-  const i = line.findIndex((w) => w.job === job);
-  return i < 0 ? 0 : i;
+  if (job.status !== "waiting") return 0;
+  if (jobs.get(job.id) === job) return Math.max(0, line.findIndex((w) => w.job === job));
+  const row = readJobRow(job.id);
+  return row ? waitingAhead(row) : 0;
 }
 
 const KIND_WORDS: Record<JobKind, string> = {
@@ -169,22 +185,27 @@ export function startJob<R, P = unknown>(
 ): Job<R, P> {
   const { user, kind, label, total } = start;
   prune();
-  const mine = runningJobOf(user.id);
-  if (mine) {
+  const pool = getEnginePool();
+  const mustWait = runningHere() >= capacity() || line.length > 0;
+  const id = randomToken(12);
+  const startedAt = Date.now();
+  const inserted = insertJobExclusive(
+    { id, userId: user.id, kind, label, params: start.params ?? null, status: mustWait ? "waiting" : "running", total, startedAt },
+    JOB_LIMITS.maxWaiting,
+  );
+  if (!inserted.ok && inserted.reason === "mine") {
+    const mine = inserted.mine;
     throw new JobRefused(
       `You already have ${KIND_WORDS[mine.kind]} running (${mine.label}). Wait for it to finish or cancel it first.`,
       429,
     );
   }
-  const pool = getEnginePool();
-  const running = [...jobs.values()].filter((j) => j.status === "running").length;
-  const mustWait = running >= capacity() || line.length > 0;
-  if (mustWait && line.length >= JOB_LIMITS.maxWaiting) {
+  if (!inserted.ok) {
     throw new JobRefused("The server's line for sweeps and calibrations is full. Try again in a few minutes.", 503);
   }
   const controller = new AbortController();
   const job: Job<R, P> = {
-    id: randomToken(12),
+    id,
     userId: user.id,
     kind,
     label,
@@ -195,19 +216,25 @@ export function startJob<R, P = unknown>(
     partial: null,
     result: null,
     error: null,
-    startedAt: Date.now(),
-    ranAt: mustWait ? null : Date.now(),
+    startedAt,
+    ranAt: mustWait ? null : startedAt,
     finishedAt: null,
     controller,
   };
   jobs.set(job.id, job as Job);
+  keepBeating();
+  // A cancel asked through another process shows up in the row; it is read between engine runs.
+  const checkCancel = () => {
+    if (!controller.signal.aborted && cancelRequested(id)) controller.abort();
+    if (controller.signal.aborted) throw new JobCancelled();
+  };
 
   const ctx: JobContext<P> = {
     signal: controller.signal,
     run: async (task) => {
-      if (controller.signal.aborted) throw new JobCancelled();
+      checkCancel();
       const result = await pool.run(task, { lane: "job", owner: `user:${user.id}` });
-      if (controller.signal.aborted) throw new JobCancelled();
+      checkCancel();
       return result;
     },
     map: async (items, fn) => {
@@ -227,28 +254,35 @@ export function startJob<R, P = unknown>(
       job.done = done;
       if (newTotal !== undefined) job.total = newTotal;
       if (partial !== undefined) job.partial = partial;
+      persist(job as Job, true);
     },
   };
 
+  const finished = () => {
+    job.finishedAt = Date.now();
+    jobs.delete(job.id);
+    persist(job as Job);
+    admitWaiting();
+  };
   const begin = () => {
     job.status = "running";
     job.ranAt = Date.now();
+    persist(job as Job);
     work(ctx).then(
       (result) => {
         job.result = result;
         job.status = controller.signal.aborted ? "cancelled" : "done";
-        job.finishedAt = Date.now();
-        admitWaiting();
+        finished();
       },
       (error: unknown) => {
-        job.finishedAt = Date.now();
-        admitWaiting();
         if (error instanceof JobCancelled || controller.signal.aborted) {
           job.status = "cancelled";
+          finished();
           return;
         }
         job.status = "failed";
         job.error = error instanceof Error ? error.message : String(error);
+        finished();
         if (!(error instanceof Error && error.name === "KeeperError")) console.error("[fernwater] job failed", error);
       },
     );
@@ -261,8 +295,10 @@ export function startJob<R, P = unknown>(
 /** A job of this person, or null (someone else's job is not found either). */
 export function findJob(userId: number, id: string): Job | null {
   prune();
-  const job = jobs.get(id);
-  return job && job.userId === userId ? job : null;
+  const local = jobs.get(id);
+  if (local) return local.userId === userId ? local : null;
+  const row = id ? readJobRow(id) : null;
+  return row && row.userId === userId ? fromRow(row) : null;
 }
 
 /** Cancels this person's job between engine runs; returns it, or null if there is no such job. */
@@ -280,12 +316,15 @@ export function findScenarioJob(userId: number, request: Request, kind: JobKind,
 
 export function cancelJob(userId: number, id: string): Job | null {
   const job = findJob(userId, id);
-  if (job && job.status === "running") job.controller.abort();
-  if (job && job.status === "waiting") {
+  if (!job || !isActive(job)) return job;
+  requestCancel(job.id);
+  if (!job.controller) return findJob(userId, id); // another process runs it: the row says what happened
+  job.controller.abort();
+  if (job.status === "waiting") {
     // Still in line: it leaves the line now, and never runs.
-    job.controller.abort();
     job.status = "cancelled";
     job.finishedAt = Date.now();
+    jobs.delete(job.id);
     const i = line.findIndex((w) => w.job === job);
     if (i >= 0) line.splice(i, 1);
   }
@@ -301,7 +340,7 @@ export function jobJson(job: Job): JobJson {
     params: job.params,
     status: job.status,
     /** Jobs ahead of this one in line while it waits (0 otherwise). */
-    ahead: job.status === "waiting" ? jobsAhead(job) : 0,
+    ahead: jobsAhead(job),
     done: job.done,
     total: job.total,
     partial: job.partial,
@@ -323,7 +362,20 @@ export class KeeperError extends Error {
 
 /** Forgets every job (tests). */
 export function clearJobs(): void {
-  for (const job of jobs.values()) job.controller.abort();
+  for (const job of jobs.values()) job.controller?.abort();
+  dropPendingWrites();
+  jobs.clear();
+  line.splice(0);
+  deleteAllJobRows();
+}
+
+/**
+ * This process is stopping: its jobs fail visibly ("start it again") rather than being left
+ * "running" in the table until their heartbeat runs out.
+ */
+export function abandonLocalJobs(): void {
+  for (const job of jobs.values()) job.controller?.abort();
+  abandonJobs([...jobs.keys()], "The server restarted before this job finished. Nothing was saved; start it again.");
   jobs.clear();
   line.splice(0);
 }

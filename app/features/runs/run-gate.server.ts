@@ -18,14 +18,14 @@ import {
   type SimulationResult,
 } from "~models";
 import { getEnginePool } from "~/features/jobs/jobs.server";
-import { LIMITS, take, waitText } from "~/rate-limits.server";
+import { giveBack, LIMITS, resetLimit, take, waitText } from "~/rate-limits.server";
 import { toStorable, type StorableRun } from "~/features/runs/run-packing.server";
 
 /** Bounds for runs started by a request: a bad parameter set fails fast instead of hanging. */
 export const REQUEST_RUN_LIMITS = { maxWallMs: 3000, maxSteps: 300_000 } satisfies SimulateOptions;
 /** Request-thread time a run that looks short may take before it moves to a worker. */
 const INLINE_BUDGET_MS = 25;
-export const RUNS_IN_FLIGHT_PER_PERSON = 2;
+export const RUNS_IN_FLIGHT_PER_PERSON = LIMITS.runsInFlightPerPerson.points;
 
 /** Who asks for a run, and why: "save" and "preview" have rate limits, "view" does not. */
 export type RunRequest = { userId: number; purpose: "save" | "preview" | "view" };
@@ -45,8 +45,6 @@ function isQuickRun(scenario: Scenario): boolean {
   return scenario.run.lengthDays <= 400 && samples <= 1000 && !scenario.fish.pulsedFeeding;
 }
 
-const inFlight = new Map<number, number>();
-
 async function admit(request: RunRequest): Promise<() => void> {
   if (request.purpose !== "view") {
     const limit = request.purpose === "save" ? "savesPerPerson" : "previewsPerPerson";
@@ -58,16 +56,14 @@ async function admit(request: RunRequest): Promise<() => void> {
       );
     }
   }
-  const running = inFlight.get(request.userId) ?? 0;
-  if (running >= RUNS_IN_FLIGHT_PER_PERSON) {
-    throw new RunRefused(`You already have ${running} model runs going. Wait for them to finish, then try again.`);
+  // Counted in the database, so two app processes cannot each run two of one person's runs.
+  const key = `user:${request.userId}`;
+  if ((await take("runsInFlightPerPerson", key)) > 0) {
+    throw new RunRefused(
+      `You already have ${RUNS_IN_FLIGHT_PER_PERSON} model runs going. Wait for them to finish, then try again.`,
+    );
   }
-  inFlight.set(request.userId, running + 1);
-  return () => {
-    const left = (inFlight.get(request.userId) ?? 1) - 1;
-    if (left <= 0) inFlight.delete(request.userId);
-    else inFlight.set(request.userId, left);
-  };
+  return () => void giveBack("runsInFlightPerPerson", key);
 }
 
 type Placed = { kind: "result"; result: SimulationResult } | { kind: "stored"; run: StorableRun };
@@ -120,5 +116,5 @@ export async function runForStorage(scenario: Scenario, request: RunRequest): Pr
 
 /** Forgets the runs in flight (tests). */
 export function resetRunGate(): void {
-  inFlight.clear();
+  resetLimit("runsInFlightPerPerson");
 }

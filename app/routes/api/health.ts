@@ -1,8 +1,9 @@
 import { sql } from "drizzle-orm";
 import { methodNotAllowed } from "~/http/api.server";
 import { getDb } from "~/db/client.server";
+import { INSTANCE } from "~/instance.server";
 
-/** GET /api/health: the database answers a query, and which version runs. */
+/** GET /api/health: the database answers a query, which version runs, and which process answers (`instance`). */
 export function loader() {
   let database: "ok" | "error" = "ok";
   try {
@@ -12,7 +13,7 @@ export function loader() {
   }
   const ok = database === "ok";
   return Response.json(
-    { status: ok ? "ok" : "degraded", version: __APP_VERSION__, checks: { database } },
+    { status: ok ? "ok" : "degraded", version: __APP_VERSION__, instance: INSTANCE, checks: { database } },
     { status: ok ? 200 : 503, headers: { "Cache-Control": "no-store" } },
   );
 }

@@ -1,0 +1,1 @@
+export function webConcurrency(env: Record<string, string | undefined>, cores: number): number;
