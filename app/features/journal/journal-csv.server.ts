@@ -14,7 +14,7 @@ import {
   type EntryInput,
 } from "~/features/journal/journal-entries";
 import type { JournalEntry } from "~/features/journal/journal.server";
-import { csvFailure, detectDelimiter, readLines, type CsvFailure, type CsvProblem } from "~/csv-read.server";
+import { csvFailure, detectDelimiter, readLines, type CsvFailure, type CsvProblem } from "~/utils/csv-read.server";
 import { toCsv, unneutraliseCell } from "~/utils/csv";
 import { formatDateTime, parseDateTime } from "~/utils/dates";
 

@@ -5,9 +5,9 @@
  */
 import { MEASURE_KEYS, type MeasureKey, type MeasureUnits } from "~/features/readings/readings.server";
 
-import type { CsvProblem } from "~/csv-read.server";
+import type { CsvProblem } from "~/utils/csv-read.server";
 
-export type { CsvProblem } from "~/csv-read.server";
+export type { CsvProblem } from "~/utils/csv-read.server";
 
 export type Target =
   | { kind: "datetime" }

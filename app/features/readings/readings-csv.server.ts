@@ -29,7 +29,7 @@ import {
 } from "~/features/readings/readings.server";
 import { formatDateTime, parseDateOnly, parseDateTime, parseTimeOfDay } from "~/utils/dates";
 import { unneutraliseCell } from "~/utils/csv";
-import { csvFailure, detectDelimiter, readLines, type CsvFailure, type Line } from "~/csv-read.server";
+import { csvFailure, detectDelimiter, readLines, type CsvFailure, type Line } from "~/utils/csv-read.server";
 
 export type { CsvProblem } from "~/features/readings/readings-csv-columns.server";
 

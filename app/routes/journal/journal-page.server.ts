@@ -20,7 +20,7 @@ import { listScenarios, type TankRow } from "~/features/tanks/tanks.server";
 import { readUpload, UploadError } from "~/http/uploads.server";
 import { runProblem } from "~/http/pages.server";
 import { DAY_MS, formatDateTime } from "~/utils/dates";
-import type { CsvProblem } from "~/csv-read.server";
+import type { CsvProblem } from "~/utils/csv-read.server";
 
 export function journalPageData(tank: TankRow, scenarioParam: string | null, now = Date.now()) {
   const entries = listJournal(tank.id);
