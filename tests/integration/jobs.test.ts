@@ -122,6 +122,32 @@ describe("sweeps", () => {
     expect(again.data.input.points).toBe(20);
   });
 
+  it("lets a second person's short sweep through while a first person's long one runs (fair turns, on either back end)", async () => {
+    // Fair ordering (issue 15 item 2; docs/decisions/0009): one person's fifty runs must not make
+    // another's three wait behind them, whether runs go to the in-process pool or through Redis.
+    const long = await world();
+    const short = await world();
+    const start = (w: Awaited<ReturnType<typeof world>>, points: string) =>
+      call(
+        sweepAction,
+        post(
+          `${w.base}/sweep`,
+          { intent: "start", setting: "fish.feedGPerDay", from: "0.2", to: "2", points, outcome: "nitrateEnd" },
+          w.user.cookie,
+        ),
+        { tankId: w.tankId, scenarioId: w.scenarioId },
+      );
+    const longId = jobIdOf((await start(long, "50")).location);
+    const shortId = jobIdOf((await start(short, "3")).location);
+    const { job: shortJob } = await poll(shortId, short.user.cookie);
+    expect(shortJob.status).toBe("done");
+    const longNow = (await call(jobApi, get(`/api/jobs/${longId}`, long.user.cookie), { jobId: longId })).data.job;
+    // First come, first served would have run all fifty first; turns leave most of them still to do.
+    expect(longNow.done).toBeLessThan(25);
+    const { job: longJob } = await poll(longId, long.user.cookie);
+    expect(longJob.status).toBe("done");
+  });
+
   it("holds one job per person, caps points by role, and refuses bad ranges beside the field", async () => {
     const keeper = await world();
     const start = (fields: Record<string, string>, w = keeper) =>
