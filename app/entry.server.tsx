@@ -3,13 +3,11 @@
  * the server picks a nonce per response (server/app.ts) and React Router's inline scripts
  * carry it, so the policy can forbid every other inline script.
  */
-import { PassThrough } from "node:stream";
-import { createReadableStreamFromReadable } from "@react-router/node";
-import { isbot } from "isbot";
-import type { RenderToPipeableStreamOptions } from "react-dom/server";
+import { Writable } from "node:stream";
 import { renderToPipeableStream } from "react-dom/server";
 import { ServerRouter, type EntryContext, type RouterContextProvider } from "react-router";
 import { cspNonceContext } from "~/context";
+import { cachedPage, keepPage, NONCE_STAND_IN, renderKey, worthKeeping } from "~/http/render-cache.server";
 import { NonceContext } from "~/utils/nonce";
 
 export const streamTimeout = 5_000;
@@ -25,43 +23,79 @@ export default function handleRequest(
     return new Response(null, { status: responseStatusCode, headers: responseHeaders });
   }
   const nonce = loadContext.get(cspNonceContext) || undefined;
+  const key = nonce ? cacheKeyFor(request, responseStatusCode, routerContext) : null;
+  if (key) {
+    const kept = cachedPage(key, nonce!);
+    if (kept !== undefined) {
+      void routerContext.serverHandoffStream?.cancel(); // the kept page already holds the data
+      // Server-Timing (W3C) says a kept rendering answered: for the browser's network panel and the tests.
+      responseHeaders.append("Server-Timing", 'render;desc="kept"');
+      return htmlResponse(kept, responseStatusCode, responseHeaders);
+    }
+  }
 
-  return new Promise((resolve, reject) => {
+  return new Promise<Response>((resolve, reject) => {
     let shellRendered = false;
-    const userAgent = request.headers.get("user-agent");
-    // Bots get the whole page at once; people get the shell as soon as it is ready.
-    const readyOption: keyof RenderToPipeableStreamOptions =
-      (userAgent && isbot(userAgent)) || routerContext.isSpaMode ? "onAllReady" : "onShellReady";
+    let failed = false;
     let timeoutId: ReturnType<typeof setTimeout> | undefined = setTimeout(() => abort(), streamTimeout + 1000);
+    // The whole document is rendered before it is sent, as one body: our loaders defer
+    // nothing, so streaming would send no byte earlier, and every streamed chunk costs the
+    // request thread a trip through web streams and gzip.
+    const chunks: Buffer[] = [];
+    const sink = new Writable({
+      write(chunk: Buffer, _encoding, callback) {
+        chunks.push(chunk);
+        callback();
+      },
+      final(callback) {
+        clearTimeout(timeoutId);
+        timeoutId = undefined;
+        const html = Buffer.concat(chunks);
+        const body = keep && !failed ? keepPage(key!, html, nonce!) : html;
+        resolve(htmlResponse(body, responseStatusCode, responseHeaders));
+        callback();
+      },
+    });
+    // A page to be kept renders with a stand-in nonce, swapped for each response's own.
+    const keep = key !== null && worthKeeping(key);
+    const renderNonce = keep ? NONCE_STAND_IN : nonce;
 
     const { pipe, abort } = renderToPipeableStream(
-      <NonceContext.Provider value={nonce}>
-        <ServerRouter context={routerContext} url={request.url} nonce={nonce} />
+      <NonceContext.Provider value={renderNonce}>
+        <ServerRouter context={routerContext} url={request.url} nonce={renderNonce} />
       </NonceContext.Provider>,
       {
-        nonce,
-        [readyOption]() {
+        nonce: renderNonce,
+        onShellReady() {
           shellRendered = true;
-          const body = new PassThrough({
-            final(callback) {
-              clearTimeout(timeoutId);
-              timeoutId = undefined;
-              callback();
-            },
-          });
-          const stream = createReadableStreamFromReadable(body);
-          responseHeaders.set("Content-Type", "text/html");
-          pipe(body);
-          resolve(new Response(stream, { headers: responseHeaders, status: responseStatusCode }));
+        },
+        onAllReady() {
+          pipe(sink);
         },
         onShellError(error: unknown) {
           reject(error);
         },
         onError(error: unknown) {
+          failed = true;
           responseStatusCode = 500;
           if (shellRendered) console.error(error);
         },
       },
     );
   });
+}
+
+/** The render cache's key when the page's route allows keeping it (see render-cache.server.ts), else null. */
+function cacheKeyFor(request: Request, status: number, routerContext: EntryContext): string | null {
+  const { matches, loaderData, actionData, errors } = routerContext.staticHandlerContext;
+  const page = matches.at(-1);
+  const handle = page ? (routerContext.routeModules[page.route.id]?.handle as { renderCache?: boolean } | undefined) : undefined;
+  if (handle?.renderCache !== true || actionData || errors) return null;
+  return renderKey(request.url, status, loaderData);
+}
+
+function htmlResponse(html: Buffer, status: number, headers: Headers): Response {
+  headers.set("Content-Type", "text/html; charset=utf-8");
+  // Buffer.concat allocates a plain (not shared) ArrayBuffer, which is what BodyInit asks for.
+  return new Response(html as Uint8Array<ArrayBuffer>, { headers, status });
 }

@@ -36,6 +36,17 @@ async function cursorWorks(page: PageWithErrors) {
     .waitFor({ timeout: 10_000 });
 }
 
+/** The nonce the response's CSP allows, after checking every inline script carries that one. */
+async function nonceOf(response: Awaited<ReturnType<PageWithErrors["goto"]>>): Promise<string> {
+  const policy = (await response!.allHeaders())["content-security-policy"] ?? "";
+  const nonce = /'nonce-([^']+)'/.exec(policy)?.[1];
+  expect(nonce).toBeTruthy();
+  const scriptNonces = [...(await response!.text()).matchAll(/<script[^>]*\snonce="([^"]*)"/g)].map((m) => m[1]);
+  expect(scriptNonces.length).toBeGreaterThan(0);
+  expect(new Set(scriptNonces)).toEqual(new Set([nonce]));
+  return nonce!;
+}
+
 const cspErrors = (page: PageWithErrors) =>
   page.consoleErrors.filter((e) => /Content Security Policy|Refused to execute/i.test(e));
 
@@ -44,18 +55,24 @@ describe("a share link survives a reload and a second visit", () => {
     const page = await newPage();
     const first = await page.goto(DEMO_SHARE);
     expect(first?.status()).toBe(200);
+    const nonces = [await nonceOf(first)];
     await cursorWorks(page);
     await shot(page, "share-first-visit");
 
     // A reload makes the browser revalidate what it cached.
     const reloaded = await page.reload();
     expect(reloaded?.status()).toBe(200);
+    nonces.push(await nonceOf(reloaded));
     await cursorWorks(page);
 
-    // A second visit in the same browser (away and back).
+    // A second visit in the same browser (away and back). By now the page is served from the
+    // render cache (kept the second time it was asked for), which must swap in a new nonce.
     await page.goto("/");
     const again = await page.goto(DEMO_SHARE);
     expect(again?.status()).toBe(200);
+    nonces.push(await nonceOf(again));
+    expect(new Set(nonces).size).toBe(3);
+    expect((await again!.allHeaders())["server-timing"]).toContain('render;desc="kept"');
     await cursorWorks(page);
     await shot(page, "share-second-visit");
     expect(cspErrors(page)).toEqual([]);

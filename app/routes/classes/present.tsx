@@ -19,6 +19,9 @@ export const meta: Route.MetaFunction = ({ data }) => [
   { title: `Presenting ${data?.lesson.title ?? "a lesson"} · Fernwater` },
 ];
 
+// Rendered from its loader data alone (no clock, no randomness): a repeat view may reuse the rendering (app/http/render-cache.server.ts).
+export const handle = { renderCache: true };
+
 export async function loader({ request, params }: Route.LoaderArgs) {
   const user = await requireUser(request);
   const cls = requireOwnClass(user, params.classId);

@@ -29,6 +29,9 @@ export const meta: Route.MetaFunction = ({ data }) => [
   { title: `${data?.scenario.name ?? "Results"} · ${data?.tank.name ?? ""} · Fernwater` },
 ];
 
+// Rendered from its loader data alone (no clock, no randomness): a repeat view may reuse the rendering (app/http/render-cache.server.ts).
+export const handle = { renderCache: true };
+
 export async function loader({ request, params }: Route.LoaderArgs) {
   const user = await requireUser(request);
   const { tank, scenario } = requireOwnedScenario(user.id, params.tankId, params.scenarioId);

@@ -47,6 +47,9 @@ export const meta: Route.MetaFunction = ({ data }) => {
  * refused, so the page would never hydrate. Signed-in views (their own nav and tank list) are
  * private and not validated.
  */
+// Rendered from its loader data alone (no clock, no randomness): a repeat view may reuse the rendering (app/http/render-cache.server.ts).
+export const handle = { renderCache: true };
+
 export const middleware: Route.MiddlewareFunction[] = [
   async ({ request, params }, next) => {
     const viewer = await getSessionUser(request);

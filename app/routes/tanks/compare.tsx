@@ -24,6 +24,9 @@ const SPECIES_OPTIONS: { value: SeriesKey; label: string }[] = [
   { value: "plants", label: "Plant mass" },
 ];
 
+// Rendered from its loader data alone (no clock, no randomness): a repeat view may reuse the rendering (app/http/render-cache.server.ts).
+export const handle = { renderCache: true };
+
 export async function loader({ request, params }: Route.LoaderArgs) {
   const user = await requireUser(request);
   const tank = requireOwnedTank(user.id, params.tankId);
