@@ -32,6 +32,6 @@ export default defineConfig({
     ssr: { build: { rollupOptions: { input: { index: "./server/app.ts", "engine-worker": "./server/engine-worker.ts" } } } },
   },
   resolve: { tsconfigPaths: true },
-  // better-sqlite3 is a native addon: keep it (and its drizzle driver) out of the SSR bundle.
-  ssr: { external: ["better-sqlite3"] },
+  // Native addons stay out of the SSR bundle: better-sqlite3 (and its drizzle driver) and resvg.
+  ssr: { external: ["better-sqlite3", "@resvg/resvg-js"] },
 });

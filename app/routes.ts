@@ -41,6 +41,7 @@ export default [
 
   // The public page of a share link (anyone with the token).
   route("s/:token", "routes/share/public.tsx"),
+  route("s/:token/preview.png", "routes/share/preview-image.tsx"),
   // A tank's maintenance calendar at its secret address (anyone with the token).
   route("calendar/:token", "routes/calendar/feed.ts"),
 

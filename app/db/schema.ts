@@ -230,6 +230,20 @@ export const calendarFeeds = sqliteTable(
   (t) => [index("calendar_feeds_tank_idx").on(t.tankId)],
 );
 
+/**
+ * The link-preview picture of a stored run (a 1200×630 PNG, issue 12 item 8): drawn once per
+ * run, gone with the run.
+ */
+export const sharePreviews = sqliteTable("share_previews", {
+  runId: integer("run_id")
+    .primaryKey()
+    .references(() => runs.id, { onDelete: "cascade" }),
+  png: blob("png", { mode: "buffer" }).notNull(),
+  createdAt: integer("created_at", { mode: "timestamp_ms" })
+    .notNull()
+    .default(sql`(unixepoch('subsec') * 1000)`),
+});
+
 export const shareLinks = sqliteTable(
   "share_links",
   {

@@ -3,6 +3,7 @@
  * a share link on reload, a what-if saved twice over, a what-if changing settings it did not
  * touch, and a new tank's nitrate target read back with conversion noise.
  */
+import fs from "node:fs";
 import { describe, expect, it } from "vitest";
 import {
   DEMO,
@@ -77,6 +78,29 @@ describe("a share link survives a reload and a second visit", () => {
     await shot(page, "share-second-visit");
     expect(cspErrors(page)).toEqual([]);
     expectNoConsoleErrors(page);
+  });
+
+  it("carries a link-preview picture: a 1200×630 PNG of its chart (issue 12, item 8)", async () => {
+    const page = await newPage();
+    await page.goto(DEMO_SHARE);
+    const image = await page.locator('meta[property="og:image"]').getAttribute("content");
+    expect(image).toMatch(/^http:\/\/[^/]+\/s\/tidewell-demo-theo-as-kept-now\/preview\.png$/);
+    expect(await page.locator('meta[property="og:image:width"]').getAttribute("content")).toBe("1200");
+    expect(await page.locator('meta[property="og:image:height"]').getAttribute("content")).toBe("630");
+    expect(await page.locator('meta[property="og:image:alt"]').getAttribute("content")).toMatch(/nitrate/i);
+    const picture = await page.request.get(image!);
+    expect(picture.status()).toBe(200);
+    expect(picture.headers()["content-type"]).toBe("image/png");
+    const bytes = await picture.body();
+    // PNG signature and IHDR size (ISO/IEC 15948, §5.2 and §11.2.2; docs/sources.md §18).
+    expect(bytes.subarray(1, 4).toString("latin1")).toBe("PNG");
+    expect([bytes.readUInt32BE(16), bytes.readUInt32BE(20)]).toEqual([1200, 630]);
+    fs.mkdirSync("test-results/screenshots", { recursive: true });
+    fs.writeFileSync("test-results/screenshots/share-preview-picture.png", bytes);
+    // What a forum shows: the picture opens in the browser as an image of that size.
+    await page.goto(image!);
+    const size = await page.locator("img").evaluate((img: HTMLImageElement) => [img.naturalWidth, img.naturalHeight]);
+    expect(size).toEqual([1200, 630]);
   });
 });
 

@@ -1,10 +1,11 @@
 import { count, eq } from "drizzle-orm";
 import { describe, expect, it } from "vitest";
 import { getDb } from "~/db/client.server";
-import { runs, scenarios, shareLinks, tanks, users } from "~/db/schema";
+import { runs, scenarios, sharePreviews, shareLinks, tanks, users } from "~/db/schema";
 import { action as adminLinksAction, loader as adminLinksLoader } from "~/routes/admin/links";
 import { loader as adminLinkLoader } from "~/routes/admin/link";
 import { action as manageAction, loader as manageLoader } from "~/routes/share/manage";
+import { loader as previewLoader } from "~/routes/share/preview-image";
 import { action as publicAction, loader as publicLoader, meta as publicMeta, middleware } from "~/routes/share/public";
 import { hashToken } from "~/utils/crypto.server";
 import { unpackSeries } from "~/features/runs/series-packing";
@@ -124,9 +125,16 @@ describe("share links: the public page", () => {
     const find = (key: string, value: string) => tags.find((t) => t[key] === value)?.content;
     expect(find("property", "og:title")).toBe("Fewer meals · shared on Fernwater");
     expect(find("property", "og:description")).toMatch(/^Simulated nitrogen over 40 days: nitrate ends at [\d.]+ mg\/L NO3/);
-    expect(find("name", "twitter:card")).toBe("summary");
     expect(find("name", "robots")).toMatch(/noindex/);
     expect(find("property", "og:url")).toBe(`${ORIGIN}/s/${token}`);
+    // The link-preview picture (issue 12, item 8): an absolute address, its size and words for it.
+    expect(find("property", "og:image")).toBe(`${ORIGIN}/s/${token}/preview.png`);
+    expect(find("property", "og:image:type")).toBe("image/png");
+    expect(find("property", "og:image:width")).toBe("1200");
+    expect(find("property", "og:image:height")).toBe("630");
+    expect(find("property", "og:image:alt")).toMatch(/nitrate.*40 days.*Fewer meals/);
+    expect(find("name", "twitter:card")).toBe("summary_large_image");
+    expect(find("name", "twitter:image")).toBe(`${ORIGIN}/s/${token}/preview.png`);
   });
 
   it("reuses the stored run instead of running the engine on every view", async () => {
@@ -300,5 +308,50 @@ describe("admin: public links", () => {
     const forged = await call(adminLinksAction, post("/admin/links", { intent: "take-down", linkId: link.id, reason: "mine now" }, keeper.cookie));
     expect(forged.status).toBe(403);
     expect(getDb().select().from(shareLinks).where(eq(shareLinks.id, link.id)).get()!.takenDownAt).toBeNull();
+  });
+});
+
+/** Width and height from a PNG's IHDR chunk, after checking the signature (ISO/IEC 15948, §5.2 and §11.2.2; docs/sources.md §18). */
+function pngSize(bytes: Buffer): { width: number; height: number } {
+  expect([...bytes.subarray(0, 8)]).toEqual([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a]);
+  expect(bytes.subarray(12, 16).toString("latin1")).toBe("IHDR");
+  return { width: bytes.readUInt32BE(16), height: bytes.readUInt32BE(20) };
+}
+
+async function preview(token: string, headers: Record<string, string> = {}) {
+  const response = (await previewLoader({ request: get(`/s/${token}/preview.png`, undefined, headers), params: { token } } as never).catch(
+    (thrown: unknown) => thrown,
+  )) as Response | { init: { status: number } };
+  if (!(response instanceof Response)) return { status: response.init.status, bytes: Buffer.alloc(0), headers: new Headers() };
+  return { status: response.status, bytes: Buffer.from(await response.arrayBuffer()), headers: response.headers };
+}
+
+describe("share links: the link-preview picture", () => {
+  it("is a 1200×630 PNG drawn once per run, and gone with the link", async () => {
+    const { turnOn, owner, path, params } = await sharedScenario();
+    const token = await turnOn();
+    const first = await preview(token);
+    expect(first.status).toBe(200);
+    expect(first.headers.get("Content-Type")).toBe("image/png");
+    expect(pngSize(first.bytes)).toEqual({ width: 1200, height: 630 });
+    // Drawn, not blank: a flat picture compresses to a few hundred bytes.
+    expect(first.bytes.length).toBeGreaterThan(10_000);
+    const runId = getDb().select({ id: runs.id }).from(runs).innerJoin(scenarios, eq(scenarios.id, runs.scenarioId)).where(eq(scenarios.id, Number(params.scenarioId))).get()!.id;
+    const kept = getDb().select().from(sharePreviews).where(eq(sharePreviews.runId, runId)).all();
+    expect(kept).toHaveLength(1);
+
+    // The second asker gets the kept bytes; a browser that has them gets 304.
+    const second = await preview(token);
+    expect(second.bytes.equals(first.bytes)).toBe(true);
+    expect(getDb().select({ n: count() }).from(sharePreviews).get()!.n).toBe(1);
+    const etag = first.headers.get("ETag")!;
+    expect((await preview(token, { "If-None-Match": etag })).status).toBe(304);
+
+    // Turned off: neither the picture nor a 304 for it.
+    const off = await call(manageAction, post(path, { intent: "off" }, owner.cookie), params);
+    expect(off.status).toBe(200);
+    expect((await preview(token)).status).toBe(404);
+    expect((await preview(token, { "If-None-Match": etag })).status).toBe(404);
+    expect((await preview("not-a-token-of-ours")).status).toBe(404);
   });
 });

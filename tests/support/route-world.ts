@@ -286,6 +286,14 @@ export const PERMISSION_MATRIX: Row[] = [
     path: "/s/:revokedToken",
     expect: [404, 404, 404, 404, 404, 404],
   },
+  // The link-preview picture follows its page: anyone while the link is live, nobody after.
+  { file: "routes/share/preview-image.tsx", handler: "loader", path: "/s/:token/preview.png", expect: EVERYONE },
+  {
+    file: "routes/share/preview-image.tsx",
+    handler: "loader",
+    path: "/s/:revokedToken/preview.png",
+    expect: [404, 404, 404, 404, 404, 404],
+  },
   {
     file: "routes/share/public.tsx",
     handler: "action",

@@ -2,6 +2,7 @@ import { asc, eq } from "drizzle-orm";
 import { data, Form, isRouteErrorResponse, Link, redirect, useNavigation } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/public";
+import { PREVIEW_HEIGHT, PREVIEW_WIDTH } from "~/components/charts/preview-card";
 import { ReadOnlyResults } from "~/components/read-only-results";
 import { FormMessage, SelectField } from "~/components/ui/field";
 import { copyScenarioInto, type CopyDestination } from "~/features/scenarios/copies.server";
@@ -34,9 +35,21 @@ export const meta: Route.MetaFunction = ({ data }) => {
     { property: "og:title", content: title },
     { property: "og:description", content: data.description },
     { property: "og:url", content: data.url },
-    { name: "twitter:card", content: "summary" },
     { name: "twitter:title", content: title },
     { name: "twitter:description", content: data.description },
+    // The picture forums and chats show with the link: the chart and key figures, 1200×630.
+    ...(data.preview
+      ? [
+          { property: "og:image", content: data.preview.url },
+          { property: "og:image:type", content: "image/png" },
+          { property: "og:image:width", content: String(PREVIEW_WIDTH) },
+          { property: "og:image:height", content: String(PREVIEW_HEIGHT) },
+          { property: "og:image:alt", content: data.preview.alt },
+          { name: "twitter:card", content: "summary_large_image" },
+          { name: "twitter:image", content: data.preview.url },
+          { name: "twitter:image:alt", content: data.preview.alt },
+        ]
+      : [{ name: "twitter:card", content: "summary" }]),
   ];
 };
 
@@ -105,6 +118,12 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     view,
     description: describeView(view),
     url: absoluteUrl(request, sharePath(params.token)),
+    preview: view.results
+      ? {
+          url: absoluteUrl(request, `${sharePath(params.token)}/preview.png`),
+          alt: `Chart of nitrate in its target band and of free ammonia and nitrite over ${view.results.lengthDays} days, with the key figures, for the scenario ${scenario.name}.`,
+        }
+      : null,
     viewer: viewer ? { isOwner: viewer.id === tank.ownerId } : null,
     myTanks,
     ownerLinks: viewer?.id === tank.ownerId ? { tankId: tank.id, scenarioId: scenario.id } : null,
