@@ -92,7 +92,7 @@ export function CalibrationReport({
         </FormMessage>
       ) : null}
       <Verdicts result={result} />
-      <div className="overflow-x-auto">
+      <div className="relative overflow-x-auto">
         <table className="w-full text-sm">
           <caption className="mb-1 text-left font-semibold">
             Fitted multipliers ({result.readingsUsed} readings, {result.residualCount} values)
@@ -142,7 +142,7 @@ export function CalibrationReport({
           </tbody>
         </table>
       </div>
-      <div className="overflow-x-auto">
+      <div className="relative overflow-x-auto">
         <table className="w-full text-sm">
           <caption className="mb-1 text-left font-semibold">
             How far the model is from the readings (root mean square)

@@ -150,7 +150,7 @@ export const BudgetTable = memo(function BudgetTable({ budgets, caption = "Nitro
   );
   const ref = sections[0];
   return (
-    <div className="overflow-x-auto" tabIndex={0} role="region" aria-label={caption}>
+    <div className="relative overflow-x-auto" tabIndex={0} role="region" aria-label={caption}>
       <table className="w-full border-collapse text-sm">
         <caption className="py-2 text-left text-sm text-stone-700">
           {caption}, mg N (g N where large), over each run. Marked cells differ from {budgets[0].label} by more than 1
@@ -226,7 +226,7 @@ function SingleBudgetTable({ column, caption }: { column: BudgetColumn; caption:
   const flowRows = [inputs, outputs];
   return (
     <div className="space-y-4">
-      <div className="overflow-x-auto" tabIndex={0} role="region" aria-label={`${caption}: flows`}>
+      <div className="relative overflow-x-auto" tabIndex={0} role="region" aria-label={`${caption}: flows`}>
         <table className="w-full max-w-2xl border-collapse text-sm">
           <caption className="py-2 text-left text-sm text-stone-700">
             {caption}: nitrogen that came in and went out over the run
@@ -258,7 +258,7 @@ function SingleBudgetTable({ column, caption }: { column: BudgetColumn; caption:
           ))}
         </table>
       </div>
-      <div className="overflow-x-auto" tabIndex={0} role="region" aria-label={`${caption}: in the tank`}>
+      <div className="relative overflow-x-auto" tabIndex={0} role="region" aria-label={`${caption}: in the tank`}>
         <table className="w-full max-w-2xl border-collapse text-sm">
           <caption className="py-2 text-left text-sm text-stone-700">{caption}: nitrogen held in the tank</caption>
           <thead>

@@ -9,6 +9,7 @@ import { ROLES, users } from "~/db/schema";
 import { requireRole } from "~/permissions.server";
 import { fieldErrors, formValues } from "~/utils/form-errors";
 import { invalid, readForm } from "~/http/pages.server";
+import { ScrollTable } from "~/components/ui/scroll-table";
 
 export const meta: Route.MetaFunction = () => [{ title: "Users · Admin · Fernwater" }];
 
@@ -56,15 +57,23 @@ export default function AdminUsersPage({ loaderData, actionData }: Route.Compone
       </p>
       {failure ? <FormMessage>{Object.values(failure.errors)[0]}</FormMessage> : null}
       {done ? <FormMessage tone="success">Role saved.</FormMessage> : null}
-      <div className="overflow-x-auto">
+      <ScrollTable label="Users table">
         <table className="w-full min-w-[32rem] border-collapse text-sm">
           <caption className="sr-only">All users with their roles</caption>
           <thead>
             <tr className="border-b border-stone-300 text-left">
-              <th scope="col" className="py-2 pr-3">Name</th>
-              <th scope="col" className="py-2 pr-3">E-mail</th>
-              <th scope="col" className="py-2 pr-3">Joined</th>
-              <th scope="col" className="py-2">Role</th>
+              <th scope="col" className="py-2 pr-3">
+                Name
+              </th>
+              <th scope="col" className="py-2 pr-3">
+                E-mail
+              </th>
+              <th scope="col" className="py-2 pr-3">
+                Joined
+              </th>
+              <th scope="col" className="py-2">
+                Role
+              </th>
             </tr>
           </thead>
           <tbody>
@@ -94,7 +103,7 @@ export default function AdminUsersPage({ loaderData, actionData }: Route.Compone
             ))}
           </tbody>
         </table>
-      </div>
+      </ScrollTable>
     </div>
   );
 }

@@ -1,5 +1,5 @@
 import { eq } from "drizzle-orm";
-import {  } from "react-router";
+import {} from "react-router";
 import type { Route } from "./+types/copy";
 import { ReadOnlyResults } from "~/components/read-only-results";
 import { FormMessage } from "~/components/ui/field";
@@ -19,6 +19,7 @@ import { buildScenarioForm } from "~/features/scenarios/scenario-form.server";
 import { readStoredSettings } from "~/features/runs/simulation.server";
 import { displayUnitsFor } from "~/utils/display-units";
 import { Breadcrumbs } from "~/components/breadcrumbs";
+import { ScrollTable } from "~/components/ui/scroll-table";
 
 export const meta: Route.MetaFunction = ({ data }) => [
   { title: `${data?.student ?? "Student"}’s copy · ${data?.lesson.title ?? "Lesson"} · Fernwater` },
@@ -90,7 +91,7 @@ export default function StudentCopyPage({ loaderData }: Route.ComponentProps) {
         ) : changes.fields.length === 0 && changes.plantGroups.from === changes.plantGroups.to ? (
           <p className="text-sm">Nothing yet: the copy still has the lesson’s settings.</p>
         ) : (
-          <div className="overflow-x-auto">
+          <ScrollTable label="Key figures table">
             {changes.plantGroups.from !== changes.plantGroups.to ? (
               <p className="text-sm">
                 Plant groups: {changes.plantGroups.from} → {changes.plantGroups.to}
@@ -130,7 +131,7 @@ export default function StudentCopyPage({ loaderData }: Route.ComponentProps) {
                 ))}
               </tbody>
             </table>
-          </div>
+          </ScrollTable>
         )}
       </section>
       <ReadOnlyResults name={scenarioName} view={view} downloadName={`${lesson.title}-${student}`} />

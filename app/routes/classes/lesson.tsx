@@ -1,13 +1,21 @@
 import { data, Form, Link, redirect, useNavigation } from "react-router";
 import type { Route } from "./+types/lesson";
 import { FormMessage } from "~/components/ui/field";
-import { findCopy, handInTable, READ_ONLY_CLASS, requireClassAccess, requireLesson, startCopy } from "~/features/classes/classes.server";
+import {
+  findCopy,
+  handInTable,
+  READ_ONLY_CLASS,
+  requireClassAccess,
+  requireLesson,
+  startCopy,
+} from "~/features/classes/classes.server";
 import { displayKeyFigures } from "~/features/runs/display-figures";
 import { requireUser } from "~/permissions.server";
 import { displayUnitsFor, formatNumber, unitLabels } from "~/utils/display-units";
 import { invalid, readForm, refusedForm } from "~/http/pages.server";
 import { formValues } from "~/utils/form-errors";
 import { Breadcrumbs } from "~/components/breadcrumbs";
+import { ScrollTable } from "~/components/ui/scroll-table";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.lesson.title ?? "Lesson"} · Fernwater` }];
 
@@ -21,7 +29,15 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   };
   if (as === "former educator") {
     // Read-only: the lesson's question, not the students' hand-ins.
-    return { ...base, as, started: false, handedIn: false, handIns: null, labels: null, unlockedCount: lesson.unlockedFields.length };
+    return {
+      ...base,
+      as,
+      started: false,
+      handedIn: false,
+      handIns: null,
+      labels: null,
+      unlockedCount: lesson.unlockedFields.length,
+    };
   }
   if (as === "student") {
     const copy = findCopy(lesson.id, user.id);
@@ -141,7 +157,7 @@ export default function LessonPage({ loaderData, actionData }: Route.ComponentPr
             </h2>
             {handIns && handIns.length === 0 ? <p className="text-sm">No students in the class yet.</p> : null}
             {handIns && handIns.length > 0 && labels ? (
-              <div className="overflow-x-auto">
+              <ScrollTable label="Hand-ins table">
                 <table className="w-full min-w-[44rem] border-collapse text-sm">
                   <caption className="sr-only">Each student’s copy with its key figures</caption>
                   <thead>
@@ -207,7 +223,7 @@ export default function LessonPage({ loaderData, actionData }: Route.ComponentPr
                     ))}
                   </tbody>
                 </table>
-              </div>
+              </ScrollTable>
             ) : null}
           </section>
         </>

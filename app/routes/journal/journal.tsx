@@ -15,6 +15,7 @@ import { requireOwnedTank } from "~/features/tanks/tanks.server";
 import { requireUser } from "~/permissions.server";
 import { journalAction, journalPageData, type JournalAnswer } from "~/routes/journal/journal-page.server";
 import { formatDate } from "~/utils/dates";
+import { ScrollTable } from "~/components/ui/scroll-table";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `Journal · ${data?.tank.name ?? "Tank"} · Fernwater` }];
 
@@ -242,40 +243,42 @@ export default function JournalPage({ loaderData, actionData }: Route.ComponentP
         {entries.length === 0 ? (
           <p className="text-stone-600">No entries yet.</p>
         ) : (
-          <table className="w-full text-sm">
-            <thead>
-              <tr className="text-left">
-                <th>Date</th>
-                <th>What</th>
-                <th>Details</th>
-                <th>Note</th>
-                <th />
-              </tr>
-            </thead>
-            <tbody>
-              {entries.map((e) => (
-                <tr key={e.id} className="border-t border-stone-200">
-                  <td className="figure">{e.when}</td>
-                  <td>{e.kind}</td>
-                  <td>{e.what}</td>
-                  <td>{e.note}</td>
-                  <td>
-                    <Form method="post">
-                      <input type="hidden" name="intent" value="delete" />
-                      <input type="hidden" name="entryId" value={e.id} />
-                      <button
-                        type="submit"
-                        className="text-red-800 underline"
-                        aria-label={`Delete the entry of ${e.when}`}
-                      >
-                        Delete
-                      </button>
-                    </Form>
-                  </td>
+          <ScrollTable label="Journal entries table">
+            <table className="w-full text-sm">
+              <thead>
+                <tr className="text-left">
+                  <th>Date</th>
+                  <th>What</th>
+                  <th>Details</th>
+                  <th>Note</th>
+                  <th />
                 </tr>
-              ))}
-            </tbody>
-          </table>
+              </thead>
+              <tbody>
+                {entries.map((e) => (
+                  <tr key={e.id} className="border-t border-stone-200">
+                    <td className="figure">{e.when}</td>
+                    <td>{e.kind}</td>
+                    <td>{e.what}</td>
+                    <td>{e.note}</td>
+                    <td>
+                      <Form method="post">
+                        <input type="hidden" name="intent" value="delete" />
+                        <input type="hidden" name="entryId" value={e.id} />
+                        <button
+                          type="submit"
+                          className="text-red-800 underline"
+                          aria-label={`Delete the entry of ${e.when}`}
+                        >
+                          Delete
+                        </button>
+                      </Form>
+                    </td>
+                  </tr>
+                ))}
+              </tbody>
+            </table>
+          </ScrollTable>
         )}
       </section>
 
@@ -288,8 +291,15 @@ export default function JournalPage({ loaderData, actionData }: Route.ComponentP
           — the same columns upload again. A file is stored whole or not at all; every row that needs attention is named
           by its line.
         </p>
-        <Form method="post" encType="multipart/form-data" className="flex items-end gap-2">
-          <input type="file" name="file" accept=".csv,text/csv" aria-label="Journal CSV file" required />
+        <Form method="post" encType="multipart/form-data" className="flex flex-wrap items-end gap-2">
+          <input
+            type="file"
+            name="file"
+            accept=".csv,text/csv"
+            aria-label="Journal CSV file"
+            required
+            className="max-w-full"
+          />
           <button type="submit" className="btn">
             Upload
           </button>

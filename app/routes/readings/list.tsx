@@ -33,6 +33,7 @@ import {
   type ListQuery,
 } from "~/routes/readings/readings-page.server";
 import { Breadcrumbs } from "~/components/breadcrumbs";
+import { ScrollTable } from "~/components/ui/scroll-table";
 
 export const meta: Route.MetaFunction = ({ data }) => [
   { title: `Readings · ${data?.tank.name ?? "Tank"} · Fernwater` },
@@ -274,7 +275,7 @@ function ReadingsTable({
   const ariaSort = (key: SortKey) =>
     query.sort === key ? (query.dir === "asc" ? "ascending" : "descending") : undefined;
   return (
-    <div className="overflow-x-auto rounded-lg border border-stone-200 bg-white">
+    <ScrollTable label="Readings table" className="rounded-lg border border-stone-200 bg-white">
       <table className="w-full min-w-[44rem] text-sm">
         <caption className="sr-only">
           Readings, sorted by {query.sort} ({query.dir === "asc" ? "ascending" : "descending"})
@@ -339,6 +340,6 @@ function ReadingsTable({
           ))}
         </tbody>
       </table>
-    </div>
+    </ScrollTable>
   );
 }

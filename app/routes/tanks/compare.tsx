@@ -13,6 +13,7 @@ import { listScenarios, requireOwnedTank } from "~/features/tanks/tanks.server";
 import { displayUnitsFor, formatNumber } from "~/utils/display-units";
 import { budgetSections } from "~/components/charts/budget-model";
 import { Breadcrumbs } from "~/components/breadcrumbs";
+import { ScrollTable } from "~/components/ui/scroll-table";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `Compare · ${data?.tank.name ?? "Tank"} · Fernwater` }];
 
@@ -148,7 +149,7 @@ export default function ComparePage({ loaderData }: Route.ComponentProps) {
             <h2 id="figures-title" className="text-lg">
               Key figures
             </h2>
-            <div className="overflow-x-auto">
+            <ScrollTable label="Key figures table">
               <table className="w-full min-w-[36rem] border-collapse text-sm">
                 <caption className="sr-only">
                   Key figures of each scenario; differences from the baseline are marked
@@ -190,13 +191,13 @@ export default function ComparePage({ loaderData }: Route.ComponentProps) {
                   ))}
                 </tbody>
               </table>
-            </div>
+            </ScrollTable>
           </section>
           <section aria-labelledby="budget-title" className="space-y-2">
             <h2 id="budget-title" className="text-lg">
               Nitrogen budget (mg N over the run)
             </h2>
-            <div className="overflow-x-auto">
+            <ScrollTable label="Budgets table">
               <table className="w-full min-w-[36rem] border-collapse text-sm">
                 <caption className="sr-only">Where the nitrogen came from and went, per scenario</caption>
                 <thead>
@@ -232,7 +233,7 @@ export default function ComparePage({ loaderData }: Route.ComponentProps) {
                   ))}
                 </tbody>
               </table>
-            </div>
+            </ScrollTable>
           </section>
           <CautionsPanel
             tapNitrateAboveDrinkingLimit={runs.some((r) => r.tapNitrateAboveDrinkingLimit)}

@@ -17,6 +17,7 @@ import { fieldErrors, formValues } from "~/utils/form-errors";
 import { invalid, readForm } from "~/http/pages.server";
 import { TankNameSchema, TankNotesSchema } from "~/routes/tanks/tanks-page.server";
 import { Breadcrumbs } from "~/components/breadcrumbs";
+import { ScrollTable } from "~/components/ui/scroll-table";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.tank.name ?? "Tank"} · Fernwater` }];
 
@@ -135,7 +136,8 @@ export async function action({ request, params }: Route.ActionArgs) {
         .where(and(eq(scenarios.id, parsed.data.scenarioId), eq(scenarios.tankId, tank.id)))
         .run().changes;
     });
-    if (typeof outcome === "object") return invalid({ "": handedInMessage(outcome.lessonTitle, "scenario") }, values, 409);
+    if (typeof outcome === "object")
+      return invalid({ "": handedInMessage(outcome.lessonTitle, "scenario") }, values, 409);
     if (outcome === 0) return invalid({ "": "That scenario is not in this tank." }, values);
     return redirect(`/tanks/${tank.id}`);
   }
@@ -183,7 +185,7 @@ export default function TankPage({ loaderData, actionData }: Route.ComponentProp
           <p>No scenarios yet. Start one from a preset or from Fernwater’s defaults.</p>
         ) : (
           <Form method="get" action={`/tanks/${tank.id}/compare`} className="space-y-3">
-            <div className="overflow-x-auto">
+            <ScrollTable label="Scenarios table">
               <table className="w-full min-w-[40rem] border-collapse text-sm">
                 <caption className="sr-only">Scenarios of this tank with the key figures of their latest run</caption>
                 <thead>
@@ -234,7 +236,7 @@ export default function TankPage({ loaderData, actionData }: Route.ComponentProp
                   ))}
                 </tbody>
               </table>
-            </div>
+            </ScrollTable>
             {loaderData.scenarios.length >= 2 ? (
               <button type="submit" className="btn-secondary">
                 Compare the ticked scenarios (2–4)

@@ -81,26 +81,28 @@ export default function TanksPage({ loaderData, actionData }: Route.ComponentPro
               </h2>
               {t.notes ? <p className="text-sm text-stone-600">{t.notes}</p> : null}
               {t.latest ? (
-                <dl className="grid grid-cols-3 gap-2 text-sm">
-                  <div>
-                    <dt className="text-xs text-stone-600">Nitrate at the end</dt>
-                    <dd className="figure">
-                      {formatNumber(t.latest.figures.nitrateEnd)} <span className="text-xs">{labels.nitrate}</span>
-                    </dd>
-                  </div>
-                  <div>
-                    <dt className="text-xs text-stone-600">Peak free ammonia</dt>
-                    <dd className="figure">
-                      {formatNumber(t.latest.figures.peakFreeNh3.value)}{" "}
-                      <span className="text-xs">{labels.ammonia}</span>
-                    </dd>
-                  </div>
-                  <div>
-                    <dt className="text-xs text-stone-600">Days above target</dt>
-                    <dd className="figure">{formatNumber(t.latest.figures.daysAboveNitrateTarget)}</dd>
-                  </div>
-                  <p className="col-span-3 text-xs text-stone-500">Latest run: {t.latest.scenarioName}</p>
-                </dl>
+                <>
+                  <dl className="grid grid-cols-3 gap-2 text-sm">
+                    <div>
+                      <dt className="text-xs text-stone-600">Nitrate at the end</dt>
+                      <dd className="figure">
+                        {formatNumber(t.latest.figures.nitrateEnd)} <span className="text-xs">{labels.nitrate}</span>
+                      </dd>
+                    </div>
+                    <div>
+                      <dt className="text-xs text-stone-600">Peak free ammonia</dt>
+                      <dd className="figure">
+                        {formatNumber(t.latest.figures.peakFreeNh3.value)}{" "}
+                        <span className="text-xs">{labels.ammonia}</span>
+                      </dd>
+                    </div>
+                    <div>
+                      <dt className="text-xs text-stone-600">Days above target</dt>
+                      <dd className="figure">{formatNumber(t.latest.figures.daysAboveNitrateTarget)}</dd>
+                    </div>
+                  </dl>
+                  <p className="mt-2 text-xs text-stone-500">Latest run: {t.latest.scenarioName}</p>
+                </>
               ) : (
                 <p className="text-sm text-stone-500">No runs yet.</p>
               )}

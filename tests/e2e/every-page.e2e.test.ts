@@ -1,0 +1,192 @@
+/**
+ * Every page, as each of its people sees it (issue 12, items 10 and 11):
+ * - accessibility: axe-core (@axe-core/playwright) with the WCAG 2.1 A and AA rules finds no
+ *   serious or critical violation (Deque's impact levels; W3C WCAG 2.1);
+ * - phones: at 390 px wide no page scrolls sideways as a whole (wide tables scroll inside their
+ *   own box), and a screenshot of each is saved for a person to look at.
+ * The pages are found by following the demo club's links, so a new page linked from these is
+ * crawled too once it is added to the list of paths below.
+ */
+import AxeBuilder from "@axe-core/playwright";
+import { describe, expect, it } from "vitest";
+import { DEMO, newPage, type PageWithErrors, signIn, useBrowser } from "./support/browser";
+
+useBrowser();
+
+const PHONE = 390;
+
+type Visit = { name: string; path: string };
+
+/** The first link on the current page whose path matches, as a path. */
+async function linkMatching(page: PageWithErrors, pattern: RegExp): Promise<string> {
+  const hrefs = await page
+    .locator("a[href]")
+    .evaluateAll((links) => links.map((a) => new URL((a as HTMLAnchorElement).href).pathname));
+  const found = hrefs.find((href) => pattern.test(href));
+  if (!found) throw new Error(`no link matching ${pattern} on ${page.url()}`);
+  return found;
+}
+
+/** The keeper's pages, found through the demo keeper's first tank and scenario. */
+async function keeperPages(page: PageWithErrors): Promise<Visit[]> {
+  await page.goto("/tanks");
+  const tank = await linkMatching(page, /^\/tanks\/\d+$/);
+  await page.goto(tank);
+  const scenario = await linkMatching(page, /^\/tanks\/\d+\/scenarios\/\d+$/);
+  const scenarioIds = (
+    await page
+      .locator("a[href]")
+      .evaluateAll((links) => links.map((a) => new URL((a as HTMLAnchorElement).href).pathname))
+  )
+    .map((href) => /^\/tanks\/\d+\/scenarios\/(\d+)$/.exec(href)?.[1])
+    .filter((id): id is string => Boolean(id));
+  const compared = [...new Set(scenarioIds)].slice(0, 3);
+  expect(compared.length).toBeGreaterThan(1);
+  return [
+    { name: "tanks", path: "/tanks" },
+    { name: "tank", path: tank },
+    { name: "results", path: scenario },
+    { name: "scenario-edit", path: `${scenario}/edit` },
+    { name: "scenario-new", path: `${tank}/scenarios/new` },
+    { name: "import", path: `${tank}/import` },
+    { name: "compare-choose", path: `${tank}/compare` },
+    { name: "compare", path: `${tank}/compare?${compared.map((id) => `s=${id}`).join("&")}` },
+    { name: "readings", path: `${tank}/readings` },
+    { name: "readings-upload", path: `${tank}/readings/upload` },
+    { name: "journal", path: `${tank}/journal` },
+    { name: "calibrate", path: `${scenario}/calibrate` },
+    { name: "sweep", path: `${scenario}/sweep` },
+    { name: "target", path: `${scenario}/target` },
+    { name: "share-manage", path: `${scenario}/share` },
+    { name: "account", path: "/account" },
+  ];
+}
+
+async function teacherPages(page: PageWithErrors): Promise<Visit[]> {
+  await page.goto("/classes");
+  const klass = await linkMatching(page, /^\/classes\/\d+$/);
+  await page.goto(klass);
+  const lesson = await linkMatching(page, /^\/classes\/\d+\/lessons\/\d+$/);
+  return [
+    { name: "classes", path: "/classes" },
+    { name: "class", path: klass },
+    { name: "lesson", path: lesson },
+    { name: "lesson-new", path: `${klass}/lessons/new` },
+    { name: "present", path: `${lesson}/present` },
+  ];
+}
+
+async function studentPages(page: PageWithErrors): Promise<Visit[]> {
+  await page.goto("/classes");
+  const klass = await linkMatching(page, /^\/classes\/\d+$/);
+  await page.goto(klass);
+  const lesson = await linkMatching(page, /^\/classes\/\d+\/lessons\/\d+(\/work)?$/);
+  return [
+    { name: "student-classes", path: "/classes" },
+    { name: "student-class", path: klass },
+    { name: "student-lesson", path: lesson },
+  ];
+}
+
+async function adminPages(page: PageWithErrors): Promise<Visit[]> {
+  await page.goto("/admin/links");
+  const link = await linkMatching(page, /^\/admin\/links\/\d+$/);
+  return [
+    { name: "admin-users", path: "/admin" },
+    { name: "admin-links", path: "/admin/links" },
+    { name: "admin-link", path: link },
+    { name: "admin-classes", path: "/admin/classes" },
+  ];
+}
+
+const ANONYMOUS: Visit[] = [
+  { name: "home", path: "/" },
+  { name: "sign-in", path: "/sign-in" },
+  { name: "sign-up", path: "/sign-up" },
+  { name: "forgot-password", path: "/forgot-password" },
+  { name: "share", path: "/s/tidewell-demo-theo-as-kept-now" },
+  { name: "not-found", path: "/no-such-page" },
+];
+
+/** Opens a page and waits until it has hydrated (charts drawn, forms live). */
+async function open(page: PageWithErrors, path: string) {
+  const response = await page.goto(path);
+  expect(response, path).not.toBeNull();
+  await page.waitForLoadState("networkidle");
+}
+
+/** Serious and critical axe violations of WCAG 2.1 A/AA on the open page, one line each. */
+async function seriousViolations(page: PageWithErrors, name: string): Promise<string[]> {
+  const result = await new AxeBuilder({ page }).withTags(["wcag2a", "wcag2aa", "wcag21a", "wcag21aa"]).analyze();
+  return result.violations
+    .filter((v) => v.impact === "serious" || v.impact === "critical")
+    .map(
+      (v) =>
+        `${name}: ${v.id} (${v.impact}) ${v.help} — ${v.nodes
+          .map((n) => n.target.join(" "))
+          .slice(0, 3)
+          .join(" | ")}`,
+    );
+}
+
+/** How far the page scrolls sideways as a whole at phone width (0 = not at all). */
+async function sidewaysOverflow(page: PageWithErrors): Promise<number> {
+  return page.evaluate(() => document.documentElement.scrollWidth - document.documentElement.clientWidth);
+}
+
+const PEOPLE: { who: string; email: string | null; pages: (page: PageWithErrors) => Promise<Visit[]> }[] = [
+  { who: "anonymous visitor", email: null, pages: async () => ANONYMOUS },
+  { who: "keeper", email: DEMO.jonah, pages: keeperPages },
+  { who: "educator", email: DEMO.teacher, pages: teacherPages },
+  { who: "student", email: DEMO.student, pages: studentPages },
+  { who: "admin", email: DEMO.admin, pages: adminPages },
+];
+
+describe("every page, for each of its people", () => {
+  for (const person of PEOPLE) {
+    it(`${person.who}: no serious or critical accessibility problem, and nothing scrolls sideways at ${PHONE} px`, async () => {
+      const desk = await newPage();
+      const phone = await newPage({ width: PHONE });
+      if (person.email) {
+        await signIn(desk, person.email, DEMO.password);
+        await signIn(phone, person.email, DEMO.password);
+      }
+      const visits = await person.pages(desk);
+      const problems: string[] = [];
+      const overflowing: string[] = [];
+      for (const visit of visits) {
+        await open(desk, visit.path);
+        problems.push(...(await seriousViolations(desk, visit.name)));
+        await open(phone, visit.path);
+        const overflow = await sidewaysOverflow(phone);
+        if (overflow > 0) overflowing.push(`${visit.name} (${visit.path}) scrolls ${overflow} px sideways`);
+        await phone.screenshot({ path: `test-results/screenshots/phone-${visit.name}.png`, fullPage: true });
+      }
+      expect(visits.length).toBeGreaterThan(0);
+      expect({ problems, overflowing }).toEqual({ problems: [], overflowing: [] });
+    }, 240_000);
+  }
+});
+
+describe("wide tables on a phone", () => {
+  it("scroll inside their own box, say so, and keep the first column in view", async () => {
+    const phone = await newPage({ width: PHONE });
+    await signIn(phone, DEMO.jonah, DEMO.password);
+    const pages = await keeperPages(phone);
+    for (const name of ["readings", "compare"]) {
+      await open(phone, pages.find((p) => p.name === name)!.path);
+      const box = phone.locator(".scroll-table").first();
+      await expect.poll(() => box.getAttribute("data-hidden"), { message: name }).toBe("right");
+      await phone.getByText("More columns: scroll sideways →").first().waitFor({ timeout: 5000 });
+      const firstCell = box.locator("tbody tr").first().locator("th, td").first();
+      const secondCell = box.locator("tbody tr").first().locator("th, td").nth(1);
+      const before = { first: (await firstCell.boundingBox())!.x, second: (await secondCell.boundingBox())!.x };
+      await box.evaluate((el) => el.scrollBy({ left: 120 }));
+      await expect.poll(() => box.getAttribute("data-hidden")).not.toBe("right");
+      const after = { first: (await firstCell.boundingBox())!.x, second: (await secondCell.boundingBox())!.x };
+      expect(after.first, `${name}: the first column stays`).toBeCloseTo(before.first, 0);
+      expect(after.second, `${name}: the rest scrolls`).toBeLessThan(before.second - 50);
+      expect(await sidewaysOverflow(phone)).toBe(0);
+    }
+  });
+});
