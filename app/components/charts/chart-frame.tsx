@@ -187,7 +187,15 @@ export function ChartFrame({
           {yTicks.map((tk) => (
             <g key={`l${tk.value}`} transform={`translate(0,${tk.pos})`}>
               <line x1={-4} x2={0} stroke={INK} />
-              <text x={-6} dy="0.32em" textAnchor="end" fontSize={fs} fill={INK} fontFamily={MONO_STACK}>
+              <text
+                x={-6}
+                dy="0.32em"
+                textAnchor="end"
+                fontSize={fs}
+                fill={INK}
+                fontFamily={MONO_STACK}
+                data-y-tick={tk.value}
+              >
                 {tk.label}
               </text>
             </g>

@@ -96,11 +96,19 @@ export type TimeSeriesChartProps = {
   downloadName?: string | false;
 };
 
-type PanelKey = "toxic" | "nitrate" | "plants" | "oxygen";
-/** Which panel a reading of each species is drawn on. */
-const READING_PANEL: Record<string, PanelKey> = { tan: "toxic", no2: "toxic", no3: "nitrate" };
+type PanelKey = "ammonia" | "nitrite" | "nitrate" | "plants" | "oxygen";
+/** The panel each species (and its readings) is drawn on. */
+const SPECIES_PANEL: Record<string, PanelKey> = { tan: "ammonia", nh3: "ammonia", no2: "nitrite", no3: "nitrate" };
 const OXYGEN_COLOR = "#0e7490";
 const CAUTION_RED = "#b91c1c";
+
+/** "TAN · free NH3, mg/L NH3" when the species share a unit, else each with its own. */
+function sharedUnitTitle(keys: readonly SeriesKey[], units: ChartUnits): string {
+  const names = keys.map((k) => SERIES_NAMES[k].short);
+  const unitList = [...new Set(keys.map((k) => unitOf(k, units)))];
+  if (unitList.length <= 1) return `${names.join(" · ")}${unitList.length ? `, ${unitList[0]}` : ""}`;
+  return keys.map((k, i) => `${names[i]}, ${unitOf(k, units)}`).join(" · ");
+}
 
 const LINE_WIDTH: Record<SeriesKey, number> = { tan: 2, nh3: 1.75, no2: 2, no3: 2.25, plants: 1.75 };
 const OVERLAY_OPACITY = 0.5;
@@ -152,7 +160,7 @@ export const TimeSeriesChart = memo(function TimeSeriesChart({
           key: `${prefix}-${k}`,
           t: s.t,
           y: s[k],
-          panel: k === "no3" ? "nitrate" : "toxic",
+          panel: SPECIES_PANEL[k],
           color: SERIES_COLORS[k],
           dash: SERIES_DASH[k],
           width: overlay ? OVERLAY_WIDTH : LINE_WIDTH[k],
@@ -264,39 +272,45 @@ export const TimeSeriesChart = memo(function TimeSeriesChart({
     return out;
   }, [readings, visible, units]);
 
-  // Stacked panels on one time axis: the toxic species on their own scale (tenths of a mg/L,
-  // never flattened under nitrate's tens), nitrate with its band, plant mass, oxygen.
+  // Stacked panels on one time axis: ammonia and nitrite each on their own scale (tenths of a
+  // mg/L, never flattened under nitrate's tens, nor ammonia under a nitrite peak), nitrate with
+  // its band, plant mass, oxygen.
   const panels = useMemo((): FramePanel[] => {
     const scale = height / 340;
-    const toxic = SPECIES.filter((k) => k !== "no3" && visible[k]);
-    const toxicUnits = [...new Set(toxic.map((k) => unitOf(k, units)))].join(" · ");
     const guidePanel: Record<string, PanelKey> = {
-      "nh3-caution": "toxic",
-      "tan-criterion": "toxic",
-      "no2-caution": "toxic",
+      "nh3-caution": "ammonia",
+      "tan-criterion": "ammonia",
+      "no2-caution": "nitrite",
       "o2-caution": "oxygen",
     };
     const of = (panel: PanelKey) => ({
       lines: lines.filter((l) => l.panel === panel),
       guides: guideLines.filter((g) => guidePanel[g.key] === panel),
-      points: points.filter((p) => READING_PANEL[p.key.slice(p.key.lastIndexOf("-") + 1)] === panel),
+      points: points.filter((p) => SPECIES_PANEL[p.key.slice(p.key.lastIndexOf("-") + 1)] === panel),
     });
+    const ammonia = (["tan", "nh3"] as const).filter((k) => visible[k]);
     return [
       {
-        key: "toxic",
-        label: `${toxic.map((k) => SERIES_NAMES[k].short).join(" · ")}, ${toxicUnits}`,
-        height: Math.round(170 * scale),
-        ...of("toxic"),
+        key: "ammonia",
+        label: sharedUnitTitle(ammonia, units),
+        height: Math.round(130 * scale),
+        ...of("ammonia"),
+      },
+      {
+        key: "nitrite",
+        label: `NO2, ${unitOf("no2", units)}`,
+        height: Math.round(100 * scale),
+        ...of("nitrite"),
       },
       {
         key: "nitrate",
         label: `NO3, ${unitOf("no3", units)}`,
-        height: Math.round(140 * scale),
+        height: Math.round(120 * scale),
         bands,
         ...of("nitrate"),
       },
-      { key: "plants", label: `plants, ${PLANT_UNIT}`, height: Math.round(90 * scale), ...of("plants") },
-      { key: "oxygen", label: "oxygen, mg O2/L", height: Math.round(90 * scale), ...of("oxygen") },
+      { key: "plants", label: `plants, ${PLANT_UNIT}`, height: Math.round(80 * scale), ...of("plants") },
+      { key: "oxygen", label: "oxygen, mg O2/L", height: Math.round(80 * scale), ...of("oxygen") },
     ];
   }, [lines, guideLines, bands, points, visible, units, height]);
 
