@@ -4,7 +4,6 @@ import { TimeSeriesChart } from "~/components/charts/time-series-chart";
 import { CautionsPanel } from "~/components/cautions";
 import { KeyFiguresList } from "~/components/key-figures";
 import { RunWarnings } from "~/components/run-warnings";
-import { OxygenChart } from "~/components/charts/oxygen-chart";
 import { SettingsSummary } from "~/components/settings-summary";
 import { FormMessage } from "~/components/ui/field";
 import type { ReadOnlyView } from "~/features/runs/results-payload";
@@ -58,7 +57,6 @@ export function ReadOnlyResults({
             guides={results.guides}
             downloadName={downloadName}
           />
-          <OxygenChart series={series} caution={results.guides.oxygenCaution} name={name} />
           <section aria-labelledby="budget-title" className="card space-y-4">
             <h2 id="budget-title" className="text-lg">
               Nitrogen budget

@@ -15,7 +15,9 @@ if (reset && file !== ":memory:") {
 const db = getDb();
 const existing = db.select({ n: count() }).from(users).get()?.n ?? 0;
 if (existing > 0) {
-  console.log(`${file} already holds ${existing} users; nothing seeded. Use \`npm run seed -- --reset\` to start over.`);
+  console.log(
+    `${file} already holds ${existing} users; nothing seeded. Use \`npm run seed -- --reset\` to start over.`,
+  );
 } else {
   await seedDemoData(db);
   console.log(`Seeded the demo club into ${file}. Accounts (password "${DEMO_PASSWORD}"):`);

@@ -23,7 +23,7 @@ describe("specific warnings where fish can be harmed", () => {
     await page.getByText("Test the water now and on the days named").waitFor();
     // The card of the figure crossing the caution is flagged.
     expect(await page.locator("[data-flagged]").first().textContent()).toContain("Peak free ammonia");
-    await page.getByRole("heading", { name: "Dissolved oxygen" }).waitFor();
+    await page.locator('[data-panel="oxygen"]').waitFor();
     await shot(page, "results-warnings");
     expectNoConsoleErrors(page);
   });
@@ -64,7 +64,7 @@ describe("results screens for a person to look at", () => {
     const tankUrl = page.url();
     await page.getByRole("link", { name: "Baseline", exact: true }).first().click();
     await page.getByRole("application").waitFor();
-    await page.getByRole("heading", { name: "Dissolved oxygen" }).waitFor();
+    await page.locator('[data-panel="oxygen"]').waitFor();
     await shot(page, "results");
 
     await page.goto(tankUrl);

@@ -3,13 +3,10 @@ import { type ReactNode } from "react";
 import { type CursorVia } from "~/components/charts/hooks";
 import type { ChartEvent } from "~/utils/chart-data";
 
-export type Axis = "left" | "right";
-
 export type FrameLine = {
   key: string;
   t: ArrayLike<number>;
   y: ArrayLike<number>;
-  axis: Axis;
   color: string;
   dash?: string;
   width: number;
@@ -31,6 +28,19 @@ export type FramePoint = {
   title: string;
 };
 
+/** One panel of stacked panels sharing the time axis: its own value scale, title and labels. */
+export type FramePanel = {
+  key: string;
+  /** Axis title above the panel, e.g. "TAN · free NH3 · NO2, mg/L". */
+  label: string;
+  lines: readonly FrameLine[];
+  bands?: readonly FrameBand[];
+  guides?: readonly FrameGuide[];
+  points?: readonly FramePoint[];
+  /** Plot height in px. */
+  height: number;
+};
+
 type FrameCursor = {
   index: number;
   moveTo: (i: number, via: CursorVia) => void;
@@ -42,14 +52,11 @@ export type ChartFrameProps = {
   description: string;
   /** Sample days the cursor steps through (the main run's). */
   t: ArrayLike<number>;
-  lines: readonly FrameLine[];
-  leftLabel: string | null;
-  rightLabel: string | null;
-  bands?: readonly FrameBand[];
-  guides?: readonly FrameGuide[];
-  points?: readonly FramePoint[];
+  /** Panels top to bottom; the time axis and event strip sit under the last. */
+  panels: readonly FramePanel[];
   events?: readonly ChartEvent[];
-  height: number;
+  /** Smallest text size in px (18 in the presentation view, else 11). */
+  minFontSize?: number;
   cursor: FrameCursor;
   /** What the cursor shows, next to the chart (below it on narrow screens). */
   readout: ReactNode;

@@ -14,36 +14,28 @@ import { useContainerWidth, type CursorVia } from "~/components/charts/hooks";
 import { PATH_SCALE, linePath, scaledDash } from "~/components/charts/paths";
 import { nearestIndex, sampleSide, valueAt } from "~/utils/series-lookup";
 import { GRID, INK, MONO_STACK, SERIF_STACK } from "~/components/charts/palette";
-import {
-  EVENT_ROW,
-  dayDomain,
-  maxFinite,
-  plotBox,
-  spreadLabels,
-  tickCounts,
-  ticksOf,
-  valueDomain,
-} from "~/components/charts/scales";
+import { EVENT_ROW, dayDomain, maxFinite, plotBox, ticksOf, valueDomain } from "~/components/charts/scales";
 import { formatDay } from "~/components/charts/format";
 import { EVENT_ORDER, EventStrip } from "~/components/charts/event-strip";
-import type { Axis, ChartFrameProps } from "~/components/charts/chart-frame-types";
+import type { ChartFrameProps } from "~/components/charts/chart-frame-types";
+import { estimateTextWidth, layoutLabels, type LabelRequest } from "~/components/charts/label-layout";
 
-export type { FrameBand, FrameGuide, FrameLine, FramePoint } from "~/components/charts/chart-frame-types";
+export type { FrameBand, FrameGuide, FrameLine, FramePanel, FramePoint } from "~/components/charts/chart-frame-types";
 
 const EMPTY: readonly never[] = [];
+
+/** Space between stacked panels, in font sizes. */
+const PANEL_GAP_EM = 0.8;
+/** Row above each panel for its axis title, in font sizes. */
+const PANEL_HEADER_EM = 2.1;
 
 export function ChartFrame({
   title,
   description,
   t,
-  lines,
-  leftLabel,
-  rightLabel,
-  bands = EMPTY,
-  guides = EMPTY,
-  points = EMPTY,
+  panels,
   events = EMPTY,
-  height,
+  minFontSize = 11,
   cursor,
   readout,
   announcement,
@@ -54,217 +46,266 @@ export function ChartFrame({
   const rawId = useId();
   const id = rawId.replace(/[^a-zA-Z0-9_-]/g, "");
   const [containerRef, width] = useContainerWidth<HTMLDivElement>();
+  const shown = useMemo(() => panels.filter((p) => p.lines.length > 0), [panels]);
+  const fallbackHeight = panels.reduce((s, p) => s + p.height + 40, 60);
 
   const geometry = useMemo(() => {
     if (width == null || width <= 0) return null;
-    const hasLeft = lines.some((l) => l.axis === "left");
-    const hasRight = lines.some((l) => l.axis === "right");
     const eventKinds = EVENT_ORDER.filter((k) => events.some((e) => e.kind === k));
-    const box = plotBox(width, height, { rightAxis: hasRight, eventRows: eventKinds.length });
+    const box = plotBox(width, 100, { rightAxis: false, eventRows: eventKinds.length, minFontSize });
+    const fs = box.fontSize;
+    const header = Math.round(fs * PANEL_HEADER_EM);
+    const gap = Math.round(fs * PANEL_GAP_EM);
+    // The top margin holds only the cursor's day; each panel has its own title row.
+    const top = Math.round(fs * 1.5);
     const [x0, x1] = dayDomain(t);
-    const counts = tickCounts(box);
     const x = scaleLinear().domain([x0, x1]).range([0, box.innerWidth]);
-    const leftMax = [
-      ...lines.filter((l) => l.axis === "left").map((l) => maxFinite(l.y)),
-      ...guides.map((g) => g.value),
-      ...bands.map((b) => b.high),
-      ...points.map((p) => p.value),
-    ];
-    const rightMax = lines.filter((l) => l.axis === "right").map((l) => maxFinite(l.y));
-    const yLeft = scaleLinear().domain(valueDomain(leftMax, counts.y)).range([box.innerHeight, 0]);
-    const yRight = scaleLinear().domain(valueDomain(rightMax, counts.y)).range([box.innerHeight, 0]);
-    return { box, x, x0, x1, counts, yLeft, yRight, hasLeft, hasRight, eventKinds };
-  }, [width, height, t, lines, guides, bands, points, events]);
+    let offset = top;
+    const placedPanels = shown.map((p, k) => {
+      const plotTop = offset + header;
+      const h = Math.max(40, p.height);
+      offset = plotTop + h + (k < shown.length - 1 ? gap : 0);
+      const yCount = Math.max(2, Math.floor(h / (fs * 3.2)));
+      const maxima = [
+        ...p.lines.map((l) => maxFinite(l.y)),
+        ...(p.guides ?? []).map((g) => g.value),
+        ...(p.bands ?? []).map((b) => b.high),
+        ...(p.points ?? []).map((q) => q.value),
+      ];
+      const y = scaleLinear().domain(valueDomain(maxima, yCount)).range([h, 0]);
+      return { panel: p, top: plotTop, height: h, y, yCount };
+    });
+    const totalHeight = offset + box.margin.bottom;
+    const xCount = Math.max(2, Math.floor(box.innerWidth / (fs * 6.5)));
+    return { box, fs, x, xCount, panels: placedPanels, plotBottom: offset, totalHeight, eventKinds };
+  }, [width, t, shown, events, minFontSize]);
 
   // Everything that does not move with the cursor.
   const staticLayer = useMemo(() => {
     if (!geometry) return null;
-    const { box, x, counts, yLeft, yRight, hasLeft, hasRight, eventKinds } = geometry;
+    const { box, fs, x, xCount, eventKinds, plotBottom } = geometry;
     const strip = eventKinds.length * EVENT_ROW;
-    const fs = box.fontSize;
-    const small = Math.round(fs * 0.85);
-    const yOf = (axis: Axis) => (axis === "left" ? yLeft : yRight);
-    const gridScale = hasLeft ? yLeft : yRight;
-    const xTicks = ticksOf(x, counts.x);
-    const leftTicks = hasLeft ? ticksOf(yLeft, counts.y) : [];
-    const rightTicks = hasRight ? ticksOf(yRight, counts.y) : [];
+    const xTicks = ticksOf(x, xCount);
+    const overflowLabels: string[] = [];
 
-    const paths = lines.map((l) => ({ line: l, d: linePath(l.t, l.y, x, yOf(l.axis), box.innerWidth) }));
+    const drawn = geometry.panels.map(({ panel, top, height: h, y, yCount }) => {
+      const bands = panel.bands ?? EMPTY;
+      const guides = panel.guides ?? EMPTY;
+      const points = panel.points ?? EMPTY;
+      const yTicks = ticksOf(y, yCount);
+      const paths = panel.lines.map((l) => ({ line: l, d: linePath(l.t, l.y, x, y, box.innerWidth) }));
+      const labelH = Math.ceil(fs * 1.2);
+      // Labels in order of importance: cautions, then the band, then the lines' direct labels.
+      const texts = new Map<string, { text: string; color: string; bold: boolean }>();
+      const requests: LabelRequest[] = [];
+      for (const g of guides) {
+        texts.set(g.key, { text: g.label, color: g.color, bold: false });
+        requests.push({
+          id: g.key,
+          x: 4,
+          anchor: "start",
+          y: y(g.value) - labelH / 2 - 2,
+          width: estimateTextWidth(g.label, fs),
+          height: labelH,
+        });
+      }
+      for (const b of bands) {
+        texts.set(b.key, { text: b.label, color: INK, bold: false });
+        requests.push({
+          id: b.key,
+          x: 4,
+          anchor: "start",
+          y: y(b.high) + labelH / 2 + 2,
+          width: estimateTextWidth(b.label, fs),
+          height: labelH,
+        });
+      }
+      for (const l of panel.lines) {
+        if (!l.label) continue;
+        texts.set(l.key, { text: l.label, color: l.color, bold: true });
+        requests.push({
+          id: l.key,
+          x: box.innerWidth - 3,
+          anchor: "end",
+          y: y(lastFinite(l.y)),
+          width: estimateTextWidth(l.label, fs, true),
+          height: labelH,
+        });
+      }
+      const layout = layoutLabels(requests, { top: 0, bottom: h }, { gap: 2 });
+      for (const idOver of layout.overflow) {
+        const tx = texts.get(idOver);
+        if (tx) overflowLabels.push(tx.text);
+      }
 
-    const labelled = lines.filter((l) => l.label);
-    const wanted = labelled.map((l) => yOf(l.axis)(lastFinite(l.y)));
-    const placed = spreadLabels(wanted, fs + 1, fs * 0.6, box.innerHeight - fs * 0.4);
-
-    return (
-      <g>
-        <defs>
-          <clipPath id={`${id}-clip`}>
-            <rect x={0} y={-2} width={box.innerWidth} height={box.innerHeight + 4} />
-          </clipPath>
-        </defs>
-        {/* Grid and bands behind everything. */}
-        {ticksOf(gridScale, counts.y).map((tk) => (
-          <line key={`g${tk.value}`} x1={0} x2={box.innerWidth} y1={tk.pos} y2={tk.pos} stroke={GRID} strokeWidth={1} />
-        ))}
-        {bands.map((b) => {
-          const top = yLeft(b.high);
-          const bottom = yLeft(b.low);
-          return (
-            <g key={b.key}>
-              <rect x={0} width={box.innerWidth} y={top} height={Math.max(0, bottom - top)} fill={b.color} />
-              <text x={4} y={top + small + 1} fontSize={small} fill={INK} fontFamily={SERIF_STACK}>
-                {b.label}
-              </text>
-            </g>
-          );
-        })}
-        {guides.map((g, k) => {
-          const y = yLeft(g.value);
-          return (
-            <g key={g.key}>
-              <line x1={0} x2={box.innerWidth} y1={y} y2={y} stroke={g.color} strokeWidth={1} strokeDasharray="2 3" />
+      return (
+        <g key={panel.key} transform={`translate(0,${top})`} data-panel={panel.key}>
+          <defs>
+            <clipPath id={`${id}-clip-${panel.key}`}>
+              <rect x={0} y={-2} width={box.innerWidth} height={h + 4} />
+            </clipPath>
+          </defs>
+          {yTicks.map((tk) => (
+            <line
+              key={`g${tk.value}`}
+              x1={0}
+              x2={box.innerWidth}
+              y1={tk.pos}
+              y2={tk.pos}
+              stroke={GRID}
+              strokeWidth={1}
+            />
+          ))}
+          {bands.map((b) => {
+            const bt = y(b.high);
+            const bb = y(b.low);
+            return (
+              <rect key={b.key} x={0} width={box.innerWidth} y={bt} height={Math.max(0, bb - bt)} fill={b.color} />
+            );
+          })}
+          {guides.map((g) => {
+            const gy = y(g.value);
+            return (
+              <line
+                key={g.key}
+                x1={0}
+                x2={box.innerWidth}
+                y1={gy}
+                y2={gy}
+                stroke={g.color}
+                strokeWidth={1.25}
+                strokeDasharray="4 3"
+              />
+            );
+          })}
+          {/* Axes. */}
+          <line x1={0} x2={box.innerWidth} y1={h} y2={h} stroke={INK} strokeWidth={1} />
+          {xTicks.map((tk) => (
+            <line key={`xt${tk.value}`} x1={tk.pos} x2={tk.pos} y1={h} y2={h + 4} stroke={INK} />
+          ))}
+          <line x1={0} x2={0} y1={0} y2={h} stroke={INK} />
+          {yTicks.map((tk) => (
+            <g key={`l${tk.value}`} transform={`translate(0,${tk.pos})`}>
+              <line x1={-4} x2={0} stroke={INK} />
               <text
-                // Side by side, so two cautions near zero do not print over each other.
-                x={4 + (k * box.innerWidth) / Math.max(2, guides.length)}
-                y={y - 3}
-                fontSize={small}
-                fill={g.color}
-                fontFamily={SERIF_STACK}
-                stroke="#ffffff"
-                strokeWidth={3}
-                paintOrder="stroke"
-              >
-                {g.label}
-              </text>
-            </g>
-          );
-        })}
-
-        {/* Axes. */}
-        <line x1={0} x2={box.innerWidth} y1={box.innerHeight} y2={box.innerHeight} stroke={INK} strokeWidth={1} />
-        {xTicks.map((tk) => (
-          <g key={`x${tk.value}`} transform={`translate(${tk.pos},${box.innerHeight})`}>
-            <line y1={0} y2={4} stroke={INK} />
-            <text y={strip + 4 + fs} textAnchor="middle" fontSize={fs} fill={INK} fontFamily={MONO_STACK}>
-              {tk.label}
-            </text>
-          </g>
-        ))}
-        <text
-          x={box.innerWidth / 2}
-          y={box.innerHeight + strip + 4 + fs * 2.3}
-          textAnchor="middle"
-          fontSize={fs}
-          fill={INK}
-          fontFamily={SERIF_STACK}
-        >
-          day
-        </text>
-        {hasLeft ? (
-          <g>
-            <line x1={0} x2={0} y1={0} y2={box.innerHeight} stroke={INK} />
-            {leftTicks.map((tk) => (
-              <g key={`l${tk.value}`} transform={`translate(0,${tk.pos})`}>
-                <line x1={-4} x2={0} stroke={INK} />
-                <text x={-6} dy="0.32em" textAnchor="end" fontSize={fs} fill={INK} fontFamily={MONO_STACK}>
-                  {tk.label}
-                </text>
-              </g>
-            ))}
-            {leftLabel ? (
-              <text x={-box.margin.left + 2} y={-fs * 0.9} fontSize={fs} fill={INK} fontFamily={SERIF_STACK}>
-                {leftLabel}
-              </text>
-            ) : null}
-          </g>
-        ) : null}
-        {hasRight ? (
-          <g transform={`translate(${box.innerWidth},0)`}>
-            <line x1={0} x2={0} y1={0} y2={box.innerHeight} stroke={INK} />
-            {rightTicks.map((tk) => (
-              <g key={`r${tk.value}`} transform={`translate(0,${tk.pos})`}>
-                <line x1={0} x2={4} stroke={INK} />
-                <text x={6} dy="0.32em" fontSize={fs} fill={INK} fontFamily={MONO_STACK}>
-                  {tk.label}
-                </text>
-              </g>
-            ))}
-            {rightLabel ? (
-              <text
-                x={box.margin.right - 2}
-                y={-fs * 0.9}
+                x={-6}
+                dy="0.32em"
                 textAnchor="end"
                 fontSize={fs}
                 fill={INK}
-                fontFamily={SERIF_STACK}
+                fontFamily={MONO_STACK}
+                data-y-tick={tk.value}
               >
-                {rightLabel}
+                {tk.label}
               </text>
-            ) : null}
-          </g>
-        ) : null}
-
-        {/* The curves: overlays first (the chart lists them first), clipped to the plot. Paths are
-            in tenths of a pixel (see paths.ts), hence the scaled group and widths. */}
-        <g clipPath={`url(#${id}-clip)`}>
-          <g transform={`scale(${1 / PATH_SCALE})`} fill="none" strokeLinejoin="round" strokeLinecap="butt">
-            {paths.map(({ line: l, d }) => (
-              <path
-                key={l.key}
-                d={d}
-                stroke={l.color}
-                strokeWidth={l.width * PATH_SCALE}
-                strokeDasharray={scaledDash(l.dash)}
-                strokeOpacity={l.opacity}
-              />
-            ))}
-          </g>
-        </g>
-
-        {/* Readings over the curves. */}
-        {points.map((p) => {
-          const cx = x(p.day);
-          const cy = yLeft(p.value);
-          if (!(cx >= 0 && cx <= box.innerWidth)) return null;
-          return (
-            <g key={p.key} transform={`translate(${cx},${cy})`}>
-              <title>{p.title}</title>
-              <circle
-                r={p.shape === "filled" ? 3.75 : 4}
-                fill={p.shape === "filled" ? p.color : "#ffffff"}
-                stroke={p.shape === "filled" ? "#ffffff" : p.color}
-                strokeWidth={p.shape === "filled" ? 1 : 2}
-              />
-              {p.shape === "dot" ? <circle r={1.5} fill={p.color} /> : null}
             </g>
-          );
-        })}
-
-        {/* Direct labels at the right end of each labelled line. */}
-        {labelled.map((l, k) => (
+          ))}
           <text
-            key={`lab-${l.key}`}
-            x={box.innerWidth - 3}
-            y={placed[k]}
-            dy="0.32em"
-            textAnchor="end"
-            fontSize={small}
+            x={-box.margin.left + 2}
+            y={-fs * 1.0}
+            fontSize={fs}
             fontWeight={600}
-            fill={l.color}
+            fill={INK}
             fontFamily={SERIF_STACK}
-            stroke="#fbfaf7"
-            strokeWidth={3}
-            paintOrder="stroke"
+            data-axis-title={panel.key}
           >
-            {l.label}
+            {panel.label}
           </text>
-        ))}
+          {/* The curves, clipped to the plot. Paths are in tenths of a pixel (see paths.ts). */}
+          <g clipPath={`url(#${id}-clip-${panel.key})`}>
+            <g transform={`scale(${1 / PATH_SCALE})`} fill="none" strokeLinejoin="round" strokeLinecap="butt">
+              {paths.map(({ line: l, d }) => (
+                <path
+                  key={l.key}
+                  d={d}
+                  stroke={l.color}
+                  strokeWidth={l.width * PATH_SCALE}
+                  strokeDasharray={scaledDash(l.dash)}
+                  strokeOpacity={l.opacity}
+                />
+              ))}
+            </g>
+          </g>
+          {/* Readings over the curves. */}
+          {points.map((p) => {
+            const cx = x(p.day);
+            const cy = y(p.value);
+            if (!(cx >= 0 && cx <= box.innerWidth)) return null;
+            return (
+              <g key={p.key} transform={`translate(${cx},${cy})`}>
+                <title>{p.title}</title>
+                <circle
+                  r={p.shape === "filled" ? 3.75 : 4}
+                  fill={p.shape === "filled" ? p.color : "#ffffff"}
+                  stroke={p.shape === "filled" ? "#ffffff" : p.color}
+                  strokeWidth={p.shape === "filled" ? 1 : 2}
+                />
+                {p.shape === "dot" ? <circle r={1.5} fill={p.color} /> : null}
+              </g>
+            );
+          })}
+          {/* In-plot labels, placed so that none overlaps another (label-layout.ts). */}
+          {layout.placed.map((pl) => {
+            const tx = texts.get(pl.id);
+            if (!tx) return null;
+            return (
+              <text
+                key={`lab-${pl.id}`}
+                x={pl.x}
+                y={pl.y}
+                dy="0.35em"
+                textAnchor={pl.anchor}
+                fontSize={fs}
+                fontWeight={tx.bold ? 600 : 400}
+                fill={tx.color}
+                fontFamily={SERIF_STACK}
+                stroke="#fbfaf7"
+                strokeWidth={3}
+                paintOrder="stroke"
+                data-chart-label=""
+              >
+                {tx.text}
+              </text>
+            );
+          })}
+        </g>
+      );
+    });
 
-        {/* Events on the time axis. */}
-        <EventStrip events={events} kinds={eventKinds} x={x} y={box.innerHeight + 4} width={box.innerWidth} />
-      </g>
-    );
-  }, [geometry, lines, bands, guides, points, events, id, leftLabel, rightLabel]);
+    return {
+      overflowLabels,
+      layer: (
+        <g>
+          {drawn}
+          {/* The shared time axis under the last panel. */}
+          {xTicks.map((tk) => (
+            <text
+              key={`x${tk.value}`}
+              x={tk.pos}
+              y={plotBottom + strip + 4 + fs}
+              textAnchor="middle"
+              fontSize={fs}
+              fill={INK}
+              fontFamily={MONO_STACK}
+            >
+              {tk.label}
+            </text>
+          ))}
+          <text
+            x={box.innerWidth / 2}
+            y={plotBottom + strip + 4 + fs * 2.3}
+            textAnchor="middle"
+            fontSize={fs}
+            fill={INK}
+            fontFamily={SERIF_STACK}
+          >
+            day
+          </text>
+          <EventStrip events={events} kinds={eventKinds} x={x} y={plotBottom + 4} width={box.innerWidth} />
+        </g>
+      ),
+    };
+  }, [geometry, events, id]);
 
   const help = `${id}-help`;
   const titleId = `${id}-title`;
@@ -272,42 +313,37 @@ export function ChartFrame({
 
   let cursorLayer: ReactNode = null;
   if (geometry && t.length > 0) {
-    const { box, x, yLeft, yRight } = geometry;
+    const { box, x, fs } = geometry;
     const i = cursor.index;
     const day = t[i];
     const side = sampleSide(t, i) ?? "before";
     const cx = x(day);
-    const fs = box.fontSize;
+    const first = geometry.panels[0];
+    const firstTop = first ? first.top : 0;
     cursorLayer = (
-      <g data-export="skip" pointerEvents="none">
-        <line x1={cx} x2={cx} y1={0} y2={box.innerHeight} stroke={INK} strokeWidth={1} />
-        {lines
-          .filter((l) => l.cursorDot !== false)
-          .map((l) => {
-            const v = valueAt(l.t, l.y, day, side);
-            if (!Number.isFinite(v)) return null;
-            return (
-              <circle
-                key={l.key}
-                cx={cx}
-                cy={(l.axis === "left" ? yLeft : yRight)(v)}
-                r={3.5}
-                fill={l.color}
-                stroke="#ffffff"
-                strokeWidth={1.5}
-              />
-            );
-          })}
+      <g data-export="skip" pointerEvents="none" data-cursor-day={day}>
+        {geometry.panels.map(({ panel, top, height: h, y }) => (
+          <g key={panel.key} transform={`translate(0,${top})`}>
+            <line x1={cx} x2={cx} y1={0} y2={h} stroke={INK} strokeWidth={1} data-cursor-line={panel.key} />
+            {panel.lines
+              .filter((l) => l.cursorDot !== false)
+              .map((l) => {
+                const v = valueAt(l.t, l.y, day, side);
+                if (!Number.isFinite(v)) return null;
+                return (
+                  <circle key={l.key} cx={cx} cy={y(v)} r={3.5} fill={l.color} stroke="#ffffff" strokeWidth={1.5} />
+                );
+              })}
+          </g>
+        ))}
+        {/* The day sits in its own row above the panels, clear of every label. */}
         <text
-          x={cx < box.innerWidth / 2 ? cx + 4 : cx - 4}
-          y={fs}
-          textAnchor={cx < box.innerWidth / 2 ? "start" : "end"}
-          fontSize={Math.round(fs * 0.85)}
+          x={Math.min(Math.max(cx, fs * 3), box.innerWidth - fs * 3)}
+          y={firstTop - PANEL_HEADER_EM * fs - fs * 0.45}
+          textAnchor="middle"
+          fontSize={fs}
           fill={INK}
           fontFamily={SERIF_STACK}
-          stroke="#fbfaf7"
-          strokeWidth={4}
-          paintOrder="stroke"
         >
           {formatDay(day)}
         </text>
@@ -343,8 +379,8 @@ export function ChartFrame({
               <svg
                 ref={svgRef}
                 width={geometry.box.width}
-                height={geometry.box.height}
-                viewBox={`0 0 ${geometry.box.width} ${geometry.box.height}`}
+                height={geometry.totalHeight}
+                viewBox={`0 0 ${geometry.box.width} ${geometry.totalHeight}`}
                 role="img"
                 aria-labelledby={`${titleId} ${descId}`}
                 className="block select-none"
@@ -354,18 +390,28 @@ export function ChartFrame({
               >
                 <title id={titleId}>{title}</title>
                 <desc id={descId}>{description}</desc>
-                <g transform={`translate(${geometry.box.margin.left},${geometry.box.margin.top})`}>
-                  {staticLayer}
+                <g transform={`translate(${geometry.box.margin.left},0)`}>
+                  {staticLayer?.layer}
                   {cursorLayer}
                 </g>
               </svg>
             </div>
           ) : (
             // Server render and first paint: keep the space so nothing jumps when the chart draws.
-            <svg width="100%" height={height} role="img" aria-label={`${title} (drawn when the page has loaded)`}>
+            <svg
+              width="100%"
+              height={fallbackHeight}
+              role="img"
+              aria-label={`${title} (drawn when the page has loaded)`}
+            >
               <rect width="100%" height="100%" fill="#f5f5f4" rx={6} />
             </svg>
           )}
+          {staticLayer && staticLayer.overflowLabels.length ? (
+            <p className="mt-1 text-sm text-stone-700" data-chart-overflow="">
+              Also on the chart: {staticLayer.overflowLabels.join("; ")}.
+            </p>
+          ) : null}
           <p id={help} className="mt-1 text-xs text-stone-600">
             Move the day cursor with the pointer, or focus the chart and use ← → (one sample), Page Up / Page Down (a
             week), Home / End.

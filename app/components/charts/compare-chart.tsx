@@ -6,7 +6,13 @@
 import { memo, useCallback, useId, useMemo, useRef, useState } from "react";
 import { ChartDataTable, compareTableColumns } from "~/components/charts/chart-data-table";
 import { ChartDownloads } from "~/components/charts/chart-downloads";
-import { ChartFrame, type FrameBand, type FrameGuide, type FrameLine } from "~/components/charts/chart-frame";
+import {
+  ChartFrame,
+  type FrameBand,
+  type FrameGuide,
+  type FrameLine,
+  type FramePanel,
+} from "~/components/charts/chart-frame";
 import { compareCsv, fileSlug, speciesValues } from "~/utils/csv";
 import type { LegendItem } from "~/components/charts/downloads";
 import { formatDay, formatNumber, formatSigned } from "~/components/charts/format";
@@ -87,48 +93,92 @@ export const CompareChart = memo(function CompareChart({
   const shownEvents = useMemo(() => events.filter((e) => eventKinds.includes(e.kind)), [events, eventKinds]);
   const hasPlants = runs.some((r) => r.series.plants.length > 0);
 
-  const lines = useMemo(() => {
-    const out: FrameLine[] = [];
-    runs.forEach((run, k) => {
-      if (hidden.has(k)) return;
-      const { color, dash } = compareStyle(k, species);
-      out.push({
-        key: `run-${k}`,
-        t: run.series.t,
-        y: speciesValues(run.series, species),
-        axis: "left",
-        color,
-        dash,
-        width: k === 0 ? 2.25 : 2,
-        label: run.label.length > 22 ? `${run.label.slice(0, 21)}…` : run.label,
+  const linesOf = useCallback(
+    (sp: SeriesKey) => {
+      const out: FrameLine[] = [];
+      runs.forEach((run, k) => {
+        if (hidden.has(k)) return;
+        const { color, dash } = compareStyle(k, sp);
+        out.push({
+          key: `run-${k}-${sp}`,
+          t: run.series.t,
+          y: speciesValues(run.series, sp),
+          color,
+          dash,
+          width: k === 0 ? 2.25 : 2,
+          label: run.label.length > 22 ? `${run.label.slice(0, 21)}…` : run.label,
+        });
       });
-    });
-    return out;
-  }, [runs, species, hidden]);
+      return out;
+    },
+    [runs, hidden],
+  );
+  const lines = useMemo(() => linesOf(species), [linesOf, species]);
 
-  const { bands, guideLines } = useMemo(() => {
-    const b: FrameBand[] = [];
-    const g: FrameGuide[] = [];
-    if (species === "no3" && guides?.nitrateBand) {
-      const { low, high } = guides.nitrateBand;
-      b.push({
-        key: "band",
-        low,
-        high,
-        color: BAND_COLOR,
-        label: `NO3 target ${formatNumber(low)}–${formatNumber(high)}`,
+  const guidesOf = useCallback(
+    (sp: SeriesKey) => {
+      const b: FrameBand[] = [];
+      const g: FrameGuide[] = [];
+      if (sp === "no3" && guides?.nitrateBand) {
+        const { low, high } = guides.nitrateBand;
+        b.push({
+          key: "band",
+          low,
+          high,
+          color: BAND_COLOR,
+          label: `NO3 target ${formatNumber(low)}–${formatNumber(high)}`,
+        });
+      }
+      if (sp === "nh3" && guides?.freeAmmoniaCaution != null) {
+        const v = guides.freeAmmoniaCaution;
+        g.push({ key: "nh3", value: v, color: SERIES_COLORS.nh3, label: `free NH3 caution ${formatNumber(v)}` });
+      }
+      if (sp === "tan" && guides?.tanCriterion != null) {
+        const v = guides.tanCriterion;
+        g.push({
+          key: "tan",
+          value: v,
+          color: SERIES_COLORS.tan,
+          label: `TAN criterion at this pH and °C ${formatNumber(v)}`,
+        });
+      }
+      if (sp === "no2" && guides?.nitriteCaution != null) {
+        const v = guides.nitriteCaution;
+        g.push({ key: "no2", value: v, color: SERIES_COLORS.no2, label: `NO2 caution ${formatNumber(v)}` });
+      }
+      return { bands: b, guideLines: g };
+    },
+    [guides],
+  );
+
+  // The picked species on its own scale; below it, nitrate with its target band, on the same time
+  // axis and cursor, so a toxic peak is never flattened under tens of mg/L of nitrate.
+  const panels = useMemo((): FramePanel[] => {
+    const scale = height / 340;
+    const picked = guidesOf(species);
+    const out: FramePanel[] = [
+      {
+        key: `compare-${species}`,
+        label: `${SERIES_NAMES[species].long}, ${unitOf(species, units)}`,
+        lines,
+        bands: picked.bands,
+        guides: picked.guideLines,
+        height: Math.round(200 * scale),
+      },
+    ];
+    if (species !== "no3" && species !== "plants") {
+      const no3 = guidesOf("no3");
+      out.push({
+        key: "compare-no3",
+        label: `${SERIES_NAMES.no3.long}, ${unitOf("no3", units)}`,
+        lines: linesOf("no3"),
+        bands: no3.bands,
+        guides: no3.guideLines,
+        height: Math.round(150 * scale),
       });
     }
-    if (species === "nh3" && guides?.freeAmmoniaCaution != null) {
-      const v = guides.freeAmmoniaCaution;
-      g.push({ key: "nh3", value: v, color: SERIES_COLORS.nh3, label: `free NH3 caution ${formatNumber(v)}` });
-    }
-    if (species === "no2" && guides?.nitriteCaution != null) {
-      const v = guides.nitriteCaution;
-      g.push({ key: "no2", value: v, color: SERIES_COLORS.no2, label: `NO2 caution ${formatNumber(v)}` });
-    }
-    return { bands: b, guideLines: g };
-  }, [species, guides]);
+    return out;
+  }, [species, lines, linesOf, guidesOf, units, height]);
 
   const valuesAt = useCallback(
     (i: number) => {
@@ -285,13 +335,8 @@ export const CompareChart = memo(function CompareChart({
       title={title}
       description={summary}
       t={t}
-      lines={lines}
-      leftLabel={unit}
-      rightLabel={null}
-      bands={bands}
-      guides={guideLines}
+      panels={panels}
       events={shownEvents}
-      height={height}
       cursor={cursor}
       readout={readout}
       announcement={cursor.announcement}

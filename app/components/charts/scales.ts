@@ -23,8 +23,8 @@ export type PlotBox = {
 };
 
 /** Axis text size for a chart `width` px wide: 11 px on a phone, up to 15 px on a projector. */
-export function fontSizeFor(width: number): number {
-  return Math.round(Math.min(15, Math.max(11, width / 90)));
+export function fontSizeFor(width: number, minFontSize = 11): number {
+  return Math.max(minFontSize, Math.round(Math.min(15, Math.max(11, width / 90))));
 }
 
 /** Height of one row of event glyphs under the plot, px. */
@@ -34,8 +34,12 @@ export const EVENT_ROW = 11;
  * Margins that fit tick labels, the unit labels above the axes and the event strip below
  * (one row per kind of event shown).
  */
-export function plotBox(width: number, height: number, opts: { rightAxis: boolean; eventRows?: number }): PlotBox {
-  const fontSize = fontSizeFor(width);
+export function plotBox(
+  width: number,
+  height: number,
+  opts: { rightAxis: boolean; eventRows?: number; minFontSize?: number },
+): PlotBox {
+  const fontSize = fontSizeFor(width, opts.minFontSize);
   const charW = fontSize * 0.62;
   const margin: Margins = {
     top: Math.round(fontSize * 2),

@@ -12,6 +12,7 @@ import {
   type FrameBand,
   type FrameGuide,
   type FrameLine,
+  type FramePanel,
   type FramePoint,
 } from "~/components/charts/chart-frame";
 import { seriesCsv, fileSlug } from "~/utils/csv";
@@ -78,8 +79,10 @@ export type TimeSeriesChartProps = {
   visible?: Partial<Visibility>;
   defaultVisible?: Partial<Visibility>;
   onVisibleChange?: (v: Visibility) => void;
-  /** Chart height in px (default 340). */
+  /** Chart height in px (default 340); the panels share it. */
   height?: number;
+  /** The presentation view: text at least 18 px. */
+  presentation?: boolean;
   onCursorChange?: (day: number) => void;
   /**
    * Moves the day cursor to this day (nearest sample; at an event, the sample before it)
@@ -92,6 +95,20 @@ export type TimeSeriesChartProps = {
   /** File name stem for downloads, made file-safe (default from the title); false hides the buttons. */
   downloadName?: string | false;
 };
+
+type PanelKey = "ammonia" | "nitrite" | "nitrate" | "plants" | "oxygen";
+/** The panel each species (and its readings) is drawn on. */
+const SPECIES_PANEL: Record<string, PanelKey> = { tan: "ammonia", nh3: "ammonia", no2: "nitrite", no3: "nitrate" };
+const OXYGEN_COLOR = "#0e7490";
+const CAUTION_RED = "#b91c1c";
+
+/** "TAN · free NH3, mg/L NH3" when the species share a unit, else each with its own. */
+function sharedUnitTitle(keys: readonly SeriesKey[], units: ChartUnits): string {
+  const names = keys.map((k) => SERIES_NAMES[k].short);
+  const unitList = [...new Set(keys.map((k) => unitOf(k, units)))];
+  if (unitList.length <= 1) return `${names.join(" · ")}${unitList.length ? `, ${unitList[0]}` : ""}`;
+  return keys.map((k, i) => `${names[i]}, ${unitOf(k, units)}`).join(" · ");
+}
 
 const LINE_WIDTH: Record<SeriesKey, number> = { tan: 2, nh3: 1.75, no2: 2, no3: 2.25, plants: 1.75 };
 const OVERLAY_OPACITY = 0.5;
@@ -113,6 +130,7 @@ export const TimeSeriesChart = memo(function TimeSeriesChart({
   defaultVisible,
   onVisibleChange,
   height = 340,
+  presentation = false,
   onCursorChange,
   cursorDay,
   table = true,
@@ -134,7 +152,7 @@ export const TimeSeriesChart = memo(function TimeSeriesChart({
 
   const lines = useMemo(() => {
     const vis = (k: SeriesKey) => visible[k];
-    const out: FrameLine[] = [];
+    const out: (FrameLine & { panel: PanelKey })[] = [];
     const add = (s: ChartSeries, prefix: string, overlay: boolean) => {
       for (const k of SPECIES) {
         if (!vis(k)) continue;
@@ -142,7 +160,7 @@ export const TimeSeriesChart = memo(function TimeSeriesChart({
           key: `${prefix}-${k}`,
           t: s.t,
           y: s[k],
-          axis: "left",
+          panel: SPECIES_PANEL[k],
           color: SERIES_COLORS[k],
           dash: SERIES_DASH[k],
           width: overlay ? OVERLAY_WIDTH : LINE_WIDTH[k],
@@ -157,7 +175,7 @@ export const TimeSeriesChart = memo(function TimeSeriesChart({
             key: `${prefix}-plant-${p.id}`,
             t: s.t,
             y: p.massG,
-            axis: "right",
+            panel: "plants",
             color: SERIES_COLORS.plants,
             dash: PLANT_DASHES[g % PLANT_DASHES.length],
             width: overlay ? OVERLAY_WIDTH : LINE_WIDTH.plants,
@@ -172,6 +190,18 @@ export const TimeSeriesChart = memo(function TimeSeriesChart({
       if (!hiddenOverlays.has(k)) add(o.series, `ov${k}`, true);
     });
     add(series, "main", false);
+    if (series.o2 && series.o2.length === series.t.length) {
+      out.push({
+        key: "main-o2",
+        t: series.t,
+        y: series.o2,
+        panel: "oxygen",
+        color: OXYGEN_COLOR,
+        width: 2,
+        label: "O2",
+        cursorDot: true,
+      });
+    }
     return out;
   }, [series, overlays, visible, hiddenOverlays]);
 
@@ -212,8 +242,16 @@ export const TimeSeriesChart = memo(function TimeSeriesChart({
         label: `NO2 caution ${formatNumber(guides.nitriteCaution)}`,
       });
     }
+    if (guides?.oxygenCaution != null && series.o2?.length) {
+      g.push({
+        key: "o2-caution",
+        value: guides.oxygenCaution,
+        color: CAUTION_RED,
+        label: `fish suffer below ${formatNumber(guides.oxygenCaution)}`,
+      });
+    }
     return { bands: b, guideLines: g };
-  }, [guides, visible]);
+  }, [guides, visible, series.o2]);
 
   const points = useMemo(() => {
     const out: FramePoint[] = [];
@@ -234,9 +272,47 @@ export const TimeSeriesChart = memo(function TimeSeriesChart({
     return out;
   }, [readings, visible, units]);
 
-  const leftUnits = [...new Set(SPECIES.filter((k) => visible[k]).map((k) => unitOf(k, units)))];
-  const leftLabel = leftUnits.length ? leftUnits.join(" · ") : null;
-  const rightLabel = hasPlants && visible.plants ? `plants, ${PLANT_UNIT}` : null;
+  // Stacked panels on one time axis: ammonia and nitrite each on their own scale (tenths of a
+  // mg/L, never flattened under nitrate's tens, nor ammonia under a nitrite peak), nitrate with
+  // its band, plant mass, oxygen.
+  const panels = useMemo((): FramePanel[] => {
+    const scale = height / 340;
+    const guidePanel: Record<string, PanelKey> = {
+      "nh3-caution": "ammonia",
+      "tan-criterion": "ammonia",
+      "no2-caution": "nitrite",
+      "o2-caution": "oxygen",
+    };
+    const of = (panel: PanelKey) => ({
+      lines: lines.filter((l) => l.panel === panel),
+      guides: guideLines.filter((g) => guidePanel[g.key] === panel),
+      points: points.filter((p) => SPECIES_PANEL[p.key.slice(p.key.lastIndexOf("-") + 1)] === panel),
+    });
+    const ammonia = (["tan", "nh3"] as const).filter((k) => visible[k]);
+    return [
+      {
+        key: "ammonia",
+        label: sharedUnitTitle(ammonia, units),
+        height: Math.round(130 * scale),
+        ...of("ammonia"),
+      },
+      {
+        key: "nitrite",
+        label: `NO2, ${unitOf("no2", units)}`,
+        height: Math.round(100 * scale),
+        ...of("nitrite"),
+      },
+      {
+        key: "nitrate",
+        label: `NO3, ${unitOf("no3", units)}`,
+        height: Math.round(120 * scale),
+        bands,
+        ...of("nitrate"),
+      },
+      { key: "plants", label: `plants, ${PLANT_UNIT}`, height: Math.round(80 * scale), ...of("plants") },
+      { key: "oxygen", label: "oxygen, mg O2/L", height: Math.round(80 * scale), ...of("oxygen") },
+    ];
+  }, [lines, guideLines, bands, points, visible, units, height]);
 
   const describe = useCallback(
     (i: number) => {
@@ -349,14 +425,9 @@ export const TimeSeriesChart = memo(function TimeSeriesChart({
       title={title}
       description={summary}
       t={series.t}
-      lines={lines}
-      leftLabel={leftLabel}
-      rightLabel={rightLabel}
-      bands={bands}
-      guides={guideLines}
-      points={points}
+      panels={panels}
       events={shownEvents}
-      height={height}
+      minFontSize={presentation ? 18 : 11}
       cursor={cursor}
       readout={readout}
       announcement={cursor.announcement}
@@ -381,4 +452,3 @@ export const TimeSeriesChart = memo(function TimeSeriesChart({
     />
   );
 });
-

@@ -157,6 +157,7 @@ export default function PresentLessonPage({ loaderData }: Route.ComponentProps) 
             events={results.events}
             guides={results.guides}
             height={520}
+            presentation
             cursorDay={day}
             table={false}
             downloadName={false}

@@ -6,7 +6,6 @@ import { TimeSeriesChart } from "~/components/charts/time-series-chart";
 import { CautionsPanel } from "~/components/cautions";
 import { KeyFiguresList } from "~/components/key-figures";
 import { RunWarnings } from "~/components/run-warnings";
-import { OxygenChart } from "~/components/charts/oxygen-chart";
 import { FormMessage } from "~/components/ui/field";
 import { WhatIfPanel, type WhatIfPreview } from "~/components/what-if-panel";
 import { WhatIfSummary } from "~/components/what-if-summary";
@@ -202,7 +201,6 @@ export default function ResultsPage({ loaderData, actionData }: Route.ComponentP
               <WhatIfSummary saved={results.keyFigures} preview={preview?.keyFigures ?? null} labels={results.labels} />
             </div>
           ) : null}
-          <OxygenChart series={series} caution={results.guides.oxygenCaution} name={scenario.name} />
           <section aria-labelledby="budget-title" className="card space-y-4">
             <h2 id="budget-title" className="text-lg">
               Nitrogen budget
