@@ -15,13 +15,14 @@ import { requireOwnedTank } from "~/features/tanks/tanks.server";
 import { requireUser } from "~/permissions.server";
 import { journalAction, journalPageData, type JournalAnswer } from "~/routes/journal/journal-page.server";
 import { formatDate } from "~/utils/dates";
+import { displayUnitsFor } from "~/utils/display-units";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `Journal · ${data?.tank.name ?? "Tank"} · Fernwater` }];
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const user = await requireUser(request);
   const tank = requireOwnedTank(user.id, params.tankId);
-  return journalPageData(tank, new URL(request.url).searchParams.get("scenario"));
+  return journalPageData(tank, new URL(request.url).searchParams.get("scenario"), displayUnitsFor(user));
 }
 
 export async function action({ request, params }: Route.ActionArgs) {
@@ -39,7 +40,7 @@ function ReplayChart({ replay }: { replay: NonNullable<Route.ComponentProps["loa
       <svg
         viewBox={`0 0 ${W} ${H}`}
         role="img"
-        aria-label="Nitrate as it happened, mg/L NO3, with test readings"
+        aria-label={`Nitrate as it happened, ${replay.unit}, with test readings`}
         className="w-full"
       >
         {p.yTicks.map((t) => (
@@ -62,7 +63,7 @@ function ReplayChart({ replay }: { replay: NonNullable<Route.ComponentProps["loa
         ))}
       </svg>
       <figcaption className="text-sm text-stone-600">
-        Nitrate (mg/L NO3) over the days since {formatDate(replay.startMs)}; dots are your test readings, the dashed
+        Nitrate ({replay.unit}) over the days since {formatDate(replay.startMs)}; dots are your test readings, the dashed
         line your upper target. This is a model, not a water test: test your water before acting on it.
       </figcaption>
     </figure>
