@@ -15,11 +15,11 @@ import { userWithCookie } from "../support/users";
 async function world(nitrateUnit: "NO3" | "N" = "NO3") {
   const user = await userWithCookie();
   getDb().update(users).set({ nitrateUnit }).where(eq(users.id, user.id)).run();
-  const tankId = createTank(user.id);
-  const scenarioId = await createScenario(user.id, tankId, {
+  const tank = createTank(user.id);
+  const scenario = await createScenario(user.id, tank, {
     plants: [{ id: "p", name: "Stems", growthForm: "stem", startMassG: 15, maxMassG: 60 }],
   } as never);
-  return { user, tankId, scenarioId, base: `/tanks/${tankId}/scenarios/${scenarioId}` };
+  return { user, tankId: String(tank), scenarioId: String(scenario), base: `/tanks/${tank}/scenarios/${scenario}` };
 }
 
 const start = { intent: "start", outcome: "nitrateBeforeLastWaterChange", points: "5" };
@@ -28,7 +28,7 @@ describe("the sweep form", () => {
   it("shows every field's problem at once, not one at a time", async () => {
     const { user, tankId, scenarioId, base } = await world();
     const page = await call(sweepLoader, get(`${base}/sweep`, user.cookie), { tankId, scenarioId });
-    const lever = page.data.levers.find((l) => l.id === "water.startNitrate")!;
+    const lever = page.data.levers.find((l: { id: string }) => l.id === "water.startNitrate")!;
     // "From" not a number, "To" above the bound, points below 2, no outcome chosen.
     const refused = await call(
       sweepAction,

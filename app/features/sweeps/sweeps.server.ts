@@ -27,7 +27,7 @@ const display = (lever: Lever, v: number, units: DisplayUnits) =>
   Number(toDisplay(lever.quantity, v, units).toPrecision(6));
 
 /** A lever's allowed range in the person's units: the numbers the form's hint shows and its check enforces. */
-export function leverBounds(lever: Lever, units: DisplayUnits): { min: number; max: number } {
+function leverBounds(lever: Lever, units: DisplayUnits): { min: number; max: number } {
   // Four significant figures, rounded inwards, so the bounds read cleanly and stay allowed.
   const tidy = (v: number, dir: "up" | "down") => {
     if (v === 0 || !Number.isFinite(v)) return v;
