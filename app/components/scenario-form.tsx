@@ -36,7 +36,8 @@ function FieldInput({
   valueOf: ValueOf;
 }) {
   const id = `f-${field.name.replace(/\./g, "-")}`;
-  const describedBy = [field.hint ? `${id}-hint` : null, error ? `${id}-error` : null].filter(Boolean).join(" ") || undefined;
+  const describedBy =
+    [field.hint ? `${id}-hint` : null, error ? `${id}-error` : null].filter(Boolean).join(" ") || undefined;
   const common = {
     id,
     name: field.name,
@@ -49,7 +50,13 @@ function FieldInput({
     control = (
       <span className="flex items-center gap-2">
         {locked ? null : <input type="hidden" name={field.name} value="false" />}
-        <input {...common} type="checkbox" value="true" defaultChecked={field.value === "true"} className="h-5 w-5 accent-fern-700" />
+        <input
+          {...common}
+          type="checkbox"
+          value="true"
+          defaultChecked={field.value === "true"}
+          className="h-5 w-5 accent-fern-700"
+        />
         <label htmlFor={id} className="text-sm font-semibold text-stone-800">
           {field.label}
         </label>
@@ -222,12 +229,18 @@ export function ScenarioForm({
   const errorNames = Object.keys(errors).filter((k) => k !== "");
   const labelOf = (name: string) => {
     if (name === "name") return "Scenario name";
-    const field = [...model.sections.flatMap((s) => s.fields), ...rows.flatMap((r) => r.fields)].find((f) => f.name === name);
+    const field = [...model.sections.flatMap((s) => s.fields), ...rows.flatMap((r) => r.fields)].find(
+      (f) => f.name === name,
+    );
     const row = /^plants\.(\d+)\./.exec(name);
     return field ? (row ? `${field.label} (plant group ${Number(row[1]) + 1})` : field.label) : name;
   };
   const sectionHasError = (id: string) =>
-    errorNames.some((n) => (id === "plants" ? n.startsWith("plants") : model.sections.find((s) => s.id === id)?.fields.some((f) => f.name === n)));
+    errorNames.some((n) =>
+      id === "plants"
+        ? n.startsWith("plants")
+        : model.sections.find((s) => s.id === id)?.fields.some((f) => f.name === n),
+    );
 
   const fillGrowthForm = (index: number, form: string) => {
     const preset = model.growthFormPresets[form];
@@ -312,7 +325,9 @@ export function ScenarioForm({
           <p className="mt-1 text-sm text-stone-600">{section.intro}</p>
           {section.id === "plants" ? (
             <div className="mt-4 space-y-4">
-              {rows.length === 0 ? <p className="text-sm">No plant groups: nothing takes nitrogen up but bacteria and water changes.</p> : null}
+              {rows.length === 0 ? (
+                <p className="text-sm">No plant groups: nothing takes nitrogen up but bacteria and water changes.</p>
+              ) : null}
               {rows.map((row) => (
                 <PlantRowFields
                   key={row.id}
@@ -361,9 +376,17 @@ export function ScenarioForm({
           ) : (
             <div className="mt-4 grid gap-4 sm:grid-cols-2 lg:grid-cols-3">
               {section.fields.map((f) => (
-                <FieldInput key={f.name} field={f} error={errors[f.name]} locked={locked?.has(f.name)} valueOf={valueOf} />
+                <FieldInput
+                  key={f.name}
+                  field={f}
+                  error={errors[f.name]}
+                  locked={locked?.has(f.name)}
+                  valueOf={valueOf}
+                />
               ))}
-              {section.id === "run" && model.startDate !== undefined ? <StartDateInput value={model.startDate} error={errors.startDate} /> : null}
+              {section.id === "run" && model.startDate !== undefined ? (
+                <StartDateInput value={model.startDate} error={errors.startDate} />
+              ) : null}
             </div>
           )}
         </details>

@@ -1,7 +1,15 @@
 import { data, Form, Link, redirect, useNavigation } from "react-router";
 import type { Route } from "./+types/lesson";
 import { FormMessage } from "~/components/ui/field";
-import { findCopy, handInTable, READ_ONLY_CLASS, requireClassAccess, requireLesson, startCopy } from "~/features/classes/classes.server";
+import {
+  findCopy,
+  handInTable,
+  openSettingLabels,
+  READ_ONLY_CLASS,
+  requireClassAccess,
+  requireLesson,
+  startCopy,
+} from "~/features/classes/classes.server";
 import { displayKeyFigures } from "~/features/runs/display-figures";
 import { requireUser } from "~/permissions.server";
 import { displayUnitsFor, formatNumber, unitLabels } from "~/utils/display-units";
@@ -21,7 +29,15 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   };
   if (as === "former educator") {
     // Read-only: the lesson's question, not the students' hand-ins.
-    return { ...base, as, started: false, handedIn: false, handIns: null, labels: null, unlockedCount: lesson.unlockedFields.length };
+    return {
+      ...base,
+      as,
+      started: false,
+      handedIn: false,
+      handIns: null,
+      labels: null,
+      openSettings: openSettingLabels(lesson.unlockedFields),
+    };
   }
   if (as === "student") {
     const copy = findCopy(lesson.id, user.id);
@@ -32,7 +48,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
       handedIn: !!copy?.handedInAt,
       handIns: null,
       labels: null,
-      unlockedCount: 0,
+      openSettings: openSettingLabels(lesson.unlockedFields),
     };
   }
   const units = displayUnitsFor(user);
@@ -42,7 +58,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     started: false,
     handedIn: false,
     labels: unitLabels(units),
-    unlockedCount: lesson.unlockedFields.length,
+    openSettings: openSettingLabels(lesson.unlockedFields),
     handIns: handInTable(cls, lesson).map((row) => ({
       student: row.student,
       copy: row.copy
@@ -82,7 +98,7 @@ const READ_ONLY_CLASS_TEXT =
   "You are no longer an educator, so this lesson is read-only and its hand-ins are hidden. An admin can hand the class to another educator.";
 
 export default function LessonPage({ loaderData, actionData }: Route.ComponentProps) {
-  const { cls, lesson, as, started, handedIn, handIns, labels, unlockedCount } = loaderData;
+  const { cls, lesson, as, started, handedIn, handIns, labels, openSettings } = loaderData;
   const busy = useNavigation().state === "submitting";
   const base = `/classes/${cls.id}/lessons/${lesson.id}`;
   return (
@@ -100,6 +116,7 @@ export default function LessonPage({ loaderData, actionData }: Route.ComponentPr
           Question
         </h2>
         <p className="whitespace-pre-line">{lesson.question}</p>
+        <OpenSettings names={openSettings} />
       </section>
       {actionData?.errors[""] ? <FormMessage>{actionData.errors[""]}</FormMessage> : null}
       {as === "former educator" ? (
@@ -129,11 +146,6 @@ export default function LessonPage({ loaderData, actionData }: Route.ComponentPr
             <Link to={`${base}/present`} className="btn">
               Present to the class
             </Link>
-            <span className="text-stone-700">
-              {unlockedCount === 0
-                ? "Every setting is locked."
-                : `${unlockedCount} setting${unlockedCount === 1 ? "" : "s"} open to students.`}
-            </span>
           </p>
           <section aria-labelledby="handins-title" className="space-y-2">
             <h2 id="handins-title" className="text-lg">
@@ -212,6 +224,25 @@ export default function LessonPage({ loaderData, actionData }: Route.ComponentPr
           </section>
         </>
       )}
+    </div>
+  );
+}
+
+/** The settings the lesson leaves open to students, named (the rest stay as the teacher set them). */
+function OpenSettings({ names }: { names: string[] }) {
+  if (names.length === 0)
+    return <p className="text-sm text-stone-700">Every setting is locked: students change none.</p>;
+  return (
+    <div className="text-sm text-stone-700" data-open-settings="">
+      <p>
+        {names.length === 1 ? "One setting is" : `${names.length} settings are`} open to students; every other stays as
+        the lesson sets it:
+      </p>
+      <ul className="ml-5 list-disc">
+        {names.map((n) => (
+          <li key={n}>{n}</li>
+        ))}
+      </ul>
     </div>
   );
 }
