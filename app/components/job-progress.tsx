@@ -6,6 +6,7 @@
  */
 import { useEffect } from "react";
 import { useFetcher } from "react-router";
+import { ProgressBar } from "~/components/ui/progress-bar";
 import type { JobJson } from "~/features/jobs/job-json";
 
 /** How often a running job is asked for its progress, ms. */
@@ -61,11 +62,11 @@ export function JobProgress({ job, noun = "engine runs" }: { job: JobJson; noun?
         </noscript>
       ) : null}
       <div className="flex flex-wrap items-center gap-3">
-        <label htmlFor={`job-${job.id}`} className="text-sm font-semibold">
+        <span id={`job-${job.id}-label`} className="text-sm font-semibold">
           {job.status === "waiting"
             ? `Waiting, ${job.ahead} ahead: other people's runs go first, then this one starts by itself`
             : `${STATUS_TEXT[job.status]}: ${job.done} of ${job.total} ${noun}`}
-        </label>
+        </span>
         <span className="text-xs text-stone-600">{seconds} s</span>
         {running ? (
           <cancel.Form method="post">
@@ -77,14 +78,13 @@ export function JobProgress({ job, noun = "engine runs" }: { job: JobJson; noun?
           </cancel.Form>
         ) : null}
       </div>
-      <progress
+      <ProgressBar
         id={`job-${job.id}`}
-        className="h-3 w-full accent-fern-700"
         max={Math.max(1, job.total)}
         value={job.done}
-      >
-        {job.done} of {job.total}
-      </progress>
+        labelledBy={`job-${job.id}-label`}
+        valueText={`${job.done} of ${job.total} ${noun}`}
+      />
       {job.status === "failed" && job.error ? (
         <p className="text-sm font-semibold text-red-800" role="alert">
           {job.error}

@@ -2,6 +2,7 @@ import { useRef, useState } from "react";
 import { Form, useNavigation } from "react-router";
 import { FormMessage } from "~/components/ui/field";
 import type { FieldErrors } from "~/utils/form-errors";
+import { fieldApplies, isSwitchField } from "~/features/scenarios/field-visibility";
 import type { FormField, PlantRow, ScenarioFormModel } from "~/features/scenarios/scenario-form-types";
 
 type Props = {
@@ -20,9 +21,23 @@ type Props = {
   plantGroupsLocked?: boolean;
 };
 
-function FieldInput({ field, error, locked }: { field: FormField; error?: string; locked?: boolean }) {
+/** The form's current value of a field, for deciding which fields apply. */
+type ValueOf = (name: string) => string | undefined;
+
+function FieldInput({
+  field,
+  error,
+  locked,
+  valueOf,
+}: {
+  field: FormField;
+  error?: string;
+  locked?: boolean;
+  valueOf: ValueOf;
+}) {
   const id = `f-${field.name.replace(/\./g, "-")}`;
-  const describedBy = [field.hint ? `${id}-hint` : null, error ? `${id}-error` : null].filter(Boolean).join(" ") || undefined;
+  const describedBy =
+    [field.hint ? `${id}-hint` : null, error ? `${id}-error` : null].filter(Boolean).join(" ") || undefined;
   const common = {
     id,
     name: field.name,
@@ -35,7 +50,13 @@ function FieldInput({ field, error, locked }: { field: FormField; error?: string
     control = (
       <span className="flex items-center gap-2">
         {locked ? null : <input type="hidden" name={field.name} value="false" />}
-        <input {...common} type="checkbox" value="true" defaultChecked={field.value === "true"} className="h-5 w-5 accent-fern-700" />
+        <input
+          {...common}
+          type="checkbox"
+          value="true"
+          defaultChecked={field.value === "true"}
+          className="h-5 w-5 accent-fern-700"
+        />
         <label htmlFor={id} className="text-sm font-semibold text-stone-800">
           {field.label}
         </label>
@@ -70,8 +91,9 @@ function FieldInput({ field, error, locked }: { field: FormField; error?: string
       </span>
     );
   }
+  // A setting that does not apply (field-visibility.ts) is hidden; its value still goes with the form.
   return (
-    <div className="space-y-1">
+    <div className="space-y-1" hidden={!fieldApplies(field.name, valueOf)} data-field={field.name}>
       {field.kind === "boolean" ? null : (
         <label htmlFor={id} className="block text-sm font-semibold text-stone-800">
           {field.label}
@@ -100,7 +122,9 @@ function PlantRowFields({
   onRemove,
   locked,
   fixedRows,
+  valueOf,
 }: {
+  valueOf: ValueOf;
   row: PlantRow;
   errors: FieldErrors;
   onGrowthForm: (index: number, form: string) => void;
@@ -122,7 +146,7 @@ function PlantRowFields({
         }}
       >
         {row.fields.map((f) => (
-          <FieldInput key={f.name} field={f} error={errors[f.name]} locked={locked?.has(f.name)} />
+          <FieldInput key={f.name} field={f} error={errors[f.name]} locked={locked?.has(f.name)} valueOf={valueOf} />
         ))}
       </div>
       {rowLocked ? null : (
@@ -191,20 +215,32 @@ export function ScenarioForm({
   const [rows, setRows] = useState(model.plants);
   const [rowsFrom, setRowsFrom] = useState(model);
   const [nextId, setNextId] = useState(model.plants.length + 1);
+  // Values of the fields that show or hide others, as changed since the model came.
+  const [switched, setSwitched] = useState<Record<string, string>>({});
   if (rowsFrom !== model) {
     // A new model came from the server (a refused save, a preset): start again from it.
     setRowsFrom(model);
     setRows(model.plants);
+    setSwitched({});
   }
+  const valueOf: ValueOf = (name) =>
+    switched[name] ??
+    [...model.sections.flatMap((s) => s.fields), ...rows.flatMap((r) => r.fields)].find((f) => f.name === name)?.value;
   const errorNames = Object.keys(errors).filter((k) => k !== "");
   const labelOf = (name: string) => {
     if (name === "name") return "Scenario name";
-    const field = [...model.sections.flatMap((s) => s.fields), ...rows.flatMap((r) => r.fields)].find((f) => f.name === name);
+    const field = [...model.sections.flatMap((s) => s.fields), ...rows.flatMap((r) => r.fields)].find(
+      (f) => f.name === name,
+    );
     const row = /^plants\.(\d+)\./.exec(name);
     return field ? (row ? `${field.label} (plant group ${Number(row[1]) + 1})` : field.label) : name;
   };
   const sectionHasError = (id: string) =>
-    errorNames.some((n) => (id === "plants" ? n.startsWith("plants") : model.sections.find((s) => s.id === id)?.fields.some((f) => f.name === n)));
+    errorNames.some((n) =>
+      id === "plants"
+        ? n.startsWith("plants")
+        : model.sections.find((s) => s.id === id)?.fields.some((f) => f.name === n),
+    );
 
   const fillGrowthForm = (index: number, form: string) => {
     const preset = model.growthFormPresets[form];
@@ -231,7 +267,18 @@ export function ScenarioForm({
   };
 
   return (
-    <Form method="post" ref={formRef} noValidate className="space-y-4">
+    <Form
+      method="post"
+      ref={formRef}
+      noValidate
+      className="space-y-4"
+      onChange={(e) => {
+        const input = e.target as unknown as HTMLInputElement;
+        if (!isSwitchField(input.name)) return;
+        const value = input.type === "checkbox" ? String(input.checked) : input.value;
+        setSwitched((was) => ({ ...was, [input.name]: value }));
+      }}
+    >
       {errors[""] ? <FormMessage>{errors[""]}</FormMessage> : null}
       {errorNames.length ? (
         <FormMessage>
@@ -278,7 +325,9 @@ export function ScenarioForm({
           <p className="mt-1 text-sm text-stone-600">{section.intro}</p>
           {section.id === "plants" ? (
             <div className="mt-4 space-y-4">
-              {rows.length === 0 ? <p className="text-sm">No plant groups: nothing takes nitrogen up but bacteria and water changes.</p> : null}
+              {rows.length === 0 ? (
+                <p className="text-sm">No plant groups: nothing takes nitrogen up but bacteria and water changes.</p>
+              ) : null}
               {rows.map((row) => (
                 <PlantRowFields
                   key={row.id}
@@ -286,6 +335,7 @@ export function ScenarioForm({
                   errors={errors}
                   locked={locked}
                   fixedRows={plantGroupsLocked}
+                  valueOf={valueOf}
                   onGrowthForm={fillGrowthForm}
                   onRemove={(index) => setRows(rows.filter((r) => r.index !== index))}
                 />
@@ -326,9 +376,17 @@ export function ScenarioForm({
           ) : (
             <div className="mt-4 grid gap-4 sm:grid-cols-2 lg:grid-cols-3">
               {section.fields.map((f) => (
-                <FieldInput key={f.name} field={f} error={errors[f.name]} locked={locked?.has(f.name)} />
+                <FieldInput
+                  key={f.name}
+                  field={f}
+                  error={errors[f.name]}
+                  locked={locked?.has(f.name)}
+                  valueOf={valueOf}
+                />
               ))}
-              {section.id === "run" && model.startDate !== undefined ? <StartDateInput value={model.startDate} error={errors.startDate} /> : null}
+              {section.id === "run" && model.startDate !== undefined ? (
+                <StartDateInput value={model.startDate} error={errors.startDate} />
+              ) : null}
             </div>
           )}
         </details>

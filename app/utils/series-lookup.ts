@@ -54,6 +54,14 @@ export function sampleSide(t: ArrayLike<number>, i: number): Side | null {
   return null;
 }
 
+/** What the chart's day cursor keys do, in words (its visible help); says which way each key moves (stepCursor). */
+export const CURSOR_KEYS_HELP =
+  "Move the day cursor with the pointer, or focus the chart and use → or ↑ (one sample later), ← or ↓ (one sample earlier), Page Up (a week later), Page Down (a week earlier), Home (the start) and End (the end).";
+
+/** The same, short, for the chart's accessible name. */
+export const CURSOR_KEYS_SUMMARY =
+  "Day cursor: right and left arrows move one sample later or earlier, Page Up a week later, Page Down a week earlier, Home and End to the start and end.";
+
 /**
  * The cursor's next sample for a key, following the slider pattern of the WAI-ARIA Authoring
  * Practices: →/↑ one sample later, ←/↓ one earlier, Page Up/Page Down `pageDays` (7) later or

@@ -106,7 +106,7 @@ export function dose(c: TankConstants, doseMgNPerL: number, day: number, before:
   return {
     y,
     booking: { dosing: total },
-    records: [{ day, kind: "dose", detail: `Ammonia dosed: +${doseMgNPerL} mg N/L (${mg(total)})` }],
+    records: [{ day, kind: "dose", detail: `+${doseMgNPerL} mg N/L (${mg(total)})` }],
   };
 }
 

@@ -144,11 +144,17 @@ describe("readings, calibration and sweeps in the browser", () => {
     await page.getByLabel("Points").fill("20");
     await page.getByRole("button", { name: "Run the sweep" }).click();
     await page.waitForURL(/sweep\?job=/);
-    const bar = page.locator("progress");
+    // The app's own bar (app/components/ui/progress-bar.tsx), its fill gliding by a CSS transition.
+    const bar = page.getByRole("progressbar");
     await bar.waitFor();
-    await expect.poll(() => bar.getAttribute("max")).toBe("20");
+    await expect.poll(() => bar.getAttribute("aria-valuemax")).toBe("20");
+    expect(await page.locator("progress").count()).toBe(0);
+    const fill = bar.locator("div").first();
+    expect(await fill.evaluate((el) => getComputedStyle(el).transitionProperty)).toBe("width");
+    expect(parseFloat(await fill.evaluate((el) => getComputedStyle(el).transitionDuration))).toBeGreaterThan(0);
     await page.getByText("Done: 20 of 20 engine runs").waitFor({ timeout: 30_000 });
-    await expect.poll(() => bar.getAttribute("value")).toBe("20");
+    await expect.poll(() => bar.getAttribute("aria-valuenow")).toBe("20");
+    await expect.poll(() => fill.evaluate((el) => el.style.width)).toBe("100%");
     const plot = page.locator("svg").filter({ has: page.locator("title", { hasText: "against food per day" }) });
     await expect.poll(() => plot.locator("circle").count()).toBe(20);
     await shot(page, "sweep-20-points");

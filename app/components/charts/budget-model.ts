@@ -198,7 +198,7 @@ export function stockRows(b: ChartBudget, plantNames: readonly string[] = []): S
   rows.push(
     { key: "bacteria", label: "In bacteria", level: 0, start: a.bacteria.total, end: z.bacteria.total },
     { key: "detritus", label: "In detritus", level: 0, start: a.detritus.total, end: z.detritus.total },
-    { key: "detritusTank", label: "In the tank", level: 1, start: a.detritus.tank, end: z.detritus.tank },
+    { key: "detritusTank", label: "In the gravel and water", level: 1, start: a.detritus.tank, end: z.detritus.tank },
     { key: "detritusFilter", label: "In the filter", level: 1, start: a.detritus.filter, end: z.detritus.filter },
     { key: "fishGut", label: "In the fish (undigested)", level: 0, start: a.fishGut, end: z.fishGut },
     { key: "stocksTotal", label: "Total in the tank", level: 0, start: a.total, end: z.total, total: true },

@@ -4,7 +4,7 @@
  */
 import { memo } from "react";
 import { budgetSections, budgetSegments, stockRows, type BudgetSegment } from "~/components/charts/budget-model";
-import { formatMgN, formatPercent, splitMgN } from "~/components/charts/format";
+import { columnUnit, formatInUnit, formatMgN, formatPercent, type NitrogenUnit } from "~/components/charts/format";
 import type { ChartBudget } from "~/utils/chart-data";
 
 export type BudgetBarProps = {
@@ -37,6 +37,7 @@ export const BudgetBar = memo(function BudgetBar({
   const outMg = out.reduce((s, x) => s + x.mg, 0);
   const stockMg = total - outMg;
   const summary = segments.map((s) => `${s.label} ${formatPercent(s.mg / total)}`).join(", ");
+  const legendUnit = columnUnit(segments.map((s) => s.mg));
 
   return (
     <figure className="space-y-2">
@@ -77,7 +78,9 @@ export const BudgetBar = memo(function BudgetBar({
               {s.label}
               <span className="sr-only">{s.group === "out" ? " (left the tank)" : " (still in the tank)"}</span>
             </span>
-            <span className="figure whitespace-nowrap text-right">{formatMgN(s.mg)}</span>
+            <span className="figure whitespace-nowrap text-right">
+              {formatInUnit(s.mg, legendUnit)} {legendUnit}
+            </span>
             <span className="figure w-14 whitespace-nowrap text-right text-stone-600">
               {formatPercent(s.mg / total)}
             </span>
@@ -121,13 +124,9 @@ export type BudgetTableProps = {
   caption?: string;
 };
 
-function Amount({ mg }: { mg: number }) {
-  const { value, unit } = splitMgN(mg);
-  return (
-    <>
-      {value} <span className="text-xs text-stone-600">{unit}</span>
-    </>
-  );
+/** An amount in its column's unit; the unit itself is said once, in the column's header. */
+function Amount({ mg, unit }: { mg: number; unit: NitrogenUnit }) {
+  return <>{formatInUnit(mg, unit)}</>;
 }
 
 /** A difference worth pointing out: more than 1 % of the reference and more than 0.5 mg N. */
@@ -149,19 +148,24 @@ export const BudgetTable = memo(function BudgetTable({ budgets, caption = "Nitro
     })),
   );
   const ref = sections[0];
+  // One unit per run's column, from every amount in it.
+  const units = budgets.map((b, k) =>
+    columnUnit([...sections[k].flatMap((sec) => sec.rows.map((r) => r.mg)), b.budget.imbalance]),
+  );
   return (
     <div className="relative overflow-x-auto" tabIndex={0} role="region" aria-label={caption}>
       <table className="w-full border-collapse text-sm">
         <caption className="py-2 text-left text-sm text-stone-700">
-          {caption}, mg N (g N where large), over each run. Marked cells differ from {budgets[0].label} by more than 1
+          {caption} over each run, in the unit under each run's name. Marked cells differ from {budgets[0].label} by more than 1
           %.
         </caption>
         <thead>
           <tr className="border-b border-stone-300 text-left align-bottom">
             <td />
-            {budgets.map((b) => (
+            {budgets.map((b, k) => (
               <th key={b.label} scope="col" className="px-2 py-1 text-right">
                 {b.label}
+                <span className="block text-xs font-normal text-stone-600">{units[k]}</span>
               </th>
             ))}
           </tr>
@@ -188,11 +192,11 @@ export const BudgetTable = memo(function BudgetTable({ budgets, caption = "Nitro
                       key={k}
                       className={`num whitespace-nowrap px-1 py-1 text-right sm:px-2 ${mark ? "bg-amber-50" : ""}`}
                     >
-                      {Number.isFinite(v) ? <Amount mg={v} /> : "–"}
+                      {Number.isFinite(v) ? <Amount mg={v} unit={units[k]} /> : "–"}
                       {mark ? (
                         <span className="block text-xs text-stone-700">
                           {diff > 0 ? "▲ +" : "▼ "}
-                          {formatMgN(diff)}
+                          {formatInUnit(diff, units[k])}
                         </span>
                       ) : null}
                     </td>
@@ -207,9 +211,9 @@ export const BudgetTable = memo(function BudgetTable({ budgets, caption = "Nitro
             <th scope="row" className="py-1 pr-2 text-left font-normal">
               Imbalance (in − out − change in the tank)
             </th>
-            {budgets.map((b) => (
+            {budgets.map((b, k) => (
               <td key={b.label} className="num whitespace-nowrap px-1 py-1 text-right sm:px-2">
-                <Amount mg={b.budget.imbalance} />
+                <Amount mg={b.budget.imbalance} unit={units[k]} />
               </td>
             ))}
           </tr>
@@ -224,6 +228,10 @@ function SingleBudgetTable({ column, caption }: { column: BudgetColumn; caption:
   const [inputs, outputs] = budgetSections(b, column.plantNames);
   const stocks = stockRows(b, column.plantNames);
   const flowRows = [inputs, outputs];
+  const flowUnit = columnUnit(flowRows.flatMap((sec) => sec.rows.map((r) => r.mg)));
+  const startUnit = columnUnit(stocks.map((r) => r.start));
+  const endUnit = columnUnit(stocks.map((r) => r.end));
+  const changeUnit = columnUnit(stocks.map((r) => r.end - r.start));
   return (
     <div className="space-y-4">
       <div className="relative overflow-x-auto" tabIndex={0} role="region" aria-label={`${caption}: flows`}>
@@ -231,10 +239,14 @@ function SingleBudgetTable({ column, caption }: { column: BudgetColumn; caption:
           <caption className="py-2 text-left text-sm text-stone-700">
             {caption}: nitrogen that came in and went out over the run
           </caption>
-          <thead className="sr-only">
-            <tr>
-              <th scope="col">Flow</th>
-              <th scope="col">Amount</th>
+          <thead>
+            <tr className="border-b border-stone-300 text-left">
+              <th scope="col" className="py-1 pr-2 font-normal text-stone-600">
+                Flow
+              </th>
+              <th scope="col" className="num px-1 py-1 text-right font-normal text-stone-600 sm:px-2">
+                Amount ({flowUnit})
+              </th>
             </tr>
           </thead>
           {flowRows.map((section) => (
@@ -250,7 +262,7 @@ function SingleBudgetTable({ column, caption }: { column: BudgetColumn; caption:
                     {row.label}
                   </th>
                   <td className="num whitespace-nowrap px-1 py-1 text-right sm:px-2">
-                    <Amount mg={row.mg} />
+                    <Amount mg={row.mg} unit={flowUnit} />
                   </td>
                 </tr>
               ))}
@@ -267,13 +279,13 @@ function SingleBudgetTable({ column, caption }: { column: BudgetColumn; caption:
                 Pool
               </th>
               <th scope="col" className="num px-1 py-1 text-right font-normal text-stone-600 sm:px-2">
-                Start
+                Start ({startUnit})
               </th>
               <th scope="col" className="num px-1 py-1 text-right font-normal text-stone-600 sm:px-2">
-                End
+                End ({endUnit})
               </th>
               <th scope="col" className="num px-1 py-1 text-right font-normal text-stone-600 sm:px-2">
-                Change
+                Change ({changeUnit})
               </th>
             </tr>
           </thead>
@@ -284,14 +296,14 @@ function SingleBudgetTable({ column, caption }: { column: BudgetColumn; caption:
                   {row.label}
                 </th>
                 <td className="num whitespace-nowrap px-1 py-1 text-right sm:px-2">
-                  <Amount mg={row.start} />
+                  <Amount mg={row.start} unit={startUnit} />
                 </td>
                 <td className="num whitespace-nowrap px-1 py-1 text-right sm:px-2">
-                  <Amount mg={row.end} />
+                  <Amount mg={row.end} unit={endUnit} />
                 </td>
                 <td className="num whitespace-nowrap px-1 py-1 text-right sm:px-2">
                   {row.end - row.start > 0 ? "+" : ""}
-                  <Amount mg={row.end - row.start} />
+                  <Amount mg={row.end - row.start} unit={changeUnit} />
                 </td>
               </tr>
             ))}

@@ -12,7 +12,7 @@ import { scaleLinear } from "d3-scale";
 import { useId, useMemo, type ReactNode } from "react";
 import { useContainerWidth, type CursorVia } from "~/components/charts/hooks";
 import { PATH_SCALE, linePath, scaledDash } from "~/components/charts/paths";
-import { nearestIndex, sampleSide, valueAt } from "~/utils/series-lookup";
+import { CURSOR_KEYS_HELP, CURSOR_KEYS_SUMMARY, nearestIndex, sampleSide, valueAt } from "~/utils/series-lookup";
 import { GRID, INK, MONO_STACK, SERIF_STACK } from "~/components/charts/palette";
 import { EVENT_ROW, dayDomain, maxFinite, plotBox, ticksOf, valueDomain } from "~/components/charts/scales";
 import { formatDay } from "~/components/charts/format";
@@ -371,7 +371,7 @@ export function ChartFrame({
               role="application"
               tabIndex={0}
               aria-roledescription="chart"
-              aria-label={`${title}. Day cursor: arrow keys move one sample, Page Up and Page Down a week, Home and End to the start and end.`}
+              aria-label={`${title}. ${CURSOR_KEYS_SUMMARY}`}
               aria-describedby={help}
               onKeyDown={cursor.onKeyDown}
               className="touch-pan-y rounded-md"
@@ -413,8 +413,7 @@ export function ChartFrame({
             </p>
           ) : null}
           <p id={help} className="mt-1 text-xs text-stone-600">
-            Move the day cursor with the pointer, or focus the chart and use ← → (one sample), Page Up / Page Down (a
-            week), Home / End.
+            {CURSOR_KEYS_HELP}
           </p>
         </div>
         <div className="min-w-0 text-sm">{readout}</div>

@@ -38,6 +38,24 @@ export function splitMgN(mg: number): { value: string; unit: "mg N" | "g N" } {
   return { value: formatNumber(mg, 3), unit: "mg N" };
 }
 
+export type NitrogenUnit = "mg N" | "g N";
+
+/**
+ * One unit for a whole column of budget amounts: g N when its largest amount is 10 g or more,
+ * else mg N, so a column never mixes the two (the unit is said once, in its header).
+ */
+export function columnUnit(amountsMg: readonly number[]): NitrogenUnit {
+  const biggest = Math.max(0, ...amountsMg.filter(Number.isFinite).map(Math.abs));
+  return biggest >= 10_000 ? "g N" : "mg N";
+}
+
+/** An amount in a column's unit, without the unit: "12.3" (g N) or "850" (mg N). */
+export function formatInUnit(mg: number, unit: NitrogenUnit): string {
+  if (unit === "mg N") return Math.abs(mg) >= 100 ? String(Math.round(mg)) : formatNumber(mg, 3);
+  const g = mg / 1000;
+  return Math.abs(g) >= 100 ? String(Math.round(g)) : formatNumber(g, 3);
+}
+
 export function formatMgN(mg: number): string {
   const { value, unit } = splitMgN(mg);
   return `${value} ${unit}`;

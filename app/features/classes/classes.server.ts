@@ -19,7 +19,7 @@
  */
 import { and, asc, eq, inArray } from "drizzle-orm";
 import { data } from "react-router";
-import type { Scenario } from "~models";
+import { listScenarioFields, type Scenario } from "~models";
 import { getDb } from "~/db/client.server";
 import { classes, classMembers, lessons, scenarios, tanks, users } from "~/db/schema";
 import { hasRole, notFound } from "~/permissions.server";
@@ -159,6 +159,22 @@ export function requireOwnClass(user: SessionUser, classIdParam: string | undefi
 
 /** The pseudo-field that frees the plant groups (adding, removing and every plant setting). */
 export const PLANT_GROUPS_FIELD = "plants";
+
+/**
+ * The settings a lesson leaves open, in words ("Water volume", "Growth rate (plant group 1)"),
+ * from its unlocked input names; the form's own labels, from the engine's field list.
+ */
+export function openSettingLabels(unlockedFields: readonly string[]): string[] {
+  const labels = new Map(listScenarioFields().map((f) => [f.key, f.meta.label]));
+  return unlockedFields.map((name) => {
+    if (name === PLANT_GROUPS_FIELD) return "The plant groups (adding, removing and all their settings)";
+    const plant = /^plants\.(\d+)\.(.+)$/.exec(name);
+    if (plant) return `${labels.get(`plants.*.${plant[2]}`) ?? plant[2]} (plant group ${Number(plant[1]) + 1})`;
+    if (name === "name") return "Scenario name";
+    if (name === "startDate") return "Run starts on";
+    return labels.get(name) ?? name;
+  });
+}
 
 /** Every input name of a scenario's setup form, grouped as the form groups them. */
 export function formFieldGroups(model: ScenarioFormModel): { title: string; fields: FormField[] }[] {

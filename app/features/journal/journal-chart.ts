@@ -4,11 +4,8 @@
  */
 import { scaleLinear } from "d3-scale";
 import { line } from "d3-shape";
-import { fromCanonical } from "~models/units";
 
-/** mg/L as NO3 per mg/L as N, from the one units table. */
-export const NO3_PER_N = fromCanonical("nitrate", 1, "asNO3");
-
+/** Nitrate (`no3`, `high`, readings) in the person's unit, NO3 or NO3-N. */
 export type ReplayCurve = { t: number[]; no3: number[]; high: number; readings: { day: number; no3: number }[] };
 
 export function replayPaths(c: ReplayCurve, width: number, height: number) {

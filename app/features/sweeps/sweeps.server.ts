@@ -26,6 +26,20 @@ const shownUnit = (lever: Lever, units: DisplayUnits) => unitLabel(lever.quantit
 const display = (lever: Lever, v: number, units: DisplayUnits) =>
   Number(toDisplay(lever.quantity, v, units).toPrecision(6));
 
+/** A lever's allowed range in the person's units: the numbers the form's hint shows and its check enforces. */
+function leverBounds(lever: Lever, units: DisplayUnits): { min: number; max: number } {
+  // Four significant figures, rounded inwards, so the bounds read cleanly and stay allowed.
+  const tidy = (v: number, dir: "up" | "down") => {
+    if (v === 0 || !Number.isFinite(v)) return v;
+    const step = 10 ** (Math.floor(Math.log10(Math.abs(v))) - 3);
+    return Number(((dir === "up" ? Math.ceil(v / step) : Math.floor(v / step)) * step).toPrecision(4));
+  };
+  return {
+    min: tidy(toDisplay(lever.quantity, lever.min, units), "up"),
+    max: tidy(toDisplay(lever.quantity, lever.max, units), "down"),
+  };
+}
+
 /** A lever as the form draws it (display units). */
 export function leverJson(lever: Lever, units: DisplayUnits) {
   return {
@@ -33,8 +47,7 @@ export function leverJson(lever: Lever, units: DisplayUnits) {
     label: lever.label,
     hint: lever.hint,
     unit: shownUnit(lever, units),
-    min: display(lever, lever.min, units),
-    max: display(lever, lever.max, units),
+    ...leverBounds(lever, units),
     current: display(lever, lever.current, units),
     integer: lever.integer,
   };
@@ -68,22 +81,29 @@ export function sweepInputSchema(levers: Lever[], units: DisplayUnits, role: Rol
         .max(maxPoints, `At most ${maxPoints} points for your account.`),
       outcome: z.enum(OUTCOMES.map((o) => o.id) as [string, ...string[]], { error: "Choose an outcome." }),
     })
-    .superRefine((v, ctx) => {
-      const lever = levers.find((l) => l.id === v.setting);
-      if (!lever) return;
-      const lo = display(lever, lever.min, units);
-      const hi = display(lever, lever.max, units);
-      for (const key of ["from", "to"] as const) {
-        if (v[key] < lo || v[key] > hi) {
-          ctx.addIssue({
-            code: "custom",
-            path: [key],
-            message: `Keep ${lever.label.toLowerCase()} between ${lo} and ${hi} ${shownUnit(lever, units)}.`,
-          });
+    // `when`: the range checks run even when another field is wrong, so the form shows every
+    // problem at once; each check looks only at fields that are themselves numbers.
+    .superRefine(
+      (v, ctx) => {
+        const lever = levers.find((l) => l.id === v.setting);
+        if (!lever) return;
+        const { min: lo, max: hi } = leverBounds(lever, units);
+        const ok = (x: unknown): x is number => typeof x === "number" && Number.isFinite(x);
+        for (const key of ["from", "to"] as const) {
+          const x = v[key];
+          if (ok(x) && (x < lo || x > hi)) {
+            ctx.addIssue({
+              code: "custom",
+              path: [key],
+              message: `Keep ${lever.label.toLowerCase()} between ${lo} and ${hi} ${shownUnit(lever, units)}.`,
+            });
+          }
         }
-      }
-      if (v.from === v.to) ctx.addIssue({ code: "custom", path: ["to"], message: "“To” must differ from “From”." });
-    });
+        if (ok(v.from) && ok(v.to) && v.from === v.to)
+          ctx.addIssue({ code: "custom", path: ["to"], message: "“To” must differ from “From”." });
+      },
+      { when: () => true },
+    );
 }
 
 export type SweepInput = z.infer<ReturnType<typeof sweepInputSchema>>;

@@ -21,3 +21,13 @@ export const DEFAULT_NITRATE_TARGETS = {
 export function typedTarget(storedMgN: number, factor: number): number {
   return Number((storedMgN * factor).toPrecision(12));
 }
+
+/**
+ * The target fields' hint in the person's units: the usual 5–20 mg/L NO3 band (common
+ * practice, no source), or its NO3-N equivalent (about 1.1–4.5) for those who read nitrate as N.
+ */
+export function nitrateBandHint(factor: number, unitLabel: string): string {
+  const lo = Number((DEFAULT_NITRATE_TARGETS.nitrateTargetLow * factor).toPrecision(2));
+  const hi = Number((DEFAULT_NITRATE_TARGETS.nitrateTargetHigh * factor).toPrecision(2));
+  return `Planted tanks often aim for ${lo}–${hi} ${unitLabel} (common practice).`;
+}

@@ -1,4 +1,4 @@
-import { useMemo } from "react";
+import { useMemo, useState } from "react";
 import { Form, redirect, useNavigation, useSearchParams } from "react-router";
 import { z } from "zod";
 import type { Route } from "./+types/lesson-work";
@@ -121,6 +121,10 @@ export default function LessonWorkPage({ loaderData, actionData }: Route.Compone
   const setupData = actionData && "form" in actionData ? actionData : null;
   const failure = actionData && "values" in actionData ? actionData : null;
   const form = setupData?.form ?? loaderData.form;
+  // Settings changed since the form came from the server and not yet saved: handing in now would
+  // leave them out, so the hand-in says so first. Saving brings a new form, which clears this.
+  const [changedForm, setChangedForm] = useState<typeof form>(null);
+  const unsaved = !!form && changedForm === form;
   return (
     <div className="space-y-6">
       <Breadcrumbs
@@ -160,15 +164,17 @@ export default function LessonWorkPage({ loaderData, actionData }: Route.Compone
             Settings marked “locked by the lesson” stay as your teacher set them
             {plantGroupsFree ? "." : "; the plant groups are fixed too."} Change the others, then save and run.
           </p>
-          <ScenarioForm
-            model={form}
-            errors={setupData?.errors ?? {}}
-            submitLabel="Save and run"
-            locked={lockedSet}
-            plantGroupsLocked={!plantGroupsFree}
-            openSections={openSections}
-            unitsNote={unitsNote}
-          />
+          <div onChange={() => setChangedForm(form)} onInput={() => setChangedForm(form)}>
+            <ScenarioForm
+              model={form}
+              errors={setupData?.errors ?? {}}
+              submitLabel="Save and run"
+              locked={lockedSet}
+              plantGroupsLocked={!plantGroupsFree}
+              openSections={openSections}
+              unitsNote={unitsNote}
+            />
+          </div>
         </section>
       ) : (
         <FormMessage>The settings of your copy can no longer be read. Ask your teacher.</FormMessage>
@@ -212,8 +218,18 @@ export default function LessonWorkPage({ loaderData, actionData }: Route.Compone
               </p>
             ) : null}
           </div>
+          {unsaved ? (
+            <p
+              className="rounded-md border border-amber-300 bg-amber-50 p-2 text-sm text-amber-900"
+              role="alert"
+              data-unsaved-warning=""
+            >
+              You changed settings without saving them. What you hand in is your copy as last saved and run, without
+              those changes: press “Save and run” above first to include them.
+            </p>
+          ) : null}
           <button type="submit" className="btn" disabled={busy}>
-            Hand in
+            {unsaved ? "Hand in without my unsaved changes" : "Hand in"}
           </button>
         </Form>
       )}

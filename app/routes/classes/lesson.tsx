@@ -4,6 +4,7 @@ import { FormMessage } from "~/components/ui/field";
 import {
   findCopy,
   handInTable,
+  openSettingLabels,
   READ_ONLY_CLASS,
   requireClassAccess,
   requireLesson,
@@ -36,7 +37,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
       handedIn: false,
       handIns: null,
       labels: null,
-      unlockedCount: lesson.unlockedFields.length,
+      openSettings: openSettingLabels(lesson.unlockedFields),
     };
   }
   if (as === "student") {
@@ -48,7 +49,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
       handedIn: !!copy?.handedInAt,
       handIns: null,
       labels: null,
-      unlockedCount: 0,
+      openSettings: openSettingLabels(lesson.unlockedFields),
     };
   }
   const units = displayUnitsFor(user);
@@ -58,7 +59,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     started: false,
     handedIn: false,
     labels: unitLabels(units),
-    unlockedCount: lesson.unlockedFields.length,
+    openSettings: openSettingLabels(lesson.unlockedFields),
     handIns: handInTable(cls, lesson).map((row) => ({
       student: row.student,
       copy: row.copy
@@ -98,7 +99,7 @@ const READ_ONLY_CLASS_TEXT =
   "You are no longer an educator, so this lesson is read-only and its hand-ins are hidden. An admin can hand the class to another educator.";
 
 export default function LessonPage({ loaderData, actionData }: Route.ComponentProps) {
-  const { cls, lesson, as, started, handedIn, handIns, labels, unlockedCount } = loaderData;
+  const { cls, lesson, as, started, handedIn, handIns, labels, openSettings } = loaderData;
   const busy = useNavigation().state === "submitting";
   const base = `/classes/${cls.id}/lessons/${lesson.id}`;
   return (
@@ -116,6 +117,7 @@ export default function LessonPage({ loaderData, actionData }: Route.ComponentPr
           Question
         </h2>
         <p className="whitespace-pre-line">{lesson.question}</p>
+        <OpenSettings names={openSettings} />
       </section>
       {actionData?.errors[""] ? <FormMessage>{actionData.errors[""]}</FormMessage> : null}
       {as === "former educator" ? (
@@ -145,11 +147,6 @@ export default function LessonPage({ loaderData, actionData }: Route.ComponentPr
             <Link to={`${base}/present`} className="btn">
               Present to the class
             </Link>
-            <span className="text-stone-700">
-              {unlockedCount === 0
-                ? "Every setting is locked."
-                : `${unlockedCount} setting${unlockedCount === 1 ? "" : "s"} open to students.`}
-            </span>
           </p>
           <section aria-labelledby="handins-title" className="space-y-2">
             <h2 id="handins-title" className="text-lg">
@@ -228,6 +225,25 @@ export default function LessonPage({ loaderData, actionData }: Route.ComponentPr
           </section>
         </>
       )}
+    </div>
+  );
+}
+
+/** The settings the lesson leaves open to students, named (the rest stay as the teacher set them). */
+function OpenSettings({ names }: { names: string[] }) {
+  if (names.length === 0)
+    return <p className="text-sm text-stone-700">Every setting is locked: students change none.</p>;
+  return (
+    <div className="text-sm text-stone-700" data-open-settings="">
+      <p>
+        {names.length === 1 ? "One setting is" : `${names.length} settings are`} open to students; every other stays as
+        the lesson sets it:
+      </p>
+      <ul className="ml-5 list-disc">
+        {names.map((n) => (
+          <li key={n}>{n}</li>
+        ))}
+      </ul>
     </div>
   );
 }

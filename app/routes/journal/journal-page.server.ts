@@ -3,7 +3,7 @@
  * chosen scenario with the readings over it, and the page's three actions (add, delete, upload).
  */
 import { data } from "react-router";
-import { NO3_PER_N } from "~/features/journal/journal-chart";
+import { fromCanonical } from "~models/units";
 import { describeEntry, ENTRY_KINDS } from "~/features/journal/journal-entries";
 import { parseJournalCsv, MAX_JOURNAL_CSV_BYTES } from "~/features/journal/journal-csv.server";
 import {
@@ -21,8 +21,11 @@ import { readUpload, UploadError } from "~/http/uploads.server";
 import { runProblem } from "~/http/pages.server";
 import { DAY_MS, formatDateTime } from "~/utils/dates";
 import type { CsvProblem } from "~/utils/csv-read.server";
+import { formatNumber, unitLabels, type DisplayUnits } from "~/utils/display-units";
 
-export function journalPageData(tank: TankRow, scenarioParam: string | null, now = Date.now()) {
+export function journalPageData(tank: TankRow, scenarioParam: string | null, units: DisplayUnits, now = Date.now()) {
+  // Nitrate in the person's own unit (NO3 or NO3-N), from the one units table.
+  const perMgN = fromCanonical("nitrate", 1, units.nitrate);
   const entries = listJournal(tank.id);
   const scenarios = listScenarios(tank.id);
   const chosen = scenarios.find((s) => String(s.id) === scenarioParam) ?? scenarios[0] ?? null;
@@ -36,17 +39,18 @@ export function journalPageData(tank: TankRow, scenarioParam: string | null, now
       if (r) {
         const readings = allReadings(tank.id)
           .filter((x) => x.nitrate !== null && x.takenAt.getTime() >= r.startMs)
-          .map((x) => ({ day: (x.takenAt.getTime() - r.startMs) / DAY_MS, no3: x.nitrate! * NO3_PER_N }));
+          .map((x) => ({ day: (x.takenAt.getTime() - r.startMs) / DAY_MS, no3: x.nitrate! * perMgN }));
         replay = {
           startMs: r.startMs,
           lengthDays: r.lengthDays,
           t: r.result.series.t,
-          no3: r.result.series.no3.map((v) => v * NO3_PER_N),
-          high: settings.targets.nitrateHigh * NO3_PER_N,
+          no3: r.result.series.no3.map((v) => v * perMgN),
+          unit: unitLabels(units).nitrate,
+          high: settings.targets.nitrateHigh * perMgN,
           readings,
           unused: r.unused,
         };
-        forecast = forecastSentence(forecastJournal(settings, entries, now));
+        forecast = forecastSentence(forecastJournal(settings, entries, now), units);
       }
     } catch (error) {
       problem = runProblem(error);
@@ -79,17 +83,19 @@ export function journalPageData(tank: TankRow, scenarioParam: string | null, now
 
 const dayText = (ms: number) =>
   new Date(ms).toLocaleDateString("en-GB", { day: "numeric", month: "long", timeZone: "UTC" });
-const no3Text = (mgN: number) => `${Math.round(mgN * NO3_PER_N)} mg/L NO3`;
+/** Nitrate in the person's unit: "40 mg/L NO3", or "9 mg/L NO3-N" for those who read it as N. */
+const no3Text = (mgN: number, units: DisplayUnits) =>
+  `${formatNumber(fromCanonical("nitrate", mgN, units.nitrate), 2)} ${unitLabels(units).nitrate}`;
 
 /** "Nitrate reaches 40 mg/L NO3 around 14 December; a 40 % change by 12 December keeps it below 40 mg/L NO3." */
-function forecastSentence(f: Forecast | null): string | null {
+function forecastSentence(f: Forecast | null, units: DisplayUnits): string | null {
   if (!f) return null;
   if (f.kind === "below")
     return `Under your planned schedule nitrate stays below your upper target for the next ${f.horizonDays} days.`;
-  const cross = `Nitrate reaches ${no3Text(f.high)} around ${dayText(f.crossMs)}`;
+  const cross = `Nitrate reaches ${no3Text(f.high, units)} around ${dayText(f.crossMs)}`;
   if (!f.fix)
     return `${cross}; even a 90 % change two days before does not keep it below: look at feeding and the plan.`;
-  return `${cross}; a ${Math.round(f.fix.share * 100)} % change by ${dayText(f.fix.byMs)} keeps it below ${no3Text(f.high)} until the next planned change (or for a week).`;
+  return `${cross}; a ${Math.round(f.fix.share * 100)} % change by ${dayText(f.fix.byMs)} keeps it below ${no3Text(f.high, units)} until the next planned change (or for a week).`;
 }
 
 export type JournalAnswer = {

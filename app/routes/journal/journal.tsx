@@ -15,6 +15,7 @@ import { requireOwnedTank } from "~/features/tanks/tanks.server";
 import { requireUser } from "~/permissions.server";
 import { journalAction, journalPageData, type JournalAnswer } from "~/routes/journal/journal-page.server";
 import { formatDate } from "~/utils/dates";
+import { displayUnitsFor } from "~/utils/display-units";
 import { ScrollTable } from "~/components/ui/scroll-table";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `Journal · ${data?.tank.name ?? "Tank"} · Fernwater` }];
@@ -22,7 +23,7 @@ export const meta: Route.MetaFunction = ({ data }) => [{ title: `Journal · ${da
 export async function loader({ request, params }: Route.LoaderArgs) {
   const user = await requireUser(request);
   const tank = requireOwnedTank(user.id, params.tankId);
-  return journalPageData(tank, new URL(request.url).searchParams.get("scenario"));
+  return journalPageData(tank, new URL(request.url).searchParams.get("scenario"), displayUnitsFor(user));
 }
 
 export async function action({ request, params }: Route.ActionArgs) {
@@ -40,7 +41,7 @@ function ReplayChart({ replay }: { replay: NonNullable<Route.ComponentProps["loa
       <svg
         viewBox={`0 0 ${W} ${H}`}
         role="img"
-        aria-label="Nitrate as it happened, mg/L NO3, with test readings"
+        aria-label={`Nitrate as it happened, ${replay.unit}, with test readings`}
         className="w-full"
       >
         {p.yTicks.map((t) => (
@@ -63,7 +64,7 @@ function ReplayChart({ replay }: { replay: NonNullable<Route.ComponentProps["loa
         ))}
       </svg>
       <figcaption className="text-sm text-stone-600">
-        Nitrate (mg/L NO3) over the days since {formatDate(replay.startMs)}; dots are your test readings, the dashed
+        Nitrate ({replay.unit}) over the days since {formatDate(replay.startMs)}; dots are your test readings, the dashed
         line your upper target. This is a model, not a water test: test your water before acting on it.
       </figcaption>
     </figure>
@@ -244,40 +245,40 @@ export default function JournalPage({ loaderData, actionData }: Route.ComponentP
           <p className="text-stone-600">No entries yet.</p>
         ) : (
           <ScrollTable label="Journal entries table">
-            <table className="w-full text-sm">
-              <thead>
-                <tr className="text-left">
-                  <th>Date</th>
-                  <th>What</th>
-                  <th>Details</th>
-                  <th>Note</th>
-                  <th />
+          <table className="w-full text-sm">
+            <thead>
+              <tr className="text-left">
+                <th>Date</th>
+                <th>What</th>
+                <th>Details</th>
+                <th>Note</th>
+                <th />
+              </tr>
+            </thead>
+            <tbody>
+              {entries.map((e) => (
+                <tr key={e.id} className="border-t border-stone-200">
+                  <td className="figure">{e.when}</td>
+                  <td>{e.kind}</td>
+                  <td>{e.what}</td>
+                  <td>{e.note}</td>
+                  <td>
+                    <Form method="post">
+                      <input type="hidden" name="intent" value="delete" />
+                      <input type="hidden" name="entryId" value={e.id} />
+                      <button
+                        type="submit"
+                        className="text-red-800 underline"
+                        aria-label={`Delete the entry of ${e.when}`}
+                      >
+                        Delete
+                      </button>
+                    </Form>
+                  </td>
                 </tr>
-              </thead>
-              <tbody>
-                {entries.map((e) => (
-                  <tr key={e.id} className="border-t border-stone-200">
-                    <td className="figure">{e.when}</td>
-                    <td>{e.kind}</td>
-                    <td>{e.what}</td>
-                    <td>{e.note}</td>
-                    <td>
-                      <Form method="post">
-                        <input type="hidden" name="intent" value="delete" />
-                        <input type="hidden" name="entryId" value={e.id} />
-                        <button
-                          type="submit"
-                          className="text-red-800 underline"
-                          aria-label={`Delete the entry of ${e.when}`}
-                        >
-                          Delete
-                        </button>
-                      </Form>
-                    </td>
-                  </tr>
-                ))}
-              </tbody>
-            </table>
+              ))}
+            </tbody>
+          </table>
           </ScrollTable>
         )}
       </section>
@@ -292,14 +293,7 @@ export default function JournalPage({ loaderData, actionData }: Route.ComponentP
           by its line.
         </p>
         <Form method="post" encType="multipart/form-data" className="flex flex-wrap items-end gap-2">
-          <input
-            type="file"
-            name="file"
-            accept=".csv,text/csv"
-            aria-label="Journal CSV file"
-            required
-            className="max-w-full"
-          />
+          <input type="file" name="file" accept=".csv,text/csv" aria-label="Journal CSV file" required className="max-w-full" />
           <button type="submit" className="btn">
             Upload
           </button>

@@ -278,7 +278,9 @@ function ReadingsTable({
     <ScrollTable label="Readings table" className="rounded-lg border border-stone-200 bg-white">
       <table className="w-full min-w-[44rem] text-sm">
         <caption className="sr-only">
-          Readings, sorted by {query.sort} ({query.dir === "asc" ? "ascending" : "descending"})
+          Readings, sorted by{" "}
+          {(query.sort === "takenAt" ? "date and time" : (columns.find((c) => c.key === query.sort)?.label ?? "date and time")).toLowerCase()}{" "}
+          ({query.dir === "asc" ? "ascending" : "descending"})
         </caption>
         <thead className="bg-stone-50 text-left">
           <tr>
@@ -324,17 +326,20 @@ function ReadingsTable({
                 >
                   Edit
                 </Link>
-                <deleter.Form method="post" className="inline">
-                  <input type="hidden" name="intent" value="delete" />
-                  <input type="hidden" name="id" value={r.id} />
-                  <button
-                    type="submit"
-                    className="text-red-800 underline"
-                    aria-label={`Delete the reading of ${r.takenAt}`}
-                  >
-                    Delete
-                  </button>
-                </deleter.Form>
+                {/* Asks first: a disclosure holds the real button, so it works without JavaScript too. */}
+                <details className="inline-block align-top">
+                  <summary className="cursor-pointer text-red-800 underline" aria-label={`Delete the reading of ${r.takenAt}…`}>
+                    Delete…
+                  </summary>
+                  <deleter.Form method="post" className="mt-1 space-y-1 rounded border border-red-200 bg-red-50 p-2">
+                    <input type="hidden" name="intent" value="delete" />
+                    <input type="hidden" name="id" value={r.id} />
+                    <p className="text-xs text-stone-800">Delete this reading? It cannot be undone.</p>
+                    <button type="submit" className="btn-secondary text-red-800">
+                      Yes, delete the reading of {r.takenAt}
+                    </button>
+                  </deleter.Form>
+                </details>
               </td>
             </tr>
           ))}

@@ -4,7 +4,7 @@ import { z } from "zod";
 import type { Route } from "./+types/public";
 import { PREVIEW_HEIGHT, PREVIEW_WIDTH } from "~/components/charts/preview-card";
 import { ReadOnlyResults } from "~/components/read-only-results";
-import { FormMessage, SelectField } from "~/components/ui/field";
+import { FormMessage, SelectField, TextField } from "~/components/ui/field";
 import { copyScenarioInto, type CopyDestination } from "~/features/scenarios/copies.server";
 import { getDb } from "~/db/client.server";
 import { tanks } from "~/db/schema";
@@ -133,6 +133,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 const CopySchema = z.object({
   intent: z.literal("copy"),
   tankId: z.union([z.literal("new"), z.coerce.number().int().positive()], { error: "Choose one of your tanks." }),
+  // The new tank's name; empty gives the usual "Shared with me".
+  newTankName: z.string().trim().max(80, "Keep the name under 80 characters.").optional(),
 });
 
 export async function action({ request, params }: Route.ActionArgs) {
@@ -142,13 +144,16 @@ export async function action({ request, params }: Route.ActionArgs) {
   if (!found || !isLive(found.link)) notFound(GONE);
   const values = formValues(await readForm(request));
   const parsed = CopySchema.safeParse(values);
-  if (!parsed.success) return invalid({ tankId: "Choose one of your tanks." }, values);
+  if (!parsed.success) {
+    const tooLong = parsed.error.issues.find((i) => i.path[0] === "newTankName");
+    return invalid(tooLong ? { newTankName: tooLong.message } : { tankId: "Choose one of your tanks." }, values);
+  }
   const settings = readStoredSettings(found.scenario.settings);
   if (!settings)
     return invalid({ "": "The settings of this scenario can no longer be read, so they cannot be copied." }, values);
   const destination: CopyDestination =
     parsed.data.tankId === "new"
-      ? { newTank: SHARED_TANK }
+      ? { newTank: { ...SHARED_TANK, name: parsed.data.newTankName || SHARED_TANK.name } }
       : { tank: requireOwnedTank(user.id, String(parsed.data.tankId)) };
   try {
     const copy = await copyScenarioInto(user.id, destination, found.scenario.name, settings, found.scenario.id);
@@ -200,15 +205,26 @@ export default function SharedScenarioPage({ loaderData, actionData }: Route.Com
               <SelectField
                 label="Into which tank?"
                 name="tankId"
-                options={myTanks.map((t) => ({ value: String(t.id), label: t.name }))}
+                options={[
+                  ...myTanks.map((t) => ({ value: String(t.id), label: t.name })),
+                  { value: "new", label: "A new tank" },
+                ]}
                 error={errors.tankId}
               />
             ) : (
               <>
                 <input type="hidden" name="tankId" value="new" />
-                <p className="text-sm">You have no tanks yet: the copy goes into a new tank, “{SHARED_TANK.name}”.</p>
+                <p className="text-sm">You have no tanks yet: the copy goes into a new tank.</p>
               </>
             )}
+            <TextField
+              label="Name of a new tank"
+              name="newTankName"
+              placeholder={SHARED_TANK.name}
+              hint={myTanks && myTanks.length > 0 ? "Used when you choose “A new tank”." : `Empty: “${SHARED_TANK.name}”.`}
+              error={errors.newTankName}
+              maxLength={80}
+            />
             <button type="submit" className="btn" disabled={busy}>
               {busy ? "Copying…" : "Copy to my tanks"}
             </button>

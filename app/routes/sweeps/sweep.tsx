@@ -88,6 +88,8 @@ export default function SweepPage({ loaderData, actionData }: Route.ComponentPro
   const lever = levers.find((l) => l.id === settingId) ?? levers[0];
   const [from, to] = lever ? suggestedRange(lever) : [0, 1];
   const keepTyped = typed.setting === settingId;
+  // The very bounds the server's check enforces (leverBounds), written out in full.
+  const rangeHint = lever ? `Between ${lever.min} and ${lever.max}${lever.unit ? ` ${lever.unit}` : ""}.` : "";
   const result = (job?.result ?? job?.partial) as SweepResultJson | null;
   const chart = useMemo(
     () =>
@@ -134,7 +136,7 @@ export default function SweepPage({ loaderData, actionData }: Route.ComponentPro
               value={settingId}
               onChange={(e) => setSettingId(e.target.value)}
               options={levers.map((l) => ({ value: l.id, label: `${l.label}${l.unit ? ` (${l.unit})` : ""}` }))}
-              hint={`${lever.hint} Now ${formatNumber(lever.current)} ${lever.unit}; allowed ${formatNumber(lever.min)}–${formatNumber(lever.max)}.`}
+              hint={`${lever.hint} Now ${formatNumber(lever.current)} ${lever.unit}.`}
               error={errors.setting}
             />
             <SelectField
@@ -152,6 +154,7 @@ export default function SweepPage({ loaderData, actionData }: Route.ComponentPro
               inputMode="decimal"
               suffix={lever.unit}
               defaultValue={String(keepTyped ? typed.from : from)}
+              hint={rangeHint}
               error={errors.from}
               className="figure"
             />
@@ -161,6 +164,7 @@ export default function SweepPage({ loaderData, actionData }: Route.ComponentPro
               inputMode="decimal"
               suffix={lever.unit}
               defaultValue={String(keepTyped ? typed.to : to)}
+              hint={rangeHint}
               error={errors.to}
               className="figure"
             />

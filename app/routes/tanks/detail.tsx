@@ -7,7 +7,7 @@ import { getDb } from "~/db/client.server";
 import { scenarios, tanks } from "~/db/schema";
 import { displayKeyFigures } from "~/features/runs/display-figures";
 import { speciesFactor } from "~models/units";
-import { typedTarget } from "~/features/tanks/nitrate-targets";
+import { nitrateBandHint, typedTarget } from "~/features/tanks/nitrate-targets";
 import { handedInCopyIn } from "~/features/classes/classes.server";
 import { requireUser } from "~/permissions.server";
 import { latestKeyFigures } from "~/features/runs/simulation.server";
@@ -43,6 +43,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
       nitrateHigh: String(typedTarget(tank.nitrateTargetHigh, no3)),
     },
     labels: unitLabels(units),
+    nitrateHint: nitrateBandHint(no3, unitLabels(units).nitrate),
     scenarios: list.map((s) => {
       const figures = latest.get(s.id);
       return {
@@ -273,7 +274,7 @@ export default function TankPage({ loaderData, actionData }: Route.ComponentProp
             name="nitrateLow"
             inputMode="decimal"
             suffix={labels.nitrate}
-            hint="Planted tanks often aim for 5–20 mg/L as NO3 (common practice)."
+            hint={loaderData.nitrateHint}
             defaultValue={values.intent === "settings" ? values.nitrateLow : tank.nitrateLow}
             error={errors.nitrateLow}
           />

@@ -58,7 +58,7 @@ export const MaintenanceSchema = z.object({
   waterChangeFraction: fraction(
     D.maintenance.waterChangeFraction.value,
     "Share of water changed",
-    "e.g. 0.25 for a quarter of the tank.",
+    "e.g. 25 % for a quarter of the tank.",
     0.95,
   ),
   gravelCleaningFraction: fraction(

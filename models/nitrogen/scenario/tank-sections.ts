@@ -100,7 +100,7 @@ export const FishSchema = z.object({
   proteinFraction: fraction(
     D.fish.proteinFraction.value,
     "Protein share of the food",
-    "From the food label, e.g. 0.45 for 45 % protein.",
+    "From the food label, e.g. 45 % protein.",
     0.8,
   ),
   feedsPerDay: num(
@@ -185,7 +185,7 @@ export const PlantGroupSchema = z
     nitrogenContent: fraction(
       stem.nitrogenContent.value,
       "Nitrogen content",
-      "Share of dry mass that is nitrogen, typically 0.02–0.04.",
+      "Share of dry mass that is nitrogen, typically 2–4 %.",
       0.08,
     ),
     growthRatePerDay: num(
