@@ -31,6 +31,7 @@ export default [
     route(":tankId/readings/export", "routes/readings/export.ts"),
     route(":tankId/readings/template", "routes/readings/template.ts"),
     route(":tankId/journal", "routes/journal/journal.tsx"),
+    route(":tankId/plan", "routes/tanks/plan.tsx"),
     route(":tankId/journal/export", "routes/journal/export.ts"),
     route(":tankId/scenarios/:scenarioId/calibrate", "routes/calibrate/calibrate.tsx"),
     route(":tankId/scenarios/:scenarioId/sweep", "routes/sweeps/sweep.tsx"),

@@ -92,6 +92,7 @@ export function CalibrationSetup({
   values,
   inRun,
   disabled,
+  journal,
 }: {
   multipliers: MultiplierRow[];
   hasPlants: boolean;
@@ -101,6 +102,8 @@ export function CalibrationSetup({
   values: Record<string, string>;
   inRun: number;
   disabled: boolean;
+  /** The tank's journal replay, when it has entries: from which day, and the readings within it. */
+  journal: { from: string; readings: number } | null;
 }) {
   const none =
     multipliers.every((m) => !m.assessment || !m.assessment.determinable) && multipliers.some((m) => m.assessment);
@@ -141,6 +144,44 @@ export function CalibrationSetup({
           </p>
         ) : null}
       </fieldset>
+      {journal ? (
+        <fieldset className="space-y-2">
+          <legend className="text-sm font-semibold">Fit against</legend>
+          <label className="flex items-start gap-2 text-sm">
+            <input
+              type="radio"
+              name="schedule"
+              value="journal"
+              defaultChecked={values.schedule !== "periodic"}
+              className="mt-1"
+            />
+            <span>
+              <span className="font-semibold">The journal, as it happened</span> — the water changes, cleanings and
+              plants you logged since {journal.from}, instead of the scenario’s timetable ({journal.readings} reading
+              {journal.readings === 1 ? "" : "s"} in that time). Usually far better posed: the readings reflect what you
+              did, not what you planned.
+            </span>
+          </label>
+          <label className="flex items-start gap-2 text-sm">
+            <input
+              type="radio"
+              name="schedule"
+              value="periodic"
+              defaultChecked={values.schedule === "periodic"}
+              className="mt-1"
+            />
+            <span>
+              <span className="font-semibold">The scenario’s periodic schedule</span> ({inRun} reading
+              {inRun === 1 ? "" : "s"} in its run)
+            </span>
+          </label>
+          {errors.schedule ? (
+            <p className="text-sm font-semibold text-red-800" role="alert">
+              {errors.schedule}
+            </p>
+          ) : null}
+        </fieldset>
+      ) : null}
       {kits.length ? (
         <fieldset className="space-y-3">
           <legend className="text-sm font-semibold">How you tested</legend>
@@ -154,9 +195,9 @@ export function CalibrationSetup({
         </fieldset>
       ) : null}
       <button type="submit" className="btn" disabled={disabled}>
-        Fit to {inRun} reading{inRun === 1 ? "" : "s"}
+        {journal ? "Fit" : `Fit to ${inRun} reading${inRun === 1 ? "" : "s"}`}
       </button>
-      {inRun === 0 ? (
+      {inRun === 0 && !journal ? (
         <p className="text-sm text-stone-700">
           Add readings dated within the run first, or change the scenario’s start date.
         </p>

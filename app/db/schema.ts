@@ -387,3 +387,19 @@ export const jobs = sqliteTable(
   },
   (t) => [index("jobs_user_status_idx").on(t.userId, t.status), index("jobs_status_idx").on(t.status, t.startedAt)],
 );
+
+/**
+ * A tank's maintenance plan: the scenario it starts from and the keeper's edits of that
+ * scenario's timetable (water change share and interval, gravel share, filter cleaning
+ * interval, trim intervals). No row = the first scenario's timetable as it stands.
+ */
+export const maintenancePlans = sqliteTable("maintenance_plans", {
+  tankId: integer("tank_id")
+    .primaryKey()
+    .references(() => tanks.id, { onDelete: "cascade" }),
+  scenarioId: integer("scenario_id")
+    .notNull()
+    .references(() => scenarios.id, { onDelete: "cascade" }),
+  plan: text("plan", { mode: "json" }).notNull(),
+  updatedAt: integer("updated_at", { mode: "timestamp_ms" }).notNull(),
+});

@@ -31,3 +31,26 @@ describe("the tank journal in the browser", () => {
     expectNoConsoleErrors(page);
   });
 });
+
+describe("the maintenance plan in the browser", () => {
+  it("marks a planned water change done on the tank page, edited before saving, and finds it in the journal", async () => {
+    const page = await newPage();
+    await signIn(page, DEMO.jonah, DEMO.password);
+    await page.goto("/tanks");
+    await page.getByRole("link", { name: "Living-room 120" }).first().click();
+    await page.waitForURL(/\/tanks\/\d+$/);
+    const task = page.getByRole("listitem").filter({ hasText: "Water change (" }).first();
+    await task.getByText("Mark done").click();
+    // Filled from the plan; the keeper changed a little more than planned today.
+    await expect(task.getByLabel("Water changed, %").inputValue()).resolves.toMatch(/^\d+$/);
+    await task.getByLabel("Water changed, %").fill("35");
+    await shot(page, "tank-page-mark-done");
+    await task.getByRole("button", { name: "Add to the journal" }).click();
+    await page.getByText("Added to the journal.").waitFor();
+    await page.getByRole("link", { name: "Journal" }).click();
+    await page.waitForURL(/\/journal$/);
+    const row = page.getByRole("row").filter({ hasText: "35 % changed" }).first();
+    await expect(row.textContent()).resolves.toContain(new Date().toISOString().slice(0, 10));
+    expectNoConsoleErrors(page);
+  });
+});

@@ -1,7 +1,7 @@
 import { eq } from "drizzle-orm";
 import { afterEach, describe, expect, it } from "vitest";
 import { getDb } from "~/db/client.server";
-import { readings, scenarios } from "~/db/schema";
+import { journalEntries, readings, scenarios } from "~/db/schema";
 import { runEngineTask } from "~/features/jobs/engine-tasks.server";
 import {
   cancelJob,
@@ -302,6 +302,41 @@ describe("calibration", () => {
       .run();
     return w;
   }
+
+  it("fits to the journal as it happened when the tank has one, and says which schedule it used", async () => {
+    const { user, tankId, scenarioId, base } = await calibrationWorld();
+    const before = await call(calibrateLoader, get(`${base}/calibrate`, user.cookie), { tankId, scenarioId });
+    expect(before.data.journal).toBeNull();
+    // A journal from the scenario's first day: the replay then covers every reading.
+    getDb()
+      .insert(journalEntries)
+      .values({ tankId: Number(tankId), doneAt: new Date(Date.UTC(2026, 0, 1, 9)), kind: "note", details: {} })
+      .run();
+    const page = await call(calibrateLoader, get(`${base}/calibrate`, user.cookie), { tankId, scenarioId });
+    expect(page.data.journal).toEqual({ from: "2026-01-01", readings: 15 });
+    const bad = await call(
+      calibrateAction,
+      post(`${base}/calibrate`, { intent: "start", fit: "feedLoad", schedule: "sometimes" }, user.cookie),
+      { tankId, scenarioId },
+    );
+    expect(bad.status).toBe(400);
+    expect(bad.data.errors.schedule).toMatch(/journal or the scenario/);
+    for (const [schedule, said] of [
+      ["journal", "the tank's journal, as it happened"],
+      ["periodic", "the scenario's periodic schedule"],
+    ]) {
+      const started = await call(
+        calibrateAction,
+        post(`${base}/calibrate`, { intent: "start", fit: "feedLoad", schedule }, user.cookie),
+        { tankId, scenarioId },
+      );
+      expect(started.status).toBe(302);
+      const { job } = await poll(jobIdOf(started.location), user.cookie);
+      expect(job.status).toBe("done");
+      expect((job.result as CalibrationJson).schedule).toBe(said);
+      expect((job.result as CalibrationJson).readingsUsed).toBe(15);
+    }
+  });
 
   it("fits the feed load to the readings, shows the fit, and saves it as a new scenario on the same dates", async () => {
     const { user, tankId, scenarioId, base } = await calibrationWorld();

@@ -245,6 +245,22 @@ export const PERMISSION_MATRIX: Row[] = [
     expect: [404, 404, 404, 404, 404, 404],
   },
   { file: "routes/journal/export.ts", handler: "loader", path: `${TANK}/journal/export`, expect: PAGE_PRIVATE },
+  { file: "routes/tanks/plan.tsx", handler: "loader", path: `${TANK}/plan`, expect: PAGE_PRIVATE },
+  { file: "routes/tanks/plan.tsx", handler: "action", path: `${TANK}/plan`, form: NOTHING, expect: ACTION_PRIVATE },
+  {
+    file: "routes/tanks/plan.tsx",
+    handler: "action",
+    path: `${TANK}/plan`,
+    form: { intent: "save", water_change_percent: "120" },
+    expect: ACTION_PRIVATE,
+  },
+  {
+    file: "routes/tanks/plan.tsx",
+    handler: "action",
+    path: `${TANK}/plan`,
+    form: { intent: "done", kind: "water_change", date: "not a date" },
+    expect: ACTION_PRIVATE,
+  },
   { file: "routes/calibrate/calibrate.tsx", handler: "loader", path: `${SCENARIO}/calibrate`, expect: PAGE_PRIVATE },
   {
     file: "routes/calibrate/calibrate.tsx",

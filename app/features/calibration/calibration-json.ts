@@ -39,6 +39,8 @@ type MultiplierReport = {
 
 export type CalibrationJson = {
   scenario: { id: number; name: string };
+  /** What the fit ran against, in words: the scenario's periodic schedule or the journal as it happened (older results lack it). */
+  schedule?: string;
   readingsUsed: number;
   residualCount: number;
   kits: KitView[];

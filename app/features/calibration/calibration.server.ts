@@ -5,7 +5,7 @@
  * short runs) to pre-tick only those. Saving the fitted multipliers makes a new scenario.
  */
 import { z } from "zod";
-import type { Scenario } from "~models";
+import type { Scenario, TankEventInput } from "~models";
 import {
   assessReadings,
   calibrateMultipliers,
@@ -176,13 +176,26 @@ function toJson(
   };
 }
 
-const observeTask = (days: number[], req: ObserveRequest): EngineTask => ({
+const observeTask = (days: number[], req: ObserveRequest, events?: TankEventInput[]): EngineTask => ({
   kind: "observe",
   scenario: req.scenario,
   days,
   pinnedTrimDays: req.pinnedTrimDays,
   limits: JOB_RUN_LIMITS,
+  events,
 });
+
+/**
+ * What the fit runs against: the scenario's periodic schedule from its start date, or the
+ * tank's journal replayed "as it happened" (its events in place of the schedule, from the
+ * journal's first day; `scenario` and `startMs` are then the replay's).
+ */
+export type FitSchedule = { kind: "periodic" } | { kind: "journal"; events: TankEventInput[] };
+
+const SCHEDULE_TEXT = {
+  periodic: "the scenario's periodic schedule",
+  journal: "the tank's journal, as it happened",
+} as const;
 
 const observedOf = (r: Awaited<ReturnType<JobContext<unknown>["run"]>>): Observed | null =>
   r.kind === "observe" ? r.observed : null;
@@ -203,7 +216,9 @@ export function startCalibration(
   fit: MultiplierKey[],
   units: DisplayUnits,
   kits: Kits = {},
+  schedule: FitSchedule = { kind: "periodic" },
 ) {
+  const events = schedule.kind === "journal" ? schedule.events : undefined;
   const readings = readingsForCalibration(tankId, startMs, scenario.run.lengthDays);
   const days = readings.map((r) => r.day);
   // Engine runs to expect, for the progress bar: the recovery suite's fits take about 110 per
@@ -216,7 +231,7 @@ export function startCalibration(
       kind: "calibration",
       label: `fit ${fit.map((k) => MULTIPLIER_LABELS[k].label.toLowerCase()).join(", ")} to ${readings.length} readings`,
       total: estimate,
-      params: { scenarioId: row.id, fit, kits },
+      params: { scenarioId: row.id, fit, kits, schedule: schedule.kind },
     },
     async (ctx: JobContext<unknown>) => {
       if (readings.length === 0) {
@@ -234,7 +249,7 @@ export function startCalibration(
         maxIterations: MAX_ITERATIONS,
         predict: (list) =>
           ctx.map(list, async (req) => {
-            const observed = observedOf(await ctx.run(observeTask(days, req)));
+            const observed = observedOf(await ctx.run(observeTask(days, req, events)));
             runs++;
             ctx.progress(runs, Math.max(estimate, runs + fit.length + 1));
             return observed;
@@ -246,7 +261,7 @@ export function startCalibration(
         throw error;
       });
       ctx.progress(runs, runs);
-      return toJson(row, readings, result, units);
+      return { ...toJson(row, readings, result, units), schedule: SCHEDULE_TEXT[schedule.kind] };
     },
   );
 }

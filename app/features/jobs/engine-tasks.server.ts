@@ -16,6 +16,7 @@ import {
   type Scenario,
   type SimulateOptions,
   type SweepPoint,
+  type TankEventInput,
 } from "~models";
 import { observe, type Observed } from "~models/nitrogen/calibrate";
 import { valueAt } from "~/utils/series-lookup";
@@ -63,6 +64,8 @@ export type EngineTask =
       days: readonly number[];
       pinnedTrimDays: number[][] | null;
       limits: SimulateOptions;
+      /** The journal's events in place of the periodic schedule ("as it happened"); none = the scenario's timetable. */
+      events?: TankEventInput[];
     };
 
 type Samples = { tan: number[]; no2: number[]; no3: number[] };
@@ -132,7 +135,7 @@ export function runEngineTask(task: EngineTask): EngineTaskResult {
   }
   if (task.kind === "observe") {
     try {
-      const limits = { ...task.limits, pinnedTrimDays: task.pinnedTrimDays ?? undefined };
+      const limits = { ...task.limits, pinnedTrimDays: task.pinnedTrimDays ?? undefined, events: task.events };
       return { kind: "observe", observed: observe(task.scenario, task.days, limits), error: null };
     } catch (error) {
       return { kind: "observe", observed: null, error: error instanceof Error ? error.message : String(error) };

@@ -12,6 +12,7 @@ import { calendarFeeds, scenarios, tanks } from "~/db/schema";
 import type { JournalEntry } from "~/features/journal/journal.server";
 import { listJournal } from "~/features/journal/journal.server";
 import { readStoredSettings } from "~/features/runs/simulation.server";
+import { plannedSettings } from "~/features/tanks/maintenance-plan.server";
 import { hashToken, randomToken } from "~/utils/crypto.server";
 import { DAY_MS, startOfDay } from "~/utils/dates";
 
@@ -57,23 +58,41 @@ const TASK_TITLES: Record<string, string> = {
   dose: "Dose ammonia",
 };
 
-/** The planned tasks from today for `days` days: the scenario's timetable resumed at the last logged change. */
+/**
+ * The planned tasks from today for `days` days: the scenario's timetable, each kind resumed at
+ * its last logged entry (water change, filter cleaning, a group's trim), so marking a task done
+ * moves its next occurrence on from that date.
+ */
 export function upcomingTasks(s: Scenario, entries: readonly JournalEntry[], now: number, days = CALENDAR_DAYS) {
   const today = startOfDay(now);
-  const lastChange = entries.filter((e) => e.kind === "water_change").at(-1)?.doneAt;
-  const lastClean = entries.filter((e) => e.kind === "filter_cleaned").at(-1)?.doneAt;
+  const last = (match: (e: JournalEntry) => boolean) => entries.filter(match).at(-1)?.doneAt;
   const fromDay = (ms: number | undefined) => (ms === undefined ? 0 : (startOfDay(ms) - today) / DAY_MS);
   const byKind = (kind: string, from: number) =>
     plannedEvents(s, days, from).filter((e) => e.kind === kind && e.day >= 0 && e.day < days);
+  const trims = s.plants.flatMap((g) => {
+    const lastTrim = last(
+      (e) =>
+        e.kind === "plants_trimmed" &&
+        [g.id, g.name].some((n) => n.toLowerCase() === (e.details.plantGroup ?? "").trim().toLowerCase()),
+    );
+    return byKind("trim", fromDay(lastTrim)).filter((e) => e.kind === "trim" && e.groupId === g.id);
+  });
   const tasks = [
-    ...byKind("waterChange", fromDay(lastChange)),
-    ...byKind("filterCleaning", fromDay(lastClean)),
-    ...byKind("trim", 0),
-  ].map((e) => ({
-    kind: e.kind,
-    title: TASK_TITLES[e.kind] + (e.kind === "waterChange" ? ` (${Math.round(e.fraction * 100)} %)` : ""),
-    atMs: today + Math.round(e.day) * DAY_MS,
-  }));
+    ...byKind("waterChange", fromDay(last((e) => e.kind === "water_change"))),
+    ...byKind("filterCleaning", fromDay(last((e) => e.kind === "filter_cleaned"))),
+    ...trims,
+  ].map((e) => {
+    const group = e.kind === "trim" ? s.plants.find((g) => g.id === e.groupId) : undefined;
+    return {
+      kind: e.kind,
+      groupId: group?.id,
+      title:
+        TASK_TITLES[e.kind] +
+        (e.kind === "waterChange" ? ` (${Math.round(e.fraction * 100)} %)` : "") +
+        (group ? ` (${group.name})` : ""),
+      atMs: today + Math.round(e.day) * DAY_MS,
+    };
+  });
   return tasks.sort((a, b) => a.atMs - b.atMs);
 }
 
@@ -87,8 +106,9 @@ export function calendarFor(token: string, now = Date.now()): string | null {
   if (!feed) return null;
   const tank = getDb().select().from(tanks).where(eq(tanks.id, feed.tankId)).get();
   const row = getDb().select().from(scenarios).where(eq(scenarios.id, feed.scenarioId)).get();
-  const s = row ? readStoredSettings(row.settings) : null;
-  if (!tank || !s) return null;
+  const settings = row ? readStoredSettings(row.settings) : null;
+  if (!tank || !settings) return null;
+  const s = plannedSettings(tank.id, settings);
   const cal = ical({ name: `${tank.name} · Fernwater`, prodId: { company: "Fernwater", product: "tank-calendar" } });
   for (const t of upcomingTasks(s, listJournal(tank.id), now)) {
     cal.createEvent({

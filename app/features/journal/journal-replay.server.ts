@@ -91,8 +91,12 @@ function journalEvents(
 
 export type Replay = { startMs: number; lengthDays: number; result: SimulationResult; unused: string[] };
 
-/** The replay from the journal's first day to `now` (at least one day, at most two years), or null without entries. */
-export function replayJournal(s: Scenario, entries: readonly JournalEntry[], now = Date.now()): Replay | null {
+/**
+ * What the replay runs: the scenario lengthened to the journal's span (from its first day, at
+ * most two years, to `now`) and the journal's events; null without entries. Calibration fits
+ * to this same run.
+ */
+export function replayInputs(s: Scenario, entries: readonly JournalEntry[], now = Date.now()) {
   if (entries.length === 0) return null;
   const startMs = startOfDay(Math.max(entries[0].doneAt, now - MAX_DAYS * DAY_MS));
   const lengthDays = Math.min(MAX_DAYS, Math.max(1, Math.ceil((now - startMs) / DAY_MS)));
@@ -105,6 +109,14 @@ export function replayJournal(s: Scenario, entries: readonly JournalEntry[], now
     ...s,
     run: { ...s.run, lengthDays, outputIntervalDays: Math.min(s.run.outputIntervalDays, 0.25) },
   };
+  return { startMs, lengthDays, scenario, events, unused };
+}
+
+/** The replay from the journal's first day to `now` (at least one day, at most two years), or null without entries. */
+export function replayJournal(s: Scenario, entries: readonly JournalEntry[], now = Date.now()): Replay | null {
+  const inputs = replayInputs(s, entries, now);
+  if (!inputs) return null;
+  const { startMs, lengthDays, scenario, events, unused } = inputs;
   // A journal of weeks runs in milliseconds: on the request thread, with the request bounds.
   const result = simulate(scenario, { ...REQUEST_RUN_LIMITS, events });
   return { startMs, lengthDays, result, unused };

@@ -20,6 +20,8 @@ import { countReadings, modelStartMs, readingsForCalibration } from "~/features/
 import { readStoredSettings, withTankTargets } from "~/features/runs/simulation.server";
 import { requireOwnedScenario } from "~/features/tanks/tanks.server";
 import { formatDate } from "~/utils/dates";
+import { replayInputs } from "~/features/journal/journal-replay.server";
+import { listJournal } from "~/features/journal/journal.server";
 import { displayUnitsFor } from "~/utils/display-units";
 import { fieldErrors, formValues } from "~/utils/form-errors";
 import { invalid, readForm, refusedForm } from "~/http/pages.server";
@@ -35,11 +37,13 @@ async function context(request: Request, params: Route.LoaderArgs["params"]) {
   const user = await requireUser(request);
   const { tank, scenario: row } = requireOwnedScenario(user.id, params.tankId, params.scenarioId);
   const settings = readStoredSettings(row.settings);
-  return { user, tank, row, settings, startMs: modelStartMs(row) };
+  // The journal replayed "as it happened" with this scenario as the tank's description, when there is one.
+  const replay = settings ? replayInputs(withTankTargets(settings, tank), listJournal(tank.id)) : null;
+  return { user, tank, row, settings, startMs: modelStartMs(row), replay };
 }
 
 export async function loader({ request, params }: Route.LoaderArgs) {
-  const { user, tank, row, settings, startMs } = await context(request, params);
+  const { user, tank, row, settings, startMs, replay } = await context(request, params);
   const job = findScenarioJob(user.id, request, "calibration", row.id);
   const lengthDays = settings?.run.lengthDays ?? 0;
   const hasPlants = (settings?.plants.length ?? 0) > 0;
@@ -57,6 +61,12 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     lengthDays,
     inRun: settings ? readingsForCalibration(tank.id, startMs, lengthDays).length : 0,
     total: countReadings(tank.id),
+    journal: replay
+      ? {
+          from: formatDate(replay.startMs),
+          readings: readingsForCalibration(tank.id, replay.startMs, replay.lengthDays).length,
+        }
+      : null,
     hasPlants,
     multipliers: MULTIPLIER_KEYS.map((k) => ({
       key: k,
@@ -72,7 +82,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 }
 
 export async function action({ request, params }: Route.ActionArgs) {
-  const { user, tank, row, settings, startMs } = await context(request, params);
+  const { user, tank, row, settings, startMs, replay } = await context(request, params);
   const form = await readForm(request);
   const values = formValues(form);
   const here = `/tanks/${tank.id}/scenarios/${row.id}/calibrate`;
@@ -87,17 +97,38 @@ export async function action({ request, params }: Route.ActionArgs) {
     const input = CalibrateInputSchema.safeParse({ fit: form.getAll("fit"), kits });
     if (!input.success) return invalid({ fit: input.error.issues[0].message, ...errors }, values);
     if (Object.keys(errors).length) return invalid(errors, values);
+    const onJournal = (values.schedule ?? (replay ? "journal" : "periodic")) === "journal";
+    if (onJournal && !replay)
+      return invalid({ schedule: "This tank's journal is empty: log what you did first." }, values);
+    if (values.schedule !== undefined && !["journal", "periodic"].includes(values.schedule))
+      return invalid({ schedule: "Choose the journal or the scenario's schedule." }, values);
     try {
-      const job = startCalibration(
-        user,
-        row,
-        tank.id,
-        withTankTargets(settings, tank),
-        startMs,
-        input.data.fit,
-        units,
-        input.data.kits,
-      );
+      const job =
+        onJournal && replay
+          ? startCalibration(
+              user,
+              row,
+              tank.id,
+              replay.scenario,
+              replay.startMs,
+              input.data.fit,
+              units,
+              input.data.kits,
+              {
+                kind: "journal",
+                events: replay.events,
+              },
+            )
+          : startCalibration(
+              user,
+              row,
+              tank.id,
+              withTankTargets(settings, tank),
+              startMs,
+              input.data.fit,
+              units,
+              input.data.kits,
+            );
       return redirect(`${here}?job=${job.id}`);
     } catch (error) {
       return refusedForm(error, values);
@@ -168,7 +199,8 @@ export default function CalibratePage({ loaderData, actionData }: Route.Componen
           errors={errors}
           values={values}
           inRun={inRun}
-          disabled={busy || inRun === 0 || jobActive(job)}
+          journal={loaderData.journal}
+          disabled={busy || (inRun === 0 && !loaderData.journal) || jobActive(job)}
         />
       ) : (
         <FormMessage>The saved settings of this scenario can no longer be read.</FormMessage>
@@ -179,6 +211,7 @@ export default function CalibratePage({ loaderData, actionData }: Route.Componen
             {result ? "The fit" : "Fitting"}
           </h2>
           <JobProgress job={job} />
+          {result?.schedule ? <p className="text-sm">Fitted against {result.schedule}.</p> : null}
           {result ? <CalibrationReport result={result} errors={errors} values={actionData?.values ?? {}} /> : null}
         </section>
       ) : null}

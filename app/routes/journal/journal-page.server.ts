@@ -16,6 +16,7 @@ import { forecastJournal, replayJournal, type Forecast } from "~/features/journa
 import { addEntries, deleteEntry, JournalFull, listJournal, readEntry } from "~/features/journal/journal.server";
 import { allReadings } from "~/features/readings/readings.server";
 import { readStoredSettings } from "~/features/runs/simulation.server";
+import { plannedSettings } from "~/features/tanks/maintenance-plan.server";
 import { listScenarios, type TankRow } from "~/features/tanks/tanks.server";
 import { readUpload, UploadError } from "~/http/uploads.server";
 import { runProblem } from "~/http/pages.server";
@@ -32,7 +33,9 @@ export function journalPageData(tank: TankRow, scenarioParam: string | null, uni
   let replay = null;
   let forecast: string | null = null;
   let problem: string | null = null;
-  const settings = chosen ? readStoredSettings(chosen.settings) : null;
+  // The tank's maintenance plan (if edited) replaces the scenario's timetable for the forecast and the list.
+  const stored = chosen ? readStoredSettings(chosen.settings) : null;
+  const settings = stored ? plannedSettings(tank.id, stored) : null;
   if (settings) {
     try {
       const r = replayJournal(settings, entries, now);

@@ -18,6 +18,8 @@ import { invalid, readForm } from "~/http/pages.server";
 import { TankNameSchema, TankNotesSchema } from "~/routes/tanks/tanks-page.server";
 import { Breadcrumbs } from "~/components/breadcrumbs";
 import { ScrollTable } from "~/components/ui/scroll-table";
+import { UpcomingList } from "~/features/tanks/upcoming-list";
+import { upcomingView } from "~/routes/tanks/upcoming-view.server";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.tank.name ?? "Tank"} · Fernwater` }];
 
@@ -44,6 +46,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     },
     labels: unitLabels(units),
     nitrateHint: nitrateBandHint(no3, unitLabels(units).nitrate),
+    upcoming: upcomingView(tank.id),
+    done: new URL(request.url).searchParams.has("done"),
     scenarios: list.map((s) => {
       const figures = latest.get(s.id);
       return {
@@ -177,6 +181,16 @@ export default function TankPage({ loaderData, actionData }: Route.ComponentProp
       </div>
       {tank.notes ? <p className="text-stone-700">{tank.notes}</p> : null}
       {errors[""] ? <FormMessage>{errors[""]}</FormMessage> : null}
+      {loaderData.done ? <FormMessage tone="success">Added to the journal.</FormMessage> : null}
+      <section aria-labelledby="upcoming-title" className="space-y-3">
+        <div className="flex flex-wrap items-baseline justify-between gap-2">
+          <h2 id="upcoming-title" className="text-lg">
+            Upcoming
+          </h2>
+          <Link to={`/tanks/${tank.id}/plan`}>Edit the maintenance plan</Link>
+        </div>
+        <UpcomingList tankId={tank.id} tasks={loaderData.upcoming} back="tank" />
+      </section>
 
       <section aria-labelledby="scenarios-title" className="space-y-3">
         <h2 id="scenarios-title" className="text-lg">

@@ -1,0 +1,152 @@
+/**
+ * The tank's maintenance plan on the server: stored per tank (defaulting to its first
+ * scenario's timetable), laid over a scenario so the upcoming list, the calendar feed and the
+ * forecast follow the keeper's edits, and "mark done" turning a planned task into journal entries.
+ */
+import { eq } from "drizzle-orm";
+import type { Scenario } from "~models";
+import { getDb } from "~/db/client.server";
+import { maintenancePlans } from "~/db/schema";
+import type { EntryInput } from "~/features/journal/journal-entries";
+import { addEntries, listJournal, readEntry } from "~/features/journal/journal.server";
+import { upcomingTasks } from "~/features/journal/calendar-feed.server";
+import { readStoredSettings } from "~/features/runs/simulation.server";
+import type { MaintenancePlan } from "~/features/tanks/maintenance-plan";
+import { listScenarios, type ScenarioRow } from "~/features/tanks/tanks.server";
+import { toDateTimeInput } from "~/utils/dates";
+
+/** The groups whose trims are on a fixed schedule (the only trims a plan can time). */
+export const timedTrimGroups = (s: Scenario) => s.plants.filter((g) => g.trim.rule === "everyDays");
+
+function planFromScenario(s: Scenario): MaintenancePlan {
+  return {
+    waterChangeFraction: s.maintenance.waterChangeFraction,
+    waterChangeIntervalDays: s.maintenance.waterChangeIntervalDays,
+    gravelCleaningFraction: s.maintenance.gravelCleaningFraction,
+    filterCleaningIntervalDays: s.filter.cleaningIntervalDays,
+    trims: Object.fromEntries(timedTrimGroups(s).map((g) => [g.id, g.trim.everyDays])),
+  };
+}
+
+/** The scenario with the plan's timetable in place of its own. */
+function applyPlan(s: Scenario, p: MaintenancePlan): Scenario {
+  return {
+    ...s,
+    maintenance: {
+      ...s.maintenance,
+      waterChangeFraction: p.waterChangeFraction,
+      waterChangeIntervalDays: p.waterChangeIntervalDays,
+      gravelCleaningFraction: p.gravelCleaningFraction,
+    },
+    filter: { ...s.filter, cleaningIntervalDays: p.filterCleaningIntervalDays },
+    plants: s.plants.map((g) =>
+      g.trim.rule === "everyDays" && p.trims[g.id] !== undefined
+        ? { ...g, trim: { ...g.trim, everyDays: p.trims[g.id] } }
+        : g,
+    ),
+  };
+}
+
+function storedPlan(tankId: number) {
+  return getDb().select().from(maintenancePlans).where(eq(maintenancePlans.tankId, tankId)).get() ?? null;
+}
+
+/** A scenario's settings with the tank's stored plan laid over them (unchanged without one). */
+export function plannedSettings(tankId: number, s: Scenario): Scenario {
+  const row = storedPlan(tankId);
+  return row ? applyPlan(s, row.plan as MaintenancePlan) : s;
+}
+
+export type TankPlan = {
+  scenario: ScenarioRow;
+  /** The scenario's own settings (for defaults and group names). */
+  base: Scenario;
+  plan: MaintenancePlan;
+  edited: boolean;
+};
+
+/** The tank's plan: the stored one over its scenario, else its first scenario's timetable; null without scenarios. */
+export function tankPlan(tankId: number): TankPlan | null {
+  const row = storedPlan(tankId);
+  const list = listScenarios(tankId);
+  const scenario = list.find((x) => x.id === row?.scenarioId) ?? list[0];
+  const base = scenario ? readStoredSettings(scenario.settings) : null;
+  if (!scenario || !base) return null;
+  return row
+    ? { scenario, base, plan: row.plan as MaintenancePlan, edited: true }
+    : { scenario, base, plan: planFromScenario(base), edited: false };
+}
+
+export function savePlan(tankId: number, scenarioId: number, plan: MaintenancePlan, now = Date.now()) {
+  const values = { tankId, scenarioId, plan, updatedAt: new Date(now) };
+  getDb()
+    .insert(maintenancePlans)
+    .values(values)
+    .onConflictDoUpdate({ target: maintenancePlans.tankId, set: values })
+    .run();
+}
+
+export function resetPlan(tankId: number) {
+  getDb().delete(maintenancePlans).where(eq(maintenancePlans.tankId, tankId)).run();
+}
+
+export type PlannedTask = { key: string; kind: string; title: string; atMs: number; values: Record<string, string> };
+
+/**
+ * The planned tasks from today for `days` days, each with the journal form's values it would
+ * log (kind and amounts from the plan, date now), which the keeper may edit before saving.
+ */
+export function upcomingPlanned(tankId: number, now = Date.now(), days = 21): PlannedTask[] {
+  const tp = tankPlan(tankId);
+  if (!tp) return [];
+  const s = applyPlan(tp.base, tp.plan);
+  const date = toDateTimeInput(now);
+  return upcomingTasks(s, listJournal(tankId), now, days).map((t) => ({
+    ...t,
+    key: `${t.kind}-${t.groupId ?? ""}-${t.atMs}`,
+    values: { date, ...doneValues(s, t.kind, t.groupId) },
+  }));
+}
+
+/** The journal form's fields for a planned task done as planned. */
+function doneValues(s: Scenario, kind: string, groupId: string | undefined): Record<string, string> {
+  const pct = (x: number) => String(Number((x * 100).toPrecision(3)));
+  if (kind === "waterChange")
+    return {
+      kind: "water_change",
+      water_changed_percent: pct(s.maintenance.waterChangeFraction),
+      gravel_cleaned_percent: s.maintenance.gravelCleaningFraction > 0 ? pct(s.maintenance.gravelCleaningFraction) : "",
+    };
+  if (kind === "filterCleaning")
+    return { kind: "filter_cleaned", filter_thoroughness: s.filter.cleanedInTapWater ? "tap_water" : "thorough" };
+  const g = s.plants.find((x) => x.id === groupId);
+  // The model trims a full group back to its "trim back to" share: what comes out is the rest, dry.
+  const removed = g ? (g.trim.fullAtFraction - g.trim.trimToFraction) * g.maxMassG : 0;
+  return {
+    kind: "plants_trimmed",
+    plant_group: g?.name ?? "",
+    plant_dry_g: removed > 0 ? String(Number(removed.toPrecision(3))) : "",
+  };
+}
+
+/**
+ * A planned task marked done: its entries (a water change with detritus siphoned is two: the
+ * change and the gravel cleaning) added in one transaction, or field errors and nothing stored.
+ */
+export function markTaskDone(
+  tankId: number,
+  fields: Record<string, string>,
+  now = Date.now(),
+): { ok: true; entries: EntryInput[] } | { ok: false; errors: Record<string, string> } {
+  const gravel = fields.kind === "water_change" ? (fields.gravel_cleaned_percent ?? "").trim() : "";
+  const main = readEntry({ ...fields, gravel_cleaned_percent: "" }, now);
+  const extra =
+    gravel !== "" && gravel !== "0"
+      ? readEntry({ date: fields.date, kind: "gravel_cleaned", gravel_cleaned_percent: gravel, note: "" }, now)
+      : null;
+  const errors = { ...(main.ok ? {} : main.errors), ...(extra && !extra.ok ? extra.errors : {}) };
+  if (!main.ok || (extra && !extra.ok)) return { ok: false, errors };
+  const entries = [main.entry, ...(extra?.ok ? [extra.entry] : [])];
+  addEntries(tankId, entries);
+  return { ok: true, entries };
+}
