@@ -4,11 +4,13 @@
  *   serious or critical violation (Deque's impact levels; W3C WCAG 2.1);
  * - phones: at 390 px wide no page scrolls sideways as a whole (wide tables scroll inside their
  *   own box), and a screenshot of each is saved for a person to look at.
- * The pages are found by following the demo club's links, so a new page linked from these is
- * crawled too once it is added to the list of paths below.
+ * The pages are found by following the demo club's links; the last test fails when a page
+ * route of app/routes.ts is visited by none of them, so a new page cannot be left out.
  */
+import fs from "node:fs";
 import AxeBuilder from "@axe-core/playwright";
 import { describe, expect, it } from "vitest";
+import routes from "~/routes";
 import { DEMO, newPage, type PageWithErrors, signIn, useBrowser } from "./support/browser";
 
 useBrowser();
@@ -54,6 +56,7 @@ async function keeperPages(page: PageWithErrors): Promise<Visit[]> {
     { name: "readings", path: `${tank}/readings` },
     { name: "readings-upload", path: `${tank}/readings/upload` },
     { name: "journal", path: `${tank}/journal` },
+    { name: "plan", path: `${tank}/plan` },
     { name: "calibrate", path: `${scenario}/calibrate` },
     { name: "sweep", path: `${scenario}/sweep` },
     { name: "target", path: `${scenario}/target` },
@@ -134,6 +137,36 @@ async function sidewaysOverflow(page: PageWithErrors): Promise<number> {
   return page.evaluate(() => document.documentElement.scrollWidth - document.documentElement.clientWidth);
 }
 
+/** Every path opened above, for the coverage check at the end. */
+const visited: string[] = [];
+
+type RouteEntry = { file: string; path?: string; index?: boolean; children?: RouteEntry[] };
+
+/** Page routes (modules with a page component) of the route table, as path patterns. */
+function pageRoutes(entries: RouteEntry[], prefix = ""): { file: string; pattern: RegExp }[] {
+  return entries.flatMap((entry) => {
+    const path = entry.index ? prefix : [prefix, entry.path].filter(Boolean).join("/");
+    const own = /export default/.test(fs.readFileSync(`app/${entry.file}`, "utf8"))
+      ? [{ file: entry.file, pattern: new RegExp(`^/${path.replace(/:[^/]+/g, "[^/]+")}$`) }]
+      : [];
+    return [...own, ...pageRoutes(entry.children ?? [], path)];
+  });
+}
+
+/**
+ * Pages the crawl cannot reach as a visitor would, each with why; everything else must be visited.
+ * The forms behind e-mailed links are checked by their own end-to-end tests.
+ */
+const NOT_CRAWLED: Record<string, string> = {
+  "routes/auth/confirm-sign-up.tsx": "needs a fresh sign-up link from an e-mail (accounts.e2e)",
+  "routes/auth/reset-password.tsx": "needs a fresh reset link from an e-mail (accounts.e2e)",
+  "routes/classes/invite.tsx": "needs a fresh invitation link from an e-mail (sharing-and-classes.e2e)",
+  "routes/classes/copy.tsx": "needs a student's hand-in, made by sharing-and-classes.e2e",
+  "routes/classes/lesson-work.tsx": "a student's copy is made by starting the lesson (sharing-and-classes.e2e)",
+  "routes/dev/mail.tsx": "a local-mode tool, not part of the product",
+  "routes/dev/chart-preview.tsx": "a local-mode tool for measuring chart redraws",
+};
+
 const PEOPLE: { who: string; email: string | null; pages: (page: PageWithErrors) => Promise<Visit[]> }[] = [
   { who: "anonymous visitor", email: null, pages: async () => ANONYMOUS },
   { who: "keeper", email: DEMO.jonah, pages: keeperPages },
@@ -155,6 +188,7 @@ describe("every page, for each of its people", () => {
       const problems: string[] = [];
       const overflowing: string[] = [];
       for (const visit of visits) {
+        visited.push(visit.path);
         await open(desk, visit.path);
         problems.push(...(await seriousViolations(desk, visit.name)));
         await open(phone, visit.path);
@@ -188,5 +222,15 @@ describe("wide tables on a phone", () => {
       expect(after.second, `${name}: the rest scrolls`).toBeLessThan(before.second - 50);
       expect(await sidewaysOverflow(phone)).toBe(0);
     }
+  });
+});
+
+describe("the crawl", () => {
+  it("visits every page route of app/routes.ts (or says why not)", () => {
+    const missing = pageRoutes(routes as RouteEntry[])
+      .filter((route) => !(route.file in NOT_CRAWLED))
+      .filter((route) => !visited.some((path) => route.pattern.test(path.split("?")[0])))
+      .map((route) => route.file);
+    expect(missing).toEqual([]);
   });
 });
