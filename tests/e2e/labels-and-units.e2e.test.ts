@@ -99,7 +99,7 @@ async function setNitrateUnit(page: Page, unit: "N" | "NO3") {
 }
 
 describe("hints follow the person's units", () => {
-  it("a keeper who reads nitrate as N sees mg/L NO3-N, never NO3, on the tank, scenario, sweep and journal pages", async () => {
+  it("a keeper who reads nitrate as N sees amounts and hints in mg/L NO3-N on every page, the journal among them", async () => {
     const page = await newPage();
     await signIn(page, DEMO.jonah, DEMO.password);
     await setNitrateUnit(page, "N");
