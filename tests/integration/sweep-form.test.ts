@@ -62,7 +62,9 @@ describe("the sweep form", () => {
         const nudge = Math.max(Math.abs(l.max), Math.abs(l.min), 1) * 1e-3;
         // Just outside either end is refused, naming the same bounds…
         const below = await check(l.id, l.min - nudge, l.max);
-        expect(below.from, `${l.id} below ${l.min}`).toBe(`Keep ${l.label.toLowerCase()} between ${l.min} and ${l.max} ${l.unit}.`);
+        expect(below.from, `${l.id} below ${l.min}`).toBe(
+          `Keep ${l.label.toLowerCase()} between ${l.min} and ${l.max} ${l.unit}.`,
+        );
         const above = await check(l.id, l.min, l.max + nudge);
         expect(above.to, `${l.id} above ${l.max}`).toContain(`between ${l.min} and ${l.max}`);
         // …and the ends themselves are allowed (a job starts, or only the job limit refuses).

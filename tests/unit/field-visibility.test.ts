@@ -10,7 +10,9 @@ const form = (values: Record<string, string>) => (name: string) => values[name];
 
 describe("which setup fields apply", () => {
   it("names only fields the scenario has", () => {
-    const keys = new Set(listScenarioFields().map((f) => f.key.replace(/\.\*\./, ".0.").replace(/^plants\.\*/, "plants.0")));
+    const keys = new Set(
+      listScenarioFields().map((f) => f.key.replace(/\.\*\./, ".0.").replace(/^plants\.\*/, "plants.0")),
+    );
     for (const name of [
       "plants.0.trim.rule",
       "plants.0.trim.everyDays",
@@ -32,7 +34,12 @@ describe("which setup fields apply", () => {
     expect(fieldApplies("plants.2.trim.fullAtFraction", form({ "plants.2.trim.rule": "everyDays" }))).toBe(false);
     expect(fieldApplies("plants.1.trim.trimToFraction", form({ "plants.1.trim.rule": "none" }))).toBe(false);
     // Each group follows its own rule.
-    expect(fieldApplies("plants.1.trim.everyDays", form({ "plants.0.trim.rule": "everyDays", "plants.1.trim.rule": "whenFull" }))).toBe(false);
+    expect(
+      fieldApplies(
+        "plants.1.trim.everyDays",
+        form({ "plants.0.trim.rule": "everyDays", "plants.1.trim.rule": "whenFull" }),
+      ),
+    ).toBe(false);
   });
 
   it("hides the dosing fields while fishless cycling is off", () => {
@@ -43,7 +50,12 @@ describe("which setup fields apply", () => {
     const on = form({ "fishlessCycling.enabled": "true", "fishlessCycling.stopRule": "whenCycled" });
     expect(fieldApplies("fishlessCycling.doseMgNPerL", on)).toBe(true);
     expect(fieldApplies("fishlessCycling.stopAfterDays", on)).toBe(false);
-    expect(fieldApplies("fishlessCycling.stopAfterDays", form({ "fishlessCycling.enabled": "true", "fishlessCycling.stopRule": "afterDays" }))).toBe(true);
+    expect(
+      fieldApplies(
+        "fishlessCycling.stopAfterDays",
+        form({ "fishlessCycling.enabled": "true", "fishlessCycling.stopRule": "afterDays" }),
+      ),
+    ).toBe(true);
   });
 
   it("leaves every other field shown, and knows which fields are switches", () => {

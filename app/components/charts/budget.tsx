@@ -156,8 +156,8 @@ export const BudgetTable = memo(function BudgetTable({ budgets, caption = "Nitro
     <div className="relative overflow-x-auto" tabIndex={0} role="region" aria-label={caption}>
       <table className="w-full border-collapse text-sm">
         <caption className="py-2 text-left text-sm text-stone-700">
-          {caption} over each run, in the unit under each run's name. Marked cells differ from {budgets[0].label} by more than 1
-          %.
+          {caption} over each run, in the unit under each run's name. Marked cells differ from {budgets[0].label} by
+          more than 1 %.
         </caption>
         <thead>
           <tr className="border-b border-stone-300 text-left align-bottom">

@@ -279,7 +279,10 @@ function ReadingsTable({
       <table className="w-full min-w-[44rem] text-sm">
         <caption className="sr-only">
           Readings, sorted by{" "}
-          {(query.sort === "takenAt" ? "date and time" : (columns.find((c) => c.key === query.sort)?.label ?? "date and time")).toLowerCase()}{" "}
+          {(query.sort === "takenAt"
+            ? "date and time"
+            : (columns.find((c) => c.key === query.sort)?.label ?? "date and time")
+          ).toLowerCase()}{" "}
           ({query.dir === "asc" ? "ascending" : "descending"})
         </caption>
         <thead className="bg-stone-50 text-left">
@@ -328,7 +331,10 @@ function ReadingsTable({
                 </Link>
                 {/* Asks first: a disclosure holds the real button, so it works without JavaScript too. */}
                 <details className="inline-block align-top">
-                  <summary className="cursor-pointer text-red-800 underline" aria-label={`Delete the reading of ${r.takenAt}…`}>
+                  <summary
+                    className="cursor-pointer text-red-800 underline"
+                    aria-label={`Delete the reading of ${r.takenAt}…`}
+                  >
                     Delete…
                   </summary>
                   <deleter.Form method="post" className="mt-1 space-y-1 rounded border border-red-200 bg-red-50 p-2">

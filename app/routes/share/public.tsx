@@ -221,7 +221,9 @@ export default function SharedScenarioPage({ loaderData, actionData }: Route.Com
               label="Name of a new tank"
               name="newTankName"
               placeholder={SHARED_TANK.name}
-              hint={myTanks && myTanks.length > 0 ? "Used when you choose “A new tank”." : `Empty: “${SHARED_TANK.name}”.`}
+              hint={
+                myTanks && myTanks.length > 0 ? "Used when you choose “A new tank”." : `Empty: “${SHARED_TANK.name}”.`
+              }
               error={errors.newTankName}
               maxLength={80}
             />

@@ -41,9 +41,17 @@ describe("one unit per budget column", () => {
   it.each(["crowded-reach", "fern-hollow"])("%s: no cell carries a unit, and every amount header names one", (id) => {
     const b = runPreset(id);
     // The run must mix small and large amounts, or the check could not fail.
-    const ends = stockRows(b).map((r) => Math.abs(r.end)).filter((x) => x > 0);
+    const ends = stockRows(b)
+      .map((r) => Math.abs(r.end))
+      .filter((x) => x > 0);
     expect(Math.max(...ends) / Math.min(...ends)).toBeGreaterThan(100);
-    for (const budgets of [[{ label: "Run", budget: b }], [{ label: "A", budget: b }, { label: "B", budget: runPreset(id, 60) }]]) {
+    for (const budgets of [
+      [{ label: "Run", budget: b }],
+      [
+        { label: "A", budget: b },
+        { label: "B", budget: runPreset(id, 60) },
+      ],
+    ]) {
       const html = renderToStaticMarkup(createElement(BudgetTable, { budgets }));
       for (const table of columns(html)) {
         for (const cell of table.cells.flat()) expect(cell).not.toMatch(/\bm?g N\b/);
