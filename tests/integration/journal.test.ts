@@ -245,7 +245,7 @@ describe("the forecast", () => {
     const page = await call(pageLoader, get(`/tanks/${id}/journal`, keeper.cookie), { tankId: id });
     // The tank's default upper target, 4.52 mg N/L, is 20 mg/L NO3 (docs/sources.md §0: ×4.4268)
     expect(page.data.forecast).toMatch(
-      /^Nitrate reaches 20 mg\/L NO3 around \d+ \w+; a \d+ % change by \d+ \w+ keeps it below/,
+      /^Nitrate passes your upper target of 20 mg\/L NO3 around \d+ \w+ \([\d.]+ mg\/L NO3 before the next planned change\); a \d+ % change by \d+ \w+ keeps it below 20 mg\/L NO3 until \d+ \w+\.$/,
     );
   });
 });

@@ -4,6 +4,8 @@
  */
 import { data } from "react-router";
 import { NO3_PER_N } from "~/features/journal/journal-chart";
+import { speciesFactor } from "~models/units";
+import { formatNumber, unitLabels, type DisplayUnits } from "~/utils/display-units";
 import { describeEntry, ENTRY_KINDS } from "~/features/journal/journal-entries";
 import { parseJournalCsv, MAX_JOURNAL_CSV_BYTES } from "~/features/journal/journal-csv.server";
 import {
@@ -23,7 +25,12 @@ import { runProblem } from "~/http/pages.server";
 import { DAY_MS, formatDateTime } from "~/utils/dates";
 import type { CsvProblem } from "~/utils/csv-read.server";
 
-export function journalPageData(tank: TankRow, scenarioParam: string | null, now = Date.now()) {
+export async function journalPageData(
+  tank: TankRow,
+  scenarioParam: string | null,
+  units: DisplayUnits,
+  now = Date.now(),
+) {
   const entries = listJournal(tank.id);
   const scenarios = listScenarios(tank.id);
   const chosen = scenarios.find((s) => String(s.id) === scenarioParam) ?? scenarios[0] ?? null;
@@ -49,7 +56,7 @@ export function journalPageData(tank: TankRow, scenarioParam: string | null, now
           readings,
           unused: r.unused,
         };
-        forecast = forecastSentence(forecastJournal(settings, entries, now));
+        forecast = forecastSentence(await forecastJournal(settings, entries, now), units);
       }
     } catch (error) {
       problem = runProblem(error);
@@ -82,17 +89,22 @@ export function journalPageData(tank: TankRow, scenarioParam: string | null, now
 
 const dayText = (ms: number) =>
   new Date(ms).toLocaleDateString("en-GB", { day: "numeric", month: "long", timeZone: "UTC" });
-const no3Text = (mgN: number) => `${Math.round(mgN * NO3_PER_N)} mg/L NO3`;
+/** Nitrate in the person's units: "25 mg/L NO3" or "5.65 mg/L NO3-N". */
+const no3Text = (mgN: number, units: DisplayUnits) =>
+  `${formatNumber(mgN * speciesFactor("nitrate", units), 3)} ${unitLabels(units).nitrate}`;
 
-/** "Nitrate reaches 40 mg/L NO3 around 14 December; a 40 % change by 12 December keeps it below 40 mg/L NO3." */
-function forecastSentence(f: Forecast | null): string | null {
+/**
+ * "Nitrate passes your upper target of 25 mg/L NO3 around 14 December (40 mg/L NO3 before the
+ * next planned change); a 40 % change by 12 December keeps it below 25 mg/L NO3 until then."
+ */
+function forecastSentence(f: Forecast | null, units: DisplayUnits): string | null {
   if (!f) return null;
   if (f.kind === "below")
     return `Under your planned schedule nitrate stays below your upper target for the next ${f.horizonDays} days.`;
-  const cross = `Nitrate reaches ${no3Text(f.high)} around ${dayText(f.crossMs)}`;
+  const cross = `Nitrate passes your upper target of ${no3Text(f.high, units)} around ${dayText(f.crossMs)} (${no3Text(f.peak, units)} before the next planned change)`;
   if (!f.fix)
     return `${cross}; even a 90 % change two days before does not keep it below: look at feeding and the plan.`;
-  return `${cross}; a ${Math.round(f.fix.share * 100)} % change by ${dayText(f.fix.byMs)} keeps it below ${no3Text(f.high)} until the next planned change (or for a week).`;
+  return `${cross}; a ${Math.round(f.fix.share * 100)} % change by ${dayText(f.fix.byMs)} keeps it below ${no3Text(f.high, units)} until ${dayText(f.fix.untilMs)}.`;
 }
 
 export type JournalAnswer = {

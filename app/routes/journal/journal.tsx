@@ -15,13 +15,14 @@ import { requireOwnedTank } from "~/features/tanks/tanks.server";
 import { requireUser } from "~/permissions.server";
 import { journalAction, journalPageData, type JournalAnswer } from "~/routes/journal/journal-page.server";
 import { formatDate } from "~/utils/dates";
+import { displayUnitsFor } from "~/utils/display-units";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `Journal · ${data?.tank.name ?? "Tank"} · Fernwater` }];
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const user = await requireUser(request);
   const tank = requireOwnedTank(user.id, params.tankId);
-  return journalPageData(tank, new URL(request.url).searchParams.get("scenario"));
+  return journalPageData(tank, new URL(request.url).searchParams.get("scenario"), displayUnitsFor(user));
 }
 
 export async function action({ request, params }: Route.ActionArgs) {
