@@ -1,7 +1,7 @@
 import { eq } from "drizzle-orm";
 import { describe, expect, it } from "vitest";
 import { getDb } from "~/db/client.server";
-import { journalEntries, readings } from "~/db/schema";
+import { journalEntries, readings, users } from "~/db/schema";
 import { action as entryApi, loader as entryApiLoader } from "~/routes/api/tank-journal-entry";
 import { action as journalApiPost, loader as journalApi } from "~/routes/api/tank-journal";
 import ICAL from "ical.js";
@@ -247,6 +247,10 @@ describe("the forecast", () => {
     expect(page.data.forecast).toMatch(
       /^Nitrate passes your upper target of 20 mg\/L NO3 around \d+ \w+ \([\d.]+ mg\/L NO3 before the next planned change\); a \d+ % change by \d+ \w+ keeps it below 20 mg\/L NO3 until \d+ \w+\.$/,
     );
+    // In the person's units: as nitrogen, 20 mg/L NO3 is 4.52 mg/L NO3-N (docs/sources.md §0: ×0.22590)
+    getDb().update(users).set({ nitrateUnit: "N" }).where(eq(users.id, keeper.id)).run();
+    const asN = await call(pageLoader, get(`/tanks/${id}/journal`, keeper.cookie), { tankId: id });
+    expect(asN.data.forecast).toMatch(/upper target of 4\.52 mg\/L NO3-N .* keeps it below 4\.52 mg\/L NO3-N/);
   });
 });
 
