@@ -1,5 +1,6 @@
 import { eq } from "drizzle-orm";
-import { describe, expect, it } from "vitest";
+import { describe, expect, it, vi } from "vitest";
+import { getEnginePool } from "~/features/jobs/engine-pool.server";
 import { getDb } from "~/db/client.server";
 import { journalEntries, readings, users } from "~/db/schema";
 import { action as entryApi, loader as entryApiLoader } from "~/routes/api/tank-journal-entry";
@@ -87,7 +88,16 @@ describe("the journal", () => {
         { tankId },
       );
     }
+    // The replay and the forecast run on the engine pool's interactive lane, as the person's (not on the request thread).
+    const pool = getEnginePool();
+    const runs = vi.spyOn(pool, "run");
     const page = await call(pageLoader, get(`/tanks/${tankId}/journal`, keeper.cookie), { tankId });
+    expect(runs.mock.calls.length).toBeGreaterThanOrEqual(2);
+    for (const [task, place] of runs.mock.calls) {
+      expect(task.kind).toBe("simulate");
+      expect(place).toEqual({ lane: "interactive", owner: `user:${keeper.id}` });
+    }
+    runs.mockRestore();
     const { t, no3 } = page.data.replay;
     const at = t.flatMap((x: number, k: number) => (Math.abs(x - 6) < 1e-9 ? [k] : []));
     expect(at).toHaveLength(2);

@@ -9,13 +9,12 @@ import {
   isModelError,
   plannedEvents,
   scenarioBacteriaShare,
-  simulate,
   type Scenario,
   type SimulationResult,
   type TankEventInput,
 } from "~models";
 import type { JournalEntry } from "~/features/journal/journal.server";
-import { REQUEST_RUN_LIMITS } from "~/features/runs/simulation.server";
+import { simulateOnPool } from "~/features/journal/journal-runs.server";
 import type { SearchLever } from "~/features/sweeps/search-levers.server";
 import { findLeastChange, type Evaluation } from "~/features/sweeps/target-search.server";
 import { DAY_MS, startOfDay } from "~/utils/dates";
@@ -115,13 +114,20 @@ export function replayInputs(s: Scenario, entries: readonly JournalEntry[], now 
   return { startMs, lengthDays, scenario, events, unused };
 }
 
-/** The replay from the journal's first day to `now` (at least one day, at most two years), or null without entries. */
-export function replayJournal(s: Scenario, entries: readonly JournalEntry[], now = Date.now()): Replay | null {
+/**
+ * The replay from the journal's first day to `now` (at least one day, at most two years), or
+ * null without entries; run on the engine pool for `owner` (the request bounds).
+ */
+export async function replayJournal(
+  s: Scenario,
+  entries: readonly JournalEntry[],
+  now = Date.now(),
+  owner = "anyone",
+): Promise<Replay | null> {
   const inputs = replayInputs(s, entries, now);
   if (!inputs) return null;
   const { startMs, lengthDays, scenario, events, unused } = inputs;
-  // A journal of weeks runs in milliseconds: on the request thread, with the request bounds.
-  const result = simulate(scenario, { ...REQUEST_RUN_LIMITS, events });
+  const result = await simulateOnPool(scenario, events, owner);
   return { startMs, lengthDays, result, unused };
 }
 
@@ -163,6 +169,7 @@ export async function forecastJournal(
   s: Scenario,
   entries: readonly JournalEntry[],
   now = Date.now(),
+  owner = "anyone",
 ): Promise<Forecast | null> {
   if (entries.length === 0) return null;
   const startMs = startOfDay(Math.max(entries[0].doneAt, now - MAX_DAYS * DAY_MS));
@@ -177,12 +184,12 @@ export async function forecastJournal(
   const resumeFrom = Number.isFinite(lastChange) ? lastChange : today;
   const planned = plannedEvents(s, total, resumeFrom).filter((e) => e.day >= today);
   const scenario: Scenario = { ...s, run: { ...s.run, lengthDays: total, outputIntervalDays: 0.25 } };
-  const run = (extra: TankEventInput[]) =>
-    simulate(scenario, { ...REQUEST_RUN_LIMITS, events: [...events, ...planned, ...extra] });
+  // Each run of the forecast and its search on the engine pool, as the page's other runs.
+  const run = (extra: TankEventInput[]) => simulateOnPool(scenario, [...events, ...planned, ...extra], owner);
   const high = s.targets.nitrateHigh;
   const inWindow = (r: SimulationResult, from: number, to: number) =>
     r.series.no3.filter((_v, k) => r.series.t[k] >= from && r.series.t[k] <= to);
-  const base = run([]);
+  const base = await run([]);
   const k = base.series.t.findIndex((t, i) => t >= today && base.series.no3[i] > high);
   if (k < 0) return { kind: "below", horizonDays: total - today };
   const crossDay = base.series.t[k];
@@ -193,7 +200,7 @@ export async function forecastJournal(
   const peak = Math.max(...inWindow(base, fixDay, nextPlanned));
   const outcome = await findLeastChange(EXTRA_CHANGE_LEVER, async (percent): Promise<Evaluation> => {
     try {
-      const r = run([{ kind: "waterChange", day: fixDay, fraction: percent / 100 }]);
+      const r = await run([{ kind: "waterChange", day: fixDay, fraction: percent / 100 }]);
       const most = Math.max(...inWindow(r, fixDay, nextPlanned));
       return { value: percent, nitrate: most, nh3: null, meets: most <= high, error: null };
     } catch (error) {

@@ -42,7 +42,8 @@ export async function journalPageData(
   const settings = stored ? plannedSettings(tank.id, stored) : null;
   if (settings) {
     try {
-      const r = replayJournal(settings, entries, now);
+      const owner = `user:${tank.ownerId}`;
+      const r = await replayJournal(settings, entries, now, owner);
       if (r) {
         const readings = allReadings(tank.id)
           .filter((x) => x.nitrate !== null && x.takenAt.getTime() >= r.startMs)
@@ -56,7 +57,7 @@ export async function journalPageData(
           readings,
           unused: r.unused,
         };
-        forecast = forecastSentence(await forecastJournal(settings, entries, now), units);
+        forecast = forecastSentence(await forecastJournal(settings, entries, now, owner), units);
       }
     } catch (error) {
       problem = runProblem(error);
