@@ -56,6 +56,8 @@ export async function journalPageData(
           high: settings.targets.nitrateHigh * NO3_PER_N,
           readings,
           unused: r.unused,
+          budget: r.result.budget,
+          plantNames: settings.plants.map((g) => g.name),
         };
         forecast = forecastSentence(await forecastJournal(settings, entries, now, owner), units);
       }
