@@ -1,7 +1,10 @@
 import { eq } from "drizzle-orm";
-import { describe, expect, it } from "vitest";
+import { describe, expect, it, vi } from "vitest";
+import { getEnginePool } from "~/features/jobs/engine-pool.server";
 import { getDb } from "~/db/client.server";
-import { journalEntries, readings } from "~/db/schema";
+import { journalEntries, readings, scenarios, users } from "~/db/schema";
+import { budgetSections } from "~/components/charts/budget-model";
+import { readStoredSettings } from "~/features/runs/simulation.server";
 import { action as entryApi, loader as entryApiLoader } from "~/routes/api/tank-journal-entry";
 import { action as journalApiPost, loader as journalApi } from "~/routes/api/tank-journal";
 import ICAL from "ical.js";
@@ -87,7 +90,16 @@ describe("the journal", () => {
         { tankId },
       );
     }
+    // The replay and the forecast run on the engine pool's interactive lane, as the person's (not on the request thread).
+    const pool = getEnginePool();
+    const runs = vi.spyOn(pool, "run");
     const page = await call(pageLoader, get(`/tanks/${tankId}/journal`, keeper.cookie), { tankId });
+    expect(runs.mock.calls.length).toBeGreaterThanOrEqual(2);
+    for (const [task, place] of runs.mock.calls) {
+      expect(task.kind).toBe("simulate");
+      expect(place).toEqual({ lane: "interactive", owner: `user:${keeper.id}` });
+    }
+    runs.mockRestore();
     const { t, no3 } = page.data.replay;
     const at = t.flatMap((x: number, k: number) => (Math.abs(x - 6) < 1e-9 ? [k] : []));
     expect(at).toHaveLength(2);
@@ -96,6 +108,34 @@ describe("the journal", () => {
     // No other water change: the scenario's weekly 30 % is replaced by the journal
     const drops = no3.filter((v: number, k: number) => k > 0 && v < no3[k - 1] * 0.9).length;
     expect(drops).toBe(1);
+  });
+
+  it("books plants put in from the journal as a row of the replay's nitrogen budget", async () => {
+    const { keeper, tankId } = await keeperWithTank();
+    const page0 = await call(pageLoader, get(`/tanks/${tankId}/journal`, keeper.cookie), { tankId });
+    expect(page0.data.replay).toBeNull();
+    const settings = readStoredSettings(
+      getDb().select().from(scenarios).where(eq(scenarios.tankId, Number(tankId))).get()!.settings,
+    )!;
+    const group = settings.plants[0];
+    expect(group).toBeDefined();
+    await call(
+      pageAction,
+      post(
+        `/tanks/${tankId}/journal`,
+        { intent: "add", date: day(6), kind: "plants_added", plant_group: group.name, plant_dry_g: "3" },
+        keeper.cookie,
+      ),
+      { tankId },
+    );
+    const page = await call(pageLoader, get(`/tanks/${tankId}/journal`, keeper.cookie), { tankId });
+    expect(page.data.replay.unused).toEqual([]);
+    const [inputs] = budgetSections(page.data.replay.budget, page.data.replay.plantNames);
+    const row = inputs.rows.find((r) => r.key === "plantsAdded");
+    // 3 g dry at 2–4 % nitrogen is 60–120 mg N (Duarte 1992, docs/sources.md)
+    expect(row?.mg).toBeGreaterThanOrEqual(60);
+    expect(row?.mg).toBeLessThanOrEqual(120);
+    expect(page.data.replay.budget.inputs.total).toBeGreaterThanOrEqual(row!.mg);
   });
 
   it("round-trips through CSV: the export uploads again to the same entries", async () => {
@@ -245,8 +285,12 @@ describe("the forecast", () => {
     const page = await call(pageLoader, get(`/tanks/${id}/journal`, keeper.cookie), { tankId: id });
     // The tank's default upper target, 4.52 mg N/L, is 20 mg/L NO3 (docs/sources.md §0: ×4.4268)
     expect(page.data.forecast).toMatch(
-      /^Nitrate reaches 20 mg\/L NO3 around \d+ \w+; a \d+ % change by \d+ \w+ keeps it below/,
+      /^Nitrate passes your upper target of 20 mg\/L NO3 around \d+ \w+ \([\d.]+ mg\/L NO3 before the next planned change\); a \d+ % change by \d+ \w+ keeps it below 20 mg\/L NO3 until \d+ \w+\.$/,
     );
+    // In the person's units: as nitrogen, 20 mg/L NO3 is 4.52 mg/L NO3-N (docs/sources.md §0: ×0.22590)
+    getDb().update(users).set({ nitrateUnit: "N" }).where(eq(users.id, keeper.id)).run();
+    const asN = await call(pageLoader, get(`/tanks/${id}/journal`, keeper.cookie), { tankId: id });
+    expect(asN.data.forecast).toMatch(/upper target of 4\.52 mg\/L NO3-N .* keeps it below 4\.52 mg\/L NO3-N/);
   });
 });
 

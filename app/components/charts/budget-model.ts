@@ -139,6 +139,10 @@ export function budgetSections(b: ChartBudget, plantNames: readonly string[] = [
         { key: "feed", label: "Fish food", level: 0, mg: b.inputs.feed },
         { key: "tapWater", label: "Tap water", level: 0, mg: b.inputs.tapWater },
         { key: "dosing", label: "Ammonia dosing", level: 0, mg: b.inputs.dosing },
+        // Only a replayed journal puts plants in (older stored runs lack the figure).
+        ...(b.inputs.plantsAdded
+          ? [{ key: "plantsAdded", label: "Plants put in (journal)", level: 0 as const, mg: b.inputs.plantsAdded }]
+          : []),
         { key: "inputsTotal", label: "Total in", level: 0, mg: b.inputs.total, total: true },
       ],
     },

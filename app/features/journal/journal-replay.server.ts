@@ -6,15 +6,17 @@
  * reported, not guessed.
  */
 import {
+  isModelError,
   plannedEvents,
   scenarioBacteriaShare,
-  simulate,
   type Scenario,
   type SimulationResult,
   type TankEventInput,
 } from "~models";
 import type { JournalEntry } from "~/features/journal/journal.server";
-import { REQUEST_RUN_LIMITS } from "~/features/runs/simulation.server";
+import { simulateOnPool } from "~/features/journal/journal-runs.server";
+import type { SearchLever } from "~/features/sweeps/search-levers.server";
+import { findLeastChange, type Evaluation } from "~/features/sweeps/target-search.server";
 import { DAY_MS, startOfDay } from "~/utils/dates";
 
 const MAX_DAYS = 730;
@@ -112,28 +114,63 @@ export function replayInputs(s: Scenario, entries: readonly JournalEntry[], now 
   return { startMs, lengthDays, scenario, events, unused };
 }
 
-/** The replay from the journal's first day to `now` (at least one day, at most two years), or null without entries. */
-export function replayJournal(s: Scenario, entries: readonly JournalEntry[], now = Date.now()): Replay | null {
+/**
+ * The replay from the journal's first day to `now` (at least one day, at most two years), or
+ * null without entries; run on the engine pool for `owner` (the request bounds).
+ */
+export async function replayJournal(
+  s: Scenario,
+  entries: readonly JournalEntry[],
+  now = Date.now(),
+  owner = "anyone",
+): Promise<Replay | null> {
   const inputs = replayInputs(s, entries, now);
   if (!inputs) return null;
   const { startMs, lengthDays, scenario, events, unused } = inputs;
-  // A journal of weeks runs in milliseconds: on the request thread, with the request bounds.
-  const result = simulate(scenario, { ...REQUEST_RUN_LIMITS, events });
+  const result = await simulateOnPool(scenario, events, owner);
   return { startMs, lengthDays, result, unused };
 }
 
 export type Forecast =
   | { kind: "below"; horizonDays: number }
-  | { kind: "crosses"; crossMs: number; high: number; fix: { share: number; byMs: number } | null };
+  | {
+      kind: "crosses";
+      crossMs: number;
+      high: number;
+      /** The highest nitrate (mg N/L) before the next planned change, with no extra change. */
+      peak: number;
+      fix: { share: number; byMs: number; untilMs: number } | null;
+    };
 
 const FORECAST_DAYS = 60;
 
+/** The extra water change's share as the target finder's lever: whole percent, 1 to 90. */
+const EXTRA_CHANGE_LEVER: SearchLever = {
+  id: "waterChangeFraction",
+  lo: 1,
+  hi: 90,
+  moreChange: "up",
+  integer: true,
+  tolerance: 1,
+  scale: "linear",
+  current: 0,
+  changes: () => [],
+  show: (v) => `${v} %`,
+  advice: (v) => `a ${v} % change`,
+};
+
 /**
  * From today forward under the planned schedule (the scenario's timetable, resumed from the last
- * logged water change): when nitrate crosses the upper target, and the smallest extra water
- * change two days before that keeps it under until the next planned change (or for a week).
+ * logged water change): when nitrate crosses the upper target, and — found by the target
+ * finder's search (least change that meets the goal) — the smallest extra water change two days
+ * before that keeps it under until the next planned change (or for a week).
  */
-export function forecastJournal(s: Scenario, entries: readonly JournalEntry[], now = Date.now()): Forecast | null {
+export async function forecastJournal(
+  s: Scenario,
+  entries: readonly JournalEntry[],
+  now = Date.now(),
+  owner = "anyone",
+): Promise<Forecast | null> {
   if (entries.length === 0) return null;
   const startMs = startOfDay(Math.max(entries[0].doneAt, now - MAX_DAYS * DAY_MS));
   const today = Math.max(1, Math.ceil((now - startMs) / DAY_MS));
@@ -147,26 +184,33 @@ export function forecastJournal(s: Scenario, entries: readonly JournalEntry[], n
   const resumeFrom = Number.isFinite(lastChange) ? lastChange : today;
   const planned = plannedEvents(s, total, resumeFrom).filter((e) => e.day >= today);
   const scenario: Scenario = { ...s, run: { ...s.run, lengthDays: total, outputIntervalDays: 0.25 } };
-  const run = (extra: TankEventInput[]) =>
-    simulate(scenario, { ...REQUEST_RUN_LIMITS, events: [...events, ...planned, ...extra] });
+  // Each run of the forecast and its search on the engine pool, as the page's other runs.
+  const run = (extra: TankEventInput[]) => simulateOnPool(scenario, [...events, ...planned, ...extra], owner);
   const high = s.targets.nitrateHigh;
-  const firstAbove = (r: SimulationResult, from: number, to: number) =>
-    r.series.t.findIndex((t, k) => t >= from && t <= to && r.series.no3[k] > high);
-  const base = run([]);
-  const k = firstAbove(base, today, total);
+  const inWindow = (r: SimulationResult, from: number, to: number) =>
+    r.series.no3.filter((_v, k) => r.series.t[k] >= from && r.series.t[k] <= to);
+  const base = await run([]);
+  const k = base.series.t.findIndex((t, i) => t >= today && base.series.no3[i] > high);
   if (k < 0) return { kind: "below", horizonDays: total - today };
   const crossDay = base.series.t[k];
   const fixDay = Math.max(today, Math.floor(crossDay) - 2);
   // Until the next planned change, or a week when none is planned (model choice, no source).
   const nextPlanned =
     planned.find((e) => e.kind === "waterChange" && e.day > fixDay)?.day ?? Math.min(total, fixDay + 7);
-  let fix = null;
-  for (let share = 0.1; share <= 0.9 + 1e-9; share += 0.1) {
-    const r = run([{ kind: "waterChange", day: fixDay, fraction: share }]);
-    if (firstAbove(r, fixDay, nextPlanned) < 0) {
-      fix = { share: Math.round(share * 100) / 100, byMs: startMs + fixDay * DAY_MS };
-      break;
+  const peak = Math.max(...inWindow(base, fixDay, nextPlanned));
+  const outcome = await findLeastChange(EXTRA_CHANGE_LEVER, async (percent): Promise<Evaluation> => {
+    try {
+      const r = await run([{ kind: "waterChange", day: fixDay, fraction: percent / 100 }]);
+      const most = Math.max(...inWindow(r, fixDay, nextPlanned));
+      return { value: percent, nitrate: most, nh3: null, meets: most <= high, error: null };
+    } catch (error) {
+      if (!isModelError(error)) throw error;
+      return { value: percent, nitrate: null, nh3: null, meets: false, error: error.message };
     }
-  }
-  return { kind: "crosses", crossMs: startMs + crossDay * DAY_MS, high, fix };
+  });
+  const fix =
+    outcome.status === "met"
+      ? { share: outcome.value / 100, byMs: startMs + fixDay * DAY_MS, untilMs: startMs + nextPlanned * DAY_MS }
+      : null;
+  return { kind: "crosses", crossMs: startMs + crossDay * DAY_MS, high, peak, fix };
 }

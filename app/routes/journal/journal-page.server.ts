@@ -3,7 +3,7 @@
  * chosen scenario with the readings over it, and the page's three actions (add, delete, upload).
  */
 import { data } from "react-router";
-import { fromCanonical } from "~models/units";
+import { fromCanonical, speciesFactor } from "~models/units";
 import { describeEntry, ENTRY_KINDS } from "~/features/journal/journal-entries";
 import { parseJournalCsv, MAX_JOURNAL_CSV_BYTES } from "~/features/journal/journal-csv.server";
 import {
@@ -24,7 +24,12 @@ import { DAY_MS, formatDateTime } from "~/utils/dates";
 import type { CsvProblem } from "~/utils/csv-read.server";
 import { formatNumber, unitLabels, type DisplayUnits } from "~/utils/display-units";
 
-export function journalPageData(tank: TankRow, scenarioParam: string | null, units: DisplayUnits, now = Date.now()) {
+export async function journalPageData(
+  tank: TankRow,
+  scenarioParam: string | null,
+  units: DisplayUnits,
+  now = Date.now(),
+) {
   // Nitrate in the person's own unit (NO3 or NO3-N), from the one units table.
   const perMgN = fromCanonical("nitrate", 1, units.nitrate);
   const entries = listJournal(tank.id);
@@ -38,7 +43,8 @@ export function journalPageData(tank: TankRow, scenarioParam: string | null, uni
   const settings = stored ? plannedSettings(tank.id, stored) : null;
   if (settings) {
     try {
-      const r = replayJournal(settings, entries, now);
+      const owner = `user:${tank.ownerId}`;
+      const r = await replayJournal(settings, entries, now, owner);
       if (r) {
         const readings = allReadings(tank.id)
           .filter((x) => x.nitrate !== null && x.takenAt.getTime() >= r.startMs)
@@ -52,8 +58,10 @@ export function journalPageData(tank: TankRow, scenarioParam: string | null, uni
           high: settings.targets.nitrateHigh * perMgN,
           readings,
           unused: r.unused,
+          budget: r.result.budget,
+          plantNames: settings.plants.map((g) => g.name),
         };
-        forecast = forecastSentence(forecastJournal(settings, entries, now), units);
+        forecast = forecastSentence(await forecastJournal(settings, entries, now, owner), units);
       }
     } catch (error) {
       problem = runProblem(error);
@@ -86,19 +94,22 @@ export function journalPageData(tank: TankRow, scenarioParam: string | null, uni
 
 const dayText = (ms: number) =>
   new Date(ms).toLocaleDateString("en-GB", { day: "numeric", month: "long", timeZone: "UTC" });
-/** Nitrate in the person's unit: "40 mg/L NO3", or "9 mg/L NO3-N" for those who read it as N. */
+/** Nitrate in the person's units: "25 mg/L NO3" or "5.65 mg/L NO3-N". */
 const no3Text = (mgN: number, units: DisplayUnits) =>
-  `${formatNumber(fromCanonical("nitrate", mgN, units.nitrate), 2)} ${unitLabels(units).nitrate}`;
+  `${formatNumber(mgN * speciesFactor("nitrate", units), 3)} ${unitLabels(units).nitrate}`;
 
-/** "Nitrate reaches 40 mg/L NO3 around 14 December; a 40 % change by 12 December keeps it below 40 mg/L NO3." */
+/**
+ * "Nitrate passes your upper target of 25 mg/L NO3 around 14 December (40 mg/L NO3 before the
+ * next planned change); a 40 % change by 12 December keeps it below 25 mg/L NO3 until then."
+ */
 function forecastSentence(f: Forecast | null, units: DisplayUnits): string | null {
   if (!f) return null;
   if (f.kind === "below")
     return `Under your planned schedule nitrate stays below your upper target for the next ${f.horizonDays} days.`;
-  const cross = `Nitrate reaches ${no3Text(f.high, units)} around ${dayText(f.crossMs)}`;
+  const cross = `Nitrate passes your upper target of ${no3Text(f.high, units)} around ${dayText(f.crossMs)} (${no3Text(f.peak, units)} before the next planned change)`;
   if (!f.fix)
     return `${cross}; even a 90 % change two days before does not keep it below: look at feeding and the plan.`;
-  return `${cross}; a ${Math.round(f.fix.share * 100)} % change by ${dayText(f.fix.byMs)} keeps it below ${no3Text(f.high, units)} until the next planned change (or for a week).`;
+  return `${cross}; a ${Math.round(f.fix.share * 100)} % change by ${dayText(f.fix.byMs)} keeps it below ${no3Text(f.high, units)} until ${dayText(f.fix.untilMs)}.`;
 }
 
 export type JournalAnswer = {

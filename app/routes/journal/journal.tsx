@@ -15,6 +15,7 @@ import { requireOwnedTank } from "~/features/tanks/tanks.server";
 import { requireUser } from "~/permissions.server";
 import { journalAction, journalPageData, type JournalAnswer } from "~/routes/journal/journal-page.server";
 import { formatDate } from "~/utils/dates";
+import { BudgetTable } from "~/components/charts/budget";
 import { displayUnitsFor } from "~/utils/display-units";
 import { ScrollTable } from "~/components/ui/scroll-table";
 
@@ -195,6 +196,15 @@ export default function JournalPage({ loaderData, actionData }: Route.ComponentP
               experienced keeper or a vet if fish show stress.
             </p>
           </div>
+        ) : null}
+        {replay ? (
+          <details>
+            <summary className="cursor-pointer text-sm">Nitrogen budget, as it happened</summary>
+            <BudgetTable
+              budgets={[{ label: "As it happened", budget: replay.budget, plantNames: replay.plantNames }]}
+              caption="Nitrogen budget of the journal's replay"
+            />
+          </details>
         ) : null}
         {replay?.unused.map((u) => (
           <p key={u} className="text-sm text-amber-800">
