@@ -48,7 +48,7 @@ export function reminderMail(row: ReminderRow, now: number): OutgoingMail | null
   const today = startOfDay(now);
   const dueToday = tasks.filter((t) => t.atMs < today + DAY_MS);
   if (row.mode === "due" && dueToday.length === 0) return null;
-  let forecast: Forecast | null = null;
+  let forecast: Forecast | null;
   try {
     forecast = settings ? forecastJournal(settings, entries, now) : null;
   } catch {

@@ -13,26 +13,22 @@ import type { ReminderMode } from "~/features/reminders/reminder-preferences";
 
 const HOUR_MS = 3_600_000;
 /** How long a claim holds: far longer than composing and sending one mail. */
-export const CLAIM_LEASE_MS = 2 * 60_000;
+const CLAIM_LEASE_MS = 2 * 60_000;
 
 export type ReminderRow = typeof reminderSubscriptions.$inferSelect;
 
 /** The first due time: today at `hour` (UTC) if that hour has not yet passed, else tomorrow. */
-export function firstDueAt(hour: number, now: number): number {
+function firstDueAt(hour: number, now: number): number {
   const today = startOfDay(now) + hour * HOUR_MS;
   return today + HOUR_MS > now ? today : today + DAY_MS;
 }
 
 /** After a send: the next day at the hour ("due") or a week on ("weekly"), always in the future. */
-export function nextDueAfter(row: Pick<ReminderRow, "mode" | "hour" | "nextDueAt">, now: number): number {
+function nextDueAfter(row: Pick<ReminderRow, "mode" | "hour" | "nextDueAt">, now: number): number {
   const step = row.mode === "weekly" ? 7 * DAY_MS : DAY_MS;
   let next = startOfDay(row.nextDueAt) + row.hour * HOUR_MS + step;
   while (next <= now) next += step;
   return next;
-}
-
-export function reminderFor(tankId: number): ReminderRow | undefined {
-  return getDb().select().from(reminderSubscriptions).where(eq(reminderSubscriptions.tankId, tankId)).get();
 }
 
 /** Sets (or clears, mode "off") a tank's reminders; a changed hour or mode starts a fresh schedule. */
