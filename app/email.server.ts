@@ -14,7 +14,14 @@ function getTransport(): Transporter {
   return transport;
 }
 
-export type OutgoingMail = { to: string; subject: string; text: string; html?: string };
+export type OutgoingMail = {
+  to: string;
+  subject: string;
+  text: string;
+  html?: string;
+  /** Extra header lines (List-Unsubscribe for reminders). */
+  headers?: Record<string, string>;
+};
 
 export async function sendMail(mail: OutgoingMail): Promise<void> {
   await getTransport().sendMail({ from: getEnv().MAIL_FROM, ...mail });

@@ -22,6 +22,8 @@ const EnvSchema = z
     PORT: z.coerce.number().int().min(0).max(65535).default(3000),
     SEED_IF_EMPTY: z.enum(["0", "1"]).optional(),
     /** Redis for the job queue (BullMQ): sweeps, calibrations and target searches then run on `npm run worker` processes. */
+    /** Seconds between reminder checks in each app process (1–59; e2e tests use a short one). */
+    REMINDER_CHECK_SECONDS: z.coerce.number().int().min(1).max(59).default(30),
     REDIS_URL: z.string().regex(/^rediss?:\/\//, "REDIS_URL must start with redis:// or rediss://").optional(),
   })
   .transform((raw) => {

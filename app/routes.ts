@@ -45,6 +45,8 @@ export default [
   route("s/:token/preview.png", "routes/share/preview-image.tsx"),
   // A tank's maintenance calendar at its secret address (anyone with the token).
   route("calendar/:token", "routes/calendar/feed.ts"),
+  // Stop a tank's reminder e-mails from the link in one (a signed token, no sign-in).
+  route("reminders/unsubscribe/:token", "routes/reminders/unsubscribe.tsx"),
 
   // Classes, invitations, lessons, students' copies and the classroom presentation.
   ...prefix("classes", [

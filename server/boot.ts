@@ -4,6 +4,7 @@ import { users } from "~/db/schema";
 import { seedDemoData } from "~/db/seed.server";
 import { getEnv, redirectMailTo } from "~/env.server";
 import { abandonLocalJobs } from "~/features/jobs/jobs.server";
+import { startReminderTimer } from "~/features/reminders/reminder-timer.server";
 import { startFakeSmtp, type FakeSmtp } from "~/mail/fake-smtp.server";
 
 /**
@@ -39,7 +40,9 @@ export async function boot(log: (line: string) => void = console.log): Promise<(
     log(`[fernwater] mail goes to the local fake SMTP server at ${fake.url}; read it at /dev/mail`);
   }
   await prepareDatabase(log);
+  const stopReminders = startReminderTimer(log);
   return async () => {
+    stopReminders();
     abandonLocalJobs();
     await fake?.close();
   };

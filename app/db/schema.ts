@@ -1,6 +1,8 @@
 /**
- * Every table of Fernwater in one place. Change it, then `npm run db:generate` and commit
- * the new migration under drizzle/ (never edit a migration by hand).
+ * Fernwater's tables: accounts, tanks, scenarios, runs, readings, sharing, classes and the
+ * shared limits and jobs here; what is kept of a real tank's care (journal, plan, calendar,
+ * reminders) in app/db/schema-care.ts. Change them, then `npm run db:generate` and commit the
+ * new migration under drizzle/ (never edit a migration by hand).
  *
  * Conventions: integer primary keys; times are integer milliseconds since the epoch
  * (`timestamp_ms`); dissolved species are stored in the engine's canonical units
@@ -22,7 +24,8 @@ const {
   khUnit: KH_UNITS,
 } = PREFERENCE_CHOICES;
 
-const createdAt = () =>
+/** A row's creation time (milliseconds), set by SQLite. */
+export const createdAt = () =>
   integer("created_at", { mode: "timestamp_ms" })
     .notNull()
     .default(sql`(unixepoch('subsec') * 1000)`);
@@ -192,45 +195,6 @@ export const readings = sqliteTable(
 );
 
 /**
- * What a keeper actually did to a tank and when (the journal): water changes, cleanings, plants,
- * feeding, fish, doses, notes. `details` holds the kind's fields in canonical units (see
- * app/features/journal/journal-entries.ts); the model replays these "as it happened".
- */
-export const journalEntries = sqliteTable(
-  "journal_entries",
-  {
-    id: integer("id").primaryKey({ autoIncrement: true }),
-    tankId: integer("tank_id")
-      .notNull()
-      .references(() => tanks.id, { onDelete: "cascade" }),
-    doneAt: integer("done_at", { mode: "timestamp_ms" }).notNull(),
-    kind: text("kind").notNull(),
-    details: text("details", { mode: "json" }).notNull(),
-    note: text("note").notNull().default(""),
-    createdAt: createdAt(),
-  },
-  (t) => [index("journal_entries_tank_time_idx").on(t.tankId, t.doneAt)],
-);
-
-/** A tank's calendar feed address (/calendar/:token.ics), stored hashed like share links; revocable. */
-export const calendarFeeds = sqliteTable(
-  "calendar_feeds",
-  {
-    id: integer("id").primaryKey({ autoIncrement: true }),
-    tankId: integer("tank_id")
-      .notNull()
-      .references(() => tanks.id, { onDelete: "cascade" }),
-    scenarioId: integer("scenario_id")
-      .notNull()
-      .references(() => scenarios.id, { onDelete: "cascade" }),
-    tokenHash: text("token_hash").notNull().unique(),
-    createdAt: createdAt(),
-    revokedAt: integer("revoked_at", { mode: "timestamp_ms" }),
-  },
-  (t) => [index("calendar_feeds_tank_idx").on(t.tankId)],
-);
-
-/**
  * The link-preview picture of a stored run (a 1200×630 PNG, issue 12 item 8): drawn once per
  * run, gone with the run.
  */
@@ -388,18 +352,3 @@ export const jobs = sqliteTable(
   (t) => [index("jobs_user_status_idx").on(t.userId, t.status), index("jobs_status_idx").on(t.status, t.startedAt)],
 );
 
-/**
- * A tank's maintenance plan: the scenario it starts from and the keeper's edits of that
- * scenario's timetable (water change share and interval, gravel share, filter cleaning
- * interval, trim intervals). No row = the first scenario's timetable as it stands.
- */
-export const maintenancePlans = sqliteTable("maintenance_plans", {
-  tankId: integer("tank_id")
-    .primaryKey()
-    .references(() => tanks.id, { onDelete: "cascade" }),
-  scenarioId: integer("scenario_id")
-    .notNull()
-    .references(() => scenarios.id, { onDelete: "cascade" }),
-  plan: text("plan", { mode: "json" }).notNull(),
-  updatedAt: integer("updated_at", { mode: "timestamp_ms" }).notNull(),
-});

@@ -6,7 +6,7 @@
  */
 import type { EntryInput } from "~/features/journal/journal-entries";
 import type { Db } from "~/db/client.server";
-import { journalEntries } from "~/db/schema";
+import { journalEntries } from "~/db/schema-care";
 import { DAY_MS, startOfDay } from "~/utils/dates";
 
 type Tx = Parameters<Parameters<Db["transaction"]>[0]>[0];

@@ -11,6 +11,8 @@ export type CapturedMail = {
   text: string;
   html: string;
   links: string[];
+  /** Header lines keyed in lower case (absent in mail captured before headers were kept). */
+  headers?: Record<string, string>;
 };
 
 export function extractLinks(body: string): string[] {

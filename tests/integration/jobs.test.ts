@@ -1,7 +1,8 @@
 import { eq } from "drizzle-orm";
 import { afterEach, describe, expect, it } from "vitest";
 import { getDb } from "~/db/client.server";
-import { journalEntries, readings, scenarios } from "~/db/schema";
+import { readings, scenarios } from "~/db/schema";
+import { journalEntries } from "~/db/schema-care";
 import { runEngineTask } from "~/features/jobs/engine-tasks.server";
 import {
   cancelJob,

@@ -2,7 +2,7 @@ import { eq } from "drizzle-orm";
 import ICAL from "ical.js";
 import { describe, expect, it } from "vitest";
 import { getDb } from "~/db/client.server";
-import { journalEntries, maintenancePlans } from "~/db/schema";
+import { journalEntries, maintenancePlans } from "~/db/schema-care";
 import { loader as feedLoader } from "~/routes/calendar/feed";
 import { action as journalAction, loader as journalLoader } from "~/routes/journal/journal";
 import { loader as tankLoader } from "~/routes/tanks/detail";

@@ -149,6 +149,27 @@ export const PERMISSION_MATRIX: Row[] = [
     form: NOTHING,
     expect: ["sign-in", 400, 400, 400, 400, 400],
   },
+  {
+    // Reminders on the owner's tank: only the owner may set them; anyone else is told "no such tank".
+    file: "routes/auth/account.tsx",
+    handler: "action",
+    path: "/account",
+    form: { intent: "reminders", tankId: ":tankId", mode: "weekly", hour: "8" },
+    expect: ["sign-in", 302, 400, 400, 400, 400],
+  },
+  {
+    file: "routes/reminders/unsubscribe.tsx",
+    handler: "loader",
+    path: "/reminders/unsubscribe/1.not-a-signed-token",
+    expect: [404, 404, 404, 404, 404, 404],
+  },
+  {
+    file: "routes/reminders/unsubscribe.tsx",
+    handler: "action",
+    path: "/reminders/unsubscribe/1.not-a-signed-token",
+    form: {},
+    expect: [404, 404, 404, 404, 404, 404],
+  },
 
   // Tanks and scenarios: private to their owner
   { file: "routes/tanks/list.tsx", handler: "loader", path: "/tanks", expect: SIGNED_IN },

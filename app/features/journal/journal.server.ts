@@ -4,7 +4,7 @@
  */
 import { and, asc, eq } from "drizzle-orm";
 import { getDb, type Db } from "~/db/client.server";
-import { journalEntries } from "~/db/schema";
+import { journalEntries } from "~/db/schema-care";
 import {
   ENTRY_FIELDS,
   MAX_JOURNAL_NOTE,

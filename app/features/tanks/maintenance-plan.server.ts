@@ -6,7 +6,7 @@
 import { eq } from "drizzle-orm";
 import type { Scenario } from "~models";
 import { getDb } from "~/db/client.server";
-import { maintenancePlans } from "~/db/schema";
+import { maintenancePlans } from "~/db/schema-care";
 import type { EntryInput } from "~/features/journal/journal-entries";
 import { addEntries, listJournal, readEntry } from "~/features/journal/journal.server";
 import { upcomingTasks } from "~/features/journal/calendar-feed.server";

@@ -15,21 +15,25 @@ import { ChangePasswordSchema, UnitPreferencesSchema } from "~/utils/account-sch
 import { fieldErrors, formValues } from "~/utils/form-errors";
 import { invalid, readForm } from "~/http/pages.server";
 import { PREFERENCE_OPTIONS } from "~/utils/display-units";
+import { reminderSettings, saveReminderSettings } from "~/routes/auth/account-reminders.server";
+import { RemindersSection } from "~/routes/auth/reminders-section";
 
 export const meta: Route.MetaFunction = () => [{ title: "Your account · Fernwater" }];
 
 export async function loader({ request }: Route.LoaderArgs) {
   const user = await requireUser(request);
-  return { user, usage: usageOf(getDb(), user.id) };
+  return { user, usage: usageOf(getDb(), user.id), reminders: reminderSettings(user.id) };
 }
 
-const IntentSchema = z.enum(["preferences", "password"]);
+const IntentSchema = z.enum(["preferences", "password", "reminders"]);
 
 export async function action({ request }: Route.ActionArgs) {
   const user = await requireUser(request);
   const values = formValues(await readForm(request));
   const intent = IntentSchema.safeParse(values.intent);
   if (!intent.success) return invalid({ "": "Unknown action." }, values);
+
+  if (intent.data === "reminders") return saveReminderSettings(user.id, values);
 
   if (intent.data === "preferences") {
     const parsed = UnitPreferencesSchema.safeParse(values);
@@ -72,7 +76,7 @@ export default function AccountPage({ loaderData, actionData }: Route.ComponentP
   const saved = params.get("saved");
   const errors = actionData?.errors ?? {};
   const values = actionData?.values ?? {};
-  const forPrefs = values.intent !== "password";
+  const forPrefs = values.intent !== "password" && values.intent !== "reminders";
   const busy = useNavigation().state === "submitting";
   return (
     <div className="mx-auto max-w-2xl space-y-6">
@@ -135,6 +139,12 @@ export default function AccountPage({ loaderData, actionData }: Route.ComponentP
           </div>
         </Form>
       </section>
+      <RemindersSection
+        tanks={loaderData.reminders}
+        errors={errors}
+        values={values}
+        saved={saved === "reminders"}
+      />
       <UsageSection usage={usage} />
       <section className="card space-y-4" aria-labelledby="password-title">
         <h2 id="password-title" className="text-lg">

@@ -1,0 +1,93 @@
+/**
+ * The tables of a real tank's care (issue 14): the journal of what was done, the maintenance
+ * plan, the calendar feed and the e-mail reminders. Conventions as in app/db/schema.ts, whose
+ * tanks, scenarios and users these rows belong to.
+ */
+import { index, integer, text, sqliteTable } from "drizzle-orm/sqlite-core";
+import { createdAt, scenarios, tanks, users } from "~/db/schema";
+
+/**
+ * What a keeper actually did to a tank and when (the journal): water changes, cleanings, plants,
+ * feeding, fish, doses, notes. `details` holds the kind's fields in canonical units (see
+ * app/features/journal/journal-entries.ts); the model replays these "as it happened".
+ */
+export const journalEntries = sqliteTable(
+  "journal_entries",
+  {
+    id: integer("id").primaryKey({ autoIncrement: true }),
+    tankId: integer("tank_id")
+      .notNull()
+      .references(() => tanks.id, { onDelete: "cascade" }),
+    doneAt: integer("done_at", { mode: "timestamp_ms" }).notNull(),
+    kind: text("kind").notNull(),
+    details: text("details", { mode: "json" }).notNull(),
+    note: text("note").notNull().default(""),
+    createdAt: createdAt(),
+  },
+  (t) => [index("journal_entries_tank_time_idx").on(t.tankId, t.doneAt)],
+);
+
+/** A tank's calendar feed address (/calendar/:token.ics), stored hashed like share links; revocable. */
+export const calendarFeeds = sqliteTable(
+  "calendar_feeds",
+  {
+    id: integer("id").primaryKey({ autoIncrement: true }),
+    tankId: integer("tank_id")
+      .notNull()
+      .references(() => tanks.id, { onDelete: "cascade" }),
+    scenarioId: integer("scenario_id")
+      .notNull()
+      .references(() => scenarios.id, { onDelete: "cascade" }),
+    tokenHash: text("token_hash").notNull().unique(),
+    createdAt: createdAt(),
+    revokedAt: integer("revoked_at", { mode: "timestamp_ms" }),
+  },
+  (t) => [index("calendar_feeds_tank_idx").on(t.tankId)],
+);
+
+/**
+ * A keeper's e-mail reminders for one tank (opt-in; no row = off). The row is also the durable
+ * schedule: `next_due_at` is when the next mail is due; a sender CLAIMS a due row with one
+ * conditional update (claimed_by, claimed_until = a lease) before it sends, so two processes or
+ * a restart never send the same reminder while a claim is live. A lease that runs out (the
+ * process died between claim and send) is taken again: at-least-once (README, "Reminders").
+ */
+export const reminderSubscriptions = sqliteTable(
+  "reminder_subscriptions",
+  {
+    id: integer("id").primaryKey({ autoIncrement: true }),
+    tankId: integer("tank_id")
+      .notNull()
+      .unique()
+      .references(() => tanks.id, { onDelete: "cascade" }),
+    userId: integer("user_id")
+      .notNull()
+      .references(() => users.id, { onDelete: "cascade" }),
+    /** "due": a mail on a day a planned task is due; "weekly": a digest every 7 days. */
+    mode: text("mode").notNull(),
+    /** Hour of day (UTC) the mail is sent. */
+    hour: integer("hour").notNull(),
+    nextDueAt: integer("next_due_at").notNull(),
+    claimedBy: text("claimed_by"),
+    claimedUntil: integer("claimed_until"),
+    lastSentAt: integer("last_sent_at"),
+    createdAt: createdAt(),
+  },
+  (t) => [index("reminder_subscriptions_due_idx").on(t.nextDueAt)],
+);
+
+/**
+ * A tank's maintenance plan: the scenario it starts from and the keeper's edits of that
+ * scenario's timetable (water change share and interval, gravel share, filter cleaning
+ * interval, trim intervals). No row = the first scenario's timetable as it stands.
+ */
+export const maintenancePlans = sqliteTable("maintenance_plans", {
+  tankId: integer("tank_id")
+    .primaryKey()
+    .references(() => tanks.id, { onDelete: "cascade" }),
+  scenarioId: integer("scenario_id")
+    .notNull()
+    .references(() => scenarios.id, { onDelete: "cascade" }),
+  plan: text("plan", { mode: "json" }).notNull(),
+  updatedAt: integer("updated_at", { mode: "timestamp_ms" }).notNull(),
+});

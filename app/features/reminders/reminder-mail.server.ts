@@ -1,0 +1,90 @@
+/**
+ * The reminder e-mail: the tank's planned tasks for the next two weeks and the journal's forecast
+ * (the journal feature's own), the usual caution, and a one-click unsubscribe link (RFC 8058)
+ * that works without signing in. Null when a "due" reminder has nothing due today.
+ */
+import { eq } from "drizzle-orm";
+import { getDb } from "~/db/client.server";
+import { tanks, users } from "~/db/schema";
+import { getEnv, type Env } from "~/env.server";
+import type { OutgoingMail } from "~/email.server";
+import { upcomingTasks } from "~/features/journal/calendar-feed.server";
+import { forecastJournal, type Forecast } from "~/features/journal/journal-replay.server";
+import { plannedSettings } from "~/features/tanks/maintenance-plan.server";
+import { displayUnitsFor, formatNumber, unitLabels, type DisplayUnits } from "~/utils/display-units";
+import { fromCanonical } from "~models/units";
+import { listJournal } from "~/features/journal/journal.server";
+import type { ReminderRow } from "~/features/reminders/reminder-schedule.server";
+import { unsubscribeToken } from "~/features/reminders/unsubscribe-token.server";
+import { readStoredSettings } from "~/features/runs/simulation.server";
+import { listScenarios } from "~/features/tanks/tanks.server";
+import { DAY_MS, startOfDay } from "~/utils/dates";
+
+const DIGEST_DAYS = 14;
+const dayText = (ms: number) =>
+  new Date(ms).toLocaleDateString("en-GB", { weekday: "short", day: "numeric", month: "long", timeZone: "UTC" });
+
+function forecastText(f: Forecast | null, units: DisplayUnits): string {
+  if (!f) return "No forecast yet: log what you did in the tank's journal and the model follows it.";
+  if (f.kind === "below") return `Under your planned schedule nitrate stays below your upper target for the next ${f.horizonDays} days.`;
+  const high = `${formatNumber(fromCanonical("nitrate", f.high, units.nitrate), 2)} ${unitLabels(units).nitrate}`;
+  const cross = `Nitrate reaches ${high} around ${dayText(f.crossMs)}`;
+  if (!f.fix) return `${cross}; even a 90 % change two days before does not keep it below: look at feeding and the plan.`;
+  return `${cross}; a ${Math.round(f.fix.share * 100)} % change by ${dayText(f.fix.byMs)} keeps it below ${high}.`;
+}
+
+/** Where links in mail point: APP_URL (required in production), else this machine's port. */
+function baseUrl(env: Env): string {
+  return env.APP_URL ?? `http://localhost:${env.PORT}`;
+}
+
+export async function reminderMail(row: ReminderRow, now: number): Promise<OutgoingMail | null> {
+  const db = getDb();
+  const tank = db.select().from(tanks).where(eq(tanks.id, row.tankId)).get();
+  const user = db.select().from(users).where(eq(users.id, row.userId)).get();
+  if (!tank || !user || tank.ownerId !== user.id) return null;
+  const scenario = listScenarios(tank.id)[0];
+  const stored = scenario ? readStoredSettings(scenario.settings) : null;
+  // The tank's own plan where the keeper edited one, as the tank page and calendar show it.
+  const settings = stored ? plannedSettings(tank.id, stored) : null;
+  const units = displayUnitsFor(user);
+  const entries = listJournal(tank.id);
+  const tasks = settings ? upcomingTasks(settings, entries, now, DIGEST_DAYS) : [];
+  const today = startOfDay(now);
+  const dueToday = tasks.filter((t) => t.atMs < today + DAY_MS);
+  if (row.mode === "due" && dueToday.length === 0) return null;
+  let forecast: Forecast | null;
+  try {
+    forecast = settings ? await forecastJournal(settings, entries, now, `user:${user.id}`) : null;
+  } catch {
+    // A forecast the engine refuses (bad stored settings) still leaves the task list worth sending.
+    forecast = null;
+  }
+  const env = getEnv();
+  const link = new URL(`/reminders/unsubscribe/${unsubscribeToken(row.id)}`, baseUrl(env)).toString();
+  const taskLines = tasks.length
+    ? tasks.map((t) => `- ${dayText(t.atMs)}: ${t.title}`)
+    : ["- Nothing planned in the next two weeks."];
+  const text = [
+    `Reminders for ${tank.name}`,
+    "",
+    row.mode === "due" ? "Due today:" : `Planned for the next ${DIGEST_DAYS} days:`,
+    ...(row.mode === "due" ? dueToday.map((t) => `- ${t.title}`) : taskLines),
+    "",
+    `Forecast: ${forecastText(forecast, units)}`,
+    "",
+    "A model is not a water test: test the water before and after, and trust the test over the forecast.",
+    "When fish gasp, hide or die, test at once and change water; ask your local shop or a vet.",
+    "",
+    `Stop these reminders: ${link}`,
+  ].join("\n");
+  return {
+    to: user.email,
+    subject: `${row.mode === "due" ? "Due today" : "This week"} · ${tank.name} · Fernwater`,
+    text,
+    headers: {
+      "List-Unsubscribe": `<${link}>`,
+      "List-Unsubscribe-Post": "List-Unsubscribe=One-Click",
+    },
+  };
+}
