@@ -230,13 +230,7 @@ export const calendarFeeds = sqliteTable(
   (t) => [index("calendar_feeds_tank_idx").on(t.tankId)],
 );
 
-/**
- * A keeper's e-mail reminders for one tank (opt-in; no row = off). The row is also the durable
- * schedule: `next_due_at` is when the next mail is due; a sender CLAIMS a due row with one
- * conditional update (claimed_by, claimed_until = a lease) before it sends, so two processes or
- * a restart never send the same reminder while a claim is live. A lease that runs out (the
- * process died between claim and send) is taken again: at-least-once (README, "Reminders").
- */
+/** A tank's opt-in e-mail reminders and their durable schedule (claim lease, at-least-once: reminder-schedule.server.ts). */
 export const reminderSubscriptions = sqliteTable(
   "reminder_subscriptions",
   {
@@ -248,9 +242,7 @@ export const reminderSubscriptions = sqliteTable(
     userId: integer("user_id")
       .notNull()
       .references(() => users.id, { onDelete: "cascade" }),
-    /** "due": a mail on a day a planned task is due; "weekly": a digest every 7 days. */
     mode: text("mode").notNull(),
-    /** Hour of day (UTC) the mail is sent. */
     hour: integer("hour").notNull(),
     nextDueAt: integer("next_due_at").notNull(),
     claimedBy: text("claimed_by"),
