@@ -196,13 +196,15 @@ export const readings = sqliteTable(
 
 /**
  * The link-preview picture of a stored run (a 1200×630 PNG, issue 12 item 8): drawn once per
- * run, gone with the run.
+ * run and name, gone with the run.
  */
 export const sharePreviews = sqliteTable("share_previews", {
   runId: integer("run_id")
     .primaryKey()
     .references(() => runs.id, { onDelete: "cascade" }),
   png: blob("png", { mode: "buffer" }).notNull(),
+  /** The scenario's name drawn in the picture: a rename keeps the run but draws anew. */
+  name: text("name").notNull().default(""),
   createdAt: integer("created_at", { mode: "timestamp_ms" })
     .notNull()
     .default(sql`(unixepoch('subsec') * 1000)`),

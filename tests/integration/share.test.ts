@@ -347,6 +347,13 @@ describe("share links: the link-preview picture", () => {
     const etag = first.headers.get("ETag")!;
     expect((await preview(token, { "If-None-Match": etag })).status).toBe(304);
 
+    // A rename keeps the run, but the picture shows the name: drawn again, and the old ETag is stale.
+    getDb().update(scenarios).set({ name: "Fewer meals, renamed" }).where(eq(scenarios.id, Number(params.scenarioId))).run();
+    const renamed = await preview(token, { "If-None-Match": etag });
+    expect(renamed.status).toBe(200);
+    expect(renamed.bytes.equals(first.bytes)).toBe(false);
+    expect(getDb().select().from(sharePreviews).where(eq(sharePreviews.runId, runId)).get()!.name).toBe("Fewer meals, renamed");
+
     // Turned off: neither the picture nor a 304 for it.
     const off = await call(manageAction, post(path, { intent: "off" }, owner.cookie), params);
     expect(off.status).toBe(200);

@@ -4,6 +4,7 @@
  * ships its renderer inside its npm package. Kept per stored run in share_previews, so a link
  * posted to a busy forum is drawn once; a new run (changed settings or engine) draws anew.
  */
+import { createHash } from "node:crypto";
 import { createRequire } from "node:module";
 import { Resvg } from "@resvg/resvg-js";
 import { eq } from "drizzle-orm";
@@ -28,13 +29,21 @@ function svgToPng(svg: string, fontFamily: string): Buffer {
   return picture.render().asPng();
 }
 
-/** The run's preview PNG: the kept one, or `drawSvg()` rendered and kept. */
-export function sharePreviewPng(runId: number, drawSvg: () => string, fontFamily: string): Buffer {
+/**
+ * The run's preview PNG under this name: the kept one, or `drawSvg()` rendered and kept (a
+ * renamed scenario keeps its run, so the name is part of what was drawn).
+ */
+export function sharePreviewPng(runId: number, name: string, drawSvg: () => string, fontFamily: string): Buffer {
   const db = getDb();
-  const kept = db.select({ png: sharePreviews.png }).from(sharePreviews).where(eq(sharePreviews.runId, runId)).get();
-  if (kept) return kept.png;
+  const kept = db.select({ png: sharePreviews.png, name: sharePreviews.name }).from(sharePreviews).where(eq(sharePreviews.runId, runId)).get();
+  if (kept && kept.name === name) return kept.png;
   const png = svgToPng(drawSvg(), fontFamily);
-  // Two first visitors at once both draw; the second write is a no-op.
-  db.insert(sharePreviews).values({ runId, png }).onConflictDoNothing().run();
+  // Two first visitors at once both draw; the last write wins, and both drew the same.
+  db.insert(sharePreviews).values({ runId, png, name }).onConflictDoUpdate({ target: sharePreviews.runId, set: { png, name } }).run();
   return png;
+}
+
+/** The picture's validator: its run and the name drawn in it. */
+export function previewEtag(runId: number, name: string): string {
+  return `"preview-${runId}-${createHash("sha256").update(name).digest("base64url").slice(0, 12)}"`;
 }

@@ -3,7 +3,7 @@ import type { Route } from "./+types/preview-image";
 import { PREVIEW_FONT, PreviewCard } from "~/components/charts/preview-card";
 import { readOnlyScenarioView } from "~/features/runs/read-only-view.server";
 import { unpackSeries } from "~/features/runs/series-packing";
-import { sharePreviewPng } from "~/features/sharing/preview-image.server";
+import { previewEtag, sharePreviewPng } from "~/features/sharing/preview-image.server";
 import { findLinkByToken, isLive } from "~/features/sharing/share.server";
 import { notFound } from "~/permissions.server";
 import { DEFAULT_PREFERENCES, displayUnitsFor } from "~/utils/display-units";
@@ -20,11 +20,12 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const view = await readOnlyScenarioView(found.scenario, found.tank, displayUnitsFor(DEFAULT_PREFERENCES));
   const results = view.results;
   if (!results) notFound("This scenario has no results to show.");
-  const etag = `"preview-${results.runId}"`;
+  const etag = previewEtag(results.runId, found.scenario.name);
   const headers = { "Cache-Control": "no-cache", ETag: etag, "X-Robots-Tag": "noindex" };
   if (request.headers.get("If-None-Match") === etag) return new Response(null, { status: 304, headers });
   const png = sharePreviewPng(
     results.runId,
+    found.scenario.name,
     () =>
       renderToStaticMarkup(
         <PreviewCard

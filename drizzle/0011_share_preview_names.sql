@@ -1,0 +1,1 @@
+ALTER TABLE `share_previews` ADD `name` text DEFAULT '' NOT NULL;
