@@ -163,6 +163,7 @@ const NOT_CRAWLED: Record<string, string> = {
   "routes/classes/invite.tsx": "needs a fresh invitation link from an e-mail (sharing-and-classes.e2e)",
   "routes/classes/copy.tsx": "needs a student's hand-in, made by sharing-and-classes.e2e",
   "routes/classes/lesson-work.tsx": "a student's copy is made by starting the lesson (sharing-and-classes.e2e)",
+  "routes/reminders/unsubscribe.tsx": "needs a signed link from a reminder mail (reminders.e2e)",
   "routes/dev/mail.tsx": "a local-mode tool, not part of the product",
   "routes/dev/chart-preview.tsx": "a local-mode tool for measuring chart redraws",
 };

@@ -9,7 +9,8 @@ import { startBuiltServer } from "../../support/built-server";
 export default async function setup(project: TestProject) {
   const chromium = process.env.CHROMIUM_PATH ?? "/usr/bin/chromium";
   if (!fs.existsSync(chromium)) throw new Error(`Chromium not found at ${chromium}: apt-get install -y chromium`);
-  const server = await startBuiltServer();
+  // Reminders are checked every second here, so a reminder due now reaches the mailbox at once.
+  const server = await startBuiltServer({ env: { REMINDER_CHECK_SECONDS: "1" } });
   fs.mkdirSync("test-results/screenshots", { recursive: true });
   project.provide("baseURL", server.baseURL);
   project.provide("mailDir", server.mailDir);
