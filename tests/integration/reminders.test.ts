@@ -1,3 +1,4 @@
+import { spawn } from "node:child_process";
 import { eq } from "drizzle-orm";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { getDb } from "~/db/client.server";
@@ -75,6 +76,36 @@ describe("e-mail reminders", () => {
     expect(mailTo(keeper.email)).toHaveLength(1);
     expect(row(tankId)!.nextDueAt).toBeGreaterThan(later + 6 * 24 * HOUR);
   });
+
+  it("is sent once when the sending process is killed (SIGKILL) between claiming and sending", async () => {
+    const { keeper, tankId } = await subscribed();
+    const now = Date.now();
+    const id = row(tankId)!.id;
+    // A real second process on the same SQLite file claims the reminder and is killed before it sends.
+    const child = spawn(process.execPath, ["--import", "tsx", "tests/support/claim-then-die.ts", String(id), String(now)], {
+      env: process.env,
+      stdio: ["ignore", "pipe", "pipe"],
+    });
+    let out = "";
+    child.stdout.on("data", (chunk) => (out += chunk));
+    let err = "";
+    child.stderr.on("data", (chunk) => (err += chunk));
+    const signal = await new Promise<NodeJS.Signals | null>((resolve) => child.on("exit", (_code, sig) => resolve(sig)));
+    expect(err).toBe("");
+    expect(out).toBe("claimed\n");
+    expect(signal).toBe("SIGKILL");
+    expect(row(tankId)!.claimedBy).toBe(`killed-sender-${child.pid}`);
+    expect(row(tankId)!.lastSentAt).toBeNull();
+
+    // While its lease lasts nobody else sends; after it (2 minutes) the survivor sends, once.
+    expect(await checkReminders("survivor", now + 1000)).toBe(0);
+    const later = now + 3 * 60_000;
+    expect(await checkReminders("survivor", later)).toBe(1);
+    expect(await checkReminders("survivor", later)).toBe(0);
+    await waitForMail(keeper.email);
+    await new Promise((r) => setTimeout(r, 200));
+    expect(mailTo(keeper.email)).toHaveLength(1);
+  }, 30_000);
 
   it("has List-Unsubscribe headers, and the link alone (no session) unsubscribes; a tampered token is refused", async () => {
     const { keeper, tankId } = await subscribed();
