@@ -8,6 +8,7 @@ import {
   Outlet,
   Scripts,
   ScrollRestoration,
+  useMatches,
   useRouteLoaderData,
 } from "react-router";
 import type { Route } from "./+types/root";
@@ -48,6 +49,9 @@ function navClass({ isActive }: { isActive: boolean }) {
 }
 
 function Shell({ children }: { children: React.ReactNode }) {
+  // A page whose route asks for the whole width (the classroom presentation, shown on a
+  // projector) is not held to the reading width of the rest.
+  const wide = (useMatches().at(-1)?.handle as { wide?: boolean } | undefined)?.wide === true;
   const data = useRouteLoaderData<typeof loader>("root");
   const user = data?.user ?? null;
   return (
@@ -102,7 +106,7 @@ function Shell({ children }: { children: React.ReactNode }) {
           </nav>
         </div>
       </header>
-      <main id="main" className="mx-auto w-full max-w-6xl flex-1 px-4 py-6">
+      <main id="main" className={`mx-auto w-full flex-1 px-4 py-6 ${wide ? "max-w-none sm:px-8" : "max-w-6xl"}`}>
         {children}
       </main>
       <footer className="border-t border-stone-200 bg-white">

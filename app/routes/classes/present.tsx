@@ -20,7 +20,7 @@ export const meta: Route.MetaFunction = ({ data }) => [
 ];
 
 // Rendered from its loader data alone (no clock, no randomness): a repeat view may reuse the rendering (app/http/render-cache.server.ts).
-export const handle = { renderCache: true };
+export const handle = { renderCache: true, wide: true };
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const user = await requireUser(request);
@@ -156,7 +156,7 @@ export default function PresentLessonPage({ loaderData }: Route.ComponentProps) 
             units={results.labels}
             events={results.events}
             guides={results.guides}
-            height={520}
+            height={640}
             presentation
             cursorDay={day}
             table={false}
