@@ -9,10 +9,10 @@ import { tanks, users } from "~/db/schema";
 import { getEnv, type Env } from "~/env.server";
 import type { OutgoingMail } from "~/email.server";
 import { upcomingTasks } from "~/features/journal/calendar-feed.server";
+import { forecastSentence } from "~/features/journal/forecast-text.server";
 import { forecastJournal, type Forecast } from "~/features/journal/journal-replay.server";
 import { plannedSettings } from "~/features/tanks/maintenance-plan.server";
-import { displayUnitsFor, formatNumber, unitLabels, type DisplayUnits } from "~/utils/display-units";
-import { fromCanonical } from "~models/units";
+import { displayUnitsFor, type DisplayUnits } from "~/utils/display-units";
 import { listJournal } from "~/features/journal/journal.server";
 import type { ReminderRow } from "~/features/reminders/reminder-schedule.server";
 import { unsubscribeToken } from "~/features/reminders/unsubscribe-token.server";
@@ -25,12 +25,7 @@ const dayText = (ms: number) =>
   new Date(ms).toLocaleDateString("en-GB", { weekday: "short", day: "numeric", month: "long", timeZone: "UTC" });
 
 function forecastText(f: Forecast | null, units: DisplayUnits): string {
-  if (!f) return "No forecast yet: log what you did in the tank's journal and the model follows it.";
-  if (f.kind === "below") return `Under your planned schedule nitrate stays below your upper target for the next ${f.horizonDays} days.`;
-  const high = `${formatNumber(fromCanonical("nitrate", f.high, units.nitrate), 2)} ${unitLabels(units).nitrate}`;
-  const cross = `Nitrate reaches ${high} around ${dayText(f.crossMs)}`;
-  if (!f.fix) return `${cross}; even a 90 % change two days before does not keep it below: look at feeding and the plan.`;
-  return `${cross}; a ${Math.round(f.fix.share * 100)} % change by ${dayText(f.fix.byMs)} keeps it below ${high}.`;
+  return forecastSentence(f, units) ?? "No forecast yet: log what you did in the tank's journal and the model follows it.";
 }
 
 /** Where links in mail point: APP_URL (required in production), else this machine's port. */

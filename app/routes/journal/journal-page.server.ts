@@ -3,7 +3,7 @@
  * chosen scenario with the readings over it, and the page's three actions (add, delete, upload).
  */
 import { data } from "react-router";
-import { fromCanonical, speciesFactor } from "~models/units";
+import { fromCanonical } from "~models/units";
 import { describeEntry, ENTRY_KINDS } from "~/features/journal/journal-entries";
 import { parseJournalCsv, MAX_JOURNAL_CSV_BYTES } from "~/features/journal/journal-csv.server";
 import {
@@ -12,7 +12,8 @@ import {
   revokeCalendarFeed,
   upcomingTasks,
 } from "~/features/journal/calendar-feed.server";
-import { forecastJournal, replayJournal, type Forecast } from "~/features/journal/journal-replay.server";
+import { dayText, forecastSentence } from "~/features/journal/forecast-text.server";
+import { forecastJournal, replayJournal } from "~/features/journal/journal-replay.server";
 import { addEntries, deleteEntry, JournalFull, listJournal, readEntry } from "~/features/journal/journal.server";
 import { allReadings } from "~/features/readings/readings.server";
 import { readStoredSettings } from "~/features/runs/simulation.server";
@@ -22,7 +23,7 @@ import { readUpload, UploadError } from "~/http/uploads.server";
 import { runProblem } from "~/http/pages.server";
 import { DAY_MS, formatDateTime } from "~/utils/dates";
 import type { CsvProblem } from "~/utils/csv-read.server";
-import { formatNumber, unitLabels, type DisplayUnits } from "~/utils/display-units";
+import { unitLabels, type DisplayUnits } from "~/utils/display-units";
 
 export async function journalPageData(
   tank: TankRow,
@@ -90,26 +91,6 @@ export async function journalPageData(
       : [],
     calendarOn: hasCalendarFeed(tank.id),
   };
-}
-
-const dayText = (ms: number) =>
-  new Date(ms).toLocaleDateString("en-GB", { day: "numeric", month: "long", timeZone: "UTC" });
-/** Nitrate in the person's units: "25 mg/L NO3" or "5.65 mg/L NO3-N". */
-const no3Text = (mgN: number, units: DisplayUnits) =>
-  `${formatNumber(mgN * speciesFactor("nitrate", units), 3)} ${unitLabels(units).nitrate}`;
-
-/**
- * "Nitrate passes your upper target of 25 mg/L NO3 around 14 December (40 mg/L NO3 before the
- * next planned change); a 40 % change by 12 December keeps it below 25 mg/L NO3 until then."
- */
-function forecastSentence(f: Forecast | null, units: DisplayUnits): string | null {
-  if (!f) return null;
-  if (f.kind === "below")
-    return `Under your planned schedule nitrate stays below your upper target for the next ${f.horizonDays} days.`;
-  const cross = `Nitrate passes your upper target of ${no3Text(f.high, units)} around ${dayText(f.crossMs)} (${no3Text(f.peak, units)} before the next planned change)`;
-  if (!f.fix)
-    return `${cross}; even a 90 % change two days before does not keep it below: look at feeding and the plan.`;
-  return `${cross}; a ${Math.round(f.fix.share * 100)} % change by ${dayText(f.fix.byMs)} keeps it below ${no3Text(f.high, units)} until ${dayText(f.fix.untilMs)}.`;
 }
 
 export type JournalAnswer = {
