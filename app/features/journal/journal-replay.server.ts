@@ -116,18 +116,18 @@ export function replayInputs(s: Scenario, entries: readonly JournalEntry[], now 
 
 /**
  * The replay from the journal's first day to `now` (at least one day, at most two years), or
- * null without entries; run on the engine pool for `owner` (the request bounds).
+ * null without entries; run on the engine pool for the tank's owner (the request bounds).
  */
 export async function replayJournal(
   s: Scenario,
   entries: readonly JournalEntry[],
   now = Date.now(),
-  owner = "anyone",
+  ownerId: number | null = null,
 ): Promise<Replay | null> {
   const inputs = replayInputs(s, entries, now);
   if (!inputs) return null;
   const { startMs, lengthDays, scenario, events, unused } = inputs;
-  const result = await simulateOnPool(scenario, events, owner);
+  const result = await simulateOnPool(scenario, events, ownerId);
   return { startMs, lengthDays, result, unused };
 }
 
@@ -169,7 +169,7 @@ export async function forecastJournal(
   s: Scenario,
   entries: readonly JournalEntry[],
   now = Date.now(),
-  owner = "anyone",
+  ownerId: number | null = null,
 ): Promise<Forecast | null> {
   if (entries.length === 0) return null;
   const startMs = startOfDay(Math.max(entries[0].doneAt, now - MAX_DAYS * DAY_MS));
@@ -185,7 +185,7 @@ export async function forecastJournal(
   const planned = plannedEvents(s, total, resumeFrom).filter((e) => e.day >= today);
   const scenario: Scenario = { ...s, run: { ...s.run, lengthDays: total, outputIntervalDays: 0.25 } };
   // Each run of the forecast and its search on the engine pool, as the page's other runs.
-  const run = (extra: TankEventInput[]) => simulateOnPool(scenario, [...events, ...planned, ...extra], owner);
+  const run = (extra: TankEventInput[]) => simulateOnPool(scenario, [...events, ...planned, ...extra], ownerId);
   const high = s.targets.nitrateHigh;
   const inWindow = (r: SimulationResult, from: number, to: number) =>
     r.series.no3.filter((_v, k) => r.series.t[k] >= from && r.series.t[k] <= to);

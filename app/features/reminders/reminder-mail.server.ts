@@ -50,7 +50,8 @@ export async function reminderMail(row: ReminderRow, now: number): Promise<Outgo
   if (row.mode === "due" && dueToday.length === 0) return null;
   let forecast: Forecast | null;
   try {
-    forecast = settings ? await forecastJournal(settings, entries, now, `user:${user.id}`) : null;
+    // The server's own run (null), not the keeper's: their runs in flight must not empty the mail.
+    forecast = settings ? await forecastJournal(settings, entries, now, null) : null;
   } catch {
     // A forecast the engine refuses (bad stored settings) still leaves the task list worth sending.
     forecast = null;

@@ -45,6 +45,14 @@ function isQuickRun(scenario: Scenario): boolean {
   return scenario.run.lengthDays <= 400 && samples <= 1000 && !scenario.fish.pulsedFeeding;
 }
 
+/**
+ * One of a person's runs in flight, for runs that do not go through runForRequest (the
+ * journal's replay and forecast): returns the function that gives it back, or throws RunRefused.
+ */
+export function takeRunSlot(userId: number): Promise<() => void> {
+  return admit({ userId, purpose: "view" });
+}
+
 async function admit(request: RunRequest): Promise<() => void> {
   if (request.purpose !== "view") {
     const limit = request.purpose === "save" ? "savesPerPerson" : "previewsPerPerson";

@@ -44,8 +44,7 @@ export async function journalPageData(
   const settings = stored ? plannedSettings(tank.id, stored) : null;
   if (settings) {
     try {
-      const owner = `user:${tank.ownerId}`;
-      const r = await replayJournal(settings, entries, now, owner);
+      const r = await replayJournal(settings, entries, now, tank.ownerId);
       if (r) {
         const readings = allReadings(tank.id)
           .filter((x) => x.nitrate !== null && x.takenAt.getTime() >= r.startMs)
@@ -62,7 +61,7 @@ export async function journalPageData(
           budget: r.result.budget,
           plantNames: settings.plants.map((g) => g.name),
         };
-        forecast = forecastSentence(await forecastJournal(settings, entries, now, owner), units);
+        forecast = forecastSentence(await forecastJournal(settings, entries, now, tank.ownerId), units);
       }
     } catch (error) {
       problem = runProblem(error);
