@@ -8,6 +8,7 @@ import { action as manageAction, loader as manageLoader } from "~/routes/share/m
 import { loader as previewLoader } from "~/routes/share/preview-image";
 import { action as publicAction, loader as publicLoader, meta as publicMeta, middleware } from "~/routes/share/public";
 import { hashToken } from "~/utils/crypto.server";
+import { RUNS_IN_FLIGHT_PER_PERSON } from "~/features/runs/run-gate.server";
 import { unpackSeries } from "~/features/runs/series-packing";
 import { call, get, post, ORIGIN } from "../support/routes";
 import { createScenario, createTank } from "../support/tanks";
@@ -144,6 +145,22 @@ describe("share links: the public page", () => {
     expect(stored).toHaveLength(1);
     for (let i = 0; i < 3; i++) expect((await open(token)).data.view.results.runId).toBe(stored[0].id);
     expect(getDb().select({ n: count() }).from(runs).where(eq(runs.scenarioId, scenarioId)).get()!.n).toBe(1);
+  });
+
+  it("runs a stale run once for visitors who come at once, instead of each taking one of the owner's runs in flight", async () => {
+    const { turnOn, scenarioId } = await sharedScenario();
+    const token = await turnOn();
+    // No stored run, as after an engine update: the first view must run the engine.
+    getDb().delete(runs).where(eq(runs.scenarioId, scenarioId)).run();
+    const visitors = RUNS_IN_FLIGHT_PER_PERSON + 3;
+    const pages = await Promise.all(Array.from({ length: visitors }, () => open(token)));
+    for (const page of pages) {
+      expect(page.data.view.error).toBeNull();
+      expect(page.data.view.results).not.toBeNull();
+    }
+    const stored = getDb().select().from(runs).where(eq(runs.scenarioId, scenarioId)).all();
+    expect(stored).toHaveLength(1);
+    expect(new Set(pages.map((p) => p.data.view.results.runId))).toEqual(new Set([stored[0].id]));
   });
 
   it("answers 404 for a malformed or unknown token", async () => {

@@ -224,9 +224,19 @@ export async function ensureRun(scenarioId: number, scenario: Scenario, ownerId:
   const hash = settingsHash(scenario);
   const existing = findRun(scenarioId, hash);
   if (existing) return existing;
-  const run = await runEngineForStorage(scenario, { userId: ownerId, purpose: "view" });
-  return storeRun(scenarioId, hash, run);
+  // Visitors who come at once (a shared link after an engine update) wait for one run between
+  // them instead of each starting one on the owner's runs in flight (and being refused).
+  const key = `${scenarioId}:${hash}`;
+  const pending = runsUnderWay.get(key);
+  if (pending) return pending;
+  const made = runEngineForStorage(scenario, { userId: ownerId, purpose: "view" })
+    .then((run) => storeRun(scenarioId, hash, run))
+    .finally(() => runsUnderWay.delete(key));
+  runsUnderWay.set(key, made);
+  return made;
 }
+/** Runs for a scenario's current settings being made now, by scenario and settings hash. */
+const runsUnderWay = new Map<string, Promise<StoredRun>>();
 
 /** Reads stored settings (migrating old schema versions); null if they no longer validate. */
 export function readStoredSettings(settings: unknown): Scenario | null {
