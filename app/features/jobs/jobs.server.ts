@@ -16,11 +16,13 @@
  * (app/features/jobs/job-rows.server.ts), so any process answers a poll or a cancel, and the
  * one-job-per-person check holds across processes. The process that started a job runs it on its
  * own pool and line; a cancel asked through another process reaches it between engine runs.
+ * When that process stops, another rebuilds the job from its row and runs it again from the start
+ * (job-claims.server.ts, job-resume.server.ts; decision 0009).
  */
 import type { Role } from "~/db/schema";
 import { getEnginePool } from "~/features/jobs/engine-pool.server";
+import { releaseJobs } from "~/features/jobs/job-claims.server";
 import {
-  abandonJobs,
   beat,
   cancelRequested,
   deleteAllJobRows,
@@ -30,6 +32,7 @@ import {
   persist,
   HEARTBEAT_MS,
   insertJobExclusive,
+  type JobRow,
   pruneJobRows,
   readJobRow,
   requestCancel,
@@ -108,6 +111,13 @@ const jobs = new Map<string, Job>();
 /** Jobs waiting to run here, in the order they were asked for, with what starts them. */
 const line: { job: Job; begin: () => void }[] = [];
 
+/** Puts a job in line by when it was asked for (a restarted job keeps its original place). */
+function enqueue(entry: { job: Job; begin: () => void }): void {
+  const i = line.findIndex((w) => w.job.startedAt > entry.job.startedAt);
+  if (i < 0) line.push(entry);
+  else line.splice(i, 0, entry);
+}
+
 const isActive = (job: Job) => job.status === "running" || job.status === "waiting";
 
 let lastPrune = 0;
@@ -175,17 +185,18 @@ const KIND_WORDS: Record<JobKind, string> = {
   target: "a target search",
 };
 
+/** What a job is started with: its row's fields (params: what rebuilds it after a restart). */
+export type JobStart = { user: { id: number }; kind: JobKind; label: string; total: number; params?: unknown };
+/** A job ready to start: what it is, and its work. */
+export type JobSpec<R = unknown, P = unknown> = { start: JobStart; work: (ctx: JobContext<P>) => Promise<R> };
+
 /**
  * Starts `work` as a job of `user` and returns at once (the job runs on). Throws JobRefused when
  * the person already has a job running or the server is full.
  */
-export function startJob<R, P = unknown>(
-  start: { user: { id: number }; kind: JobKind; label: string; total: number; params?: unknown },
-  work: (ctx: JobContext<P>) => Promise<R>,
-): Job<R, P> {
+export function startJob<R, P = unknown>(start: JobStart, work: (ctx: JobContext<P>) => Promise<R>): Job<R, P> {
   const { user, kind, label, total } = start;
   prune();
-  const pool = getEnginePool();
   const mustWait = runningHere() >= capacity() || line.length > 0;
   const id = randomToken(12);
   const startedAt = Date.now();
@@ -203,7 +214,6 @@ export function startJob<R, P = unknown>(
   if (!inserted.ok) {
     throw new JobRefused("The server's line for sweeps and calibrations is full. Try again in a few minutes.", 503);
   }
-  const controller = new AbortController();
   const job: Job<R, P> = {
     id,
     userId: user.id,
@@ -219,8 +229,53 @@ export function startJob<R, P = unknown>(
     startedAt,
     ranAt: mustWait ? null : startedAt,
     finishedAt: null,
-    controller,
+    controller: new AbortController(),
+    attempts: 1,
+    resumedAt: null,
   };
+  const begin = launch(job, work);
+  if (mustWait) enqueue({ job: job as Job, begin });
+  else begin();
+  return job;
+}
+
+/**
+ * Runs again, from the start, a job this process claimed from one that stopped (its row is
+ * already this process's, "waiting"). It takes its place in line by when it was first asked for.
+ */
+export function resumeJob<R, P = unknown>(row: JobRow, spec: JobSpec<R, P>): Job<R, P> {
+  const job: Job<R, P> = {
+    id: row.id,
+    userId: row.userId,
+    kind: row.kind,
+    label: row.label,
+    params: row.params,
+    status: "waiting",
+    done: 0,
+    total: spec.start.total,
+    partial: null,
+    result: null,
+    error: null,
+    startedAt: row.startedAt,
+    ranAt: null,
+    finishedAt: null,
+    controller: new AbortController(),
+    attempts: row.attempts,
+    resumedAt: row.resumedAt,
+  };
+  enqueue({ job: job as Job, begin: launch(job, spec.work) });
+  admitWaiting();
+  return job;
+}
+
+/** Registers a job of this process and returns what begins its work (now, or when its turn comes). */
+function launch<R, P>(job: Job<R, P>, work: (ctx: JobContext<P>) => Promise<R>): () => void {
+  const { id } = job;
+  const controller = job.controller!;
+  const pool = getEnginePool();
+  const owner = `user:${job.userId}`;
+  // Writes only while the job is still this process's (not released by a stop, nor cleared).
+  const mine = () => jobs.get(id) === (job as Job);
   jobs.set(job.id, job as Job);
   keepBeating();
   // A cancel asked through another process shows up in the row; it is read between engine runs.
@@ -233,7 +288,7 @@ export function startJob<R, P = unknown>(
     signal: controller.signal,
     run: async (task) => {
       checkCancel();
-      const result = await pool.run(task, { lane: "job", owner: `user:${user.id}` });
+      const result = await pool.run(task, { lane: "job", owner });
       checkCancel();
       return result;
     },
@@ -254,11 +309,12 @@ export function startJob<R, P = unknown>(
       job.done = done;
       if (newTotal !== undefined) job.total = newTotal;
       if (partial !== undefined) job.partial = partial;
-      persist(job as Job, true);
+      if (mine()) persist(job as Job, true);
     },
   };
 
   const finished = () => {
+    if (!mine()) return;
     job.finishedAt = Date.now();
     jobs.delete(job.id);
     persist(job as Job);
@@ -287,9 +343,7 @@ export function startJob<R, P = unknown>(
       },
     );
   };
-  if (mustWait) line.push({ job: job as Job, begin });
-  else begin();
-  return job;
+  return begin;
 }
 
 /** A job of this person, or null (someone else's job is not found either). */
@@ -349,7 +403,15 @@ export function jobJson(job: Job): JobJson {
     startedAt: new Date(job.startedAt).toISOString(),
     finishedAt: job.finishedAt ? new Date(job.finishedAt).toISOString() : null,
     elapsedMs: (job.finishedAt ?? Date.now()) - job.startedAt,
+    note: restartNote(job),
   };
+}
+
+/** Says when a job is being, or was, run again because the server process running it stopped. */
+function restartNote(job: Job): string | null {
+  if (job.orphaned) return "The server running this job stopped; another will restart it from the start in a moment.";
+  if (job.resumedAt !== null) return "Restarted from the start after a server stopped.";
+  return null;
 }
 
 /**
@@ -370,12 +432,14 @@ export function clearJobs(): void {
 }
 
 /**
- * This process is stopping: its jobs fail visibly ("start it again") rather than being left
- * "running" in the table until their heartbeat runs out.
+ * This process is stopping normally: it stops its jobs' work and leaves them, in the table, for
+ * another process (or the next to start) to run again at once, instead of failing them.
  */
-export function abandonLocalJobs(): void {
-  for (const job of jobs.values()) job.controller?.abort();
-  abandonJobs([...jobs.keys()], "The server restarted before this job finished. Nothing was saved; start it again.");
-  jobs.clear();
+export function releaseLocalJobs(): void {
+  const mine = [...jobs.values()];
+  jobs.clear(); // first, so the aborted work writes nothing more
   line.splice(0);
+  dropPendingWrites();
+  for (const job of mine) job.controller?.abort();
+  releaseJobs(mine.map((j) => j.id));
 }
