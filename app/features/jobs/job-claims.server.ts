@@ -7,13 +7,7 @@
 import { and, eq, gte, inArray, isNull, lt, ne, or, sql } from "drizzle-orm";
 import { getDb } from "~/db/client.server";
 import { jobs } from "~/db/schema";
-import {
-  ACTIVE,
-  LOST_AFTER_MS,
-  MAX_ATTEMPTS,
-  TRIED_TWICE_MESSAGE,
-  type JobRow,
-} from "~/features/jobs/job-rows.server";
+import { ACTIVE, LOST_AFTER_MS, MAX_ATTEMPTS, TRIED_TWICE_MESSAGE, type JobRow } from "~/features/jobs/job-rows.server";
 import { INSTANCE } from "~/instance.server";
 
 /** Active rows of another process (or of none) whose heartbeat stopped before `now - LOST_AFTER_MS`. */
