@@ -9,15 +9,27 @@ import { spawn } from "node:child_process";
 import { eq, inArray, sql } from "drizzle-orm";
 import { afterEach, describe, expect, it } from "vitest";
 import { getDb } from "~/db/client.server";
-import { jobs, scenarios } from "~/db/schema";
+import { jobs, readings, scenarios } from "~/db/schema";
+import { journalEntries } from "~/db/schema-care";
+import { runEngineTask } from "~/features/jobs/engine-tasks.server";
 import { resumeOrphans } from "~/features/jobs/job-resume.server";
-import { clearJobs, getEnginePool, JOB_LIMITS, jobJson, startJob, type JobJson } from "~/features/jobs/jobs.server";
+import {
+  clearJobs,
+  getEnginePool,
+  JOB_LIMITS,
+  jobJson,
+  releaseLocalJobs,
+  startJob,
+  type JobJson,
+} from "~/features/jobs/jobs.server";
+import { action as calibrateAction } from "~/routes/calibrate/calibrate";
+import { action as targetAction } from "~/routes/sweeps/target";
 import { action as sweepsApi } from "~/routes/api/scenario-sweeps";
 import { loader as jobApi } from "~/routes/api/job";
-import { call, get, postJson } from "../support/routes";
+import { call, get, ORIGIN, post, postJson } from "../support/routes";
 import { createScenario, createTank } from "../support/tanks";
 import { userWithCookie } from "../support/users";
-import { plantGroupFromForm, type ScenarioInput } from "../../models/index";
+import { plantGroupFromForm, ScenarioSchema, type ScenarioInput } from "../../models/index";
 
 const PLANTED: ScenarioInput = {
   plants: [
@@ -291,5 +303,70 @@ describe("jobs of a process that stopped", () => {
     expect(a.error).toMatch(/scenario this sweep ran on was deleted/);
     expect(b.status).toBe("failed");
     expect(b.error).toMatch(/scenario changed after this sweep started/);
+  }, 60_000);
+
+  it("rebuilds every kind from its row: a calibration on the journal and a target search give what uninterrupted ones give", async () => {
+    const { user, scenarioId } = await world();
+    const tankId = getDb().select().from(scenarios).where(eq(scenarios.id, scenarioId)).get()!.tankId;
+    const base = `/tanks/${tankId}/scenarios/${scenarioId}`;
+    const params = { tankId: String(tankId), scenarioId: String(scenarioId) };
+    // Readings made by the engine with feed load x1.25 from 1 January 2026, and a journal from
+    // that day (our own worked example, as in jobs.test.ts).
+    const start = Date.UTC(2026, 0, 1);
+    getDb()
+      .update(scenarios)
+      .set({ startDate: new Date(start) })
+      .where(eq(scenarios.id, scenarioId))
+      .run();
+    const days = Array.from({ length: 15 }, (_v, i) => 2 + 4 * i);
+    const truth = ScenarioSchema.parse({ ...PLANTED, multipliers: { feedLoad: 1.25 } });
+    const r = runEngineTask({ kind: "sample", scenario: truth, days, limits: {} });
+    if (r.kind !== "sample" || !r.samples) throw new Error("no samples");
+    const samples = r.samples;
+    getDb()
+      .insert(readings)
+      .values(
+        days.map((d, i) => ({
+          tankId,
+          takenAt: new Date(start + d * 86_400_000),
+          nitrate: samples.no3[i],
+          tan: samples.tan[i],
+        })),
+      )
+      .run();
+    getDb()
+      .insert(journalEntries)
+      .values({ tankId, doneAt: new Date(start + 9 * 3_600_000), kind: "note", details: {} })
+      .run();
+
+    const forms = [
+      {
+        action: calibrateAction,
+        path: `${base}/calibrate`,
+        fields: { intent: "start", fit: "feedLoad", schedule: "journal" },
+      },
+      {
+        action: targetAction,
+        path: `${base}/target`,
+        fields: { intent: "start", nitrateMax: "30", nh3Max: "", lever: "waterChangeFraction", intervalDays: "7" },
+      },
+    ];
+    for (const form of forms) {
+      const startIt = async () => {
+        const started = await call(form.action, post(form.path, form.fields, user.cookie), params);
+        expect(started.status).toBe(302);
+        return new URL(started.location!, ORIGIN).searchParams.get("job")!;
+      };
+      const reference = await untilEnded(await startIt(), user.cookie);
+      expect(reference.status).toBe("done");
+      // Started again, and left at once by its process stopping (as if another process had run it).
+      const id = await startIt();
+      releaseLocalJobs();
+      getDb().update(jobs).set({ instance: "stopped:1" }).where(eq(jobs.id, id)).run();
+      expect(resumeOrphans().map((j) => j.id)).toEqual([id]);
+      const job = await untilEnded(id, user.cookie);
+      expect(job).toMatchObject({ status: "done", note: "Restarted from the start after a server stopped." });
+      expect(job.result).toEqual(reference.result);
+    }
   }, 60_000);
 });
