@@ -339,7 +339,11 @@ describe("jobs of a process that stopped", () => {
       .values({ tankId, doneAt: new Date(start + 9 * 3_600_000), kind: "note", details: {} })
       .run();
 
-    const forms = [
+    const forms: {
+      action: typeof calibrateAction | typeof targetAction;
+      path: string;
+      fields: Record<string, string>;
+    }[] = [
       {
         action: calibrateAction,
         path: `${base}/calibrate`,
