@@ -24,12 +24,10 @@ import { getEnginePool } from "~/features/jobs/engine-pool.server";
 import { releaseJobs } from "~/features/jobs/job-claims.server";
 import {
   beat,
-  cancelRequested,
   deleteAllJobRows,
   dropPendingWrites,
   fromRow,
   type Job,
-  persist,
   HEARTBEAT_MS,
   insertJobExclusive,
   type JobRow,
@@ -39,7 +37,8 @@ import {
   waitingAhead,
 } from "~/features/jobs/job-rows.server";
 export type { Job } from "~/features/jobs/job-rows.server";
-import type { EngineTask, EngineTaskResult } from "~/features/jobs/engine-tasks.server";
+import { beginner, type JobContext } from "~/features/jobs/job-work.server";
+export type { JobContext } from "~/features/jobs/job-work.server";
 import { randomToken } from "~/utils/crypto.server";
 import type { JobJson, JobKind } from "~/features/jobs/job-json";
 export type { JobJson, JobKind } from "~/features/jobs/job-json";
@@ -84,27 +83,6 @@ export class JobRefused extends Error {
     super(message);
   }
 }
-
-/** Thrown inside a job's work when it was cancelled. */
-class JobCancelled extends Error {
-  constructor() {
-    super("Cancelled.");
-  }
-}
-
-/** What a job's work function gets. */
-export type JobContext<P> = {
-  signal: AbortSignal;
-  /** One engine task on the pool; throws JobCancelled if the job was cancelled first. */
-  run(task: EngineTask): Promise<EngineTaskResult>;
-  /**
-   * Runs `fn` over `items` with as many in flight as the pool has workers; results keep the
-   * items' order. Stops starting new ones once cancelled.
-   */
-  map<T, U>(items: readonly T[], fn: (item: T, index: number) => Promise<U>): Promise<U[]>;
-  /** Report progress: `done` of `total` (total may change, e.g. when a search narrows). */
-  progress(done: number, total?: number, partial?: P): void;
-};
 
 /** This process's jobs that are running or waiting (finished ones live in the table only). */
 const jobs = new Map<string, Job>();
@@ -270,80 +248,18 @@ export function resumeJob<R, P = unknown>(row: JobRow, spec: JobSpec<R, P>): Job
 
 /** Registers a job of this process and returns what begins its work (now, or when its turn comes). */
 function launch<R, P>(job: Job<R, P>, work: (ctx: JobContext<P>) => Promise<R>): () => void {
-  const { id } = job;
-  const controller = job.controller!;
-  const pool = getEnginePool();
-  const owner = `user:${job.userId}`;
-  // Writes only while the job is still this process's (not released by a stop, nor cleared).
-  const mine = () => jobs.get(id) === (job as Job);
   jobs.set(job.id, job as Job);
   keepBeating();
-  // A cancel asked through another process shows up in the row; it is read between engine runs.
-  const checkCancel = () => {
-    if (!controller.signal.aborted && cancelRequested(id)) controller.abort();
-    if (controller.signal.aborted) throw new JobCancelled();
-  };
-
-  const ctx: JobContext<P> = {
-    signal: controller.signal,
-    run: async (task) => {
-      checkCancel();
-      const result = await pool.run(task, { lane: "job", owner });
-      checkCancel();
-      return result;
+  return beginner(
+    job,
+    work,
+    // Writes only while the job is still this process's (not released by a stop, nor cleared).
+    () => jobs.get(job.id) === (job as Job),
+    () => {
+      jobs.delete(job.id);
+      admitWaiting();
     },
-    map: async (items, fn) => {
-      const out = new Array(items.length);
-      let next = 0;
-      const lane = async () => {
-        while (next < items.length) {
-          if (controller.signal.aborted) throw new JobCancelled();
-          const i = next++;
-          out[i] = await fn(items[i], i);
-        }
-      };
-      await Promise.all(Array.from({ length: Math.min(pool.size, items.length) }, lane));
-      return out;
-    },
-    progress: (done, newTotal, partial) => {
-      job.done = done;
-      if (newTotal !== undefined) job.total = newTotal;
-      if (partial !== undefined) job.partial = partial;
-      if (mine()) persist(job as Job, true);
-    },
-  };
-
-  const finished = () => {
-    if (!mine()) return;
-    job.finishedAt = Date.now();
-    jobs.delete(job.id);
-    persist(job as Job);
-    admitWaiting();
-  };
-  const begin = () => {
-    job.status = "running";
-    job.ranAt = Date.now();
-    persist(job as Job);
-    work(ctx).then(
-      (result) => {
-        job.result = result;
-        job.status = controller.signal.aborted ? "cancelled" : "done";
-        finished();
-      },
-      (error: unknown) => {
-        if (error instanceof JobCancelled || controller.signal.aborted) {
-          job.status = "cancelled";
-          finished();
-          return;
-        }
-        job.status = "failed";
-        job.error = error instanceof Error ? error.message : String(error);
-        finished();
-        if (!(error instanceof Error && error.name === "KeeperError")) console.error("[fernwater] job failed", error);
-      },
-    );
-  };
-  return begin;
+  );
 }
 
 /** A job of this person, or null (someone else's job is not found either). */
