@@ -25,6 +25,8 @@ const orphaned = (now: number) =>
  */
 export function claimOrphans(now = Date.now()): JobRow[] {
   const db = getDb();
+  // Every process asks every 2 s: a plain read first, so the usual "none" takes no write lock.
+  if (!db.select({ id: jobs.id }).from(jobs).where(orphaned(now)).limit(1).get()) return [];
   db.update(jobs)
     .set({ status: "cancelled", finishedAt: now })
     .where(and(orphaned(now), eq(jobs.cancelRequested, true)))
