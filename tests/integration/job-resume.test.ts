@@ -25,7 +25,7 @@ import {
 import { action as calibrateAction } from "~/routes/calibrate/calibrate";
 import { action as targetAction } from "~/routes/sweeps/target";
 import { action as sweepsApi } from "~/routes/api/scenario-sweeps";
-import { loader as jobApi } from "~/routes/api/job";
+import { action as jobApiAction, loader as jobApi } from "~/routes/api/job";
 import { call, get, ORIGIN, post, postJson } from "../support/routes";
 import { createScenario, createTank } from "../support/tanks";
 import { userWithCookie } from "../support/users";
@@ -373,4 +373,43 @@ describe("jobs of a process that stopped", () => {
       expect(job.result).toEqual(reference.result);
     }
   }, 60_000);
+
+  it("cancels an orphan cancelled meanwhile instead of running it, and fails one nobody took up for two minutes", async () => {
+    const [a, b] = await Promise.all([world(), world()]);
+    // Rows as a dead process leaves them (its last heartbeat 20 s and 3 minutes ago).
+    const orphan = (id: string, userId: number, silentMs: number) =>
+      getDb()
+        .insert(jobs)
+        .values({
+          id,
+          userId,
+          kind: "sweep",
+          label: "x",
+          status: "running",
+          instance: "dead:1",
+          attempts: 1,
+          startedAt: 1,
+          heartbeatAt: Date.now() - silentMs,
+        })
+        .run();
+    orphan("cancelled-orphan", a.user.id, 20_000);
+    orphan("forgotten-orphan", b.user.id, 180_000);
+
+    const cancelled = await call(
+      jobApiAction,
+      new Request(`http://fernwater.test/api/jobs/cancelled-orphan`, {
+        method: "DELETE",
+        headers: { Cookie: a.user.cookie, Origin: ORIGIN },
+      }),
+      { jobId: "cancelled-orphan" },
+    );
+    expect(cancelled.status).toBe(200);
+    // Nobody took the forgotten one up (no process ran the claimer): it fails when read.
+    const forgotten = await pollOnce("forgotten-orphan", b.user.cookie);
+    expect(forgotten.status).toBe("failed");
+    expect(forgotten.error).toMatch(/no other took it up/);
+
+    expect(resumeOrphans()).toEqual([]);
+    expect(rowOf("cancelled-orphan").status).toBe("cancelled");
+  });
 });
