@@ -3,7 +3,8 @@ import { getDb } from "~/db/client.server";
 import { users } from "~/db/schema";
 import { seedDemoData } from "~/db/seed.server";
 import { getEnv, redirectMailTo } from "~/env.server";
-import { abandonLocalJobs } from "~/features/jobs/jobs.server";
+import { startJobResumer } from "~/features/jobs/job-resume.server";
+import { releaseLocalJobs } from "~/features/jobs/jobs.server";
 import { startReminderTimer } from "~/features/reminders/reminder-timer.server";
 import { startFakeSmtp, type FakeSmtp } from "~/mail/fake-smtp.server";
 
@@ -41,9 +42,12 @@ export async function boot(log: (line: string) => void = console.log): Promise<(
   }
   await prepareDatabase(log);
   const stopReminders = startReminderTimer(log);
+  // Jobs of a process that stopped are run again here (decision 0009); a stop leaves ours to others.
+  const stopResumer = startJobResumer(log);
   return async () => {
     stopReminders();
-    abandonLocalJobs();
+    stopResumer();
+    releaseLocalJobs();
     await fake?.close();
   };
 }

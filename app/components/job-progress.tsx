@@ -85,6 +85,7 @@ export function JobProgress({ job, noun = "engine runs" }: { job: JobJson; noun?
         labelledBy={`job-${job.id}-label`}
         valueText={`${job.done} of ${job.total} ${noun}`}
       />
+      {job.note && job.status !== "cancelled" ? <p className="text-sm text-stone-700">{job.note}</p> : null}
       {job.status === "failed" && job.error ? (
         <p className="text-sm font-semibold text-red-800" role="alert">
           {job.error}

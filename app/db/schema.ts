@@ -345,7 +345,10 @@ export const jobs = sqliteTable(
     error: text("error"),
     cancelRequested: integer("cancel_requested", { mode: "boolean" }).notNull().default(false),
     instance: text("instance"),
+    /** Processes that took the job: 1 when started, one more each time another process restarts it. */
     attempts: integer("attempts").notNull().default(0),
+    /** When a process last restarted the job after the one running it stopped (null: never). */
+    resumedAt: integer("resumed_at"),
     startedAt: integer("started_at").notNull(),
     ranAt: integer("ran_at"),
     finishedAt: integer("finished_at"),

@@ -1,7 +1,7 @@
 /**
  * Two real app processes on one port (WEB_CONCURRENCY=2, node:cluster): every request below
  * opens a new connection, so the cluster hands them to both processes. Limits, jobs and their
- * progress must hold across them, and a job whose process is killed must end visibly.
+ * progress must hold across them, and a job whose process is killed must be run again by another.
  */
 import http from "node:http";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
@@ -100,7 +100,7 @@ describe("two app processes on one port", () => {
     expect(job.done).toBeLessThan(50);
   }, 60_000);
 
-  it("fails a job visibly when the process running it is killed, and replaces the process", async () => {
+  it("runs a job again on another process when the process running it is killed, and replaces the process", async () => {
     const cookie = await signInOverHttp(server.baseURL, "ines@tidewell.example", PASSWORD);
     const scenarioId = await firstScenarioId(cookie);
     const started = await request("POST", `/api/scenarios/${scenarioId}/sweeps`, { cookie, body: SWEEP });
@@ -108,22 +108,26 @@ describe("two app processes on one port", () => {
     const id = JSON.parse(started.body).job.id as string;
     process.kill(Number(started.instance.split(":").pop()), "SIGKILL");
 
-    let job: { status: string; error: string | null } = { status: "running", error: null };
-    const deadline = Date.now() + 30_000;
+    // Lost after 15 s of silence, taken up within a heartbeat (2 s) by a live process, run again.
+    let job: { status: string; error: string | null; note: string | null; done: number } = { status: "running", error: null, note: null, done: 0 };
+    const notes = new Set<string | null>();
+    const deadline = Date.now() + 50_000;
     while (Date.now() < deadline && (job.status === "running" || job.status === "waiting")) {
       await new Promise((r) => setTimeout(r, 500));
       const poll = await request("GET", `/api/jobs/${id}`, { cookie }).catch(() => null);
       if (poll?.status === 200) job = JSON.parse(poll.body).job;
+      notes.add(job.note);
     }
-    // Not "running" forever: failed, saying so (or done, if it finished before the kill).
-    expect(["failed", "done"]).toContain(job.status);
-    if (job.status === "failed") expect(job.error).toMatch(/stopped before it finished/);
+    // Not "running" forever, and not failed: finished by another process, saying it was restarted.
+    expect(job.error).toBeNull();
+    expect(job).toMatchObject({ status: "done", done: 50, note: "Restarted from the start after a server stopped." });
+    expect([...notes].some((n) => n !== null && /another will restart it/.test(n))).toBe(true);
     // The cluster replaced the killed process: two answer again, and a new job may start.
     const seen = new Set<string>();
     for (let i = 0; i < 40 && seen.size < 2; i++) seen.add((await request("GET", "/api/health")).instance);
     expect(seen.size).toBe(2);
     expect((await request("POST", `/api/scenarios/${scenarioId}/sweeps`, { cookie, body: SWEEP })).status).toBe(202);
-  }, 60_000);
+  }, 90_000);
 
   it("saves from three people at once on both processes without a database error", async () => {
     const people = await Promise.all(

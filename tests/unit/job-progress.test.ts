@@ -27,6 +27,7 @@ const base: JobJson = {
   startedAt: new Date(0).toISOString(),
   finishedAt: null,
   elapsedMs: 1200,
+  note: null,
 };
 
 describe("the job progress bar", () => {
@@ -40,5 +41,11 @@ describe("the job progress bar", () => {
     const html = render({ ...base, status: "running", ahead: 0, done: 7 });
     expect(html).toMatch(/Running: 7 of 20 runs/);
     expect(html).not.toMatch(/ahead/);
+    expect(html).not.toMatch(/Restarted/);
+  });
+
+  it("says when a job was restarted after a server stopped (issue 15)", () => {
+    const note = "Restarted from the start after a server stopped.";
+    expect(render({ ...base, status: "running", ahead: 0, note })).toContain(note);
   });
 });

@@ -28,7 +28,8 @@ import {
 } from "~models/nitrogen/calibrate";
 import { speciesFactor } from "~models/units";
 import { getEnginePool } from "~/features/jobs/engine-pool.server";
-import { KeeperError, startJob, type JobContext } from "~/features/jobs/jobs.server";
+import { KeeperError, startJob, type JobContext, type JobSpec } from "~/features/jobs/jobs.server";
+import { contentHash } from "~/features/runs/simulation.server";
 import { readingsForCalibration } from "~/features/readings/readings.server";
 import { JOB_RUN_LIMITS } from "~/features/jobs/jobs.server";
 import type { EngineTask } from "~/features/jobs/engine-tasks.server";
@@ -218,6 +219,26 @@ export function startCalibration(
   kits: Kits = {},
   schedule: FitSchedule = { kind: "periodic" },
 ) {
+  const { start, work } = calibrationJob(user, row, tankId, scenario, startMs, fit, units, kits, schedule);
+  return startJob(start, work);
+}
+
+/**
+ * A calibration job, ready to start or to run again after a restart: its params name the
+ * scenario, the fit, the kits and the schedule, and fingerprint what it ran on (the scenario or
+ * the journal's replay, the readings, the person's units).
+ */
+export function calibrationJob(
+  user: { id: number },
+  row: { id: number; name: string },
+  tankId: number,
+  scenario: Scenario,
+  startMs: number,
+  fit: MultiplierKey[],
+  units: DisplayUnits,
+  kits: Kits = {},
+  schedule: FitSchedule = { kind: "periodic" },
+): JobSpec<CalibrationJson> {
   const events = schedule.kind === "journal" ? schedule.events : undefined;
   const readings = readingsForCalibration(tankId, startMs, scenario.run.lengthDays);
   const days = readings.map((r) => r.day);
@@ -225,15 +246,16 @@ export function startCalibration(
   // multiplier with exact readings and 180–350 with kit readings (their ranges look further).
   const kitReadings = kitsFor(readings, kits, preferredUnits(units)).some((k) => k.kit.kind !== "exact");
   const estimate = (kitReadings ? 250 : 110) * fit.length;
-  return startJob<CalibrationJson>(
-    {
+  const fingerprint = contentHash({ scenario, startMs, events: events ?? null, readings, units });
+  return {
+    start: {
       user,
       kind: "calibration",
       label: `fit ${fit.map((k) => MULTIPLIER_LABELS[k].label.toLowerCase()).join(", ")} to ${readings.length} readings`,
       total: estimate,
-      params: { scenarioId: row.id, fit, kits, schedule: schedule.kind },
+      params: { scenarioId: row.id, fit, kits, schedule: schedule.kind, fingerprint },
     },
-    async (ctx: JobContext<unknown>) => {
+    work: async (ctx: JobContext<unknown>) => {
       if (readings.length === 0) {
         throw new KeeperError(
           "No readings of TAN, nitrite or nitrate fall within this scenario's run. Check its start date, or add readings.",
@@ -263,7 +285,7 @@ export function startCalibration(
       ctx.progress(runs, runs);
       return { ...toJson(row, readings, result, units), schedule: SCHEDULE_TEXT[schedule.kind] };
     },
-  );
+  };
 }
 
 /**

@@ -23,4 +23,6 @@ export type JobJson<R = unknown, P = unknown> = {
   startedAt: string;
   finishedAt: string | null;
   elapsedMs: number;
+  /** Set when the job is being, or was, run again because the server process running it stopped. */
+  note: string | null;
 };

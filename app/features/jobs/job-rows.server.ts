@@ -2,8 +2,10 @@
  * The jobs table: every job's state and progress, so any app process can answer a poll or a
  * cancel (the process that runs a job writes to its row; app/features/jobs/jobs.server.ts).
  *
- * A running process refreshes its jobs' heartbeat; a row whose heartbeat has stopped (the process
- * died, or was stopped) is failed when it is next read, so no job shows "running" forever.
+ * A running process refreshes its jobs' heartbeat. A row whose heartbeat has stopped (the process
+ * died, or was stopped) is restarted by another process (job-claims.server.ts) until it has been
+ * tried MAX_ATTEMPTS times; past that, or when nobody took it up for a while, it is failed when
+ * read, so no job shows "running" forever.
  */
 import { and, eq, inArray, lt, sql } from "drizzle-orm";
 import { getDb } from "~/db/client.server";
@@ -37,17 +39,32 @@ export type Job<R = unknown, P = unknown> = {
   controller?: AbortController;
   /** The table row's process, for a job read from the table. */
   instance?: string | null;
+  /** Processes that took it so far (1 unless restarted). */
+  attempts: number;
+  /** When another process restarted it after the one running it stopped (null: never). */
+  resumedAt: number | null;
+  /** Read from the table while its process has stopped and before another restarts it. */
+  orphaned?: boolean;
 };
 
 
 /** How often a process refreshes the heartbeat of its jobs, and when a silent job counts as lost. */
 export const HEARTBEAT_MS = 2_000;
-const LOST_AFTER_MS = 15_000;
+export const LOST_AFTER_MS = 15_000;
+/** Processes that may take a job in turn: the one that started it and one restart. */
+export const MAX_ATTEMPTS = 2;
+/**
+ * A lost job that no process restarted in this long fails when read: every app process claims
+ * orphans every HEARTBEAT_MS, so this only happens when none runs the resumer at all.
+ */
+const UNCLAIMED_AFTER_MS = 120_000;
 
 const LOST_MESSAGE =
-  "The server process running this job stopped before it finished. Nothing was saved; start it again.";
+  "The server process running this job stopped before it finished, and no other took it up. Nothing was saved; start it again.";
+export const TRIED_TWICE_MESSAGE =
+  "This job was tried twice, and both times the server process running it stopped before it finished. Nothing was saved; start it again.";
 
-const ACTIVE: JobStatus[] = ["waiting", "running"];
+export const ACTIVE: JobStatus[] = ["waiting", "running"];
 
 type NewJob = {
   id: string;
@@ -73,7 +90,8 @@ export function insertJobExclusive(
     (tx) => {
       const now = Date.now();
       for (const row of tx.select().from(jobs).where(and(eq(jobs.userId, job.userId), inArray(jobs.status, ACTIVE))).all()) {
-        if (isLost(row, now)) failLost(row);
+        // A lost job that will be restarted still counts as the person's one job.
+        if (givenUp(row, now)) failLost(row);
         else return { ok: false as const, reason: "mine" as const, mine: row };
       }
       if (job.status === "waiting") {
@@ -85,6 +103,7 @@ export function insertJobExclusive(
           ...job,
           params: job.params ?? null,
           instance: INSTANCE,
+          attempts: 1,
           ranAt: job.status === "running" ? job.startedAt : null,
           heartbeatAt: now,
         })
@@ -97,7 +116,7 @@ export function insertJobExclusive(
 
 export function readJobRow(id: string): JobRow | null {
   const row = getDb().select().from(jobs).where(eq(jobs.id, id)).get() ?? null;
-  if (row && isLost(row, Date.now())) return failLost(row);
+  if (row && givenUp(row, Date.now())) return failLost(row);
   return row;
 }
 
@@ -123,12 +142,12 @@ export function requestCancel(id: string): void {
   db.update(jobs).set({ cancelRequested: true }).where(and(eq(jobs.id, id), eq(jobs.status, "running"))).run();
 }
 
-/** Jobs waiting before this one in its process's line. */
+/** Jobs waiting before this one in its process's line (the line keeps the order they were asked for). */
 export function waitingAhead(row: JobRow): number {
   return (
     getDb().$client
       .prepare(
-        "SELECT count(*) AS n FROM jobs WHERE status = 'waiting' AND instance IS ? AND rowid < (SELECT rowid FROM jobs WHERE id = ?)",
+        "SELECT count(*) AS n FROM jobs WHERE status = 'waiting' AND instance IS ? AND (started_at, rowid) < (SELECT started_at, rowid FROM jobs WHERE id = ?)",
       )
       .get(row.instance, row.id) as { n: number }
   ).n;
@@ -139,13 +158,12 @@ export function beat(ids: string[]): void {
   if (ids.length) getDb().update(jobs).set({ heartbeatAt: Date.now() }).where(inArray(jobs.id, ids)).run();
 }
 
-/** This process stops: its active jobs fail visibly instead of staying "running". */
-export function abandonJobs(ids: string[], message: string): void {
-  if (!ids.length) return;
+/** Fails an active job with a message (e.g. it could not be rebuilt to restart it). */
+export function failJobRow(id: string, message: string): void {
   getDb()
     .update(jobs)
     .set({ status: "failed", error: message, finishedAt: Date.now() })
-    .where(and(inArray(jobs.id, ids), inArray(jobs.status, ACTIVE)))
+    .where(and(eq(jobs.id, id), inArray(jobs.status, ACTIVE)))
     .run();
 }
 
@@ -167,18 +185,27 @@ export function deleteAllJobRows(): void {
   getDb().delete(jobs).run();
 }
 
+/** Active, yet its process has not beaten for LOST_AFTER_MS: it stopped. */
 function isLost(row: JobRow, now: number): boolean {
   return ACTIVE.includes(row.status) && row.instance !== INSTANCE && now - (row.heartbeatAt ?? row.startedAt) > LOST_AFTER_MS;
 }
 
+/** Lost, and no process will restart it: tried enough, or nobody took it up for a long while. */
+function givenUp(row: JobRow, now: number): boolean {
+  return (
+    isLost(row, now) && (row.attempts >= MAX_ATTEMPTS || now - (row.heartbeatAt ?? row.startedAt) > UNCLAIMED_AFTER_MS)
+  );
+}
+
 function failLost(row: JobRow): JobRow {
   const finishedAt = Date.now();
+  const error = row.attempts >= MAX_ATTEMPTS ? TRIED_TWICE_MESSAGE : LOST_MESSAGE;
   getDb()
     .update(jobs)
-    .set({ status: "failed", error: LOST_MESSAGE, finishedAt })
+    .set({ status: "failed", error, finishedAt })
     .where(and(eq(jobs.id, row.id), inArray(jobs.status, ACTIVE)))
     .run();
-  return { ...row, status: "failed", error: LOST_MESSAGE, finishedAt };
+  return { ...row, status: "failed", error, finishedAt };
 }
 
 /** Writes a job's state to its row: at once, or at most every 100 ms for progress. */
@@ -222,6 +249,9 @@ export function fromRow(row: JobRow): Job {
     ranAt: row.ranAt,
     finishedAt: row.finishedAt,
     instance: row.instance,
+    attempts: row.attempts,
+    resumedAt: row.resumedAt,
+    orphaned: isLost(row, Date.now()),
   };
 }
 

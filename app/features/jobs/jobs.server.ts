@@ -16,27 +16,29 @@
  * (app/features/jobs/job-rows.server.ts), so any process answers a poll or a cancel, and the
  * one-job-per-person check holds across processes. The process that started a job runs it on its
  * own pool and line; a cancel asked through another process reaches it between engine runs.
+ * When that process stops, another rebuilds the job from its row and runs it again from the start
+ * (job-claims.server.ts, job-resume.server.ts; decision 0009).
  */
 import type { Role } from "~/db/schema";
 import { getEnginePool } from "~/features/jobs/engine-pool.server";
+import { releaseJobs } from "~/features/jobs/job-claims.server";
 import {
-  abandonJobs,
   beat,
-  cancelRequested,
   deleteAllJobRows,
   dropPendingWrites,
   fromRow,
   type Job,
-  persist,
   HEARTBEAT_MS,
   insertJobExclusive,
+  type JobRow,
   pruneJobRows,
   readJobRow,
   requestCancel,
   waitingAhead,
 } from "~/features/jobs/job-rows.server";
 export type { Job } from "~/features/jobs/job-rows.server";
-import type { EngineTask, EngineTaskResult } from "~/features/jobs/engine-tasks.server";
+import { beginner, type JobContext } from "~/features/jobs/job-work.server";
+export type { JobContext } from "~/features/jobs/job-work.server";
 import { randomToken } from "~/utils/crypto.server";
 import type { JobJson, JobKind } from "~/features/jobs/job-json";
 export type { JobJson, JobKind } from "~/features/jobs/job-json";
@@ -82,31 +84,17 @@ export class JobRefused extends Error {
   }
 }
 
-/** Thrown inside a job's work when it was cancelled. */
-class JobCancelled extends Error {
-  constructor() {
-    super("Cancelled.");
-  }
-}
-
-/** What a job's work function gets. */
-export type JobContext<P> = {
-  signal: AbortSignal;
-  /** One engine task on the pool; throws JobCancelled if the job was cancelled first. */
-  run(task: EngineTask): Promise<EngineTaskResult>;
-  /**
-   * Runs `fn` over `items` with as many in flight as the pool has workers; results keep the
-   * items' order. Stops starting new ones once cancelled.
-   */
-  map<T, U>(items: readonly T[], fn: (item: T, index: number) => Promise<U>): Promise<U[]>;
-  /** Report progress: `done` of `total` (total may change, e.g. when a search narrows). */
-  progress(done: number, total?: number, partial?: P): void;
-};
-
 /** This process's jobs that are running or waiting (finished ones live in the table only). */
 const jobs = new Map<string, Job>();
 /** Jobs waiting to run here, in the order they were asked for, with what starts them. */
 const line: { job: Job; begin: () => void }[] = [];
+
+/** Puts a job in line by when it was asked for (a restarted job keeps its original place). */
+function enqueue(entry: { job: Job; begin: () => void }): void {
+  const i = line.findIndex((w) => w.job.startedAt > entry.job.startedAt);
+  if (i < 0) line.push(entry);
+  else line.splice(i, 0, entry);
+}
 
 const isActive = (job: Job) => job.status === "running" || job.status === "waiting";
 
@@ -175,17 +163,18 @@ const KIND_WORDS: Record<JobKind, string> = {
   target: "a target search",
 };
 
+/** What a job is started with: its row's fields (params: what rebuilds it after a restart). */
+export type JobStart = { user: { id: number }; kind: JobKind; label: string; total: number; params?: unknown };
+/** A job ready to start: what it is, and its work. */
+export type JobSpec<R = unknown, P = unknown> = { start: JobStart; work: (ctx: JobContext<P>) => Promise<R> };
+
 /**
  * Starts `work` as a job of `user` and returns at once (the job runs on). Throws JobRefused when
  * the person already has a job running or the server is full.
  */
-export function startJob<R, P = unknown>(
-  start: { user: { id: number }; kind: JobKind; label: string; total: number; params?: unknown },
-  work: (ctx: JobContext<P>) => Promise<R>,
-): Job<R, P> {
+export function startJob<R, P = unknown>(start: JobStart, work: (ctx: JobContext<P>) => Promise<R>): Job<R, P> {
   const { user, kind, label, total } = start;
   prune();
-  const pool = getEnginePool();
   const mustWait = runningHere() >= capacity() || line.length > 0;
   const id = randomToken(12);
   const startedAt = Date.now();
@@ -203,7 +192,6 @@ export function startJob<R, P = unknown>(
   if (!inserted.ok) {
     throw new JobRefused("The server's line for sweeps and calibrations is full. Try again in a few minutes.", 503);
   }
-  const controller = new AbortController();
   const job: Job<R, P> = {
     id,
     userId: user.id,
@@ -219,77 +207,59 @@ export function startJob<R, P = unknown>(
     startedAt,
     ranAt: mustWait ? null : startedAt,
     finishedAt: null,
-    controller,
+    controller: new AbortController(),
+    attempts: 1,
+    resumedAt: null,
   };
-  jobs.set(job.id, job as Job);
-  keepBeating();
-  // A cancel asked through another process shows up in the row; it is read between engine runs.
-  const checkCancel = () => {
-    if (!controller.signal.aborted && cancelRequested(id)) controller.abort();
-    if (controller.signal.aborted) throw new JobCancelled();
-  };
-
-  const ctx: JobContext<P> = {
-    signal: controller.signal,
-    run: async (task) => {
-      checkCancel();
-      const result = await pool.run(task, { lane: "job", owner: `user:${user.id}` });
-      checkCancel();
-      return result;
-    },
-    map: async (items, fn) => {
-      const out = new Array(items.length);
-      let next = 0;
-      const lane = async () => {
-        while (next < items.length) {
-          if (controller.signal.aborted) throw new JobCancelled();
-          const i = next++;
-          out[i] = await fn(items[i], i);
-        }
-      };
-      await Promise.all(Array.from({ length: Math.min(pool.size, items.length) }, lane));
-      return out;
-    },
-    progress: (done, newTotal, partial) => {
-      job.done = done;
-      if (newTotal !== undefined) job.total = newTotal;
-      if (partial !== undefined) job.partial = partial;
-      persist(job as Job, true);
-    },
-  };
-
-  const finished = () => {
-    job.finishedAt = Date.now();
-    jobs.delete(job.id);
-    persist(job as Job);
-    admitWaiting();
-  };
-  const begin = () => {
-    job.status = "running";
-    job.ranAt = Date.now();
-    persist(job as Job);
-    work(ctx).then(
-      (result) => {
-        job.result = result;
-        job.status = controller.signal.aborted ? "cancelled" : "done";
-        finished();
-      },
-      (error: unknown) => {
-        if (error instanceof JobCancelled || controller.signal.aborted) {
-          job.status = "cancelled";
-          finished();
-          return;
-        }
-        job.status = "failed";
-        job.error = error instanceof Error ? error.message : String(error);
-        finished();
-        if (!(error instanceof Error && error.name === "KeeperError")) console.error("[fernwater] job failed", error);
-      },
-    );
-  };
-  if (mustWait) line.push({ job: job as Job, begin });
+  const begin = launch(job, work);
+  if (mustWait) enqueue({ job: job as Job, begin });
   else begin();
   return job;
+}
+
+/**
+ * Runs again, from the start, a job this process claimed from one that stopped (its row is
+ * already this process's, "waiting"). It takes its place in line by when it was first asked for.
+ */
+export function resumeJob<R, P = unknown>(row: JobRow, spec: JobSpec<R, P>): Job<R, P> {
+  const job: Job<R, P> = {
+    id: row.id,
+    userId: row.userId,
+    kind: row.kind,
+    label: row.label,
+    params: row.params,
+    status: "waiting",
+    done: 0,
+    total: spec.start.total,
+    partial: null,
+    result: null,
+    error: null,
+    startedAt: row.startedAt,
+    ranAt: null,
+    finishedAt: null,
+    controller: new AbortController(),
+    attempts: row.attempts,
+    resumedAt: row.resumedAt,
+  };
+  enqueue({ job: job as Job, begin: launch(job, spec.work) });
+  admitWaiting();
+  return job;
+}
+
+/** Registers a job of this process and returns what begins its work (now, or when its turn comes). */
+function launch<R, P>(job: Job<R, P>, work: (ctx: JobContext<P>) => Promise<R>): () => void {
+  jobs.set(job.id, job as Job);
+  keepBeating();
+  return beginner(
+    job,
+    work,
+    // Writes only while the job is still this process's (not released by a stop, nor cleared).
+    () => jobs.get(job.id) === (job as Job),
+    () => {
+      jobs.delete(job.id);
+      admitWaiting();
+    },
+  );
 }
 
 /** A job of this person, or null (someone else's job is not found either). */
@@ -349,7 +319,15 @@ export function jobJson(job: Job): JobJson {
     startedAt: new Date(job.startedAt).toISOString(),
     finishedAt: job.finishedAt ? new Date(job.finishedAt).toISOString() : null,
     elapsedMs: (job.finishedAt ?? Date.now()) - job.startedAt,
+    note: restartNote(job),
   };
+}
+
+/** Says when a job is being, or was, run again because the server process running it stopped. */
+function restartNote(job: Job): string | null {
+  if (job.orphaned) return "The server running this job stopped; another will restart it from the start in a moment.";
+  if (job.resumedAt !== null) return "Restarted from the start after a server stopped.";
+  return null;
 }
 
 /**
@@ -370,12 +348,14 @@ export function clearJobs(): void {
 }
 
 /**
- * This process is stopping: its jobs fail visibly ("start it again") rather than being left
- * "running" in the table until their heartbeat runs out.
+ * This process is stopping normally: it stops its jobs' work and leaves them, in the table, for
+ * another process (or the next to start) to run again at once, instead of failing them.
  */
-export function abandonLocalJobs(): void {
-  for (const job of jobs.values()) job.controller?.abort();
-  abandonJobs([...jobs.keys()], "The server restarted before this job finished. Nothing was saved; start it again.");
-  jobs.clear();
+export function releaseLocalJobs(): void {
+  const mine = [...jobs.values()];
+  jobs.clear(); // first, so the aborted work writes nothing more
   line.splice(0);
+  dropPendingWrites();
+  for (const job of mine) job.controller?.abort();
+  releaseJobs(mine.map((j) => j.id));
 }

@@ -54,6 +54,10 @@ export function queuePool(
   const connection = connectionOf(redisUrl);
   const queue = new Queue<EngineTask, EngineTaskResult>(engineQueue(), { connection });
   const events = new QueueEvents(engineQueue(), { connection });
+  // Each task waiting for its answer listens on both; past ten in flight (five jobs of two tasks,
+  // or jobs taken up from a stopped process) Node would warn of a leak that is not one.
+  queue.setMaxListeners(0);
+  events.setMaxListeners(0);
   const ready = events.waitUntilReady();
   let closed = false;
   let inFlight = 0;

@@ -69,7 +69,12 @@ function canonicalJson(value: unknown): string {
 }
 
 export function settingsHash(scenario: Scenario): string {
-  return createHash("sha256").update(canonicalJson(scenario)).digest("hex");
+  return contentHash(scenario);
+}
+
+/** SHA-256 of any JSON value, key order aside (e.g. what a job ran on, to tell if it changed). */
+export function contentHash(value: unknown): string {
+  return createHash("sha256").update(canonicalJson(value)).digest("hex");
 }
 
 /** The tank's nitrate band wins over the one saved in the scenario (the band is a tank setting). */

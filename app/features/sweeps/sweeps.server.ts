@@ -8,7 +8,8 @@
 import { z } from "zod";
 import { OUTCOMES, scenarioSettings, type Quantity, type Scenario, type Setting } from "~models";
 import { fromDisplay, toDisplay, unitLabel } from "~models/units";
-import { JOB_LIMITS, JOB_RUN_LIMITS, startJob, type JobContext } from "~/features/jobs/jobs.server";
+import { JOB_LIMITS, JOB_RUN_LIMITS, startJob, type JobContext, type JobSpec } from "~/features/jobs/jobs.server";
+import { contentHash } from "~/features/runs/simulation.server";
 import type { DisplayUnits } from "~/utils/display-units";
 import type { Role } from "~/db/schema";
 
@@ -145,6 +146,21 @@ export function startSweep(
   input: SweepInput,
   units: DisplayUnits,
 ) {
+  const { start, work } = sweepJob(user, scenarioId, scenario, input, units);
+  return startJob(start, work);
+}
+
+/**
+ * A sweep job, ready to start or to run again after a restart: its params name the scenario and
+ * the form's input, and fingerprint what it ran on (the scenario, the person's units).
+ */
+export function sweepJob(
+  user: { id: number },
+  scenarioId: number,
+  scenario: Scenario,
+  input: SweepInput,
+  units: DisplayUnits,
+): JobSpec<SweepResultJson, SweepResultJson> {
   const levers = sweepLevers(scenario);
   const lever = levers.find((l) => l.id === input.setting)!;
   const outcome = OUTCOMES.find((o) => o.id === input.outcome)!;
@@ -161,15 +177,15 @@ export function startSweep(
     },
     outcome: { id: outcome.id, label: outcome.label, unit },
   };
-  return startJob<SweepResultJson, SweepResultJson>(
-    {
+  return {
+    start: {
       user,
       kind: "sweep",
       label: `${lever.label} from ${input.from} to ${input.to} ${shownUnit(lever, units)}, ${input.points} points`,
       total: input.points,
-      params: { scenarioId, input },
+      params: { scenarioId, input, fingerprint: contentHash({ scenario, units }) },
     },
-    async (ctx: JobContext<SweepResultJson>) => {
+    work: async (ctx: JobContext<SweepResultJson>) => {
       const points: SweepPointJson[] = [];
       let done = 0;
       await ctx.map(canonical, async (value, i) => {
@@ -188,5 +204,5 @@ export function startSweep(
       });
       return { ...head, points };
     },
-  );
+  };
 }

@@ -7,7 +7,8 @@
 import { z } from "zod";
 import type { Scenario } from "~models";
 import { speciesFactor } from "~models/units";
-import { JOB_RUN_LIMITS, startJob, type JobContext } from "~/features/jobs/jobs.server";
+import { JOB_RUN_LIMITS, startJob, type JobContext, type JobSpec } from "~/features/jobs/jobs.server";
+import { contentHash } from "~/features/runs/simulation.server";
 import {
   changeWaterNitrate,
   RO_KH_NOTE,
@@ -235,22 +236,34 @@ export function startTargetSearch(
   input: TargetInput,
   units: DisplayUnits,
 ) {
+  const { start, work } = targetSearchJob(user, scenarioId, scenario, input, units);
+  return startJob(start, work);
+}
+
+/** A target search job, ready to start or to run again after a restart (params as for a sweep). */
+export function targetSearchJob(
+  user: { id: number },
+  scenarioId: number,
+  scenario: Scenario,
+  input: TargetInput,
+  units: DisplayUnits,
+): JobSpec<TargetResultJson> {
   const words = wording(input, units);
   const goal = goalOf(input, units);
   const levers = Object.fromEntries(TARGET_LEVERS.map((id) => [id, searchLever(id, scenario, companions(input))])) as Levers;
   const main = levers[input.lever];
-  return startJob<TargetResultJson>(
-    {
+  return {
+    start: {
       user,
       kind: "target",
       label: `${TARGET_LEVER_LABELS[input.lever].toLowerCase()} for ${words.goalText}`,
       total: "unavailable" in main ? 1 : searchRuns(main),
-      params: { scenarioId, input },
+      params: { scenarioId, input, fingerprint: contentHash({ scenario, units }) },
     },
-    async (ctx: JobContext<unknown>) => ({
+    work: async (ctx: JobContext<unknown>) => ({
       goalText: words.goalText,
       lever: { id: input.lever, label: TARGET_LEVER_LABELS[input.lever] },
       ...(await search(input, scenario, levers, goal, ctx, words)),
     }),
-  );
+  };
 }
