@@ -1,7 +1,7 @@
 import { eq } from "drizzle-orm";
 import { afterEach, describe, expect, it } from "vitest";
 import { getDb } from "~/db/client.server";
-import { readings, scenarios } from "~/db/schema";
+import { jobs, readings, scenarios } from "~/db/schema";
 import { journalEntries } from "~/db/schema-care";
 import { runEngineTask } from "~/features/jobs/engine-tasks.server";
 import {
@@ -611,6 +611,36 @@ describe("the job registry", () => {
     releases.splice(0).forEach((r) => r());
     await new Promise((r) => setTimeout(r, 20));
     expect([fifth.status, seventh.status]).toEqual(["done", "done"]);
+  });
+
+  it("stops a job another process took over (after this one fell silent) and never writes over the taker's row", async () => {
+    let release!: () => void;
+    const gate = new Promise<void>((resolve) => (release = resolve));
+    const task = {
+      kind: "simulate",
+      scenario: ScenarioSchema.parse({ ...PLANTED, run: { lengthDays: 10 } }),
+      limits: { maxWallMs: 3000, maxSteps: 300_000 },
+    } as const;
+    let ran = 0;
+    const job = startJob({ user: { id: 60_000 }, kind: "sweep", label: "taken", total: 2 }, async (ctx) => {
+      await ctx.run(task);
+      ran++;
+      ctx.progress(1);
+      await gate;
+      await ctx.run(task);
+      ran++;
+      return "done here";
+    });
+    await new Promise((r) => setTimeout(r, 300));
+    expect(ran).toBe(1);
+    // Another process claims it, as job-claims.server.ts does with a silent process's rows.
+    getDb().update(jobs).set({ instance: "elsewhere:1", status: "running", done: 0, partial: null }).where(eq(jobs.id, job.id)).run();
+    release();
+    await new Promise((r) => setTimeout(r, 300));
+    expect(ran).toBe(1);
+    expect(job.status).toBe("cancelled");
+    const row = getDb().select().from(jobs).where(eq(jobs.id, job.id)).get()!;
+    expect([row.instance, row.status, row.done, row.result]).toEqual(["elsewhere:1", "running", 0, null]);
   });
 
   it("refuses a start only when the line itself is full, with a 503 message", () => {

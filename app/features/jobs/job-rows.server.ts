@@ -120,13 +120,25 @@ export function readJobRow(id: string): JobRow | null {
   return row;
 }
 
+/**
+ * Writes this process's job row. Only while the row is still this process's: a process that
+ * stalled past LOST_AFTER_MS may find its job taken over, and must not write over the taker's.
+ */
 function writeJobRow(id: string, fields: Partial<Omit<JobRow, "id" | "userId" | "kind">>): void {
-  getDb().update(jobs).set(fields).where(eq(jobs.id, id)).run();
+  getDb()
+    .update(jobs)
+    .set(fields)
+    .where(and(eq(jobs.id, id), eq(jobs.instance, INSTANCE)))
+    .run();
 }
 
-/** Whether someone asked (through any process) to cancel this job. */
+/**
+ * Whether this process should stop the job between engine runs: someone asked (through any
+ * process) to cancel it, or another process took it over after this one fell silent.
+ */
 export function cancelRequested(id: string): boolean {
-  return getDb().select({ c: jobs.cancelRequested }).from(jobs).where(eq(jobs.id, id)).get()?.c ?? false;
+  const row = getDb().select({ c: jobs.cancelRequested, instance: jobs.instance }).from(jobs).where(eq(jobs.id, id)).get();
+  return !!row && (row.c || row.instance !== INSTANCE);
 }
 
 /**
@@ -155,7 +167,12 @@ export function waitingAhead(row: JobRow): number {
 
 /** Refreshes the heartbeat of this process's active jobs. */
 export function beat(ids: string[]): void {
-  if (ids.length) getDb().update(jobs).set({ heartbeatAt: Date.now() }).where(inArray(jobs.id, ids)).run();
+  if (ids.length)
+    getDb()
+      .update(jobs)
+      .set({ heartbeatAt: Date.now() })
+      .where(and(inArray(jobs.id, ids), eq(jobs.instance, INSTANCE)))
+      .run();
 }
 
 /** Fails an active job with a message (e.g. it could not be rebuilt to restart it). */
