@@ -11,8 +11,7 @@ import type { OutgoingMail } from "~/email.server";
 import { upcomingTasks } from "~/features/journal/calendar-feed.server";
 import { forecastJournal, type Forecast } from "~/features/journal/journal-replay.server";
 import { plannedSettings } from "~/features/tanks/maintenance-plan.server";
-import { displayUnitsFor, formatNumber, unitLabels, type DisplayUnits } from "~/utils/display-units";
-import { fromCanonical } from "~models/units";
+import { displayUnitsFor, nitrateText, type DisplayUnits } from "~/utils/display-units";
 import { listJournal } from "~/features/journal/journal.server";
 import type { ReminderRow } from "~/features/reminders/reminder-schedule.server";
 import { unsubscribeToken } from "~/features/reminders/unsubscribe-token.server";
@@ -26,10 +25,12 @@ const dayText = (ms: number) =>
 
 function forecastText(f: Forecast | null, units: DisplayUnits): string {
   if (!f) return "No forecast yet: log what you did in the tank's journal and the model follows it.";
-  if (f.kind === "below") return `Under your planned schedule nitrate stays below your upper target for the next ${f.horizonDays} days.`;
-  const high = `${formatNumber(fromCanonical("nitrate", f.high, units.nitrate), 2)} ${unitLabels(units).nitrate}`;
+  if (f.kind === "below")
+    return `Under your planned schedule nitrate stays below your upper target for the next ${f.horizonDays} days.`;
+  const high = nitrateText(f.high, units);
   const cross = `Nitrate reaches ${high} around ${dayText(f.crossMs)}`;
-  if (!f.fix) return `${cross}; even a 90 % change two days before does not keep it below: look at feeding and the plan.`;
+  if (!f.fix)
+    return `${cross}; even a 90 % change two days before does not keep it below: look at feeding and the plan.`;
   return `${cross}; a ${Math.round(f.fix.share * 100)} % change by ${dayText(f.fix.byMs)} keeps it below ${high}.`;
 }
 

@@ -3,7 +3,7 @@
  * chosen scenario with the readings over it, and the page's three actions (add, delete, upload).
  */
 import { data } from "react-router";
-import { fromCanonical, speciesFactor } from "~models/units";
+import { fromCanonical } from "~models/units";
 import { describeEntry, ENTRY_KINDS, type FieldUnits } from "~/features/journal/journal-entries";
 import { parseJournalCsv, MAX_JOURNAL_CSV_BYTES } from "~/features/journal/journal-csv.server";
 import {
@@ -22,7 +22,7 @@ import { readUpload, UploadError } from "~/http/uploads.server";
 import { runProblem } from "~/http/pages.server";
 import { DAY_MS, formatDateTime } from "~/utils/dates";
 import type { CsvProblem } from "~/utils/csv-read.server";
-import { formatNumber, unitLabels, type DisplayUnits } from "~/utils/display-units";
+import { nitrateText, unitLabels, type DisplayUnits } from "~/utils/display-units";
 
 export async function journalPageData(
   tank: TankRow,
@@ -96,9 +96,6 @@ export async function journalPageData(
 
 const dayText = (ms: number) =>
   new Date(ms).toLocaleDateString("en-GB", { day: "numeric", month: "long", timeZone: "UTC" });
-/** Nitrate in the person's units: "25 mg/L NO3" or "5.65 mg/L NO3-N". */
-const no3Text = (mgN: number, units: DisplayUnits) =>
-  `${formatNumber(mgN * speciesFactor("nitrate", units), 3)} ${unitLabels(units).nitrate}`;
 
 /**
  * "Nitrate passes your upper target of 25 mg/L NO3 around 14 December (40 mg/L NO3 before the
@@ -108,10 +105,10 @@ function forecastSentence(f: Forecast | null, units: DisplayUnits): string | nul
   if (!f) return null;
   if (f.kind === "below")
     return `Under your planned schedule nitrate stays below your upper target for the next ${f.horizonDays} days.`;
-  const cross = `Nitrate passes your upper target of ${no3Text(f.high, units)} around ${dayText(f.crossMs)} (${no3Text(f.peak, units)} before the next planned change)`;
+  const cross = `Nitrate passes your upper target of ${nitrateText(f.high, units)} around ${dayText(f.crossMs)} (${nitrateText(f.peak, units)} before the next planned change)`;
   if (!f.fix)
     return `${cross}; even a 90 % change two days before does not keep it below: look at feeding and the plan.`;
-  return `${cross}; a ${Math.round(f.fix.share * 100)} % change by ${dayText(f.fix.byMs)} keeps it below ${no3Text(f.high, units)} until ${dayText(f.fix.untilMs)}.`;
+  return `${cross}; a ${Math.round(f.fix.share * 100)} % change by ${dayText(f.fix.byMs)} keeps it below ${nitrateText(f.high, units)} until ${dayText(f.fix.untilMs)}.`;
 }
 
 export type JournalAnswer = {
