@@ -373,6 +373,8 @@ describe("lessons", () => {
     expect(await figuresNow()).toEqual(before);
     // The tank's name may still change; the band as the form shows it goes back unchanged.
     const page = await call(tankLoader, get(`/tanks/${tankId}`, student.cookie), { tankId });
+    expect(page.data.bandKept).toBe(true);
+    expect(page.data.nitrateHint).toMatch(/handed in/);
     const band = { nitrateLow: page.data.tank.nitrateLow, nitrateHigh: page.data.tank.nitrateHigh };
     const renamed = await call(tankAction, post(`/tanks/${tankId}`, { intent: "settings", name: "My class tank", notes: "", ...band }, student.cookie), { tankId });
     expect(renamed.status).toBe(302);

@@ -48,6 +48,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     },
     labels: unitLabels(units),
     nitrateHint: handedIn ? bandKeptMessage(handedIn.lessonTitle) : nitrateBandHint(no3, unitLabels(units).nitrate),
+    /** The band is kept for a handed-in lesson copy: shown, not editable. */
+    bandKept: !!handedIn,
     upcoming: upcomingView(tank.id),
     done: new URL(request.url).searchParams.has("done"),
     scenarios: list.map((s) => {
@@ -288,6 +290,7 @@ export default function TankPage({ loaderData, actionData }: Route.ComponentProp
             inputMode="decimal"
             suffix={labels.nitrate}
             hint={loaderData.nitrateHint}
+            readOnly={loaderData.bandKept}
             defaultValue={values.intent === "settings" ? values.nitrateLow : tank.nitrateLow}
             error={errors.nitrateLow}
           />
@@ -296,6 +299,7 @@ export default function TankPage({ loaderData, actionData }: Route.ComponentProp
             name="nitrateHigh"
             inputMode="decimal"
             suffix={labels.nitrate}
+            readOnly={loaderData.bandKept}
             defaultValue={values.intent === "settings" ? values.nitrateHigh : tank.nitrateHigh}
             error={errors.nitrateHigh}
           />
