@@ -77,7 +77,7 @@ function KitField({
         inputMode="decimal"
         defaultValue={values[`step.${kit.species}`] ?? (kit.step !== null ? String(kit.step) : "")}
         error={errors[`step.${kit.species}`]}
-        hint="In the units you read the kit in."
+        hint={`In ${kit.unit}, your units.`}
       />
     </div>
   );

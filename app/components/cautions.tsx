@@ -9,9 +9,21 @@ export function FooterCaution() {
 }
 
 /** The cautions panel of every results view (the brief's list), plus the tap-water warning when it applies. */
-export function CautionsPanel({ tapNitrateAboveDrinkingLimit, tapNitrateText }: { tapNitrateAboveDrinkingLimit: boolean; tapNitrateText: string }) {
+export function CautionsPanel({
+  tapNitrateAboveDrinkingLimit,
+  tapNitrateText,
+  limitText,
+}: {
+  tapNitrateAboveDrinkingLimit: boolean;
+  tapNitrateText: string;
+  /** The WHO limit in the same units as tapNitrateText: "50 mg/L NO3", "11.3 mg/L NO3-N". */
+  limitText: string;
+}) {
   return (
-    <aside className="rounded-lg border border-amber-300 bg-amber-50 p-4 text-sm text-stone-800" aria-labelledby="cautions-title">
+    <aside
+      className="rounded-lg border border-amber-300 bg-amber-50 p-4 text-sm text-stone-800"
+      aria-labelledby="cautions-title"
+    >
       <h2 id="cautions-title" className="mb-2 text-base font-semibold">
         Before you act on this
       </h2>
@@ -22,7 +34,7 @@ export function CautionsPanel({ tapNitrateAboveDrinkingLimit, tapNitrateText }: 
         <li>Never release aquarium plants or animals into the wild: many become invasive.</li>
         {tapNitrateAboveDrinkingLimit ? (
           <li className="font-semibold text-red-900">
-            The tap nitrate entered ({tapNitrateText}) is above the drinking-water limit of 50 mg/L as NO3 (WHO). That is a
+            The tap nitrate entered ({tapNitrateText}) is above the drinking-water limit of {limitText} (WHO). That is a
             matter for your local water supplier and health advice, not for this app.
           </li>
         ) : null}

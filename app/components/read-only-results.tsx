@@ -70,6 +70,7 @@ export function ReadOnlyResults({
       <CautionsPanel
         tapNitrateAboveDrinkingLimit={results?.tapNitrateAboveDrinkingLimit ?? false}
         tapNitrateText={results ? `${formatNumber(results.tapNitrateDisplay)} ${results.labels.nitrate}` : ""}
+        limitText={results ? `${formatNumber(results.tapNitrateLimitDisplay)} ${results.labels.nitrate}` : ""}
       />
     </div>
   );

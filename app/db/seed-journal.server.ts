@@ -5,6 +5,7 @@
  * invented history, on the readings' timeline (day 0 is 35 days before the seed).
  */
 import type { EntryInput } from "~/features/journal/journal-entries";
+import type { JournalEntry } from "~/features/journal/journal.server";
 import type { Db } from "~/db/client.server";
 import { journalEntries } from "~/db/schema-care";
 import { DAY_MS, startOfDay } from "~/utils/dates";
@@ -26,11 +27,22 @@ const MONTH: [number, EntryInput["kind"], EntryInput["details"], string][] = [
   [26.5, "note", {}, "stems look pale"],
 ];
 
+/** The demo month's entries, oldest first, on a timeline whose day 0 starts at `start` (ms). */
+export function demoJournalEntries(start: number): JournalEntry[] {
+  return MONTH.map(([day, kind, details, note], id) => ({
+    id,
+    doneAt: start + Math.round(day * 24 * 60) * 60_000,
+    kind,
+    details,
+    note,
+  })).sort((a, b) => a.doneAt - b.doneAt);
+}
+
 export function seedDemoJournal(tx: Tx, tankId: number, now = Date.now()): void {
   const start = startOfDay(now) - 35 * DAY_MS;
-  for (const [day, kind, details, note] of MONTH) {
+  for (const { doneAt, kind, details, note } of demoJournalEntries(start)) {
     tx.insert(journalEntries)
-      .values({ tankId, doneAt: new Date(start + Math.round(day * 24 * 60) * 60_000), kind, details, note })
+      .values({ tankId, doneAt: new Date(doneAt), kind, details, note })
       .run();
   }
 }

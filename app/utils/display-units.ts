@@ -2,7 +2,7 @@
  * The units a person sees, from their account preferences. Isomorphic: the conversions and the
  * unit labels are the engine's one units table (models/units.ts), which runs in the browser too.
  */
-import { unitSymbol, UNITS, type DisplayUnits } from "~models/units";
+import { speciesFactor, unitSymbol, UNITS, type DisplayUnits } from "~models/units";
 import { formatSignificant } from "~/utils/format";
 
 export type { DisplayUnits } from "~models/units";
@@ -18,7 +18,12 @@ export const PREFERENCE_CHOICES = {
 export type UnitPreferences = { [K in keyof typeof PREFERENCE_CHOICES]: (typeof PREFERENCE_CHOICES)[K][number] };
 
 /** Metric, nitrate as NO3: what an anonymous viewer sees. */
-export const DEFAULT_PREFERENCES: UnitPreferences = { volumeUnit: "L", temperatureUnit: "C", nitrateUnit: "NO3", khUnit: "dKH" };
+export const DEFAULT_PREFERENCES: UnitPreferences = {
+  volumeUnit: "L",
+  temperatureUnit: "C",
+  nitrateUnit: "NO3",
+  khUnit: "dKH",
+};
 
 /**
  * "As NO3" readers see each species as its own ion or molecule (NO3, NO2, NH3 — hobby kits
@@ -75,4 +80,12 @@ export function unitLabels(u: DisplayUnits): UnitLabels {
 export function formatNumber(x: number | null | undefined, digits = 3): string {
   if (x != null && Number.isFinite(x) && Math.abs(x) >= 1000) return Math.round(x).toLocaleString("en");
   return formatSignificant(x, digits);
+}
+
+/**
+ * An amount of nitrate (mg N/L) in words, in the reader's units: "40 mg/L NO3" or "9.04 mg/L
+ * NO3-N". The one way sentences (forecasts, presets, cautions) state nitrate.
+ */
+export function nitrateText(mgN: number, u: DisplayUnits): string {
+  return `${formatNumber(mgN * speciesFactor("nitrate", u), 3)} ${unitSymbol("nitrate", u.nitrate)}`;
 }

@@ -36,8 +36,11 @@ export interface Preset {
   id: string;
   /** Our own invented name for the demo tank. */
   name: string;
-  /** What it shows, in one or two sentences. */
-  description: string;
+  /**
+   * What it shows, in one or two sentences; an amount of nitrate in the reader's own units
+   * through `nitrate` (mg N/L → "40 mg/L NO3" or "9.04 mg/L NO3-N").
+   */
+  describe: (nitrate: (mgN: number) => string) => string;
   scenario: ScenarioInput;
 }
 
@@ -45,7 +48,7 @@ export const PRESETS: readonly Preset[] = [
   {
     id: "first-light-fishless",
     name: "First Light — a new tank cycled without fish",
-    description:
+    describe: () =>
       "A 60 L tank with a brand-new filter, dosed with ammonia every other day until the bacteria keep up. Ammonia peaks first, then nitrite, then nitrate climbs. Weekly water changes keep the KH from running out.",
     scenario: {
       water: { volumeL: 60, temperatureC: 26, pH: 7.4, khDkh: 7, startTan: 0, startNitrite: 0, startNitrate: 0 },
@@ -61,7 +64,7 @@ export const PRESETS: readonly Preset[] = [
   {
     id: "fern-hollow",
     name: "Fern Hollow — lightly stocked, heavily planted",
-    description:
+    describe: () =>
       "A 120 L tank with a few small fish, dense stem plants, a floating carpet and slow rosettes. Plants take nearly all the nitrogen, so nitrate sits below the target band (a case for fertiliser); trimming is the main way nitrogen leaves.",
     scenario: {
       water: { volumeL: 120, temperatureC: 24, pH: 6.9, khDkh: 3, startNitrate: no3(10) },
@@ -78,7 +81,7 @@ export const PRESETS: readonly Preset[] = [
   {
     id: "crowded-reach",
     name: "Crowded Reach — heavily stocked, few plants",
-    description:
+    describe: () =>
       "A 200 L tank full of active fish eating generously, with a handful of slow plants. Nitrate climbs between water changes.",
     scenario: {
       water: { volumeL: 200, temperatureC: 26, pH: 7.5, khDkh: 8, startNitrate: no3(20) },
@@ -93,8 +96,8 @@ export const PRESETS: readonly Preset[] = [
   {
     id: "hard-spring",
     name: "Hard Spring — tap water already high in nitrate",
-    description:
-      "A 100 L planted tank whose tap water carries 40 mg/L nitrate as NO3: every water change adds nitrate. Blending in reverse-osmosis water is the fix to try.",
+    describe: (nitrate) =>
+      `A 100 L planted tank whose tap water already carries nitrate, ${nitrate(no3(40))}: every water change adds more. Blending in reverse-osmosis water is the fix to try.`,
     scenario: {
       water: { volumeL: 100, temperatureC: 25, pH: 7.6, khDkh: 8, startNitrate: no3(40) },
       fish: { feedGPerDay: 0.8 },

@@ -1,7 +1,7 @@
 /**
  * The chart shows the danger (issue 12, item 5): stacked panels on one time axis and one day
  * cursor, the toxic species on their own scale, no two labels over each other, text large enough
- * to read — on results, compare, share and the presentation, for a new tank at pH 8 and 28 °C
+ * to read — on results, compare (with the plants' panel when there are plants), share and the presentation, for a new tank at pH 8 and 28 °C
  * whose new filter lets ammonia peak high.
  */
 import type { Page } from "playwright-core";
@@ -144,6 +144,38 @@ describe("stacked chart panels", () => {
     // The link is turned off again, so the demo data stay as other tests expect.
     await page.getByRole("button", { name: "Turn the link off" }).click();
     await expect.poll(() => page.getByRole("button", { name: "Turn on a public link" }).count()).toBe(1);
+  });
+
+  it("compare with plants: plant mass on a third panel under nitrate, same axis and cursor, no overlaps, text ≥ 11 px", async () => {
+    const page = await newPage({ width: 1280 });
+    await signIn(page, DEMO.jonah, DEMO.password);
+    await page.getByRole("link", { name: "Living-room 120" }).first().click();
+    await page.waitForURL(/\/tanks\/\d+$/);
+    await page.getByLabel("Compare Baseline", { exact: true }).check();
+    await page.getByLabel("Compare With floating plants", { exact: true }).check();
+    await page.getByRole("button", { name: /Compare the ticked scenarios/ }).click();
+    await page.waitForURL(/\/compare\?/);
+    for (const [species, panels] of [
+      ["no3", ["compare-no3", "compare-plants"]],
+      ["tan", ["compare-tan", "compare-no3", "compare-plants"]],
+    ] as const) {
+      await page.getByLabel("Show", { exact: true }).selectOption(species);
+      await page.getByRole("button", { name: "Compare", exact: true }).click();
+      await page.waitForURL(new RegExp(`species=${species}`));
+      await page.locator('[role="application"] svg [data-panel="compare-plants"]').waitFor();
+      const facts = await chartFacts(page);
+      await page
+        .locator('[role="application"]')
+        .first()
+        .screenshot({ path: `test-results/screenshots/panels-compare-plants-${species}-chart.png` });
+      expect(facts.panels).toEqual(panels);
+      expect(facts.overlaps).toEqual([]);
+      // At least 11 px on a page: common practice, no source.
+      expect(facts.smallest.size).toBeGreaterThanOrEqual(11);
+      expect((await cursorXs(page)).length).toBe(panels.length);
+      await cursorMovesTogether(page, "compare-plants");
+    }
+    expectNoConsoleErrors(page);
   });
 
   it("the presentation at 1920×1080: the chart fills the screen's width and its text is at least 18 px", async () => {

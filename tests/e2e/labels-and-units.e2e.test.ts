@@ -109,22 +109,33 @@ describe("hints follow the person's units", () => {
         if (path.startsWith("/account")) return;
         const { text, names } = await readPage(page);
         for (const line of [text, ...names].join("\n").split("\n")) {
-          // Known exceptions, each saying its own unit beside a fact in that unit: the journal's
-          // tap-water field (its CSV column is tap_nitrate_no3_mg_l), the upload's choice of the
-          // file's unit, a kit's resolution in the kit's unit, a preset's story.
-          if (
-            /Tap water nitrate if measured|tap water [\d.]+ mg\/L NO3|mg\/L as NO3 \(most kits\)|steps of [\d.]+ mg\/L NO3|carries [\d.]+ mg\/L nitrate as NO3/.test(
-              line,
-            )
-          )
-            continue;
-          // A nitrate amount in mg/L NO3 (not NO3-N) is in the wrong unit for this person; "NO3"
-          // alone names the species (a legend), not a unit.
-          if (/mg\/L( as)? NO3\b(?!-N)/.test(line)) found.push(`${path}: ${line.trim().slice(0, 120)}`);
+          // The one exception: the readings upload's choice of the unit a file is written in.
+          if (/mg\/L as NO3 \(most kits\)/.test(line)) continue;
+          // A nitrate unit in mg/L NO3 (not NO3-N) is the wrong unit for this person, and so is an
+          // amount stated that way ("40 mg/L nitrate as NO3"); "NO3" alone names the species (a
+          // legend, "the file keeps tap nitrate as nitrate (NO3)"), not a unit.
+          if (/mg\/L( as)? NO3\b(?!-N)/.test(line) || /\d\s*mg\/L(\s+(as|nitrate|of))+\s+NO3\b(?!-N)/.test(line))
+            found.push(`${path}: ${line.trim().slice(0, 120)}`);
         }
       });
       expect([...seen].some((p) => /\/journal$/.test(p))).toBe(true);
+      expect([...seen].some((p) => /\/calibrate$/.test(p))).toBe(true);
+      expect([...seen].some((p) => /\/scenarios\/new$/.test(p))).toBe(true);
       expect(found).toEqual([]);
+      // The journal's tap nitrate: typed in NO3-N, listed back as typed, in NO3-N.
+      const journal = [...seen].find((p) => /\/journal$/.test(p))!;
+      await page.goto(journal);
+      await page.getByLabel("What was done").selectOption("water_change");
+      await page.getByLabel("Water changed, %").fill("20");
+      await page.getByLabel("Tap water nitrate if measured, mg/L NO3-N").fill("2.37");
+      await page.getByLabel("Note").fill("tap in N");
+      await page.getByRole("button", { name: "Add to the journal" }).click();
+      const row = page.getByRole("row").filter({ hasText: "tap in N" }).first();
+      await row.waitFor();
+      expect(await row.textContent()).toContain("20 % changed, tap water 2.37 mg/L NO3-N");
+      await shot(page, "labels-no3n-journal");
+      await row.getByRole("button", { name: /^Delete the entry of/ }).click();
+      await page.getByText("Entry deleted.").waitFor();
       await page.goto("/tanks");
       await page.getByRole("link", { name: /.+/ }).first().waitFor();
       await shot(page, "labels-no3n-tanks");

@@ -13,7 +13,7 @@ import { action as workAction, loader as workLoader } from "~/routes/classes/les
 import { action as classesAction, loader as classesLoader } from "~/routes/classes/list";
 import { loader as presentLoader } from "~/routes/classes/present";
 import { action as editAction, loader as editLoader } from "~/routes/scenarios/edit";
-import { action as tankAction } from "~/routes/tanks/detail";
+import { action as tankAction, loader as tankLoader } from "~/routes/tanks/detail";
 import { ScenarioSchema } from "../../models";
 import type { ScenarioFormModel } from "~/features/scenarios/scenario-form-types";
 import { unpackSeries } from "~/features/runs/series-packing";
@@ -348,6 +348,39 @@ describe("lessons", () => {
     const again = await call(lessonAction, post(`/classes/${params.classId}/lessons/${params.lessonId}`, { intent: "start" }, student.cookie), params);
     expect(again.location).toBe(workPath);
     expect(getDb().select().from(lessonCopies).where(eq(lessonCopies.lessonId, Number(params.lessonId))).all()).toHaveLength(1);
+  });
+
+  it("freezes a handed-in copy's key figures: its tank's nitrate band cannot be changed afterwards, its name can", async () => {
+    const { teacher, student, workPath, params, classId, lessonId, copy } = await startedCopy();
+    expect((await call(workAction, post(workPath, { intent: "hand-in", answer: "Nitrate climbs." }, student.cookie), params)).status).toBe(302);
+    const figuresNow = async () =>
+      (await call(lessonLoader, get(`/classes/${classId}/lessons/${lessonId}`, teacher.cookie), params)).data.handIns[0].copy.figures;
+    const before = await figuresNow();
+    const tank = getDb().select().from(tanks).innerJoin(scenarios, eq(scenarios.tankId, tanks.id)).where(eq(scenarios.id, copy.scenarioId)).get()!.tanks;
+    const tankId = String(tank.id);
+    // A band of 0–1 mg/L NO3 would put every day of the run above the target (our own worked example).
+    const moved = await call(
+      tankAction,
+      post(`/tanks/${tankId}`, { intent: "settings", name: tank.name, notes: tank.notes ?? "", nitrateLow: "0", nitrateHigh: "1" }, student.cookie),
+      { tankId },
+    );
+    expect(moved.status).toBe(409);
+    expect(moved.data.errors.nitrateLow).toMatch(/handed in/);
+    const after = getDb().select().from(tanks).where(eq(tanks.id, tank.id)).get()!;
+    expect([after.nitrateTargetLow, after.nitrateTargetHigh]).toEqual([tank.nitrateTargetLow, tank.nitrateTargetHigh]);
+    // The student opens the copy again (a new band would make a new run); the teacher's figures stay.
+    await call(workLoader, get(workPath, student.cookie), params);
+    expect(await figuresNow()).toEqual(before);
+    // The tank's name may still change; the band as the form shows it goes back unchanged.
+    const page = await call(tankLoader, get(`/tanks/${tankId}`, student.cookie), { tankId });
+    expect(page.data.bandKept).toBe(true);
+    expect(page.data.nitrateHint).toMatch(/handed in/);
+    const band = { nitrateLow: page.data.tank.nitrateLow, nitrateHigh: page.data.tank.nitrateHigh };
+    const renamed = await call(tankAction, post(`/tanks/${tankId}`, { intent: "settings", name: "My class tank", notes: "", ...band }, student.cookie), { tankId });
+    expect(renamed.status).toBe(302);
+    const kept = getDb().select().from(tanks).where(eq(tanks.id, tank.id)).get()!;
+    expect(kept.name).toBe("My class tank");
+    expect([kept.nitrateTargetLow, kept.nitrateTargetHigh]).toEqual([tank.nitrateTargetLow, tank.nitrateTargetHigh]);
   });
 
   it("shows the teacher what a student changed, locked settings flagged", async () => {

@@ -126,6 +126,9 @@ describe("the demo story", () => {
     const feed = result.multipliers.find((m) => m.key === "feedLoad")!;
     // Recovery of a known truth: the readings were drawn from a run with feed load 1.15.
     expect(Math.abs(feed.value / DEMO_TRUE_FEED_LOAD - 1)).toBeLessThan(0.08);
+    // …and its 95 % range covers that truth (how often such ranges do: demo-readings-coverage.test.ts).
+    expect(feed.low95!).toBeLessThanOrEqual(DEMO_TRUE_FEED_LOAD);
+    expect(feed.high95!).toBeGreaterThanOrEqual(DEMO_TRUE_FEED_LOAD);
     expect(feed.determined).toBe(true);
     const no3 = result.rmse.find((r) => r.species === "no3")!;
     // After the fit the curve runs through the readings: within about the photometer's scatter (1 mg/L).

@@ -62,6 +62,88 @@ describe("the journal", () => {
     expect(page.data.entries[0].what).toContain("50 % changed");
   });
 
+  it("a keeper who reads nitrate as N types tap nitrate in mg/L NO3-N: label, range and message in N, stored exactly, shown as typed; the CSV keeps NO3", async () => {
+    const { keeper, tankId } = await keeperWithTank();
+    getDb().update(users).set({ nitrateUnit: "N" }).where(eq(users.id, keeper.id)).run();
+    const page0 = await call(pageLoader, get(`/tanks/${tankId}/journal`, keeper.cookie), { tankId });
+    expect(page0.data.units).toEqual({ nitrate: "asN", ammonia: "asN" });
+    // 400 mg/L NO3, the field's ceiling, is 90.4 mg/L NO3-N: × 14.007 / 62.004 (IUPAC atomic
+    // weights N 14.007, O 15.999; docs/sources.md §0).
+    const tooMuch = await call(
+      pageAction,
+      post(
+        `/tanks/${tankId}/journal`,
+        { intent: "add", date: day(3), kind: "water_change", water_changed_percent: "50", tap_nitrate_no3_mg_l: "95" },
+        keeper.cookie,
+      ),
+      { tankId },
+    );
+    expect(tooMuch.status).toBe(400);
+    expect(tooMuch.data.errors.tap_nitrate_no3_mg_l).toBe("Tap water nitrate must be between 0 and 90.4 mg/L NO3-N");
+    expect(stored(Number(tankId))).toHaveLength(0);
+
+    const r = await call(
+      pageAction,
+      post(
+        `/tanks/${tankId}/journal`,
+        {
+          intent: "add",
+          date: day(3),
+          kind: "water_change",
+          water_changed_percent: "50",
+          tap_nitrate_no3_mg_l: "2.37",
+        },
+        keeper.cookie,
+      ),
+      { tankId },
+    );
+    expect(r.status).toBe(200);
+    // Typed as N, stored as N: no conversion at all.
+    expect((stored(Number(tankId))[0].details as { tapNitrateMgN: number }).tapNitrateMgN).toBe(2.37);
+    const page = await call(pageLoader, get(`/tanks/${tankId}/journal`, keeper.cookie), { tankId });
+    expect(page.data.entries[0].what).toBe("50 % changed, tap water 2.37 mg/L NO3-N");
+    // The file keeps its column's unit, mg/L NO3: 2.37 × 62.004 / 14.007 = 10.491 (IUPAC atomic weights).
+    const exported = await call(exportLoader, get(`/tanks/${tankId}/journal/export`, keeper.cookie), { tankId });
+    const csv = String((exported as unknown as { data: unknown }).data);
+    const [header, row] = csv.replace(/^\uFEFF/, "").split(/\r?\n/);
+    const cell = Number(row.split(",")[header.split(",").indexOf("tap_nitrate_no3_mg_l")]);
+    expect(cell).toBeCloseTo((2.37 * 62.004) / 14.007, 3);
+  });
+
+  it("a value typed in mg/L NO3 comes back exactly as typed, however many figures", async () => {
+    const { keeper, tankId } = await keeperWithTank();
+    await call(
+      pageAction,
+      post(
+        `/tanks/${tankId}/journal`,
+        {
+          intent: "add",
+          date: day(3),
+          kind: "water_change",
+          water_changed_percent: "33.3",
+          tap_nitrate_no3_mg_l: "12.345",
+        },
+        keeper.cookie,
+      ),
+      { tankId },
+    );
+    const mgN = (stored(Number(tankId))[0].details as { tapNitrateMgN: number }).tapNitrateMgN;
+    // mg/L NO3 → mg N/L: × 14.007 / 62.004 (IUPAC atomic weights; docs/sources.md §0).
+    expect(mgN).toBeCloseTo((12.345 * 14.007) / 62.004, 10);
+    const list = await call(journalApi, get(`/api/tanks/${tankId}/journal`, keeper.cookie), { tankId });
+    const entryId = String(list.data.entries[0].id);
+    // Changing only the note through the API keeps the nitrate as it was (the fields' text round trip is exact).
+    const patched = await call(
+      entryApi,
+      postJson(`/api/tanks/${tankId}/journal/${entryId}`, { note: "checked" }, keeper.cookie, "PATCH"),
+      { tankId, entryId },
+    );
+    expect(patched.status).toBe(200);
+    expect((stored(Number(tankId))[0].details as { tapNitrateMgN: number }).tapNitrateMgN).toBe(mgN);
+    const page = await call(pageLoader, get(`/tanks/${tankId}/journal`, keeper.cookie), { tankId });
+    expect(page.data.entries[0].what).toBe("33.3 % changed, tap water 12.35 mg/L NO3");
+  });
+
   it("refuses a form with a field next to it and stores nothing", async () => {
     const { keeper, tankId } = await keeperWithTank();
     const r = await call(
@@ -116,7 +198,11 @@ describe("the journal", () => {
     const page0 = await call(pageLoader, get(`/tanks/${tankId}/journal`, keeper.cookie), { tankId });
     expect(page0.data.replay).toBeNull();
     const settings = readStoredSettings(
-      getDb().select().from(scenarios).where(eq(scenarios.tankId, Number(tankId))).get()!.settings,
+      getDb()
+        .select()
+        .from(scenarios)
+        .where(eq(scenarios.tankId, Number(tankId)))
+        .get()!.settings,
     )!;
     const group = settings.plants[0];
     expect(group).toBeDefined();

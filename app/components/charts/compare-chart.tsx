@@ -151,8 +151,9 @@ export const CompareChart = memo(function CompareChart({
     [guides],
   );
 
-  // The picked species on its own scale; below it, nitrate with its target band, on the same time
-  // axis and cursor, so a toxic peak is never flattened under tens of mg/L of nitrate.
+  // The picked species on its own scale; below it, nitrate with its target band and the plants'
+  // mass, on the same time axis and cursor, so a toxic peak is never flattened under tens of mg/L
+  // of nitrate.
   const panels = useMemo((): FramePanel[] => {
     const scale = height / 340;
     const picked = guidesOf(species);
@@ -177,8 +178,19 @@ export const CompareChart = memo(function CompareChart({
         height: Math.round(150 * scale),
       });
     }
+    // Plant mass on a third panel, as on the results chart: what the plants took up, same days.
+    if (species !== "plants" && hasPlants) {
+      out.push({
+        key: "compare-plants",
+        label: `${SERIES_NAMES.plants.long}, ${unitOf("plants", units)}`,
+        lines: linesOf("plants"),
+        bands: [],
+        guides: [],
+        height: Math.round(100 * scale),
+      });
+    }
     return out;
-  }, [species, lines, linesOf, guidesOf, units, height]);
+  }, [species, lines, linesOf, guidesOf, units, height, hasPlants]);
 
   const valuesAt = useCallback(
     (i: number) => {

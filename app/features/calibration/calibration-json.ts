@@ -14,7 +14,10 @@ export type KitView = {
   name: string;
   choice: Exclude<KitChoice, "auto">;
   step: number | null;
+  /** "rounded to steps of 0.113 mg/L NO3-N", in the person's units. */
   text: string;
+  /** The unit the step is typed in: the person's ("mg/L NO3-N"). */
+  unit: string;
   inferred: boolean;
 };
 

@@ -11,6 +11,8 @@ import {
   calibrateMultipliers,
   DEFAULT_CARDS,
   describeKit,
+  kitStepIn,
+  kitUnit,
   KIT_UNITS,
   kitsFor,
   KitSchema,
@@ -98,13 +100,16 @@ function defaultCard(species: Species, unit: string): Kit {
   return { kind: "card", unit: unit === "asN" ? KIT_UNITS[species][0].id : unit, values: [...DEFAULT_CARDS[species]] };
 }
 
-function kitView(k: { species: Species; kit: Kit; inferred: boolean }): KitView {
+/** A kit for the page, in the person's units: its words, and its step as the step field takes it. */
+function kitView(k: { species: Species; kit: Kit; inferred: boolean }, units: DisplayUnits): KitView {
+  const shownIn = preferredUnits(units)[k.species];
   return {
     species: k.species,
     name: SPECIES_NAME[k.species],
     choice: k.kit.kind,
-    step: k.kit.kind === "steps" ? k.kit.step : null,
-    text: describeKit(k.species, k.kit),
+    step: k.kit.kind === "steps" ? kitStepIn(k.species, k.kit, shownIn) : null,
+    text: describeKit(k.species, k.kit, shownIn),
+    unit: kitUnit(k.species, shownIn).label,
     inferred: k.inferred,
   };
 }
@@ -123,7 +128,7 @@ function toJson(
     scenario,
     readingsUsed: readings.length,
     residualCount: r.residualCount,
-    kits: r.kits.map(kitView),
+    kits: r.kits.map((k) => kitView(k, units)),
     multipliers: r.multipliers.map((m) => ({
       key: m.key,
       label: MULTIPLIER_LABELS[m.key].label,
@@ -318,7 +323,7 @@ export async function assessCalibration(
         ),
     });
     return {
-      kits: a.kits.map(kitView),
+      kits: a.kits.map((k) => kitView(k, units)),
       multipliers: a.multipliers.map((m) => ({
         key: m.key,
         determinable: m.determinable,
@@ -335,7 +340,7 @@ export async function assessCalibration(
 /** The kits the readings in the run suggest (no model runs), for the form when there is no assessment. */
 export function inferredKits(tankId: number, scenario: Scenario, startMs: number, units: DisplayUnits): KitView[] {
   const readings = readingsForCalibration(tankId, startMs, scenario.run.lengthDays);
-  return kitsFor(readings, {}, preferredUnits(units)).map(kitView);
+  return kitsFor(readings, {}, preferredUnits(units)).map((k) => kitView(k, units));
 }
 
 export const SaveFittedSchema = z.object({

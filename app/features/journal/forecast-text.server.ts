@@ -2,16 +2,12 @@
  * The forecast in plain words, in the person's units: one sentence for the journal page and
  * the reminder e-mails alike.
  */
-import { speciesFactor } from "~models/units";
 import type { Forecast } from "~/features/journal/journal-replay.server";
-import { formatNumber, unitLabels, type DisplayUnits } from "~/utils/display-units";
+import { nitrateText, type DisplayUnits } from "~/utils/display-units";
 
 /** "14 December" (UTC). */
 export const dayText = (ms: number) =>
   new Date(ms).toLocaleDateString("en-GB", { day: "numeric", month: "long", timeZone: "UTC" });
-/** Nitrate in the person's units: "25 mg/L NO3" or "5.65 mg/L NO3-N". */
-const no3Text = (mgN: number, units: DisplayUnits) =>
-  `${formatNumber(mgN * speciesFactor("nitrate", units), 3)} ${unitLabels(units).nitrate}`;
 
 /**
  * "Nitrate passes your upper target of 25 mg/L NO3 around 14 December (40 mg/L NO3 before the
@@ -21,8 +17,8 @@ export function forecastSentence(f: Forecast | null, units: DisplayUnits): strin
   if (!f) return null;
   if (f.kind === "below")
     return `Under your planned schedule nitrate stays below your upper target for the next ${f.horizonDays} days.`;
-  const cross = `Nitrate passes your upper target of ${no3Text(f.high, units)} around ${dayText(f.crossMs)} (${no3Text(f.peak, units)} before the next planned change)`;
+  const cross = `Nitrate passes your upper target of ${nitrateText(f.high, units)} around ${dayText(f.crossMs)} (${nitrateText(f.peak, units)} before the next planned change)`;
   if (!f.fix)
     return `${cross}; even a 90 % change two days before does not keep it below: look at feeding and the plan.`;
-  return `${cross}; a ${Math.round(f.fix.share * 100)} % change by ${dayText(f.fix.byMs)} keeps it below ${no3Text(f.high, units)} until ${dayText(f.fix.untilMs)}.`;
+  return `${cross}; a ${Math.round(f.fix.share * 100)} % change by ${dayText(f.fix.byMs)} keeps it below ${nitrateText(f.high, units)} until ${dayText(f.fix.untilMs)}.`;
 }

@@ -4,10 +4,12 @@
  * form's field names, with the unit in the name). Client-safe: the page's form uses the labels.
  *
  * Stored canonical: shares as fractions, nitrate and ammonia in mg N/L, plant dry mass in g,
- * feed in g a day.
+ * feed in g a day. Amounts of nitrate and ammonia are typed and read in the units of the text
+ * they come in: a person's own units on the page's form, the column's own unit (its name says
+ * it: `tap_nitrate_no3_mg_l`, `ammonia_n_mg_l`) in the CSV file and the API.
  */
 import { z } from "zod";
-import { toCanonical, fromCanonical } from "~models/units";
+import { toCanonical, fromCanonical, unitSymbol, type DisplayUnits } from "~models/units";
 
 export const ENTRY_KINDS = {
   water_change: "Water change",
@@ -48,10 +50,10 @@ export const ENTRY_FIELDS = [
 ] as const;
 export type EntryField = (typeof ENTRY_FIELDS)[number];
 
-export const FIELD_LABELS: Record<EntryField, string> = {
+const FIELD_NAMES: Record<EntryField, string> = {
   water_changed_percent: "Water changed, %",
   water_changed_l: "or water changed, litres",
-  tap_nitrate_no3_mg_l: "Tap water nitrate if measured, mg/L NO3",
+  tap_nitrate_no3_mg_l: "Tap water nitrate if measured",
   ro_percent: "RO water in the change water, %",
   filter_thoroughness: "How thoroughly",
   gravel_cleaned_percent: "Detritus siphoned, % of the gravel",
@@ -59,8 +61,31 @@ export const FIELD_LABELS: Record<EntryField, string> = {
   plant_dry_g: "Dry mass, g",
   feed_g_per_day: "Food from this date, g a day",
   fish_count: "How many fish",
-  ammonia_n_mg_l: "Ammonia dosed, mg/L as N",
+  ammonia_n_mg_l: "Ammonia dosed",
 };
+
+/** The units amounts of nitrate and ammonia are written in (unit ids of models/units.ts). */
+export type FieldUnits = Pick<DisplayUnits, "nitrate" | "ammonia">;
+
+/** The CSV file's and the API's units, as the columns' names say: nitrate as NO3, ammonia as N. */
+export const FILE_UNITS: FieldUnits = { nitrate: "asNO3", ammonia: "asN" };
+
+/**
+ * Fields that hold an amount of a dissolved species: which quantity, its name in messages, and
+ * the range accepted, in the file's units (a person's units get the same range, converted).
+ */
+const SPECIES_FIELDS: Partial<
+  Record<EntryField, { quantity: keyof FieldUnits; name: string; min: number; max: number }>
+> = {
+  tap_nitrate_no3_mg_l: { quantity: "nitrate", name: "Tap water nitrate", min: 0, max: 400 },
+  ammonia_n_mg_l: { quantity: "ammonia", name: "Ammonia dosed", min: 0.01, max: 10 },
+};
+
+/** A field's label, an amount's with its unit in `units`: "Tap water nitrate if measured, mg/L NO3-N". */
+export function fieldLabel(f: EntryField, units: FieldUnits = FILE_UNITS): string {
+  const sp = SPECIES_FIELDS[f];
+  return sp ? `${FIELD_NAMES[f]}, ${unitSymbol(sp.quantity, units[sp.quantity])}` : FIELD_NAMES[f];
+}
 
 /** Which fields each kind uses (the form shows only these; others must be empty). */
 export const KIND_FIELDS: Record<EntryKind, readonly EntryField[]> = {
@@ -96,7 +121,7 @@ export type EntryInput = { doneAt: number; kind: EntryKind; details: EntryDetail
 
 export const MAX_JOURNAL_NOTE = 500;
 
-const num = (label: string, min: number, max: number) =>
+const num = (label: string, min: number, max: number, unit = "") =>
   z
     .string()
     .trim()
@@ -108,40 +133,63 @@ const num = (label: string, min: number, max: number) =>
         return z.NEVER;
       }
       if (n < min || n > max) {
-        ctx.addIssue({ code: "custom", message: `${label} must be between ${min} and ${max}` });
+        ctx.addIssue({ code: "custom", message: `${label} must be between ${min} and ${max}${unit && ` ${unit}`}` });
         return z.NEVER;
       }
       return n;
     });
 
-const FlatSchema = z.object({
-  kind: z.enum(KIND_IDS, { error: `Kind must be one of: ${KIND_IDS.join(", ")}` }),
-  water_changed_percent: num("Water changed (%)", 1, 95),
-  water_changed_l: num("Water changed (litres)", 0.1, 100000),
-  tap_nitrate_no3_mg_l: num("Tap water nitrate", 0, 400),
-  ro_percent: num("RO share (%)", 0, 100),
-  filter_thoroughness: z
-    .string()
-    .trim()
-    .refine((t) => t === "" || t in THOROUGHNESS, {
-      message: `How thoroughly must be one of: ${Object.keys(THOROUGHNESS).join(", ")}`,
-    }),
-  gravel_cleaned_percent: num("Detritus siphoned (%)", 1, 100),
-  plant_group: z.string().trim().max(60, { error: "The plant group's name is at most 60 characters" }),
-  plant_dry_g: num("Dry mass (g)", 0.01, 10000),
-  feed_g_per_day: num("Food (g a day)", 0, 1000),
-  fish_count: num("How many fish", 1, 1000),
-  ammonia_n_mg_l: num("Ammonia dosed", 0.01, 10),
-});
+/** An amount field's check in `units`: the file's range converted, to 3 significant figures, named with its unit. */
+function amount(f: EntryField, units: FieldUnits) {
+  const sp = SPECIES_FIELDS[f]!;
+  const unit = units[sp.quantity];
+  const bound = (v: number) =>
+    v === 0
+      ? 0
+      : Number(fromCanonical(sp.quantity, toCanonical(sp.quantity, v, FILE_UNITS[sp.quantity]), unit).toPrecision(3));
+  return num(sp.name, bound(sp.min), bound(sp.max), unitSymbol(sp.quantity, unit));
+}
+
+function flatSchema(units: FieldUnits) {
+  return z.object({
+    kind: z.enum(KIND_IDS, { error: `Kind must be one of: ${KIND_IDS.join(", ")}` }),
+    water_changed_percent: num("Water changed (%)", 1, 95),
+    water_changed_l: num("Water changed (litres)", 0.1, 100000),
+    tap_nitrate_no3_mg_l: amount("tap_nitrate_no3_mg_l", units),
+    ro_percent: num("RO share (%)", 0, 100),
+    filter_thoroughness: z
+      .string()
+      .trim()
+      .refine((t) => t === "" || t in THOROUGHNESS, {
+        message: `How thoroughly must be one of: ${Object.keys(THOROUGHNESS).join(", ")}`,
+      }),
+    gravel_cleaned_percent: num("Detritus siphoned (%)", 1, 100),
+    plant_group: z.string().trim().max(60, { error: "The plant group's name is at most 60 characters" }),
+    plant_dry_g: num("Dry mass (g)", 0.01, 10000),
+    feed_g_per_day: num("Food (g a day)", 0, 1000),
+    fish_count: num("How many fish", 1, 1000),
+    ammonia_n_mg_l: amount("ammonia_n_mg_l", units),
+  });
+}
+
+/** One schema per pair of units (a file's thousands of rows share one). */
+const schemas = new Map<string, ReturnType<typeof flatSchema>>();
+function schemaFor(units: FieldUnits) {
+  const key = `${units.nitrate}|${units.ammonia}`;
+  let hit = schemas.get(key);
+  if (!hit) schemas.set(key, (hit = flatSchema(units)));
+  return hit;
+}
 
 type FieldErrors = Partial<Record<EntryField | "kind", string>>;
 
 /**
  * Text fields (a form or a CSV row) → the entry's kind and details, or field errors. Fields the
- * kind does not use must be empty; those it needs must be there.
+ * kind does not use must be empty; those it needs must be there. Amounts are read in `units`.
  */
 export function readEntryFields(
   fields: Partial<Record<EntryField | "kind", string>>,
+  units: FieldUnits = FILE_UNITS,
 ): { ok: true; kind: EntryKind; details: EntryDetails } | { ok: false; errors: FieldErrors } {
   const raw = Object.fromEntries(["kind", ...ENTRY_FIELDS].map((k) => [k, fields[k as EntryField] ?? ""]));
   const errors: FieldErrors = {};
@@ -153,7 +201,7 @@ export function readEntryFields(
         errors[k] = `${ENTRY_KINDS[kindId]} does not use this field: leave it empty`;
     }
   }
-  const parsed = FlatSchema.safeParse(raw);
+  const parsed = schemaFor(units).safeParse(raw);
   if (!parsed.success) {
     for (const i of parsed.error.issues) errors[i.path[0] as EntryField] ??= i.message;
     return { ok: false, errors };
@@ -161,7 +209,7 @@ export function readEntryFields(
   const f = parsed.data;
   const need = (k: EntryField, ok: boolean) => {
     if (!ok && !errors[k])
-      errors[k] = `${FIELD_LABELS[k].replace(/^or /, "")} is needed for ${ENTRY_KINDS[f.kind].toLowerCase()}`;
+      errors[k] = `${FIELD_NAMES[k].replace(/^or /, "")} is needed for ${ENTRY_KINDS[f.kind].toLowerCase()}`;
   };
   let details: EntryDetails = {};
   switch (f.kind) {
@@ -172,7 +220,8 @@ export function readEntryFields(
       details = {
         share: f.water_changed_percent === null ? null : f.water_changed_percent / 100,
         litres: f.water_changed_l,
-        tapNitrateMgN: f.tap_nitrate_no3_mg_l === null ? null : toCanonical("nitrate", f.tap_nitrate_no3_mg_l, "asNO3"),
+        tapNitrateMgN:
+          f.tap_nitrate_no3_mg_l === null ? null : toCanonical("nitrate", f.tap_nitrate_no3_mg_l, units.nitrate),
         roShare: f.ro_percent === null ? null : f.ro_percent / 100,
       };
       break;
@@ -202,7 +251,7 @@ export function readEntryFields(
       break;
     case "ammonia_dosed":
       need("ammonia_n_mg_l", f.ammonia_n_mg_l !== null);
-      details = { ammoniaMgN: f.ammonia_n_mg_l ?? 0 };
+      details = { ammoniaMgN: toCanonical("ammonia", f.ammonia_n_mg_l ?? 0, units.ammonia) };
       break;
     case "note":
       break;
@@ -211,16 +260,24 @@ export function readEntryFields(
   return { ok: true, kind: f.kind, details };
 }
 
-const text = (n: number | null | undefined, digits = 4) =>
-  n === null || n === undefined ? "" : String(Number(n.toPrecision(digits)));
+/**
+ * A stored number as text, to 12 significant figures: far beyond what anyone types, far above the
+ * ~1e-16 of a unit's round trip, so a value typed comes back as typed ("2.5", not "2.4999…").
+ */
+const text = (n: number | null | undefined) => (n === null || n === undefined ? "" : String(Number(n.toPrecision(12))));
 
-/** An entry's details as the flat text fields (the export, and a form filled for editing). */
-export function entryFields(kind: EntryKind, d: EntryDetails): Record<EntryField, string> {
+/** An entry's details as the flat text fields (the export, and a form filled for editing), amounts in `units`. */
+export function entryFields(
+  kind: EntryKind,
+  d: EntryDetails,
+  units: FieldUnits = FILE_UNITS,
+): Record<EntryField, string> {
   const out = Object.fromEntries(ENTRY_FIELDS.map((k) => [k, ""])) as Record<EntryField, string>;
   if (kind === "water_change") {
     out.water_changed_percent = d.share == null ? "" : text(d.share * 100);
     out.water_changed_l = text(d.litres);
-    out.tap_nitrate_no3_mg_l = d.tapNitrateMgN == null ? "" : text(fromCanonical("nitrate", d.tapNitrateMgN, "asNO3"));
+    out.tap_nitrate_no3_mg_l =
+      d.tapNitrateMgN == null ? "" : text(fromCanonical("nitrate", d.tapNitrateMgN, units.nitrate));
     out.ro_percent = d.roShare == null ? "" : text(d.roShare * 100);
   }
   if (kind === "filter_cleaned") out.filter_thoroughness = d.thoroughness ?? "";
@@ -231,33 +288,38 @@ export function entryFields(kind: EntryKind, d: EntryDetails): Record<EntryField
   }
   if (kind === "feeding_changed") out.feed_g_per_day = text(d.feedGPerDay);
   if (kind.startsWith("fish_")) out.fish_count = text(d.fishCount);
-  if (kind === "ammonia_dosed") out.ammonia_n_mg_l = text(d.ammoniaMgN);
+  if (kind === "ammonia_dosed") out.ammonia_n_mg_l = text(fromCanonical("ammonia", d.ammoniaMgN ?? 0, units.ammonia));
   return out;
 }
 
-/** One line for people: "50 % changed (tap 10 mg/L NO3)". */
-export function describeEntry(kind: EntryKind, d: EntryDetails): string {
-  const f = entryFields(kind, d);
+/** A figure for a sentence: 4 significant figures (what was typed, unless typed to more). */
+const short = (t: string) => (t === "" ? "" : String(Number(Number(t).toPrecision(4))));
+
+/** One line for people, amounts in `units`: "50 % changed, tap water 2.5 mg/L NO3-N". */
+export function describeEntry(kind: EntryKind, d: EntryDetails, units: FieldUnits = FILE_UNITS): string {
+  const f = entryFields(kind, d, units);
   switch (kind) {
     case "water_change":
       return [
-        f.water_changed_percent ? `${f.water_changed_percent} % changed` : `${f.water_changed_l} L changed`,
-        f.tap_nitrate_no3_mg_l && `tap water ${f.tap_nitrate_no3_mg_l} mg/L NO3`,
-        f.ro_percent && `${f.ro_percent} % RO`,
+        f.water_changed_percent
+          ? `${short(f.water_changed_percent)} % changed`
+          : `${short(f.water_changed_l)} L changed`,
+        f.tap_nitrate_no3_mg_l && `tap water ${short(f.tap_nitrate_no3_mg_l)} ${unitSymbol("nitrate", units.nitrate)}`,
+        f.ro_percent && `${short(f.ro_percent)} % RO`,
       ]
         .filter(Boolean)
         .join(", ");
     case "filter_cleaned":
       return d.thoroughness ? THOROUGHNESS[d.thoroughness] : "";
     case "gravel_cleaned":
-      return `${f.gravel_cleaned_percent} % of the detritus siphoned`;
+      return `${short(f.gravel_cleaned_percent)} % of the detritus siphoned`;
     case "feeding_changed":
-      return `${f.feed_g_per_day} g of food a day from now on`;
+      return `${short(f.feed_g_per_day)} g of food a day from now on`;
     case "ammonia_dosed":
-      return `${f.ammonia_n_mg_l} mg/L as N`;
+      return `${short(f.ammonia_n_mg_l)} ${unitSymbol("ammonia", units.ammonia)}`;
     case "note":
       return "";
     default:
-      return kind.startsWith("plants_") ? `${f.plant_group}: ${f.plant_dry_g} g dry` : `${f.fish_count} fish`;
+      return kind.startsWith("plants_") ? `${f.plant_group}: ${short(f.plant_dry_g)} g dry` : `${f.fish_count} fish`;
   }
 }

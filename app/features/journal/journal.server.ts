@@ -9,7 +9,9 @@ import {
   ENTRY_FIELDS,
   MAX_JOURNAL_NOTE,
   readEntryFields,
+  FILE_UNITS,
   type EntryDetails,
+  type FieldUnits,
   type EntryInput,
   type EntryKind,
 } from "~/features/journal/journal-entries";
@@ -90,12 +92,14 @@ export function deleteEntry(tankId: number, id: number): boolean {
 }
 
 /**
- * One entry from text fields (a form or an API body): `date`, `kind`, the kind's fields, `note`.
- * Field errors by name, or the entry.
+ * One entry from text fields (a form or an API body): `date`, `kind`, the kind's fields, `note`;
+ * amounts in `units` (a person's own on the page's form, the columns' own in the API). Field
+ * errors by name, or the entry.
  */
 export function readEntry(
   fields: Record<string, unknown>,
   now = Date.now(),
+  units: FieldUnits = FILE_UNITS,
 ): { ok: true; entry: EntryInput } | { ok: false; errors: Record<string, string> } {
   const str = (k: string) => {
     const v = fields[k];
@@ -116,7 +120,7 @@ export function readEntry(
   }
   const note = str("note").trim();
   if (note.length > MAX_JOURNAL_NOTE) errors.note = `At most ${MAX_JOURNAL_NOTE} characters`;
-  const read = readEntryFields(Object.fromEntries(["kind", ...ENTRY_FIELDS].map((k) => [k, str(k)])));
+  const read = readEntryFields(Object.fromEntries(["kind", ...ENTRY_FIELDS].map((k) => [k, str(k)])), units);
   if (!read.ok) Object.assign(errors, read.errors);
   if (Object.keys(errors).length || !read.ok || doneAt === null) return { ok: false, errors };
   return { ok: true, entry: { doneAt, kind: read.kind, details: read.details, note } };

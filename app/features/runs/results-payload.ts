@@ -21,6 +21,8 @@ export type ResultsPayload = {
   engineVersion: string;
   tapNitrateAboveDrinkingLimit: boolean;
   tapNitrateDisplay: number;
+  /** The drinking-water limit the caution names, in the viewer's units (50 mg/L NO3 = 11.3 mg/L NO3-N). */
+  tapNitrateLimitDisplay: number;
   lengthDays: number;
   /** What crosses a caution, in plain words (run-warnings.ts). */
   warnings: ResultWarning[];

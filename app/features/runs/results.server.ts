@@ -5,7 +5,7 @@
 import { OXYGEN, type NitrogenBudget, type Scenario } from "~models";
 import { chartEventKind, type ChartEvent } from "~/utils/chart-data";
 import { displayGuides, displayKeyFigures, displaySeries } from "~/features/runs/display-figures";
-import { speciesFactor } from "~models/units";
+import { speciesFactor, toCanonical } from "~models/units";
 import { resultWarnings } from "~/features/runs/run-warnings";
 import type { StoredRun } from "~/features/runs/simulation.server";
 import { unitLabels, type DisplayUnits } from "~/utils/display-units";
@@ -14,7 +14,7 @@ import type { PackedResultsPayload, ResultsPayload } from "~/features/runs/resul
 export type { ResultsPayload } from "~/features/runs/results-payload";
 
 /** WHO Guidelines for Drinking-water Quality: nitrate 50 mg/L as NO3 = 11.29 mg/L as N. */
-export const DRINKING_WATER_NITRATE_MG_N = 50 * 0.2259;
+export const DRINKING_WATER_NITRATE_MG_N = toCanonical("nitrate", 50, "asNO3");
 
 // Runs never change once stored, and the scenario a run belongs to is fixed by its settings
 // hash: the converted payload can be kept per run and viewer units.
@@ -49,6 +49,7 @@ function buildPayload(run: StoredRun, scenario: Scenario, units: DisplayUnits): 
     engineVersion: run.engineVersion,
     tapNitrateAboveDrinkingLimit: scenario.tapWater.nitrate > DRINKING_WATER_NITRATE_MG_N,
     tapNitrateDisplay: scenario.tapWater.nitrate * speciesFactor("nitrate", units),
+    tapNitrateLimitDisplay: DRINKING_WATER_NITRATE_MG_N * speciesFactor("nitrate", units),
     lengthDays: scenario.run.lengthDays,
     warnings: resultWarnings(
       { keyFigures: run.keyFigures, warnings: run.findings.warnings, tapWater: scenario.tapWater },

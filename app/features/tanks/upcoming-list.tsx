@@ -5,7 +5,7 @@
  */
 import { Form } from "react-router";
 import { FormMessage, TextField } from "~/components/ui/field";
-import { FIELD_LABELS, THOROUGHNESS, type EntryField } from "~/features/journal/journal-entries";
+import { fieldLabel, THOROUGHNESS, type EntryField } from "~/features/journal/journal-entries";
 
 export type UpcomingTask = { key: string; title: string; when: string; values: Record<string, string> };
 
@@ -52,7 +52,7 @@ export function UpcomingList({
                 {(TASK_FIELDS[v.kind] ?? []).map((f) =>
                   f === "filter_thoroughness" ? (
                     <label key={f} className="text-sm">
-                      {FIELD_LABELS[f]}
+                      {fieldLabel(f)}
                       <select name={f} defaultValue={v[f]} className="input mt-1 block">
                         {Object.entries(THOROUGHNESS).map(([id, label]) => (
                           <option key={id} value={id}>
@@ -63,7 +63,7 @@ export function UpcomingList({
                       {e[f] ? <span className="block text-red-800">{e[f]}</span> : null}
                     </label>
                   ) : (
-                    <TextField key={f} label={FIELD_LABELS[f]} name={f} defaultValue={v[f] ?? ""} error={e[f]} />
+                    <TextField key={f} label={fieldLabel(f)} name={f} defaultValue={v[f] ?? ""} error={e[f]} />
                   ),
                 )}
                 <div className="sm:col-span-3">

@@ -1,5 +1,5 @@
 import { useEffect, useMemo, useState } from "react";
-import {  } from "react-router";
+import {} from "react-router";
 import type { Route } from "./+types/present";
 import { CautionsPanel } from "~/components/cautions";
 import { nearestIndex } from "~/utils/series-lookup";
@@ -165,6 +165,7 @@ export default function PresentLessonPage({ loaderData }: Route.ComponentProps) 
           <CautionsPanel
             tapNitrateAboveDrinkingLimit={results.tapNitrateAboveDrinkingLimit}
             tapNitrateText={`${formatNumber(results.tapNitrateDisplay)} ${results.labels.nitrate}`}
+            limitText={`${formatNumber(results.tapNitrateLimitDisplay)} ${results.labels.nitrate}`}
           />
         </>
       ) : null}

@@ -4,7 +4,7 @@
  */
 import { data } from "react-router";
 import { fromCanonical } from "~models/units";
-import { describeEntry, ENTRY_KINDS } from "~/features/journal/journal-entries";
+import { describeEntry, ENTRY_KINDS, type FieldUnits } from "~/features/journal/journal-entries";
 import { parseJournalCsv, MAX_JOURNAL_CSV_BYTES } from "~/features/journal/journal-csv.server";
 import {
   hasCalendarFeed,
@@ -79,7 +79,7 @@ export async function journalPageData(
         id: e.id,
         when: formatDateTime(e.doneAt),
         kind: ENTRY_KINDS[e.kind],
-        what: describeEntry(e.kind, e.details),
+        what: describeEntry(e.kind, e.details, units),
         note: e.note,
       })),
     replay,
@@ -89,6 +89,8 @@ export async function journalPageData(
       ? upcomingTasks(settings, entries, now, 21).map((t) => ({ title: t.title, when: dayText(t.atMs) }))
       : [],
     calendarOn: hasCalendarFeed(tank.id),
+    /** The entry form's amounts are typed in these (the CSV file keeps its columns' own units). */
+    units: { nitrate: units.nitrate, ammonia: units.ammonia } satisfies FieldUnits,
   };
 }
 
@@ -105,7 +107,7 @@ export type JournalAnswer = {
 
 const refuse = (a: JournalAnswer, status = 400) => data(a, { status });
 
-export async function journalAction(request: Request, tank: TankRow) {
+export async function journalAction(request: Request, tank: TankRow, units: DisplayUnits) {
   const type = request.headers.get("content-type") ?? "";
   if (type.startsWith("multipart/form-data")) {
     let upload;
@@ -156,7 +158,7 @@ export async function journalAction(request: Request, tank: TankRow) {
     string,
     string
   >;
-  const read = readEntry(values);
+  const read = readEntry(values, Date.now(), units);
   if (!read.ok) return refuse({ intent, errors: read.errors, values });
   try {
     addEntries(tank.id, [read.entry]);

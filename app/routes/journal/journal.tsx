@@ -6,10 +6,11 @@ import { FormMessage, SelectField, TextField } from "~/components/ui/field";
 import { replayPaths } from "~/features/journal/journal-chart";
 import {
   ENTRY_KINDS,
-  FIELD_LABELS,
+  fieldLabel,
   KIND_FIELDS,
   THOROUGHNESS,
   type EntryKind,
+  type FieldUnits,
 } from "~/features/journal/journal-entries";
 import { requireOwnedTank } from "~/features/tanks/tanks.server";
 import { requireUser } from "~/permissions.server";
@@ -30,7 +31,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 export async function action({ request, params }: Route.ActionArgs) {
   const user = await requireUser(request);
   const tank = requireOwnedTank(user.id, params.tankId);
-  return journalAction(request, tank);
+  return journalAction(request, tank, displayUnitsFor(user));
 }
 
 function ReplayChart({ replay }: { replay: NonNullable<Route.ComponentProps["loaderData"]["replay"]> }) {
@@ -65,14 +66,15 @@ function ReplayChart({ replay }: { replay: NonNullable<Route.ComponentProps["loa
         ))}
       </svg>
       <figcaption className="text-sm text-stone-600">
-        Nitrate ({replay.unit}) over the days since {formatDate(replay.startMs)}; dots are your test readings, the dashed
-        line your upper target. This is a model, not a water test: test your water before acting on it.
+        Nitrate ({replay.unit}) over the days since {formatDate(replay.startMs)}; dots are your test readings, the
+        dashed line your upper target. This is a model, not a water test: test your water before acting on it.
       </figcaption>
     </figure>
   );
 }
 
-function EntryForm({ answer }: { answer: JournalAnswer | undefined }) {
+/** The entry form; amounts (tap nitrate, ammonia dosed) typed in the person's own units. */
+function EntryForm({ answer, units }: { answer: JournalAnswer | undefined; units: FieldUnits }) {
   const values = answer?.intent === "add" ? (answer.values ?? {}) : {};
   const errors = answer?.intent === "add" ? (answer.errors ?? {}) : {};
   const [kind, setKind] = useState<EntryKind>((values.kind as EntryKind) || "water_change");
@@ -105,7 +107,7 @@ function EntryForm({ answer }: { answer: JournalAnswer | undefined }) {
           f === "filter_thoroughness" ? (
             <SelectField
               key={f}
-              label={FIELD_LABELS[f]}
+              label={fieldLabel(f, units)}
               name={f}
               defaultValue={values[f] ?? "thorough"}
               options={Object.entries(THOROUGHNESS).map(([value, label]) => ({ value, label }))}
@@ -114,7 +116,7 @@ function EntryForm({ answer }: { answer: JournalAnswer | undefined }) {
           ) : (
             <TextField
               key={f}
-              label={FIELD_LABELS[f]}
+              label={fieldLabel(f, units)}
               name={f}
               defaultValue={values[f] ?? ""}
               error={errors[f]}
@@ -246,7 +248,7 @@ export default function JournalPage({ loaderData, actionData }: Route.ComponentP
 
       <section className="space-y-3">
         <h2 className="text-xl font-semibold">Add an entry</h2>
-        <EntryForm answer={answer} />
+        <EntryForm answer={answer} units={loaderData.units} />
       </section>
 
       <section className="space-y-3">
@@ -255,40 +257,40 @@ export default function JournalPage({ loaderData, actionData }: Route.ComponentP
           <p className="text-stone-600">No entries yet.</p>
         ) : (
           <ScrollTable label="Journal entries table">
-          <table className="w-full text-sm">
-            <thead>
-              <tr className="text-left">
-                <th>Date</th>
-                <th>What</th>
-                <th>Details</th>
-                <th>Note</th>
-                <th />
-              </tr>
-            </thead>
-            <tbody>
-              {entries.map((e) => (
-                <tr key={e.id} className="border-t border-stone-200">
-                  <td className="figure">{e.when}</td>
-                  <td>{e.kind}</td>
-                  <td>{e.what}</td>
-                  <td>{e.note}</td>
-                  <td>
-                    <Form method="post">
-                      <input type="hidden" name="intent" value="delete" />
-                      <input type="hidden" name="entryId" value={e.id} />
-                      <button
-                        type="submit"
-                        className="text-red-800 underline"
-                        aria-label={`Delete the entry of ${e.when}`}
-                      >
-                        Delete
-                      </button>
-                    </Form>
-                  </td>
+            <table className="w-full text-sm">
+              <thead>
+                <tr className="text-left">
+                  <th>Date</th>
+                  <th>What</th>
+                  <th>Details</th>
+                  <th>Note</th>
+                  <th />
                 </tr>
-              ))}
-            </tbody>
-          </table>
+              </thead>
+              <tbody>
+                {entries.map((e) => (
+                  <tr key={e.id} className="border-t border-stone-200">
+                    <td className="figure">{e.when}</td>
+                    <td>{e.kind}</td>
+                    <td>{e.what}</td>
+                    <td>{e.note}</td>
+                    <td>
+                      <Form method="post">
+                        <input type="hidden" name="intent" value="delete" />
+                        <input type="hidden" name="entryId" value={e.id} />
+                        <button
+                          type="submit"
+                          className="text-red-800 underline"
+                          aria-label={`Delete the entry of ${e.when}`}
+                        >
+                          Delete
+                        </button>
+                      </Form>
+                    </td>
+                  </tr>
+                ))}
+              </tbody>
+            </table>
           </ScrollTable>
         )}
       </section>
@@ -300,10 +302,18 @@ export default function JournalPage({ loaderData, actionData }: Route.ComponentP
             Download the journal as CSV
           </Link>{" "}
           — the same columns upload again. A file is stored whole or not at all; every row that needs attention is named
-          by its line.
+          by its line. Whatever units you read in, the file keeps tap nitrate as nitrate (NO3) and ammonia as nitrogen
+          (N), as its column names say.
         </p>
         <Form method="post" encType="multipart/form-data" className="flex flex-wrap items-end gap-2">
-          <input type="file" name="file" accept=".csv,text/csv" aria-label="Journal CSV file" required className="max-w-full" />
+          <input
+            type="file"
+            name="file"
+            accept=".csv,text/csv"
+            aria-label="Journal CSV file"
+            required
+            className="max-w-full"
+          />
           <button type="submit" className="btn">
             Upload
           </button>

@@ -8,6 +8,7 @@ import { requireOwnedTank } from "~/features/tanks/tanks.server";
 import { readForm } from "~/http/pages.server";
 import { handleSetupSubmission, unitsOf, unitsSummary } from "~/features/scenarios/scenario-setup.server";
 import { Breadcrumbs } from "~/components/breadcrumbs";
+import { nitrateText } from "~/utils/display-units";
 
 export const meta: Route.MetaFunction = ({ data }) => [
   { title: `New scenario · ${data?.tank.name ?? "Tank"} · Fernwater` },
@@ -22,7 +23,11 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const units = unitsOf(user);
   return {
     tank: { id: tank.id, name: tank.name },
-    presets: PRESETS.map((p) => ({ id: p.id, name: p.name, description: p.description })),
+    presets: PRESETS.map((p) => ({
+      id: p.id,
+      name: p.name,
+      description: p.describe((mgN) => nitrateText(mgN, units)),
+    })),
     presetId: preset?.id ?? null,
     form: { ...buildScenarioForm(preset ? preset.name.split(" — ")[0] : "Baseline", scenario, units), startDate: "" },
     unitsNote: unitsSummary(units),

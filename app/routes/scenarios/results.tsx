@@ -211,6 +211,7 @@ export default function ResultsPage({ loaderData, actionData }: Route.ComponentP
           <CautionsPanel
             tapNitrateAboveDrinkingLimit={results.tapNitrateAboveDrinkingLimit}
             tapNitrateText={`${formatNumber(results.tapNitrateDisplay)} ${results.labels.nitrate}`}
+            limitText={`${formatNumber(results.tapNitrateLimitDisplay)} ${results.labels.nitrate}`}
           />
           <p className="text-xs text-stone-500">
             {results.engineVersion}: {results.stats.steps} solver steps, {results.stats.rhsEvals} evaluations,{" "}

@@ -52,6 +52,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     },
     tapNitrate: settings ? settings.tapWater.nitrate * no3 : 0,
     tapAboveLimit: settings ? settings.tapWater.nitrate > DRINKING_WATER_NITRATE_MG_N : false,
+    tapLimit: DRINKING_WATER_NITRATE_MG_N * no3,
     job: job ? jobJson(job) : null,
     input: job ? ((job.params as { input: Record<string, unknown> }).input as Record<string, string | number>) : null,
   };
@@ -265,6 +266,7 @@ export default function TargetPage({ loaderData, actionData }: Route.ComponentPr
       <CautionsPanel
         tapNitrateAboveDrinkingLimit={loaderData.tapAboveLimit}
         tapNitrateText={`${formatNumber(loaderData.tapNitrate)} ${labels.nitrate}`}
+        limitText={`${formatNumber(loaderData.tapLimit)} ${labels.nitrate}`}
       />
     </div>
   );

@@ -238,6 +238,7 @@ export default function ComparePage({ loaderData }: Route.ComponentProps) {
           <CautionsPanel
             tapNitrateAboveDrinkingLimit={runs.some((r) => r.tapNitrateAboveDrinkingLimit)}
             tapNitrateText={runs.map((r) => `${formatNumber(r.tapNitrateDisplay)} ${r.labels.nitrate}`).join(", ")}
+            limitText={`${formatNumber(runs[0].tapNitrateLimitDisplay)} ${runs[0].labels.nitrate}`}
           />
         </>
       ) : null}

@@ -20,6 +20,7 @@ import { Breadcrumbs } from "~/components/breadcrumbs";
 import { ScrollTable } from "~/components/ui/scroll-table";
 import { UpcomingList } from "~/features/tanks/upcoming-list";
 import { upcomingView } from "~/routes/tanks/upcoming-view.server";
+import { bandKeptMessage, saveTankSettings } from "~/features/tanks/tank-settings.server";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.tank.name ?? "Tank"} · Fernwater` }];
 
@@ -36,6 +37,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     .orderBy(asc(scenarios.createdAt), asc(scenarios.id))
     .all();
   const latest = latestKeyFigures(list.map((s) => s.id));
+  const handedIn = handedInCopyIn({ tankId: tank.id });
   return {
     tank: {
       id: tank.id,
@@ -45,7 +47,9 @@ export async function loader({ request, params }: Route.LoaderArgs) {
       nitrateHigh: String(typedTarget(tank.nitrateTargetHigh, no3)),
     },
     labels: unitLabels(units),
-    nitrateHint: nitrateBandHint(no3, unitLabels(units).nitrate),
+    nitrateHint: handedIn ? bandKeptMessage(handedIn.lessonTitle) : nitrateBandHint(no3, unitLabels(units).nitrate),
+    /** The band is kept for a handed-in lesson copy: shown, not editable. */
+    bandKept: !!handedIn,
     upcoming: upcomingView(tank.id),
     done: new URL(request.url).searchParams.has("done"),
     scenarios: list.map((s) => {
@@ -101,16 +105,13 @@ export async function action({ request, params }: Route.ActionArgs) {
     const parsed = SettingsSchema.safeParse(values);
     if (!parsed.success) return invalid(fieldErrors(parsed.error), values);
     const no3 = speciesFactor("nitrate", displayUnitsFor(user));
-    db.update(tanks)
-      .set({
-        name: parsed.data.name,
-        notes: parsed.data.notes,
-        nitrateTargetLow: parsed.data.nitrateLow / no3,
-        nitrateTargetHigh: parsed.data.nitrateHigh / no3,
-        updatedAt: new Date(),
-      })
-      .where(eq(tanks.id, tank.id))
-      .run();
+    const saved = saveTankSettings(tank, {
+      name: parsed.data.name,
+      notes: parsed.data.notes,
+      nitrateLowMgN: parsed.data.nitrateLow / no3,
+      nitrateHighMgN: parsed.data.nitrateHigh / no3,
+    });
+    if (!saved.ok) return invalid({ nitrateLow: bandKeptMessage(saved.lessonTitle) }, values, 409);
     return redirect(`/tanks/${tank.id}?saved=1`);
   }
 
@@ -289,6 +290,7 @@ export default function TankPage({ loaderData, actionData }: Route.ComponentProp
             inputMode="decimal"
             suffix={labels.nitrate}
             hint={loaderData.nitrateHint}
+            readOnly={loaderData.bandKept}
             defaultValue={values.intent === "settings" ? values.nitrateLow : tank.nitrateLow}
             error={errors.nitrateLow}
           />
@@ -297,6 +299,7 @@ export default function TankPage({ loaderData, actionData }: Route.ComponentProp
             name="nitrateHigh"
             inputMode="decimal"
             suffix={labels.nitrate}
+            readOnly={loaderData.bandKept}
             defaultValue={values.intent === "settings" ? values.nitrateHigh : tank.nitrateHigh}
             error={errors.nitrateHigh}
           />

@@ -8,7 +8,7 @@ export type { MultiplierKey, Verdict } from "./advice";
 export { assessReadings } from "./assess";
 export { calibrateMultipliers, kitsFor } from "./fit";
 export type { CalibrationResult, ObserveRequest, Predict } from "./fit";
-export { DEFAULT_CARDS, describeKit, inferKit, KIT_UNITS, KitSchema, readingInterval, SPECIES, kitUnit } from "./kits";
+export { DEFAULT_CARDS, describeKit, kitStepIn, inferKit, KIT_UNITS, KitSchema, readingInterval, SPECIES, kitUnit } from "./kits";
 export type { Kit, Kits, Species } from "./kits";
 export { levenbergMarquardt } from "./least-squares";
 export { negLogLikelihood, observationsOf, pseudoResiduals } from "./likelihood";

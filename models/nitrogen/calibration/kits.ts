@@ -137,10 +137,26 @@ export function inferKit(species: Species, valuesMgN: readonly number[], preferr
   return best ? { kind: "steps", unit: best.unit, step: best.step } : { kind: "exact" };
 }
 
-/** One line for people, e.g. "colour card 0, 0.25, 0.5, 1, 2, 4, 8 mg/L NH3" or "steps of 0.5 mg/L NO3". */
-export function describeKit(species: Species, kit: Kit): string {
+/**
+ * One line for people, e.g. "colour card 0, 0.25, 0.5, 1, 2, 4, 8 mg/L NH3" or "rounded to steps
+ * of 0.5 mg/L NO3", in the unit `shownIn` (a KIT_UNITS id; default the kit's own): a kit read in
+ * NO3 steps of 0.5 is, to someone who reads nitrate as N, steps of 0.113 mg/L NO3-N. Converted
+ * values to 3 significant figures.
+ */
+export function describeKit(species: Species, kit: Kit, shownIn?: string): string {
   if (kit.kind === "exact") return "exact numbers (a meter or a lab)";
-  const unit = kitUnit(species, kit.unit).label;
-  if (kit.kind === "steps") return `rounded to steps of ${kit.step} ${unit}`;
-  return `colour card ${kit.values.join(", ")} ${unit}`;
+  const own = kitUnit(species, kit.unit);
+  const shown = shownIn === undefined ? own : kitUnit(species, shownIn);
+  const v = (x: number) => (shown === own ? x : Number(((x * own.mgNPerUnit) / shown.mgNPerUnit).toPrecision(3)));
+  if (kit.kind === "steps") return `rounded to steps of ${v(kit.step)} ${shown.label}`;
+  return `colour card ${kit.values.map(v).join(", ")} ${shown.label}`;
+}
+
+/**
+ * A kit's step in the unit `shownIn` (a KIT_UNITS id), as the calibration form's step field
+ * holds it: to 12 significant figures, so the kit's own step comes back as it was.
+ */
+export function kitStepIn(species: Species, kit: Kit & { kind: "steps" }, shownIn: string): number {
+  const mgN = kit.step * kitUnit(species, kit.unit).mgNPerUnit;
+  return Number((mgN / kitUnit(species, shownIn).mgNPerUnit).toPrecision(12));
 }
