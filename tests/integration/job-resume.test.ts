@@ -29,21 +29,9 @@ import { action as jobApiAction, loader as jobApi } from "~/routes/api/job";
 import { call, get, ORIGIN, post, postJson } from "../support/routes";
 import { createScenario, createTank } from "../support/tanks";
 import { userWithCookie } from "../support/users";
-import { plantGroupFromForm, ScenarioSchema, type ScenarioInput } from "../../models/index";
+import { PLANTED } from "../support/planted-scenario";
+import { ScenarioSchema } from "../../models/index";
 
-const PLANTED: ScenarioInput = {
-  plants: [
-    plantGroupFromForm("stem", {
-      id: "stems",
-      name: "Stem plants",
-      startMassG: 15,
-      maxMassG: 60,
-      trim: { rule: "everyDays", everyDays: 14, trimToFraction: 0.5, fullAtFraction: 0.9 },
-    }),
-  ],
-  fish: { feedGPerDay: 1, proteinFraction: 0.42 },
-  run: { lengthDays: 60 },
-};
 const SWEEP = { setting: "plantMass", from: 5, to: 60, points: 20, outcome: "nitrateBeforeLastWaterChange" };
 
 afterEach(() => clearJobs());

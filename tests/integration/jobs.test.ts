@@ -30,26 +30,14 @@ import { DEFAULT_PREFERENCES, displayUnitsFor } from "~/utils/display-units";
 import { call, get, ORIGIN, post, postJson } from "../support/routes";
 import { createScenario, createTank } from "../support/tanks";
 import { userWithCookie } from "../support/users";
-import { ScenarioSchema, plantGroupFromForm, type ScenarioInput } from "../../models/index";
+import { PLANTED } from "../support/planted-scenario";
+import { ScenarioSchema, type ScenarioInput } from "../../models/index";
 import { calibrateMultipliers, SPECIES } from "../../models/nitrogen/calibrate";
 import { readingsForCalibration } from "~/features/readings/readings.server";
 import type { CalibrationJson } from "~/features/calibration/calibration-json";
 import { CARD_KITS, DAYS, PLANTED_120, predictIn, readingsOf } from "../models/calibration-cases";
 
 const DAY = 86_400_000;
-const PLANTED: ScenarioInput = {
-  plants: [
-    plantGroupFromForm("stem", {
-      id: "stems",
-      name: "Stem plants",
-      startMassG: 15,
-      maxMassG: 60,
-      trim: { rule: "everyDays", everyDays: 14, trimToFraction: 0.5, fullAtFraction: 0.9 },
-    }),
-  ],
-  fish: { feedGPerDay: 1, proteinFraction: 0.42 },
-  run: { lengthDays: 60 },
-};
 
 afterEach(() => clearJobs());
 
