@@ -19,7 +19,7 @@ import { EVENT_ORDER, EventStrip } from "~/components/charts/event-strip";
 import type { ChartFrameProps } from "~/components/charts/chart-frame-types";
 import { drawPanel } from "~/components/charts/chart-panel";
 
-export type { FrameBand, FrameGuide, FrameLine, FramePanel } from "~/components/charts/chart-frame-types";
+export type { FrameLine, FramePanel } from "~/components/charts/chart-frame-types";
 
 const EMPTY: readonly never[] = [];
 

@@ -6,21 +6,15 @@
 import { memo, useCallback, useId, useMemo, useRef, useState } from "react";
 import { ChartDataTable, compareTableColumns } from "~/components/charts/chart-data-table";
 import { ChartDownloads } from "~/components/charts/chart-downloads";
-import {
-  ChartFrame,
-  type FrameBand,
-  type FrameGuide,
-  type FrameLine,
-  type FramePanel,
-} from "~/components/charts/chart-frame";
+import { ChartFrame, type FrameLine, type FramePanel } from "~/components/charts/chart-frame";
 import { compareCsv, fileSlug, speciesValues } from "~/utils/csv";
 import type { LegendItem } from "~/components/charts/downloads";
 import { formatDay, formatNumber, formatSigned } from "~/components/charts/format";
+import { guideMarks } from "~/components/charts/guide-marks";
 import { useControllable, useDayCursor } from "~/components/charts/hooks";
 import { EventKey, LineSwatch, ToggleButton } from "~/components/charts/legend";
 import { sampleSide, valueAt } from "~/utils/series-lookup";
 import {
-  BAND_COLOR,
   COMPARE_COLORS,
   COMPARE_DASHES,
   DEFAULT_EVENT_KINDS,
@@ -115,41 +109,7 @@ export const CompareChart = memo(function CompareChart({
   );
   const lines = useMemo(() => linesOf(species), [linesOf, species]);
 
-  const guidesOf = useCallback(
-    (sp: SeriesKey) => {
-      const b: FrameBand[] = [];
-      const g: FrameGuide[] = [];
-      if (sp === "no3" && guides?.nitrateBand) {
-        const { low, high } = guides.nitrateBand;
-        b.push({
-          key: "band",
-          low,
-          high,
-          color: BAND_COLOR,
-          label: `NO3 target ${formatNumber(low)}–${formatNumber(high)}`,
-        });
-      }
-      if (sp === "nh3" && guides?.freeAmmoniaCaution != null) {
-        const v = guides.freeAmmoniaCaution;
-        g.push({ key: "nh3", value: v, color: SERIES_COLORS.nh3, label: `free NH3 caution ${formatNumber(v)}` });
-      }
-      if (sp === "tan" && guides?.tanCriterion != null) {
-        const v = guides.tanCriterion;
-        g.push({
-          key: "tan",
-          value: v,
-          color: SERIES_COLORS.tan,
-          label: `TAN criterion at this pH and °C ${formatNumber(v)}`,
-        });
-      }
-      if (sp === "no2" && guides?.nitriteCaution != null) {
-        const v = guides.nitriteCaution;
-        g.push({ key: "no2", value: v, color: SERIES_COLORS.no2, label: `NO2 caution ${formatNumber(v)}` });
-      }
-      return { bands: b, guideLines: g };
-    },
-    [guides],
-  );
+  const guidesOf = useCallback((sp: SeriesKey) => guideMarks(guides, (of) => of === sp), [guides]);
 
   // The picked species on its own scale; below it, nitrate with its target band and the plants'
   // mass, on the same time axis and cursor, so a toxic peak is never flattened under tens of mg/L

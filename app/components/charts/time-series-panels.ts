@@ -5,10 +5,10 @@
  * the run's lines, any overlays and the readings on the panel of their species.
  */
 import { useMemo } from "react";
-import type { FrameBand, FrameGuide, FrameLine, FramePanel, FramePoint } from "~/components/charts/chart-frame-types";
+import type { FrameLine, FramePanel, FramePoint } from "~/components/charts/chart-frame-types";
 import { formatDay, formatNumber } from "~/components/charts/format";
+import { guideMarks } from "~/components/charts/guide-marks";
 import {
-  BAND_COLOR,
   PLANT_DASHES,
   PLANT_UNIT,
   SERIES_COLORS,
@@ -29,7 +29,6 @@ type PanelKey = "ammonia" | "nitrite" | "nitrate" | "plants" | "oxygen";
 /** The panel each species (and its readings) is drawn on. */
 const SPECIES_PANEL: Record<string, PanelKey> = { tan: "ammonia", nh3: "ammonia", no2: "nitrite", no3: "nitrate" };
 const OXYGEN_COLOR = "#0e7490";
-const CAUTION_RED = "#b91c1c";
 
 /** "TAN · free NH3, mg/L NH3" when the species share a unit, else each with its own. */
 function sharedUnitTitle(keys: readonly SeriesKey[], units: ChartUnits): string {
@@ -116,53 +115,10 @@ export function useSeriesPanels({
     return out;
   }, [series, overlays, visible, hiddenOverlays]);
 
-  const { bands, guideLines } = useMemo(() => {
-    const b: FrameBand[] = [];
-    const g: FrameGuide[] = [];
-    if (guides?.nitrateBand && visible.no3) {
-      const { low, high } = guides.nitrateBand;
-      b.push({
-        key: "no3-band",
-        low,
-        high,
-        color: BAND_COLOR,
-        label: `NO3 target ${formatNumber(low)}–${formatNumber(high)}`,
-      });
-    }
-    if (guides?.freeAmmoniaCaution != null && visible.nh3) {
-      g.push({
-        key: "nh3-caution",
-        value: guides.freeAmmoniaCaution,
-        color: SERIES_COLORS.nh3,
-        label: `free NH3 caution ${formatNumber(guides.freeAmmoniaCaution)}`,
-      });
-    }
-    if (guides?.tanCriterion != null && visible.tan) {
-      g.push({
-        key: "tan-criterion",
-        value: guides.tanCriterion,
-        color: SERIES_COLORS.tan,
-        label: `TAN criterion at this pH and °C ${formatNumber(guides.tanCriterion)}`,
-      });
-    }
-    if (guides?.nitriteCaution != null && visible.no2) {
-      g.push({
-        key: "no2-caution",
-        value: guides.nitriteCaution,
-        color: SERIES_COLORS.no2,
-        label: `NO2 caution ${formatNumber(guides.nitriteCaution)}`,
-      });
-    }
-    if (guides?.oxygenCaution != null && series.o2?.length) {
-      g.push({
-        key: "o2-caution",
-        value: guides.oxygenCaution,
-        color: CAUTION_RED,
-        label: `fish suffer below ${formatNumber(guides.oxygenCaution)}`,
-      });
-    }
-    return { bands: b, guideLines: g };
-  }, [guides, visible, series.o2]);
+  const { bands, guideLines } = useMemo(
+    () => guideMarks(guides, (of) => (of === "o2" ? !!series.o2?.length : visible[of])),
+    [guides, visible, series.o2],
+  );
 
   const points = useMemo(() => {
     const out: FramePoint[] = [];
