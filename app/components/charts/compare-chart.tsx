@@ -9,21 +9,13 @@ import { ChartDownloads } from "~/components/charts/chart-downloads";
 import { ChartFrame, type FrameLine, type FramePanel } from "~/components/charts/chart-frame";
 import { compareCsv, fileSlug, speciesValues } from "~/utils/csv";
 import type { LegendItem } from "~/components/charts/downloads";
-import { formatDay, formatNumber, formatSigned } from "~/components/charts/format";
+import { formatDay, formatNumber } from "~/components/charts/format";
 import { guideMarks } from "~/components/charts/guide-marks";
 import { useControllable, useDayCursor } from "~/components/charts/hooks";
 import { EventKey, LineSwatch, ToggleButton } from "~/components/charts/legend";
+import { compareStyle, CompareReadout } from "~/components/charts/compare-readout";
 import { sampleSide, valueAt } from "~/utils/series-lookup";
-import {
-  COMPARE_COLORS,
-  COMPARE_DASHES,
-  DEFAULT_EVENT_KINDS,
-  SERIES_COLORS,
-  SERIES_KEYS,
-  SERIES_NAMES,
-  unitOf,
-  type EventKind,
-} from "~/components/charts/palette";
+import { DEFAULT_EVENT_KINDS, SERIES_KEYS, SERIES_NAMES, unitOf, type EventKind } from "~/components/charts/palette";
 import type { ChartEvent, ChartGuides, ChartSeries, ChartUnits, SeriesKey } from "~/utils/chart-data";
 
 type CompareRun = { label: string; series: ChartSeries };
@@ -52,14 +44,6 @@ export type CompareChartProps = {
 };
 
 const EMPTY: readonly never[] = [];
-
-/** Colour and dash of the k-th scenario: the species' own colour first, then ours. */
-function compareStyle(k: number, key: SeriesKey): { color: string; dash: string | undefined } {
-  return {
-    color: k === 0 ? SERIES_COLORS[key] : COMPARE_COLORS[(k - 1) % COMPARE_COLORS.length],
-    dash: COMPARE_DASHES[k % COMPARE_DASHES.length],
-  };
-}
 
 export const CompareChart = memo(function CompareChart({
   title,
@@ -249,51 +233,7 @@ export const CompareChart = memo(function CompareChart({
   const day = t[cursor.index];
   const readout =
     t.length === 0 ? null : (
-      <div className="space-y-2 rounded-md border border-stone-200 bg-white p-3">
-        <p className="font-semibold">
-          {formatDay(day)}{" "}
-          <span className="font-normal text-stone-600">
-            · {SERIES_NAMES[species].short}, {unit}
-          </span>
-        </p>
-        <table className="w-full text-sm">
-          <caption className="sr-only">
-            {SERIES_NAMES[species].long} at {formatDay(day)}, and the difference from {runs[0]?.label}
-          </caption>
-          <thead>
-            <tr className="text-left text-xs text-stone-600">
-              <th scope="col" className="font-normal">
-                Scenario
-              </th>
-              <th scope="col" className="text-right font-normal">
-                Value
-              </th>
-              <th scope="col" className="text-right font-normal">
-                vs first
-              </th>
-            </tr>
-          </thead>
-          <tbody>
-            {runs.map((run, k) => {
-              const { color, dash } = compareStyle(k, species);
-              return (
-                <tr key={k} className={hidden.has(k) ? "text-stone-400" : ""}>
-                  <th scope="row" className="py-0.5 pr-2 text-left font-normal">
-                    <span className="inline-flex items-center gap-1.5">
-                      <LineSwatch color={color} dash={dash} />
-                      {run.label}
-                    </span>
-                  </th>
-                  <td className="num text-right">{formatNumber(vals[k])}</td>
-                  <td className="num pl-2 text-right text-stone-700">
-                    {k === 0 ? "–" : formatSigned(vals[k] - vals[0])}
-                  </td>
-                </tr>
-              );
-            })}
-          </tbody>
-        </table>
-      </div>
+      <CompareReadout day={day} species={species} unit={unit} runs={runs} hidden={hidden} values={vals} />
     );
 
   const summary =
