@@ -1,10 +1,9 @@
-import { and, asc, eq } from "drizzle-orm";
-import { Form, Link, redirect, useNavigation } from "react-router";
-import { z } from "zod";
+import { asc, eq } from "drizzle-orm";
+import { Form, Link, useNavigation } from "react-router";
 import type { Route } from "./+types/detail";
 import { FormMessage, TextField } from "~/components/ui/field";
 import { getDb } from "~/db/client.server";
-import { scenarios, tanks } from "~/db/schema";
+import { scenarios } from "~/db/schema";
 import { displayKeyFigures } from "~/features/runs/display-figures";
 import { speciesFactor } from "~models/units";
 import { nitrateBandHint, typedTarget } from "~/features/tanks/nitrate-targets";
@@ -13,14 +12,14 @@ import { requireUser } from "~/permissions.server";
 import { latestKeyFigures } from "~/features/runs/simulation.server";
 import { requireOwnedTank } from "~/features/tanks/tanks.server";
 import { displayUnitsFor, formatNumber, unitLabels } from "~/utils/display-units";
-import { fieldErrors, formValues } from "~/utils/form-errors";
-import { invalid, readForm } from "~/http/pages.server";
-import { TankNameSchema, TankNotesSchema } from "~/routes/tanks/tanks-page.server";
+import { formValues } from "~/utils/form-errors";
+import { readForm } from "~/http/pages.server";
 import { Breadcrumbs } from "~/components/breadcrumbs";
 import { ScrollTable } from "~/components/ui/scroll-table";
 import { UpcomingList } from "~/features/tanks/upcoming-list";
 import { upcomingView } from "~/routes/tanks/upcoming-view.server";
-import { bandKeptMessage, saveTankSettings } from "~/features/tanks/tank-settings.server";
+import { tankPageAction } from "~/routes/tanks/tank-actions.server";
+import { bandKeptMessage } from "~/features/tanks/tank-settings.server";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.tank.name ?? "Tank"} · Fernwater` }];
 
@@ -64,95 +63,10 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   };
 }
 
-const bandNumber = (label: string) =>
-  z.coerce
-    .number({ error: `${label} must be a number.` })
-    .finite(`${label} must be a number.`)
-    .min(0, `${label} cannot be negative.`)
-    .max(1000, `${label} must be at most 1000.`);
-
-const SettingsSchema = z
-  .object({
-    intent: z.literal("settings"),
-    name: TankNameSchema,
-    notes: TankNotesSchema,
-    nitrateLow: bandNumber("The low end"),
-    nitrateHigh: bandNumber("The high end"),
-  })
-  .refine((v) => v.nitrateLow <= v.nitrateHigh, {
-    path: ["nitrateLow"],
-    message: "The low end must not be above the high end.",
-  });
-
-const DeleteTankSchema = z.object({
-  intent: z.literal("delete-tank"),
-  confirm: z.literal("yes", { error: "Tick the box to confirm that everything in this tank goes." }),
-});
-
-const DeleteScenarioSchema = z.object({
-  intent: z.literal("delete-scenario"),
-  scenarioId: z.coerce.number().int().positive(),
-  confirm: z.literal("yes", { error: "Tick the box to confirm." }),
-});
-
 export async function action({ request, params }: Route.ActionArgs) {
   const user = await requireUser(request);
   const tank = requireOwnedTank(user.id, params.tankId);
-  const values = formValues(await readForm(request));
-  const db = getDb();
-
-  if (values.intent === "settings") {
-    const parsed = SettingsSchema.safeParse(values);
-    if (!parsed.success) return invalid(fieldErrors(parsed.error), values);
-    const no3 = speciesFactor("nitrate", displayUnitsFor(user));
-    const saved = saveTankSettings(tank, {
-      name: parsed.data.name,
-      notes: parsed.data.notes,
-      nitrateLowMgN: parsed.data.nitrateLow / no3,
-      nitrateHighMgN: parsed.data.nitrateHigh / no3,
-    });
-    if (!saved.ok) return invalid({ nitrateLow: bandKeptMessage(saved.lessonTitle) }, values, 409);
-    return redirect(`/tanks/${tank.id}?saved=1`);
-  }
-
-  if (values.intent === "delete-tank") {
-    const parsed = DeleteTankSchema.safeParse(values);
-    if (!parsed.success) return invalid(fieldErrors(parsed.error), values);
-    // Scenarios, runs, readings, share links and lesson copies go with it (foreign keys cascade), all or nothing.
-    const kept = db.transaction((tx) => {
-      const handedIn = handedInCopyIn({ tankId: tank.id });
-      if (handedIn) return handedIn;
-      tx.delete(tanks)
-        .where(and(eq(tanks.id, tank.id), eq(tanks.ownerId, user.id)))
-        .run();
-      return null;
-    });
-    if (kept) return invalid({ "": handedInMessage(kept.lessonTitle, "tank") }, values, 409);
-    return redirect("/tanks");
-  }
-
-  if (values.intent === "delete-scenario") {
-    const parsed = DeleteScenarioSchema.safeParse(values);
-    if (!parsed.success) return invalid(fieldErrors(parsed.error), values);
-    const outcome = db.transaction((tx) => {
-      const handedIn = handedInCopyIn({ scenarioId: parsed.data.scenarioId });
-      if (handedIn) return handedIn;
-      return tx
-        .delete(scenarios)
-        .where(and(eq(scenarios.id, parsed.data.scenarioId), eq(scenarios.tankId, tank.id)))
-        .run().changes;
-    });
-    if (typeof outcome === "object")
-      return invalid({ "": handedInMessage(outcome.lessonTitle, "scenario") }, values, 409);
-    if (outcome === 0) return invalid({ "": "That scenario is not in this tank." }, values);
-    return redirect(`/tanks/${tank.id}`);
-  }
-
-  return invalid({ "": "Unknown action." }, values);
-}
-
-function handedInMessage(lessonTitle: string, what: "tank" | "scenario"): string {
-  return `This ${what} holds your hand-in for the lesson “${lessonTitle}”. It stays, so your teacher can read what you handed in.`;
+  return tankPageAction(user, tank, formValues(await readForm(request)));
 }
 
 export default function TankPage({ loaderData, actionData }: Route.ComponentProps) {
