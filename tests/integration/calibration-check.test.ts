@@ -63,7 +63,12 @@ describe("calibration's check of what the readings can tell", () => {
     getDb()
       .insert(readings)
       .values(
-        card.map(([d, nh3, no3]) => ({ tankId, takenAt: new Date(start + d * DAY), tan: nh3 * NH3, nitrate: no3 * NO3 })),
+        card.map(([d, nh3, no3]) => ({
+          tankId,
+          takenAt: new Date(start + d * DAY),
+          tan: nh3 * NH3,
+          nitrate: no3 * NO3,
+        })),
       )
       .run();
 

@@ -37,9 +37,15 @@ const WEEKLY = {
   maintenance: { waterChangeIntervalDays: 7, waterChangeFraction: 0.3, gravelCleaningFraction: 0.2 },
   filter: { cleaningIntervalDays: 30, cleanedInTapWater: false },
 };
-const FORTNIGHTLY = { water_change_percent: 40, water_change_every_days: 14, gravel_percent: 10, filter_every_days: 45 };
+const FORTNIGHTLY = {
+  water_change_percent: 40,
+  water_change_every_days: 14,
+  gravel_percent: 10,
+  filter_every_days: 45,
+};
 
-const apiGet = (tankId: string, cookie: string) => call(planApiGet, get(`/api/tanks/${tankId}/plan`, cookie), { tankId });
+const apiGet = (tankId: string, cookie: string) =>
+  call(planApiGet, get(`/api/tanks/${tankId}/plan`, cookie), { tankId });
 const apiPut = (tankId: string, body: unknown, cookie: string) =>
   call(planApi, postJson(`/api/tanks/${tankId}/plan`, body, cookie, "PUT"), { tankId });
 const apiDelete = (tankId: string, cookie: string) =>
@@ -102,7 +108,13 @@ describe("the maintenance plan's API", () => {
     const { keeper, tankId } = await keeperWithTank(WEEKLY);
     const r = await apiPut(
       tankId,
-      { ...FORTNIGHTLY, water_change_percent: 120, water_change_every_days: 2.5, filter_every_days: undefined, gravel: 5 },
+      {
+        ...FORTNIGHTLY,
+        water_change_percent: 120,
+        water_change_every_days: 2.5,
+        filter_every_days: undefined,
+        gravel: 5,
+      },
       keeper.cookie,
     );
     expect(r.status).toBe(400);

@@ -117,4 +117,3 @@ export function calibrationJson(
     converged: r.converged,
   };
 }
-

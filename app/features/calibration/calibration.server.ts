@@ -10,17 +10,8 @@ import { contentHash } from "~/features/runs/simulation.server";
 import { readingsForCalibration } from "~/features/readings/readings.server";
 import type { DisplayUnits } from "~/utils/display-units";
 import type { CalibrationJson } from "~/features/calibration/calibration-json";
-import {
-  observedOf,
-  observeTask,
-  SCHEDULE_TEXT,
-  type FitBasis,
-} from "~/features/calibration/calibration-basis.server";
-import {
-  calibrationJson,
-  MULTIPLIER_LABELS,
-  preferredUnits,
-} from "~/features/calibration/calibration-report.server";
+import { observedOf, observeTask, SCHEDULE_TEXT, type FitBasis } from "~/features/calibration/calibration-basis.server";
+import { calibrationJson, MULTIPLIER_LABELS, preferredUnits } from "~/features/calibration/calibration-report.server";
 
 /** Iterations of each local fit at most. */
 const MAX_ITERATIONS = 25;

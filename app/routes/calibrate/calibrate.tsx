@@ -108,7 +108,8 @@ export async function action({ request, params }: Route.ActionArgs) {
     if (values.schedule !== undefined && !["journal", "periodic"].includes(values.schedule))
       return invalid({ schedule: "Choose the journal or the scenario's schedule." }, values);
     try {
-      const job = startCalibration(user, row, tank.id, basisFor(values.schedule)!, input.data.fit, units, input.data.kits);
+      const basis = basisFor(values.schedule)!;
+      const job = startCalibration(user, row, tank.id, basis, input.data.fit, units, input.data.kits);
       return redirect(`${here}?job=${job.id}`);
     } catch (error) {
       return refusedForm(error, values);
