@@ -80,6 +80,7 @@ export default [
     route("tanks/:tankId/readings", "routes/api/tank-readings.ts"),
     route("tanks/:tankId/journal", "routes/api/tank-journal.ts"),
     route("tanks/:tankId/journal/:entryId", "routes/api/tank-journal-entry.ts"),
+    route("tanks/:tankId/plan", "routes/api/tank-plan.ts"),
     route("scenarios/:scenarioId", "routes/api/scenario.ts"),
     route("scenarios/:scenarioId/run", "routes/api/scenario-run.ts"),
     route("scenarios/:scenarioId/sweeps", "routes/api/scenario-sweeps.ts"),

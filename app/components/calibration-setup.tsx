@@ -93,6 +93,9 @@ export function CalibrationSetup({
   inRun,
   disabled,
   journal,
+  schedule,
+  checkedAgainst,
+  onSchedule,
 }: {
   multipliers: MultiplierRow[];
   hasPlants: boolean;
@@ -104,7 +107,14 @@ export function CalibrationSetup({
   disabled: boolean;
   /** The tank's journal replay, when it has entries: from which day, and the readings within it. */
   journal: { from: string; readings: number } | null;
+  /** The schedule the check below ran on (and the fit's default). */
+  schedule: "journal" | "periodic" | null;
+  /** That schedule in words, when the readings were checked. */
+  checkedAgainst: string | null;
+  /** A schedule chosen: the page checks the readings again on it. */
+  onSchedule: (schedule: string) => void;
 }) {
+  const chosenSchedule = values.schedule ?? schedule;
   const none =
     multipliers.every((m) => !m.assessment || !m.assessment.determinable) && multipliers.some((m) => m.assessment);
   return (
@@ -138,6 +148,9 @@ export function CalibrationSetup({
             </label>
           );
         })}
+        {checkedAgainst ? (
+          <p className="text-xs text-stone-600">What your readings can tell, checked against {checkedAgainst}.</p>
+        ) : null}
         {errors.fit ? (
           <p id="fit-error" className="text-sm font-semibold text-red-800" role="alert">
             {errors.fit}
@@ -152,7 +165,8 @@ export function CalibrationSetup({
               type="radio"
               name="schedule"
               value="journal"
-              defaultChecked={values.schedule !== "periodic"}
+              defaultChecked={chosenSchedule !== "periodic"}
+              onChange={() => onSchedule("journal")}
               className="mt-1"
             />
             <span>
@@ -167,7 +181,8 @@ export function CalibrationSetup({
               type="radio"
               name="schedule"
               value="periodic"
-              defaultChecked={values.schedule === "periodic"}
+              defaultChecked={chosenSchedule === "periodic"}
+              onChange={() => onSchedule("periodic")}
               className="mt-1"
             />
             <span>

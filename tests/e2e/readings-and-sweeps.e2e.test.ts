@@ -136,6 +136,19 @@ describe("readings, calibration and sweeps in the browser", () => {
     await page.getByRole("button", { name: "Save the fitted multipliers as a new scenario" }).waitFor();
     await shot(page, "calibration-fit");
 
+    // Once the tank has a journal, the check before a fit runs on what the fit runs on (the
+    // journal, its default) and runs again on the schedule the keeper switches to.
+    const logged = await page.request.post(`${new URL(page.url()).origin}/api${tankUrl}/journal`, {
+      data: { date: isoDay(9), kind: "note", note: "started logging" },
+    });
+    expect(logged.status()).toBe(201);
+    await page.goto(`${scenarioUrl}/calibrate`);
+    await page.getByText("What your readings can tell, checked against the tank's journal, as it happened.").waitFor();
+    await page.getByLabel(/The scenario’s periodic schedule/).check();
+    await page.waitForURL(/calibrate\?schedule=periodic$/);
+    await page.getByText("What your readings can tell, checked against the scenario's periodic schedule.").waitFor();
+    expect(await page.getByLabel(/The scenario’s periodic schedule/).isChecked()).toBe(true);
+
     // A 20-point sweep: the bar starts, moves, and the plot follows.
     await page.goto(`${scenarioUrl}/sweep`);
     await page.getByLabel("Setting to vary").selectOption("fish.feedGPerDay");

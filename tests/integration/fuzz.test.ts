@@ -269,6 +269,10 @@ const nastyJson = fc.constantFrom<unknown>(
   { settings: { plants: [{ id: "a", mass: 3 }] } },
   { settings: JSON.parse('{"__proto__":{"water":1},"constructor":{"x":1}}') },
   { settings: { run: { lengthDays: 730, outputIntervalDays: 0.0417 } } },
+  // The maintenance plan's fields (PUT /api/tanks/:id/plan): valid, out of range, wrong types, unknown names.
+  { water_change_percent: 30, water_change_every_days: 7, gravel_percent: 10, filter_every_days: 30 },
+  { water_change_percent: "1e309", water_change_every_days: -1, gravel_percent: null, filter_every_days: [] },
+  { water_change_percent: 96, water_change_every_days: 2.5, gravel_percent: "x", trim_every_days___proto__: 3 },
   { settings: [] },
   { settings: "x" },
   { name: "", settings: null },

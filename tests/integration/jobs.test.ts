@@ -241,6 +241,13 @@ describe("sweeps", () => {
     expect(bad.data.issues.map((i: { path: string }) => i.path)).toEqual(
       expect.arrayContaining(["from", "to", "points"]),
     );
+    // A body that is no object at all is a 400 too (the fuzz test once got a 500 from `null`).
+    for (const json of [null, 3, "x"]) {
+      const none = await call(sweepsApiAction, postJson(`/api/scenarios/${scenarioId}/sweeps`, json, user.cookie), {
+        scenarioId,
+      });
+      expect(none.status).toBe(400);
+    }
     const body = { setting: "maintenance.waterChangeFraction", from: 10, to: 50, points: 5, outcome: "nitrateEnd" };
     const started = await call(sweepsApiAction, postJson(`/api/scenarios/${scenarioId}/sweeps`, body, user.cookie), {
       scenarioId,

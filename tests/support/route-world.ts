@@ -597,6 +597,31 @@ export const PERMISSION_MATRIX: Row[] = [
     path: "/api/tanks/:tankId/journal/:entryId",
     expect: WRONG_METHOD,
   },
+  { file: "routes/api/tank-plan.ts", handler: "loader", path: "/api/tanks/:tankId/plan", expect: API_PRIVATE },
+  {
+    file: "routes/api/tank-plan.ts",
+    handler: "action",
+    path: "/api/tanks/:tankId/plan",
+    method: "PUT",
+    json: { water_change_percent: 120 },
+    expect: API_PRIVATE_ACTION,
+  },
+  // The world's tank has no edited plan, so going back to the scenario's timetable changes nothing.
+  {
+    file: "routes/api/tank-plan.ts",
+    handler: "action",
+    path: "/api/tanks/:tankId/plan",
+    method: "DELETE",
+    json: {},
+    expect: API_PRIVATE,
+  },
+  {
+    file: "routes/api/tank-plan.ts",
+    handler: "action",
+    path: "/api/tanks/:tankId/plan",
+    json: {},
+    expect: WRONG_METHOD,
+  },
   {
     file: "routes/api/scenario-sweeps.ts",
     handler: "loader",

@@ -15,7 +15,9 @@ import { z } from "zod";
 import type { Scenario } from "~models";
 import { getDb } from "~/db/client.server";
 import { scenarios, tanks, users } from "~/db/schema";
-import { CalibrateInputSchema, calibrationJob } from "~/features/calibration/calibration.server";
+import { calibrationJob } from "~/features/calibration/calibration.server";
+import { CalibrateInputSchema } from "~/features/calibration/calibration-input.server";
+import { journalBasis, periodicBasis } from "~/features/calibration/calibration-basis.server";
 import { claimOrphans } from "~/features/jobs/job-claims.server";
 import type { JobKind } from "~/features/jobs/job-json";
 import { failJobRow, HEARTBEAT_MS, type JobRow } from "~/features/jobs/job-rows.server";
@@ -68,14 +70,19 @@ const REBUILD: Record<JobKind, Rebuild> = {
     const { schedule } = checked(job, CalibrationParamsSchema.safeParse(params));
     const scenario = withTankTargets(settings, tank);
     if (schedule === "periodic")
-      return calibrationJob(owner, row, tank.id, scenario, modelStartMs(row), input.fit, units, input.kits) as JobSpec;
+      return calibrationJob(
+        owner,
+        row,
+        tank.id,
+        periodicBasis(scenario, modelStartMs(row)),
+        input.fit,
+        units,
+        input.kits,
+      ) as JobSpec;
     // The journal replayed as it was when the job was asked for (its length runs to that day).
     const replay = replayInputs(scenario, listJournal(tank.id), job.startedAt);
     if (!replay) throw changed(job);
-    return calibrationJob(owner, row, tank.id, replay.scenario, replay.startMs, input.fit, units, input.kits, {
-      kind: "journal",
-      events: replay.events,
-    }) as JobSpec;
+    return calibrationJob(owner, row, tank.id, journalBasis(replay), input.fit, units, input.kits) as JobSpec;
   },
 };
 

@@ -103,7 +103,8 @@ export function sweepInputSchema(levers: Lever[], units: DisplayUnits, role: Rol
         if (ok(v.from) && ok(v.to) && v.from === v.to)
           ctx.addIssue({ code: "custom", path: ["to"], message: "“To” must differ from “From”." });
       },
-      { when: () => true },
+      // …but only on an object: a body of `null` or a number has no fields to look at.
+      { when: (payload) => typeof payload.value === "object" && payload.value !== null },
     );
 }
 

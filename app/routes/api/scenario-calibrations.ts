@@ -1,6 +1,8 @@
 import type { Route } from "./+types/scenario-calibrations";
 import { apiError, apiRoute, methodNotAllowed, readJson, zodIssues } from "~/http/api.server";
-import { CalibrateInputSchema, startCalibration } from "~/features/calibration/calibration.server";
+import { startCalibration } from "~/features/calibration/calibration.server";
+import { CalibrateInputSchema } from "~/features/calibration/calibration-input.server";
+import { periodicBasis } from "~/features/calibration/calibration-basis.server";
 import { modelStartMs } from "~/features/readings/readings.server";
 import { jobAccepted, requireApiScenario } from "~/features/scenarios/scenario-api.server";
 import { displayUnitsFor } from "~/utils/display-units";
@@ -22,8 +24,7 @@ export const action = apiRoute(async ({ request, params }: Route.ActionArgs) => 
       user,
       row,
       tank.id,
-      scenario,
-      modelStartMs(row),
+      periodicBasis(scenario, modelStartMs(row)),
       input.data.fit,
       displayUnitsFor(user),
       input.data.kits,

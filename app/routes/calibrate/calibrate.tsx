@@ -1,19 +1,15 @@
-import { Link, redirect, useNavigation } from "react-router";
+import { Link, redirect, useNavigation, useSearchParams } from "react-router";
 import type { Route } from "./+types/calibrate";
 import { CalibrationReport } from "~/components/calibration-report";
 import { jobActive, JobProgress, useJob } from "~/components/job-progress";
 import { FormMessage } from "~/components/ui/field";
 import { CalibrationSetup } from "~/components/calibration-setup";
-import {
-  assessCalibration,
-  CalibrateInputSchema,
-  inferredKits,
-  kitsFromForm,
-  MULTIPLIER_LABELS,
-  SaveFittedSchema,
-  startCalibration,
-  type CalibrationJson,
-} from "~/features/calibration/calibration.server";
+import { startCalibration } from "~/features/calibration/calibration.server";
+import { assessCalibration, inferredKits } from "~/features/calibration/calibration-assess.server";
+import { journalBasis, periodicBasis, SCHEDULE_TEXT } from "~/features/calibration/calibration-basis.server";
+import { CalibrateInputSchema, kitsFromForm, SaveFittedSchema } from "~/features/calibration/calibration-input.server";
+import { MULTIPLIER_LABELS } from "~/features/calibration/calibration-report.server";
+import type { CalibrationJson } from "~/features/calibration/calibration-json";
 import { cancelJob, findScenarioJob, jobJson } from "~/features/jobs/jobs.server";
 import { requireUser } from "~/permissions.server";
 import { countReadings, modelStartMs, readingsForCalibration } from "~/features/readings/readings.server";
@@ -39,20 +35,27 @@ async function context(request: Request, params: Route.LoaderArgs["params"]) {
   const settings = readStoredSettings(row.settings);
   // The journal replayed "as it happened" with this scenario as the tank's description, when there is one.
   const replay = settings ? replayInputs(withTankTargets(settings, tank), listJournal(tank.id)) : null;
-  return { user, tank, row, settings, startMs: modelStartMs(row), replay };
+  const startMs = modelStartMs(row);
+  /** What the check and the fit run on: the journal when chosen (the default when there is one), else the schedule. */
+  const basisFor = (choice: string | null | undefined) =>
+    !settings
+      ? null
+      : replay && (choice ?? "journal") === "journal"
+        ? journalBasis(replay)
+        : periodicBasis(withTankTargets(settings, tank), startMs);
+  return { user, tank, row, settings, startMs, replay, basisFor };
 }
 
 export async function loader({ request, params }: Route.LoaderArgs) {
-  const { user, tank, row, settings, startMs, replay } = await context(request, params);
+  const { user, tank, row, settings, startMs, replay, basisFor } = await context(request, params);
   const job = findScenarioJob(user.id, request, "calibration", row.id);
+  const basis = basisFor(new URL(request.url).searchParams.get("schedule"));
   const lengthDays = settings?.run.lengthDays ?? 0;
   const hasPlants = (settings?.plants.length ?? 0) > 0;
   const units = displayUnitsFor(user);
   const candidates = MULTIPLIER_KEYS.filter((k) => hasPlants || k !== "plantUptake");
-  const scenario = settings ? withTankTargets(settings, tank) : null;
-  // Which multipliers the readings can tell (a few short runs), so only those start ticked.
-  const assessment =
-    scenario && !job ? await assessCalibration(user, tank.id, scenario, startMs, units, candidates) : null;
+  // Which multipliers the readings can tell (a few short runs) on what the fit will run on, so only those start ticked.
+  const assessment = basis && !job ? await assessCalibration(user, tank.id, basis, units, candidates) : null;
   return {
     tank: { id: tank.id, name: tank.name },
     scenario: { id: row.id, name: row.name },
@@ -74,7 +77,9 @@ export async function loader({ request, params }: Route.LoaderArgs) {
       value: settings?.multipliers[k] ?? 1,
       assessment: assessment?.multipliers.find((m) => m.key === k) ?? null,
     })),
-    kits: assessment?.kits ?? (scenario ? inferredKits(tank.id, scenario, startMs, units) : []),
+    kits: assessment?.kits ?? (basis ? inferredKits(tank.id, basis, units) : []),
+    schedule: basis?.schedule.kind ?? null,
+    checkedAgainst: assessment && basis ? SCHEDULE_TEXT[basis.schedule.kind] : null,
     units: { tan: units.ammonia, no2: units.nitrite, no3: units.nitrate },
     job: job ? jobJson(job) : null,
     fit: job ? (job.params as { fit: string[] }).fit : null,
@@ -82,7 +87,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 }
 
 export async function action({ request, params }: Route.ActionArgs) {
-  const { user, tank, row, settings, startMs, replay } = await context(request, params);
+  const { user, tank, row, settings, startMs, replay, basisFor } = await context(request, params);
   const form = await readForm(request);
   const values = formValues(form);
   const here = `/tanks/${tank.id}/scenarios/${row.id}/calibrate`;
@@ -103,32 +108,8 @@ export async function action({ request, params }: Route.ActionArgs) {
     if (values.schedule !== undefined && !["journal", "periodic"].includes(values.schedule))
       return invalid({ schedule: "Choose the journal or the scenario's schedule." }, values);
     try {
-      const job =
-        onJournal && replay
-          ? startCalibration(
-              user,
-              row,
-              tank.id,
-              replay.scenario,
-              replay.startMs,
-              input.data.fit,
-              units,
-              input.data.kits,
-              {
-                kind: "journal",
-                events: replay.events,
-              },
-            )
-          : startCalibration(
-              user,
-              row,
-              tank.id,
-              withTankTargets(settings, tank),
-              startMs,
-              input.data.fit,
-              units,
-              input.data.kits,
-            );
+      const basis = basisFor(values.schedule)!;
+      const job = startCalibration(user, row, tank.id, basis, input.data.fit, units, input.data.kits);
       return redirect(`${here}?job=${job.id}`);
     } catch (error) {
       return refusedForm(error, values);
@@ -152,6 +133,7 @@ export default function CalibratePage({ loaderData, actionData }: Route.Componen
   const { tank, scenario, startDate, lengthDays, inRun, total, hasPlants, multipliers, readable, kits } = loaderData;
   const job = useJob(loaderData.job);
   const busy = useNavigation().state === "submitting";
+  const [, setSearch] = useSearchParams();
   const errors = actionData?.errors ?? {};
   const values = actionData?.values ?? {};
   const assessed = multipliers.some((m) => m.assessment);
@@ -200,6 +182,11 @@ export default function CalibratePage({ loaderData, actionData }: Route.Componen
           values={values}
           inRun={inRun}
           journal={loaderData.journal}
+          schedule={loaderData.schedule}
+          checkedAgainst={loaderData.checkedAgainst}
+          onSchedule={(schedule) =>
+            setSearch((q) => (q.set("schedule", schedule), q), { replace: true, preventScrollReset: true })
+          }
           disabled={busy || (inRun === 0 && !loaderData.journal) || jobActive(job)}
         />
       ) : (
