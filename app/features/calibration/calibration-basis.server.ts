@@ -5,6 +5,9 @@
  * basis, or the check would say what readings tell about a tank the fit never sees.
  */
 import type { Scenario, TankEventInput } from "~models";
+import { replayInputs } from "~/features/journal/journal-replay.server";
+import { listJournal } from "~/features/journal/journal.server";
+import { withTankTargets } from "~/features/runs/simulation.server";
 import type { Observed, ObserveRequest } from "~models/nitrogen/calibrate";
 import type { EngineTask, EngineTaskResult } from "~/features/jobs/engine-tasks.server";
 import { JOB_RUN_LIMITS } from "~/features/jobs/jobs.server";
@@ -43,3 +46,20 @@ export const observeTask = (days: number[], req: ObserveRequest, schedule: FitSc
 });
 
 export const observedOf = (r: EngineTaskResult): Observed | null => (r.kind === "observe" ? r.observed : null);
+
+/**
+ * A scenario's bases, for the calibration page and the API alike: the journal's replay (null
+ * when the tank's journal is empty), and the basis for a choice — the journal when chosen, the
+ * default when there is one, else the periodic schedule from `startMs`.
+ */
+export function scenarioBases(
+  tank: { id: number; nitrateTargetLow: number; nitrateTargetHigh: number },
+  settings: Scenario,
+  startMs: number,
+) {
+  const withTargets = withTankTargets(settings, tank);
+  const replay = replayInputs(withTargets, listJournal(tank.id));
+  const basisFor = (choice: string | null | undefined): FitBasis =>
+    replay && (choice ?? "journal") === "journal" ? journalBasis(replay) : periodicBasis(withTargets, startMs);
+  return { replay, basisFor };
+}

@@ -24,6 +24,8 @@ export const CalibrateInputSchema = z.object({
     .min(1, "Choose at least one multiplier to fit.")
     .max(3),
   kits: z.partialRecord(z.enum(SPECIES), KitSchema).optional(),
+  /** What to fit against: the tank's journal as it happened (the default when it has entries) or the scenario's schedule. */
+  schedule: z.enum(["journal", "periodic"], { error: 'Choose "journal" or "periodic".' }).optional(),
 });
 
 const StepSchema = z.coerce

@@ -6,18 +6,16 @@ import { FormMessage } from "~/components/ui/field";
 import { CalibrationSetup } from "~/components/calibration-setup";
 import { startCalibration } from "~/features/calibration/calibration.server";
 import { assessCalibration, inferredKits } from "~/features/calibration/calibration-assess.server";
-import { journalBasis, periodicBasis, SCHEDULE_TEXT } from "~/features/calibration/calibration-basis.server";
+import { scenarioBases, SCHEDULE_TEXT } from "~/features/calibration/calibration-basis.server";
 import { CalibrateInputSchema, kitsFromForm, SaveFittedSchema } from "~/features/calibration/calibration-input.server";
 import { MULTIPLIER_LABELS } from "~/features/calibration/calibration-report.server";
 import type { CalibrationJson } from "~/features/calibration/calibration-json";
 import { cancelJob, findScenarioJob, jobJson } from "~/features/jobs/jobs.server";
 import { requireUser } from "~/permissions.server";
 import { countReadings, modelStartMs, readingsForCalibration } from "~/features/readings/readings.server";
-import { readStoredSettings, withTankTargets } from "~/features/runs/simulation.server";
+import { readStoredSettings } from "~/features/runs/simulation.server";
 import { requireOwnedScenario } from "~/features/tanks/tanks.server";
 import { formatDate } from "~/utils/dates";
-import { replayInputs } from "~/features/journal/journal-replay.server";
-import { listJournal } from "~/features/journal/journal.server";
 import { displayUnitsFor } from "~/utils/display-units";
 import { fieldErrors, formValues } from "~/utils/form-errors";
 import { invalid, readForm, refusedForm } from "~/http/pages.server";
@@ -33,16 +31,12 @@ async function context(request: Request, params: Route.LoaderArgs["params"]) {
   const user = await requireUser(request);
   const { tank, scenario: row } = requireOwnedScenario(user.id, params.tankId, params.scenarioId);
   const settings = readStoredSettings(row.settings);
-  // The journal replayed "as it happened" with this scenario as the tank's description, when there is one.
-  const replay = settings ? replayInputs(withTankTargets(settings, tank), listJournal(tank.id)) : null;
   const startMs = modelStartMs(row);
-  /** What the check and the fit run on: the journal when chosen (the default when there is one), else the schedule. */
-  const basisFor = (choice: string | null | undefined) =>
-    !settings
-      ? null
-      : replay && (choice ?? "journal") === "journal"
-        ? journalBasis(replay)
-        : periodicBasis(withTankTargets(settings, tank), startMs);
+  // The journal replayed "as it happened" with this scenario as the tank's description, when there
+  // is one; the check and the fit run on it by default (calibration-basis.server.ts).
+  const bases = settings ? scenarioBases(tank, settings, startMs) : null;
+  const replay = bases?.replay ?? null;
+  const basisFor = (choice: string | null | undefined) => bases?.basisFor(choice) ?? null;
   return { user, tank, row, settings, startMs, replay, basisFor };
 }
 
