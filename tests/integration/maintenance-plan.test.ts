@@ -1,15 +1,13 @@
 import { eq } from "drizzle-orm";
-import ICAL from "ical.js";
 import { describe, expect, it } from "vitest";
 import { getDb } from "~/db/client.server";
 import { journalEntries, maintenancePlans } from "~/db/schema-care";
-import { loader as feedLoader } from "~/routes/calendar/feed";
-import { action as journalAction, loader as journalLoader } from "~/routes/journal/journal";
 import { loader as tankLoader } from "~/routes/tanks/detail";
 import { action as planAction, loader as planLoader } from "~/routes/tanks/plan";
 import { call, get, post } from "../support/routes";
 import { createScenario, createTank } from "../support/tanks";
 import { userWithCookie } from "../support/users";
+import { calendarTitles } from "../support/calendar";
 
 const DAY = 86_400_000;
 const today = () => Math.floor(Date.now() / DAY) * DAY;
@@ -25,24 +23,6 @@ async function keeperWithPlan() {
     filter: { cleaningIntervalDays: 30, cleanedInTapWater: false },
   });
   return { keeper, tankId: String(tankId) };
-}
-
-async function calendarTitles(keeper: { cookie: string }, id: string): Promise<string[]> {
-  const page = await call(journalLoader, get(`/tanks/${id}/journal`, keeper.cookie), { tankId: id });
-  const on = await call(
-    journalAction,
-    post(`/tanks/${id}/journal`, { intent: "calendar-on", scenarioId: String(page.data.scenarioId) }, keeper.cookie),
-    { tankId: id },
-  );
-  const url = new URL(on.data.calendarUrl as string);
-  const feed = await feedLoader({
-    params: { token: url.pathname.split("/").at(-1)! },
-    request: new Request(url),
-    context: {},
-  } as never);
-  // Parsed with ical.js, an independent RFC 5545 reader
-  const cal = new ICAL.Component(ICAL.parse(await feed.text()));
-  return cal.getAllSubcomponents("vevent").map((v) => new ICAL.Event(v).summary);
 }
 
 const PLAN = {
@@ -61,7 +41,7 @@ describe("the maintenance plan", () => {
     expect(before.data.plan?.edited).toBe(false);
     // No journal yet: weekly changes from today, days 7 and 14 within three weeks (common practice, no source)
     expect(before.data.upcoming.filter((t: Task) => t.title.startsWith("Water change (30 %)"))).toHaveLength(2);
-    const calBefore = await calendarTitles(keeper, tankId);
+    const calBefore = await calendarTitles(keeper.cookie, tankId);
     // 90 days: weekly → days 7…84 = 12 changes; monthly cleaning → days 30, 60 = 2 (our own worked example)
     expect(calBefore.filter((t: string) => t.startsWith("Water change (30 %)"))).toHaveLength(12);
     expect(calBefore.filter((t: string) => t.startsWith("Clean the filter"))).toHaveLength(2);
@@ -73,7 +53,7 @@ describe("the maintenance plan", () => {
     expect(after.data.upcoming.map((t: Task) => t.title).filter((t: string) => t.startsWith("Water change"))).toEqual([
       "Water change (40 %)",
     ]);
-    const calAfter = await calendarTitles(keeper, tankId);
+    const calAfter = await calendarTitles(keeper.cookie, tankId);
     // 90 days: every 14 → days 14…84 = 6; every 45 → day 45 only = 1 (our own worked example)
     expect(calAfter.filter((t: string) => t.startsWith("Water change (40 %)"))).toHaveLength(6);
     expect(calAfter.filter((t: string) => t.startsWith("Clean the filter"))).toHaveLength(1);

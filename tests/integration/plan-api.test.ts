@@ -4,17 +4,16 @@
  * the plan page, the calendar feed and the journal's forecast follow.
  */
 import { eq } from "drizzle-orm";
-import ICAL from "ical.js";
 import { describe, expect, it } from "vitest";
 import { getDb } from "~/db/client.server";
 import { maintenancePlans } from "~/db/schema-care";
 import { action as planApi, loader as planApiGet } from "~/routes/api/tank-plan";
-import { loader as feedLoader } from "~/routes/calendar/feed";
 import { action as journalAction, loader as journalLoader } from "~/routes/journal/journal";
 import { loader as planLoader } from "~/routes/tanks/plan";
 import { call, get, post, postJson } from "../support/routes";
 import { createScenario, createTank } from "../support/tanks";
 import { userWithCookie } from "../support/users";
+import { calendarTitles } from "../support/calendar";
 
 const DAY = 86_400_000;
 const day = (daysAgo: number) =>
@@ -50,24 +49,6 @@ const apiPut = (tankId: string, body: unknown, cookie: string) =>
   call(planApi, postJson(`/api/tanks/${tankId}/plan`, body, cookie, "PUT"), { tankId });
 const apiDelete = (tankId: string, cookie: string) =>
   call(planApi, postJson(`/api/tanks/${tankId}/plan`, {}, cookie, "DELETE"), { tankId });
-
-async function calendarTitles(cookie: string, tankId: string): Promise<string[]> {
-  const page = await call(journalLoader, get(`/tanks/${tankId}/journal`, cookie), { tankId });
-  const on = await call(
-    journalAction,
-    post(`/tanks/${tankId}/journal`, { intent: "calendar-on", scenarioId: String(page.data.scenarioId) }, cookie),
-    { tankId },
-  );
-  const url = new URL(on.data.calendarUrl as string);
-  const feed = await feedLoader({
-    params: { token: url.pathname.split("/").at(-1)! },
-    request: new Request(url),
-    context: {},
-  } as never);
-  // Parsed with ical.js, an independent RFC 5545 reader
-  const cal = new ICAL.Component(ICAL.parse(await feed.text()));
-  return cal.getAllSubcomponents("vevent").map((v) => new ICAL.Event(v).summary);
-}
 
 describe("the maintenance plan's API", () => {
   it("round trip: the scenario's timetable, a plan put, read back, and deleted back to the timetable", async () => {

@@ -4,6 +4,7 @@
  * change to a locked field even when the form is forged, and what a copy changed.
  */
 import { listScenarioFields, type Scenario } from "~models";
+import { CANONICAL_UNITS } from "~models/units";
 import type { LessonRow } from "~/features/classes/class-rows";
 import { readStoredSettings } from "~/features/runs/simulation.server";
 import { buildScenarioForm } from "~/features/scenarios/scenario-form.server";
@@ -94,14 +95,7 @@ export function lessonEnforcer(lesson: Pick<LessonRow, "settings" | "unlockedFie
         errors[""] = "This lesson fixes the plant groups: they cannot be added or removed.";
     }
     // Check every field the form has, in the lesson's own settings (units do not matter here).
-    for (const name of lessonFieldNames(base, {
-      volume: "L",
-      temperature: "C",
-      nitrate: "asN",
-      nitrite: "asN",
-      ammonia: "asN",
-      kh: "dKH",
-    })) {
+    for (const name of lessonFieldNames(base, CANONICAL_UNITS)) {
       if (free.has(name) || (plantsFree && name.startsWith("plants."))) continue;
       const path = name.split(".");
       if (!same(valueAt(scenario, path), valueAt(base, path))) errors[name] = "This setting is locked by the lesson.";
