@@ -16,15 +16,16 @@ import { getEnginePool } from "~/features/jobs/engine-pool.server";
 import { takeRunSlot } from "~/features/runs/run-gate.server";
 import { REQUEST_RUN_LIMITS } from "~/features/runs/simulation.server";
 
+type RunAsked = { ownerId: number | null; scenario: Scenario; events: TankEventInput[] };
 /** Up to 200 runs for 10 minutes (a day's replay is a few hundred kB; the forecast's search about ten runs). */
-const kept = new LRUCache<string, SimulationResult, { ownerId: number | null; json: string }>({
+const kept = new LRUCache<string, SimulationResult, RunAsked>({
   max: 200,
   ttl: 10 * 60_000,
-  fetchMethod: async (_key, _stale, { context }) => {
-    const { scenario, events } = JSON.parse(context.json) as { scenario: Scenario; events: TankEventInput[] };
-    const release = context.ownerId === null ? () => {} : await takeRunSlot(context.ownerId);
+  // The first asker's inputs run; later askers with the same key have equal ones.
+  fetchMethod: async (_key, _stale, { context: { ownerId, scenario, events } }) => {
+    const release = ownerId === null ? () => {} : await takeRunSlot(ownerId);
     try {
-      return await runOnPool(scenario, events, context.ownerId);
+      return await runOnPool(scenario, events, ownerId);
     } finally {
       release();
     }
@@ -54,9 +55,8 @@ export async function simulateOnPool(
   events: TankEventInput[],
   ownerId: number | null,
 ): Promise<SimulationResult> {
-  const json = JSON.stringify({ scenario, events });
-  const key = createHash("sha256").update(json).digest("base64url");
-  return (await kept.fetch(key, { context: { ownerId, json } }))!;
+  const key = createHash("sha256").update(JSON.stringify({ scenario, events })).digest("base64url");
+  return (await kept.fetch(key, { context: { ownerId, scenario, events } }))!;
 }
 
 /** Forgets the kept runs (tests). */
