@@ -17,14 +17,14 @@ export type FitSchedule = { kind: "periodic" } | { kind: "journal"; events: Tank
 /** The scenario to run (the replay's, lengthened to the journal, on the journal), its day 0, and the schedule. */
 export type FitBasis = { scenario: Scenario; startMs: number; schedule: FitSchedule };
 
-export const periodicBasis = (scenario: Scenario, startMs: number): FitBasis => ({
+const periodicBasis = (scenario: Scenario, startMs: number): FitBasis => ({
   scenario,
   startMs,
   schedule: { kind: "periodic" },
 });
 
 /** The journal's replay (journal-replay.server.ts replayInputs) as a basis. */
-export const journalBasis = (replay: { scenario: Scenario; startMs: number; events: TankEventInput[] }): FitBasis => ({
+const journalBasis = (replay: { scenario: Scenario; startMs: number; events: TankEventInput[] }): FitBasis => ({
   scenario: replay.scenario,
   startMs: replay.startMs,
   schedule: { kind: "journal", events: replay.events },
@@ -50,15 +50,17 @@ export const observedOf = (r: EngineTaskResult): Observed | null => (r.kind === 
 /**
  * A scenario's bases, for the calibration page and the API alike: the journal's replay (null
  * when the tank's journal is empty), and the basis for a choice — the journal when chosen, the
- * default when there is one, else the periodic schedule from `startMs`.
+ * default when there is one, else the periodic schedule from `startMs`. The replay runs to
+ * `now` (a restarted job passes the day it was asked for).
  */
 export function scenarioBases(
   tank: { id: number; nitrateTargetLow: number; nitrateTargetHigh: number },
   settings: Scenario,
   startMs: number,
+  now = Date.now(),
 ) {
   const withTargets = withTankTargets(settings, tank);
-  const replay = replayInputs(withTargets, listJournal(tank.id));
+  const replay = replayInputs(withTargets, listJournal(tank.id), now);
   const basisFor = (choice: string | null | undefined): FitBasis =>
     replay && (choice ?? "journal") === "journal" ? journalBasis(replay) : periodicBasis(withTargets, startMs);
   return { replay, basisFor };

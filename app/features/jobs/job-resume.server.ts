@@ -17,13 +17,11 @@ import { getDb } from "~/db/client.server";
 import { scenarios, tanks, users } from "~/db/schema";
 import { calibrationJob } from "~/features/calibration/calibration.server";
 import { CalibrateInputSchema } from "~/features/calibration/calibration-input.server";
-import { journalBasis, periodicBasis } from "~/features/calibration/calibration-basis.server";
+import { scenarioBases } from "~/features/calibration/calibration-basis.server";
 import { claimOrphans } from "~/features/jobs/job-claims.server";
 import type { JobKind } from "~/features/jobs/job-json";
 import { failJobRow, HEARTBEAT_MS, type JobRow } from "~/features/jobs/job-rows.server";
 import { resumeJob, type Job, type JobSpec } from "~/features/jobs/jobs.server";
-import { replayInputs } from "~/features/journal/journal-replay.server";
-import { listJournal } from "~/features/journal/journal.server";
 import { modelStartMs } from "~/features/readings/readings.server";
 import { readStoredSettings, withTankTargets } from "~/features/runs/simulation.server";
 import { sweepInputSchema, sweepJob, sweepLevers } from "~/features/sweeps/sweeps.server";
@@ -68,21 +66,10 @@ const REBUILD: Record<JobKind, Rebuild> = {
     const units = displayUnitsFor(owner);
     const input = checked(job, CalibrateInputSchema.safeParse({ fit: params.fit, kits: params.kits }));
     const { schedule } = checked(job, CalibrationParamsSchema.safeParse(params));
-    const scenario = withTankTargets(settings, tank);
-    if (schedule === "periodic")
-      return calibrationJob(
-        owner,
-        row,
-        tank.id,
-        periodicBasis(scenario, modelStartMs(row)),
-        input.fit,
-        units,
-        input.kits,
-      ) as JobSpec;
     // The journal replayed as it was when the job was asked for (its length runs to that day).
-    const replay = replayInputs(scenario, listJournal(tank.id), job.startedAt);
-    if (!replay) throw changed(job);
-    return calibrationJob(owner, row, tank.id, journalBasis(replay), input.fit, units, input.kits) as JobSpec;
+    const { replay, basisFor } = scenarioBases(tank, settings, modelStartMs(row), job.startedAt);
+    if (schedule === "journal" && !replay) throw changed(job);
+    return calibrationJob(owner, row, tank.id, basisFor(schedule), input.fit, units, input.kits) as JobSpec;
   },
 };
 
