@@ -4,6 +4,13 @@
  */
 
 export type JobKind = "sweep" | "calibration" | "target";
+
+/** Each kind in words ("a sweep" is `a ${JOB_KIND_NAMES.sweep}`). */
+export const JOB_KIND_NAMES: Record<JobKind, string> = {
+  sweep: "sweep",
+  calibration: "calibration",
+  target: "target search",
+};
 export type JobStatus = "waiting" | "running" | "done" | "failed" | "cancelled";
 
 export type JobJson<R = unknown, P = unknown> = {

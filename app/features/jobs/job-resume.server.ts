@@ -19,7 +19,7 @@ import { calibrationJob } from "~/features/calibration/calibration.server";
 import { CalibrateInputSchema } from "~/features/calibration/calibration-input.server";
 import { scenarioBases } from "~/features/calibration/calibration-basis.server";
 import { claimOrphans } from "~/features/jobs/job-claims.server";
-import type { JobKind } from "~/features/jobs/job-json";
+import { JOB_KIND_NAMES, type JobKind } from "~/features/jobs/job-json";
 import { failJobRow, HEARTBEAT_MS, type JobRow } from "~/features/jobs/job-rows.server";
 import { resumeJob, type Job, type JobSpec } from "~/features/jobs/jobs.server";
 import { modelStartMs } from "~/features/readings/readings.server";
@@ -31,8 +31,6 @@ import { displayUnitsFor } from "~/utils/display-units";
 
 /** A job that cannot be run again; its message is the job's error. */
 class NotRestartable extends Error {}
-
-const KIND_NAME: Record<JobKind, string> = { sweep: "sweep", calibration: "calibration", target: "target search" };
 
 /** What every kind's params hold (each kind adds its form's input). */
 const ParamsSchema = z.looseObject({ scenarioId: z.number().int().positive(), fingerprint: z.string() });
@@ -46,7 +44,7 @@ type Rebuild = (job: JobRow, params: Record<string, unknown>, owner: Owner, plac
 function checked<T>(job: JobRow, parsed: z.ZodSafeParseResult<T>): T {
   if (parsed.success) return parsed.data;
   throw new NotRestartable(
-    `This ${KIND_NAME[job.kind]} could not be restarted after the server running it stopped: ${parsed.error.issues[0]?.message ?? "its settings are no longer allowed"} Start it again.`,
+    `This ${JOB_KIND_NAMES[job.kind]} could not be restarted after the server running it stopped: ${parsed.error.issues[0]?.message ?? "its settings are no longer allowed"} Start it again.`,
   );
 }
 
@@ -75,7 +73,7 @@ const REBUILD: Record<JobKind, Rebuild> = {
 
 const changed = (job: JobRow) =>
   new NotRestartable(
-    `The scenario changed after this ${KIND_NAME[job.kind]} started (its settings, tank, journal, readings or your units), so it was not restarted after the server running it stopped. Start it again.`,
+    `The scenario changed after this ${JOB_KIND_NAMES[job.kind]} started (its settings, tank, journal, readings or your units), so it was not restarted after the server running it stopped. Start it again.`,
   );
 
 /** The job's work, rebuilt from its row; throws NotRestartable with the reason it cannot be. */
@@ -90,7 +88,7 @@ function rebuild(job: JobRow): JobSpec {
     .get();
   if (!owner || !place) {
     throw new NotRestartable(
-      `The scenario this ${KIND_NAME[job.kind]} ran on was deleted, so it could not be restarted after the server running it stopped.`,
+      `The scenario this ${JOB_KIND_NAMES[job.kind]} ran on was deleted, so it could not be restarted after the server running it stopped.`,
     );
   }
   const settings = readStoredSettings(place.row.settings);
@@ -115,7 +113,7 @@ export function resumeOrphans(now = Date.now()): Job[] {
         row.id,
         error instanceof NotRestartable
           ? error.message
-          : `This ${KIND_NAME[row.kind]} could not be restarted after the server running it stopped. Start it again.`,
+          : `This ${JOB_KIND_NAMES[row.kind]} could not be restarted after the server running it stopped. Start it again.`,
       );
     }
   }

@@ -40,7 +40,7 @@ export type { Job } from "~/features/jobs/job-rows.server";
 import { beginner, type JobContext } from "~/features/jobs/job-work.server";
 export type { JobContext } from "~/features/jobs/job-work.server";
 import { randomToken } from "~/utils/crypto.server";
-import type { JobJson, JobKind } from "~/features/jobs/job-json";
+import { JOB_KIND_NAMES, type JobJson, type JobKind } from "~/features/jobs/job-json";
 export type { JobJson, JobKind } from "~/features/jobs/job-json";
 
 export {
@@ -157,12 +157,6 @@ function jobsAhead(job: Job): number {
   return row ? waitingAhead(row) : 0;
 }
 
-const KIND_WORDS: Record<JobKind, string> = {
-  sweep: "a sweep",
-  calibration: "a calibration",
-  target: "a target search",
-};
-
 /** What a job is started with: its row's fields (params: what rebuilds it after a restart). */
 export type JobStart = { user: { id: number }; kind: JobKind; label: string; total: number; params?: unknown };
 /** A job ready to start: what it is, and its work. */
@@ -185,7 +179,7 @@ export function startJob<R, P = unknown>(start: JobStart, work: (ctx: JobContext
   if (!inserted.ok && inserted.reason === "mine") {
     const mine = inserted.mine;
     throw new JobRefused(
-      `You already have ${KIND_WORDS[mine.kind]} running (${mine.label}). Wait for it to finish or cancel it first.`,
+      `You already have a ${JOB_KIND_NAMES[mine.kind]} running (${mine.label}). Wait for it to finish or cancel it first.`,
       429,
     );
   }
