@@ -5,7 +5,7 @@
  * the API through apiRoute (app/http/api.server.ts).
  */
 import { isModelError } from "~models";
-import { JobRefused } from "~/features/jobs/jobs.server";
+import { JobRefused } from "~/features/jobs/job-limits.server";
 import { RunRefused } from "~/features/runs/run-gate.server";
 import { QuotaExceeded } from "~/quotas.server";
 

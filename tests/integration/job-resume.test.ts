@@ -13,15 +13,9 @@ import { jobs, readings, scenarios } from "~/db/schema";
 import { journalEntries } from "~/db/schema-care";
 import { runEngineTask } from "~/features/jobs/engine-tasks.server";
 import { resumeOrphans } from "~/features/jobs/job-resume.server";
-import {
-  clearJobs,
-  getEnginePool,
-  JOB_LIMITS,
-  jobJson,
-  releaseLocalJobs,
-  startJob,
-  type JobJson,
-} from "~/features/jobs/jobs.server";
+import { getEnginePool } from "~/features/jobs/engine-pool.server";
+import { JOB_LIMITS } from "~/features/jobs/job-limits.server";
+import { clearJobs, jobJson, releaseLocalJobs, startJob, type JobJson } from "~/features/jobs/jobs.server";
 import { action as calibrateAction } from "~/routes/calibrate/calibrate";
 import { action as targetAction } from "~/routes/sweeps/target";
 import { action as sweepsApi } from "~/routes/api/scenario-sweeps";

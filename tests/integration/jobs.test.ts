@@ -4,18 +4,9 @@ import { getDb } from "~/db/client.server";
 import { jobs, readings, scenarios } from "~/db/schema";
 import { journalEntries } from "~/db/schema-care";
 import { runEngineTask } from "~/features/jobs/engine-tasks.server";
-import {
-  cancelJob,
-  clearJobs,
-  createEnginePool,
-  JOB_LIMITS,
-  jobJson,
-  getEnginePool,
-  setEnginePool,
-  sourceWorkerUrl,
-  startJob,
-  type JobJson,
-} from "~/features/jobs/jobs.server";
+import { createEnginePool, getEnginePool, setEnginePool, sourceWorkerUrl } from "~/features/jobs/engine-pool.server";
+import { JOB_LIMITS } from "~/features/jobs/job-limits.server";
+import { cancelJob, clearJobs, jobJson, startJob, type JobJson } from "~/features/jobs/jobs.server";
 import { action as calibrateAction, loader as calibrateLoader } from "~/routes/calibrate/calibrate";
 import { action as jobApiAction, loader as jobApi } from "~/routes/api/job";
 import { action as calibrationsApi } from "~/routes/api/scenario-calibrations";

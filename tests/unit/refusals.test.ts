@@ -1,7 +1,7 @@
 import { data } from "react-router";
 import { describe, expect, it } from "vitest";
 import { ModelError } from "~models";
-import { JobRefused } from "~/features/jobs/jobs.server";
+import { JobRefused } from "~/features/jobs/job-limits.server";
 import { RunRefused } from "~/features/runs/run-gate.server";
 import { apiAnswer, apiRoute } from "~/http/api.server";
 import { formRefusal, runProblem } from "~/http/pages.server";

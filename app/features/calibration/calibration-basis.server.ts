@@ -10,7 +10,7 @@ import { listJournal } from "~/features/journal/journal.server";
 import { withTankTargets } from "~/features/runs/simulation.server";
 import type { Observed, ObserveRequest } from "~models/nitrogen/calibrate";
 import type { EngineTask, EngineTaskResult } from "~/features/jobs/engine-tasks.server";
-import { JOB_RUN_LIMITS } from "~/features/jobs/jobs.server";
+import { JOB_RUN_LIMITS } from "~/features/jobs/job-limits.server";
 
 export type FitSchedule = { kind: "periodic" } | { kind: "journal"; events: TankEventInput[] };
 

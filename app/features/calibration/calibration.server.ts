@@ -5,7 +5,8 @@
  * check before a fit is calibration-assess.server.ts; the inputs, calibration-input.server.ts.
  */
 import { calibrateMultipliers, kitsFor, type Kits, type MultiplierKey } from "~models/nitrogen/calibrate";
-import { KeeperError, startJob, type JobContext, type JobSpec } from "~/features/jobs/jobs.server";
+import { KeeperError } from "~/features/jobs/job-limits.server";
+import { startJob, type JobContext, type JobSpec } from "~/features/jobs/jobs.server";
 import { contentHash } from "~/features/runs/simulation.server";
 import { readingsForCalibration } from "~/features/readings/readings.server";
 import type { DisplayUnits } from "~/utils/display-units";

@@ -1,7 +1,7 @@
 /**
  * A job's work as it runs in this process: the context its work function gets (engine runs on
  * the pool's job lane, a cancel checked between runs, progress written to its row) and what
- * records how it ended (app/features/jobs/jobs.server.ts keeps the registry and the line).
+ * records how it ended (app/features/jobs/job-line.server.ts keeps the registry and the line).
  */
 import { getEnginePool } from "~/features/jobs/engine-pool.server";
 import type { EngineTask, EngineTaskResult } from "~/features/jobs/engine-tasks.server";

@@ -17,7 +17,7 @@ import {
   type SimulateOptions,
   type SimulationResult,
 } from "~models";
-import { getEnginePool } from "~/features/jobs/jobs.server";
+import { getEnginePool } from "~/features/jobs/engine-pool.server";
 import { giveBack, LIMITS, resetLimit, take, waitText } from "~/rate-limits.server";
 import { toStorable, type StorableRun } from "~/features/runs/run-packing.server";
 

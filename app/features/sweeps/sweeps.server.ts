@@ -8,7 +8,8 @@
 import { z } from "zod";
 import { OUTCOMES, scenarioSettings, type Quantity, type Scenario, type Setting } from "~models";
 import { fromDisplay, toDisplay, unitLabel } from "~models/units";
-import { JOB_LIMITS, JOB_RUN_LIMITS, startJob, type JobContext, type JobSpec } from "~/features/jobs/jobs.server";
+import { JOB_LIMITS, JOB_RUN_LIMITS } from "~/features/jobs/job-limits.server";
+import { startJob, type JobContext, type JobSpec } from "~/features/jobs/jobs.server";
 import { contentHash } from "~/features/runs/simulation.server";
 import type { DisplayUnits } from "~/utils/display-units";
 import type { Role } from "~/db/schema";

@@ -7,7 +7,8 @@
 import { z } from "zod";
 import type { Scenario } from "~models";
 import { speciesFactor } from "~models/units";
-import { JOB_RUN_LIMITS, startJob, type JobContext, type JobSpec } from "~/features/jobs/jobs.server";
+import { JOB_RUN_LIMITS } from "~/features/jobs/job-limits.server";
+import { startJob, type JobContext, type JobSpec } from "~/features/jobs/jobs.server";
 import { contentHash } from "~/features/runs/simulation.server";
 import {
   changeWaterNitrate,

@@ -1,6 +1,6 @@
 import type { Route } from "./+types/scenario-sweeps";
 import { apiError, apiRoute, json, readJson, zodIssues } from "~/http/api.server";
-import { JOB_LIMITS } from "~/features/jobs/jobs.server";
+import { JOB_LIMITS } from "~/features/jobs/job-limits.server";
 import { jobAccepted, requireApiScenario } from "~/features/scenarios/scenario-api.server";
 import { leverJson, startSweep, SWEEP_OUTCOMES, sweepInputSchema, sweepLevers } from "~/features/sweeps/sweeps.server";
 import { displayUnitsFor } from "~/utils/display-units";

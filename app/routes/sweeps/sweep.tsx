@@ -4,7 +4,8 @@ import type { Route } from "./+types/sweep";
 import { XYChart } from "~/components/charts/xy-chart";
 import { jobActive, JobProgress, useJob } from "~/components/job-progress";
 import { FormMessage, SelectField, TextField } from "~/components/ui/field";
-import { cancelJob, findScenarioJob, JOB_LIMITS, jobJson } from "~/features/jobs/jobs.server";
+import { JOB_LIMITS } from "~/features/jobs/job-limits.server";
+import { cancelJob, findScenarioJob, jobJson } from "~/features/jobs/jobs.server";
 import { requireUser } from "~/permissions.server";
 import { readStoredSettings, withTankTargets } from "~/features/runs/simulation.server";
 import {
