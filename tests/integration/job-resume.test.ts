@@ -157,8 +157,8 @@ describe("jobs of a process that stopped", () => {
     const releases: (() => void)[] = [];
     const held = () => new Promise<string>((resolve) => releases.push(() => resolve("done")));
     for (let i = 0; i < capacity; i++)
-      startJob({ user: { id: 90_000 + i }, kind: "sweep", label: "held", total: 1 }, held);
-    const later = startJob({ user: { id: 95_000 }, kind: "sweep", label: "later", total: 1 }, held);
+      startJob({ start: { user: { id: 90_000 + i }, kind: "sweep", label: "held", total: 1 }, work: held });
+    const later = startJob({ start: { user: { id: 95_000 }, kind: "sweep", label: "later", total: 1 }, work: held });
     expect(later.status).toBe("waiting");
 
     silence(dead.ids);

@@ -16,7 +16,7 @@ import { loader as resultsLoader } from "~/routes/scenarios/results";
 import { action as sweepAction, loader as sweepLoader } from "~/routes/sweeps/sweep";
 import { action as targetAction } from "~/routes/sweeps/target";
 import { readStoredSettings } from "~/features/runs/simulation.server";
-import { leverJson, startSweep, sweepLevers } from "~/features/sweeps/sweeps.server";
+import { leverJson, sweepJob, sweepLevers } from "~/features/sweeps/sweeps.server";
 import { DEFAULT_PREFERENCES, displayUnitsFor } from "~/utils/display-units";
 import { call, get, ORIGIN, post, postJson } from "../support/routes";
 import { createScenario, createTank } from "../support/tanks";
@@ -567,20 +567,23 @@ describe("the job registry", () => {
     const held = () => new Promise<string>((resolve) => releases.push(() => resolve("done")));
     const capacity = JOB_LIMITS.runningPerWorker * getEnginePool().size;
     const running = Array.from({ length: capacity }, (_, i) =>
-      startJob({ user: { id: 10_000 + i }, kind: "sweep", label: "x", total: 1 }, held),
+      startJob({ start: { user: { id: 10_000 + i }, kind: "sweep", label: "x", total: 1 }, work: held }),
     );
     expect(running.every((j) => j.status === "running")).toBe(true);
     // Before: the next person got "the server is busy" (503). Now they wait in line.
-    const fifth = startJob({ user: { id: 20_000 }, kind: "sweep", label: "fifth", total: 1 }, held);
-    const sixth = startJob({ user: { id: 20_001 }, kind: "sweep", label: "sixth", total: 1 }, held);
+    const fifth = startJob({ start: { user: { id: 20_000 }, kind: "sweep", label: "fifth", total: 1 }, work: held });
+    const sixth = startJob({ start: { user: { id: 20_001 }, kind: "sweep", label: "sixth", total: 1 }, work: held });
     expect([fifth.status, sixth.status]).toEqual(["waiting", "waiting"]);
     expect([jobJson(fifth).ahead, jobJson(sixth).ahead]).toEqual([0, 1]);
     // Still one job per person, waiting included.
-    expect(() => startJob({ user: { id: 20_001 }, kind: "calibration", label: "again", total: 1 }, held)).toThrow(
-      /already have a sweep/,
-    );
+    expect(() =>
+      startJob({ start: { user: { id: 20_001 }, kind: "calibration", label: "again", total: 1 }, work: held }),
+    ).toThrow(/already have a sweep/);
     // The waiting one can be cancelled at once; the one behind it moves up.
-    const seventh = startJob({ user: { id: 20_002 }, kind: "sweep", label: "seventh", total: 1 }, held);
+    const seventh = startJob({
+      start: { user: { id: 20_002 }, kind: "sweep", label: "seventh", total: 1 },
+      work: held,
+    });
     expect(jobJson(seventh).ahead).toBe(2);
     cancelJob(20_001, sixth.id);
     expect(sixth.status).toBe("cancelled");
@@ -608,19 +611,26 @@ describe("the job registry", () => {
       limits: { maxWallMs: 3000, maxSteps: 300_000 },
     } as const;
     let ran = 0;
-    const job = startJob({ user: { id: 60_000 }, kind: "sweep", label: "taken", total: 2 }, async (ctx) => {
-      await ctx.run(task);
-      ran++;
-      ctx.progress(1);
-      await gate;
-      await ctx.run(task);
-      ran++;
-      return "done here";
+    const job = startJob({
+      start: { user: { id: 60_000 }, kind: "sweep", label: "taken", total: 2 },
+      work: async (ctx) => {
+        await ctx.run(task);
+        ran++;
+        ctx.progress(1);
+        await gate;
+        await ctx.run(task);
+        ran++;
+        return "done here";
+      },
     });
     await new Promise((r) => setTimeout(r, 300));
     expect(ran).toBe(1);
     // Another process claims it, as job-claims.server.ts does with a silent process's rows.
-    getDb().update(jobs).set({ instance: "elsewhere:1", status: "running", done: 0, partial: null }).where(eq(jobs.id, job.id)).run();
+    getDb()
+      .update(jobs)
+      .set({ instance: "elsewhere:1", status: "running", done: 0, partial: null })
+      .where(eq(jobs.id, job.id))
+      .run();
     release();
     await new Promise((r) => setTimeout(r, 300));
     expect(ran).toBe(1);
@@ -633,10 +643,10 @@ describe("the job registry", () => {
     const never = () => new Promise<never>(() => {});
     const capacity = JOB_LIMITS.runningPerWorker * getEnginePool().size;
     for (let i = 0; i < capacity + JOB_LIMITS.maxWaiting; i++)
-      startJob({ user: { id: 40_000 + i }, kind: "sweep", label: "x", total: 1 }, never);
-    expect(() => startJob({ user: { id: 50_000 }, kind: "sweep", label: "x", total: 1 }, never)).toThrow(
-      /line .* is full/,
-    );
+      startJob({ start: { user: { id: 40_000 + i }, kind: "sweep", label: "x", total: 1 }, work: never });
+    expect(() =>
+      startJob({ start: { user: { id: 50_000 }, kind: "sweep", label: "x", total: 1 }, work: never }),
+    ).toThrow(/line .* is full/);
   });
 
   it("labels a sweep with the person's units", () => {
@@ -644,12 +654,14 @@ describe("the job registry", () => {
     const s = ScenarioSchema.parse(PLANTED);
     const lever = sweepLevers(s).find((l) => l.id === "maintenance.dripLPerDay")!;
     expect(leverJson(lever, units).unit).toBe("US gal/day");
-    const job = startSweep(
-      { id: 30_000 },
-      1,
-      s,
-      { setting: "maintenance.dripLPerDay", from: 0, to: 2, points: 2, outcome: "nitrateEnd" },
-      units,
+    const job = startJob(
+      sweepJob(
+        { id: 30_000 },
+        1,
+        s,
+        { setting: "maintenance.dripLPerDay", from: 0, to: 2, points: 2, outcome: "nitrateEnd" },
+        units,
+      ),
     );
     expect(job.label).toBe("Continuous drip from 0 to 2 US gal/day, 2 points");
   });

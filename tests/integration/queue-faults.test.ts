@@ -7,9 +7,9 @@ import { spawn, type ChildProcess } from "node:child_process";
 import { randomUUID } from "node:crypto";
 import { afterEach, describe, expect, it, vi } from "vitest";
 import { createEnginePool, setEnginePool } from "~/features/jobs/engine-pool.server";
-import { clearJobs, findJob, type Job } from "~/features/jobs/jobs.server";
+import { clearJobs, findJob, type Job, startJob } from "~/features/jobs/jobs.server";
 import { queuePool } from "~/features/jobs/queue-pool.server";
-import { startSweep } from "~/features/sweeps/sweeps.server";
+import { sweepJob } from "~/features/sweeps/sweeps.server";
 import { DEFAULT_PREFERENCES, displayUnitsFor } from "~/utils/display-units";
 import { ScenarioSchema } from "../../models/index";
 
@@ -58,7 +58,7 @@ function useQueue(taskWaitMs?: number): string {
 const scenario = ScenarioSchema.parse({ fish: { feedGPerDay: 1, proteinFraction: 0.42 }, run: { lengthDays: 365, outputIntervalDays: 1 / 24 } });
 const units = displayUnitsFor(DEFAULT_PREFERENCES);
 const sweep = (userId: number) =>
-  startSweep({ id: userId }, 1, scenario, { setting: "fish.feedGPerDay", from: 0.2, to: 2, points: 30, outcome: "nitrateEnd" }, units);
+  startJob(sweepJob({ id: userId }, 1, scenario, { setting: "fish.feedGPerDay", from: 0.2, to: 2, points: 30, outcome: "nitrateEnd" }, units));
 
 async function settled(job: Job, ms: number): Promise<Job> {
   const deadline = Date.now() + ms;

@@ -10,9 +10,9 @@ import { getDb } from "~/db/client.server";
 import { users } from "~/db/schema";
 import { claimOrphans } from "~/features/jobs/job-claims.server";
 import { resumeOrphans } from "~/features/jobs/job-resume.server";
-import { releaseLocalJobs, type Job } from "~/features/jobs/jobs.server";
+import { releaseLocalJobs, type Job, startJob } from "~/features/jobs/jobs.server";
 import { readStoredSettings, withTankTargets } from "~/features/runs/simulation.server";
-import { startSweep, sweepInputSchema, sweepLevers } from "~/features/sweeps/sweeps.server";
+import { sweepJob, sweepInputSchema, sweepLevers } from "~/features/sweeps/sweeps.server";
 import { requireOwnedScenarioById } from "~/features/tanks/tanks.server";
 import { INSTANCE } from "~/instance.server";
 import { displayUnitsFor } from "~/utils/display-units";
@@ -47,7 +47,7 @@ if (plan.claimLoop) {
     const scenario = withTankTargets(readStoredSettings(row.settings)!, tank);
     const units = displayUnitsFor(user);
     const input = sweepInputSchema(sweepLevers(scenario), units, user.role).parse(s.input);
-    started.push(startSweep(user, row.id, scenario, input, units));
+    started.push(startJob(sweepJob(user, row.id, scenario, input, units)));
     await sleep(3); // distinct start times, so the line's order is unambiguous
   }
   while (started.length && started[0].done < (plan.stopAfterDone ?? 0)) await sleep(1);

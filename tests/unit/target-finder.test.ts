@@ -3,7 +3,7 @@ import type { Scenario } from "../../models/index";
 import { runEngineTask } from "~/features/jobs/engine-tasks.server";
 import { clearJobs, startJob, type Job } from "~/features/jobs/jobs.server";
 import { searchLever, type SearchLever } from "~/features/sweeps/search-levers.server";
-import { startTargetSearch, type TargetResultJson } from "~/features/sweeps/target-finder.server";
+import { targetSearchJob, type TargetResultJson } from "~/features/sweeps/target-finder.server";
 import { findLeastChange, judge, type Goal } from "~/features/sweeps/target-search.server";
 import { displayUnitsFor, DEFAULT_PREFERENCES } from "~/utils/display-units";
 import { bareTank, feedForLoad } from "../models/helpers";
@@ -62,12 +62,14 @@ describe("the target finder", () => {
 
   it("says plainly when tap water already carries more nitrate than the goal, and what would help", async () => {
     const units = displayUnitsFor({ ...DEFAULT_PREFERENCES, nitrateUnit: "N" });
-    const job = startTargetSearch(
-      { id: 1 },
-      1,
-      tank({ tapNitrate: 16 }),
-      { nitrateMax: 15.6, nh3Max: "", lever: "waterChangeFraction", intervalDays: 7 },
-      units,
+    const job = startJob(
+      targetSearchJob(
+        { id: 1 },
+        1,
+        tank({ tapNitrate: 16 }),
+        { nitrateMax: 15.6, nh3Max: "", lever: "waterChangeFraction", intervalDays: 7 },
+        units,
+      ),
     );
     const done = await finished(job);
     expect(done.status).toBe("done");
@@ -87,12 +89,14 @@ describe("the target finder", () => {
 
   it("reports a goal already met without proposing a change to save", async () => {
     const s = tank();
-    const job = startTargetSearch(
-      { id: 2 },
-      1,
-      s,
-      { nitrateMax: 100, nh3Max: "", lever: "feed" },
-      displayUnitsFor({ ...DEFAULT_PREFERENCES, nitrateUnit: "N" }),
+    const job = startJob(
+      targetSearchJob(
+        { id: 2 },
+        1,
+        s,
+        { nitrateMax: 100, nh3Max: "", lever: "feed" },
+        displayUnitsFor({ ...DEFAULT_PREFERENCES, nitrateUnit: "N" }),
+      ),
     );
     const result = (await finished(job)).result as TargetResultJson;
     expect(result.status).toBe("alreadyMet");
@@ -101,11 +105,13 @@ describe("the target finder", () => {
 
   it("runs one job per person at a time", () => {
     const never = () => new Promise<never>(() => {});
-    startJob({ user: { id: 3 }, kind: "sweep", label: "first", total: 1 }, never);
-    expect(() => startJob({ user: { id: 3 }, kind: "target", label: "second", total: 1 }, never)).toThrow(
-      /already have a sweep running \(first\)/,
-    );
-    expect(() => startJob({ user: { id: 4 }, kind: "target", label: "someone else", total: 1 }, never)).not.toThrow();
+    startJob({ start: { user: { id: 3 }, kind: "sweep", label: "first", total: 1 }, work: never });
+    expect(() =>
+      startJob({ start: { user: { id: 3 }, kind: "target", label: "second", total: 1 }, work: never }),
+    ).toThrow(/already have a sweep running \(first\)/);
+    expect(() =>
+      startJob({ start: { user: { id: 4 }, kind: "target", label: "someone else", total: 1 }, work: never }),
+    ).not.toThrow();
   });
 });
 

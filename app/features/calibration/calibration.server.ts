@@ -6,7 +6,7 @@
  */
 import { calibrateMultipliers, kitsFor, type Kits, type MultiplierKey } from "~models/nitrogen/calibrate";
 import { KeeperError } from "~/features/jobs/job-limits.server";
-import { startJob, type JobContext, type JobSpec } from "~/features/jobs/jobs.server";
+import type { JobContext, JobSpec } from "~/features/jobs/jobs.server";
 import { contentHash } from "~/features/runs/simulation.server";
 import { readingsForCalibration } from "~/features/readings/readings.server";
 import type { DisplayUnits } from "~/utils/display-units";
@@ -16,20 +16,6 @@ import { calibrationJson, MULTIPLIER_LABELS, preferredUnits } from "~/features/c
 
 /** Iterations of each local fit at most. */
 const MAX_ITERATIONS = 25;
-
-/** Starts a calibration job on `basis`. Throws JobRefused at the person's or the server's limit. */
-export function startCalibration(
-  user: { id: number },
-  row: { id: number; name: string },
-  tankId: number,
-  basis: FitBasis,
-  fit: MultiplierKey[],
-  units: DisplayUnits,
-  kits: Kits = {},
-) {
-  const { start, work } = calibrationJob(user, row, tankId, basis, fit, units, kits);
-  return startJob(start, work);
-}
 
 /**
  * A calibration job, ready to start or to run again after a restart: its params name the

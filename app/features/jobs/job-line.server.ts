@@ -55,7 +55,11 @@ export function dropLocalJobs(): Job[] {
 /** How many jobs are ahead of this one in line (0 when it is next, or running). */
 export function jobsAhead(job: Job): number {
   if (job.status !== "waiting") return 0;
-  if (jobs.get(job.id) === job) return Math.max(0, line.findIndex((w) => w.job === job));
+  if (jobs.get(job.id) === job)
+    return Math.max(
+      0,
+      line.findIndex((w) => w.job === job),
+    );
   const row = readJobRow(job.id);
   return row ? waitingAhead(row) : 0;
 }

@@ -52,22 +52,32 @@ function prune(now = Date.now()) {
 }
 
 /** What a job is started with: its row's fields (params: what rebuilds it after a restart). */
-export type JobStart = { user: { id: number }; kind: JobKind; label: string; total: number; params?: unknown };
+type JobStart = { user: { id: number }; kind: JobKind; label: string; total: number; params?: unknown };
 /** A job ready to start: what it is, and its work. */
 export type JobSpec<R = unknown, P = unknown> = { start: JobStart; work: (ctx: JobContext<P>) => Promise<R> };
 
 /**
- * Starts `work` as a job of `user` and returns at once (the job runs on). Throws JobRefused when
- * the person already has a job running or the server is full.
+ * Starts a job (a sweep's, a calibration's, a target search's: see their `…Job` builders) and
+ * returns at once (the job runs on). Throws JobRefused when the person already has a job
+ * running or the server is full.
  */
-export function startJob<R, P = unknown>(start: JobStart, work: (ctx: JobContext<P>) => Promise<R>): Job<R, P> {
+export function startJob<R, P = unknown>({ start, work }: JobSpec<R, P>): Job<R, P> {
   const { user, kind, label, total } = start;
   prune();
   const wait = mustWait();
   const id = randomToken(12);
   const startedAt = Date.now();
   const inserted = insertJobExclusive(
-    { id, userId: user.id, kind, label, params: start.params ?? null, status: wait ? "waiting" : "running", total, startedAt },
+    {
+      id,
+      userId: user.id,
+      kind,
+      label,
+      params: start.params ?? null,
+      status: wait ? "waiting" : "running",
+      total,
+      startedAt,
+    },
     JOB_LIMITS.maxWaiting,
   );
   if (!inserted.ok && inserted.reason === "mine") {

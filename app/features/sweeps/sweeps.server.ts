@@ -9,7 +9,7 @@ import { z } from "zod";
 import { OUTCOMES, scenarioSettings, type Quantity, type Scenario, type Setting } from "~models";
 import { fromDisplay, toDisplay, unitLabel } from "~models/units";
 import { JOB_LIMITS, JOB_RUN_LIMITS } from "~/features/jobs/job-limits.server";
-import { startJob, type JobContext, type JobSpec } from "~/features/jobs/jobs.server";
+import type { JobContext, JobSpec } from "~/features/jobs/jobs.server";
 import { contentHash } from "~/features/runs/simulation.server";
 import type { DisplayUnits } from "~/utils/display-units";
 import type { Role } from "~/db/schema";
@@ -135,21 +135,6 @@ function sweepValues(
     x: x.map((v, i) => (lever.integer ? display(lever, canonical[i], units) : Number(v.toPrecision(6)))),
     canonical,
   };
-}
-
-/**
- * Starts a sweep job for `user` on `scenario` (tank targets already applied). Throws JobRefused
- * when the person's limit or the server's is reached.
- */
-export function startSweep(
-  user: { id: number },
-  scenarioId: number,
-  scenario: Scenario,
-  input: SweepInput,
-  units: DisplayUnits,
-) {
-  const { start, work } = sweepJob(user, scenarioId, scenario, input, units);
-  return startJob(start, work);
 }
 
 /**

@@ -8,7 +8,7 @@ import { z } from "zod";
 import type { Scenario } from "~models";
 import { speciesFactor } from "~models/units";
 import { JOB_RUN_LIMITS } from "~/features/jobs/job-limits.server";
-import { startJob, type JobContext, type JobSpec } from "~/features/jobs/jobs.server";
+import type { JobContext, JobSpec } from "~/features/jobs/jobs.server";
 import { contentHash } from "~/features/runs/simulation.server";
 import {
   changeWaterNitrate,
@@ -227,18 +227,6 @@ async function search(
   const others = await alternatives(input, levers, goal, evaluate, words);
   ctx.progress(runs, runs);
   return { status: "infeasible", headline, details, save: null, alternatives: others };
-}
-
-/** Starts a target search job. Throws JobRefused at the person's or the server's limit. */
-export function startTargetSearch(
-  user: { id: number },
-  scenarioId: number,
-  scenario: Scenario,
-  input: TargetInput,
-  units: DisplayUnits,
-) {
-  const { start, work } = targetSearchJob(user, scenarioId, scenario, input, units);
-  return startJob(start, work);
 }
 
 /** A target search job, ready to start or to run again after a restart (params as for a sweep). */

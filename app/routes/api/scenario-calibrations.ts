@@ -1,6 +1,7 @@
 import type { Route } from "./+types/scenario-calibrations";
+import { startJob } from "~/features/jobs/jobs.server";
 import { apiError, apiRoute, methodNotAllowed, readJson, zodIssues } from "~/http/api.server";
-import { startCalibration } from "~/features/calibration/calibration.server";
+import { calibrationJob } from "~/features/calibration/calibration.server";
 import { CalibrateInputSchema } from "~/features/calibration/calibration-input.server";
 import { scenarioBases } from "~/features/calibration/calibration-basis.server";
 import { modelStartMs } from "~/features/readings/readings.server";
@@ -26,14 +27,16 @@ export const action = apiRoute(async ({ request, params }: Route.ActionArgs) => 
       { path: "schedule", message: "This tank's journal is empty: log what you did first." },
     ]);
   return jobAccepted(
-    startCalibration(
-      user,
-      row,
-      tank.id,
-      basisFor(input.data.schedule),
-      input.data.fit,
-      displayUnitsFor(user),
-      input.data.kits,
+    startJob(
+      calibrationJob(
+        user,
+        row,
+        tank.id,
+        basisFor(input.data.schedule),
+        input.data.fit,
+        displayUnitsFor(user),
+        input.data.kits,
+      ),
     ),
   );
 });

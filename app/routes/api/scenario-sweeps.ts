@@ -1,8 +1,9 @@
 import type { Route } from "./+types/scenario-sweeps";
+import { startJob } from "~/features/jobs/jobs.server";
 import { apiError, apiRoute, json, readJson, zodIssues } from "~/http/api.server";
 import { JOB_LIMITS } from "~/features/jobs/job-limits.server";
 import { jobAccepted, requireApiScenario } from "~/features/scenarios/scenario-api.server";
-import { leverJson, startSweep, SWEEP_OUTCOMES, sweepInputSchema, sweepLevers } from "~/features/sweeps/sweeps.server";
+import { leverJson, sweepJob, SWEEP_OUTCOMES, sweepInputSchema, sweepLevers } from "~/features/sweeps/sweeps.server";
 import { displayUnitsFor } from "~/utils/display-units";
 
 async function sweepable(request: Request, scenarioIdParam: string | undefined) {
@@ -30,5 +31,5 @@ export const action = apiRoute(async ({ request, params }: Route.ActionArgs) => 
   const { user, row, scenario, units, levers } = await sweepable(request, params.scenarioId);
   const input = sweepInputSchema(levers, units, user.role).safeParse(await readJson(request, 16 * 1024));
   if (!input.success) return apiError(400, "The sweep is not valid.", zodIssues(input.error));
-  return jobAccepted( startSweep(user, row.id, scenario, input.data, units));
+  return jobAccepted(startJob(sweepJob(user, row.id, scenario, input.data, units)));
 });

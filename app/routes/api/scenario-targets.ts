@@ -1,7 +1,8 @@
 import type { Route } from "./+types/scenario-targets";
+import { startJob } from "~/features/jobs/jobs.server";
 import { apiError, apiRoute, methodNotAllowed, readJson, zodIssues } from "~/http/api.server";
 import { jobAccepted, requireApiScenario } from "~/features/scenarios/scenario-api.server";
-import { startTargetSearch, TargetInputSchema } from "~/features/sweeps/target-finder.server";
+import { targetSearchJob, TargetInputSchema } from "~/features/sweeps/target-finder.server";
 import { displayUnitsFor } from "~/utils/display-units";
 
 /**
@@ -14,7 +15,7 @@ export const action = apiRoute(async ({ request, params }: Route.ActionArgs) => 
   const { user, row, scenario } = await requireApiScenario(request, params.scenarioId);
   const input = TargetInputSchema.safeParse(await readJson(request, 4 * 1024));
   if (!input.success) return apiError(400, "The target search is not valid.", zodIssues(input.error));
-  return jobAccepted( startTargetSearch(user, row.id, scenario, input.data, displayUnitsFor(user)));
+  return jobAccepted(startJob(targetSearchJob(user, row.id, scenario, input.data, displayUnitsFor(user))));
 });
 
 /** Target searches are started with POST; poll /api/jobs/:id for them. Any other method: 405 in the API's JSON shape. */

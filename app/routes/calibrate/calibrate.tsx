@@ -4,13 +4,13 @@ import { CalibrationReport } from "~/components/calibration-report";
 import { jobActive, JobProgress, useJob } from "~/components/job-progress";
 import { FormMessage } from "~/components/ui/field";
 import { CalibrationSetup } from "~/components/calibration-setup";
-import { startCalibration } from "~/features/calibration/calibration.server";
+import { calibrationJob } from "~/features/calibration/calibration.server";
 import { assessCalibration, inferredKits } from "~/features/calibration/calibration-assess.server";
 import { scenarioBases, SCHEDULE_TEXT } from "~/features/calibration/calibration-basis.server";
 import { CalibrateInputSchema, kitsFromForm, SaveFittedSchema } from "~/features/calibration/calibration-input.server";
 import { MULTIPLIER_LABELS } from "~/features/calibration/calibration-report.server";
 import type { CalibrationJson } from "~/features/calibration/calibration-json";
-import { cancelJob, findScenarioJob, jobJson } from "~/features/jobs/jobs.server";
+import { cancelJob, findScenarioJob, jobJson, startJob } from "~/features/jobs/jobs.server";
 import { requireUser } from "~/permissions.server";
 import { countReadings, modelStartMs, readingsForCalibration } from "~/features/readings/readings.server";
 import { readStoredSettings } from "~/features/runs/simulation.server";
@@ -103,7 +103,7 @@ export async function action({ request, params }: Route.ActionArgs) {
       return invalid({ schedule: "Choose the journal or the scenario's schedule." }, values);
     try {
       const basis = basisFor(values.schedule)!;
-      const job = startCalibration(user, row, tank.id, basis, input.data.fit, units, input.data.kits);
+      const job = startJob(calibrationJob(user, row, tank.id, basis, input.data.fit, units, input.data.kits));
       return redirect(`${here}?job=${job.id}`);
     } catch (error) {
       return refusedForm(error, values);

@@ -5,12 +5,12 @@ import { XYChart } from "~/components/charts/xy-chart";
 import { jobActive, JobProgress, useJob } from "~/components/job-progress";
 import { FormMessage, SelectField, TextField } from "~/components/ui/field";
 import { JOB_LIMITS } from "~/features/jobs/job-limits.server";
-import { cancelJob, findScenarioJob, jobJson } from "~/features/jobs/jobs.server";
+import { cancelJob, findScenarioJob, jobJson, startJob } from "~/features/jobs/jobs.server";
 import { requireUser } from "~/permissions.server";
 import { readStoredSettings, withTankTargets } from "~/features/runs/simulation.server";
 import {
   leverJson,
-  startSweep,
+  sweepJob,
   SWEEP_OUTCOMES,
   sweepInputSchema,
   sweepLevers,
@@ -62,7 +62,7 @@ export async function action({ request, params }: Route.ActionArgs) {
   const parsed = sweepInputSchema(levers, units, user.role).safeParse(values);
   if (!parsed.success) return invalid(fieldErrors(parsed.error), values);
   try {
-    const job = startSweep(user, row.id, scenario, parsed.data, units);
+    const job = startJob(sweepJob(user, row.id, scenario, parsed.data, units));
     return redirect(`${here}?job=${job.id}`);
   } catch (error) {
     return refusedForm(error, values);

@@ -8,14 +8,14 @@ import { FormMessage, SelectField, TextField } from "~/components/ui/field";
 import { FREE_NH3_CAUTION_MG_N } from "~/features/runs/display-figures";
 import { speciesFactor } from "~models/units";
 import { typedTarget } from "~/features/tanks/nitrate-targets";
-import { cancelJob, findScenarioJob, jobJson } from "~/features/jobs/jobs.server";
+import { cancelJob, findScenarioJob, jobJson, startJob } from "~/features/jobs/jobs.server";
 import { requireUser } from "~/permissions.server";
 import { DRINKING_WATER_NITRATE_MG_N } from "~/features/runs/results.server";
 import { modelStartMs } from "~/features/readings/readings.server";
 import { saveScenarioVariant } from "~/features/scenarios/scenario-variant.server";
 import { readStoredSettings, withTankTargets } from "~/features/runs/simulation.server";
 import { applyLever, searchLever } from "~/features/sweeps/search-levers.server";
-import { startTargetSearch, TargetInputSchema, type TargetResultJson } from "~/features/sweeps/target-finder.server";
+import { targetSearchJob, TargetInputSchema, type TargetResultJson } from "~/features/sweeps/target-finder.server";
 import { requireOwnedScenario } from "~/features/tanks/tanks.server";
 import { displayUnitsFor, formatNumber, unitLabels } from "~/utils/display-units";
 import { TARGET_LEVER_LABELS, TARGET_LEVERS } from "~/features/sweeps/target-levers";
@@ -85,7 +85,7 @@ export async function action({ request, params }: Route.ActionArgs) {
     });
     if (!parsed.success) return invalid(fieldErrors(parsed.error), values);
     try {
-      const job = startTargetSearch(user, row.id, withTankTargets(settings, tank), parsed.data, units);
+      const job = startJob(targetSearchJob(user, row.id, withTankTargets(settings, tank), parsed.data, units));
       return redirect(`${here}?job=${job.id}`);
     } catch (error) {
       return refusedForm(error, values);
