@@ -28,9 +28,37 @@ export function openSqlite(file: string): Database.Database {
   return sqlite;
 }
 
-/** Applies the committed migrations in drizzle/ (relative to the working directory). */
-function migrateDb(db: Db): void {
-  migrate(db, { migrationsFolder: path.resolve("drizzle") });
+/**
+ * Applies the committed migrations in drizzle/ (relative to the working directory, or `folder`).
+ * Foreign keys are off while they run, as SQLite's procedure for changing a table asks: to change
+ * a column, drizzle-kit rebuilds the table (copy, drop, rename), and with foreign keys on, the
+ * drop would delete every row that references it through ON DELETE CASCADE. The PRAGMA in the
+ * migration files cannot do this, because SQLite ignores it inside the migrator's transaction.
+ * After a migration ran, every reference is checked; a dangling one stops the start.
+ */
+export function migrateDb(db: Db, folder = path.resolve("drizzle")): void {
+  const sqlite = db.$client;
+  const applied = () => appliedMigrations(sqlite);
+  const before = applied();
+  sqlite.pragma("foreign_keys = OFF");
+  try {
+    migrate(db, { migrationsFolder: folder });
+  } finally {
+    sqlite.pragma("foreign_keys = ON");
+  }
+  if (applied() === before) return;
+  const dangling = sqlite.pragma("foreign_key_check") as { table: string; rowid: number; parent: string }[];
+  if (dangling.length) {
+    const first = dangling[0];
+    throw new Error(
+      `After migrating, ${dangling.length} rows refer to rows that do not exist (first: ${first.table} row ${first.rowid} -> ${first.parent}). Restore the backup taken before (npm run db:restore).`,
+    );
+  }
+}
+
+function appliedMigrations(sqlite: Database.Database): number {
+  const table = sqlite.prepare("select 1 from sqlite_master where type = 'table' and name = '__drizzle_migrations'").get();
+  return table ? (sqlite.prepare("select count(*) as n from __drizzle_migrations").get() as { n: number }).n : 0;
 }
 
 /**

@@ -103,9 +103,9 @@ export const tanks = sqliteTable(
       .references(() => users.id, { onDelete: "cascade" }),
     name: text("name").notNull(),
     notes: text("notes").notNull().default(""),
-    /** Nitrate target band for charts and key figures, mg N/L. */
-    nitrateTargetLow: real("nitrate_target_low").notNull().default(1.13),
-    nitrateTargetHigh: real("nitrate_target_high").notNull().default(4.52),
+    /** Nitrate target band for charts and key figures, mg N/L; the defaults are DEFAULT_NITRATE_TARGETS (5–20 mg/L NO3, exact). */
+    nitrateTargetLow: real("nitrate_target_low").notNull().default(1.1295239016837624),
+    nitrateTargetHigh: real("nitrate_target_high").notNull().default(4.5180956067350495),
     createdAt: createdAt(),
     updatedAt: integer("updated_at", { mode: "timestamp_ms" })
       .notNull()

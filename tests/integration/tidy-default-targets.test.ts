@@ -12,21 +12,9 @@ import { migrate } from "drizzle-orm/better-sqlite3/migrator";
 import { describe, expect, it } from "vitest";
 import { typedTarget } from "~/features/tanks/nitrate-targets";
 import { UNITS } from "~models/units";
+import { migrationsBefore } from "../support/migrations";
 
 const NO3 = 1 / UNITS.nitrate.asNO3.factor; // mg/L NO3 per mg N/L
-
-/** A migrations folder holding only the migrations before `tag` (a database as it was then). */
-function migrationsBefore(tag: string): string {
-  const dir = fs.mkdtempSync(path.join(os.tmpdir(), "fernwater-migrations-"));
-  fs.mkdirSync(path.join(dir, "meta"));
-  const journal = JSON.parse(fs.readFileSync("drizzle/meta/_journal.json", "utf8")) as { entries: { tag: string }[] };
-  const cut = journal.entries.findIndex((entry) => entry.tag === tag);
-  expect(cut).toBeGreaterThan(0);
-  const entries = journal.entries.slice(0, cut);
-  for (const entry of entries) fs.copyFileSync(`drizzle/${entry.tag}.sql`, path.join(dir, `${entry.tag}.sql`));
-  fs.writeFileSync(path.join(dir, "meta/_journal.json"), JSON.stringify({ ...journal, entries }));
-  return dir;
-}
 
 describe("migration 0007: default nitrate targets read back as 5 and 20", () => {
   it("tidies the old defaults of NO3 owners and nobody else's values", () => {
