@@ -195,6 +195,12 @@ export function CalibrationSetup({
               {errors.schedule}
             </p>
           ) : null}
+          {/* With scripts, choosing re-checks at once (onSchedule); without, this asks the page again for the choice. */}
+          <noscript>
+            <button type="submit" formMethod="get" formNoValidate className="btn-secondary text-sm">
+              Check the readings against this choice
+            </button>
+          </noscript>
         </fieldset>
       ) : null}
       {kits.length ? (

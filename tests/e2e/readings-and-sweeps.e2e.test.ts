@@ -148,6 +148,16 @@ describe("readings, calibration and sweeps in the browser", () => {
     await page.waitForURL(/calibrate\?schedule=periodic$/);
     await page.getByText("What your readings can tell, checked against the scenario's periodic schedule.").waitFor();
     expect(await page.getByLabel(/The scenario’s periodic schedule/).isChecked()).toBe(true);
+    // Without scripts the choice re-checks too, through a button that asks the page again.
+    const noScript = await newPage({ javaScript: false });
+    await noScript.context().addCookies(await page.context().cookies());
+    await noScript.goto(`${scenarioUrl}/calibrate`);
+    await noScript.getByText("checked against the tank's journal, as it happened.").waitFor();
+    await noScript.getByLabel(/The scenario’s periodic schedule/).check();
+    await noScript.getByRole("button", { name: "Check the readings against this choice" }).click();
+    await noScript.waitForURL(/calibrate\?.*schedule=periodic/);
+    await noScript.getByText("checked against the scenario's periodic schedule.").waitFor();
+    expect(await noScript.getByLabel(/The scenario’s periodic schedule/).isChecked()).toBe(true);
 
     // A 20-point sweep: the bar starts, moves, and the plot follows.
     await page.goto(`${scenarioUrl}/sweep`);
