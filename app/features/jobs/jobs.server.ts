@@ -67,19 +67,17 @@ export function startJob<R, P = unknown>({ start, work }: JobSpec<R, P>): Job<R,
   const wait = mustWait();
   const id = randomToken(12);
   const startedAt = Date.now();
-  const inserted = insertJobExclusive(
-    {
-      id,
-      userId: user.id,
-      kind,
-      label,
-      params: start.params ?? null,
-      status: wait ? "waiting" : "running",
-      total,
-      startedAt,
-    },
-    JOB_LIMITS.maxWaiting,
-  );
+  const fields = {
+    id,
+    userId: user.id,
+    kind,
+    label,
+    params: start.params ?? null,
+    status: wait ? ("waiting" as const) : ("running" as const),
+    total,
+    startedAt,
+  };
+  const inserted = insertJobExclusive(fields, JOB_LIMITS.maxWaiting);
   if (!inserted.ok && inserted.reason === "mine") {
     const mine = inserted.mine;
     throw new JobRefused(
@@ -90,25 +88,7 @@ export function startJob<R, P = unknown>({ start, work }: JobSpec<R, P>): Job<R,
   if (!inserted.ok) {
     throw new JobRefused("The server's line for sweeps and calibrations is full. Try again in a few minutes.", 503);
   }
-  const job: Job<R, P> = {
-    id,
-    userId: user.id,
-    kind,
-    label,
-    params: start.params ?? null,
-    status: wait ? "waiting" : "running",
-    done: 0,
-    total,
-    partial: null,
-    result: null,
-    error: null,
-    startedAt,
-    ranAt: wait ? null : startedAt,
-    finishedAt: null,
-    controller: new AbortController(),
-    attempts: 1,
-    resumedAt: null,
-  };
+  const job: Job<R, P> = { ...fields, ...notYetRun(), ranAt: wait ? null : startedAt, attempts: 1, resumedAt: null };
   admit(job, work, wait);
   return job;
 }
@@ -125,20 +105,20 @@ export function resumeJob<R, P = unknown>(row: JobRow, spec: JobSpec<R, P>): Job
     label: row.label,
     params: row.params,
     status: "waiting",
-    done: 0,
     total: spec.start.total,
-    partial: null,
-    result: null,
-    error: null,
     startedAt: row.startedAt,
+    ...notYetRun(),
     ranAt: null,
-    finishedAt: null,
-    controller: new AbortController(),
     attempts: row.attempts,
     resumedAt: row.resumedAt,
   };
   admit(job, spec.work, true);
   return job;
+}
+
+/** What a job holds before its work has run (new, or run again from the start). */
+function notYetRun() {
+  return { done: 0, partial: null, result: null, error: null, finishedAt: null, controller: new AbortController() };
 }
 
 /** A job of this person, or null (someone else's job is not found either). */
