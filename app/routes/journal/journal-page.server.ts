@@ -25,11 +25,25 @@ import { DAY_MS, formatDateTime } from "~/utils/dates";
 import type { CsvProblem } from "~/utils/csv-read.server";
 import { unitLabels, type DisplayUnits } from "~/utils/display-units";
 
+/**
+ * Entries shown on one page of the table, newest first. A journal holds up to 20,000 entries a
+ * tank: all of them in one page took about 0.2 s to read and 11 MB of page data to render on the
+ * request thread, so a few reloads stalled everyone (issue 10, freeze the server).
+ */
+const JOURNAL_PAGE_SIZE = 100;
+
+/** The table's page from `?page=` (1 = the newest entries); anything unreadable is page 1. */
+function journalPageNumber(value: string | null): number {
+  const n = Number(value);
+  return Number.isInteger(n) && n >= 1 && n <= 1_000_000 ? n : 1;
+}
+
 export async function journalPageData(
   tank: TankRow,
   scenarioParam: string | null,
   units: DisplayUnits,
   now = Date.now(),
+  pageParam: string | null = null,
 ) {
   // Nitrate in the person's own unit (NO3 or NO3-N), from the one units table.
   const perMgN = fromCanonical("nitrate", 1, units.nitrate);
@@ -72,8 +86,9 @@ export async function journalPageData(
     tank: { id: tank.id, name: tank.name },
     scenarios: scenarios.map((s) => ({ id: s.id, name: s.name })),
     scenarioId: chosen?.id ?? null,
+    ...entryPage(entries, journalPageNumber(pageParam)),
     entries: entries
-      .slice()
+      .slice(...pageBounds(entries.length, journalPageNumber(pageParam)))
       .reverse()
       .map((e) => ({
         id: e.id,
@@ -92,6 +107,18 @@ export async function journalPageData(
     /** The entry form's amounts are typed in these (the CSV file keeps its columns' own units). */
     units: { nitrate: units.nitrate, ammonia: units.ammonia } satisfies FieldUnits,
   };
+}
+
+/** The slice of the oldest-first list that holds table page `page` (clamped to the last page). */
+function pageBounds(total: number, page: number): [number, number] {
+  const last = Math.max(1, Math.ceil(total / JOURNAL_PAGE_SIZE));
+  const p = Math.min(page, last);
+  return [Math.max(0, total - p * JOURNAL_PAGE_SIZE), total - (p - 1) * JOURNAL_PAGE_SIZE];
+}
+
+function entryPage(entries: readonly unknown[], page: number) {
+  const pages = Math.max(1, Math.ceil(entries.length / JOURNAL_PAGE_SIZE));
+  return { entryCount: entries.length, entryPage: Math.min(page, pages), entryPages: pages };
 }
 
 export type JournalAnswer = {
