@@ -16,6 +16,7 @@ import {
   type EntryKind,
 } from "~/features/journal/journal-entries";
 import { checkTakenAt } from "~/features/readings/readings.server";
+import { checkNewJournalEntries } from "~/quotas.server";
 import { parseDateTime } from "~/utils/dates";
 
 export type JournalEntry = {
@@ -26,7 +27,13 @@ export type JournalEntry = {
   note: string;
 };
 
-const MAX_ENTRIES_PER_TANK = 20_000;
+const fromRow = (r: typeof journalEntries.$inferSelect): JournalEntry => ({
+  id: r.id,
+  doneAt: r.doneAt.getTime(),
+  kind: r.kind as EntryKind,
+  details: r.details as EntryDetails,
+  note: r.note,
+});
 
 /** Entries oldest first. */
 export function listJournal(tankId: number): JournalEntry[] {
@@ -36,29 +43,24 @@ export function listJournal(tankId: number): JournalEntry[] {
     .where(eq(journalEntries.tankId, tankId))
     .orderBy(asc(journalEntries.doneAt), asc(journalEntries.id))
     .all()
-    .map((r) => ({
-      id: r.id,
-      doneAt: r.doneAt.getTime(),
-      kind: r.kind as EntryKind,
-      details: r.details as EntryDetails,
-      note: r.note,
-    }));
+    .map(fromRow);
+}
+
+/** One entry of this tank, or null (without reading the whole journal, which may hold 20,000). */
+export function journalEntry(tankId: number, id: number): JournalEntry | null {
+  const row = getDb()
+    .select()
+    .from(journalEntries)
+    .where(and(eq(journalEntries.tankId, tankId), eq(journalEntries.id, id)))
+    .get();
+  return row ? fromRow(row) : null;
 }
 
 type Tx = Parameters<Parameters<Db["transaction"]>[0]>[0];
 
-export class JournalFull extends Error {}
-
-/** Adds entries in the caller's transaction (all or none). */
+/** Adds entries in the caller's transaction (all or none); QuotaExceeded (413) past the journal quotas. */
 function insertEntries(tx: Tx, tankId: number, entries: readonly EntryInput[]): number[] {
-  const have = tx
-    .select({ id: journalEntries.id })
-    .from(journalEntries)
-    .where(eq(journalEntries.tankId, tankId))
-    .all().length;
-  if (have + entries.length > MAX_ENTRIES_PER_TANK) {
-    throw new JournalFull(`A tank's journal holds at most ${MAX_ENTRIES_PER_TANK.toLocaleString("en")} entries.`);
-  }
+  checkNewJournalEntries(tx, tankId, entries.length);
   return entries.map(
     (e) =>
       tx

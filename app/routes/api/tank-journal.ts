@@ -1,7 +1,7 @@
 import type { Route } from "./+types/tank-journal";
 import { apiError, apiRoute, json, readJson } from "~/http/api.server";
 import { requireApiUser } from "~/permissions.server";
-import { addEntries, entryJson, listJournal, readEntry } from "~/features/journal/journal.server";
+import { addEntries, entryJson, journalEntry, listJournal, readEntry } from "~/features/journal/journal.server";
 import { requireOwnedTank } from "~/features/tanks/tanks.server";
 
 /** GET /api/tanks/:tankId/journal: the tank's journal, oldest first, canonical units. */
@@ -27,6 +27,6 @@ export const action = apiRoute(async ({ request, params }: Route.ActionArgs) => 
       Object.entries(read.errors).map(([path, message]) => ({ path, message })),
     );
   const [id] = addEntries(tank.id, [read.entry]);
-  const entry = listJournal(tank.id).find((e) => e.id === id)!;
+  const entry = journalEntry(tank.id, id)!;
   return json({ entry: entryJson(entry) }, { status: 201 });
 });

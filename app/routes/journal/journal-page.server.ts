@@ -14,7 +14,8 @@ import {
 } from "~/features/journal/calendar-feed.server";
 import { dayText, forecastSentence } from "~/features/journal/forecast-text.server";
 import { forecastJournal, replayJournal } from "~/features/journal/journal-replay.server";
-import { addEntries, deleteEntry, JournalFull, listJournal, readEntry } from "~/features/journal/journal.server";
+import { addEntries, deleteEntry, listJournal, readEntry } from "~/features/journal/journal.server";
+import { QuotaExceeded } from "~/quotas.server";
 import { allReadings } from "~/features/readings/readings.server";
 import { readStoredSettings } from "~/features/runs/simulation.server";
 import { plannedSettings } from "~/features/tanks/maintenance-plan.server";
@@ -152,7 +153,7 @@ export async function journalAction(request: Request, tank: TankRow, units: Disp
     try {
       addEntries(tank.id, parsed.entries);
     } catch (error) {
-      if (error instanceof JournalFull) return refuse({ intent: "upload", message: error.message }, 413);
+      if (error instanceof QuotaExceeded) return refuse({ intent: "upload", message: error.message }, 413);
       throw error;
     }
     return { intent: "upload", stored: parsed.entries.length } satisfies JournalAnswer;
@@ -190,7 +191,7 @@ export async function journalAction(request: Request, tank: TankRow, units: Disp
   try {
     addEntries(tank.id, [read.entry]);
   } catch (error) {
-    if (error instanceof JournalFull) return refuse({ intent, message: error.message, values }, 413);
+    if (error instanceof QuotaExceeded) return refuse({ intent, message: error.message, values }, 413);
     throw error;
   }
   return { intent, message: `${ENTRY_KINDS[read.entry.kind]} added to the journal.` } satisfies JournalAnswer;
