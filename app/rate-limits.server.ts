@@ -32,6 +32,8 @@ export const LIMITS = {
   savesPerPerson: { points: 30, seconds: 60 },
   /** What-if previews per person. */
   previewsPerPerson: { points: 60, seconds: 60 },
+  /** Share-link pictures drawn (about 50 ms each on the request thread) per scenario owner. */
+  sharePicturesPerOwner: { points: 20, seconds: 60 },
   /**
    * Model runs of one person in flight at once, across every app process: taken when a run
    * starts, given back when it ends. The window only frees a count a stopped process never gave
