@@ -2,7 +2,7 @@
  * The journal's rows: listing, adding (one or all of a file's rows in one transaction), editing
  * and deleting, always within the owner's tank (the caller has checked the tank is theirs).
  */
-import { and, asc, eq } from "drizzle-orm";
+import { and, asc, desc, eq, inArray, max, sql } from "drizzle-orm";
 import { getDb, type Db } from "~/db/client.server";
 import { journalEntries } from "~/db/schema-care";
 import {
@@ -44,6 +44,47 @@ export function listJournal(tankId: number): JournalEntry[] {
     .orderBy(asc(journalEntries.doneAt), asc(journalEntries.id))
     .all()
     .map(fromRow);
+}
+
+/**
+ * The newest entry of each kind a planned task resumes from (a water change, a filter cleaning,
+ * each plant group's trim), oldest first: what the calendar feed needs, without reading a journal
+ * of 20,000 entries on every poll of an address anyone holding it may ask for (about 0.2 s).
+ */
+export function lastTaskEntries(tankId: number): JournalEntry[] {
+  const db = getDb();
+  const newest = (kind: EntryKind) =>
+    db
+      .select()
+      .from(journalEntries)
+      .where(and(eq(journalEntries.tankId, tankId), eq(journalEntries.kind, kind)))
+      .orderBy(desc(journalEntries.doneAt), desc(journalEntries.id))
+      .limit(1)
+      .get();
+  // Trims, one per plant group: SQLite takes a bare column's value from the row holding the max().
+  const group = sql`lower(trim(coalesce(json_extract(${journalEntries.details}, '$.plantGroup'), '')))`;
+  const trims = db
+    .select({ id: journalEntries.id, doneAt: max(journalEntries.doneAt) })
+    .from(journalEntries)
+    .where(and(eq(journalEntries.tankId, tankId), eq(journalEntries.kind, "plants_trimmed")))
+    .groupBy(group)
+    .all();
+  const trimRows = trims.length
+    ? db
+        .select()
+        .from(journalEntries)
+        .where(
+          inArray(
+            journalEntries.id,
+            trims.map((t) => t.id),
+          ),
+        )
+        .all()
+    : [];
+  return [newest("water_change"), newest("filter_cleaned"), ...trimRows]
+    .filter((r) => r !== undefined)
+    .map(fromRow)
+    .sort((a, b) => a.doneAt - b.doneAt || a.id - b.id);
 }
 
 /** One entry of this tank, or null (without reading the whole journal, which may hold 20,000). */
