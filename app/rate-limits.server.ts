@@ -32,6 +32,8 @@ export const LIMITS = {
   savesPerPerson: { points: 30, seconds: 60 },
   /** What-if previews per person. */
   previewsPerPerson: { points: 60, seconds: 60 },
+  /** CSV uploads (readings and journal together) per person; each is read on the request thread. */
+  uploadsPerPerson: { points: 10, seconds: 60 },
   /** Share-link pictures drawn (about 50 ms each on the request thread) per scenario owner. */
   sharePicturesPerOwner: { points: 20, seconds: 60 },
   /**

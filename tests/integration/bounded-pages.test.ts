@@ -77,7 +77,7 @@ describe("the calendar feed of a full journal", () => {
     const tankId = createTank(keeper.id);
     const scenarioId = await createScenario(keeper.id, tankId, {
       plants: [{ id: "stems", name: "Stems", trim: { rule: "everyDays", everyDays: 10 } }],
-      maintenance: { waterChangeIntervalDays: 7, waterChangeFraction: 0.3, filterCleaningIntervalDays: 30 },
+      maintenance: { waterChangeIntervalDays: 7, waterChangeFraction: 0.3 },
     });
     const start = Date.now() - 700 * DAY;
     const kinds = ["water_change", "note", "filter_cleaned", "plants_trimmed", "feeding_changed"] as const;

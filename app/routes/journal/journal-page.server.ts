@@ -21,6 +21,7 @@ import { readStoredSettings } from "~/features/runs/simulation.server";
 import { plannedSettings } from "~/features/tanks/maintenance-plan.server";
 import { listScenarios, type TankRow } from "~/features/tanks/tanks.server";
 import { readUpload, UploadError } from "~/http/uploads.server";
+import { takeUploadTurn, UploadRefused } from "~/http/upload-turns.server";
 import { runProblem } from "~/http/pages.server";
 import { DAY_MS, formatDateTime } from "~/utils/dates";
 import type { CsvProblem } from "~/utils/csv-read.server";
@@ -138,25 +139,13 @@ const refuse = (a: JournalAnswer, status = 400) => data(a, { status });
 export async function journalAction(request: Request, tank: TankRow, units: DisplayUnits) {
   const type = request.headers.get("content-type") ?? "";
   if (type.startsWith("multipart/form-data")) {
-    let upload;
     try {
-      upload = await readUpload(request, MAX_JOURNAL_CSV_BYTES);
+      await takeUploadTurn(tank.ownerId);
     } catch (error) {
-      if (error instanceof UploadError) return refuse({ intent: "upload", message: error.message });
+      if (error instanceof UploadRefused) return refuse({ intent: "upload", message: error.message }, error.status);
       throw error;
     }
-    if (!upload.file || upload.file.text.trim() === "")
-      return refuse({ intent: "upload", message: "Choose a CSV file to upload." });
-    const parsed = parseJournalCsv(upload.file.text);
-    if (!parsed.ok)
-      return refuse({ intent: "upload", message: parsed.message, problems: parsed.problems, more: parsed.more });
-    try {
-      addEntries(tank.id, parsed.entries);
-    } catch (error) {
-      if (error instanceof QuotaExceeded) return refuse({ intent: "upload", message: error.message }, 413);
-      throw error;
-    }
-    return { intent: "upload", stored: parsed.entries.length } satisfies JournalAnswer;
+    return storeUpload(request, tank);
   }
   const form = await request.formData();
   const intent = String(form.get("intent") ?? "");
@@ -195,4 +184,27 @@ export async function journalAction(request: Request, tank: TankRow, units: Disp
     throw error;
   }
   return { intent, message: `${ENTRY_KINDS[read.entry.kind]} added to the journal.` } satisfies JournalAnswer;
+}
+
+/** A journal CSV upload: all its rows or none. */
+async function storeUpload(request: Request, tank: TankRow) {
+  let upload;
+  try {
+    upload = await readUpload(request, MAX_JOURNAL_CSV_BYTES);
+  } catch (error) {
+    if (error instanceof UploadError) return refuse({ intent: "upload", message: error.message });
+    throw error;
+  }
+  if (!upload.file || upload.file.text.trim() === "")
+    return refuse({ intent: "upload", message: "Choose a CSV file to upload." });
+  const parsed = parseJournalCsv(upload.file.text);
+  if (!parsed.ok)
+    return refuse({ intent: "upload", message: parsed.message, problems: parsed.problems, more: parsed.more });
+  try {
+    addEntries(tank.id, parsed.entries);
+  } catch (error) {
+    if (error instanceof QuotaExceeded) return refuse({ intent: "upload", message: error.message }, 413);
+    throw error;
+  }
+  return { intent: "upload", stored: parsed.entries.length } satisfies JournalAnswer;
 }
