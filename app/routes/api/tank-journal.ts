@@ -1,6 +1,7 @@
 import type { Route } from "./+types/tank-journal";
 import { apiError, apiRoute, json, readJson } from "~/http/api.server";
 import { requireApiUser } from "~/permissions.server";
+import { takeListingTurn } from "~/http/listing-turns.server";
 import { addEntries, entryJson, journalEntry, listJournal, readEntry } from "~/features/journal/journal.server";
 import { requireOwnedTank } from "~/features/tanks/tanks.server";
 
@@ -8,6 +9,7 @@ import { requireOwnedTank } from "~/features/tanks/tanks.server";
 export const loader = apiRoute(async ({ request, params }: Route.LoaderArgs) => {
   const user = await requireApiUser(request);
   const tank = requireOwnedTank(user.id, params.tankId);
+  await takeListingTurn(user.id);
   return json({ tankId: tank.id, entries: listJournal(tank.id).map(entryJson) });
 });
 
