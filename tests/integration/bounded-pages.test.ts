@@ -10,12 +10,14 @@ import { describe, expect, it } from "vitest";
 import { getDb } from "~/db/client.server";
 import { journalEntries } from "~/db/schema-care";
 import { listJournal } from "~/features/journal/journal.server";
+import { modelStartMs } from "~/features/readings/readings.server";
 import { makeCalendarFeed, upcomingTasks } from "~/features/journal/calendar-feed.server";
 import { readStoredSettings } from "~/features/runs/simulation.server";
 import { plannedSettings } from "~/features/tanks/maintenance-plan.server";
-import { scenarios } from "~/db/schema";
+import { readings, scenarios } from "~/db/schema";
 import { loader as feedLoader } from "~/routes/calendar/feed";
 import { loader as journalLoader } from "~/routes/journal/journal";
+import { loader as resultsLoader } from "~/routes/scenarios/results";
 import { call, get } from "../support/routes";
 import { createScenario, createTank } from "../support/tanks";
 import { userWithCookie } from "../support/users";
@@ -125,5 +127,41 @@ describe("the calendar feed of a full journal", () => {
     expect(summaries.map((t, i) => `${days[i]} ${t}`).sort()).toEqual(
       expected.map((t) => `${ymd(t.atMs)} ${t.title}`).sort(),
     );
+  });
+});
+
+describe("the results page of a run with many readings", () => {
+  it("draws a bounded, even sample of them over time and says how many there are", async () => {
+    const keeper = await userWithCookie();
+    const tankId = createTank(keeper.id);
+    const scenarioId = await createScenario(keeper.id, tankId, { run: { lengthDays: 365 } });
+    // 20,000 readings (one person's whole quota) inside the run, every 25 minutes from its start.
+    const start = modelStartMs(getDb().select().from(scenarios).where(eq(scenarios.id, scenarioId)).get()!);
+    const count = 20_000;
+    const rows = Array.from({ length: count }, (_, i) => ({
+      tankId,
+      takenAt: new Date(start + 60_000 + i * 1_500_000),
+      nitrate: 2 + (i % 50) / 10,
+      note: "y".repeat(200),
+    }));
+    for (let i = 0; i < rows.length; i += 1000)
+      getDb()
+        .insert(readings)
+        .values(rows.slice(i, i + 1000))
+        .run();
+
+    const params = { tankId: String(tankId), scenarioId: String(scenarioId) };
+    const page = await call(resultsLoader, get(`/tanks/${tankId}/scenarios/${scenarioId}`, keeper.cookie), params);
+    expect(page.status).toBe(200);
+    expect(page.data.readingsTotal).toBe(count);
+    const days = (page.data.readings as { day: number }[]).map((r) => r.day);
+    // A chart 720 points wide shows no more than about one reading a point (common practice, no source).
+    expect(days.length).toBeLessThanOrEqual(1000);
+    expect(days.length).toBeGreaterThan(100);
+    // The whole span, in time order: the first and the last reading are drawn.
+    expect(days[0]).toBeCloseTo(1 / 1440, 6);
+    expect(days.at(-1)).toBeCloseTo((60_000 + (count - 1) * 1_500_000) / DAY, 6);
+    expect(days.every((d, i) => i === 0 || d > days[i - 1])).toBe(true);
+    expect(JSON.stringify(page.data.readings).length).toBeLessThan(PAGE_DATA_BYTES);
   });
 });
