@@ -6,11 +6,15 @@
 import { and, count, eq, ne, sql } from "drizzle-orm";
 import type { getDb } from "~/db/client.server";
 import { readings, runs, scenarios, tanks } from "~/db/schema";
+import { journalEntries } from "~/db/schema-care";
 
 export const QUOTAS = {
   tanksPerPerson: 50,
   scenariosPerTank: 100,
   readingsPerPerson: 20_000,
+  /** Journal entries: per tank, and across a person's tanks (else 50 tanks × a full journal). */
+  journalEntriesPerTank: 20_000,
+  journalEntriesPerPerson: 50_000,
   storedRunBytesPerPerson: 50 * 1024 * 1024,
 } as const;
 
@@ -83,6 +87,34 @@ export function checkNewReadings(tx: Reader, ownerId: number, adding: number): v
   }
 }
 
+function journalEntriesOf(db: Reader, where: { tankId: number } | { ownerId: number }): number {
+  const q = db.select({ n: count() }).from(journalEntries);
+  return (
+    ("tankId" in where
+      ? q.where(eq(journalEntries.tankId, where.tankId))
+      : q.innerJoin(tanks, eq(tanks.id, journalEntries.tankId)).where(eq(tanks.ownerId, where.ownerId))
+    ).get()?.n ?? 0
+  );
+}
+
+/** `adding` journal entries fit in the tank's journal and in its owner's journals together. */
+export function checkNewJournalEntries(tx: Reader, tankId: number, adding: number): void {
+  const inTank = journalEntriesOf(tx, { tankId });
+  if (inTank + adding > QUOTAS.journalEntriesPerTank) {
+    throw new QuotaExceeded(
+      `A tank's journal holds at most ${QUOTAS.journalEntriesPerTank.toLocaleString("en")} entries; this one has ${inTank.toLocaleString("en")}. Delete old entries first, or add fewer.`,
+    );
+  }
+  const owner = tx.select({ ownerId: tanks.ownerId }).from(tanks).where(eq(tanks.id, tankId)).get();
+  if (!owner) return;
+  const have = journalEntriesOf(tx, { ownerId: owner.ownerId });
+  if (have + adding > QUOTAS.journalEntriesPerPerson) {
+    throw new QuotaExceeded(
+      `Your tanks' journals hold ${have.toLocaleString("en")} entries; these ${adding.toLocaleString("en")} would pass the ${QUOTAS.journalEntriesPerPerson.toLocaleString("en")} one account keeps. Delete old entries first, or add fewer.`,
+    );
+  }
+}
+
 /** The scenario's owner may store a run of `bytes` in place of the scenario's current run. */
 export function checkRunBytes(tx: Reader, scenarioId: number, bytes: number): void {
   const owner = tx
@@ -115,7 +147,7 @@ export function usageOf(db: Reader, ownerId: number) {
     tanks: { used: tanksOf(db, ownerId), limit: QUOTAS.tanksPerPerson },
     scenariosInFullestTank: { used: fullest, limit: QUOTAS.scenariosPerTank },
     readings: { used: readingsOf(db, ownerId), limit: QUOTAS.readingsPerPerson },
+    journalEntries: { used: journalEntriesOf(db, { ownerId }), limit: QUOTAS.journalEntriesPerPerson },
     storedRunBytes: { used: runBytesOf(db, ownerId), limit: QUOTAS.storedRunBytesPerPerson },
   };
 }
-

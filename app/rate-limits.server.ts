@@ -32,6 +32,12 @@ export const LIMITS = {
   savesPerPerson: { points: 30, seconds: 60 },
   /** What-if previews per person. */
   previewsPerPerson: { points: 60, seconds: 60 },
+  /** CSV uploads (readings and journal together) per person; each is read on the request thread. */
+  uploadsPerPerson: { points: 10, seconds: 60 },
+  /** Whole journals or reading lists built (CSV exports, API listings) per person, 0.2–0.7 s each when full. */
+  fullListingsPerPerson: { points: 10, seconds: 60 },
+  /** Share-link pictures drawn (about 50 ms each on the request thread) per scenario owner. */
+  sharePicturesPerOwner: { points: 20, seconds: 60 },
   /**
    * Model runs of one person in flight at once, across every app process: taken when a run
    * starts, given back when it ends. The window only frees a count a stopped process never gave

@@ -74,3 +74,25 @@ export function isFromThisMachine(headers: Headers, addresses: { peer: string; c
     .filter((s) => s !== "");
   return forwarded.every(isLoopbackAddress);
 }
+
+/**
+ * Whether a request was addressed to this machine by a loopback name (`localhost`, a
+ * `*.localhost` name, 127.0.0.0/8 or [::1]), in its Host header and any X-Forwarded-Host. A page
+ * on another site can point its own host name at 127.0.0.1 (DNS rebinding) and then read this
+ * server from the browser of the person running it: the connection comes from loopback with no
+ * forwarding header, but the Host header still names the other site.
+ */
+export function isAddressedToThisMachine(request: Request): boolean {
+  const url = new URL(request.url);
+  const names = [
+    request.headers.get("host") ?? url.host,
+    ...(request.headers.get("x-forwarded-host") ?? "").split(",").filter((s) => s.trim() !== ""),
+  ];
+  return names.every((raw) => {
+    const host = raw.trim().toLowerCase();
+    // host[:port], with IPv6 in brackets
+    const name = host.startsWith("[") ? host.slice(0, host.indexOf("]") + 1) : host.replace(/:\d*$/, "");
+    if (name === "localhost" || name.endsWith(".localhost")) return /^[a-z0-9.-]+$/.test(name);
+    return isLoopbackAddress(name);
+  });
+}

@@ -8,6 +8,7 @@ import { isModelError } from "~models";
 import { JobRefused } from "~/features/jobs/job-limits.server";
 import { RunRefused } from "~/features/runs/run-gate.server";
 import { QuotaExceeded } from "~/quotas.server";
+import { ListingRefused } from "~/http/listing-turns.server";
 
 export type Refusal = {
   /** What went wrong: the model could not run the settings, a limit, a quota, the job line. */
@@ -20,6 +21,7 @@ export type Refusal = {
 export function refusalOf(error: unknown): Refusal | null {
   if (isModelError(error)) return { kind: "model", status: 422, message: error.message };
   if (error instanceof RunRefused) return { kind: "limit", status: 429, message: error.message };
+  if (error instanceof ListingRefused) return { kind: "limit", status: 429, message: error.message };
   if (error instanceof QuotaExceeded) return { kind: "quota", status: 413, message: error.message };
   if (error instanceof JobRefused) return { kind: error.status === 429 ? "limit" : "busy", status: error.status, message: error.message };
   return null;

@@ -1,4 +1,5 @@
 import fs from "node:fs";
+import http from "node:http";
 import net from "node:net";
 import os from "node:os";
 import { afterAll, describe, expect, it } from "vitest";
@@ -36,6 +37,19 @@ function listeningAddresses(port: number): string[] | null {
     }
   }
   return out;
+}
+
+/** GET `path` from 127.0.0.1 with this Host header (fetch keeps Host to the URL's), as a rebound name's page would. */
+function getWithHost(port: number, path: string, host: string): Promise<{ status: number; body: string }> {
+  return new Promise((resolve, reject) => {
+    const req = http.get({ host: "127.0.0.1", port, path, headers: { Host: host } }, (res) => {
+      let body = "";
+      res.setEncoding("utf8");
+      res.on("data", (chunk: string) => (body += chunk));
+      res.on("end", () => resolve({ status: res.statusCode ?? 0, body }));
+    });
+    req.on("error", reject);
+  });
 }
 
 function connects(host: string, port: number): Promise<boolean> {
@@ -79,6 +93,11 @@ describe("local mode stays on this machine", () => {
       headers: { "X-Forwarded-For": "203.0.113.9" },
     });
     expect(forwarded.status).toBe(404);
+    // DNS rebinding: another site's name pointed at 127.0.0.1; the browser still sends that name.
+    const rebound = await getWithHost(port, "/dev/mail", `rebind.example:${port}`);
+    expect(rebound.status).toBe(404);
+    expect(rebound.body).not.toContain("Captured mail");
+    expect((await getWithHost(port, "/dev/mail", `localhost:${port}`)).status).toBe(200);
     const outside = networkAddress();
     if (outside) {
       const remote = await fetch(`http://${outside}:${port}/dev/mail`);

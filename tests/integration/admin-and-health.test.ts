@@ -55,16 +55,44 @@ describe("health, 404 and the local mail page", () => {
   });
 
   it("shows captured mail in local mode to this machine only", async () => {
-    const result = await call(devMailLoader, get("/dev/mail"), {}, "127.0.0.1");
+    // As a browser on this machine asks: by a loopback name.
+    const local = (headers: Record<string, string> = {}) =>
+      get("/dev/mail", undefined, { Host: "localhost:5173", ...headers });
+    const result = await call(devMailLoader, local(), {}, "127.0.0.1");
     expect(result.status).toBe(200);
     expect(Array.isArray(result.data.messages)).toBe(true);
-    expect((await call(devMailLoader, get("/dev/mail"), {}, "::1")).status).toBe(200);
-    expect((await call(devMailLoader, get("/dev/mail"), {}, "::ffff:127.0.0.1")).status).toBe(200);
+    expect((await call(devMailLoader, local(), {}, "::1")).status).toBe(200);
+    expect((await call(devMailLoader, local(), {}, "::ffff:127.0.0.1")).status).toBe(200);
     // Another machine, or a proxy on this machine passing on another machine's request: 404.
-    expect((await call(devMailLoader, get("/dev/mail"), {}, "192.0.2.2")).status).toBe(404);
-    expect((await call(devMailLoader, get("/dev/mail"), {}, "::ffff:192.0.2.2")).status).toBe(404);
-    expect((await call(devMailLoader, get("/dev/mail", undefined, { "X-Forwarded-For": "203.0.113.5" }), {}, "127.0.0.1")).status).toBe(404);
-    expect((await call(devMailLoader, get("/dev/mail", undefined, { Forwarded: "for=203.0.113.5" }), {}, "127.0.0.1")).status).toBe(404);
+    expect((await call(devMailLoader, local(), {}, "192.0.2.2")).status).toBe(404);
+    expect((await call(devMailLoader, local(), {}, "::ffff:192.0.2.2")).status).toBe(404);
+    expect((await call(devMailLoader, local({ "X-Forwarded-For": "203.0.113.5" }), {}, "127.0.0.1")).status).toBe(404);
+    expect((await call(devMailLoader, local({ Forwarded: "for=203.0.113.5" }), {}, "127.0.0.1")).status).toBe(404);
+  });
+
+  // DNS rebinding (a known attack on servers bound to 127.0.0.1, the reason for Vite's
+  // server.allowedHosts; from memory): another site points its name at 127.0.0.1, so the
+  // connection is loopback with no forwarding header, but the browser names that site as Host.
+  it.each([
+    ["localhost:5173", 200],
+    ["LOCALHOST", 200],
+    ["127.0.0.1:5173", 200],
+    ["127.8.9.10", 200],
+    ["[::1]:5173", 200],
+    ["app.localhost:5173", 200],
+    ["rebind.example:5173", 404],
+    ["localhost.rebind.example", 404],
+    ["127.0.0.1.nip.example", 404],
+    ["[::2]:5173", 404],
+    ["", 404],
+  ] as const)("answers captured mail asked for as Host %j from loopback with %i", async (host, status) => {
+    const asked = get("/dev/mail", undefined, { Host: host });
+    expect((await call(devMailLoader, asked, {}, "127.0.0.1")).status).toBe(status);
+  });
+
+  it("refuses a loopback request that names another site in X-Forwarded-Host", async () => {
+    const asked = get("/dev/mail", undefined, { Host: "localhost:5173", "X-Forwarded-Host": "rebind.example" });
+    expect((await call(devMailLoader, asked, {}, "127.0.0.1")).status).toBe(404);
   });
 
   it("redirects an anonymous visitor of a private page to sign-in and back", async () => {

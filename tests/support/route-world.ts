@@ -64,6 +64,8 @@ export type Row = {
   freshSession?: boolean;
   /** The client's address (default: another machine, 198.51.100.9). */
   ip?: string;
+  /** The Host header the browser sent (default: none, the test origin's). */
+  host?: string;
   expect: Answers;
 };
 
@@ -495,13 +497,30 @@ export const PERMISSION_MATRIX: Row[] = [
   { file: "routes/admin/classes.tsx", handler: "action", path: "/admin/classes", form: NOTHING, expect: ADMIN_ACTION },
 
   // Local-mode tools: this machine only (tests run in local mode; in production both answer 404 to everyone)
-  { file: "routes/dev/mail.tsx", handler: "loader", path: "/dev/mail", ip: "127.0.0.1", expect: EVERYONE },
+  // (asked for by a loopback name: another site's name rebound to 127.0.0.1 gets 404).
+  {
+    file: "routes/dev/mail.tsx",
+    handler: "loader",
+    path: "/dev/mail",
+    ip: "127.0.0.1",
+    host: "localhost:5173",
+    expect: EVERYONE,
+  },
   { file: "routes/dev/mail.tsx", handler: "loader", path: "/dev/mail", expect: [404, 404, 404, 404, 404, 404] },
+  {
+    file: "routes/dev/mail.tsx",
+    handler: "loader",
+    path: "/dev/mail",
+    ip: "127.0.0.1",
+    host: "rebind.example:5173",
+    expect: [404, 404, 404, 404, 404, 404],
+  },
   {
     file: "routes/dev/chart-preview.tsx",
     handler: "loader",
     path: "/dev/chart-preview",
     ip: "127.0.0.1",
+    host: "127.0.0.1:5173",
     expect: EVERYONE,
   },
   {
@@ -875,7 +894,7 @@ export function request(row: Row, cookie: string | undefined): Request {
   const { url } = fill(row.path);
   const headers: Record<string, string> = { Origin: ORIGIN };
   if (cookie) headers.Cookie = cookie;
-  if (row.handler === "loader") return get(url, cookie);
+  if (row.handler === "loader") return get(url, cookie, row.host ? { Host: row.host } : {});
   if (row.json !== undefined) {
     headers["Content-Type"] = "application/json";
     return new Request(ORIGIN + url, { method: row.method ?? "POST", headers, body: JSON.stringify(row.json) });

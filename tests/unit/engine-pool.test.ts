@@ -31,6 +31,23 @@ describe("the fair queue under piscina", () => {
     expect(q.size).toBe(0);
   });
 
+  it("still gives a waiting job a turn while one person keeps the interactive lane full", () => {
+    // One person reloading pages that run the model: a new interactive task whenever one is taken.
+    const q = new FairTaskQueue();
+    q.push(queued("sweep", "job", "user:2"));
+    let i = 0;
+    q.push(queued(`page${i++}`, "interactive", "user:1"));
+    const taken: string[] = [];
+    for (let turn = 0; turn < 20; turn++) {
+      q.push(queued(`page${i++}`, "interactive", "user:1"));
+      taken.push((q.shift() as unknown as { name: string }).name);
+    }
+    // Pages still go first, but the sweep is not held back for ever (our own bound: a few turns).
+    expect(taken[0]).toBe("page0");
+    expect(taken.indexOf("sweep")).toBeGreaterThan(0);
+    expect(taken.indexOf("sweep")).toBeLessThanOrEqual(5);
+  });
+
   it("takes out a task that was aborted while it waited", () => {
     const q = new FairTaskQueue();
     const a = queued("a", "job", "user:1");

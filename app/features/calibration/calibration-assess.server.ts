@@ -1,10 +1,12 @@
 /**
- * Before a fit: which multipliers the readings can tell (four short runs on the pool's
- * interactive lane), and the kits their values suggest — on the same basis the fit will run on
+ * Before a fit: which multipliers the readings can tell (a few short runs on the pool's
+ * interactive lane, counted as one of the person's runs in flight, so a burst of page loads
+ * cannot queue unbounded work: issue 10), and the kits their values suggest — on the same basis the fit will run on
  * (the journal's replay or the periodic schedule, calibration-basis.server.ts).
  */
 import { assessReadings, kitsFor, type MultiplierKey } from "~models/nitrogen/calibrate";
 import { getEnginePool } from "~/features/jobs/engine-pool.server";
+import { takeRunSlot } from "~/features/runs/run-gate.server";
 import { readingsForCalibration } from "~/features/readings/readings.server";
 import type { DisplayUnits } from "~/utils/display-units";
 import type { CalibrationAssessment, KitView } from "~/features/calibration/calibration-json";
@@ -26,7 +28,11 @@ export async function assessCalibration(
   if (readings.length === 0 || candidates.length === 0) return null;
   const days = readings.map((r) => r.day);
   const pool = getEnginePool();
+  // Refused (RunRefused: the person has runs enough going) is like a failed check: the page
+  // shows without it, ticking nothing for them.
+  let release: (() => void) | null = null;
   try {
+    release = await takeRunSlot(user.id);
     const a = await assessReadings({
       scenario: basis.scenario,
       readings,
@@ -53,6 +59,8 @@ export async function assessCalibration(
     };
   } catch {
     return null;
+  } finally {
+    release?.();
   }
 }
 

@@ -9,7 +9,8 @@
  * its TypeScript source through tsx's loader (tests do).
  *
  * The queue has two lanes: "interactive" (someone waits for a page: saves, previews) before
- * "job" (sweeps, calibrations, target searches, which show progress). Within a lane, owners take
+ * "job" (sweeps, calibrations, target searches, which show progress), though a waiting job task
+ * still gets one turn in five, so a stream of page runs cannot hold jobs back for ever. Within a lane, owners take
  * turns (round robin), so one person's many tasks never hold up another's one. Workers run at a
  * lower scheduling priority than the request thread (where the OS allows), so pages stay quick
  * while the model runs.
@@ -56,12 +57,18 @@ function builtWorkerUrl(): URL | null {
 
 type Pending = { task: EngineTask; resolve: (r: EngineTaskResult) => void; reject: (e: Error) => void };
 
+/** Interactive tasks taken in a row while a job task waits, before the job lane gets one turn. */
+const INTERACTIVE_BEFORE_A_JOB = 4;
+
 /**
- * Tasks by lane, then by owner; `next()` takes the interactive lane first and, within a lane,
- * the owner whose turn it is (each owner's own tasks in order).
+ * Tasks by lane, then by owner; `next()` takes the interactive lane first (but a waiting job
+ * task every INTERACTIVE_BEFORE_A_JOB + 1 turns) and, within a lane, the owner whose turn it is
+ * (each owner's own tasks in order).
  */
 class FairQueue<T> {
   private lanes: Record<Lane, Map<string, T[]>> = { interactive: new Map(), job: new Map() };
+  /** Interactive tasks taken in a row while a job task waited. */
+  private interactiveInARow = 0;
 
   push(item: T, lane: Lane, owner: string): void {
     const owners = this.lanes[lane];
@@ -71,7 +78,12 @@ class FairQueue<T> {
   }
 
   next(): T | undefined {
-    for (const lane of ["interactive", "job"] as const) {
+    const jobsWait = this.lanes.job.size > 0;
+    // Pages first, but not for ever: one person reloading pages that run the model could keep
+    // the interactive lane full and hold everyone's sweeps and calibrations (issue 10).
+    const order: Lane[] =
+      jobsWait && this.interactiveInARow >= INTERACTIVE_BEFORE_A_JOB ? ["job", "interactive"] : ["interactive", "job"];
+    for (const lane of order) {
       const owners = this.lanes[lane];
       const first = owners.entries().next();
       if (first.done) continue;
@@ -80,6 +92,7 @@ class FairQueue<T> {
       // The owner goes to the back of the line (a Map keeps insertion order).
       owners.delete(owner);
       if (list.length) owners.set(owner, list);
+      this.interactiveInARow = lane === "interactive" && jobsWait ? this.interactiveInARow + 1 : 0;
       return item;
     }
     return undefined;

@@ -11,7 +11,7 @@ import { getDb } from "~/db/client.server";
 import { scenarios, tanks } from "~/db/schema";
 import { calendarFeeds } from "~/db/schema-care";
 import type { JournalEntry } from "~/features/journal/journal.server";
-import { listJournal } from "~/features/journal/journal.server";
+import { lastTaskEntries } from "~/features/journal/journal.server";
 import { readStoredSettings } from "~/features/runs/simulation.server";
 import { plannedSettings } from "~/features/tanks/maintenance-plan.server";
 import { hashToken, randomToken } from "~/utils/crypto.server";
@@ -111,7 +111,7 @@ export function calendarFor(token: string, now = Date.now()): string | null {
   if (!tank || !settings) return null;
   const s = plannedSettings(tank.id, settings);
   const cal = ical({ name: `${tank.name} · Fernwater`, prodId: { company: "Fernwater", product: "tank-calendar" } });
-  for (const t of upcomingTasks(s, listJournal(tank.id), now)) {
+  for (const t of upcomingTasks(s, lastTaskEntries(tank.id), now)) {
     cal.createEvent({
       id: `${feed.id}-${t.kind}-${t.atMs}@fernwater`,
       start: new Date(t.atMs),

@@ -2,7 +2,7 @@
  * The journal's rows: listing, adding (one or all of a file's rows in one transaction), editing
  * and deleting, always within the owner's tank (the caller has checked the tank is theirs).
  */
-import { and, asc, eq } from "drizzle-orm";
+import { and, asc, desc, eq, inArray, max, sql } from "drizzle-orm";
 import { getDb, type Db } from "~/db/client.server";
 import { journalEntries } from "~/db/schema-care";
 import {
@@ -16,6 +16,7 @@ import {
   type EntryKind,
 } from "~/features/journal/journal-entries";
 import { checkTakenAt } from "~/features/readings/readings.server";
+import { checkNewJournalEntries } from "~/quotas.server";
 import { parseDateTime } from "~/utils/dates";
 
 export type JournalEntry = {
@@ -26,7 +27,13 @@ export type JournalEntry = {
   note: string;
 };
 
-const MAX_ENTRIES_PER_TANK = 20_000;
+const fromRow = (r: typeof journalEntries.$inferSelect): JournalEntry => ({
+  id: r.id,
+  doneAt: r.doneAt.getTime(),
+  kind: r.kind as EntryKind,
+  details: r.details as EntryDetails,
+  note: r.note,
+});
 
 /** Entries oldest first. */
 export function listJournal(tankId: number): JournalEntry[] {
@@ -36,29 +43,65 @@ export function listJournal(tankId: number): JournalEntry[] {
     .where(eq(journalEntries.tankId, tankId))
     .orderBy(asc(journalEntries.doneAt), asc(journalEntries.id))
     .all()
-    .map((r) => ({
-      id: r.id,
-      doneAt: r.doneAt.getTime(),
-      kind: r.kind as EntryKind,
-      details: r.details as EntryDetails,
-      note: r.note,
-    }));
+    .map(fromRow);
+}
+
+/**
+ * The newest entry of each kind a planned task resumes from (a water change, a filter cleaning,
+ * each plant group's trim), oldest first: what the calendar feed needs, without reading a journal
+ * of 20,000 entries on every poll of an address anyone holding it may ask for (about 0.2 s).
+ */
+export function lastTaskEntries(tankId: number): JournalEntry[] {
+  const db = getDb();
+  const newest = (kind: EntryKind) =>
+    db
+      .select()
+      .from(journalEntries)
+      .where(and(eq(journalEntries.tankId, tankId), eq(journalEntries.kind, kind)))
+      .orderBy(desc(journalEntries.doneAt), desc(journalEntries.id))
+      .limit(1)
+      .get();
+  // Trims, one per plant group: SQLite takes a bare column's value from the row holding the max().
+  const group = sql`lower(trim(coalesce(json_extract(${journalEntries.details}, '$.plantGroup'), '')))`;
+  const trims = db
+    .select({ id: journalEntries.id, doneAt: max(journalEntries.doneAt) })
+    .from(journalEntries)
+    .where(and(eq(journalEntries.tankId, tankId), eq(journalEntries.kind, "plants_trimmed")))
+    .groupBy(group)
+    .all();
+  const trimRows = trims.length
+    ? db
+        .select()
+        .from(journalEntries)
+        .where(
+          inArray(
+            journalEntries.id,
+            trims.map((t) => t.id),
+          ),
+        )
+        .all()
+    : [];
+  return [newest("water_change"), newest("filter_cleaned"), ...trimRows]
+    .filter((r) => r !== undefined)
+    .map(fromRow)
+    .sort((a, b) => a.doneAt - b.doneAt || a.id - b.id);
+}
+
+/** One entry of this tank, or null (without reading the whole journal, which may hold 20,000). */
+export function journalEntry(tankId: number, id: number): JournalEntry | null {
+  const row = getDb()
+    .select()
+    .from(journalEntries)
+    .where(and(eq(journalEntries.tankId, tankId), eq(journalEntries.id, id)))
+    .get();
+  return row ? fromRow(row) : null;
 }
 
 type Tx = Parameters<Parameters<Db["transaction"]>[0]>[0];
 
-export class JournalFull extends Error {}
-
-/** Adds entries in the caller's transaction (all or none). */
+/** Adds entries in the caller's transaction (all or none); QuotaExceeded (413) past the journal quotas. */
 function insertEntries(tx: Tx, tankId: number, entries: readonly EntryInput[]): number[] {
-  const have = tx
-    .select({ id: journalEntries.id })
-    .from(journalEntries)
-    .where(eq(journalEntries.tankId, tankId))
-    .all().length;
-  if (have + entries.length > MAX_ENTRIES_PER_TANK) {
-    throw new JournalFull(`A tank's journal holds at most ${MAX_ENTRIES_PER_TANK.toLocaleString("en")} entries.`);
-  }
+  checkNewJournalEntries(tx, tankId, entries.length);
   return entries.map(
     (e) =>
       tx

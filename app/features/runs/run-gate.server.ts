@@ -1,8 +1,9 @@
 /**
  * Who may run the model now, and where the run goes (docs/decisions/0006-single-runs.md).
  *
- * - Saves, imports and copies, and previews, have rate limits per person (app/rate-limits.server.ts);
- *   page views that must re-run a stale run have none.
+ * - Saves, imports, copies and re-runs of a stale stored run (even one a page view asks for), and
+ *   previews, have rate limits per person (app/rate-limits.server.ts); the journal's and the
+ *   lesson presentation's runs, which store nothing, have none ("view").
  * - One person has at most RUNS_IN_FLIGHT_PER_PERSON runs going at once; more answer 429.
  * - A run that looks short (isQuickRun) gets INLINE_BUDGET_MS on the request thread; if it is
  *   not done by then it stops and goes to the worker pool. Everything else goes to the pool at

@@ -222,7 +222,7 @@ export function runEngineForStorage(scenario: Scenario, request: RunRequest): Pr
 
 /**
  * The run for a scenario's current settings: the stored one if the settings and engine are
- * unchanged, else a fresh run (counted against `ownerId`, the scenario's owner), stored.
+ * unchanged, else a fresh run (counted against `ownerId`, the scenario's owner, as a save), stored.
  * Throws ModelError when the engine cannot run them, RunRefused or QuotaExceeded.
  */
 export async function ensureRun(scenarioId: number, scenario: Scenario, ownerId: number): Promise<StoredRun> {
@@ -234,7 +234,9 @@ export async function ensureRun(scenarioId: number, scenario: Scenario, ownerId:
   const key = `${scenarioId}:${hash}`;
   const pending = runsUnderWay.get(key);
   if (pending) return pending;
-  const made = runEngineForStorage(scenario, { userId: ownerId, purpose: "view" })
+  // A re-run stores a run like a save does, so it counts as one: a new nitrate band (free to
+  // change) makes every run of the tank stale, and views alone would otherwise store runs at will.
+  const made = runEngineForStorage(scenario, { userId: ownerId, purpose: "save" })
     .then((run) => storeRun(scenarioId, hash, run))
     .finally(() => runsUnderWay.delete(key));
   runsUnderWay.set(key, made);

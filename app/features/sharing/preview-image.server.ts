@@ -30,16 +30,30 @@ function svgToPng(svg: string, fontFamily: string): Buffer {
 }
 
 /**
- * The run's preview PNG under this name: the kept one, or `drawSvg()` rendered and kept (a
- * renamed scenario keeps its run, so the name is part of what was drawn).
+ * The run's kept preview PNG: `current` when it was drawn under this name (a renamed scenario
+ * keeps its run, so the name is part of what was drawn), or null when none was drawn for the run.
  */
-export function sharePreviewPng(runId: number, name: string, drawSvg: () => string, fontFamily: string): Buffer {
-  const db = getDb();
-  const kept = db.select({ png: sharePreviews.png, name: sharePreviews.name }).from(sharePreviews).where(eq(sharePreviews.runId, runId)).get();
-  if (kept && kept.name === name) return kept.png;
+export function keptSharePreview(runId: number, name: string): { png: Buffer; current: boolean } | null {
+  const kept = getDb()
+    .select({ png: sharePreviews.png, name: sharePreviews.name })
+    .from(sharePreviews)
+    .where(eq(sharePreviews.runId, runId))
+    .get();
+  return kept ? { png: kept.png, current: kept.name === name } : null;
+}
+
+/**
+ * Draws the run's preview PNG under this name (`drawSvg()` rendered by resvg, about 50 ms on the
+ * request thread) and keeps it. The caller counts draws against the owner's limit first.
+ */
+export function drawSharePreview(runId: number, name: string, drawSvg: () => string, fontFamily: string): Buffer {
   const png = svgToPng(drawSvg(), fontFamily);
   // Two first visitors at once both draw; the last write wins, and both drew the same.
-  db.insert(sharePreviews).values({ runId, png, name }).onConflictDoUpdate({ target: sharePreviews.runId, set: { png, name } }).run();
+  getDb()
+    .insert(sharePreviews)
+    .values({ runId, png, name })
+    .onConflictDoUpdate({ target: sharePreviews.runId, set: { png, name } })
+    .run();
   return png;
 }
 

@@ -1,7 +1,7 @@
 import type { Route } from "./+types/tank-journal-entry";
 import { apiError, apiRoute, json, methodNotAllowed, readJson } from "~/http/api.server";
 import { notFound, requireApiUser } from "~/permissions.server";
-import { deleteEntry, entryJson, listJournal, readEntry, updateEntry } from "~/features/journal/journal.server";
+import { deleteEntry, entryJson, journalEntry, readEntry, updateEntry } from "~/features/journal/journal.server";
 import { entryFields } from "~/features/journal/journal-entries";
 import { parseId, requireOwnedTank } from "~/features/tanks/tanks.server";
 
@@ -18,7 +18,7 @@ export const action = apiRoute(async ({ request, params }: Route.ActionArgs) => 
   const user = await requireApiUser(request);
   const tank = requireOwnedTank(user.id, params.tankId);
   const id = parseId(params.entryId);
-  const entry = listJournal(tank.id).find((e) => e.id === id) ?? notFound("No such journal entry.");
+  const entry = journalEntry(tank.id, id) ?? notFound("No such journal entry.");
   if (request.method === "DELETE") {
     deleteEntry(tank.id, entry.id);
     return new Response(null, { status: 204 });
@@ -44,5 +44,5 @@ export const action = apiRoute(async ({ request, params }: Route.ActionArgs) => 
       Object.entries(read.errors).map(([path, message]) => ({ path, message })),
     );
   updateEntry(tank.id, entry.id, read.entry);
-  return json({ entry: entryJson(listJournal(tank.id).find((e) => e.id === id)!) });
+  return json({ entry: entryJson(journalEntry(tank.id, id)!) });
 });

@@ -1,13 +1,15 @@
 import type { Route } from "./+types/tank-journal";
 import { apiError, apiRoute, json, readJson } from "~/http/api.server";
 import { requireApiUser } from "~/permissions.server";
-import { addEntries, entryJson, listJournal, readEntry } from "~/features/journal/journal.server";
+import { takeListingTurn } from "~/http/listing-turns.server";
+import { addEntries, entryJson, journalEntry, listJournal, readEntry } from "~/features/journal/journal.server";
 import { requireOwnedTank } from "~/features/tanks/tanks.server";
 
 /** GET /api/tanks/:tankId/journal: the tank's journal, oldest first, canonical units. */
 export const loader = apiRoute(async ({ request, params }: Route.LoaderArgs) => {
   const user = await requireApiUser(request);
   const tank = requireOwnedTank(user.id, params.tankId);
+  await takeListingTurn(user.id);
   return json({ tankId: tank.id, entries: listJournal(tank.id).map(entryJson) });
 });
 
@@ -27,6 +29,6 @@ export const action = apiRoute(async ({ request, params }: Route.ActionArgs) => 
       Object.entries(read.errors).map(([path, message]) => ({ path, message })),
     );
   const [id] = addEntries(tank.id, [read.entry]);
-  const entry = listJournal(tank.id).find((e) => e.id === id)!;
+  const entry = journalEntry(tank.id, id)!;
   return json({ entry: entryJson(entry) }, { status: 201 });
 });

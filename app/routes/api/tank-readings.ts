@@ -1,6 +1,7 @@
 import type { Route } from "./+types/tank-readings";
 import { apiRoute, json, methodNotAllowed } from "~/http/api.server";
 import { requireApiUser } from "~/permissions.server";
+import { takeListingTurn } from "~/http/listing-turns.server";
 import { allReadings } from "~/features/readings/readings.server";
 import { requireOwnedTank } from "~/features/tanks/tanks.server";
 
@@ -8,6 +9,7 @@ import { requireOwnedTank } from "~/features/tanks/tanks.server";
 export const loader = apiRoute(async ({ request, params }: Route.LoaderArgs) => {
   const user = await requireApiUser(request);
   const tank = requireOwnedTank(user.id, params.tankId);
+  await takeListingTurn(user.id);
   return json({
     tankId: tank.id,
     readings: allReadings(tank.id).map((r) => ({

@@ -208,6 +208,12 @@ function UsageSection({ usage }: { usage: Route.ComponentProps["loaderData"]["us
       share: usage.readings.used / usage.readings.limit,
     },
     {
+      label: "Journal entries",
+      used: usage.journalEntries.used.toLocaleString("en"),
+      limit: usage.journalEntries.limit.toLocaleString("en"),
+      share: usage.journalEntries.used / usage.journalEntries.limit,
+    },
+    {
       label: "Stored runs",
       used: megabytes(usage.storedRunBytes.used),
       limit: megabytes(usage.storedRunBytes.limit),

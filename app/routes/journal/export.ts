@@ -1,5 +1,6 @@
 import type { Route } from "./+types/export";
 import { requireUser } from "~/permissions.server";
+import { ListingRefused, listingRefusedResponse, takeListingTurn } from "~/http/listing-turns.server";
 import { journalCsv } from "~/features/journal/journal-csv.server";
 import { listJournal } from "~/features/journal/journal.server";
 import { requireOwnedTank } from "~/features/tanks/tanks.server";
@@ -9,6 +10,12 @@ import { fileSlugFor } from "~/utils/file-name";
 export async function loader({ request, params }: Route.LoaderArgs) {
   const user = await requireUser(request);
   const tank = requireOwnedTank(user.id, params.tankId);
+  try {
+    await takeListingTurn(user.id);
+  } catch (error) {
+    if (error instanceof ListingRefused) return listingRefusedResponse(error);
+    throw error;
+  }
   return new Response("\uFEFF" + journalCsv(listJournal(tank.id)), {
     headers: {
       "Content-Type": "text/csv; charset=utf-8",

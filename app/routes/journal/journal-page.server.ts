@@ -14,22 +14,38 @@ import {
 } from "~/features/journal/calendar-feed.server";
 import { dayText, forecastSentence } from "~/features/journal/forecast-text.server";
 import { forecastJournal, replayJournal } from "~/features/journal/journal-replay.server";
-import { addEntries, deleteEntry, JournalFull, listJournal, readEntry } from "~/features/journal/journal.server";
+import { addEntries, deleteEntry, listJournal, readEntry } from "~/features/journal/journal.server";
+import { QuotaExceeded } from "~/quotas.server";
 import { allReadings } from "~/features/readings/readings.server";
 import { readStoredSettings } from "~/features/runs/simulation.server";
 import { plannedSettings } from "~/features/tanks/maintenance-plan.server";
 import { listScenarios, type TankRow } from "~/features/tanks/tanks.server";
 import { readUpload, UploadError } from "~/http/uploads.server";
+import { takeUploadTurn, UploadRefused } from "~/http/upload-turns.server";
 import { runProblem } from "~/http/pages.server";
 import { DAY_MS, formatDateTime } from "~/utils/dates";
 import type { CsvProblem } from "~/utils/csv-read.server";
 import { unitLabels, type DisplayUnits } from "~/utils/display-units";
+
+/**
+ * Entries shown on one page of the table, newest first. A journal holds up to 20,000 entries a
+ * tank: all of them in one page took about 0.2 s to read and 11 MB of page data to render on the
+ * request thread, so a few reloads stalled everyone (issue 10, freeze the server).
+ */
+const JOURNAL_PAGE_SIZE = 100;
+
+/** The table's page from `?page=` (1 = the newest entries); anything unreadable is page 1. */
+function journalPageNumber(value: string | null): number {
+  const n = Number(value);
+  return Number.isInteger(n) && n >= 1 && n <= 1_000_000 ? n : 1;
+}
 
 export async function journalPageData(
   tank: TankRow,
   scenarioParam: string | null,
   units: DisplayUnits,
   now = Date.now(),
+  pageParam: string | null = null,
 ) {
   // Nitrate in the person's own unit (NO3 or NO3-N), from the one units table.
   const perMgN = fromCanonical("nitrate", 1, units.nitrate);
@@ -72,8 +88,9 @@ export async function journalPageData(
     tank: { id: tank.id, name: tank.name },
     scenarios: scenarios.map((s) => ({ id: s.id, name: s.name })),
     scenarioId: chosen?.id ?? null,
+    ...entryPage(entries, journalPageNumber(pageParam)),
     entries: entries
-      .slice()
+      .slice(...pageBounds(entries.length, journalPageNumber(pageParam)))
       .reverse()
       .map((e) => ({
         id: e.id,
@@ -94,6 +111,18 @@ export async function journalPageData(
   };
 }
 
+/** The slice of the oldest-first list that holds table page `page` (clamped to the last page). */
+function pageBounds(total: number, page: number): [number, number] {
+  const last = Math.max(1, Math.ceil(total / JOURNAL_PAGE_SIZE));
+  const p = Math.min(page, last);
+  return [Math.max(0, total - p * JOURNAL_PAGE_SIZE), total - (p - 1) * JOURNAL_PAGE_SIZE];
+}
+
+function entryPage(entries: readonly unknown[], page: number) {
+  const pages = Math.max(1, Math.ceil(entries.length / JOURNAL_PAGE_SIZE));
+  return { entryCount: entries.length, entryPage: Math.min(page, pages), entryPages: pages };
+}
+
 export type JournalAnswer = {
   intent: string;
   errors?: Record<string, string>;
@@ -110,25 +139,13 @@ const refuse = (a: JournalAnswer, status = 400) => data(a, { status });
 export async function journalAction(request: Request, tank: TankRow, units: DisplayUnits) {
   const type = request.headers.get("content-type") ?? "";
   if (type.startsWith("multipart/form-data")) {
-    let upload;
     try {
-      upload = await readUpload(request, MAX_JOURNAL_CSV_BYTES);
+      await takeUploadTurn(tank.ownerId);
     } catch (error) {
-      if (error instanceof UploadError) return refuse({ intent: "upload", message: error.message });
+      if (error instanceof UploadRefused) return refuse({ intent: "upload", message: error.message }, error.status);
       throw error;
     }
-    if (!upload.file || upload.file.text.trim() === "")
-      return refuse({ intent: "upload", message: "Choose a CSV file to upload." });
-    const parsed = parseJournalCsv(upload.file.text);
-    if (!parsed.ok)
-      return refuse({ intent: "upload", message: parsed.message, problems: parsed.problems, more: parsed.more });
-    try {
-      addEntries(tank.id, parsed.entries);
-    } catch (error) {
-      if (error instanceof JournalFull) return refuse({ intent: "upload", message: error.message }, 413);
-      throw error;
-    }
-    return { intent: "upload", stored: parsed.entries.length } satisfies JournalAnswer;
+    return storeUpload(request, tank);
   }
   const form = await request.formData();
   const intent = String(form.get("intent") ?? "");
@@ -163,8 +180,31 @@ export async function journalAction(request: Request, tank: TankRow, units: Disp
   try {
     addEntries(tank.id, [read.entry]);
   } catch (error) {
-    if (error instanceof JournalFull) return refuse({ intent, message: error.message, values }, 413);
+    if (error instanceof QuotaExceeded) return refuse({ intent, message: error.message, values }, 413);
     throw error;
   }
   return { intent, message: `${ENTRY_KINDS[read.entry.kind]} added to the journal.` } satisfies JournalAnswer;
+}
+
+/** A journal CSV upload: all its rows or none. */
+async function storeUpload(request: Request, tank: TankRow) {
+  let upload;
+  try {
+    upload = await readUpload(request, MAX_JOURNAL_CSV_BYTES);
+  } catch (error) {
+    if (error instanceof UploadError) return refuse({ intent: "upload", message: error.message });
+    throw error;
+  }
+  if (!upload.file || upload.file.text.trim() === "")
+    return refuse({ intent: "upload", message: "Choose a CSV file to upload." });
+  const parsed = parseJournalCsv(upload.file.text);
+  if (!parsed.ok)
+    return refuse({ intent: "upload", message: parsed.message, problems: parsed.problems, more: parsed.more });
+  try {
+    addEntries(tank.id, parsed.entries);
+  } catch (error) {
+    if (error instanceof QuotaExceeded) return refuse({ intent: "upload", message: error.message }, 413);
+    throw error;
+  }
+  return { intent: "upload", stored: parsed.entries.length } satisfies JournalAnswer;
 }

@@ -25,7 +25,8 @@ export const meta: Route.MetaFunction = ({ data }) => [{ title: `Journal · ${da
 export async function loader({ request, params }: Route.LoaderArgs) {
   const user = await requireUser(request);
   const tank = requireOwnedTank(user.id, params.tankId);
-  return journalPageData(tank, new URL(request.url).searchParams.get("scenario"), displayUnitsFor(user));
+  const query = new URL(request.url).searchParams;
+  return journalPageData(tank, query.get("scenario"), displayUnitsFor(user), Date.now(), query.get("page"));
 }
 
 export async function action({ request, params }: Route.ActionArgs) {
@@ -135,6 +136,14 @@ function EntryForm({ answer, units }: { answer: JournalAnswer | undefined; units
 
 export default function JournalPage({ loaderData, actionData }: Route.ComponentProps) {
   const { tank, scenarios, scenarioId, entries, replay, forecast, problem, upcoming, calendarOn } = loaderData;
+  const { entryCount, entryPage, entryPages } = loaderData;
+  const pageHref = (page: number) => {
+    const q = new URLSearchParams();
+    if (scenarioId) q.set("scenario", String(scenarioId));
+    if (page > 1) q.set("page", String(page));
+    const s = q.toString();
+    return `/tanks/${tank.id}/journal${s ? `?${s}` : ""}`;
+  };
   const answer = actionData as JournalAnswer | undefined;
   return (
     <main className="mx-auto max-w-4xl space-y-8 p-4">
@@ -293,6 +302,23 @@ export default function JournalPage({ loaderData, actionData }: Route.ComponentP
             </table>
           </ScrollTable>
         )}
+        {entryPages > 1 ? (
+          <nav aria-label="Journal pages" className="flex flex-wrap items-center gap-4 text-sm">
+            <span>
+              Page {entryPage} of {entryPages} ({entryCount.toLocaleString("en")} entries, newest first)
+            </span>
+            {entryPage > 1 ? (
+              <Link className="link" to={pageHref(entryPage - 1)}>
+                Newer entries
+              </Link>
+            ) : null}
+            {entryPage < entryPages ? (
+              <Link className="link" to={pageHref(entryPage + 1)}>
+                Older entries
+              </Link>
+            ) : null}
+          </nav>
+        ) : null}
       </section>
 
       <section className="space-y-3">

@@ -1,5 +1,6 @@
 import type { Route } from "./+types/export";
 import { requireUser } from "~/permissions.server";
+import { ListingRefused, listingRefusedResponse, takeListingTurn } from "~/http/listing-turns.server";
 import { readingsCsv } from "~/features/readings/readings-csv-export.server";
 import { allReadings, measureUnitsFor } from "~/features/readings/readings.server";
 import { requireOwnedTank } from "~/features/tanks/tanks.server";
@@ -10,6 +11,12 @@ import { fileSlugFor } from "~/utils/file-name";
 export async function loader({ request, params }: Route.LoaderArgs) {
   const user = await requireUser(request);
   const tank = requireOwnedTank(user.id, params.tankId);
+  try {
+    await takeListingTurn(user.id);
+  } catch (error) {
+    if (error instanceof ListingRefused) return listingRefusedResponse(error);
+    throw error;
+  }
   const body = "\uFEFF" + readingsCsv(allReadings(tank.id), measureUnitsFor(displayUnitsFor(user)));
   return new Response(body, {
     headers: {

@@ -10,6 +10,7 @@ import { insertReadings, measureUnitsFor, storedTimes, type MeasureUnits } from 
 import { requireOwnedTank } from "~/features/tanks/tanks.server";
 import { formRefusal } from "~/http/pages.server";
 import { readUpload, UploadError } from "~/http/uploads.server";
+import { takeUploadTurn, UploadRefused } from "~/http/upload-turns.server";
 import { displayUnitsFor } from "~/utils/display-units";
 import { Breadcrumbs } from "~/components/breadcrumbs";
 
@@ -78,6 +79,20 @@ const answer = (a: Partial<UploadAnswer>, status = 200) =>
 export async function action({ request, params }: Route.ActionArgs) {
   const user = await requireUser(request);
   const tank = requireOwnedTank(user.id, params.tankId);
+  try {
+    await takeUploadTurn(user.id);
+  } catch (error) {
+    if (error instanceof UploadRefused) return answer({ error: error.message }, error.status);
+    throw error;
+  }
+  return storeUpload(request, user, tank);
+}
+
+async function storeUpload(
+  request: Request,
+  user: Awaited<ReturnType<typeof requireUser>>,
+  tank: ReturnType<typeof requireOwnedTank>,
+) {
   let upload;
   try {
     upload = await readUpload(request, MAX_CSV_BYTES);

@@ -43,16 +43,20 @@ export async function loader({ request, params }: Route.LoaderArgs) {
       results: null,
       whatIf: null,
       readings: [],
+      readingsTotal: 0,
     };
   const withTargets = withTankTargets(settings, tank);
   const units = displayUnitsFor(user);
   try {
     const run = await ensureRun(scenario.id, withTargets, user.id);
+    const chart = readingsForChart(tank.id, modelStartMs(scenario), withTargets.run.lengthDays, units);
     return {
       ...base,
       error: null,
       results: packedResultsPayload(resultsPayload(run, withTargets, units)),
-      readings: readingsForChart(tank.id, modelStartMs(scenario), withTargets.run.lengthDays, units),
+      // The chart draws at most MAX_CHART_READINGS of them (an even sample); the page says how many.
+      readings: chart.points,
+      readingsTotal: chart.total,
       whatIf: {
         base: whatIfBase(withTargets),
         hasPlants: withTargets.plants.length > 0,
@@ -62,7 +66,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     };
   } catch (error) {
     const problem = runProblem(error);
-    if (problem) return { ...base, error: problem, results: null, whatIf: null, readings: [] };
+    if (problem) return { ...base, error: problem, results: null, whatIf: null, readings: [], readingsTotal: 0 };
     throw error;
   }
 }
@@ -166,9 +170,11 @@ export default function ResultsPage({ loaderData, actionData }: Route.ComponentP
             downloadName={`${tank.name}-${scenario.name}`}
           />
           <p className="text-sm text-stone-700">
-            {loaderData.readings.length
-              ? `${loaderData.readings.length} test readings are drawn as points over the curves. `
-              : "No test readings fall within this run. "}
+            {loaderData.readings.length === loaderData.readingsTotal
+              ? loaderData.readings.length
+                ? `${loaderData.readings.length} test readings are drawn as points over the curves. `
+                : "No test readings fall within this run. "
+              : `${loaderData.readings.length} of the ${loaderData.readingsTotal.toLocaleString("en")} test readings in this run are drawn as points over the curves, evenly spread over time (the readings page lists them all). `}
             <Link to={`/tanks/${tank.id}/readings`} className="link">
               Readings
             </Link>{" "}

@@ -3,7 +3,8 @@ import type { Route } from "./+types/preview-image";
 import { PREVIEW_FONT, PreviewCard } from "~/components/charts/preview-card";
 import { readOnlyScenarioView } from "~/features/runs/read-only-view.server";
 import { unpackSeries } from "~/features/runs/series-packing";
-import { previewEtag, sharePreviewPng } from "~/features/sharing/preview-image.server";
+import { drawSharePreview, keptSharePreview, previewEtag } from "~/features/sharing/preview-image.server";
+import { giveBack, take, waitText } from "~/rate-limits.server";
 import { findLinkByToken, isLive } from "~/features/sharing/share.server";
 import { notFound } from "~/permissions.server";
 import { DEFAULT_PREFERENCES, displayUnitsFor } from "~/utils/display-units";
@@ -23,7 +24,32 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const etag = previewEtag(results.runId, found.scenario.name);
   const headers = { "Cache-Control": "no-cache", ETag: etag, "X-Robots-Tag": "noindex" };
   if (request.headers.get("If-None-Match") === etag) return new Response(null, { status: 304, headers });
-  const png = sharePreviewPng(
+  const first = keptSharePreview(results.runId, found.scenario.name);
+  if (first?.current) return picture(first.png, headers);
+  // Drawing takes the request thread for about 50 ms, and renaming the scenario asks for a new
+  // drawing: renaming and fetching in a loop kept the request thread drawing, so draws count
+  // per owner (issue 10).
+  const owner = `user:${found.tank.ownerId}`;
+  const wait = await take("sharePicturesPerOwner", owner);
+  // Visitors who came at once: the first drew it while the others waited for their count.
+  const kept = keptSharePreview(results.runId, found.scenario.name);
+  if (kept?.current) {
+    if (wait === 0) await giveBack("sharePicturesPerOwner", owner);
+    return picture(kept.png, headers);
+  }
+  if (wait > 0) {
+    // The picture under the scenario's former name rather than none; drawn anew later.
+    if (kept) return picture(kept.png, { ...headers, ETag: `"stale-${results.runId}"` });
+    return new Response(`This picture was drawn too often just now. Try again in ${waitText(wait)}.`, {
+      status: 429,
+      headers: {
+        "Retry-After": String(wait),
+        "Content-Type": "text/plain; charset=utf-8",
+        "Cache-Control": "no-store",
+      },
+    });
+  }
+  const png = drawSharePreview(
     results.runId,
     found.scenario.name,
     () =>
@@ -39,5 +65,11 @@ export async function loader({ request, params }: Route.LoaderArgs) {
       ),
     PREVIEW_FONT,
   );
-  return new Response(new Uint8Array(png), { headers: { ...headers, "Content-Type": "image/png", "Content-Length": String(png.length) } });
+  return picture(png, headers);
+}
+
+function picture(png: Buffer, headers: Record<string, string>): Response {
+  return new Response(new Uint8Array(png), {
+    headers: { ...headers, "Content-Type": "image/png", "Content-Length": String(png.length) },
+  });
 }
