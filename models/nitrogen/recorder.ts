@@ -29,10 +29,22 @@ export interface Extremes {
   khLow: Peak;
 }
 
+/**
+ * TAN and pH at every solver step and sample, in time order: what the ammonia criteria are
+ * checked against, so a warning does not depend on the chart spacing (a peak between two
+ * samples still counts).
+ */
+export interface Trace {
+  t: number[];
+  tan: number[];
+  ph: number[];
+}
+
 export interface Recorder {
   readonly series: Series;
   readonly extremes: Extremes;
   readonly raw: RawSeries | null;
+  readonly trace: Trace;
   /** Track peaks and lows at a solver step. */
   track(t: number, y: readonly number[]): void;
   /** Record a chart sample (and track it). */
@@ -68,8 +80,16 @@ export function createRecorder(s: Scenario, c: TankConstants, keepRaw: boolean):
     ? { names: [...STATE_NAMES, ...s.plants.map((g) => `plants "${g.name}" (g)`), "pH (unclamped)"], t: [], rows: [] }
     : null;
 
+  const trace: Trace = { t: [], tan: [], ph: [] };
+
   const track = (t: number, y: readonly number[]) => {
     const tan = y[IX.tan];
+    const n = trace.t.length;
+    if (n === 0 || t >= trace.t[n - 1]) {
+      trace.t.push(t);
+      trace.tan.push(tan > 0 ? tan : 0);
+      trace.ph.push(phAt(c, y[IX.kh]));
+    }
     const nh3 = tan * fnh3At(c, y[IX.kh]);
     if (nh3 > extremes.nh3.value) extremes.nh3 = { value: nh3, day: t };
     if (tan > extremes.tan.value) extremes.tan = { value: tan, day: t };
@@ -101,5 +121,5 @@ export function createRecorder(s: Scenario, c: TankConstants, keepRaw: boolean):
     }
   };
 
-  return { series, extremes, raw, track, sample };
+  return { series, extremes, raw, trace, track, sample };
 }
