@@ -54,11 +54,12 @@ describe("ammonia warnings between chart samples", () => {
     expect(rel(weekly!.value, hourly!.value)).toBeLessThan(0.02);
   });
 
-  it.each([
+  const cases: [string, Scenario][] = [
     ["meal spikes", MEAL_SPIKES],
     ["a new filter", NEW_FILTER],
-    ...PRESETS.map((p) => [p.id, ScenarioSchema.parse(p.scenario)] as const),
-  ])("%s: the same warnings at hourly, daily and weekly chart spacing", (_name, s) => {
+    ...PRESETS.map((p): [string, Scenario] => [p.id, ScenarioSchema.parse(p.scenario)]),
+  ];
+  it.each(cases)("%s: the same warnings at hourly, daily and weekly chart spacing", (_name, s) => {
     // our own check: the chart spacing is a display choice, not a model setting
     const hourly = codes(s, HOURLY);
     expect(codes(s, 1)).toEqual(hourly);
