@@ -58,7 +58,8 @@ const day = (d: number) => `day ${formatNumber(d, 3)}`;
 type Input = {
   keyFigures: KeyFigures;
   warnings: readonly ModelWarning[];
-  tapWater: { khDkh: number; roShare?: number };
+  /** The change water (for the soft-blend warning); left out where the blend is not in question. */
+  tapWater?: { khDkh: number; roShare?: number };
   /** The tank's water volume (L), for the warnings about feeding per volume. */
   volumeL?: number;
 };
@@ -148,8 +149,8 @@ export function resultWarnings(
         out.push({ code: w.code, severity: w.severity, figure: null, text: w.message });
     }
   }
-  const roShare = tapWater.roShare ?? 0;
-  const blendKh = tapWater.khDkh * (1 - roShare);
+  const roShare = tapWater?.roShare ?? 0;
+  const blendKh = (tapWater?.khDkh ?? Infinity) * (1 - roShare);
   if (roShare > 0 && blendKh < SAFE_BLEND_KH_DKH) {
     out.push({
       code: "blendBelowSafeKh",
