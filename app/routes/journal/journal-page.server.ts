@@ -16,6 +16,7 @@ import { dayText, forecastSentence } from "~/features/journal/forecast-text.serv
 import { forecastJournal, replayJournal } from "~/features/journal/journal-replay.server";
 import { addEntries, deleteEntry, JournalFull, listJournal, readEntry } from "~/features/journal/journal.server";
 import { allReadings } from "~/features/readings/readings.server";
+import { resultWarnings } from "~/features/runs/run-warnings";
 import { readStoredSettings } from "~/features/runs/simulation.server";
 import { plannedSettings } from "~/features/tanks/maintenance-plan.server";
 import { listScenarios, type TankRow } from "~/features/tanks/tanks.server";
@@ -60,6 +61,18 @@ export async function journalPageData(
           unused: r.unused,
           budget: r.result.budget,
           plantNames: settings.plants.map((g) => g.name),
+          // What the replay crossed (free ammonia, nitrite, the ammonia criteria, KH, oxygen), in
+          // words and the person's units: a logged dose or feeding change can harm fish between
+          // two nitrate readings, and the curve here shows only nitrate.
+          warnings: resultWarnings(
+            {
+              keyFigures: r.result.keyFigures,
+              warnings: r.result.warnings,
+              tapWater: settings.tapWater,
+              volumeL: settings.water.volumeL,
+            },
+            units,
+          ),
         };
         forecast = forecastSentence(await forecastJournal(settings, entries, now, tank.ownerId), units);
       }

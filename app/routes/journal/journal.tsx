@@ -4,6 +4,7 @@ import type { Route } from "./+types/journal";
 import { Breadcrumbs } from "~/components/breadcrumbs";
 import { FormMessage, SelectField, TextField } from "~/components/ui/field";
 import { replayPaths } from "~/features/journal/journal-chart";
+import { RunWarnings } from "~/components/run-warnings";
 import {
   ENTRY_KINDS,
   fieldLabel,
@@ -180,6 +181,14 @@ export default function JournalPage({ loaderData, actionData }: Route.ComponentP
           </Form>
         ) : null}
         {problem ? <FormMessage>{problem}</FormMessage> : null}
+        {replay && replay.warnings.length > 0 ? (
+          <div className="space-y-1" data-replay-warnings>
+            <p className="text-sm text-stone-600">
+              Days count from the first day replayed, {formatDate(replay.startMs)}.
+            </p>
+            <RunWarnings warnings={replay.warnings} />
+          </div>
+        ) : null}
         {replay ? (
           <ReplayChart replay={replay} />
         ) : (
