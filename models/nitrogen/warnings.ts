@@ -156,7 +156,8 @@ export function findWarnings(s: Scenario, c: TankConstants, trace: Trace, extrem
       day: roundDay(byMonth ? month.day : fourDays.day),
     });
   }
-  if (extremes.khLow.value < KH_EXHAUSTED_DKH && s.water.khDkh >= KH_EXHAUSTED_DKH) {
+  // Also when the tank starts below the line: the bacteria stall from day 0 and nothing buffers pH.
+  if (extremes.khLow.value < KH_EXHAUSTED_DKH) {
     out.push({
       code: "khExhausted",
       severity: "caution",
