@@ -53,7 +53,7 @@ export function howFarAbove(ratio: number): string {
   return n <= 20 ? `${SMALL[n]} times` : `${n} times`;
 }
 
-const day = (d: number) => `day ${formatNumber(d, 3)}`;
+const modelDay = (d: number) => `day ${formatNumber(d, 3)}`;
 
 type Input = {
   keyFigures: KeyFigures;
@@ -62,13 +62,16 @@ type Input = {
   tapWater?: { khDkh: number; roShare?: number };
   /** The tank's water volume (L), for the warnings about feeding per volume. */
   volumeL?: number;
+  /** A model day in words ("day 12" unless given, e.g. a date for a journal's forecast). */
+  dayWords?: (day: number) => string;
 };
 
 /** The warnings of a run, most harmful first; an empty list when nothing crosses a caution. */
 export function resultWarnings(
-  { keyFigures: k, warnings, tapWater, volumeL }: Input,
+  { keyFigures: k, warnings, tapWater, volumeL, dayWords = modelDay }: Input,
   units: DisplayUnits,
 ): ResultWarning[] {
+  const day = dayWords;
   const labels = unitLabels(units);
   const kh = (dkh: number) => `${formatNumber(toDisplay("kh", dkh, units))} ${labels.kh}`;
   // Litres per one of the person's volume units (1 for litres).

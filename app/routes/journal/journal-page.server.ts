@@ -12,7 +12,7 @@ import {
   revokeCalendarFeed,
   upcomingTasks,
 } from "~/features/journal/calendar-feed.server";
-import { dayText, forecastSentence } from "~/features/journal/forecast-text.server";
+import { dayText, forecastCautions, forecastSentence } from "~/features/journal/forecast-text.server";
 import { forecastJournal, replayJournal } from "~/features/journal/journal-replay.server";
 import { addEntries, deleteEntry, JournalFull, listJournal, readEntry } from "~/features/journal/journal.server";
 import { allReadings } from "~/features/readings/readings.server";
@@ -39,6 +39,7 @@ export async function journalPageData(
   const chosen = scenarios.find((s) => String(s.id) === scenarioParam) ?? scenarios[0] ?? null;
   let replay = null;
   let forecast: string | null = null;
+  let cautionsAhead: string[] = [];
   let problem: string | null = null;
   // The tank's maintenance plan (if edited) replaces the scenario's timetable for the forecast and the list.
   const stored = chosen ? readStoredSettings(chosen.settings) : null;
@@ -74,7 +75,9 @@ export async function journalPageData(
             units,
           ),
         };
-        forecast = forecastSentence(await forecastJournal(settings, entries, now, tank.ownerId), units);
+        const f = await forecastJournal(settings, entries, now, tank.ownerId);
+        forecast = forecastSentence(f, units);
+        cautionsAhead = forecastCautions(f, units);
       }
     } catch (error) {
       problem = runProblem(error);
@@ -97,6 +100,7 @@ export async function journalPageData(
       })),
     replay,
     forecast,
+    cautionsAhead,
     problem,
     upcoming: settings
       ? upcomingTasks(settings, entries, now, 21).map((t) => ({ title: t.title, when: dayText(t.atMs) }))
