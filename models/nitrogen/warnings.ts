@@ -7,7 +7,7 @@
 import { EATEN_N_SPLIT, tanFromFeed } from "./chemistry";
 import { ammoniaCriteria } from "./criteria";
 import { OXYGEN } from "./parameters";
-import type { Extremes, Trace } from "./recorder";
+import { KH_EXHAUSTED_DKH, type Extremes, type Trace } from "./recorder";
 import type { ModelWarning } from "./result";
 import { round6, roundDay } from "./result";
 import type { Scenario } from "./scenario";
@@ -17,8 +17,6 @@ import type { TankConstants } from "./tank-constants";
 const HEAVY_FEEDING_G_PER_L_DAY = 0.03; // common practice, no source (a crowded tank is ~0.01)
 /** Dissolved nitrogen above which the numbers are outside anything a tank with life could hold (mg N/L). */
 const OUTSIDE_RANGE_MG_N_PER_L = 500; // model choice, no source
-/** KH (dKH) below which nitrification stalls for want of carbonate buffer. */
-const KH_EXHAUSTED_DKH = 0.5; // model choice, no source (the switch's half-saturation)
 
 /**
  * Oxygen the feed needs once fully processed (mg O2/day): the fish's respiration, nitrifying
@@ -112,7 +110,8 @@ export function findWarnings(s: Scenario, c: TankConstants, trace: Trace, extrem
       value: round6(Math.max(extremes.o2Low.value, 0)),
       unit: "mg O2/L",
       limit: caution,
-      day: roundDay(extremes.o2Low.day),
+      // The day it first falls below (when to act), the value its lowest.
+      day: roundDay(extremes.o2LowFrom ?? extremes.o2Low.day),
     });
   }
   // Ammonia against the US EPA (2013) criteria at each step's pH (every solver step and sample,
@@ -165,7 +164,8 @@ export function findWarnings(s: Scenario, c: TankConstants, trace: Trace, extrem
       value: round6(Math.max(extremes.khLow.value, 0)),
       unit: "dKH",
       limit: KH_EXHAUSTED_DKH,
-      day: roundDay(extremes.khLow.day),
+      // The day it first runs out (when to act), the value its lowest.
+      day: roundDay(extremes.khExhaustedFrom ?? extremes.khLow.day),
     });
   }
   const highest = [extremes.tan, extremes.no2, extremes.no3].reduce((a, b) => (b.value > a.value ? b : a));

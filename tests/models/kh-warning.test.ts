@@ -39,3 +39,32 @@ describe("KH running out", () => {
     expect(Math.min(...r.series.ph)).toBeLessThan(7.2);
   });
 });
+
+describe("when a warning says to act", () => {
+  it("KH's warning is dated when KH first falls below the line, not at its lowest", () => {
+    // our own check: the day is when to act; by the lowest point the harm is done
+    const r = simulate(fed(1));
+    const w = r.warnings.find((x) => x.code === "khExhausted")!;
+    const first = r.series.t[r.series.kh.findIndex((v) => v < 0.5)];
+    // within a chart sample (1 day) of the first sample below the line
+    expect(Math.abs(w.day! - first)).toBeLessThanOrEqual(1);
+    expect(w.day!).toBeLessThan(r.keyFigures.lowestKh.day);
+  });
+
+  it("oxygen's warning is dated when it first falls below 3 mg/L (US EPA 1986, from memory)", () => {
+    const r = simulate(
+      bareTank({
+        water: { volumeL: 20, surfaceAgitation: "still" },
+        filter: { turnoverPerHour: 0, establishedAtStart: false },
+        fish: { feedGPerDay: 1.5 },
+        run: { lengthDays: 60 },
+      }),
+    );
+    const w = r.warnings.find((x) => x.code === "lowOxygen");
+    expect(w).toBeDefined();
+    const first = r.series.t[r.series.o2.findIndex((v) => v < 3)];
+    expect(Math.abs(w!.day! - first)).toBeLessThanOrEqual(1);
+    // a new filter's nitrification keeps taking more oxygen: the lowest comes weeks later
+    expect(w!.day!).toBeLessThan(r.keyFigures.lowestOxygen.day - 7);
+  });
+});

@@ -129,7 +129,7 @@ export function resultWarnings(
           code: w.code,
           severity: w.severity,
           figure: null,
-          text: `Dissolved oxygen falls to ${formatNumber(w.value)} mg/L${w.day === null ? "" : ` on ${day(w.day)}`}, below the ${formatNumber(w.limit)} mg/L fish need: more surface movement or less food.`,
+          text: `Dissolved oxygen falls below the ${formatNumber(w.limit)} mg/L fish need${w.day === null ? "" : ` on ${day(w.day)}`}, down to ${formatNumber(w.value)} mg/L: more surface movement or less food.`,
         });
         break;
       case "heavyFeedingForVolume":
