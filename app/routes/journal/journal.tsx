@@ -5,6 +5,7 @@ import { Breadcrumbs } from "~/components/breadcrumbs";
 import { FormMessage, SelectField, TextField } from "~/components/ui/field";
 import { replayPaths } from "~/features/journal/journal-chart";
 import { RunWarnings } from "~/components/run-warnings";
+import { JournalForecast } from "~/components/journal-forecast";
 import {
   ENTRY_KINDS,
   fieldLabel,
@@ -199,26 +200,7 @@ export default function JournalPage({ loaderData, actionData }: Route.ComponentP
               : "Add a scenario describing this tank first."}
           </p>
         )}
-        {forecast ? (
-          <div className="rounded border border-stone-300 p-3" data-testid="forecast">
-            <h3 className="font-semibold">Forecast</h3>
-            <p>{forecast}</p>
-            {cautionsAhead.length > 0 ? (
-              <div className="mt-2 rounded border-2 border-red-700 bg-red-50 p-2 text-red-950" data-cautions-ahead>
-                <p className="font-semibold">Where fish could be harmed in the days ahead</p>
-                <ul className="list-disc pl-5">
-                  {cautionsAhead.map((text) => (
-                    <li key={text}>{text}</li>
-                  ))}
-                </ul>
-              </div>
-            ) : null}
-            <p className="text-sm text-stone-600">
-              A forecast is a model, not a water test: test your water before and after acting on it, and ask an
-              experienced keeper or a vet if fish show stress.
-            </p>
-          </div>
-        ) : null}
+        {forecast ? <JournalForecast forecast={forecast} cautionsAhead={cautionsAhead} /> : null}
         {replay ? (
           <details>
             <summary className="cursor-pointer text-sm">Nitrogen budget, as it happened</summary>
