@@ -138,7 +138,7 @@ export async function replayJournal(
  * oxygen): the toxic peaks in the days ahead and the engine's warnings dated today or later.
  * Days count from `startMs`.
  */
-export type ForecastCautions = {
+type ForecastCautions = {
   startMs: number;
   peaks: Pick<KeyFigures, "peakFreeNh3" | "peakNitrite">;
   warnings: ModelWarning[];
