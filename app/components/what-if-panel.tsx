@@ -1,17 +1,18 @@
 import { useEffect, useRef, useState } from "react";
 import { Form, useFetcher } from "react-router";
-import type { KeyFigures, Series } from "~models";
+import type { KeyFigures, ModelWarning, Series } from "~models";
 import { toDisplay, unitLabel } from "~models/units";
 import { displayKeyFigures, displaySeries } from "~/features/runs/display-figures";
+import { resultWarnings, type ResultWarning } from "~/features/runs/run-warnings";
 import { whatIfName, type WhatIfSettings, type WhatIfValues } from "~/features/runs/what-if";
 import type { ChartSeries, DisplayKeyFigures } from "~/utils/chart-data";
 import { formatNumber, type DisplayUnits } from "~/utils/display-units";
 
 /** A preview in the viewer's units, converted here from the API's canonical answer. */
-export type WhatIfPreview = { keyFigures: DisplayKeyFigures; series: ChartSeries };
+export type WhatIfPreview = { keyFigures: DisplayKeyFigures; series: ChartSeries; warnings: ResultWarning[] };
 
 /** The preview API's canonical answer (docs/api.md), or its error. */
-type PreviewAnswer = { keyFigures: KeyFigures; series: Series } | { error: string };
+type PreviewAnswer = { keyFigures: KeyFigures; warnings?: ModelWarning[]; series: Series } | { error: string };
 
 type Props = {
   scenarioId: number;
@@ -110,7 +111,12 @@ export function WhatIfPanel({ scenarioId, scenarioName, base, hasPlants, setting
     if (!changed) return;
     const data = fetcher.data;
     if (data && "series" in data && data.series) {
-      onPreview({ keyFigures: displayKeyFigures(data.keyFigures, units), series: displaySeries(data.series, units) });
+      onPreview({
+        keyFigures: displayKeyFigures(data.keyFigures, units),
+        series: displaySeries(data.series, units),
+        // The same cautions as the saved run's, in words (the sliders leave the change water's KH alone).
+        warnings: resultWarnings({ keyFigures: data.keyFigures, warnings: data.warnings ?? [] }, units),
+      });
     }
   }, [fetcher.data, changed, onPreview, units]);
 

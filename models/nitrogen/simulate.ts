@@ -128,7 +128,7 @@ export function simulate(scenario: Scenario, options: SimulateOptions = {}): Sim
     events: loop.events.map((e) => ({ ...e, day: roundDay(e.day) })),
     budget,
     keyFigures: keyFiguresFrom(series, s, extremes, ledger.nitrateBeforeLastChange, yEnd[IX.no3], ledger.trimmedG),
-    warnings: findWarnings(s, c, series, extremes),
+    warnings: findWarnings(s, c, recorder.trace, extremes),
     lowOxygenZones: zoneCapacity(s),
     ammoniaCriteria: ammoniaCriteria(s.water.pH, s.water.temperatureC),
     stats: { ...loop.stats, wallMs: Math.round((now() - started) * 100) / 100 },

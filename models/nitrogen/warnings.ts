@@ -7,8 +7,8 @@
 import { EATEN_N_SPLIT, tanFromFeed } from "./chemistry";
 import { ammoniaCriteria } from "./criteria";
 import { OXYGEN } from "./parameters";
-import type { Extremes } from "./recorder";
-import type { ModelWarning, Series } from "./result";
+import { KH_EXHAUSTED_DKH, type Extremes, type Trace } from "./recorder";
+import type { ModelWarning } from "./result";
 import { round6, roundDay } from "./result";
 import type { Scenario } from "./scenario";
 import type { TankConstants } from "./tank-constants";
@@ -17,8 +17,6 @@ import type { TankConstants } from "./tank-constants";
 const HEAVY_FEEDING_G_PER_L_DAY = 0.03; // common practice, no source (a crowded tank is ~0.01)
 /** Dissolved nitrogen above which the numbers are outside anything a tank with life could hold (mg N/L). */
 const OUTSIDE_RANGE_MG_N_PER_L = 500; // model choice, no source
-/** KH (dKH) below which nitrification stalls for want of carbonate buffer. */
-const KH_EXHAUSTED_DKH = 0.5; // model choice, no source (the switch's half-saturation)
 
 /**
  * Oxygen the feed needs once fully processed (mg O2/day): the fish's respiration, nitrifying
@@ -38,26 +36,44 @@ function oxygenSupplyCeiling(c: TankConstants): number {
   return (c.kla * c.volumeL + c.dripLPerDay) * c.o2Sat;
 }
 
-/** Highest average of `values` over any window of `days` (trapezoid between samples). */
+/**
+ * Highest average of `values` over any window of `days` ending at a point of `t` (the whole run
+ * when it is shorter), the values linear between points. `t` is non-decreasing; a repeated time
+ * is a jump (an event). The window's start is interpolated, so irregular solver steps average
+ * exactly as evenly spaced samples would.
+ */
 function highestAverage(t: readonly number[], values: readonly number[], days: number): { value: number; day: number } {
-  let best = { value: 0, day: 0 };
+  const n = t.length;
+  if (n < 2 || !(t[n - 1] > t[0])) return { value: n > 0 ? values[0] : 0, day: n > 0 ? t[0] : 0 };
+  const w = Math.min(days, t[n - 1] - t[0]);
+  const area: number[] = [0];
+  for (let k = 1; k < n; k++) area.push(area[k - 1] + ((values[k] + values[k - 1]) / 2) * (t[k] - t[k - 1]));
+  let best = { value: 0, day: t[0] };
   let j = 0;
-  let area = 0;
-  for (let k = 1; k < t.length; k++) {
-    area += ((values[k] + values[k - 1]) / 2) * (t[k] - t[k - 1]);
-    while (t[k] - t[j] > days) {
-      area -= ((values[j + 1] + values[j]) / 2) * (t[j + 1] - t[j]);
-      j++;
-    }
-    const span = t[k] - t[j];
-    if (span >= Math.min(days, t[t.length - 1]) - 1e-9 && span > 0 && area / span > best.value) {
-      best = { value: area / span, day: t[k] };
-    }
+  for (let k = 1; k < n; k++) {
+    const a = t[k] - w;
+    if (a < t[0] - 1e-12) continue;
+    while (j + 1 < n && t[j + 1] <= a) j++;
+    const dt = j + 1 < n ? t[j + 1] - t[j] : 0;
+    const va = dt > 0 ? values[j] + ((values[j + 1] - values[j]) * (a - t[j])) / dt : values[j];
+    const avg = (area[k] - (area[j] + ((values[j] + va) / 2) * (a - t[j]))) / w;
+    if (avg > best.value) best = { value: avg, day: t[k] };
   }
   return best;
 }
 
-export function findWarnings(s: Scenario, c: TankConstants, series: Series, extremes: Extremes): ModelWarning[] {
+/** Time-weighted mean of `values` over `t` (the values linear between points). */
+function timeMean(t: readonly number[], values: readonly number[]): number {
+  const n = t.length;
+  if (n === 0) return 7;
+  const span = t[n - 1] - t[0];
+  if (!(span > 0)) return values[n - 1];
+  let area = 0;
+  for (let k = 1; k < n; k++) area += ((values[k] + values[k - 1]) / 2) * (t[k] - t[k - 1]);
+  return area / span;
+}
+
+export function findWarnings(s: Scenario, c: TankConstants, trace: Trace, extremes: Extremes): ModelWarning[] {
   const out: ModelWarning[] = [];
   const V = c.volumeL;
   const feedPerL = (s.fish.feedGPerDay * s.multipliers.feedLoad) / V;
@@ -94,20 +110,22 @@ export function findWarnings(s: Scenario, c: TankConstants, series: Series, extr
       value: round6(Math.max(extremes.o2Low.value, 0)),
       unit: "mg O2/L",
       limit: caution,
-      day: roundDay(extremes.o2Low.day),
+      // The day it first falls below (when to act), the value its lowest.
+      day: roundDay(extremes.o2LowFrom ?? extremes.o2Low.day),
     });
   }
-  // Ammonia against the US EPA (2013) criteria at each sample's pH. A tank cycled without fish
+  // Ammonia against the US EPA (2013) criteria at each step's pH (every solver step and sample,
+  // so a peak between chart samples counts). A tank cycled without fish
   // is meant to carry ammonia: the advice is then to wait before adding fish.
   const fishless = s.fish.feedGPerDay === 0 && s.fishlessCycling.enabled;
   const advice = fishless
     ? " Add fish only once the tank has cycled and ammonia and nitrite read zero."
     : " Test the water and change some of it now.";
   let acute = { ratio: 0, value: 0, limit: 0, day: 0 };
-  for (let k = 0; k < series.t.length; k++) {
-    const limit = ammoniaCriteria(series.ph[k], c.temperatureC).acuteTanMgNPerL;
-    const ratio = series.tan[k] / limit;
-    if (ratio > acute.ratio) acute = { ratio, value: series.tan[k], limit, day: series.t[k] };
+  for (let k = 0; k < trace.t.length; k++) {
+    const limit = ammoniaCriteria(trace.ph[k], c.temperatureC).acuteTanMgNPerL;
+    const ratio = trace.tan[k] / limit;
+    if (ratio > acute.ratio) acute = { ratio, value: trace.tan[k], limit, day: trace.t[k] };
   }
   if (acute.ratio > 1) {
     out.push({
@@ -117,13 +135,12 @@ export function findWarnings(s: Scenario, c: TankConstants, series: Series, extr
       value: round6(acute.value),
       unit: "mg N/L",
       limit: round6(acute.limit),
-      day: acute.day,
+      day: roundDay(acute.day),
     });
   }
-  const meanPh = series.ph.reduce((a, b) => a + b, 0) / Math.max(series.ph.length, 1);
-  const chronic = ammoniaCriteria(meanPh, c.temperatureC).chronicTanMgNPerL;
-  const month = highestAverage(series.t, series.tan, 30);
-  const fourDays = highestAverage(series.t, series.tan, 4);
+  const chronic = ammoniaCriteria(timeMean(trace.t, trace.ph), c.temperatureC).chronicTanMgNPerL;
+  const month = highestAverage(trace.t, trace.tan, 30);
+  const fourDays = highestAverage(trace.t, trace.tan, 4);
   if (month.value > chronic || fourDays.value > 2.5 * chronic) {
     const byMonth = month.value > chronic;
     out.push({
@@ -135,10 +152,11 @@ export function findWarnings(s: Scenario, c: TankConstants, series: Series, extr
       value: round6(byMonth ? month.value : fourDays.value),
       unit: "mg N/L",
       limit: round6(byMonth ? chronic : 2.5 * chronic),
-      day: byMonth ? month.day : fourDays.day,
+      day: roundDay(byMonth ? month.day : fourDays.day),
     });
   }
-  if (extremes.khLow.value < KH_EXHAUSTED_DKH && s.water.khDkh >= KH_EXHAUSTED_DKH) {
+  // Also when the tank starts below the line: the bacteria stall from day 0 and nothing buffers pH.
+  if (extremes.khLow.value < KH_EXHAUSTED_DKH) {
     out.push({
       code: "khExhausted",
       severity: "caution",
@@ -146,7 +164,8 @@ export function findWarnings(s: Scenario, c: TankConstants, series: Series, extr
       value: round6(Math.max(extremes.khLow.value, 0)),
       unit: "dKH",
       limit: KH_EXHAUSTED_DKH,
-      day: roundDay(extremes.khLow.day),
+      // The day it first runs out (when to act), the value its lowest.
+      day: roundDay(extremes.khExhaustedFrom ?? extremes.khLow.day),
     });
   }
   const highest = [extremes.tan, extremes.no2, extremes.no3].reduce((a, b) => (b.value > a.value ? b : a));

@@ -5,7 +5,7 @@ import { ScenarioSchema, simulate } from "../../models/index";
 
 // An independent reference kept in the repository: tools/reference_model.py re-implements the
 // state, right-hand side and events from docs/engine.md and integrates them with scipy's LSODA
-// at rtol 1e-10; its output for three scenarios is stored in tools/reference-output.json
+// at rtol 1e-10; its output for four scenarios is stored in tools/reference-output.json
 // (regenerate with `python3 tools/reference_model.py`). Every state component must agree within
 // 0.1 % at days 7, 30 and 180 (just before that day's events), or within a floor far below
 // anything measurable for components that are all but zero.

@@ -58,6 +58,42 @@ describe("which setup fields apply", () => {
     ).toBe(true);
   });
 
+  it("shows the low-oxygen zones' fields only while the zones are on, and only those of how they are sized", () => {
+    const off = form({
+      "lowOxygen.enabled": "false",
+      "lowOxygen.zoneSize": "fromMedia",
+      "lowOxygen.anammoxEnabled": "true",
+    });
+    for (const f of [
+      "zoneSize",
+      "porousRockL",
+      "sandBedAreaM2",
+      "denitrificationCapacityMgNPerDay",
+      "anammoxEnabled",
+      "anammoxCapacityMgNPerDay",
+    ])
+      expect(fieldApplies(`lowOxygen.${f}`, off), f).toBe(false);
+    expect(fieldApplies("lowOxygen.enabled", off)).toBe(true);
+    const media = form({
+      "lowOxygen.enabled": "true",
+      "lowOxygen.zoneSize": "fromMedia",
+      "lowOxygen.anammoxEnabled": "false",
+    });
+    expect(fieldApplies("lowOxygen.porousRockL", media)).toBe(true);
+    expect(fieldApplies("lowOxygen.capacityEstimate", media)).toBe(true);
+    expect(fieldApplies("lowOxygen.denitrificationCapacityMgNPerDay", media)).toBe(false);
+    expect(fieldApplies("lowOxygen.anammoxCapacityMgNPerDay", media)).toBe(false);
+    const stated = form({
+      "lowOxygen.enabled": "true",
+      "lowOxygen.zoneSize": "fromCapacity",
+      "lowOxygen.anammoxEnabled": "true",
+    });
+    expect(fieldApplies("lowOxygen.denitrificationCapacityMgNPerDay", stated)).toBe(true);
+    expect(fieldApplies("lowOxygen.sandBedDepthCm", stated)).toBe(false);
+    expect(fieldApplies("lowOxygen.anammoxCapacityMgNPerDay", stated)).toBe(true);
+    for (const f of ["enabled", "zoneSize", "anammoxEnabled"]) expect(isSwitchField(`lowOxygen.${f}`), f).toBe(true);
+  });
+
   it("leaves every other field shown, and knows which fields are switches", () => {
     expect(fieldApplies("water.volumeL", form({}))).toBe(true);
     expect(isSwitchField("plants.3.trim.rule")).toBe(true);

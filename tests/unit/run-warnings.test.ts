@@ -71,6 +71,59 @@ describe("the run's warnings in plain words", () => {
     ).toEqual([]);
   });
 
+  it("states KH in the person's KH unit (1 dKH = 17.848 mg/L CaCO3: 10 mg CaO per litre, atomic weights)", () => {
+    const caco3 = displayUnitsFor({ ...DEFAULT_PREFERENCES, khUnit: "CaCO3" });
+    const list = resultWarnings(
+      {
+        keyFigures: figures(),
+        warnings: [
+          { code: "khExhausted", severity: "caution", message: "", value: 0.2, unit: "dKH", limit: 0.5, day: 40 },
+        ],
+        tapWater: { khDkh: 3, roShare: 0.5 },
+      },
+      caco3,
+    );
+    expect(list[0].text).toContain("(down to 3.57 mg/L CaCO3)");
+    // 1.5 dKH blend, 2 dKH safe line
+    expect(list[1].text).toContain("a KH of only 26.8 mg/L CaCO3, below the 35.7 mg/L CaCO3");
+    for (const w of list) expect(w.text).not.toMatch(/dKH/);
+  });
+
+  it("states feeding per volume in the person's volume unit (1 US gal = 3.785411784 L, NIST SP 811)", () => {
+    const gallons = displayUnitsFor({ ...DEFAULT_PREFERENCES, volumeUnit: "usgal" });
+    const list = resultWarnings(
+      {
+        keyFigures: figures(),
+        warnings: [
+          {
+            code: "heavyFeedingForVolume",
+            severity: "implausible",
+            message: "",
+            value: 0.05,
+            unit: "g/L/day",
+            limit: 0.03,
+            day: null,
+          },
+          {
+            code: "feedBeyondOxygenSupply",
+            severity: "implausible",
+            message: "",
+            value: 2,
+            unit: "× the oxygen supply",
+            limit: 1,
+            day: null,
+          },
+        ],
+        tapWater: { khDkh: 6 },
+        volumeL: 37.85411784,
+      },
+      gallons,
+    );
+    expect(list[0].text).toMatch(/^0\.189 g of food a day per US gal of water .* \(about 0\.114 g at most\)/);
+    expect(list[1].text).toContain("(twice the most they bring in): no tank of 10 US gal could carry");
+    for (const w of list) expect(w.text).not.toMatch(/\bL\b|litre/);
+  });
+
   it("puts the ratio in words", () => {
     expect(howFarAbove(1.4)).toBe("40 % above");
     expect(howFarAbove(2)).toBe("twice");

@@ -3,6 +3,8 @@
  * the reminder e-mails alike.
  */
 import type { Forecast } from "~/features/journal/journal-replay.server";
+import { resultWarnings } from "~/features/runs/run-warnings";
+import { DAY_MS } from "~/utils/dates";
 import { nitrateText, type DisplayUnits } from "~/utils/display-units";
 
 /** "14 December" (UTC). */
@@ -21,4 +23,33 @@ export function forecastSentence(f: Forecast | null, units: DisplayUnits): strin
   if (!f.fix)
     return `${cross}; even a 90 % change two days before does not keep it below: look at feeding and the plan.`;
   return `${cross}; a ${Math.round(f.fix.share * 100)} % change by ${dayText(f.fix.byMs)} keeps it below ${nitrateText(f.high, units)} until ${dayText(f.fix.untilMs)}.`;
+}
+
+/**
+ * What the forecast crosses in the days ahead, in words, the person's units and dates ("Free
+ * ammonia reaches 0.4 mg/L NH3 on 14 December, twenty times the caution line."): the page and
+ * the mails say it beside the nitrate sentence. Empty when nothing ahead crosses a caution.
+ */
+export function forecastCautions(f: Forecast | null, units: DisplayUnits): string[] {
+  if (!f) return [];
+  const { startMs, peaks, warnings } = f.ahead;
+  const zero = { value: 0, day: 0 };
+  const keyFigures = {
+    peakFreeNh3: peaks.peakFreeNh3,
+    peakNitrite: peaks.peakNitrite,
+    peakTan: zero,
+    peakNitrate: zero,
+    nitrateEnd: 0,
+    nitrateBeforeLastWaterChange: null,
+    daysAboveNitrateTarget: 0,
+    daysBelowNitrateTarget: 0,
+    cycleSeen: false,
+    cyclingFinishedDay: null,
+    plantsTrimmedG: 0,
+    lowestOxygen: zero,
+    lowestKh: zero,
+  };
+  return resultWarnings({ keyFigures, warnings, dayWords: (d) => dayText(startMs + d * DAY_MS) }, units).map(
+    (w) => w.text,
+  );
 }

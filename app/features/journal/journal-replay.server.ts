@@ -9,6 +9,8 @@ import {
   isModelError,
   plannedEvents,
   scenarioBacteriaShare,
+  type KeyFigures,
+  type ModelWarning,
   type Scenario,
   type SimulationResult,
   type TankEventInput,
@@ -131,7 +133,18 @@ export async function replayJournal(
   return { startMs, lengthDays, result, unused };
 }
 
-export type Forecast =
+/**
+ * What the forecast run crosses from today on (free ammonia, nitrite, the ammonia criteria, KH,
+ * oxygen): the toxic peaks in the days ahead and the engine's warnings dated today or later.
+ * Days count from `startMs`.
+ */
+type ForecastCautions = {
+  startMs: number;
+  peaks: Pick<KeyFigures, "peakFreeNh3" | "peakNitrite">;
+  warnings: ModelWarning[];
+};
+
+export type Forecast = (
   | { kind: "below"; horizonDays: number }
   | {
       kind: "crosses";
@@ -140,7 +153,24 @@ export type Forecast =
       /** The highest nitrate (mg N/L) before the next planned change, with no extra change. */
       peak: number;
       fix: { share: number; byMs: number; untilMs: number } | null;
-    };
+    }
+) & { ahead: ForecastCautions };
+
+/** The forecast run's cautions from `today` on (its series are six-hourly; the warnings' days are the engine's). */
+function cautionsAhead(r: SimulationResult, today: number, startMs: number): ForecastCautions {
+  const peak = (values: readonly number[]) => {
+    let best = { value: 0, day: today };
+    r.series.t.forEach((t, k) => {
+      if (t >= today && values[k] > best.value) best = { value: values[k], day: t };
+    });
+    return best;
+  };
+  return {
+    startMs,
+    peaks: { peakFreeNh3: peak(r.series.nh3), peakNitrite: peak(r.series.no2) },
+    warnings: r.warnings.filter((w) => w.day !== null && w.day >= today),
+  };
+}
 
 const FORECAST_DAYS = 60;
 
@@ -191,7 +221,8 @@ export async function forecastJournal(
     r.series.no3.filter((_v, k) => r.series.t[k] >= from && r.series.t[k] <= to);
   const base = await run([]);
   const k = base.series.t.findIndex((t, i) => t >= today && base.series.no3[i] > high);
-  if (k < 0) return { kind: "below", horizonDays: total - today };
+  const ahead = cautionsAhead(base, today, startMs);
+  if (k < 0) return { kind: "below", horizonDays: total - today, ahead };
   const crossDay = base.series.t[k];
   const fixDay = Math.max(today, Math.floor(crossDay) - 2);
   // Until the next planned change, or a week when none is planned (model choice, no source).
@@ -212,5 +243,5 @@ export async function forecastJournal(
     outcome.status === "met"
       ? { share: outcome.value / 100, byMs: startMs + fixDay * DAY_MS, untilMs: startMs + nextPlanned * DAY_MS }
       : null;
-  return { kind: "crosses", crossMs: startMs + crossDay * DAY_MS, high, peak, fix };
+  return { kind: "crosses", crossMs: startMs + crossDay * DAY_MS, high, peak, fix, ahead };
 }

@@ -9,7 +9,7 @@ import { tanks, users } from "~/db/schema";
 import { getEnv, type Env } from "~/env.server";
 import type { OutgoingMail } from "~/email.server";
 import { upcomingTasks } from "~/features/journal/calendar-feed.server";
-import { forecastSentence } from "~/features/journal/forecast-text.server";
+import { forecastCautions, forecastSentence } from "~/features/journal/forecast-text.server";
 import { forecastJournal, type Forecast } from "~/features/journal/journal-replay.server";
 import { plannedSettings } from "~/features/tanks/maintenance-plan.server";
 import { displayUnitsFor, type DisplayUnits } from "~/utils/display-units";
@@ -25,7 +25,15 @@ const dayText = (ms: number) =>
   new Date(ms).toLocaleDateString("en-GB", { weekday: "short", day: "numeric", month: "long", timeZone: "UTC" });
 
 function forecastText(f: Forecast | null, units: DisplayUnits): string {
-  return forecastSentence(f, units) ?? "No forecast yet: log what you did in the tank's journal and the model follows it.";
+  return (
+    forecastSentence(f, units) ?? "No forecast yet: log what you did in the tank's journal and the model follows it."
+  );
+}
+
+/** What the forecast crosses in the days ahead, one line each, under the forecast. */
+function cautionLines(f: Forecast | null, units: DisplayUnits): string[] {
+  const cautions = forecastCautions(f, units);
+  return cautions.length ? ["", "Where fish could be harmed in the days ahead:", ...cautions.map((c) => `- ${c}`)] : [];
 }
 
 /** Where links in mail point: APP_URL (required in production), else this machine's port. */
@@ -68,6 +76,7 @@ export async function reminderMail(row: ReminderRow, now: number): Promise<Outgo
     ...(row.mode === "due" ? dueToday.map((t) => `- ${t.title}`) : taskLines),
     "",
     `Forecast: ${forecastText(forecast, units)}`,
+    ...cautionLines(forecast, units),
     "",
     "A model is not a water test: test the water before and after, and trust the test over the forecast.",
     "When fish gasp, hide or die, test at once and change water; ask your local shop or a vet.",

@@ -48,6 +48,14 @@ export function displaySeries(s: Series, units: DisplayUnits): ChartSeries {
 export const FREE_NH3_CAUTION_MG_N = 0.02 * 0.82244;
 export const NITRITE_CAUTION_MG_N = 0.1;
 
+/** Which toxic peaks of a run (canonical key figures) cross their caution lines: the cells to flag. */
+export function toxicPeaksAboveCaution(k: Pick<KeyFigures, "peakFreeNh3" | "peakNitrite">) {
+  return {
+    peakFreeNh3: k.peakFreeNh3.value > FREE_NH3_CAUTION_MG_N,
+    peakNitrite: k.peakNitrite.value > NITRITE_CAUTION_MG_N,
+  };
+}
+
 /**
  * @param tanCriterionMgN the run's chronic ammonia criterion (US EPA 2013, docs/sources.md §2) at
  *   its pH and temperature, mg TAN-N/L; drawn as a caution line on TAN when known.

@@ -52,7 +52,12 @@ function buildPayload(run: StoredRun, scenario: Scenario, units: DisplayUnits): 
     tapNitrateLimitDisplay: DRINKING_WATER_NITRATE_MG_N * speciesFactor("nitrate", units),
     lengthDays: scenario.run.lengthDays,
     warnings: resultWarnings(
-      { keyFigures: run.keyFigures, warnings: run.findings.warnings, tapWater: scenario.tapWater },
+      {
+        keyFigures: run.keyFigures,
+        warnings: run.findings.warnings,
+        tapWater: scenario.tapWater,
+        volumeL: scenario.water.volumeL,
+      },
       units,
     ),
   };

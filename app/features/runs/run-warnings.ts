@@ -4,7 +4,7 @@
  * own warnings) and shown on the results, share and presentation pages. Client-safe.
  */
 import type { KeyFigures, ModelWarning } from "~models";
-import { speciesFactor } from "~models/units";
+import { speciesFactor, toDisplay } from "~models/units";
 import { FREE_NH3_CAUTION_MG_N, NITRITE_CAUTION_MG_N } from "~/features/runs/display-figures";
 import { formatNumber, unitLabels, type DisplayUnits } from "~/utils/display-units";
 
@@ -53,17 +53,29 @@ export function howFarAbove(ratio: number): string {
   return n <= 20 ? `${SMALL[n]} times` : `${n} times`;
 }
 
-const day = (d: number) => `day ${formatNumber(d, 3)}`;
+const modelDay = (d: number) => `day ${formatNumber(d, 3)}`;
 
 type Input = {
   keyFigures: KeyFigures;
   warnings: readonly ModelWarning[];
-  tapWater: { khDkh: number; roShare?: number };
+  /** The change water (for the soft-blend warning); left out where the blend is not in question. */
+  tapWater?: { khDkh: number; roShare?: number };
+  /** The tank's water volume (L), for the warnings about feeding per volume. */
+  volumeL?: number;
+  /** A model day in words ("day 12" unless given, e.g. a date for a journal's forecast). */
+  dayWords?: (day: number) => string;
 };
 
 /** The warnings of a run, most harmful first; an empty list when nothing crosses a caution. */
-export function resultWarnings({ keyFigures: k, warnings, tapWater }: Input, units: DisplayUnits): ResultWarning[] {
+export function resultWarnings(
+  { keyFigures: k, warnings, tapWater, volumeL, dayWords = modelDay }: Input,
+  units: DisplayUnits,
+): ResultWarning[] {
+  const day = dayWords;
   const labels = unitLabels(units);
+  const kh = (dkh: number) => `${formatNumber(toDisplay("kh", dkh, units))} ${labels.kh}`;
+  // Litres per one of the person's volume units (1 for litres).
+  const litresPerUnit = 1 / toDisplay("volume", 1, units);
   const nh3 = speciesFactor("ammonia", units);
   const no2 = speciesFactor("nitrite", units);
   const out: ResultWarning[] = [];
@@ -109,7 +121,7 @@ export function resultWarnings({ keyFigures: k, warnings, tapWater }: Input, uni
           code: w.code,
           severity: w.severity,
           figure: null,
-          text: `KH runs out${w.day === null ? "" : ` on ${day(w.day)}`} (down to ${formatNumber(w.value)} dKH): the filter bacteria stall and pH can crash. Change water or add buffer.`,
+          text: `KH runs out${w.day === null ? "" : ` on ${day(w.day)}`} (down to ${kh(w.value)}): the filter bacteria stall and pH can crash. Change water or add buffer.`,
         });
         break;
       case "lowOxygen":
@@ -117,21 +129,37 @@ export function resultWarnings({ keyFigures: k, warnings, tapWater }: Input, uni
           code: w.code,
           severity: w.severity,
           figure: null,
-          text: `Dissolved oxygen falls to ${formatNumber(w.value)} mg/L${w.day === null ? "" : ` on ${day(w.day)}`}, below the ${formatNumber(w.limit)} mg/L fish need: more surface movement or less food.`,
+          text: `Dissolved oxygen falls below the ${formatNumber(w.limit)} mg/L fish need${w.day === null ? "" : ` on ${day(w.day)}`}, down to ${formatNumber(w.value)} mg/L: more surface movement or less food.`,
+        });
+        break;
+      case "heavyFeedingForVolume":
+        out.push({
+          code: w.code,
+          severity: w.severity,
+          figure: null,
+          text: `${formatNumber(w.value * litresPerUnit)} g of food a day per ${labels.volume} of water is far beyond what aquaria are stocked for (about ${formatNumber(w.limit * litresPerUnit)} g at most): check the food per day and the water volume.`,
+        });
+        break;
+      case "feedBeyondOxygenSupply":
+        out.push({
+          code: w.code,
+          severity: w.severity,
+          figure: null,
+          text: `The food needs more oxygen than the water's surface and filter can take up (${howFarAbove(w.value)} the most they bring in): no tank${volumeL === undefined ? "" : ` of ${formatNumber(toDisplay("volume", volumeL, units))} ${labels.volume}`} could carry this feeding.`,
         });
         break;
       default:
         out.push({ code: w.code, severity: w.severity, figure: null, text: w.message });
     }
   }
-  const roShare = tapWater.roShare ?? 0;
-  const blendKh = tapWater.khDkh * (1 - roShare);
+  const roShare = tapWater?.roShare ?? 0;
+  const blendKh = (tapWater?.khDkh ?? Infinity) * (1 - roShare);
   if (roShare > 0 && blendKh < SAFE_BLEND_KH_DKH) {
     out.push({
       code: "blendBelowSafeKh",
       severity: "caution",
       figure: null,
-      text: `The change water, ${formatNumber(roShare * 100)} % RO water, has a KH of only ${formatNumber(blendKh)} dKH, below the ${SAFE_BLEND_KH_DKH} dKH that keeps pH steady: use less RO water or add buffer.`,
+      text: `The change water, ${formatNumber(roShare * 100)} % RO water, has a KH of only ${kh(blendKh)}, below the ${kh(SAFE_BLEND_KH_DKH)} that keeps pH steady: use less RO water or add buffer.`,
     });
   }
   return out;

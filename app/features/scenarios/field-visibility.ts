@@ -29,6 +29,25 @@ const RULES: readonly Rule[] = [
     applies: (v) => v === "true",
   },
   { field: /^(fishlessCycling\.)stopAfterDays$/, switch: "stopRule", applies: (v) => v === "afterDays" },
+  // Low-oxygen zones: their fields only while they are on; rock and sand for zones sized from
+  // the media, a stated capacity otherwise; the anammox capacity only with anammox on.
+  {
+    field:
+      /^(lowOxygen\.)(zoneSize|porousRockL|sandBedAreaM2|sandBedDepthCm|capacityEstimate|denitrificationCapacityMgNPerDay|anammoxEnabled|anammoxCapacityMgNPerDay)$/,
+    switch: "enabled",
+    applies: (v) => v === "true",
+  },
+  {
+    field: /^(lowOxygen\.)(porousRockL|sandBedAreaM2|sandBedDepthCm|capacityEstimate)$/,
+    switch: "zoneSize",
+    applies: (v) => v === "fromMedia",
+  },
+  {
+    field: /^(lowOxygen\.)denitrificationCapacityMgNPerDay$/,
+    switch: "zoneSize",
+    applies: (v) => v === "fromCapacity",
+  },
+  { field: /^(lowOxygen\.)anammoxCapacityMgNPerDay$/, switch: "anammoxEnabled", applies: (v) => v === "true" },
 ];
 
 /** Whether the field `name` applies, given the form's current values. Fields no rule governs always apply. */
@@ -41,5 +60,7 @@ export function fieldApplies(name: string, valueOf: ValueOf): boolean {
 
 /** Whether changing the field `name` can show or hide another field. */
 export function isSwitchField(name: string): boolean {
-  return RULES.some((rule) => name.endsWith(rule.switch) && /^(plants\.\d+\.|fishlessCycling\.)/.test(name));
+  return RULES.some(
+    (rule) => name.endsWith(rule.switch) && /^(plants\.\d+\.|fishlessCycling\.|lowOxygen\.)/.test(name),
+  );
 }

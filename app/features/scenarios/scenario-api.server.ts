@@ -74,6 +74,11 @@ export function runSummaryJson(run: StoredRun) {
     settingsHash: run.settingsHash,
     createdAt: run.createdAt,
     keyFigures: run.keyFigures,
+    // What the engine found beyond the series: the warnings (the results page's cautions), the
+    // US EPA ammonia criteria at the run's pH and temperature, the low-oxygen zones' capacity.
+    warnings: run.findings.warnings,
+    ammoniaCriteria: run.findings.ammoniaCriteria,
+    lowOxygenZones: run.findings.lowOxygenZones,
     budget: run.budget,
     events: run.events,
     stats: run.stats,

@@ -12,14 +12,25 @@ import { JOB_LIMITS, JOB_RUN_LIMITS } from "~/features/jobs/job-limits.server";
 import type { JobContext, JobSpec } from "~/features/jobs/jobs.server";
 import { contentHash } from "~/features/runs/simulation.server";
 import type { DisplayUnits } from "~/utils/display-units";
+import { fieldApplies } from "~/features/scenarios/field-visibility";
 import type { Role } from "~/db/schema";
 
 /** A setting a sweep can vary (models/nitrogen/scenario/settings.ts), canonical units. */
 export type Lever = Setting;
 
-/** Every setting of a scenario a sweep offers: plant mass first (when there are plants), then the numeric fields in form order. */
+/**
+ * Every setting of a scenario a sweep offers: plant mass first (when there are plants), then the
+ * numeric fields in form order — only those that apply to this scenario (the setup form's rules):
+ * sweeping a setting the scenario switches off (a zone's capacity with the zones off, the dose
+ * while fishless cycling is off) would draw a flat line that reads as "no effect".
+ */
 export function sweepLevers(scenario: Scenario): Lever[] {
-  return scenarioSettings(scenario);
+  const valueOf = (name: string) => {
+    let node: unknown = scenario;
+    for (const p of name.split(".")) node = (node as Record<string, unknown> | undefined)?.[p];
+    return node === undefined ? undefined : String(node);
+  };
+  return scenarioSettings(scenario).filter((l) => fieldApplies(l.id, valueOf));
 }
 
 /** The unit a lever is shown in, in the person's units. */

@@ -3,6 +3,7 @@ import type { Route } from "./+types/preview";
 import { parseScenario } from "~models";
 import { apiError, apiRoute, json, methodNotAllowed, readJson, zodIssues } from "~/http/api.server";
 import { displayKeyFigures, displaySeries } from "~/features/runs/display-figures";
+import { resultWarnings } from "~/features/runs/run-warnings";
 import { requireApiUser } from "~/permissions.server";
 import { unknownSettingKeys } from "~/features/scenarios/settings-patch.server";
 import { readStoredSettings, runEngine, withTankTargets } from "~/features/runs/simulation.server";
@@ -75,11 +76,21 @@ export const action = apiRoute(async ({ request }: Route.ActionArgs) => {
       keyFigures: displayKeyFigures(result.keyFigures, units),
       series: displaySeries(result.series, units),
       lengthDays: scenario.run.lengthDays,
+      warnings: resultWarnings(
+        {
+          keyFigures: result.keyFigures,
+          warnings: result.warnings,
+          tapWater: scenario.tapWater,
+          volumeL: scenario.water.volumeL,
+        },
+        units,
+      ),
     });
   }
   return json({
     units: "canonical",
     keyFigures: result.keyFigures,
+    warnings: result.warnings,
     budget: result.budget,
     events: result.events,
     series: result.series,

@@ -24,6 +24,7 @@ function runCsv(run: StoredRun): string {
     "nitrite_oxidisers_mg_n",
     "organic_n_water_mg_n",
     "organic_n_filter_mg_n",
+    "oxygen_mg_o2_per_l",
   ];
   const rows: CsvCell[][] = [header];
   for (let i = 0; i < s.t.length; i++) {
@@ -40,6 +41,7 @@ function runCsv(run: StoredRun): string {
       s.nob[i],
       s.organicWater[i],
       s.organicFilter[i],
+      s.o2[i],
     ]);
   }
   return toCsv(rows);

@@ -10,7 +10,8 @@ import {
   requireLesson,
   startCopy,
 } from "~/features/classes/classes.server";
-import { displayKeyFigures } from "~/features/runs/display-figures";
+import { displayKeyFigures, toxicPeaksAboveCaution } from "~/features/runs/display-figures";
+import { AboveCaution, peakCell } from "~/components/above-caution";
 import { requireUser } from "~/permissions.server";
 import { displayUnitsFor, formatNumber, unitLabels } from "~/utils/display-units";
 import { invalid, readForm, refusedForm } from "~/http/pages.server";
@@ -68,6 +69,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
             answer: row.copy.answer,
             handedInAt: row.copy.handedInAt ? row.copy.handedInAt.toISOString().slice(0, 16).replace("T", " ") : null,
             figures: row.copy.keyFigures ? displayKeyFigures(row.copy.keyFigures, units) : null,
+            above: row.copy.keyFigures ? toxicPeaksAboveCaution(row.copy.keyFigures) : null,
           }
         : null,
     })),
@@ -193,11 +195,13 @@ export default function LessonPage({ loaderData, actionData }: Route.ComponentPr
                         </th>
                         <td className="py-2 pr-3">{row.copy ? (row.copy.handedInAt ?? "started") : "not started"}</td>
                         <td className="num py-2 pr-3 text-right">{formatNumber(row.copy?.figures?.nitrateEnd)}</td>
-                        <td className="num py-2 pr-3 text-right">
+                        <td className={peakCell(row.copy?.above?.peakFreeNh3)}>
                           {formatNumber(row.copy?.figures?.peakFreeNh3.value)}
+                          <AboveCaution above={row.copy?.above?.peakFreeNh3} />
                         </td>
-                        <td className="num py-2 pr-3 text-right">
+                        <td className={peakCell(row.copy?.above?.peakNitrite)}>
                           {formatNumber(row.copy?.figures?.peakNitrite.value)}
+                          <AboveCaution above={row.copy?.above?.peakNitrite} />
                         </td>
                         <td className="num py-2 pr-3 text-right">
                           {row.copy?.figures

@@ -12,11 +12,12 @@ import {
   revokeCalendarFeed,
   upcomingTasks,
 } from "~/features/journal/calendar-feed.server";
-import { dayText, forecastSentence } from "~/features/journal/forecast-text.server";
+import { dayText, forecastCautions, forecastSentence } from "~/features/journal/forecast-text.server";
 import { forecastJournal, replayJournal } from "~/features/journal/journal-replay.server";
 import { addEntries, deleteEntry, listJournal, readEntry } from "~/features/journal/journal.server";
 import { QuotaExceeded } from "~/quotas.server";
 import { allReadings } from "~/features/readings/readings.server";
+import { resultWarnings } from "~/features/runs/run-warnings";
 import { readStoredSettings } from "~/features/runs/simulation.server";
 import { plannedSettings } from "~/features/tanks/maintenance-plan.server";
 import { listScenarios, type TankRow } from "~/features/tanks/tanks.server";
@@ -54,6 +55,7 @@ export async function journalPageData(
   const chosen = scenarios.find((s) => String(s.id) === scenarioParam) ?? scenarios[0] ?? null;
   let replay = null;
   let forecast: string | null = null;
+  let cautionsAhead: string[] = [];
   let problem: string | null = null;
   // The tank's maintenance plan (if edited) replaces the scenario's timetable for the forecast and the list.
   const stored = chosen ? readStoredSettings(chosen.settings) : null;
@@ -76,8 +78,22 @@ export async function journalPageData(
           unused: r.unused,
           budget: r.result.budget,
           plantNames: settings.plants.map((g) => g.name),
+          // What the replay crossed (free ammonia, nitrite, the ammonia criteria, KH, oxygen), in
+          // words and the person's units: a logged dose or feeding change can harm fish between
+          // two nitrate readings, and the curve here shows only nitrate.
+          warnings: resultWarnings(
+            {
+              keyFigures: r.result.keyFigures,
+              warnings: r.result.warnings,
+              tapWater: settings.tapWater,
+              volumeL: settings.water.volumeL,
+            },
+            units,
+          ),
         };
-        forecast = forecastSentence(await forecastJournal(settings, entries, now, tank.ownerId), units);
+        const f = await forecastJournal(settings, entries, now, tank.ownerId);
+        forecast = forecastSentence(f, units);
+        cautionsAhead = forecastCautions(f, units);
       }
     } catch (error) {
       problem = runProblem(error);
@@ -101,6 +117,7 @@ export async function journalPageData(
       })),
     replay,
     forecast,
+    cautionsAhead,
     problem,
     upcoming: settings
       ? upcomingTasks(settings, entries, now, 21).map((t) => ({ title: t.title, when: dayText(t.atMs) }))

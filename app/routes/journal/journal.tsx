@@ -4,6 +4,8 @@ import type { Route } from "./+types/journal";
 import { Breadcrumbs } from "~/components/breadcrumbs";
 import { FormMessage, SelectField, TextField } from "~/components/ui/field";
 import { replayPaths } from "~/features/journal/journal-chart";
+import { RunWarnings } from "~/components/run-warnings";
+import { JournalForecast } from "~/components/journal-forecast";
 import {
   ENTRY_KINDS,
   fieldLabel,
@@ -135,7 +137,8 @@ function EntryForm({ answer, units }: { answer: JournalAnswer | undefined; units
 }
 
 export default function JournalPage({ loaderData, actionData }: Route.ComponentProps) {
-  const { tank, scenarios, scenarioId, entries, replay, forecast, problem, upcoming, calendarOn } = loaderData;
+  const { tank, scenarios, scenarioId, entries, replay, forecast, cautionsAhead, problem, upcoming, calendarOn } =
+    loaderData;
   const { entryCount, entryPage, entryPages } = loaderData;
   const pageHref = (page: number) => {
     const q = new URLSearchParams();
@@ -189,6 +192,14 @@ export default function JournalPage({ loaderData, actionData }: Route.ComponentP
           </Form>
         ) : null}
         {problem ? <FormMessage>{problem}</FormMessage> : null}
+        {replay && replay.warnings.length > 0 ? (
+          <div className="space-y-1" data-replay-warnings>
+            <p className="text-sm text-stone-600">
+              Days count from the first day replayed, {formatDate(replay.startMs)}.
+            </p>
+            <RunWarnings warnings={replay.warnings} />
+          </div>
+        ) : null}
         {replay ? (
           <ReplayChart replay={replay} />
         ) : (
@@ -198,16 +209,7 @@ export default function JournalPage({ loaderData, actionData }: Route.ComponentP
               : "Add a scenario describing this tank first."}
           </p>
         )}
-        {forecast ? (
-          <div className="rounded border border-stone-300 p-3" data-testid="forecast">
-            <h3 className="font-semibold">Forecast</h3>
-            <p>{forecast}</p>
-            <p className="text-sm text-stone-600">
-              A forecast is a model, not a water test: test your water before and after acting on it, and ask an
-              experienced keeper or a vet if fish show stress.
-            </p>
-          </div>
-        ) : null}
+        {forecast ? <JournalForecast forecast={forecast} cautionsAhead={cautionsAhead} /> : null}
         {replay ? (
           <details>
             <summary className="cursor-pointer text-sm">Nitrogen budget, as it happened</summary>

@@ -204,7 +204,12 @@ export default function ResultsPage({ loaderData, actionData }: Route.ComponentP
                 units={whatIf.units}
                 onPreview={onPreview}
               />
-              <WhatIfSummary saved={results.keyFigures} preview={preview?.keyFigures ?? null} labels={results.labels} />
+              <WhatIfSummary
+                saved={results.keyFigures}
+                preview={preview?.keyFigures ?? null}
+                labels={results.labels}
+                warnings={preview ? preview.warnings : results.warnings}
+              />
             </div>
           ) : null}
           <section aria-labelledby="budget-title" className="card space-y-4">

@@ -3,6 +3,7 @@ import type { Route } from "./+types/compare";
 import { CompareChart } from "~/components/charts/compare-chart";
 import type { SeriesKey } from "~/utils/chart-data";
 import { CautionsPanel } from "~/components/cautions";
+import { CompareWarnings } from "~/components/compare-warnings";
 import { keyFigureRows } from "~/components/key-figures";
 import { FormMessage } from "~/components/ui/field";
 import { requireUser } from "~/permissions.server";
@@ -145,6 +146,7 @@ export default function ComparePage({ loaderData }: Route.ComponentProps) {
             guides={first.guides}
             downloadName={`compare-${tank.name}`}
           />
+          <CompareWarnings runs={runs} />
           <section aria-labelledby="figures-title" className="space-y-2">
             <h2 id="figures-title" className="text-lg">
               Key figures
@@ -177,13 +179,19 @@ export default function ComparePage({ loaderData }: Route.ComponentProps) {
                         const cells = keyFigureRows(r.keyFigures, r.labels);
                         const numeric = (text: string) =>
                           /^-?[\d.,]+$/.test(text) ? Number(text.replace(/,/g, "")) : null;
+                        const warned = row.id !== undefined && r.warnings.some((w) => w.figure === row.id);
                         return (
-                          <td key={r.id} className="num py-2 pr-3">
+                          <td
+                            key={r.id}
+                            className={`num py-2 pr-3 ${warned ? "bg-red-50 font-semibold text-red-800" : ""}`}
+                            data-flagged={warned ? "" : undefined}
+                          >
                             <Diff
                               value={numeric(cells[rowIndex].value)}
                               baseline={numeric(keyFigureRows(first.keyFigures, first.labels)[rowIndex].value)}
                               text={cells[rowIndex].value}
                             />
+                            {warned ? <span className="sr-only"> (above the caution line)</span> : null}
                           </td>
                         );
                       })}

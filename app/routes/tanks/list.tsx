@@ -5,7 +5,8 @@ import type { Route } from "./+types/list";
 import { FormMessage, TextField } from "~/components/ui/field";
 import { getDb } from "~/db/client.server";
 import { tanks } from "~/db/schema";
-import { displayKeyFigures } from "~/features/runs/display-figures";
+import { displayKeyFigures, toxicPeaksAboveCaution } from "~/features/runs/display-figures";
+import { AboveCaution } from "~/components/above-caution";
 import { requireUser } from "~/permissions.server";
 import { checkNewTank } from "~/quotas.server";
 import { displayUnitsFor, formatNumber, unitLabels } from "~/utils/display-units";
@@ -33,7 +34,11 @@ export async function loader({ request }: Route.LoaderArgs) {
       return {
         ...t,
         latest: latest
-          ? { scenarioName: latest.scenarioName, figures: displayKeyFigures(latest.keyFigures, units) }
+          ? {
+              scenarioName: latest.scenarioName,
+              figures: displayKeyFigures(latest.keyFigures, units),
+              above: toxicPeaksAboveCaution(latest.keyFigures),
+            }
           : null,
       };
     }),
@@ -82,18 +87,27 @@ export default function TanksPage({ loaderData, actionData }: Route.ComponentPro
               {t.notes ? <p className="text-sm text-stone-600">{t.notes}</p> : null}
               {t.latest ? (
                 <>
-                  <dl className="grid grid-cols-3 gap-2 text-sm">
+                  <dl className="grid grid-cols-2 gap-2 text-sm sm:grid-cols-4">
                     <div>
                       <dt className="text-xs text-stone-600">Nitrate at the end</dt>
                       <dd className="figure">
                         {formatNumber(t.latest.figures.nitrateEnd)} <span className="text-xs">{labels.nitrate}</span>
                       </dd>
                     </div>
-                    <div>
+                    <div className={t.latest.above.peakFreeNh3 ? "rounded bg-red-50 text-red-900" : undefined}>
                       <dt className="text-xs text-stone-600">Peak free ammonia</dt>
                       <dd className="figure">
                         {formatNumber(t.latest.figures.peakFreeNh3.value)}{" "}
                         <span className="text-xs">{labels.ammonia}</span>
+                        <AboveCaution above={t.latest.above.peakFreeNh3} />
+                      </dd>
+                    </div>
+                    <div className={t.latest.above.peakNitrite ? "rounded bg-red-50 text-red-900" : undefined}>
+                      <dt className="text-xs text-stone-600">Peak nitrite</dt>
+                      <dd className="figure">
+                        {formatNumber(t.latest.figures.peakNitrite.value)}{" "}
+                        <span className="text-xs">{labels.nitrite}</span>
+                        <AboveCaution above={t.latest.above.peakNitrite} />
                       </dd>
                     </div>
                     <div>
