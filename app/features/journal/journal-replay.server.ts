@@ -7,13 +7,13 @@
  */
 import {
   isModelError,
-  plannedEvents,
   scenarioBacteriaShare,
   type Scenario,
   type SimulationResult,
   type TankEventInput,
 } from "~models";
 import type { JournalEntry } from "~/features/journal/journal.server";
+import { plannedAfterJournal } from "~/features/journal/plan-resume.server";
 import { simulateOnPool } from "~/features/journal/journal-runs.server";
 import type { SearchLever } from "~/features/sweeps/search-levers.server";
 import { findLeastChange, type Evaluation } from "~/features/sweeps/target-search.server";
@@ -160,8 +160,8 @@ const EXTRA_CHANGE_LEVER: SearchLever = {
 };
 
 /**
- * From today forward under the planned schedule (the scenario's timetable, resumed from the last
- * logged water change): when nitrate crosses the upper target, and — found by the target
+ * From today forward under the planned schedule (the scenario's timetable, each kind resumed at
+ * its own last logged entry, as the calendar shows it: plan-resume.server.ts): when nitrate crosses the upper target, and — found by the target
  * finder's search (least change that meets the goal) — the smallest extra water change two days
  * before that keeps it under until the next planned change (or for a week).
  */
@@ -180,9 +180,8 @@ export async function forecastJournal(
     entries.filter((e) => e.doneAt >= startMs && e.doneAt <= now),
     startMs,
   );
-  const lastChange = Math.max(-Infinity, ...events.filter((e) => e.kind === "waterChange").map((e) => e.day));
-  const resumeFrom = Number.isFinite(lastChange) ? lastChange : today;
-  const planned = plannedEvents(s, total, resumeFrom).filter((e) => e.day >= today);
+  // The plan as the calendar and the reminders show it: each kind resumed at its own last entry.
+  const planned = plannedAfterJournal(s, entries, startMs, now, total, today).filter((e) => e.day >= today);
   const scenario: Scenario = { ...s, run: { ...s.run, lengthDays: total, outputIntervalDays: 0.25 } };
   // Each run of the forecast and its search on the engine pool, as the page's other runs.
   const run = (extra: TankEventInput[]) => simulateOnPool(scenario, [...events, ...planned, ...extra], ownerId);
