@@ -11,7 +11,7 @@ import type { OutgoingMail } from "~/email.server";
 import { upcomingTasks } from "~/features/journal/calendar-feed.server";
 import { forecastSentence } from "~/features/journal/forecast-text.server";
 import { forecastJournal, type Forecast } from "~/features/journal/journal-replay.server";
-import { plannedSettings } from "~/features/tanks/maintenance-plan.server";
+import { tankModelSettings } from "~/features/tanks/maintenance-plan.server";
 import { displayUnitsFor, type DisplayUnits } from "~/utils/display-units";
 import { listJournal } from "~/features/journal/journal.server";
 import type { ReminderRow } from "~/features/reminders/reminder-schedule.server";
@@ -40,8 +40,9 @@ export async function reminderMail(row: ReminderRow, now: number): Promise<Outgo
   if (!tank || !user || tank.ownerId !== user.id) return null;
   const scenario = listScenarios(tank.id)[0];
   const stored = scenario ? readStoredSettings(scenario.settings) : null;
-  // The tank's own plan where the keeper edited one, as the tank page and calendar show it.
-  const settings = stored ? plannedSettings(tank.id, stored) : null;
+  // The tank's own plan where the keeper edited one, as the tank page and calendar show it, and
+  // the tank's nitrate band as the forecast's target, as the journal page says it.
+  const settings = stored ? tankModelSettings(tank, stored) : null;
   const units = displayUnitsFor(user);
   const entries = listJournal(tank.id);
   const tasks = settings ? upcomingTasks(settings, entries, now, DIGEST_DAYS) : [];

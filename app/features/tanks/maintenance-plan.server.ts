@@ -10,7 +10,7 @@ import { maintenancePlans } from "~/db/schema-care";
 import type { EntryInput } from "~/features/journal/journal-entries";
 import { addEntries, listJournal, readEntry } from "~/features/journal/journal.server";
 import { upcomingTasks } from "~/features/journal/calendar-feed.server";
-import { readStoredSettings } from "~/features/runs/simulation.server";
+import { readStoredSettings, withTankTargets } from "~/features/runs/simulation.server";
 import type { MaintenancePlan } from "~/features/tanks/maintenance-plan";
 import { listScenarios, type ScenarioRow } from "~/features/tanks/tanks.server";
 import { toDateTimeInput } from "~/utils/dates";
@@ -55,6 +55,18 @@ function storedPlan(tankId: number) {
 export function plannedSettings(tankId: number, s: Scenario): Scenario {
   const row = storedPlan(tankId);
   return row ? applyPlan(s, row.plan as MaintenancePlan) : s;
+}
+
+/**
+ * The tank's model for its journal, forecast and reminders: the scenario under the tank's plan,
+ * with the tank's nitrate band (a tank setting that wins over the band saved in the scenario,
+ * as everywhere else), so a band changed on the tank page moves the forecast's target too.
+ */
+export function tankModelSettings(
+  tank: { id: number; nitrateTargetLow: number; nitrateTargetHigh: number },
+  s: Scenario,
+): Scenario {
+  return withTankTargets(plannedSettings(tank.id, s), tank);
 }
 
 export type TankPlan = {

@@ -17,7 +17,7 @@ import { forecastJournal, replayJournal } from "~/features/journal/journal-repla
 import { addEntries, deleteEntry, JournalFull, listJournal, readEntry } from "~/features/journal/journal.server";
 import { allReadings } from "~/features/readings/readings.server";
 import { readStoredSettings } from "~/features/runs/simulation.server";
-import { plannedSettings } from "~/features/tanks/maintenance-plan.server";
+import { tankModelSettings } from "~/features/tanks/maintenance-plan.server";
 import { listScenarios, type TankRow } from "~/features/tanks/tanks.server";
 import { readUpload, UploadError } from "~/http/uploads.server";
 import { runProblem } from "~/http/pages.server";
@@ -39,9 +39,10 @@ export async function journalPageData(
   let replay = null;
   let forecast: string | null = null;
   let problem: string | null = null;
-  // The tank's maintenance plan (if edited) replaces the scenario's timetable for the forecast and the list.
+  // The tank's maintenance plan (if edited) replaces the scenario's timetable for the forecast and
+  // the list; the tank's nitrate band is the forecast's target.
   const stored = chosen ? readStoredSettings(chosen.settings) : null;
-  const settings = stored ? plannedSettings(tank.id, stored) : null;
+  const settings = stored ? tankModelSettings(tank, stored) : null;
   if (settings) {
     try {
       const r = await replayJournal(settings, entries, now, tank.ownerId);
