@@ -77,11 +77,21 @@ export type TankPlan = {
   edited: boolean;
 };
 
+/**
+ * The scenario that describes the tank for its plan, journal and reminders: the one the stored
+ * plan was made over, else the tank's first; null without scenarios. The tank page, the journal
+ * page (by default) and the reminder mail all start from it, so they list the same tasks.
+ */
+export function planScenario(tankId: number): ScenarioRow | null {
+  const row = storedPlan(tankId);
+  const list = listScenarios(tankId);
+  return list.find((x) => x.id === row?.scenarioId) ?? list[0] ?? null;
+}
+
 /** The tank's plan: the stored one over its scenario, else its first scenario's timetable; null without scenarios. */
 export function tankPlan(tankId: number): TankPlan | null {
   const row = storedPlan(tankId);
-  const list = listScenarios(tankId);
-  const scenario = list.find((x) => x.id === row?.scenarioId) ?? list[0];
+  const scenario = planScenario(tankId);
   const base = scenario ? readStoredSettings(scenario.settings) : null;
   if (!scenario || !base) return null;
   return row

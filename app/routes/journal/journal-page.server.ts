@@ -17,7 +17,7 @@ import { forecastJournal, replayJournal } from "~/features/journal/journal-repla
 import { addEntries, deleteEntry, JournalFull, listJournal, readEntry } from "~/features/journal/journal.server";
 import { allReadings } from "~/features/readings/readings.server";
 import { readStoredSettings } from "~/features/runs/simulation.server";
-import { tankModelSettings } from "~/features/tanks/maintenance-plan.server";
+import { planScenario, tankModelSettings } from "~/features/tanks/maintenance-plan.server";
 import { listScenarios, type TankRow } from "~/features/tanks/tanks.server";
 import { readUpload, UploadError } from "~/http/uploads.server";
 import { runProblem } from "~/http/pages.server";
@@ -35,7 +35,8 @@ export async function journalPageData(
   const perMgN = fromCanonical("nitrate", 1, units.nitrate);
   const entries = listJournal(tank.id);
   const scenarios = listScenarios(tank.id);
-  const chosen = scenarios.find((s) => String(s.id) === scenarioParam) ?? scenarios[0] ?? null;
+  // By default the scenario the tank's plan is over, as the tank page and the reminders use.
+  const chosen = scenarios.find((s) => String(s.id) === scenarioParam) ?? planScenario(tank.id);
   let replay = null;
   let forecast: string | null = null;
   let problem: string | null = null;
