@@ -21,7 +21,7 @@ const WHY = {
   correlated: (m: CalibrationJson["multipliers"][number]) =>
     `it trades off against ${m.correlatedWith?.label.toLowerCase() ?? "another multiplier"} (correlation ${formatNumber(m.correlatedWith?.correlation ?? 0, 2)}): the readings fix their combination, not each one`,
   wide: () => "its 95 % range is too wide to act on",
-  poorFit: () => "the model does not follow your readings, so no range drawn from them can be trusted",
+  poorFit: () => "the model does not follow your readings (see above), so no range drawn from them can be trusted",
   determined: () => "",
 } as const;
 

@@ -44,7 +44,7 @@ type FittedMultiplier = {
   /** Largest change a doubling makes to a measured value, as a share of its species' scale. */
   effect: number | null;
   verdict: Verdict | null;
-  /** Which reading would help; null when determined or not fitted. */
+  /** Which reading would help; null when determined, not fitted, or no good fit (then see qualityText). */
   suggestion: string | null;
 };
 
@@ -285,7 +285,7 @@ export async function calibrateMultipliers(opts: CalibrateOptions): Promise<Cali
       suggestion: verdict.determined
         ? null
         : !quality.good
-          ? qualityText(quality)
+          ? null // the result's qualityText says what to check, once for all
           : suggestion(
               key,
               sens[j],
