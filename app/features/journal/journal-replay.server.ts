@@ -181,7 +181,10 @@ export async function forecastJournal(
     startMs,
   );
   // The plan as the calendar and the reminders show it: each kind resumed at its own last entry.
-  const planned = plannedAfterJournal(s, entries, startMs, now, total, today).filter((e) => e.day >= today);
+  // From the start of today, as the calendar counts: a task due today is in the forecast, and a
+  // kind never logged starts an interval after today (not after tomorrow).
+  const todayStart = (startOfDay(now) - startMs) / DAY_MS;
+  const planned = plannedAfterJournal(s, entries, startMs, now, total, todayStart).filter((e) => e.day >= todayStart);
   const scenario: Scenario = { ...s, run: { ...s.run, lengthDays: total, outputIntervalDays: 0.25 } };
   // Each run of the forecast and its search on the engine pool, as the page's other runs.
   const run = (extra: TankEventInput[]) => simulateOnPool(scenario, [...events, ...planned, ...extra], ownerId);
