@@ -53,7 +53,10 @@ describe("calibration says when no multiplier explains the readings", () => {
     // The stretch named is the one after the jump (the first reading after day 45 is day 46.35).
     if (!r.quality.good && r.quality.reason === "systematic") expect(r.quality.from).toBeGreaterThan(45);
     expect(determined(r)).toEqual([]);
-    expect(r.multipliers.find((m) => m.key === "feedLoad")!.verdict!.reason).toBe("poorFit");
+    const feed = r.multipliers.find((m) => m.key === "feedLoad")!;
+    expect(feed.verdict!.reason).toBe("poorFit");
+    // No range narrower than "anything the model allows" is claimed for it.
+    expect([feed.low95, feed.high95, feed.lowOpen, feed.highOpen]).toEqual([0.1, 10, true, true]);
     expect(r.qualityText).toMatch(/No good fit.*nitrate.*above/);
   }, 60_000);
 

@@ -275,10 +275,10 @@ export async function calibrateMultipliers(opts: CalibrateOptions): Promise<Cali
       value: fittedValue,
       start: value(start[j]),
       fitted: true,
-      low95: value(r.low),
-      high95: value(r.high),
-      lowOpen: r.lowOpen,
-      highOpen: r.highOpen,
+      // With no good fit the likelihood's curvature says nothing about the truth: the range is the whole box, open.
+      ...(quality.good
+        ? { low95: value(r.low), high95: value(r.high), lowOpen: r.lowOpen, highOpen: r.highOpen }
+        : { low95: MULTIPLIER_BOUNDS.min, high95: MULTIPLIER_BOUNDS.max, lowOpen: true, highOpen: true }),
       atBound: best.fit.atBound[j],
       effect,
       verdict,
