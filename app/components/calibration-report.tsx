@@ -21,6 +21,7 @@ const WHY = {
   correlated: (m: CalibrationJson["multipliers"][number]) =>
     `it trades off against ${m.correlatedWith?.label.toLowerCase() ?? "another multiplier"} (correlation ${formatNumber(m.correlatedWith?.correlation ?? 0, 2)}): the readings fix their combination, not each one`,
   wide: () => "its 95 % range is too wide to act on",
+  poorFit: () => "the model does not follow your readings (see above), so no range drawn from them can be trusted",
   determined: () => "",
 } as const;
 
@@ -91,6 +92,11 @@ export function CalibrationReport({
           the values below are the best it found.
         </FormMessage>
       ) : null}
+      {result.fitQuality && !result.fitQuality.good ? (
+        <FormMessage tone="error">
+          <span data-fit-quality="poor">{result.fitQuality.text}</span>
+        </FormMessage>
+      ) : null}
       <Verdicts result={result} />
       <div className="relative overflow-x-auto">
         <table className="w-full text-sm">
@@ -129,7 +135,9 @@ export function CalibrationReport({
                 <td className="num py-1 pr-3 text-right">
                   {!m.fitted || m.low95 === null
                     ? ""
-                    : `${m.lowOpen ? "≤ " : ""}${formatNumber(m.low95)}–${formatNumber(m.high95)}${m.highOpen ? " or more" : ""}`}
+                    : m.reason === "poorFit"
+                      ? "no good fit"
+                      : `${m.lowOpen ? "≤ " : ""}${formatNumber(m.low95)}–${formatNumber(m.high95)}${m.highOpen ? " or more" : ""}`}
                 </td>
                 <td
                   className="py-1 text-left"

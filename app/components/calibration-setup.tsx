@@ -19,6 +19,7 @@ const REASON_TEXT = {
   noEffect: "changing it barely moves anything you measured",
   correlated: "it pulls your readings the same way as another multiplier",
   wide: "its likely range would stay wide",
+  poorFit: "the model does not follow these readings",
   determined: "",
 } as const;
 

@@ -58,6 +58,11 @@ export type CalibrationJson = {
   evaluations: number;
   localFits: number;
   converged: boolean;
+  /**
+   * Whether the fitted model follows the readings at all; when not, no multiplier is called
+   * determined and `text` says why and what to check (older results lack it).
+   */
+  fitQuality?: { good: boolean; reason: "scatter" | "systematic" | null; text: string | null };
 };
 
 export type CalibrationAssessment = {

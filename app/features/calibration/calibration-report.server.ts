@@ -115,5 +115,10 @@ export function calibrationJson(
     evaluations: r.evaluations,
     localFits: r.localFits,
     converged: r.converged,
+    fitQuality: {
+      good: r.quality.good,
+      reason: r.quality.good ? null : r.quality.reason,
+      text: r.qualityText,
+    },
   };
 }

@@ -6,7 +6,8 @@
  */
 import { and, eq, isNull } from "drizzle-orm";
 import ical from "ical-generator";
-import { plannedEvents, type Scenario } from "~models";
+import type { Scenario } from "~models";
+import { plannedAfterJournal } from "~/features/journal/plan-resume.server";
 import { getDb } from "~/db/client.server";
 import { scenarios, tanks } from "~/db/schema";
 import { calendarFeeds } from "~/db/schema-care";
@@ -66,23 +67,9 @@ const TASK_TITLES: Record<string, string> = {
  */
 export function upcomingTasks(s: Scenario, entries: readonly JournalEntry[], now: number, days = CALENDAR_DAYS) {
   const today = startOfDay(now);
-  const last = (match: (e: JournalEntry) => boolean) => entries.filter(match).at(-1)?.doneAt;
-  const fromDay = (ms: number | undefined) => (ms === undefined ? 0 : (startOfDay(ms) - today) / DAY_MS);
-  const byKind = (kind: string, from: number) =>
-    plannedEvents(s, days, from).filter((e) => e.kind === kind && e.day >= 0 && e.day < days);
-  const trims = s.plants.flatMap((g) => {
-    const lastTrim = last(
-      (e) =>
-        e.kind === "plants_trimmed" &&
-        [g.id, g.name].some((n) => n.toLowerCase() === (e.details.plantGroup ?? "").trim().toLowerCase()),
-    );
-    return byKind("trim", fromDay(lastTrim)).filter((e) => e.kind === "trim" && e.groupId === g.id);
-  });
-  const tasks = [
-    ...byKind("waterChange", fromDay(last((e) => e.kind === "water_change"))),
-    ...byKind("filterCleaning", fromDay(last((e) => e.kind === "filter_cleaned"))),
-    ...trims,
-  ].map((e) => {
+  // Planned doses (fishless cycling) are not calendar tasks.
+  const planned = plannedAfterJournal(s, entries, today, now, days, 0).filter((e) => e.kind !== "dose");
+  const tasks = planned.map((e) => {
     const group = e.kind === "trim" ? s.plants.find((g) => g.id === e.groupId) : undefined;
     return {
       kind: e.kind,

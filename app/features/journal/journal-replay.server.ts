@@ -7,7 +7,6 @@
  */
 import {
   isModelError,
-  plannedEvents,
   scenarioBacteriaShare,
   type KeyFigures,
   type ModelWarning,
@@ -16,6 +15,7 @@ import {
   type TankEventInput,
 } from "~models";
 import type { JournalEntry } from "~/features/journal/journal.server";
+import { plannedAfterJournal } from "~/features/journal/plan-resume.server";
 import { simulateOnPool } from "~/features/journal/journal-runs.server";
 import type { SearchLever } from "~/features/sweeps/search-levers.server";
 import { findLeastChange, type Evaluation } from "~/features/sweeps/target-search.server";
@@ -190,8 +190,8 @@ const EXTRA_CHANGE_LEVER: SearchLever = {
 };
 
 /**
- * From today forward under the planned schedule (the scenario's timetable, resumed from the last
- * logged water change): when nitrate crosses the upper target, and — found by the target
+ * From today forward under the planned schedule (the scenario's timetable, each kind resumed at
+ * its own last logged entry, as the calendar shows it: plan-resume.server.ts): when nitrate crosses the upper target, and — found by the target
  * finder's search (least change that meets the goal) — the smallest extra water change two days
  * before that keeps it under until the next planned change (or for a week).
  */
@@ -210,9 +210,11 @@ export async function forecastJournal(
     entries.filter((e) => e.doneAt >= startMs && e.doneAt <= now),
     startMs,
   );
-  const lastChange = Math.max(-Infinity, ...events.filter((e) => e.kind === "waterChange").map((e) => e.day));
-  const resumeFrom = Number.isFinite(lastChange) ? lastChange : today;
-  const planned = plannedEvents(s, total, resumeFrom).filter((e) => e.day >= today);
+  // The plan as the calendar and the reminders show it: each kind resumed at its own last entry.
+  // From the start of today, as the calendar counts: a task due today is in the forecast, and a
+  // kind never logged starts an interval after today (not after tomorrow).
+  const todayStart = (startOfDay(now) - startMs) / DAY_MS;
+  const planned = plannedAfterJournal(s, entries, startMs, now, total, todayStart).filter((e) => e.day >= todayStart);
   const scenario: Scenario = { ...s, run: { ...s.run, lengthDays: total, outputIntervalDays: 0.25 } };
   // Each run of the forecast and its search on the engine pool, as the page's other runs.
   const run = (extra: TankEventInput[]) => simulateOnPool(scenario, [...events, ...planned, ...extra], ownerId);

@@ -11,13 +11,12 @@ import type { OutgoingMail } from "~/email.server";
 import { upcomingTasks } from "~/features/journal/calendar-feed.server";
 import { forecastCautions, forecastSentence } from "~/features/journal/forecast-text.server";
 import { forecastJournal, type Forecast } from "~/features/journal/journal-replay.server";
-import { plannedSettings } from "~/features/tanks/maintenance-plan.server";
+import { planScenario, tankModelSettings } from "~/features/tanks/maintenance-plan.server";
 import { displayUnitsFor, type DisplayUnits } from "~/utils/display-units";
 import { listJournal } from "~/features/journal/journal.server";
 import type { ReminderRow } from "~/features/reminders/reminder-schedule.server";
 import { unsubscribeToken } from "~/features/reminders/unsubscribe-token.server";
 import { readStoredSettings } from "~/features/runs/simulation.server";
-import { listScenarios } from "~/features/tanks/tanks.server";
 import { DAY_MS, startOfDay } from "~/utils/dates";
 
 const DIGEST_DAYS = 14;
@@ -46,10 +45,12 @@ export async function reminderMail(row: ReminderRow, now: number): Promise<Outgo
   const tank = db.select().from(tanks).where(eq(tanks.id, row.tankId)).get();
   const user = db.select().from(users).where(eq(users.id, row.userId)).get();
   if (!tank || !user || tank.ownerId !== user.id) return null;
-  const scenario = listScenarios(tank.id)[0];
+  // The scenario the tank's plan is over, as the tank page's upcoming list uses.
+  const scenario = planScenario(tank.id);
   const stored = scenario ? readStoredSettings(scenario.settings) : null;
-  // The tank's own plan where the keeper edited one, as the tank page and calendar show it.
-  const settings = stored ? plannedSettings(tank.id, stored) : null;
+  // The tank's own plan where the keeper edited one, as the tank page and calendar show it, and
+  // the tank's nitrate band as the forecast's target, as the journal page says it.
+  const settings = stored ? tankModelSettings(tank, stored) : null;
   const units = displayUnitsFor(user);
   const entries = listJournal(tank.id);
   const tasks = settings ? upcomingTasks(settings, entries, now, DIGEST_DAYS) : [];

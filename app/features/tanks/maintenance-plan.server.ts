@@ -10,7 +10,7 @@ import { maintenancePlans } from "~/db/schema-care";
 import type { EntryInput } from "~/features/journal/journal-entries";
 import { addEntries, listJournal, readEntry } from "~/features/journal/journal.server";
 import { upcomingTasks } from "~/features/journal/calendar-feed.server";
-import { readStoredSettings } from "~/features/runs/simulation.server";
+import { readStoredSettings, withTankTargets } from "~/features/runs/simulation.server";
 import type { MaintenancePlan } from "~/features/tanks/maintenance-plan";
 import { listScenarios, type ScenarioRow } from "~/features/tanks/tanks.server";
 import { toDateTimeInput } from "~/utils/dates";
@@ -57,6 +57,18 @@ export function plannedSettings(tankId: number, s: Scenario): Scenario {
   return row ? applyPlan(s, row.plan as MaintenancePlan) : s;
 }
 
+/**
+ * The tank's model for its journal, forecast and reminders: the scenario under the tank's plan,
+ * with the tank's nitrate band (a tank setting that wins over the band saved in the scenario,
+ * as everywhere else), so a band changed on the tank page moves the forecast's target too.
+ */
+export function tankModelSettings(
+  tank: { id: number; nitrateTargetLow: number; nitrateTargetHigh: number },
+  s: Scenario,
+): Scenario {
+  return withTankTargets(plannedSettings(tank.id, s), tank);
+}
+
 export type TankPlan = {
   scenario: ScenarioRow;
   /** The scenario's own settings (for defaults and group names). */
@@ -65,11 +77,21 @@ export type TankPlan = {
   edited: boolean;
 };
 
+/**
+ * The scenario that describes the tank for its plan, journal and reminders: the one the stored
+ * plan was made over, else the tank's first; null without scenarios. The tank page, the journal
+ * page (by default) and the reminder mail all start from it, so they list the same tasks.
+ */
+export function planScenario(tankId: number): ScenarioRow | null {
+  const row = storedPlan(tankId);
+  const list = listScenarios(tankId);
+  return list.find((x) => x.id === row?.scenarioId) ?? list[0] ?? null;
+}
+
 /** The tank's plan: the stored one over its scenario, else its first scenario's timetable; null without scenarios. */
 export function tankPlan(tankId: number): TankPlan | null {
   const row = storedPlan(tankId);
-  const list = listScenarios(tankId);
-  const scenario = list.find((x) => x.id === row?.scenarioId) ?? list[0];
+  const scenario = planScenario(tankId);
   const base = scenario ? readStoredSettings(scenario.settings) : null;
   if (!scenario || !base) return null;
   return row

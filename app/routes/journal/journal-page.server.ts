@@ -19,7 +19,7 @@ import { QuotaExceeded } from "~/quotas.server";
 import { allReadings } from "~/features/readings/readings.server";
 import { resultWarnings } from "~/features/runs/run-warnings";
 import { readStoredSettings } from "~/features/runs/simulation.server";
-import { plannedSettings } from "~/features/tanks/maintenance-plan.server";
+import { planScenario, tankModelSettings } from "~/features/tanks/maintenance-plan.server";
 import { listScenarios, type TankRow } from "~/features/tanks/tanks.server";
 import { readUpload, UploadError } from "~/http/uploads.server";
 import { takeUploadTurn, UploadRefused } from "~/http/upload-turns.server";
@@ -52,14 +52,16 @@ export async function journalPageData(
   const perMgN = fromCanonical("nitrate", 1, units.nitrate);
   const entries = listJournal(tank.id);
   const scenarios = listScenarios(tank.id);
-  const chosen = scenarios.find((s) => String(s.id) === scenarioParam) ?? scenarios[0] ?? null;
+  // By default the scenario the tank's plan is over, as the tank page and the reminders use.
+  const chosen = scenarios.find((s) => String(s.id) === scenarioParam) ?? planScenario(tank.id);
   let replay = null;
   let forecast: string | null = null;
   let cautionsAhead: string[] = [];
   let problem: string | null = null;
-  // The tank's maintenance plan (if edited) replaces the scenario's timetable for the forecast and the list.
+  // The tank's maintenance plan (if edited) replaces the scenario's timetable for the forecast and
+  // the list; the tank's nitrate band is the forecast's target.
   const stored = chosen ? readStoredSettings(chosen.settings) : null;
-  const settings = stored ? plannedSettings(tank.id, stored) : null;
+  const settings = stored ? tankModelSettings(tank, stored) : null;
   if (settings) {
     try {
       const r = await replayJournal(settings, entries, now, tank.ownerId);

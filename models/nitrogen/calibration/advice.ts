@@ -132,8 +132,8 @@ export function suggestion(
 
 export type Verdict = {
   determined: boolean;
-  /** Why (or why not): "determined", "noEffect", "correlated", "wide". */
-  reason: "determined" | "noEffect" | "correlated" | "wide";
+  /** Why (or why not): "determined", "noEffect", "correlated", "wide", or "poorFit" (the model does not follow the readings). */
+  reason: "determined" | "noEffect" | "correlated" | "wide" | "poorFit";
   correlatedWith: { key: MultiplierKey; correlation: number } | null;
 };
 

@@ -20,6 +20,8 @@ import { rangeThreshold } from "./threshold";
 import type { Pins } from "./search";
 import { robustSearch } from "./search";
 import { MULTIPLIER_BOUNDS, withMultipliers } from "./multipliers";
+import type { FitQuality } from "./fit-quality";
+import { fitQuality, qualityText } from "./fit-quality";
 
 /** One engine run to make: a scenario, with "when full" trims pinned or not. */
 export type ObserveRequest = { scenario: Scenario; pinnedTrimDays: Pins | null };
@@ -42,7 +44,7 @@ type FittedMultiplier = {
   /** Largest change a doubling makes to a measured value, as a share of its species' scale. */
   effect: number | null;
   verdict: Verdict | null;
-  /** Which reading would help; null when determined or not fitted. */
+  /** Which reading would help; null when determined, not fitted, or no good fit (then see qualityText). */
   suggestion: string | null;
 };
 
@@ -65,6 +67,10 @@ export type CalibrationResult = {
   localFits: number;
   /** A stationary point whose neighbourhood holds nothing better. */
   converged: boolean;
+  /** Whether the fitted model follows the readings at all (fit-quality.ts); when not, nothing is called determined. */
+  quality: FitQuality;
+  /** What a poor fit means and what to check; null for a good fit. */
+  qualityText: string | null;
 };
 
 export type CalibrateOptions = {
@@ -236,6 +242,7 @@ export async function calibrateMultipliers(opts: CalibrateOptions): Promise<Cali
   );
   const correlation = covariance ? correlationOf(covariance) : null;
   const measured = new Set(kits.map((k) => k.species));
+  const quality = fitQuality(observations, valuesOf(best.observed), (i) => readings[i].day, best.tau);
   const obsScales = observations.map((o) => o.scale);
 
   const multipliers: FittedMultiplier[] = MULTIPLIER_KEYS.map((key) => {
@@ -251,38 +258,42 @@ export async function calibrateMultipliers(opts: CalibrateOptions): Promise<Cali
       .map((k, m) => ({ key: k, correlation: correlation ? correlation[j][m] : 0 }))
       .filter((c) => c.key !== key);
     const fittedValue = value(theta[j]);
-    const verdict = verdictFor({
-      value: fittedValue,
-      low: value(r.low),
-      high: value(r.high),
-      lowOpen: r.lowOpen,
-      highOpen: r.highOpen,
-      effect,
-      correlations,
-    });
+    const verdict: Verdict = !quality.good
+      ? { determined: false, reason: "poorFit", correlatedWith: null }
+      : verdictFor({
+          value: fittedValue,
+          low: value(r.low),
+          high: value(r.high),
+          lowOpen: r.lowOpen,
+          highOpen: r.highOpen,
+          effect,
+          correlations,
+        });
     const others = fit.filter((k) => k !== key);
     return {
       key,
       value: fittedValue,
       start: value(start[j]),
       fitted: true,
-      low95: value(r.low),
-      high95: value(r.high),
-      lowOpen: r.lowOpen,
-      highOpen: r.highOpen,
+      // With no good fit the likelihood's curvature says nothing about the truth: the range is the whole box, open.
+      ...(quality.good
+        ? { low95: value(r.low), high95: value(r.high), lowOpen: r.lowOpen, highOpen: r.highOpen }
+        : { low95: MULTIPLIER_BOUNDS.min, high95: MULTIPLIER_BOUNDS.max, lowOpen: true, highOpen: true }),
       atBound: best.fit.atBound[j],
       effect,
       verdict,
       suggestion: verdict.determined
         ? null
-        : suggestion(
-            key,
-            sens[j],
-            sens.filter((_s, m) => m !== j),
-            best.observed.grid.t,
-            measured,
-            others.map((k) => MULTIPLIER_NAMES[k]),
-          ),
+        : !quality.good
+          ? null // the result's qualityText says what to check, once for all
+          : suggestion(
+              key,
+              sens[j],
+              sens.filter((_s, m) => m !== j),
+              best.observed.grid.t,
+              measured,
+              others.map((k) => MULTIPLIER_NAMES[k]),
+            ),
     };
   });
   const wrms = (o: Observed) => {
@@ -304,5 +315,7 @@ export async function calibrateMultipliers(opts: CalibrateOptions): Promise<Cali
     evaluations,
     localFits: best.localFits,
     converged: best.converged,
+    quality,
+    qualityText: qualityText(quality),
   };
 }

@@ -6,6 +6,7 @@
 export { MULTIPLIER_KEYS } from "./advice";
 export type { MultiplierKey, Verdict } from "./advice";
 export { assessReadings } from "./assess";
+export { runsZ } from "./fit-quality";
 export { calibrateMultipliers, kitsFor } from "./fit";
 export type { CalibrationResult, ObserveRequest, Predict } from "./fit";
 export { DEFAULT_CARDS, describeKit, kitStepIn, inferKit, KIT_UNITS, KitSchema, readingInterval, SPECIES, kitUnit } from "./kits";

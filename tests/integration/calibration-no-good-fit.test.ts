@@ -1,0 +1,93 @@
+/**
+ * Through the API and the calibration page: readings the model cannot follow get "no good fit",
+ * not a determined multiplier. The readings are made by the engine (feed load ×1.25, our own
+ * worked example), then nitrate jumps by 10 mg N/L from day 30 on — something added to the tank
+ * that neither the scenario nor a journal knows of.
+ */
+import { eq } from "drizzle-orm";
+import { afterEach, describe, expect, it } from "vitest";
+import { getDb } from "~/db/client.server";
+import { readings, scenarios } from "~/db/schema";
+import { runEngineTask } from "~/features/jobs/engine-tasks.server";
+import { clearJobs, type JobJson } from "~/features/jobs/jobs.server";
+import type { CalibrationJson } from "~/features/calibration/calibration-json";
+import { loader as jobApi } from "~/routes/api/job";
+import { action as calibrationsApi } from "~/routes/api/scenario-calibrations";
+import { ScenarioSchema } from "../../models/index";
+import { call, get, postJson } from "../support/routes";
+import { PLANTED } from "../support/planted-scenario";
+import { createScenario, createTank } from "../support/tanks";
+import { userWithCookie } from "../support/users";
+
+const DAY = 86_400_000;
+afterEach(() => clearJobs());
+
+async function poll(id: string, cookie: string): Promise<JobJson> {
+  for (let i = 0; i < 4000; i++) {
+    const r = await call(jobApi, get(`/api/jobs/${id}`, cookie), { jobId: id });
+    if (r.data.job.status !== "running") return r.data.job;
+    await new Promise((res) => setTimeout(res, 3));
+  }
+  throw new Error("the job did not end");
+}
+
+async function tankWithReadings(jumpMgN: number) {
+  const user = await userWithCookie();
+  const tankId = createTank(user.id);
+  const scenarioId = await createScenario(user.id, tankId, PLANTED);
+  const start = Date.UTC(2026, 0, 1);
+  getDb()
+    .update(scenarios)
+    .set({ startDate: new Date(start) })
+    .where(eq(scenarios.id, scenarioId))
+    .run();
+  const days = Array.from({ length: 15 }, (_v, i) => 2 + 4 * i);
+  const truth = ScenarioSchema.parse({ ...PLANTED, multipliers: { feedLoad: 1.25 } });
+  const r = runEngineTask({ kind: "sample", scenario: truth, days, limits: {} });
+  if (r.kind !== "sample" || !r.samples) throw new Error("no samples");
+  getDb()
+    .insert(readings)
+    .values(
+      days.map((d, i) => ({
+        tankId,
+        takenAt: new Date(start + d * DAY),
+        nitrate: r.samples!.no3[i] + (d >= 30 ? jumpMgN : 0),
+      })),
+    )
+    .run();
+  return { user, scenarioId: String(scenarioId) };
+}
+
+async function fitFeedLoad(jumpMgN: number): Promise<CalibrationJson> {
+  const { user, scenarioId } = await tankWithReadings(jumpMgN);
+  const started = await call(
+    calibrationsApi,
+    postJson(
+      `/api/scenarios/${scenarioId}/calibrations`,
+      { fit: ["feedLoad"], kits: { no3: { kind: "exact" } } },
+      user.cookie,
+    ),
+    { scenarioId },
+  );
+  expect(started.status).toBe(202);
+  const job = await poll(started.data.job.id, user.cookie);
+  expect(job.status).toBe("done");
+  return job.result as CalibrationJson;
+}
+
+describe("the calibration API on readings the model cannot follow", () => {
+  it("without the jump: a good fit, feed load determined (the control)", async () => {
+    const r = await fitFeedLoad(0);
+    expect(r.fitQuality).toEqual({ good: true, reason: null, text: null });
+    expect(r.multipliers.find((m) => m.key === "feedLoad")!.determined).toBe(true);
+  }, 60_000);
+
+  it("with the jump: no good fit, feed load not determined, and the report says where the readings leave the model", async () => {
+    const r = await fitFeedLoad(10);
+    expect(r.fitQuality?.good).toBe(false);
+    const feed = r.multipliers.find((m) => m.key === "feedLoad")!;
+    expect(feed.determined).toBe(false);
+    expect(feed.reason).toBe("poorFit");
+    expect(r.fitQuality?.text).toMatch(/^No good fit/);
+  }, 60_000);
+});
