@@ -1,3 +1,4 @@
+import { HarmAdvice, WarningList } from "~/components/run-warnings";
 import type { ResultWarning } from "~/features/runs/run-warnings";
 
 type RunWithWarnings = { id: number; name: string; warnings: readonly ResultWarning[] };
@@ -22,22 +23,10 @@ export function CompareWarnings({ runs }: { runs: readonly RunWithWarnings[] }) 
       {warned.map((r) => (
         <div key={r.id} className="mb-2" data-compare-warnings={r.id}>
           <h3 className="font-semibold">{r.name}</h3>
-          <ul className="list-disc space-y-1 pl-5">
-            {r.warnings.map((w) => (
-              <li key={w.code} data-warning={w.code}>
-                {w.text}
-              </li>
-            ))}
-          </ul>
+          <WarningList warnings={r.warnings} />
         </div>
       ))}
-      {harm ? (
-        <p className="mt-2">
-          This is what the model predicts, not a measurement. Test the water now and on the days named; if a test shows
-          ammonia or nitrite, change water at once. When in doubt, ask a local aquarium shop, club or a veterinarian who
-          treats fish.
-        </p>
-      ) : null}
+      {harm ? <HarmAdvice /> : null}
     </section>
   );
 }

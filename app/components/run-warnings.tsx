@@ -16,20 +16,32 @@ export function RunWarnings({ warnings, large = false }: { warnings: readonly Re
       <h2 id="run-warnings-title" className={`mb-2 font-semibold ${large ? "text-3xl" : "text-base"}`}>
         {harm ? "Where fish could be harmed" : "Settings beyond a real tank"}
       </h2>
-      <ul className="list-disc space-y-1 pl-5">
-        {warnings.map((w) => (
-          <li key={w.code} data-warning={w.code}>
-            {w.text}
-          </li>
-        ))}
-      </ul>
-      {harm ? (
-        <p className="mt-2">
-          This is what the model predicts, not a measurement. Test the water now and on the days named; if a test shows
-          ammonia or nitrite, change water at once. When in doubt, ask a local aquarium shop, club or a veterinarian who
-          treats fish.
-        </p>
-      ) : null}
+      <WarningList warnings={warnings} />
+      {harm ? <HarmAdvice /> : null}
     </section>
+  );
+}
+
+/** Warnings as a list, each marked with its code (for the tests and the print view). */
+export function WarningList({ warnings }: { warnings: readonly ResultWarning[] }) {
+  return (
+    <ul className="list-disc space-y-1 pl-5">
+      {warnings.map((w) => (
+        <li key={w.code} data-warning={w.code}>
+          {w.text}
+        </li>
+      ))}
+    </ul>
+  );
+}
+
+/** The usual advice under a warning that fish could be harmed: test, act, ask someone local. */
+export function HarmAdvice() {
+  return (
+    <p className="mt-2">
+      This is what the model predicts, not a measurement. Test the water now and on the days named; if a test shows
+      ammonia or nitrite, change water at once. When in doubt, ask a local aquarium shop, club or a veterinarian who
+      treats fish.
+    </p>
   );
 }

@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import type { KeyFigures } from "../../models";
+import { quietFigures } from "../support/key-figures";
 import { howFarAbove, resultWarnings } from "~/features/runs/run-warnings";
 import { DEFAULT_PREFERENCES, displayUnitsFor } from "~/utils/display-units";
 
@@ -8,25 +8,7 @@ const units = displayUnitsFor(DEFAULT_PREFERENCES);
 const NH3_N = 0.82244;
 const NO2_N = 0.30447;
 
-function figures(over: Partial<KeyFigures> = {}): KeyFigures {
-  const zero = { value: 0, day: 0 };
-  return {
-    peakFreeNh3: zero,
-    peakTan: zero,
-    peakNitrite: zero,
-    nitrateEnd: 2,
-    peakNitrate: zero,
-    nitrateBeforeLastWaterChange: null,
-    daysAboveNitrateTarget: 0,
-    daysBelowNitrateTarget: 0,
-    cycleSeen: false,
-    cyclingFinishedDay: null,
-    plantsTrimmedG: 0,
-    lowestOxygen: { value: 8, day: 0 },
-    lowestKh: { value: 5, day: 0 },
-    ...over,
-  };
-}
+const figures = quietFigures;
 
 describe("the run's warnings in plain words", () => {
   it("names free ammonia's peak, its day and how far above the caution line (0.02 mg/L NH3, common practice, no source)", () => {

@@ -6,6 +6,7 @@ import { createElement } from "react";
 import { renderToStaticMarkup } from "react-dom/server";
 import { describe, expect, it } from "vitest";
 import type { KeyFigures } from "../../models";
+import { quietFigures } from "../support/key-figures";
 import { WhatIfSummary } from "~/components/what-if-summary";
 import { displayKeyFigures } from "~/features/runs/display-figures";
 import { resultWarnings } from "~/features/runs/run-warnings";
@@ -14,25 +15,7 @@ import { DEFAULT_PREFERENCES, displayUnitsFor, unitLabels } from "~/utils/displa
 const units = displayUnitsFor(DEFAULT_PREFERENCES);
 const labels = unitLabels(units);
 
-function figures(over: Partial<KeyFigures> = {}): KeyFigures {
-  const zero = { value: 0, day: 0 };
-  return {
-    peakFreeNh3: zero,
-    peakTan: zero,
-    peakNitrite: zero,
-    nitrateEnd: 2,
-    peakNitrate: zero,
-    nitrateBeforeLastWaterChange: null,
-    daysAboveNitrateTarget: 0,
-    daysBelowNitrateTarget: 0,
-    cycleSeen: false,
-    cyclingFinishedDay: null,
-    plantsTrimmedG: 0,
-    lowestOxygen: { value: 8, day: 0 },
-    lowestKh: { value: 5, day: 0 },
-    ...over,
-  };
-}
+const figures = quietFigures;
 
 const render = (saved: KeyFigures, preview: KeyFigures | null) => {
   const shown = preview ?? saved;
