@@ -89,5 +89,23 @@ describe("the journal page's runs", () => {
       runs.mockRestore();
       resetRunGate();
     }
+  }, 20_000);
+
+  it("waits for a slot the person's last page is about to give back, instead of refusing at once", async () => {
+    forgetJournalRuns();
+    resetRunGate();
+    const { keeper, tankId } = await keeperWithJournal();
+    const releases = [];
+    for (let i = 0; i < RUNS_IN_FLIGHT_PER_PERSON; i++) releases.push(await takeRunSlot(keeper.id));
+    // The runs of a page just left finish a moment later.
+    const freed = setTimeout(() => releases.forEach((release) => release()), 400);
+    try {
+      const page = await load(tankId, keeper.cookie);
+      expect(page.data.problem).toBeNull();
+      expect(page.data.replay).not.toBeNull();
+    } finally {
+      clearTimeout(freed);
+      resetRunGate();
+    }
   });
 });

@@ -4,7 +4,8 @@
  * - Saves, imports, copies and re-runs of a stale stored run (even one a page view asks for), and
  *   previews, have rate limits per person (app/rate-limits.server.ts); the journal's and the
  *   lesson presentation's runs, which store nothing, have none ("view").
- * - One person has at most RUNS_IN_FLIGHT_PER_PERSON runs going at once; more answer 429.
+ * - One person has at most RUNS_IN_FLIGHT_PER_PERSON runs going at once; more answer 429 (a page
+ *   view first waits a few seconds for one of them to end).
  * - A run that looks short (isQuickRun) gets INLINE_BUDGET_MS on the request thread; if it is
  *   not done by then it stops and goes to the worker pool. Everything else goes to the pool at
  *   once. So the request thread never spends more than a few tens of milliseconds on one run,
@@ -67,12 +68,31 @@ async function admit(request: RunRequest): Promise<() => void> {
   }
   // Counted in the database, so two app processes cannot each run two of one person's runs.
   const key = `user:${request.userId}`;
-  if ((await take("runsInFlightPerPerson", key)) > 0) {
+  if (!(await takeInFlight(key, request.purpose === "view" ? VIEW_SLOT_WAIT_MS : 0))) {
     throw new RunRefused(
       `You already have ${RUNS_IN_FLIGHT_PER_PERSON} model runs going. Wait for them to finish, then try again.`,
     );
   }
   return () => void giveBack("runsInFlightPerPerson", key);
+}
+
+/**
+ * A page view waits this long for one of the person's run slots before it says "runs going":
+ * the runs of a page they just left (a reload, a link followed mid-load, a what-if slider let
+ * go) still finish on the server for a second or two, and the next page should wait for them
+ * rather than show a refusal. Saves and previews answer at once, as their forms say what to do.
+ */
+const VIEW_SLOT_WAIT_MS = 5_000;
+const SLOT_POLL_MS = 100;
+
+/** Takes a run slot for `key`, trying again for up to `waitMs`; false when none came free. */
+async function takeInFlight(key: string, waitMs: number): Promise<boolean> {
+  const deadline = Date.now() + waitMs;
+  for (;;) {
+    if ((await take("runsInFlightPerPerson", key)) === 0) return true;
+    if (Date.now() + SLOT_POLL_MS > deadline) return false;
+    await new Promise((resolve) => setTimeout(resolve, SLOT_POLL_MS));
+  }
 }
 
 type Placed = { kind: "result"; result: SimulationResult } | { kind: "stored"; run: StorableRun };
