@@ -95,7 +95,7 @@ describe("the journal page's runs", () => {
     forgetJournalRuns();
     resetRunGate();
     const { keeper, tankId } = await keeperWithJournal();
-    const releases = [];
+    const releases: (() => void)[] = [];
     for (let i = 0; i < RUNS_IN_FLIGHT_PER_PERSON; i++) releases.push(await takeRunSlot(keeper.id));
     // The runs of a page just left finish a moment later.
     const freed = setTimeout(() => releases.forEach((release) => release()), 400);
