@@ -1,6 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { quietFigures } from "../support/key-figures";
-import { howFarAbove, resultWarnings } from "~/features/runs/run-warnings";
+import { howFarAbove, resultWarnings, type ToxicPeaks } from "~/features/runs/run-warnings";
 import { DEFAULT_PREFERENCES, displayUnitsFor } from "~/utils/display-units";
 
 const units = displayUnitsFor(DEFAULT_PREFERENCES);
@@ -8,7 +7,12 @@ const units = displayUnitsFor(DEFAULT_PREFERENCES);
 const NH3_N = 0.82244;
 const NO2_N = 0.30447;
 
-const figures = quietFigures;
+/** The peaks of a quiet run (nothing near a caution line), with `over` changed. */
+const figures = (over: Partial<ToxicPeaks> = {}): ToxicPeaks => ({
+  peakFreeNh3: { value: 0, day: 0 },
+  peakNitrite: { value: 0, day: 0 },
+  ...over,
+});
 
 describe("the run's warnings in plain words", () => {
   it("names free ammonia's peak, its day and how far above the caution line (0.02 mg/L NH3, common practice, no source)", () => {

@@ -33,23 +33,7 @@ export function forecastSentence(f: Forecast | null, units: DisplayUnits): strin
 export function forecastCautions(f: Forecast | null, units: DisplayUnits): string[] {
   if (!f) return [];
   const { startMs, peaks, warnings } = f.ahead;
-  const zero = { value: 0, day: 0 };
-  const keyFigures = {
-    peakFreeNh3: peaks.peakFreeNh3,
-    peakNitrite: peaks.peakNitrite,
-    peakTan: zero,
-    peakNitrate: zero,
-    nitrateEnd: 0,
-    nitrateBeforeLastWaterChange: null,
-    daysAboveNitrateTarget: 0,
-    daysBelowNitrateTarget: 0,
-    cycleSeen: false,
-    cyclingFinishedDay: null,
-    plantsTrimmedG: 0,
-    lowestOxygen: zero,
-    lowestKh: zero,
-  };
-  return resultWarnings({ keyFigures, warnings, dayWords: (d) => dayText(startMs + d * DAY_MS) }, units).map(
+  return resultWarnings({ keyFigures: peaks, warnings, dayWords: (d) => dayText(startMs + d * DAY_MS) }, units).map(
     (w) => w.text,
   );
 }

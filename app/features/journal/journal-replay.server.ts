@@ -8,7 +8,6 @@
 import {
   isModelError,
   scenarioBacteriaShare,
-  type KeyFigures,
   type ModelWarning,
   type Scenario,
   type SimulationResult,
@@ -19,6 +18,7 @@ import { plannedAfterJournal } from "~/features/journal/plan-resume.server";
 import { simulateOnPool } from "~/features/journal/journal-runs.server";
 import type { SearchLever } from "~/features/sweeps/search-levers.server";
 import { findLeastChange, type Evaluation } from "~/features/sweeps/target-search.server";
+import type { ToxicPeaks } from "~/features/runs/run-warnings";
 import { DAY_MS, startOfDay } from "~/utils/dates";
 
 const MAX_DAYS = 730;
@@ -140,7 +140,7 @@ export async function replayJournal(
  */
 type ForecastCautions = {
   startMs: number;
-  peaks: Pick<KeyFigures, "peakFreeNh3" | "peakNitrite">;
+  peaks: ToxicPeaks;
   warnings: ModelWarning[];
 };
 

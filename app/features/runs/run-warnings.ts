@@ -55,8 +55,12 @@ export function howFarAbove(ratio: number): string {
 
 const modelDay = (d: number) => `day ${formatNumber(d, 3)}`;
 
+/** The two key figures the warnings read: free ammonia's and nitrite's peaks with their days. */
+export type ToxicPeaks = Pick<KeyFigures, "peakFreeNh3" | "peakNitrite">;
+
 type Input = {
-  keyFigures: KeyFigures;
+  /** A run's key figures, or only the peaks of the days in question (a forecast's days ahead). */
+  keyFigures: ToxicPeaks;
   warnings: readonly ModelWarning[];
   /** The change water (for the soft-blend warning); left out where the blend is not in question. */
   tapWater?: { khDkh: number; roShare?: number };
