@@ -3,17 +3,16 @@
  * schedule as the fit: the journal replayed "as it happened" when the tank has a journal (the
  * fit's default), the scenario's periodic schedule when that is chosen.
  */
-import { eq } from "drizzle-orm";
 import { describe, expect, it } from "vitest";
 import { getDb } from "~/db/client.server";
-import { readings, scenarios } from "~/db/schema";
+import { readings } from "~/db/schema";
 import { journalEntries } from "~/db/schema-care";
 import { loader as calibrateLoader } from "~/routes/calibrate/calibrate";
 import { action as calibrationsApi } from "~/routes/api/scenario-calibrations";
 import { cancelJob, clearJobs } from "~/features/jobs/jobs.server";
 import { kitUnit } from "~models/nitrogen/calibrate";
 import { call, get, postJson } from "../support/routes";
-import { createScenario, createTank } from "../support/tanks";
+import { createScenario, createTank, startScenarioOn } from "../support/tanks";
 import { userWithCookie } from "../support/users";
 
 const DAY = 86_400_000;
@@ -35,11 +34,7 @@ async function tankWithJournal() {
     run: { lengthDays: 30 },
   });
   const start = Math.floor(Date.now() / DAY) * DAY - 25 * DAY;
-  getDb()
-    .update(scenarios)
-    .set({ startDate: new Date(start) })
-    .where(eq(scenarios.id, scenarioId))
-    .run();
+  startScenarioOn(scenarioId, start);
   // What was really done: a note on day 0 (the replay starts there), a 50 % change on day 3,
   // and 3 mg N/L of ammonia dosed on day 10 — which the periodic schedule does not have.
   getDb()

@@ -4,43 +4,29 @@
  * worked example), then nitrate jumps by 10 mg N/L from day 30 on — something added to the tank
  * that neither the scenario nor a journal knows of.
  */
-import { eq } from "drizzle-orm";
 import { afterEach, describe, expect, it } from "vitest";
 import { getDb } from "~/db/client.server";
-import { readings, scenarios } from "~/db/schema";
+import { readings } from "~/db/schema";
 import { runEngineTask } from "~/features/jobs/engine-tasks.server";
-import { clearJobs, type JobJson } from "~/features/jobs/jobs.server";
+import { clearJobs } from "~/features/jobs/jobs.server";
 import type { CalibrationJson } from "~/features/calibration/calibration-json";
-import { loader as jobApi } from "~/routes/api/job";
 import { action as calibrationsApi } from "~/routes/api/scenario-calibrations";
 import { ScenarioSchema } from "../../models/index";
-import { call, get, postJson } from "../support/routes";
+import { pollJob } from "../support/jobs";
+import { call, postJson } from "../support/routes";
 import { PLANTED } from "../support/planted-scenario";
-import { createScenario, createTank } from "../support/tanks";
+import { createScenario, createTank, startScenarioOn } from "../support/tanks";
 import { userWithCookie } from "../support/users";
 
 const DAY = 86_400_000;
 afterEach(() => clearJobs());
-
-async function poll(id: string, cookie: string): Promise<JobJson> {
-  for (let i = 0; i < 4000; i++) {
-    const r = await call(jobApi, get(`/api/jobs/${id}`, cookie), { jobId: id });
-    if (r.data.job.status !== "running") return r.data.job;
-    await new Promise((res) => setTimeout(res, 3));
-  }
-  throw new Error("the job did not end");
-}
 
 async function tankWithReadings(jumpMgN: number) {
   const user = await userWithCookie();
   const tankId = createTank(user.id);
   const scenarioId = await createScenario(user.id, tankId, PLANTED);
   const start = Date.UTC(2026, 0, 1);
-  getDb()
-    .update(scenarios)
-    .set({ startDate: new Date(start) })
-    .where(eq(scenarios.id, scenarioId))
-    .run();
+  startScenarioOn(scenarioId, start);
   const days = Array.from({ length: 15 }, (_v, i) => 2 + 4 * i);
   const truth = ScenarioSchema.parse({ ...PLANTED, multipliers: { feedLoad: 1.25 } });
   const r = runEngineTask({ kind: "sample", scenario: truth, days, limits: {} });
@@ -70,7 +56,7 @@ async function fitFeedLoad(jumpMgN: number): Promise<CalibrationJson> {
     { scenarioId },
   );
   expect(started.status).toBe(202);
-  const job = await poll(started.data.job.id, user.cookie);
+  const { job } = await pollJob(started.data.job.id, user.cookie);
   expect(job.status).toBe("done");
   return job.result as CalibrationJson;
 }

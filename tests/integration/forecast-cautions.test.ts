@@ -12,6 +12,7 @@ import { startMailFake, waitForMail } from "../support/mail";
 import { call, get, post, postJson } from "../support/routes";
 import { createScenario, createTank } from "../support/tanks";
 import { userWithCookie } from "../support/users";
+import { day } from "../support/journal";
 
 let stopMail: () => Promise<void>;
 beforeAll(async () => {
@@ -21,9 +22,6 @@ afterAll(async () => {
   await stopMail();
 });
 
-const DAY = 86_400_000;
-const day = (daysAgo: number) =>
-  new Date(Math.floor(Date.now() / DAY) * DAY - daysAgo * DAY).toISOString().slice(0, 10);
 // The caution lines: free ammonia 0.02 mg/L NH3, nitrite 0.1 mg/L NO2-N (common practice, no source).
 const FREE_NH3_AHEAD =
   /^Free ammonia reaches [\d.]+ mg\/L NH3 on \d{1,2} [A-Z][a-z]+, .* the caution line \(0\.02 mg\/L NH3\)\.$/;

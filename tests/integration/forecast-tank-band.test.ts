@@ -8,37 +8,15 @@ import { describe, expect, it } from "vitest";
 import { reminderMail } from "~/features/reminders/reminder-mail.server";
 import type { ReminderRow } from "~/features/reminders/reminder-schedule.server";
 import { action as tankAction } from "~/routes/tanks/detail";
-import { action as pageAction, loader as pageLoader } from "~/routes/journal/journal";
+import { loader as pageLoader } from "~/routes/journal/journal";
 import { call, get, post } from "../support/routes";
-import { createScenario, createTank } from "../support/tanks";
-import { userWithCookie } from "../support/users";
+import { climbingTankWithJournal } from "../support/journal";
 
-const DAY = 86_400_000;
-const day = (daysAgo: number) =>
-  new Date(Math.floor(Date.now() / DAY) * DAY - daysAgo * DAY).toISOString().slice(0, 10);
 
 describe("the forecast's target", () => {
   it("is the tank's nitrate band as last set on the tank page, on the journal page and in the reminder mail", async () => {
-    const keeper = await userWithCookie();
-    const tankId = createTank(keeper.id);
-    // Heavy feeding, no planned water changes: nitrate climbs past either target (our own worked example).
-    await createScenario(keeper.id, tankId, {
-      water: { volumeL: 100, startNitrate: 3 },
-      fish: { feedGPerDay: 0.4 },
-      plants: [],
-      maintenance: { waterChangeIntervalDays: 0 },
-      tapWater: { nitrate: 0, roShare: 0 },
-    });
-    const id = String(tankId);
-    await call(
-      pageAction,
-      post(
-        `/tanks/${id}/journal`,
-        { intent: "add", date: day(5), kind: "water_change", water_changed_percent: "50" },
-        keeper.cookie,
-      ),
-      { tankId: id },
-    );
+    // Nitrate climbs past either target (tests/support/journal.ts).
+    const { keeper, tankId: id } = await climbingTankWithJournal();
     const before = await call(pageLoader, get(`/tanks/${id}/journal`, keeper.cookie), { tankId: id });
     expect(before.data.forecast).toMatch(/upper target of 20 mg\/L NO3 /);
     // The keeper widens the band on the tank page to 10–30 mg/L NO3.
@@ -55,7 +33,7 @@ describe("the forecast's target", () => {
     const after = await call(pageLoader, get(`/tanks/${id}/journal`, keeper.cookie), { tankId: id });
     expect(after.data.forecast).toMatch(/upper target of 30 mg\/L NO3 .* keeps it below 30 mg\/L NO3/);
     expect(after.data.replay?.high).toBeCloseTo(30, 9);
-    const row = { id: 1, tankId, userId: keeper.id, mode: "digest" } as ReminderRow;
+    const row = { id: 1, tankId: Number(id), userId: keeper.id, mode: "digest" } as ReminderRow;
     const mail = await reminderMail(row, Date.now());
     expect(mail?.text).toMatch(/Forecast: Nitrate passes your upper target of 30 mg\/L NO3 /);
   });

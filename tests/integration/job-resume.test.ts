@@ -21,7 +21,7 @@ import { action as targetAction } from "~/routes/sweeps/target";
 import { action as sweepsApi } from "~/routes/api/scenario-sweeps";
 import { action as jobApiAction, loader as jobApi } from "~/routes/api/job";
 import { call, get, ORIGIN, post, postJson } from "../support/routes";
-import { createScenario, createTank } from "../support/tanks";
+import { createScenario, createTank, startScenarioOn } from "../support/tanks";
 import { userWithCookie } from "../support/users";
 import { PLANTED } from "../support/planted-scenario";
 import { ScenarioSchema } from "../../models/index";
@@ -295,11 +295,7 @@ describe("jobs of a process that stopped", () => {
     // Readings made by the engine with feed load x1.25 from 1 January 2026, and a journal from
     // that day (our own worked example, as in jobs.test.ts).
     const start = Date.UTC(2026, 0, 1);
-    getDb()
-      .update(scenarios)
-      .set({ startDate: new Date(start) })
-      .where(eq(scenarios.id, scenarioId))
-      .run();
+    startScenarioOn(scenarioId, start);
     const days = Array.from({ length: 15 }, (_v, i) => 2 + 4 * i);
     const truth = ScenarioSchema.parse({ ...PLANTED, multipliers: { feedLoad: 1.25 } });
     const r = runEngineTask({ kind: "sample", scenario: truth, days, limits: {} });

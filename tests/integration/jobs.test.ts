@@ -6,7 +6,7 @@ import { journalEntries } from "~/db/schema-care";
 import { runEngineTask } from "~/features/jobs/engine-tasks.server";
 import { createEnginePool, getEnginePool, setEnginePool, sourceWorkerUrl } from "~/features/jobs/engine-pool.server";
 import { JOB_LIMITS } from "~/features/jobs/job-limits.server";
-import { cancelJob, clearJobs, jobJson, startJob, type JobJson } from "~/features/jobs/jobs.server";
+import { cancelJob, clearJobs, jobJson, startJob } from "~/features/jobs/jobs.server";
 import { action as calibrateAction, loader as calibrateLoader } from "~/routes/calibrate/calibrate";
 import { action as jobApiAction, loader as jobApi } from "~/routes/api/job";
 import { action as calibrationsApi } from "~/routes/api/scenario-calibrations";
@@ -18,8 +18,9 @@ import { action as targetAction } from "~/routes/sweeps/target";
 import { readStoredSettings } from "~/features/runs/simulation.server";
 import { leverJson, sweepJob, sweepLevers } from "~/features/sweeps/sweeps.server";
 import { DEFAULT_PREFERENCES, displayUnitsFor } from "~/utils/display-units";
+import { pollJob } from "../support/jobs";
 import { call, get, ORIGIN, post, postJson } from "../support/routes";
-import { createScenario, createTank } from "../support/tanks";
+import { createScenario, createTank, startScenarioOn } from "../support/tanks";
 import { userWithCookie } from "../support/users";
 import { PLANTED } from "../support/planted-scenario";
 import { ScenarioSchema, type ScenarioInput } from "../../models/index";
@@ -44,18 +45,6 @@ async function world(role: "keeper" | "educator" = "keeper", input: ScenarioInpu
   };
 }
 
-/** Polls the job API like the page does, recording each progress count, until the job ends. */
-async function poll(id: string, cookie: string): Promise<{ job: JobJson; seen: number[] }> {
-  const seen: number[] = [];
-  for (let i = 0; i < 2000; i++) {
-    const r = await call(jobApi, get(`/api/jobs/${id}`, cookie), { jobId: id });
-    expect(r.status).toBe(200);
-    seen.push(r.data.job.done);
-    if (r.data.job.status !== "running") return { job: r.data.job, seen };
-    await new Promise((res) => setTimeout(res, 3));
-  }
-  throw new Error("the job did not end");
-}
 
 const jobIdOf = (location: string | null) => new URL(location!, ORIGIN).searchParams.get("job")!;
 
@@ -82,7 +71,7 @@ describe("sweeps", () => {
       { tankId, scenarioId },
     );
     expect(started.status).toBe(302);
-    const { job, seen } = await poll(jobIdOf(started.location), user.cookie);
+    const { job, seen } = await pollJob(jobIdOf(started.location), user.cookie);
     expect(job.status).toBe("done");
     expect(job.total).toBe(20);
     // progress was seen between the start and the end, never going back
@@ -119,12 +108,12 @@ describe("sweeps", () => {
       );
     const longId = jobIdOf((await start(long, "50")).location);
     const shortId = jobIdOf((await start(short, "3")).location);
-    const { job: shortJob } = await poll(shortId, short.user.cookie);
+    const { job: shortJob } = await pollJob(shortId, short.user.cookie);
     expect(shortJob.status).toBe("done");
     const longNow = (await call(jobApi, get(`/api/jobs/${longId}`, long.user.cookie), { jobId: longId })).data.job;
     // First come, first served would have run all fifty first; turns leave most of them still to do.
     expect(longNow.done).toBeLessThan(25);
-    const { job: longJob } = await poll(longId, long.user.cookie);
+    const { job: longJob } = await pollJob(longId, long.user.cookie);
     expect(longJob.status).toBe("done");
   });
 
@@ -166,7 +155,7 @@ describe("sweeps", () => {
     const second = await start({});
     expect(second.status).toBe(429);
     expect(second.data.errors[""]).toMatch(/already have a sweep running/);
-    await poll(jobIdOf(first.location), keeper.user.cookie);
+    await pollJob(jobIdOf(first.location), keeper.user.cookie);
     expect((await start({})).status).toBe(302);
 
     const educator = await world("educator");
@@ -202,7 +191,7 @@ describe("sweeps", () => {
       scenarioId,
     });
     expect(cancelled.status).toBe(302);
-    const { job } = await poll(id, user.cookie);
+    const { job } = await pollJob(id, user.cookie);
     expect(job.status).toBe("cancelled");
     expect(job.done).toBeLessThan(50);
     // someone else's page does not show it either
@@ -244,7 +233,7 @@ describe("sweeps", () => {
       scenarioId,
     });
     expect(started.status).toBe(202);
-    const inline = (await poll(started.data.job.id, user.cookie)).job.result as { points: { y: number }[] };
+    const inline = (await pollJob(started.data.job.id, user.cookie)).job.result as { points: { y: number }[] };
 
     const previous = setEnginePool(createEnginePool({ workerUrl: sourceWorkerUrl(), size: 2 }));
     try {
@@ -252,7 +241,7 @@ describe("sweeps", () => {
       const threaded = await call(sweepsApiAction, postJson(`/api/scenarios/${scenarioId}/sweeps`, body, user.cookie), {
         scenarioId,
       });
-      const { job } = await poll(threaded.data.job.id, user.cookie);
+      const { job } = await pollJob(threaded.data.job.id, user.cookie);
       expect(job.status).toBe("done");
       expect((job.result as { points: { y: number }[] }).points.map((p) => p.y)).toEqual(inline.points.map((p) => p.y));
     } finally {
@@ -267,11 +256,7 @@ describe("calibration", () => {
   async function calibrationWorld() {
     const w = await world();
     const start = Date.UTC(2026, 0, 1);
-    getDb()
-      .update(scenarios)
-      .set({ startDate: new Date(start) })
-      .where(eq(scenarios.id, Number(w.scenarioId)))
-      .run();
+    startScenarioOn(Number(w.scenarioId), start);
     const scenario = ScenarioSchema.parse({ ...PLANTED, multipliers: { feedLoad: 1.25 } });
     const days = Array.from({ length: 15 }, (_v, i) => 2 + 4 * i);
     const r = runEngineTask({ kind: "sample", scenario, days, limits: {} });
@@ -318,7 +303,7 @@ describe("calibration", () => {
         { tankId, scenarioId },
       );
       expect(started.status).toBe(302);
-      const { job } = await poll(jobIdOf(started.location), user.cookie);
+      const { job } = await pollJob(jobIdOf(started.location), user.cookie);
       expect(job.status).toBe("done");
       expect((job.result as CalibrationJson).schedule).toBe(said);
       expect((job.result as CalibrationJson).readingsUsed).toBe(15);
@@ -335,7 +320,7 @@ describe("calibration", () => {
       { tankId, scenarioId },
     );
     expect(started.status).toBe(302);
-    const { job } = await poll(jobIdOf(started.location), user.cookie);
+    const { job } = await pollJob(jobIdOf(started.location), user.cookie);
     expect(job.status).toBe("done");
     const result = job.result as {
       multipliers: { key: string; value: number; fitted: boolean }[];
@@ -398,11 +383,7 @@ describe("calibration", () => {
     const tankId = createTank(user.id);
     const scenarioId = await createScenario(user.id, tankId, PLANTED_120);
     const start = Date.UTC(2026, 0, 1);
-    getDb()
-      .update(scenarios)
-      .set({ startDate: new Date(start) })
-      .where(eq(scenarios.id, scenarioId))
-      .run();
+    startScenarioOn(scenarioId, start);
     const made = readingsOf(c);
     getDb()
       .insert(readings)
@@ -435,7 +416,7 @@ describe("calibration", () => {
       { tankId: String(tankId), scenarioId: String(scenarioId) },
     );
     expect(started.status).toBe(302);
-    const { job } = await poll(jobIdOf(started.location), user.cookie);
+    const { job } = await pollJob(jobIdOf(started.location), user.cookie);
     expect(job.status).toBe("done");
     const shown = (job.result as CalibrationJson).multipliers.filter((m) => m.fitted);
 
@@ -479,7 +460,7 @@ describe("calibration", () => {
       { scenarioId },
     );
     expect(started.status).toBe(202);
-    const { job } = await poll(started.data.job.id, user.cookie);
+    const { job } = await pollJob(started.data.job.id, user.cookie);
     expect(job.status).toBe("failed");
     expect(job.error).toMatch(/No readings of TAN, nitrite or nitrate fall within this scenario's run/);
   });
@@ -505,7 +486,7 @@ describe("target finder", () => {
       { tankId, scenarioId },
     );
     expect(started.status).toBe(302);
-    const { job } = await poll(jobIdOf(started.location), user.cookie);
+    const { job } = await pollJob(jobIdOf(started.location), user.cookie);
     const result = job.result as {
       status: string;
       headline: string;

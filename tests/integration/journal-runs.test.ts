@@ -11,10 +11,8 @@ import { action as pageAction, loader as pageLoader } from "~/routes/journal/jou
 import { call, get, post } from "../support/routes";
 import { createScenario, createTank } from "../support/tanks";
 import { userWithCookie } from "../support/users";
+import { day } from "../support/journal";
 
-const DAY = 86_400_000;
-const day = (daysAgo: number) =>
-  new Date(Math.floor(Date.now() / DAY) * DAY - daysAgo * DAY).toISOString().slice(0, 10);
 
 async function keeperWithJournal() {
   const keeper = await userWithCookie();

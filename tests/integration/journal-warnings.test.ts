@@ -8,10 +8,8 @@ import { loader as pageLoader } from "~/routes/journal/journal";
 import { call, get, postJson } from "../support/routes";
 import { createScenario, createTank } from "../support/tanks";
 import { userWithCookie } from "../support/users";
+import { day } from "../support/journal";
 
-const DAY = 86_400_000;
-const day = (daysAgo: number) =>
-  new Date(Math.floor(Date.now() / DAY) * DAY - daysAgo * DAY).toISOString().slice(0, 10);
 
 async function tankAtPh8() {
   const keeper = await userWithCookie();

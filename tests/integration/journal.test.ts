@@ -15,10 +15,8 @@ import { action as pageAction, loader as pageLoader } from "~/routes/journal/jou
 import { call, get, ORIGIN, post, postJson } from "../support/routes";
 import { createScenario, createTank } from "../support/tanks";
 import { userWithCookie } from "../support/users";
+import { climbingTankWithJournal, day, DAY } from "../support/journal";
 
-const DAY = 86_400_000;
-const day = (daysAgo: number) =>
-  new Date(Math.floor(Date.now() / DAY) * DAY - daysAgo * DAY).toISOString().slice(0, 10);
 const stored = (tankId: number) => getDb().select().from(journalEntries).where(eq(journalEntries.tankId, tankId)).all();
 
 function upload(path: string, cookie: string, text: string): Request {
@@ -349,26 +347,8 @@ describe("the journal", () => {
 
 describe("the forecast", () => {
   it("says when nitrate crosses the upper target and which change keeps it under", async () => {
-    const keeper = await userWithCookie();
-    const tankId = createTank(keeper.id);
-    // Heavy feeding, no planned water changes: nitrate must climb past the target (our own worked example)
-    await createScenario(keeper.id, tankId, {
-      water: { volumeL: 100, startNitrate: 3 },
-      fish: { feedGPerDay: 0.4 },
-      plants: [],
-      maintenance: { waterChangeIntervalDays: 0 },
-      tapWater: { nitrate: 0, roShare: 0 },
-    });
-    const id = String(tankId);
-    await call(
-      pageAction,
-      post(
-        `/tanks/${id}/journal`,
-        { intent: "add", date: day(5), kind: "water_change", water_changed_percent: "50" },
-        keeper.cookie,
-      ),
-      { tankId: id },
-    );
+    // Nitrate must climb past the target (tests/support/journal.ts).
+    const { keeper, tankId: id } = await climbingTankWithJournal();
     const page = await call(pageLoader, get(`/tanks/${id}/journal`, keeper.cookie), { tankId: id });
     // The tank's default upper target, 4.52 mg N/L, is 20 mg/L NO3 (docs/sources.md §0: ×4.4268)
     expect(page.data.forecast).toMatch(

@@ -14,10 +14,8 @@ import { call, get, post, postJson } from "../support/routes";
 import { createScenario, createTank } from "../support/tanks";
 import { userWithCookie } from "../support/users";
 import { calendarTitles } from "../support/calendar";
+import { day } from "../support/journal";
 
-const DAY = 86_400_000;
-const day = (daysAgo: number) =>
-  new Date(Math.floor(Date.now() / DAY) * DAY - daysAgo * DAY).toISOString().slice(0, 10);
 const storedPlans = (tankId: string) =>
   getDb()
     .select()

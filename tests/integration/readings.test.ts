@@ -11,7 +11,7 @@ import { action as editAction, loader as editLoader } from "~/routes/scenarios/e
 import { action as newAction } from "~/routes/scenarios/new";
 import { loader as resultsLoader } from "~/routes/scenarios/results";
 import { call, get, ORIGIN, post } from "../support/routes";
-import { createScenario, createTank, setupFormFields } from "../support/tanks";
+import { createScenario, createTank, setupFormFields, startScenarioOn } from "../support/tanks";
 import { userWithCookie } from "../support/users";
 
 const DAY = 86_400_000;
@@ -354,11 +354,7 @@ describe("readings on a scenario's timeline", () => {
     const keeper = await userWithCookie();
     const tankId = createTank(keeper.id);
     const scenarioId = await createScenario(keeper.id, tankId, { run: { lengthDays: 30 } });
-    getDb()
-      .update(scenarios)
-      .set({ startDate: new Date(Date.UTC(2026, 0, 1)) })
-      .where(eq(scenarios.id, scenarioId))
-      .run();
+    startScenarioOn(scenarioId, Date.UTC(2026, 0, 1));
     getDb()
       .insert(readings)
       .values([

@@ -1,3 +1,4 @@
+import { eq } from "drizzle-orm";
 import { ScenarioSchema, type ScenarioInput } from "../../models";
 import { getDb } from "~/db/client.server";
 import { scenarios, tanks } from "~/db/schema";
@@ -42,4 +43,9 @@ export function setupFormFields(overrides: Record<string, string | number> = {})
     "run.outputIntervalDays": 1,
     ...overrides,
   };
+}
+
+/** Dates a scenario's day 0, so readings and journal entries at known dates line up with model days. */
+export function startScenarioOn(scenarioId: number, startMs: number): void {
+  getDb().update(scenarios).set({ startDate: new Date(startMs) }).where(eq(scenarios.id, scenarioId)).run();
 }
