@@ -5,42 +5,23 @@
  * that neither the scenario nor a journal knows of.
  */
 import { afterEach, describe, expect, it } from "vitest";
-import { getDb } from "~/db/client.server";
-import { readings } from "~/db/schema";
-import { runEngineTask } from "~/features/jobs/engine-tasks.server";
 import { clearJobs } from "~/features/jobs/jobs.server";
 import type { CalibrationJson } from "~/features/calibration/calibration-json";
 import { action as calibrationsApi } from "~/routes/api/scenario-calibrations";
-import { ScenarioSchema } from "../../models/index";
 import { pollJob } from "../support/jobs";
 import { call, postJson } from "../support/routes";
 import { PLANTED } from "../support/planted-scenario";
-import { createScenario, createTank, startScenarioOn } from "../support/tanks";
+import { storePlantedReadings } from "../support/planted-readings";
+import { createScenario, createTank } from "../support/tanks";
 import { userWithCookie } from "../support/users";
 
-const DAY = 86_400_000;
 afterEach(() => clearJobs());
 
 async function tankWithReadings(jumpMgN: number) {
   const user = await userWithCookie();
   const tankId = createTank(user.id);
   const scenarioId = await createScenario(user.id, tankId, PLANTED);
-  const start = Date.UTC(2026, 0, 1);
-  startScenarioOn(scenarioId, start);
-  const days = Array.from({ length: 15 }, (_v, i) => 2 + 4 * i);
-  const truth = ScenarioSchema.parse({ ...PLANTED, multipliers: { feedLoad: 1.25 } });
-  const r = runEngineTask({ kind: "sample", scenario: truth, days, limits: {} });
-  if (r.kind !== "sample" || !r.samples) throw new Error("no samples");
-  getDb()
-    .insert(readings)
-    .values(
-      days.map((d, i) => ({
-        tankId,
-        takenAt: new Date(start + d * DAY),
-        nitrate: r.samples!.no3[i] + (d >= 30 ? jumpMgN : 0),
-      })),
-    )
-    .run();
+  storePlantedReadings(tankId, scenarioId, { tan: false, unloggedJumpMgN: jumpMgN });
   return { user, scenarioId: String(scenarioId) };
 }
 

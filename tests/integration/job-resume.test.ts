@@ -9,9 +9,8 @@ import { spawn } from "node:child_process";
 import { eq, inArray, sql } from "drizzle-orm";
 import { afterEach, describe, expect, it } from "vitest";
 import { getDb } from "~/db/client.server";
-import { jobs, readings, scenarios } from "~/db/schema";
+import { jobs, scenarios } from "~/db/schema";
 import { journalEntries } from "~/db/schema-care";
-import { runEngineTask } from "~/features/jobs/engine-tasks.server";
 import { resumeOrphans } from "~/features/jobs/job-resume.server";
 import { getEnginePool } from "~/features/jobs/engine-pool.server";
 import { JOB_LIMITS } from "~/features/jobs/job-limits.server";
@@ -21,10 +20,10 @@ import { action as targetAction } from "~/routes/sweeps/target";
 import { action as sweepsApi } from "~/routes/api/scenario-sweeps";
 import { action as jobApiAction, loader as jobApi } from "~/routes/api/job";
 import { call, get, ORIGIN, post, postJson } from "../support/routes";
-import { createScenario, createTank, startScenarioOn } from "../support/tanks";
+import { PLANTED_START_MS, storePlantedReadings } from "../support/planted-readings";
+import { createScenario, createTank } from "../support/tanks";
 import { userWithCookie } from "../support/users";
 import { PLANTED } from "../support/planted-scenario";
-import { ScenarioSchema } from "../../models/index";
 
 const SWEEP = { setting: "plantMass", from: 5, to: 60, points: 20, outcome: "nitrateBeforeLastWaterChange" };
 
@@ -294,24 +293,8 @@ describe("jobs of a process that stopped", () => {
     const params = { tankId: String(tankId), scenarioId: String(scenarioId) };
     // Readings made by the engine with feed load x1.25 from 1 January 2026, and a journal from
     // that day (our own worked example, as in jobs.test.ts).
-    const start = Date.UTC(2026, 0, 1);
-    startScenarioOn(scenarioId, start);
-    const days = Array.from({ length: 15 }, (_v, i) => 2 + 4 * i);
-    const truth = ScenarioSchema.parse({ ...PLANTED, multipliers: { feedLoad: 1.25 } });
-    const r = runEngineTask({ kind: "sample", scenario: truth, days, limits: {} });
-    if (r.kind !== "sample" || !r.samples) throw new Error("no samples");
-    const samples = r.samples;
-    getDb()
-      .insert(readings)
-      .values(
-        days.map((d, i) => ({
-          tankId,
-          takenAt: new Date(start + d * 86_400_000),
-          nitrate: samples.no3[i],
-          tan: samples.tan[i],
-        })),
-      )
-      .run();
+    storePlantedReadings(tankId, scenarioId);
+    const start = PLANTED_START_MS;
     getDb()
       .insert(journalEntries)
       .values({ tankId, doneAt: new Date(start + 9 * 3_600_000), kind: "note", details: {} })

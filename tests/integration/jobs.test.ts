@@ -20,6 +20,7 @@ import { leverJson, sweepJob, sweepLevers } from "~/features/sweeps/sweeps.serve
 import { DEFAULT_PREFERENCES, displayUnitsFor } from "~/utils/display-units";
 import { pollJob } from "../support/jobs";
 import { call, get, ORIGIN, post, postJson } from "../support/routes";
+import { storePlantedReadings } from "../support/planted-readings";
 import { createScenario, createTank, startScenarioOn } from "../support/tanks";
 import { userWithCookie } from "../support/users";
 import { PLANTED } from "../support/planted-scenario";
@@ -255,23 +256,7 @@ describe("calibration", () => {
   /** Readings made by the engine with feed load ×1.25 (our own worked example), stored against the scenario's start date. */
   async function calibrationWorld() {
     const w = await world();
-    const start = Date.UTC(2026, 0, 1);
-    startScenarioOn(Number(w.scenarioId), start);
-    const scenario = ScenarioSchema.parse({ ...PLANTED, multipliers: { feedLoad: 1.25 } });
-    const days = Array.from({ length: 15 }, (_v, i) => 2 + 4 * i);
-    const r = runEngineTask({ kind: "sample", scenario, days, limits: {} });
-    if (r.kind !== "sample" || !r.samples) throw new Error("no samples");
-    getDb()
-      .insert(readings)
-      .values(
-        days.map((d, i) => ({
-          tankId: Number(w.tankId),
-          takenAt: new Date(start + d * DAY),
-          nitrate: r.samples!.no3[i],
-          tan: r.samples!.tan[i],
-        })),
-      )
-      .run();
+    storePlantedReadings(Number(w.tankId), Number(w.scenarioId));
     return w;
   }
 
