@@ -107,7 +107,7 @@ export function CalibrationSetup({
   inRun: number;
   disabled: boolean;
   /** The tank's journal replay, when it has entries: from which day, and the readings within it. */
-  journal: { from: string; readings: number } | null;
+  journal: { from: string; readings: number; before: number } | null;
   /** The schedule the check below ran on (and the fit's default). */
   schedule: "journal" | "periodic" | null;
   /** That schedule in words, when the readings were checked. */
@@ -175,6 +175,13 @@ export function CalibrationSetup({
               plants you logged since {journal.from}, instead of the scenario’s timetable ({journal.readings} reading
               {journal.readings === 1 ? "" : "s"} in that time). Usually far better posed: the readings reflect what you
               did, not what you planned.
+              {journal.before > 0 ? (
+                <span className="mt-1 block" data-readings-before-journal>
+                  {journal.before} older reading{journal.before === 1 ? " is" : "s are"} left out: taken before the
+                  journal’s first entry, with nothing logged to replay against. Log what you did before {journal.from}{" "}
+                  to use {journal.before === 1 ? "it" : "them"}, or fit against the scenario’s schedule.
+                </span>
+              ) : null}
             </span>
           </label>
           <label className="flex items-start gap-2 text-sm">

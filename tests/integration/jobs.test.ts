@@ -270,7 +270,7 @@ describe("calibration", () => {
       .values({ tankId: Number(tankId), doneAt: new Date(Date.UTC(2026, 0, 1, 9)), kind: "note", details: {} })
       .run();
     const page = await call(calibrateLoader, get(`${base}/calibrate`, user.cookie), { tankId, scenarioId });
-    expect(page.data.journal).toEqual({ from: "2026-01-01", readings: 15 });
+    expect(page.data.journal).toEqual({ from: "2026-01-01", readings: 15, before: 0 });
     const bad = await call(
       calibrateAction,
       post(`${base}/calibrate`, { intent: "start", fit: "feedLoad", schedule: "sometimes" }, user.cookie),
@@ -293,6 +293,18 @@ describe("calibration", () => {
       expect((job.result as CalibrationJson).schedule).toBe(said);
       expect((job.result as CalibrationJson).readingsUsed).toBe(15);
     }
+  });
+
+  it("says how many readings a fit on the journal leaves out: those taken before its first entry", async () => {
+    const { user, tankId, scenarioId, base } = await calibrationWorld();
+    // The first entry on day 30 (the replay starts at that day's midnight): the readings of days
+    // 2, 6, …, 26 come before it, those of days 30 to 58 within.
+    getDb()
+      .insert(journalEntries)
+      .values({ tankId: Number(tankId), doneAt: new Date(Date.UTC(2026, 0, 31, 9)), kind: "note", details: {} })
+      .run();
+    const page = await call(calibrateLoader, get(`${base}/calibrate`, user.cookie), { tankId, scenarioId });
+    expect(page.data.journal).toEqual({ from: "2026-01-31", readings: 8, before: 7 });
   });
 
   it("fits the feed load to the readings, shows the fit, and saves it as a new scenario on the same dates", async () => {

@@ -4,7 +4,7 @@
  * and the readings on a scenario's timeline (its day 0 is the scenario's start date) for the
  * chart and for calibration. The CSV side is app/features/readings/readings-csv.server.ts.
  */
-import { and, asc, count, desc, eq, gte, lte, sql } from "drizzle-orm";
+import { and, asc, count, desc, eq, gte, isNotNull, lt, lte, or, sql } from "drizzle-orm";
 import {
   fromCanonical,
   toCanonical,
@@ -283,6 +283,26 @@ export function readingsForChart(
       no3: scale(r.nitrate, no3),
     })),
   };
+}
+
+/**
+ * How many of the tank's readings of TAN, nitrite or nitrate were taken before `ms`: a fit on the
+ * journal starts at its first entry, and the page says how many readings that leaves out.
+ */
+export function countCalibrationReadingsBefore(tankId: number, ms: number): number {
+  return (
+    getDb()
+      .select({ n: count() })
+      .from(readings)
+      .where(
+        and(
+          eq(readings.tankId, tankId),
+          lt(readings.takenAt, new Date(ms)),
+          or(isNotNull(readings.tan), isNotNull(readings.nitrite), isNotNull(readings.nitrate)),
+        ),
+      )
+      .get()?.n ?? 0
+  );
 }
 
 /** Readings within the run with at least one nitrogen species, canonical, for calibration. */

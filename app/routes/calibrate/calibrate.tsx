@@ -12,7 +12,12 @@ import { MULTIPLIER_LABELS } from "~/features/calibration/calibration-report.ser
 import type { CalibrationJson } from "~/features/calibration/calibration-json";
 import { cancelJob, findScenarioJob, jobJson, startJob } from "~/features/jobs/jobs.server";
 import { requireUser } from "~/permissions.server";
-import { countReadings, modelStartMs, readingsForCalibration } from "~/features/readings/readings.server";
+import {
+  countCalibrationReadingsBefore,
+  countReadings,
+  modelStartMs,
+  readingsForCalibration,
+} from "~/features/readings/readings.server";
 import { readStoredSettings } from "~/features/runs/simulation.server";
 import { requireOwnedScenario } from "~/features/tanks/tanks.server";
 import { formatDate } from "~/utils/dates";
@@ -62,6 +67,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
       ? {
           from: formatDate(replay.startMs),
           readings: readingsForCalibration(tank.id, replay.startMs, replay.lengthDays).length,
+          // Readings from before the first entry have no journal to replay against: said, not dropped silently.
+          before: countCalibrationReadingsBefore(tank.id, replay.startMs),
         }
       : null,
     hasPlants,
