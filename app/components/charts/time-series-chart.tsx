@@ -82,6 +82,8 @@ export type TimeSeriesChartProps = {
   cursorDay?: number;
   /** Show the data table under the chart (default true). */
   table?: boolean;
+  /** The run's CSV, offered under the table when scripts are off. */
+  csvHref?: string;
   /** File name stem for downloads, made file-safe (default from the title); false hides the buttons. */
   downloadName?: string | false;
 };
@@ -107,6 +109,7 @@ export const TimeSeriesChart = memo(function TimeSeriesChart({
   onCursorChange,
   cursorDay,
   table = true,
+  csvHref,
   downloadName,
 }: TimeSeriesChartProps) {
   const [visibleRaw, setVisible] = useControllable<Partial<Visibility>>(
@@ -265,7 +268,13 @@ export const TimeSeriesChart = memo(function TimeSeriesChart({
             />
           ) : null}
           {table ? (
-            <ChartDataTable caption={`${title}: the numbers`} t={series.t} columns={columns} events={events} />
+            <ChartDataTable
+              caption={`${title}: the numbers`}
+              t={series.t}
+              columns={columns}
+              events={events}
+              csvHref={csvHref}
+            />
           ) : null}
         </>
       }

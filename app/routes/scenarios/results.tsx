@@ -54,6 +54,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
       ...base,
       error: null,
       results: packedResultsPayload(resultsPayload(run, withTargets, units)),
+      runCsvHref: `/api/runs/${run.id}?format=csv`,
       // The chart draws at most MAX_CHART_READINGS of them (an even sample); the page says how many.
       readings: chart.points,
       readingsTotal: chart.total,
@@ -168,6 +169,7 @@ export default function ResultsPage({ loaderData, actionData }: Route.ComponentP
             overlays={overlays}
             readings={loaderData.readings}
             downloadName={`${tank.name}-${scenario.name}`}
+            csvHref={loaderData.runCsvHref}
           />
           <p className="text-sm text-stone-700">
             {loaderData.readings.length === loaderData.readingsTotal
