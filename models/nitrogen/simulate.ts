@@ -80,7 +80,8 @@ export function simulate(scenario: Scenario, options: SimulateOptions = {}): Sim
   const c = deriveConstants(s);
   const tEnd = s.run.lengthDays;
   const y0 = initialState(s, c);
-  const schedule = buildSchedule(s, c, tEnd, explicitSchedule(options), options.pinnedTrimDays);
+  const events = explicitSchedule(options);
+  const schedule = buildSchedule(s, c, tEnd, events, options.pinnedTrimDays);
   const problem: OdeProblem = {
     dim: PLANT0 + c.plantCount,
     names: [...STATE_NAMES, ...s.plants.map((g) => `plants "${g.name}" (g)`)],
@@ -128,7 +129,7 @@ export function simulate(scenario: Scenario, options: SimulateOptions = {}): Sim
     events: loop.events.map((e) => ({ ...e, day: roundDay(e.day) })),
     budget,
     keyFigures: keyFiguresFrom(series, s, extremes, ledger.nitrateBeforeLastChange, yEnd[IX.no3], ledger.trimmedG),
-    warnings: findWarnings(s, c, recorder.trace, extremes),
+    warnings: findWarnings(s, c, recorder.trace, extremes, events),
     lowOxygenZones: zoneCapacity(s),
     ammoniaCriteria: ammoniaCriteria(s.water.pH, s.water.temperatureC),
     stats: { ...loop.stats, wallMs: Math.round((now() - started) * 100) / 100 },

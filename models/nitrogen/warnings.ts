@@ -11,7 +11,8 @@ import { KH_EXHAUSTED_DKH, type Extremes, type Trace } from "./recorder";
 import type { ModelWarning } from "./result";
 import { round6, roundDay } from "./result";
 import type { Scenario } from "./scenario";
-import type { TankConstants } from "./tank-constants";
+import { deriveConstants, type TankConstants } from "./tank-constants";
+import type { TankEvent } from "./tank-events";
 
 /** Feed per litre per day above which stocking is far beyond usual aquarium practice (g/L/day). */
 const HEAVY_FEEDING_G_PER_L_DAY = 0.03; // common practice, no source (a crowded tank is ~0.01)
@@ -73,32 +74,57 @@ function timeMean(t: readonly number[], values: readonly number[]): number {
   return area / span;
 }
 
-export function findWarnings(s: Scenario, c: TankConstants, trace: Trace, extremes: Extremes): ModelWarning[] {
+/**
+ * The heaviest feeding of the run: the scenario's own, or a logged feeding change (a journal's
+ * replay) above it, with the day it starts (null for the scenario's own, which holds throughout).
+ */
+function heaviestFeeding(s: Scenario, c: TankConstants, events: readonly TankEvent[], tEnd: number) {
+  let heaviest = { feedGPerDay: s.fish.feedGPerDay, day: null as number | null, s, c };
+  for (const e of events) {
+    if (e.kind !== "feeding" || e.day >= tEnd || e.feedGPerDay <= heaviest.feedGPerDay) continue;
+    const fed = { ...s, fish: { ...s.fish, feedGPerDay: e.feedGPerDay } };
+    heaviest = { feedGPerDay: e.feedGPerDay, day: e.day, s: fed, c: deriveConstants(fed) };
+  }
+  return heaviest;
+}
+
+export function findWarnings(
+  s: Scenario,
+  c: TankConstants,
+  trace: Trace,
+  extremes: Extremes,
+  events: readonly TankEvent[] = [],
+): ModelWarning[] {
   const out: ModelWarning[] = [];
   const V = c.volumeL;
-  const feedPerL = (s.fish.feedGPerDay * s.multipliers.feedLoad) / V;
-  const demand = feedOxygenDemand(s, c);
+  // Both feeding warnings judge the heaviest feeding of the run, so a logged change to far more
+  // food is flagged as the scenario's own feeding would be, dated the day it began.
+  const fed = heaviestFeeding(s, c, events, s.run.lengthDays);
+  const from = fed.day === null ? "" : `From day ${roundDay(fed.day)}, when the feeding was changed, `;
+  const feedPerL = (fed.feedGPerDay * s.multipliers.feedLoad) / V;
+  const demand = feedOxygenDemand(fed.s, fed.c);
   const supply = oxygenSupplyCeiling(c);
   if (demand > supply) {
+    const said = `the food needs about ${Math.round(demand)} mg of oxygen a day, more than the water's surface and filter can take up (${Math.round(supply)} mg a day at most): no tank of ${round6(V)} L could carry this feeding.`;
     out.push({
       code: "feedBeyondOxygenSupply",
       severity: "implausible",
-      message: `The food needs about ${Math.round(demand)} mg of oxygen a day, more than the water's surface and filter can take up (${Math.round(supply)} mg a day at most): no tank of ${round6(V)} L could carry this feeding.`,
+      message: from ? from + said : said[0].toUpperCase() + said.slice(1),
       value: round6(demand / supply),
       unit: "× the oxygen supply",
       limit: 1,
-      day: null,
+      day: fed.day === null ? null : roundDay(fed.day),
     });
   }
   if (feedPerL > HEAVY_FEEDING_G_PER_L_DAY) {
     out.push({
       code: "heavyFeedingForVolume",
       severity: "implausible",
-      message: `${round6(feedPerL)} g of food per litre a day is far beyond what aquaria are stocked for; check the food per day and the water volume.`,
+      message: `${from}${round6(feedPerL)} g of food per litre a day is far beyond what aquaria are stocked for; check the food per day and the water volume.`,
       value: round6(feedPerL),
       unit: "g/L/day",
       limit: HEAVY_FEEDING_G_PER_L_DAY,
-      day: null,
+      day: fed.day === null ? null : roundDay(fed.day),
     });
   }
   const caution = OXYGEN.cautionMgPerL.value;

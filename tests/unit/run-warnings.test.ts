@@ -75,6 +75,23 @@ describe("the run's warnings in plain words", () => {
     for (const w of list) expect(w.text).not.toMatch(/dKH/);
   });
 
+  it("dates a feeding warning that a logged feeding change brought, and says so", () => {
+    const list = resultWarnings(
+      {
+        keyFigures: figures(),
+        warnings: [
+          { code: "heavyFeedingForVolume", severity: "implausible", message: "", value: 5, unit: "g/L/day", limit: 0.03, day: 10 },
+          { code: "feedBeyondOxygenSupply", severity: "implausible", message: "", value: 3, unit: "× the oxygen supply", limit: 1, day: 10 },
+        ],
+      },
+      units,
+    );
+    expect(list.map((w) => w.text)).toEqual([
+      expect.stringMatching(/^From day 10, when the feeding was changed, 5 g of food a day per L of water is far beyond/),
+      expect.stringMatching(/^From day 10, when the feeding was changed, the food needs more oxygen than/),
+    ]);
+  });
+
   it("states feeding per volume in the person's volume unit (1 US gal = 3.785411784 L, NIST SP 811)", () => {
     const gallons = displayUnitsFor({ ...DEFAULT_PREFERENCES, volumeUnit: "usgal" });
     const list = resultWarnings(

@@ -83,6 +83,8 @@ export function resultWarnings(
   const nh3 = speciesFactor("ammonia", units);
   const no2 = speciesFactor("nitrite", units);
   const out: ResultWarning[] = [];
+  // A feeding warning dated by a logged feeding change (a journal's replay) says from when.
+  const fromDay = (d: number | null) => (d === null ? "" : `From ${day(d)}, when the feeding was changed, `);
 
   if (k.peakFreeNh3.value > FREE_NH3_CAUTION_MG_N) {
     const ratio = k.peakFreeNh3.value / FREE_NH3_CAUTION_MG_N;
@@ -141,7 +143,7 @@ export function resultWarnings(
           code: w.code,
           severity: w.severity,
           figure: null,
-          text: `${formatNumber(w.value * litresPerUnit)} g of food a day per ${labels.volume} of water is far beyond what aquaria are stocked for (about ${formatNumber(w.limit * litresPerUnit)} g at most): check the food per day and the water volume.`,
+          text: `${fromDay(w.day)}${formatNumber(w.value * litresPerUnit)} g of food a day per ${labels.volume} of water is far beyond what aquaria are stocked for (about ${formatNumber(w.limit * litresPerUnit)} g at most): check the food per day and the water volume.`,
         });
         break;
       case "feedBeyondOxygenSupply":
@@ -149,7 +151,7 @@ export function resultWarnings(
           code: w.code,
           severity: w.severity,
           figure: null,
-          text: `The food needs more oxygen than the water's surface and filter can take up (${howFarAbove(w.value)} the most they bring in): no tank${volumeL === undefined ? "" : ` of ${formatNumber(toDisplay("volume", volumeL, units))} ${labels.volume}`} could carry this feeding.`,
+          text: `${fromDay(w.day)}${w.day === null ? "The" : "the"} food needs more oxygen than the water's surface and filter can take up (${howFarAbove(w.value)} the most they bring in): no tank${volumeL === undefined ? "" : ` of ${formatNumber(toDisplay("volume", volumeL, units))} ${labels.volume}`} could carry this feeding.`,
         });
         break;
       default:
