@@ -1,0 +1,83 @@
+/**
+ * The forecast treats an overdue task as the calendar does: done today, once, however many
+ * intervals were missed, and the timetable resumed an interval after today (a model choice);
+ * never skipped quietly until its next period. Its sentence says what it assumed. The tank is
+ * our own worked example.
+ */
+import { describe, expect, it, vi } from "vitest";
+import { plantGroupFromForm, simulate, type Scenario, type TankEventInput } from "../../models/index";
+import { bareTank } from "../models/helpers";
+
+const asked: TankEventInput[][] = [];
+vi.mock("~/features/journal/journal-runs.server", () => ({
+  // The engine in-process, keeping what each forecast run was given.
+  simulateOnPool: async (scenario: Scenario, events: TankEventInput[]) => {
+    asked.push(events);
+    return simulate(scenario, { events });
+  },
+}));
+const { forecastJournal } = await import("~/features/journal/journal-replay.server");
+const { forecastSentence } = await import("~/features/journal/forecast-text.server");
+const { DEFAULT_PREFERENCES, displayUnitsFor } = await import("~/utils/display-units");
+type JournalEntry = import("~/features/journal/journal.server").JournalEntry;
+
+const DAY = 86_400_000;
+const NOW = Date.UTC(2026, 11, 4, 12);
+const TODAY = Math.floor(NOW / DAY) * DAY;
+
+const TANK: Scenario = bareTank({
+  water: { volumeL: 100, startNitrate: 2 },
+  fish: { feedGPerDay: 0.3 },
+  plants: [
+    plantGroupFromForm("stem", {
+      id: "stems",
+      name: "Stem plants",
+      startMassG: 20,
+      maxMassG: 60,
+      trim: { rule: "everyDays", everyDays: 3, trimToFraction: 0.5, fullAtFraction: 0.9 },
+    }),
+  ],
+  filter: { cleaningIntervalDays: 30 },
+  maintenance: { waterChangeIntervalDays: 7, waterChangeFraction: 0.3 },
+  targets: { nitrateHigh: 50 },
+});
+
+const entry = (id: number, daysAgo: number, kind: JournalEntry["kind"], details: JournalEntry["details"]) => ({
+  id,
+  doneAt: TODAY - daysAgo * DAY + 9 * 3_600_000,
+  kind,
+  details,
+  note: "",
+});
+// Water due 3 days ago (1 December); the stems' trim due 8 days ago and missed three times since;
+// the filter cleaned 5 days ago, not due.
+const JOURNAL: JournalEntry[] = [
+  entry(1, 11, "plants_trimmed", { plantGroup: "Stem plants", plantDryG: 5 }),
+  entry(2, 10, "water_change", { share: 0.3 }),
+  entry(3, 5, "filter_cleaned", { thoroughness: "thorough" }),
+];
+
+describe("the forecast with overdue tasks", () => {
+  it("plans each overdue task today, once, resumes from today, and says so", async () => {
+    asked.length = 0;
+    const f = await forecastJournal(TANK, JOURNAL, NOW);
+    expect(f).not.toBeNull();
+    const startMs = TODAY - 11 * DAY; // the journal's first day
+    const days = (kind: string, groupId?: string) =>
+      asked[0]
+        .filter((e) => e.kind === kind && (groupId === undefined || (e.kind === "trim" && e.groupId === groupId)))
+        .map((e) => (startMs + Math.round(e.day) * DAY - TODAY) / DAY)
+        .filter((d) => d >= 0 && d < 22);
+    // Not skipped to day 4 of the old grid: today, then a week on from today.
+    expect(days("waterChange")).toEqual([0, 7, 14, 21]);
+    expect(days("trim", "stems")).toEqual([0, 3, 6, 9, 12, 15, 18, 21]);
+    expect(days("filterCleaning")).toEqual([]);
+    expect(f!.overdue.map((t) => ({ ...t, sinceMs: (t.sinceMs - TODAY) / DAY }))).toEqual([
+      { kind: "waterChange", group: null, sinceMs: -3 },
+      { kind: "trim", group: "Stem plants", sinceMs: -8 },
+    ]);
+    expect(forecastSentence(f, displayUnitsFor(DEFAULT_PREFERENCES))).toMatch(
+      / It assumes the overdue water change \(due since 1 December\) and trim of Stem plants \(due since 26 November\) are done today\.$/,
+    );
+  });
+});
