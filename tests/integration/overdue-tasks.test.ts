@@ -9,11 +9,12 @@ import { describe, expect, it } from "vitest";
 import { reminderMail } from "~/features/reminders/reminder-mail.server";
 import type { ReminderRow } from "~/features/reminders/reminder-schedule.server";
 import { loader as journalLoader } from "~/routes/journal/journal";
+import { action as planAction } from "~/routes/tanks/plan";
 import { upcomingView } from "~/routes/tanks/upcoming-view.server";
 import { plantGroupFromForm, type ScenarioInput } from "../../models/index";
 import { calendarEvents } from "../support/calendar";
 import { addThroughPage, DAY, day } from "../support/journal";
-import { call, get } from "../support/routes";
+import { call, get, post } from "../support/routes";
 import { createScenario, createTank } from "../support/tanks";
 import { userWithCookie } from "../support/users";
 
@@ -151,6 +152,27 @@ describe("an overdue task", () => {
     expect(days("Trim plants")).toEqual([10, 20, 30, 40, 50, 60, 70, 80]);
     expect(events.filter((e) => e.summary.includes("overdue")).map((e) => e.summary)).toEqual([
       `Water change (30 %) — overdue since ${since(3)} · Test tank`,
+    ]);
+  });
+
+  it("marked done today, it leaves the list and the next one is an interval after today, as the forecast assumed", async () => {
+    const { keeper, tankId } = await tankWith(
+      { maintenance: { waterChangeIntervalDays: 7, waterChangeFraction: 0.3 } },
+      [waterChange(10)],
+    );
+    const task = upcomingView(tankId).find((t) => t.title.includes("overdue"))!;
+    expect(task.when).toBe(when(0));
+    const id = String(tankId);
+    const r = await call(
+      planAction,
+      post(`/tanks/${id}/plan`, { intent: "done", back: "tank", task: task.key, ...task.values }, keeper.cookie),
+      { tankId: id },
+    );
+    expect(r.status).toBe(302);
+    const after = upcomingView(tankId).filter((t) => t.title.startsWith("Water change"));
+    expect(after.map((t) => [t.when, t.title])).toEqual([
+      [when(7), "Water change (30 %)"],
+      [when(14), "Water change (30 %)"],
     ]);
   });
 });
