@@ -175,4 +175,33 @@ describe("an overdue task", () => {
       [when(14), "Water change (30 %)"],
     ]);
   });
+
+  // Times are wall-clock times (app/utils/dates.ts): a keeper east of UTC logs today's change at a
+  // time still ahead of the server's clock, and may date one tomorrow (a day of slack is allowed).
+  it("the tank page and the calendar feed count the same entries: one dated later today is done, one dated tomorrow not yet", async () => {
+    const { keeper, tankId } = await tankWith(
+      {
+        maintenance: { waterChangeIntervalDays: 7, waterChangeFraction: 0.3 },
+        filter: { cleaningIntervalDays: 30 },
+      },
+      [
+        waterChange(10),
+        { ...waterChange(0), date: `${day(0)}T23:59` },
+        { date: day(45), kind: "filter_cleaned", filter_thoroughness: "thorough" },
+        { date: day(-1), kind: "filter_cleaned", filter_thoroughness: "thorough" },
+      ],
+    );
+    // Water: done today, next in a week; filter: due 15 days ago, overdue until tomorrow's entry is.
+    const page = upcomingView(tankId).map((t) => `${t.when}: ${t.title}`);
+    expect(page).toEqual([
+      `${when(0)}: Clean the filter — overdue since ${since(15)}`,
+      `${when(7)}: Water change (30 %)`,
+      `${when(14)}: Water change (30 %)`,
+    ]);
+    const feed = (await calendarEvents(keeper.cookie, String(tankId)))
+      .filter((e) => e.startMs < today() + 21 * DAY)
+      .sort((a, b) => a.startMs - b.startMs)
+      .map((e) => `${when((e.startMs - today()) / DAY)}: ${e.summary.replace(" · Test tank", "")}`);
+    expect(feed).toEqual(page);
+  });
 });

@@ -80,4 +80,30 @@ describe("the forecast with overdue tasks", () => {
       / It assumes the overdue water change \(due since 1 December\) and trim of Stem plants \(due since 26 November\) are done today\.$/,
     );
   });
+
+  // Times are wall-clock times (app/utils/dates.ts): a keeper east of UTC logs today's change at
+  // an hour still ahead of the server's clock. It is done today: in the run at its hour, and the
+  // next planned a week on, not planned again today nor left out.
+  it("counts an entry dated later today as done today, and runs it", async () => {
+    asked.length = 0;
+    const journal = [
+      entry(1, 7, "water_change", { share: 0.3 }),
+      { ...entry(2, 0, "water_change", { share: 0.4 }), doneAt: TODAY + 23 * 3_600_000 },
+    ];
+    const f = await forecastJournal(TANK, journal, NOW);
+    expect(f!.overdue).toEqual([]);
+    const startMs = TODAY - 7 * DAY;
+    const changes = asked[0]
+      .filter((e) => e.kind === "waterChange" && startMs + e.day * DAY >= TODAY)
+      .map((e) => ({
+        hoursFromToday: Math.round((startMs + e.day * DAY - TODAY) / 3_600_000),
+        fraction: e.kind === "waterChange" ? e.fraction : null,
+      }))
+      .filter((e) => e.hoursFromToday < 15 * 24);
+    expect(changes).toEqual([
+      { hoursFromToday: 23, fraction: 0.4 },
+      { hoursFromToday: 7 * 24, fraction: 0.3 },
+      { hoursFromToday: 14 * 24, fraction: 0.3 },
+    ]);
+  });
 });

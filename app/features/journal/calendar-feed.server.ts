@@ -7,7 +7,7 @@
 import { and, eq, isNull } from "drizzle-orm";
 import ical from "ical-generator";
 import type { Scenario } from "~models";
-import { plannedAfterJournal } from "~/features/journal/plan-resume.server";
+import { doneByEndOf, plannedAfterJournal } from "~/features/journal/plan-resume.server";
 import { getDb } from "~/db/client.server";
 import { scenarios, tanks } from "~/db/schema";
 import { calendarFeeds } from "~/db/schema-care";
@@ -106,7 +106,7 @@ export function calendarFor(token: string, now = Date.now()): string | null {
   if (!tank || !settings) return null;
   const s = plannedSettings(tank.id, settings);
   const cal = ical({ name: `${tank.name} · Fernwater`, prodId: { company: "Fernwater", product: "tank-calendar" } });
-  for (const t of upcomingTasks(s, lastTaskEntries(tank.id), now)) {
+  for (const t of upcomingTasks(s, lastTaskEntries(tank.id, doneByEndOf(now)), now)) {
     cal.createEvent({
       // Keyed by the day it fell due, so an overdue task stays one event that moves along with today.
       id: `${feed.id}-${t.kind}${t.groupId ? `-${t.groupId}` : ""}-${t.dueMs}@fernwater`,

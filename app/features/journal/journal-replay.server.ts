@@ -14,7 +14,7 @@ import {
   type TankEventInput,
 } from "~models";
 import type { JournalEntry } from "~/features/journal/journal.server";
-import { plannedAfterJournal } from "~/features/journal/plan-resume.server";
+import { doneByEndOf, plannedAfterJournal } from "~/features/journal/plan-resume.server";
 import { simulateOnPool } from "~/features/journal/journal-runs.server";
 import type { SearchLever } from "~/features/sweeps/search-levers.server";
 import { findLeastChange, type Evaluation } from "~/features/sweeps/target-search.server";
@@ -213,7 +213,8 @@ export async function forecastJournal(
   const total = Math.min(MAX_DAYS, today + FORECAST_DAYS);
   const { events } = journalEvents(
     s,
-    entries.filter((e) => e.doneAt >= startMs && e.doneAt <= now),
+    // Entries dated today count as done, whatever their hour, as the planner counts them.
+    entries.filter((e) => e.doneAt >= startMs && e.doneAt < doneByEndOf(now)),
     startMs,
   );
   // The plan as the calendar and the reminders show it: each kind resumed at its own last entry.

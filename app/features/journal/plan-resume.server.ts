@@ -20,12 +20,19 @@ type TankEvent = ReturnType<typeof plannedEvents>[number];
 /** A planned event; `overdueSince` (a day of the run) when it fell due before today and is planned today. */
 export type PlannedEvent = TankEvent & { overdueSince?: number };
 
+/**
+ * The end of `now`'s day: the planner counts in whole days, so an entry dated today counts as done
+ * today whatever its hour (a keeper's wall-clock time may be ahead of the server's), and one dated
+ * after today is not done yet. The calendar's query and the forecast use the same bound.
+ */
+export const doneByEndOf = (now: number) => startOfDay(now) + DAY_MS;
+
 const sameGroup = (g: { id: string; name: string }, name: string | undefined) =>
   [g.id, g.name].some((n) => n.toLowerCase() === (name ?? "").trim().toLowerCase());
 
 /**
  * The planned events on days [0, `toDay`) of a run whose day 0 is `originMs` (a start of day):
- * each kind resumed at the day (start of day) of its last entry done by `now`; a kind the
+ * each kind resumed at the day (start of day) of its last entry dated today or before; a kind the
  * journal has none of starts from today (its first one an interval after today). An overdue
  * task is planned on today's day, once, with `overdueSince`. Events before day 0 are not
  * returned.
@@ -38,7 +45,7 @@ export function plannedAfterJournal(
   toDay: number,
 ): PlannedEvent[] {
   const today = (startOfDay(now) - originMs) / DAY_MS;
-  const done = entries.filter((e) => e.doneAt <= now);
+  const done = entries.filter((e) => e.doneAt < doneByEndOf(now));
   const lastDay = (match: (e: JournalEntry) => boolean) => {
     const last = done.filter(match).at(-1);
     return last === undefined ? null : (startOfDay(last.doneAt) - originMs) / DAY_MS;
