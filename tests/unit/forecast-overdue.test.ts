@@ -106,4 +106,33 @@ describe("the forecast with overdue tasks", () => {
       { hoursFromToday: 14 * 24, fraction: 0.3 },
     ]);
   });
+
+  it("plans an overdue ammonia dose (fishless cycling) today, once, with a half-day interval too", async () => {
+    const cycling = (doseIntervalDays: number) =>
+      bareTank({
+        water: { volumeL: 100 },
+        fishlessCycling: { enabled: true, doseMgNPerL: 1, doseIntervalDays, stopRule: "never" },
+        targets: { nitrateHigh: 50 },
+      });
+    const journal = [entry(1, 5, "ammonia_dosed", { ammoniaMgN: 1 })];
+    const startMs = TODAY - 5 * DAY;
+    const doses = () =>
+      asked[0]
+        .filter((e) => e.kind === "dose")
+        .map((e) => (startMs + e.day * DAY - TODAY) / DAY)
+        .filter((d) => d >= -5 && d < 5);
+    // Every 2 days: due 3 days ago (1 December), missed twice; today, then every 2 days from today.
+    asked.length = 0;
+    const f = await forecastJournal(cycling(2), journal, NOW);
+    // The logged dose (5 days ago, 09:00), then today and every 2 days from today.
+    expect(doses()).toEqual([-5 + 9 / 24, 0, 2, 4]);
+    expect(forecastSentence(f, displayUnitsFor(DEFAULT_PREFERENCES))).toMatch(
+      / It assumes the overdue ammonia dose \(due since 1 December\) is done today\.$/,
+    );
+    // Every half day: first due at noon 5 days ago, the day it fell due (29 November).
+    asked.length = 0;
+    const half = await forecastJournal(cycling(0.5), journal, NOW);
+    expect(doses().filter((d) => d >= 0 && d < 1.5)).toEqual([0, 0.5, 1]);
+    expect(half!.overdue.map((t) => (t.sinceMs - TODAY) / DAY)).toEqual([-5]);
+  });
 });

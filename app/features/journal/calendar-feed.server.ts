@@ -74,7 +74,7 @@ export function upcomingTasks(s: Scenario, entries: readonly JournalEntry[], now
   const tasks = planned.map((e) => {
     const group = e.kind === "trim" ? s.plants.find((g) => g.id === e.groupId) : undefined;
     const atMs = today + Math.round(e.day) * DAY_MS;
-    const overdueSinceMs = e.overdueSince === undefined ? null : today + Math.round(e.overdueSince) * DAY_MS;
+    const overdueSinceMs = e.overdueSince === undefined ? null : today + Math.floor(e.overdueSince) * DAY_MS;
     return {
       kind: e.kind,
       groupId: group?.id,

@@ -230,7 +230,7 @@ export async function forecastJournal(
           {
             kind: e.kind,
             group: e.kind === "trim" ? (s.plants.find((g) => g.id === e.groupId)?.name ?? e.groupId) : null,
-            sinceMs: startMs + Math.round(e.overdueSince) * DAY_MS,
+            sinceMs: startMs + Math.floor(e.overdueSince) * DAY_MS,
           },
         ],
   );
