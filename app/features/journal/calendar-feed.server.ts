@@ -7,7 +7,7 @@
 import { and, eq, isNull } from "drizzle-orm";
 import ical from "ical-generator";
 import type { Scenario } from "~models";
-import { plannedAfterJournal } from "~/features/journal/plan-resume.server";
+import { doneByEndOf, plannedAfterJournal } from "~/features/journal/plan-resume.server";
 import { getDb } from "~/db/client.server";
 import { scenarios, tanks } from "~/db/schema";
 import { calendarFeeds } from "~/db/schema-care";
@@ -16,6 +16,7 @@ import { lastTaskEntries } from "~/features/journal/journal.server";
 import { readStoredSettings } from "~/features/runs/simulation.server";
 import { plannedSettings } from "~/features/tanks/maintenance-plan.server";
 import { hashToken, randomToken } from "~/utils/crypto.server";
+import { dayText } from "~/features/journal/forecast-text.server";
 import { DAY_MS, startOfDay } from "~/utils/dates";
 
 const CALENDAR_DAYS = 90;
@@ -63,22 +64,29 @@ const TASK_TITLES: Record<string, string> = {
 /**
  * The planned tasks from today for `days` days: the scenario's timetable, each kind resumed at
  * its last logged entry (water change, filter cleaning, a group's trim), so marking a task done
- * moves its next occurrence on from that date.
+ * moves its next occurrence on from that date. An overdue task is due today, once, and says
+ * since when ("Water change (30 %) — overdue since 1 December"); `dueMs` is the day it fell due.
  */
 export function upcomingTasks(s: Scenario, entries: readonly JournalEntry[], now: number, days = CALENDAR_DAYS) {
   const today = startOfDay(now);
   // Planned doses (fishless cycling) are not calendar tasks.
-  const planned = plannedAfterJournal(s, entries, today, now, days, 0).filter((e) => e.kind !== "dose");
+  const planned = plannedAfterJournal(s, entries, today, now, days).filter((e) => e.kind !== "dose");
   const tasks = planned.map((e) => {
     const group = e.kind === "trim" ? s.plants.find((g) => g.id === e.groupId) : undefined;
+    const atMs = today + Math.round(e.day) * DAY_MS;
+    const overdueSinceMs = e.overdueSince === undefined ? null : today + Math.floor(e.overdueSince) * DAY_MS;
     return {
       kind: e.kind,
       groupId: group?.id,
       title:
         TASK_TITLES[e.kind] +
         (e.kind === "waterChange" ? ` (${Math.round(e.fraction * 100)} %)` : "") +
-        (group ? ` (${group.name})` : ""),
-      atMs: today + Math.round(e.day) * DAY_MS,
+        (group ? ` (${group.name})` : "") +
+        (overdueSinceMs === null ? "" : ` — overdue since ${dayText(overdueSinceMs)}`),
+      atMs,
+      /** The day it fell due: `atMs`, or an earlier day when overdue. */
+      dueMs: overdueSinceMs ?? atMs,
+      overdue: overdueSinceMs !== null,
     };
   });
   return tasks.sort((a, b) => a.atMs - b.atMs);
@@ -98,13 +106,16 @@ export function calendarFor(token: string, now = Date.now()): string | null {
   if (!tank || !settings) return null;
   const s = plannedSettings(tank.id, settings);
   const cal = ical({ name: `${tank.name} · Fernwater`, prodId: { company: "Fernwater", product: "tank-calendar" } });
-  for (const t of upcomingTasks(s, lastTaskEntries(tank.id), now)) {
+  for (const t of upcomingTasks(s, lastTaskEntries(tank.id, doneByEndOf(now)), now)) {
     cal.createEvent({
-      id: `${feed.id}-${t.kind}-${t.atMs}@fernwater`,
+      // Keyed by the day it fell due, so an overdue task stays one event that moves along with today.
+      id: `${feed.id}-${t.kind}${t.groupId ? `-${t.groupId}` : ""}-${t.dueMs}@fernwater`,
       start: new Date(t.atMs),
       allDay: true,
       summary: `${t.title} · ${tank.name}`,
-      description: "Planned in Fernwater. Test your water before and after; the model is not a water test.",
+      description:
+        (t.overdue ? `Due since ${dayText(t.dueMs)} and not logged in the journal: shown today until it is. ` : "") +
+        "Planned in Fernwater. Test your water before and after; the model is not a water test.",
     });
   }
   return cal.toString();

@@ -2,7 +2,7 @@
  * The forecast in plain words, in the person's units: one sentence for the journal page and
  * the reminder e-mails alike.
  */
-import type { Forecast } from "~/features/journal/journal-replay.server";
+import type { Forecast, OverdueTask } from "~/features/journal/journal-replay.server";
 import { resultWarnings } from "~/features/runs/run-warnings";
 import { DAY_MS } from "~/utils/dates";
 import { nitrateText, type DisplayUnits } from "~/utils/display-units";
@@ -11,12 +11,42 @@ import { nitrateText, type DisplayUnits } from "~/utils/display-units";
 export const dayText = (ms: number) =>
   new Date(ms).toLocaleDateString("en-GB", { day: "numeric", month: "long", timeZone: "UTC" });
 
+const TASK_WORDS: Record<OverdueTask["kind"], string> = {
+  waterChange: "water change",
+  filterCleaning: "filter cleaning",
+  trim: "trim",
+  dose: "ammonia dose",
+  gravelCleaning: "gravel cleaning",
+  plants: "planting",
+  feeding: "feeding change",
+};
+
+/**
+ * "It assumes the overdue water change (due since 1 December) and trim of Stem plants (due since
+ * 28 November) are done today.": an overdue task is in the forecast as done today, never skipped
+ * quietly. Null when nothing is overdue.
+ */
+function overdueSentence(overdue: readonly OverdueTask[]): string | null {
+  if (overdue.length === 0) return null;
+  const parts = overdue.map(
+    (t) => `${TASK_WORDS[t.kind]}${t.group ? ` of ${t.group}` : ""} (due since ${dayText(t.sinceMs)})`,
+  );
+  const list = parts.length === 1 ? parts[0] : `${parts.slice(0, -1).join(", ")} and ${parts.at(-1)}`;
+  return `It assumes the overdue ${list} ${parts.length === 1 ? "is" : "are"} done today.`;
+}
+
 /**
  * "Nitrate passes your upper target of 25 mg/L NO3 around 14 December (40 mg/L NO3 before the
  * next planned change); a 40 % change by 12 December keeps it below 25 mg/L NO3 until then."
+ * followed by what it assumes of overdue tasks.
  */
 export function forecastSentence(f: Forecast | null, units: DisplayUnits): string | null {
   if (!f) return null;
+  const assumed = overdueSentence(f.overdue);
+  return assumed ? `${nitrateSentence(f, units)} ${assumed}` : nitrateSentence(f, units);
+}
+
+function nitrateSentence(f: Forecast, units: DisplayUnits): string {
   if (f.kind === "below")
     return `Under your planned schedule nitrate stays below your upper target for the next ${f.horizonDays} days.`;
   const cross = `Nitrate passes your upper target of ${nitrateText(f.high, units)} around ${dayText(f.crossMs)} (${nitrateText(f.peak, units)} before the next planned change)`;

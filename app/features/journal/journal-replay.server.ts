@@ -14,7 +14,7 @@ import {
   type TankEventInput,
 } from "~models";
 import type { JournalEntry } from "~/features/journal/journal.server";
-import { plannedAfterJournal } from "~/features/journal/plan-resume.server";
+import { doneByEndOf, plannedAfterJournal } from "~/features/journal/plan-resume.server";
 import { simulateOnPool } from "~/features/journal/journal-runs.server";
 import type { SearchLever } from "~/features/sweeps/search-levers.server";
 import { findLeastChange, type Evaluation } from "~/features/sweeps/target-search.server";
@@ -154,7 +154,13 @@ export type Forecast = (
       peak: number;
       fix: { share: number; byMs: number; untilMs: number } | null;
     }
-) & { ahead: ForecastCautions };
+) & {
+  ahead: ForecastCautions;
+  /** Overdue tasks the forecast assumes are done today (its sentence says so), with the day each fell due. */
+  overdue: OverdueTask[];
+};
+
+export type OverdueTask = { kind: TankEventInput["kind"]; group: string | null; sinceMs: number };
 
 /** The forecast run's cautions from `today` on (its series are six-hourly; the warnings' days are the engine's). */
 function cautionsAhead(r: SimulationResult, today: number, startMs: number): ForecastCautions {
@@ -207,14 +213,28 @@ export async function forecastJournal(
   const total = Math.min(MAX_DAYS, today + FORECAST_DAYS);
   const { events } = journalEvents(
     s,
-    entries.filter((e) => e.doneAt >= startMs && e.doneAt <= now),
+    // Entries dated today count as done, whatever their hour, as the planner counts them.
+    entries.filter((e) => e.doneAt >= startMs && e.doneAt < doneByEndOf(now)),
     startMs,
   );
   // The plan as the calendar and the reminders show it: each kind resumed at its own last entry.
   // From the start of today, as the calendar counts: a task due today is in the forecast, and a
   // kind never logged starts an interval after today (not after tomorrow).
+  // An overdue task is planned today, once (plan-resume.server.ts): assumed done today, never skipped.
   const todayStart = (startOfDay(now) - startMs) / DAY_MS;
-  const planned = plannedAfterJournal(s, entries, startMs, now, total, todayStart).filter((e) => e.day >= todayStart);
+  const resumed = plannedAfterJournal(s, entries, startMs, now, total).filter((e) => e.day >= todayStart);
+  const overdue: OverdueTask[] = resumed.flatMap((e) =>
+    e.overdueSince === undefined
+      ? []
+      : [
+          {
+            kind: e.kind,
+            group: e.kind === "trim" ? (s.plants.find((g) => g.id === e.groupId)?.name ?? e.groupId) : null,
+            sinceMs: startMs + Math.floor(e.overdueSince) * DAY_MS,
+          },
+        ],
+  );
+  const planned: TankEventInput[] = resumed.map(({ overdueSince: _since, ...e }) => e);
   const scenario: Scenario = { ...s, run: { ...s.run, lengthDays: total, outputIntervalDays: 0.25 } };
   // Each run of the forecast and its search on the engine pool, as the page's other runs.
   const run = (extra: TankEventInput[]) => simulateOnPool(scenario, [...events, ...planned, ...extra], ownerId);
@@ -224,7 +244,7 @@ export async function forecastJournal(
   const base = await run([]);
   const k = base.series.t.findIndex((t, i) => t >= today && base.series.no3[i] > high);
   const ahead = cautionsAhead(base, today, startMs);
-  if (k < 0) return { kind: "below", horizonDays: total - today, ahead };
+  if (k < 0) return { kind: "below", horizonDays: total - today, ahead, overdue };
   const crossDay = base.series.t[k];
   const fixDay = Math.max(today, Math.floor(crossDay) - 2);
   // Until the next planned change, or a week when none is planned (model choice, no source).
@@ -245,5 +265,5 @@ export async function forecastJournal(
     outcome.status === "met"
       ? { share: outcome.value / 100, byMs: startMs + fixDay * DAY_MS, untilMs: startMs + nextPlanned * DAY_MS }
       : null;
-  return { kind: "crosses", crossMs: startMs + crossDay * DAY_MS, high, peak, fix, ahead };
+  return { kind: "crosses", crossMs: startMs + crossDay * DAY_MS, high, peak, fix, ahead, overdue };
 }

@@ -2,7 +2,7 @@
  * The journal's rows: listing, adding (one or all of a file's rows in one transaction), editing
  * and deleting, always within the owner's tank (the caller has checked the tank is theirs).
  */
-import { and, asc, desc, eq, inArray, max, sql } from "drizzle-orm";
+import { and, asc, desc, eq, inArray, lt, max, sql } from "drizzle-orm";
 import { getDb, type Db } from "~/db/client.server";
 import { journalEntries } from "~/db/schema-care";
 import {
@@ -48,16 +48,20 @@ export function listJournal(tankId: number): JournalEntry[] {
 
 /**
  * The newest entry of each kind a planned task resumes from (a water change, a filter cleaning,
- * each plant group's trim), oldest first: what the calendar feed needs, without reading a journal
+ * each plant group's trim) dated before `before`, oldest first: what the calendar feed needs, without reading a journal
  * of 20,000 entries on every poll of an address anyone holding it may ask for (about 0.2 s).
  */
-export function lastTaskEntries(tankId: number): JournalEntry[] {
+export function lastTaskEntries(tankId: number, before: number): JournalEntry[] {
   const db = getDb();
+  // Only entries dated before `before`, as the planner counts them: a later one must not hide the
+  // one the planner resumes from (the calendar would lose an overdue task the tank page shows).
+  const mine = (kind: EntryKind) =>
+    and(eq(journalEntries.tankId, tankId), eq(journalEntries.kind, kind), lt(journalEntries.doneAt, new Date(before)));
   const newest = (kind: EntryKind) =>
     db
       .select()
       .from(journalEntries)
-      .where(and(eq(journalEntries.tankId, tankId), eq(journalEntries.kind, kind)))
+      .where(mine(kind))
       .orderBy(desc(journalEntries.doneAt), desc(journalEntries.id))
       .limit(1)
       .get();
@@ -66,7 +70,7 @@ export function lastTaskEntries(tankId: number): JournalEntry[] {
   const trims = db
     .select({ id: journalEntries.id, doneAt: max(journalEntries.doneAt) })
     .from(journalEntries)
-    .where(and(eq(journalEntries.tankId, tankId), eq(journalEntries.kind, "plants_trimmed")))
+    .where(mine("plants_trimmed"))
     .groupBy(group)
     .all();
   const trimRows = trims.length

@@ -5,6 +5,11 @@
  * logged cleaning, a group's next trim after its last logged trim. One function, so the
  * forecast, the upcoming list, the calendar feed and the reminder mail plan the same days
  * (a maintenance interval counts from when the task was last done: common practice, no source).
+ *
+ * A task whose due day has passed with no entry is overdue: it is planned once, today, marked
+ * with the day it fell due (however many intervals were missed), and the timetable resumes an
+ * interval after today, as if it were done today — what marking it done today would plan (a
+ * model choice). It never drops off because its day is in the past.
  */
 import { plannedEvents, type Scenario } from "~models";
 import type { JournalEntry } from "~/features/journal/journal.server";
@@ -12,13 +17,25 @@ import { DAY_MS, startOfDay } from "~/utils/dates";
 
 type TankEvent = ReturnType<typeof plannedEvents>[number];
 
+/** A planned event; `overdueSince` (a day of the run) when it fell due before today and is planned today. */
+export type PlannedEvent = TankEvent & { overdueSince?: number };
+
+/**
+ * The end of `now`'s day: the planner counts in whole days, so an entry dated today counts as done
+ * today whatever its hour (a keeper's wall-clock time may be ahead of the server's), and one dated
+ * after today is not done yet. The calendar's query and the forecast use the same bound.
+ */
+export const doneByEndOf = (now: number) => startOfDay(now) + DAY_MS;
+
 const sameGroup = (g: { id: string; name: string }, name: string | undefined) =>
   [g.id, g.name].some((n) => n.toLowerCase() === (name ?? "").trim().toLowerCase());
 
 /**
- * The planned events on days [0, `toDay`) of a run whose day 0 is `originMs`: each kind resumed
- * at the day (start of day) of its last entry done by `now`, or at `noneDay` when the journal has
- * none of that kind. Events before day 0 are not returned; the caller drops those before today.
+ * The planned events on days [0, `toDay`) of a run whose day 0 is `originMs` (a start of day):
+ * each kind resumed at the day (start of day) of its last entry dated today or before; a kind the
+ * journal has none of starts from today (its first one an interval after today). An overdue
+ * task is planned on today's day, once, with `overdueSince`. Events before day 0 are not
+ * returned.
  */
 export function plannedAfterJournal(
   s: Scenario,
@@ -26,35 +43,42 @@ export function plannedAfterJournal(
   originMs: number,
   now: number,
   toDay: number,
-  noneDay: number,
-): TankEvent[] {
-  const done = entries.filter((e) => e.doneAt <= now);
+): PlannedEvent[] {
+  const today = (startOfDay(now) - originMs) / DAY_MS;
+  const done = entries.filter((e) => e.doneAt < doneByEndOf(now));
   const lastDay = (match: (e: JournalEntry) => boolean) => {
     const last = done.filter(match).at(-1);
     return last === undefined ? null : (startOfDay(last.doneAt) - originMs) / DAY_MS;
   };
   // A timetable's doses start on its first day; resumed after a logged dose, that day is the logged one.
-  const of = (kind: TankEvent["kind"], last: number | null) =>
-    plannedEvents(s, toDay, last ?? noneDay).filter(
-      (e) => e.kind === kind && e.day >= 0 && e.day < toDay && (last === null || e.day > last),
-    );
+  const of = (mine: (e: TankEvent) => boolean, last: number | null): PlannedEvent[] => {
+    const after = (from: number) => plannedEvents(s, toDay, from).filter((e) => mine(e) && e.day > from);
+    const fromLast =
+      last === null ? plannedEvents(s, toDay, today).filter((e) => mine(e) && e.day >= today) : after(last);
+    const missed = fromLast.find((e) => e.day < today);
+    const planned: PlannedEvent[] = missed
+      ? [{ ...missed, day: today, overdueSince: missed.day }, ...after(today)]
+      : fromLast;
+    return planned.filter((e) => e.day >= 0 && e.day < toDay);
+  };
+  const kind = (k: TankEvent["kind"]) => (e: TankEvent) => e.kind === k;
   const trims = s.plants.flatMap((g) =>
     of(
-      "trim",
+      (e) => e.kind === "trim" && e.groupId === g.id,
       lastDay((e) => e.kind === "plants_trimmed" && sameGroup(g, e.details.plantGroup)),
-    ).filter((e) => e.kind === "trim" && e.groupId === g.id),
+    ),
   );
   return [
     ...of(
-      "waterChange",
+      kind("waterChange"),
       lastDay((e) => e.kind === "water_change"),
     ),
     ...of(
-      "filterCleaning",
+      kind("filterCleaning"),
       lastDay((e) => e.kind === "filter_cleaned"),
     ),
     ...of(
-      "dose",
+      kind("dose"),
       lastDay((e) => e.kind === "ammonia_dosed"),
     ),
     ...trims,
