@@ -223,6 +223,24 @@ describe("the journal", () => {
     expect(page.data.replay.budget.inputs.total).toBeGreaterThanOrEqual(row!.mg);
   });
 
+  it("says how many entries are older than the replay's two years, instead of leaving them out silently", async () => {
+    const { keeper, tankId } = await keeperWithTank();
+    const now = Date.now();
+    getDb()
+      .insert(journalEntries)
+      .values([
+        { tankId: Number(tankId), doneAt: new Date(now - 800 * DAY), kind: "note", details: {} },
+        { tankId: Number(tankId), doneAt: new Date(now - 760 * DAY), kind: "water_change", details: { share: 0.5 } },
+        { tankId: Number(tankId), doneAt: new Date(now - 10 * DAY), kind: "water_change", details: { share: 0.3 } },
+      ])
+      .run();
+    const page = await call(pageLoader, get(`/tanks/${tankId}/journal`, keeper.cookie), { tankId });
+    // 730 days replayed at most (a model choice, journal-replay.server.ts).
+    expect(page.data.replay.unused).toEqual([
+      expect.stringMatching(/^2 entries from before \d{4}-\d{2}-\d{2} are left out: the replay covers the last two years\.$/),
+    ]);
+  });
+
   it("round-trips through CSV: the export uploads again to the same entries", async () => {
     const { keeper, tankId } = await keeperWithTank();
     const csv = [

@@ -19,7 +19,7 @@ import { simulateOnPool } from "~/features/journal/journal-runs.server";
 import type { SearchLever } from "~/features/sweeps/search-levers.server";
 import { findLeastChange, type Evaluation } from "~/features/sweeps/target-search.server";
 import type { ToxicPeaks } from "~/features/runs/run-warnings";
-import { DAY_MS, startOfDay } from "~/utils/dates";
+import { DAY_MS, formatDate, startOfDay } from "~/utils/dates";
 
 const MAX_DAYS = 730;
 
@@ -109,6 +109,12 @@ export function replayInputs(s: Scenario, entries: readonly JournalEntry[], now 
     entries.filter((e) => e.doneAt >= startMs),
     startMs,
   );
+  // The replay covers at most the last two years; older entries are said, not dropped silently.
+  const older = entries.filter((e) => e.doneAt < startMs).length;
+  if (older > 0)
+    unused.unshift(
+      `${older === 1 ? "One entry" : `${older.toLocaleString("en")} entries`} from before ${formatDate(startMs)} ${older === 1 ? "is" : "are"} left out: the replay covers the last two years.`,
+    );
   const scenario: Scenario = {
     ...s,
     run: { ...s.run, lengthDays, outputIntervalDays: Math.min(s.run.outputIntervalDays, 0.25) },
