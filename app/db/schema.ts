@@ -106,6 +106,12 @@ export const tanks = sqliteTable(
     /** Nitrate target band for charts and key figures, mg N/L; the defaults are DEFAULT_NITRATE_TARGETS (5–20 mg/L NO3, exact). */
     nitrateTargetLow: real("nitrate_target_low").notNull().default(1.1295239016837624),
     nitrateTargetHigh: real("nitrate_target_high").notNull().default(4.5180956067350495),
+    /**
+     * Bumped by SQLite triggers on every insert, update and delete of the tank's journal entries
+     * (migration 0014), whoever writes them: the journal page keeps its replay by this number
+     * instead of reading 20,000 entries on every view.
+     */
+    journalVersion: integer("journal_version").notNull().default(0),
     createdAt: createdAt(),
     updatedAt: integer("updated_at", { mode: "timestamp_ms" })
       .notNull()

@@ -4,6 +4,7 @@
  * visitor could keep the pool's interactive lane busy).
  */
 import { describe, expect, it, vi } from "vitest";
+import { getDb } from "~/db/client.server";
 import { getEnginePool } from "~/features/jobs/engine-pool.server";
 import { forgetJournalRuns } from "~/features/journal/journal-runs.server";
 import { RUNS_IN_FLIGHT_PER_PERSON, resetRunGate, takeRunSlot } from "~/features/runs/run-gate.server";
@@ -11,8 +12,7 @@ import { action as pageAction, loader as pageLoader } from "~/routes/journal/jou
 import { call, get, post } from "../support/routes";
 import { createScenario, createTank } from "../support/tanks";
 import { userWithCookie } from "../support/users";
-import { day } from "../support/journal";
-
+import { DAY, day } from "../support/journal";
 
 async function keeperWithJournal() {
   const keeper = await userWithCookie();
@@ -65,6 +65,32 @@ describe("the journal page's runs", () => {
     } finally {
       runs.mockRestore();
     }
+  });
+
+  it("are kept until any write to the journal, whoever makes it: an insert, an edit and a delete in plain SQL each show", async () => {
+    forgetJournalRuns();
+    const { keeper, tankId } = await keeperWithJournal();
+    const sql = getDb().$client;
+    const version = () =>
+      (sql.prepare("SELECT journal_version AS v FROM tanks WHERE id = ?").get(Number(tankId)) as { v: number }).v;
+    const budgetIn = async () => (await load(tankId, keeper.cookie)).data.replay.budget.inputs.total as number;
+    const before = await budgetIn();
+    expect(await budgetIn()).toBe(before);
+    // An ammonia dose written past the app (a script, another process): the page's replay has it.
+    const v0 = version();
+    const added = sql
+      .prepare("INSERT INTO journal_entries (tank_id, done_at, kind, details, note) VALUES (?, ?, 'ammonia_dosed', ?, '')")
+      .run(Number(tankId), Math.floor(Date.now() / DAY) * DAY - 3 * DAY, JSON.stringify({ ammoniaMgN: 2 }));
+    expect(version()).toBe(v0 + 1);
+    const dosed = await budgetIn();
+    // 2 mg N/L dosed into 100 L adds 200 mg N to the inputs (our own worked example).
+    expect(dosed - before).toBeCloseTo(200, 0);
+    sql.prepare("UPDATE journal_entries SET details = ? WHERE id = ?").run(JSON.stringify({ ammoniaMgN: 1 }), added.lastInsertRowid);
+    expect(version()).toBe(v0 + 2);
+    expect((await budgetIn()) - before).toBeCloseTo(100, 0);
+    sql.prepare("DELETE FROM journal_entries WHERE id = ?").run(added.lastInsertRowid);
+    expect(version()).toBe(v0 + 3);
+    expect(await budgetIn()).toBe(before);
   });
 
   it("count against the owner's runs in flight: with the limit taken the page says so and runs nothing", async () => {

@@ -2,7 +2,7 @@
  * The journal's rows: listing, adding (one or all of a file's rows in one transaction), editing
  * and deleting, always within the owner's tank (the caller has checked the tank is theirs).
  */
-import { and, asc, desc, eq, inArray, lt, max, sql } from "drizzle-orm";
+import { and, asc, count, desc, eq, inArray, lt, max, sql } from "drizzle-orm";
 import { getDb, type Db } from "~/db/client.server";
 import { journalEntries } from "~/db/schema-care";
 import {
@@ -42,6 +42,24 @@ export function listJournal(tankId: number): JournalEntry[] {
     .from(journalEntries)
     .where(eq(journalEntries.tankId, tankId))
     .orderBy(asc(journalEntries.doneAt), asc(journalEntries.id))
+    .all()
+    .map(fromRow);
+}
+
+/** How many entries the tank's journal holds. */
+export function countJournal(tankId: number): number {
+  return getDb().select({ n: count() }).from(journalEntries).where(eq(journalEntries.tankId, tankId)).get()?.n ?? 0;
+}
+
+/** `limit` entries newest first, after skipping the `offset` newest: one page of the journal's table. */
+export function newestJournalEntries(tankId: number, offset: number, limit: number): JournalEntry[] {
+  return getDb()
+    .select()
+    .from(journalEntries)
+    .where(eq(journalEntries.tankId, tankId))
+    .orderBy(desc(journalEntries.doneAt), desc(journalEntries.id))
+    .limit(limit)
+    .offset(offset)
     .all()
     .map(fromRow);
 }

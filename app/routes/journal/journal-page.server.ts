@@ -2,7 +2,9 @@
  * The journal page's server side: the entries for the table, the "as it happened" curve of the
  * chosen scenario with the readings over it, and the page's three actions (add, delete, upload).
  */
+import { LRUCache } from "lru-cache";
 import { data } from "react-router";
+import type { Scenario } from "~models";
 import { fromCanonical } from "~models/units";
 import { describeEntry, ENTRY_KINDS, type FieldUnits } from "~/features/journal/journal-entries";
 import { parseJournalCsv, MAX_JOURNAL_CSV_BYTES } from "~/features/journal/journal-csv.server";
@@ -13,18 +15,25 @@ import {
   upcomingTasks,
 } from "~/features/journal/calendar-feed.server";
 import { dayText, forecastCautions, forecastSentence } from "~/features/journal/forecast-text.server";
-import { forecastJournal, replayJournal } from "~/features/journal/journal-replay.server";
-import { addEntries, deleteEntry, listJournal, readEntry } from "~/features/journal/journal.server";
+import { forecastJournal, replayJournal, type Forecast } from "~/features/journal/journal-replay.server";
+import {
+  addEntries,
+  countJournal,
+  deleteEntry,
+  listJournal,
+  newestJournalEntries,
+  readEntry,
+} from "~/features/journal/journal.server";
 import { QuotaExceeded } from "~/quotas.server";
 import { allReadings } from "~/features/readings/readings.server";
 import { resultWarnings } from "~/features/runs/run-warnings";
-import { readStoredSettings } from "~/features/runs/simulation.server";
+import { readStoredSettings, settingsHash } from "~/features/runs/simulation.server";
 import { planScenario, tankModelSettings } from "~/features/tanks/maintenance-plan.server";
 import { listScenarios, type TankRow } from "~/features/tanks/tanks.server";
 import { readUpload, UploadError } from "~/http/uploads.server";
 import { takeUploadTurn, UploadRefused } from "~/http/upload-turns.server";
 import { runProblem } from "~/http/pages.server";
-import { DAY_MS, formatDateTime } from "~/utils/dates";
+import { DAY_MS, formatDateTime, startOfDay } from "~/utils/dates";
 import type { CsvProblem } from "~/utils/csv-read.server";
 import { unitLabels, type DisplayUnits } from "~/utils/display-units";
 
@@ -41,6 +50,40 @@ function journalPageNumber(value: string | null): number {
   return Number.isInteger(n) && n >= 1 && n <= 1_000_000 ? n : 1;
 }
 
+/**
+ * What the page works out from the whole journal: the replay, the forecast and the next three
+ * weeks' tasks. Kept by the tank's journal version (SQLite triggers bump it on every write of an
+ * entry, migration 0014), the settings and the day, so a reload reads no entry: with 20,000
+ * entries the reading alone took about 0.1 s of the request thread. Answers only; a refused run
+ * is asked again next time.
+ */
+type JournalModel = {
+  replay: Awaited<ReturnType<typeof replayJournal>>;
+  forecast: Forecast | null;
+  upcoming: ReturnType<typeof upcomingTasks>;
+};
+const keptModels = new LRUCache<string, JournalModel>({ max: 200, ttl: 10 * 60_000 });
+
+async function journalModel(tank: TankRow, settings: Scenario, now: number) {
+  const key = `${tank.id}:${tank.journalVersion}:${settingsHash(settings)}:${startOfDay(now)}`;
+  const kept = keptModels.get(key);
+  if (kept) return { ...kept, problem: null };
+  const entries = listJournal(tank.id);
+  const upcoming = upcomingTasks(settings, entries, now, 21);
+  const replay = await replayJournal(settings, entries, now, tank.ownerId);
+  let forecast: Forecast | null = null;
+  try {
+    forecast = replay ? await forecastJournal(settings, entries, now, tank.ownerId) : null;
+  } catch (error) {
+    // The replay stands without its forecast.
+    const problem = runProblem(error);
+    if (!problem) throw error;
+    return { replay, forecast, upcoming, problem };
+  }
+  keptModels.set(key, { replay, forecast, upcoming });
+  return { replay, forecast, upcoming, problem: null };
+}
+
 export async function journalPageData(
   tank: TankRow,
   scenarioParam: string | null,
@@ -50,7 +93,6 @@ export async function journalPageData(
 ) {
   // Nitrate in the person's own unit (NO3 or NO3-N), from the one units table.
   const perMgN = fromCanonical("nitrate", 1, units.nitrate);
-  const entries = listJournal(tank.id);
   const scenarios = listScenarios(tank.id);
   // By default the scenario the tank's plan is over, as the tank page and the reminders use.
   const chosen = scenarios.find((s) => String(s.id) === scenarioParam) ?? planScenario(tank.id);
@@ -58,13 +100,17 @@ export async function journalPageData(
   let forecast: string | null = null;
   let cautionsAhead: string[] = [];
   let problem: string | null = null;
+  let upcoming: { title: string; when: string }[] = [];
   // The tank's maintenance plan (if edited) replaces the scenario's timetable for the forecast and
   // the list; the tank's nitrate band is the forecast's target.
   const stored = chosen ? readStoredSettings(chosen.settings) : null;
   const settings = stored ? tankModelSettings(tank, stored) : null;
   if (settings) {
     try {
-      const r = await replayJournal(settings, entries, now, tank.ownerId);
+      const model = await journalModel(tank, settings, now);
+      problem = model.problem;
+      upcoming = model.upcoming.map((t) => ({ title: t.title, when: dayText(t.atMs) }));
+      const r = model.replay;
       if (r) {
         const readings = allReadings(tank.id)
           .filter((x) => x.nitrate !== null && x.takenAt.getTime() >= r.startMs)
@@ -93,53 +139,41 @@ export async function journalPageData(
             units,
           ),
         };
-        const f = await forecastJournal(settings, entries, now, tank.ownerId);
-        forecast = forecastSentence(f, units);
-        cautionsAhead = forecastCautions(f, units);
+        forecast = forecastSentence(model.forecast, units);
+        cautionsAhead = forecastCautions(model.forecast, units);
       }
     } catch (error) {
       problem = runProblem(error);
       if (!problem) throw error;
     }
   }
+  const entryCount = countJournal(tank.id);
+  const pages = Math.max(1, Math.ceil(entryCount / JOURNAL_PAGE_SIZE));
+  const entryPage = Math.min(journalPageNumber(pageParam), pages);
   return {
     tank: { id: tank.id, name: tank.name },
     scenarios: scenarios.map((s) => ({ id: s.id, name: s.name })),
     scenarioId: chosen?.id ?? null,
-    ...entryPage(entries, journalPageNumber(pageParam)),
-    entries: entries
-      .slice(...pageBounds(entries.length, journalPageNumber(pageParam)))
-      .reverse()
-      .map((e) => ({
-        id: e.id,
-        when: formatDateTime(e.doneAt),
-        kind: ENTRY_KINDS[e.kind],
-        what: describeEntry(e.kind, e.details, units),
-        note: e.note,
-      })),
+    entryCount,
+    entryPage,
+    entryPages: pages,
+    // Only the table's page is read: newest first.
+    entries: newestJournalEntries(tank.id, (entryPage - 1) * JOURNAL_PAGE_SIZE, JOURNAL_PAGE_SIZE).map((e) => ({
+      id: e.id,
+      when: formatDateTime(e.doneAt),
+      kind: ENTRY_KINDS[e.kind],
+      what: describeEntry(e.kind, e.details, units),
+      note: e.note,
+    })),
     replay,
     forecast,
     cautionsAhead,
     problem,
-    upcoming: settings
-      ? upcomingTasks(settings, entries, now, 21).map((t) => ({ title: t.title, when: dayText(t.atMs) }))
-      : [],
+    upcoming,
     calendarOn: hasCalendarFeed(tank.id),
     /** The entry form's amounts are typed in these (the CSV file keeps its columns' own units). */
     units: { nitrate: units.nitrate, ammonia: units.ammonia } satisfies FieldUnits,
   };
-}
-
-/** The slice of the oldest-first list that holds table page `page` (clamped to the last page). */
-function pageBounds(total: number, page: number): [number, number] {
-  const last = Math.max(1, Math.ceil(total / JOURNAL_PAGE_SIZE));
-  const p = Math.min(page, last);
-  return [Math.max(0, total - p * JOURNAL_PAGE_SIZE), total - (p - 1) * JOURNAL_PAGE_SIZE];
-}
-
-function entryPage(entries: readonly unknown[], page: number) {
-  const pages = Math.max(1, Math.ceil(entries.length / JOURNAL_PAGE_SIZE));
-  return { entryCount: entries.length, entryPage: Math.min(page, pages), entryPages: pages };
 }
 
 export type JournalAnswer = {
