@@ -149,7 +149,7 @@ export default function JournalPage({ loaderData, actionData }: Route.ComponentP
   };
   const answer = actionData as JournalAnswer | undefined;
   return (
-    <main className="mx-auto max-w-4xl space-y-8 p-4">
+    <div className="mx-auto max-w-4xl space-y-8">
       <Breadcrumbs
         trail={[
           { to: "/tanks", label: "Tanks" },
@@ -347,6 +347,6 @@ export default function JournalPage({ loaderData, actionData }: Route.ComponentP
           </button>
         </Form>
       </section>
-    </main>
+    </div>
   );
 }
