@@ -147,6 +147,10 @@ describe("readings, calibration and sweeps in the browser", () => {
       expect(await saveButton.count()).toBe(0);
     }
     await shot(page, "calibration-fit");
+    // "Change the start date" lands on the date field itself, not inside a closed section of the form.
+    await page.getByRole("link", { name: "Change the start date" }).click();
+    await page.waitForURL(/\/edit/);
+    await page.getByLabel("Run starts on").waitFor({ state: "visible" });
 
     // Once the tank has a journal, the check before a fit runs on what the fit runs on (the
     // journal, its default) and runs again on the schedule the keeper switches to.

@@ -172,7 +172,7 @@ export default function CalibratePage({ loaderData, actionData }: Route.Componen
           Readings
         </Link>{" "}
         ·{" "}
-        <Link className="link" to={`/tanks/${tank.id}/scenarios/${scenario.id}/edit`}>
+        <Link className="link" to={`/tanks/${tank.id}/scenarios/${scenario.id}/edit?open=run#f-startDate`}>
           Change the start date
         </Link>
       </p>
