@@ -21,6 +21,7 @@ import { formatDate } from "~/utils/dates";
 import { BudgetTable } from "~/components/charts/budget";
 import { displayUnitsFor } from "~/utils/display-units";
 import { ScrollTable } from "~/components/ui/scroll-table";
+import { useContainerWidth } from "~/components/charts/hooks";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `Journal · ${data?.tank.name ?? "Tank"} · Fernwater` }];
 
@@ -38,11 +39,13 @@ export async function action({ request, params }: Route.ActionArgs) {
 }
 
 function ReplayChart({ replay }: { replay: NonNullable<Route.ComponentProps["loaderData"]["replay"]> }) {
-  const W = 720;
+  // Drawn at the width it gets (720 before scripts run), so its labels keep their size on a phone.
+  const [box, width] = useContainerWidth<HTMLElement>();
+  const W = width || 720;
   const H = 260;
   const p = replayPaths(replay, W, H);
   return (
-    <figure>
+    <figure ref={box}>
       <svg
         viewBox={`0 0 ${W} ${H}`}
         role="img"
