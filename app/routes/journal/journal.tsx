@@ -151,6 +151,10 @@ export default function JournalPage({ loaderData, actionData }: Route.ComponentP
     return `/tanks/${tank.id}/journal${s ? `?${s}` : ""}`;
   };
   const answer = actionData as JournalAnswer | undefined;
+  // The action's answer arrives before the page is read again (the replay takes a moment): say
+  // "added" only once the entry, the curve and the warnings show it.
+  const navigation = useNavigation();
+  const said = navigation.state === "loading" && navigation.formMethod ? undefined : answer;
   return (
     <div className="mx-auto max-w-4xl space-y-8">
       <Breadcrumbs
@@ -164,18 +168,18 @@ export default function JournalPage({ loaderData, actionData }: Route.ComponentP
       <p className="text-stone-700">
         What you actually did and when. The model replays it “as it happened” from the first entry to today.
       </p>
-      {answer?.message ? (
-        <FormMessage tone={answer.errors || answer.problems ? "error" : "success"}>{answer.message}</FormMessage>
+      {said?.message ? (
+        <FormMessage tone={said.errors || said.problems ? "error" : "success"}>{said.message}</FormMessage>
       ) : null}
-      {answer?.stored ? <FormMessage tone="success">{answer.stored} entries added from the file.</FormMessage> : null}
-      {answer?.problems?.length ? (
+      {said?.stored ? <FormMessage tone="success">{said.stored} entries added from the file.</FormMessage> : null}
+      {said?.problems?.length ? (
         <ul className="list-disc pl-5 text-sm" aria-label="Rows that need attention">
-          {answer.problems.map((p, i) => (
+          {said.problems.map((p, i) => (
             <li key={i}>
               Line {p.line}: {p.message}
             </li>
           ))}
-          {answer.more ? <li>…and {answer.more} more.</li> : null}
+          {said.more ? <li>…and {said.more} more.</li> : null}
         </ul>
       ) : null}
 
