@@ -20,6 +20,9 @@ describe("the danger beyond the results page", () => {
     await signIn(page, DEMO.teacher, DEMO.password);
     await page.getByRole("link", { name: TANK }).click();
     await page.waitForURL(/\/tanks\/\d+$/);
+    // The tank page's scenario table flags the same peaks, where a scenario is chosen to open or compare.
+    const pH8Row = page.getByRole("row").filter({ hasText: HIGH_PEAK });
+    await expect.poll(() => pH8Row.locator("[data-above-caution]").count()).toBe(2);
     await page.getByLabel("Compare A new tank cycling without fish", { exact: true }).check();
     await page.getByLabel(`Compare ${HIGH_PEAK}`, { exact: true }).check();
     await page.getByRole("button", { name: /Compare the ticked scenarios/ }).click();
