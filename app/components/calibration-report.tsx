@@ -3,7 +3,7 @@
  * whether the readings determine it (and if not, why and which reading would help); the kits the
  * readings were read with; the error of the model against the readings before and after;
  * residual plots (one per measured species, so ammonia's small numbers are not squashed by
- * nitrate's); and "save as a new scenario".
+ * nitrate's); and "save as a new scenario", not offered when the fit is no good fit.
  */
 import { useMemo } from "react";
 import { Form, useNavigation } from "react-router";
@@ -49,6 +49,10 @@ function Verdicts({ result }: { result: CalibrationJson }) {
   );
 }
 
+/** Said instead of "save as a new scenario" when the fit does not follow the readings. */
+export const NO_GOOD_FIT_SAVE =
+  "These multipliers are not offered for saving: the model does not follow your readings, so the values it settled on are not trustworthy. Check the readings and the journal, then fit again.";
+
 export function CalibrationReport({
   result,
   errors,
@@ -84,6 +88,7 @@ export function CalibrationReport({
     [result],
   );
   const fitted = result.multipliers.filter((m) => m.fitted);
+  const poorFit = result.fitQuality ? !result.fitQuality.good : false;
   return (
     <div className="space-y-5">
       {!result.converged ? (
@@ -209,7 +214,11 @@ export function CalibrationReport({
         right and the readings’ errors are independent: treat them as a guide. A fitted model is still a model, not a
         water test.
       </p>
-      {fitted.length ? (
+      {fitted.length && poorFit ? (
+        <p className="border-t border-stone-200 pt-4 text-sm" data-no-save>
+          {NO_GOOD_FIT_SAVE}
+        </p>
+      ) : fitted.length ? (
         <Form method="post" className="flex flex-wrap items-end gap-3 border-t border-stone-200 pt-4">
           <input type="hidden" name="intent" value="save" />
           {result.multipliers.map((m) => (

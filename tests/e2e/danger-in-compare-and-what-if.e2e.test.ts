@@ -20,6 +20,9 @@ describe("the danger beyond the results page", () => {
     await signIn(page, DEMO.teacher, DEMO.password);
     await page.getByRole("link", { name: TANK }).click();
     await page.waitForURL(/\/tanks\/\d+$/);
+    // The tank page's scenario table flags the same peaks, where a scenario is chosen to open or compare.
+    const pH8Row = page.getByRole("row").filter({ hasText: HIGH_PEAK });
+    await expect.poll(() => pH8Row.locator("[data-above-caution]").count()).toBe(2);
     await page.getByLabel("Compare A new tank cycling without fish", { exact: true }).check();
     await page.getByLabel(`Compare ${HIGH_PEAK}`, { exact: true }).check();
     await page.getByRole("button", { name: /Compare the ticked scenarios/ }).click();
@@ -30,6 +33,19 @@ describe("the danger beyond the results page", () => {
     const flagged = page.locator("td[data-flagged]");
     expect(await flagged.count()).toBeGreaterThan(0);
     expect(await flagged.first().textContent()).toContain("above the caution line");
+    // A flagged peak reads in the flag's colour in every column, also where it differs from the
+    // baseline (a marked difference had turned it back to plain text there): common practice, no source.
+    const numberColours = await flagged.evaluateAll((cells) =>
+      cells.map((cell) => {
+        const walker = document.createTreeWalker(cell, NodeFilter.SHOW_TEXT);
+        for (let n = walker.nextNode(); n; n = walker.nextNode())
+          if (/\d/.test(n.textContent ?? "")) return getComputedStyle(n.parentElement!).color;
+        return null;
+      }),
+    );
+    expect(numberColours.length).toBeGreaterThan(1);
+    const flagColour = await flagged.first().evaluate((cell) => getComputedStyle(cell).color);
+    expect(new Set(numberColours)).toEqual(new Set([flagColour]));
     await shot(page, "compare-warnings");
     expectNoConsoleErrors(page);
   });
@@ -76,7 +92,9 @@ describe("the danger beyond the results page", () => {
     const box = page.locator("[data-replay-warnings]");
     // Once failed in CI only (the box never showed); if it does again, say what the page said instead.
     await box.waitFor({ timeout: 15_000 }).catch(async (error) => {
-      throw new Error(`No replay warnings; the page says: ${(await page.locator("main").innerText()).slice(0, 1500)}`, { cause: error });
+      throw new Error(`No replay warnings; the page says: ${(await page.locator("main").innerText()).slice(0, 1500)}`, {
+        cause: error,
+      });
     });
     await expect.poll(() => box.textContent()).toMatch(/Free ammonia reaches [\d.]+ mg\/L NH3 on day [\d.]+/);
     await shot(page, "journal-replay-warnings");

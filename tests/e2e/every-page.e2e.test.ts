@@ -1,7 +1,7 @@
 /**
  * Every page, as each of its people sees it (issue 12, items 10 and 11):
  * - accessibility: axe-core (@axe-core/playwright) with the WCAG 2.1 A and AA rules finds no
- *   serious or critical violation (Deque's impact levels; W3C WCAG 2.1);
+ *   serious or critical violation (Deque's impact levels; W3C WCAG 2.1), and each has one main element;
  * - phones: at 390 px wide no page scrolls sideways as a whole (wide tables scroll inside their
  *   own box), and a screenshot of each is saved for a person to look at.
  * The pages are found by following the demo club's links; the last test fails when a page
@@ -192,6 +192,9 @@ describe("every page, for each of its people", () => {
         visited.push(visit.path);
         await open(desk, visit.path);
         problems.push(...(await seriousViolations(desk, visit.name)));
+        // One main element per page, the shell's (HTML Living Standard, "the main element"); axe rates a second one moderate.
+        const mains = await desk.locator("main").count();
+        if (mains !== 1) problems.push(`${visit.name}: ${mains} main elements, not one`);
         await open(phone, visit.path);
         const overflow = await sidewaysOverflow(phone);
         if (overflow > 0) overflowing.push(`${visit.name} (${visit.path}) scrolls ${overflow} px sideways`);

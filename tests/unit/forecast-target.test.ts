@@ -10,6 +10,8 @@ import { describe, expect, it } from "vitest";
 import { simulate, type Scenario } from "../../models/index";
 import { forecastJournal, replayInputs } from "~/features/journal/journal-replay.server";
 import type { JournalEntry } from "~/features/journal/journal.server";
+import { forecastSentence } from "~/features/journal/forecast-text.server";
+import { DEFAULT_PREFERENCES, displayUnitsFor } from "~/utils/display-units";
 import { bareTank, feedForLoad } from "../models/helpers";
 
 const DAY = 86_400_000;
@@ -48,6 +50,7 @@ describe("the forecast's suggested change", () => {
     expect(f?.kind).toBe("crosses");
     if (f?.kind !== "crosses" || !f.fix) throw new Error("expected a crossing with a fix");
     expect(f.crossMs).toBeGreaterThan(NOW);
+    expect(f.alreadyAbove).toBe(false);
     expect(f.peak).toBeGreaterThan(f.high);
     const share = f.fix.share;
     expect(share).toBeGreaterThanOrEqual(0.06);
@@ -56,5 +59,18 @@ describe("the forecast's suggested change", () => {
     // The goal as the keeper set it: at most the upper target over the window
     expect(applied).toBeLessThanOrEqual(f.high + 1e-9);
     expect(smaller).toBeGreaterThan(f.high);
+  });
+
+  it("says nitrate is already above the target when it is today, instead of naming a day it passes", async () => {
+    // One small change three weeks ago: nitrate has been climbing since and is over the target now.
+    const journal = [change(1, TODAY - 21 * DAY + 9 * 3_600_000, 0.05)];
+    const nowNitrate = peakWith(journal, NOW, NOW);
+    expect(nowNitrate).toBeGreaterThan(TANK.targets.nitrateHigh);
+    const f = await forecastJournal(TANK, journal, NOW);
+    if (f?.kind !== "crosses") throw new Error("expected nitrate over the target");
+    expect(f.alreadyAbove).toBe(true);
+    const sentence = forecastSentence(f, displayUnitsFor(DEFAULT_PREFERENCES))!;
+    expect(sentence).toMatch(/^Nitrate is already above your upper target of /);
+    expect(sentence).not.toMatch(/passes|two days before/);
   });
 });

@@ -38,7 +38,8 @@ function overdueSentence(overdue: readonly OverdueTask[]): string | null {
 /**
  * "Nitrate passes your upper target of 25 mg/L NO3 around 14 December (40 mg/L NO3 before the
  * next planned change); a 40 % change by 12 December keeps it below 25 mg/L NO3 until then."
- * followed by what it assumes of overdue tasks.
+ * When nitrate is over the target already, it says so rather than naming tomorrow as the day it
+ * passes. Followed by what it assumes of overdue tasks.
  */
 export function forecastSentence(f: Forecast | null, units: DisplayUnits): string | null {
   if (!f) return null;
@@ -49,9 +50,11 @@ export function forecastSentence(f: Forecast | null, units: DisplayUnits): strin
 function nitrateSentence(f: Forecast, units: DisplayUnits): string {
   if (f.kind === "below")
     return `Under your planned schedule nitrate stays below your upper target for the next ${f.horizonDays} days.`;
-  const cross = `Nitrate passes your upper target of ${nitrateText(f.high, units)} around ${dayText(f.crossMs)} (${nitrateText(f.peak, units)} before the next planned change)`;
+  const when = f.alreadyAbove ? "is already above" : "passes";
+  const around = f.alreadyAbove ? "" : ` around ${dayText(f.crossMs)}`;
+  const cross = `Nitrate ${when} your upper target of ${nitrateText(f.high, units)}${around} (${nitrateText(f.peak, units)} before the next planned change)`;
   if (!f.fix)
-    return `${cross}; even a 90 % change two days before does not keep it below: look at feeding and the plan.`;
+    return `${cross}; even a 90 % change by ${dayText(f.changeByMs)} does not keep it below: look at feeding and the plan.`;
   return `${cross}; a ${Math.round(f.fix.share * 100)} % change by ${dayText(f.fix.byMs)} keeps it below ${nitrateText(f.high, units)} until ${dayText(f.fix.untilMs)}.`;
 }
 

@@ -155,6 +155,10 @@ export type Forecast = (
   | {
       kind: "crosses";
       crossMs: number;
+      /** Nitrate is over the target already at the start of the forecast (today), not crossing later. */
+      alreadyAbove: boolean;
+      /** When the extra change is tried: two days before the crossing, or today when that is sooner. */
+      changeByMs: number;
       high: number;
       /** The highest nitrate (mg N/L) before the next planned change, with no extra change. */
       peak: number;
@@ -252,6 +256,7 @@ export async function forecastJournal(
   const ahead = cautionsAhead(base, today, startMs);
   if (k < 0) return { kind: "below", horizonDays: total - today, ahead, overdue };
   const crossDay = base.series.t[k];
+  const alreadyAbove = k === base.series.t.findIndex((t) => t >= today);
   const fixDay = Math.max(today, Math.floor(crossDay) - 2);
   // Until the next planned change, or a week when none is planned (model choice, no source).
   const nextPlanned =
@@ -271,5 +276,6 @@ export async function forecastJournal(
     outcome.status === "met"
       ? { share: outcome.value / 100, byMs: startMs + fixDay * DAY_MS, untilMs: startMs + nextPlanned * DAY_MS }
       : null;
-  return { kind: "crosses", crossMs: startMs + crossDay * DAY_MS, high, peak, fix, ahead, overdue };
+  const changeByMs = startMs + fixDay * DAY_MS;
+  return { kind: "crosses", crossMs: startMs + crossDay * DAY_MS, alreadyAbove, changeByMs, high, peak, fix, ahead, overdue };
 }

@@ -27,6 +27,7 @@ import { invalid, readForm, refusedForm } from "~/http/pages.server";
 import { MULTIPLIER_KEYS, withMultipliers } from "~models/nitrogen/calibrate";
 import { saveScenarioVariant } from "~/features/scenarios/scenario-variant.server";
 import { Breadcrumbs } from "~/components/breadcrumbs";
+import { NO_GOOD_FIT_SAVE } from "~/components/calibration-report";
 
 export const meta: Route.MetaFunction = ({ data }) => [
   { title: `Calibrate · ${data?.scenario.name ?? "Scenario"} · Fernwater` },
@@ -117,6 +118,9 @@ export async function action({ request, params }: Route.ActionArgs) {
     }
   }
   if (values.intent === "save") {
+    // A fit the report calls "no good fit" has multipliers no reading supports: not saved from its page.
+    const fit = findScenarioJob(user.id, request, "calibration", row.id)?.result as CalibrationJson | undefined;
+    if (fit?.fitQuality && !fit.fitQuality.good) return invalid({ "": NO_GOOD_FIT_SAVE }, values);
     const parsed = SaveFittedSchema.safeParse(values);
     if (!parsed.success) return invalid(fieldErrors(parsed.error), values);
     const { name, ...multipliers } = parsed.data;
@@ -168,7 +172,7 @@ export default function CalibratePage({ loaderData, actionData }: Route.Componen
           Readings
         </Link>{" "}
         ·{" "}
-        <Link className="link" to={`/tanks/${tank.id}/scenarios/${scenario.id}/edit`}>
+        <Link className="link" to={`/tanks/${tank.id}/scenarios/${scenario.id}/edit?open=run#f-startDate`}>
           Change the start date
         </Link>
       </p>

@@ -21,6 +21,7 @@ import { formatDate } from "~/utils/dates";
 import { BudgetTable } from "~/components/charts/budget";
 import { displayUnitsFor } from "~/utils/display-units";
 import { ScrollTable } from "~/components/ui/scroll-table";
+import { useContainerWidth } from "~/components/charts/hooks";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `Journal · ${data?.tank.name ?? "Tank"} · Fernwater` }];
 
@@ -38,11 +39,13 @@ export async function action({ request, params }: Route.ActionArgs) {
 }
 
 function ReplayChart({ replay }: { replay: NonNullable<Route.ComponentProps["loaderData"]["replay"]> }) {
-  const W = 720;
+  // Drawn at the width it gets (720 before scripts run), so its labels keep their size on a phone.
+  const [box, width] = useContainerWidth<HTMLElement>();
+  const W = width || 720;
   const H = 260;
   const p = replayPaths(replay, W, H);
   return (
-    <figure>
+    <figure ref={box}>
       <svg
         viewBox={`0 0 ${W} ${H}`}
         role="img"
@@ -148,8 +151,12 @@ export default function JournalPage({ loaderData, actionData }: Route.ComponentP
     return `/tanks/${tank.id}/journal${s ? `?${s}` : ""}`;
   };
   const answer = actionData as JournalAnswer | undefined;
+  // The action's answer arrives before the page is read again (the replay takes a moment): say
+  // "added" only once the entry, the curve and the warnings show it.
+  const navigation = useNavigation();
+  const said = navigation.state === "loading" && navigation.formMethod ? undefined : answer;
   return (
-    <main className="mx-auto max-w-4xl space-y-8 p-4">
+    <div className="mx-auto max-w-4xl space-y-8">
       <Breadcrumbs
         trail={[
           { to: "/tanks", label: "Tanks" },
@@ -161,18 +168,18 @@ export default function JournalPage({ loaderData, actionData }: Route.ComponentP
       <p className="text-stone-700">
         What you actually did and when. The model replays it “as it happened” from the first entry to today.
       </p>
-      {answer?.message ? (
-        <FormMessage tone={answer.errors || answer.problems ? "error" : "success"}>{answer.message}</FormMessage>
+      {said?.message ? (
+        <FormMessage tone={said.errors || said.problems ? "error" : "success"}>{said.message}</FormMessage>
       ) : null}
-      {answer?.stored ? <FormMessage tone="success">{answer.stored} entries added from the file.</FormMessage> : null}
-      {answer?.problems?.length ? (
+      {said?.stored ? <FormMessage tone="success">{said.stored} entries added from the file.</FormMessage> : null}
+      {said?.problems?.length ? (
         <ul className="list-disc pl-5 text-sm" aria-label="Rows that need attention">
-          {answer.problems.map((p, i) => (
+          {said.problems.map((p, i) => (
             <li key={i}>
               Line {p.line}: {p.message}
             </li>
           ))}
-          {answer.more ? <li>…and {answer.more} more.</li> : null}
+          {said.more ? <li>…and {said.more} more.</li> : null}
         </ul>
       ) : null}
 
@@ -347,6 +354,6 @@ export default function JournalPage({ loaderData, actionData }: Route.ComponentP
           </button>
         </Form>
       </section>
-    </main>
+    </div>
   );
 }

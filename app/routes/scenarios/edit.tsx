@@ -34,6 +34,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
         }
       : null,
     unitsNote: unitsSummary(units),
+    // A link to one setting (e.g. the calibration page's "Change the start date") opens its section.
+    open: new URL(request.url).searchParams.get("open"),
   };
 }
 
@@ -67,6 +69,7 @@ export default function EditScenarioPage({ loaderData, actionData }: Route.Compo
           model={form}
           errors={actionData?.errors ?? {}}
           submitLabel="Save and run"
+          openSections={["water", ...form.sections.filter((x) => x.id === loaderData.open).map((x) => x.id)]}
           extraActions={[{ intent: "save-as-new", label: "Save as a new scenario" }]}
           unitsNote={
             <>

@@ -72,14 +72,14 @@ function budgetTableRows(budget: Parameters<typeof budgetSections>[0]) {
   );
 }
 
-/** A cell that differs from the baseline by more than 1 % is marked, with words for screen readers. */
+/** A cell that differs from the baseline by more than 1 % is marked, with words for screen readers; in the cell's colour (a flagged peak stays red). */
 function Diff({ value, baseline, text }: { value: number | null; baseline: number | null; text: string }) {
   if (value === null || baseline === null || Math.abs(value - baseline) <= Math.max(1e-9, Math.abs(baseline) * 0.01)) {
     return <>{text}</>;
   }
   const up = value > baseline;
   return (
-    <span className="font-semibold text-stone-950">
+    <span className="font-semibold">
       {text} <span aria-hidden="true">{up ? "▲" : "▼"}</span>
       <span className="sr-only">{up ? " (higher than the baseline)" : " (lower than the baseline)"}</span>
     </span>

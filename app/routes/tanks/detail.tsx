@@ -4,7 +4,8 @@ import type { Route } from "./+types/detail";
 import { FormMessage, TextField } from "~/components/ui/field";
 import { getDb } from "~/db/client.server";
 import { scenarios } from "~/db/schema";
-import { displayKeyFigures } from "~/features/runs/display-figures";
+import { displayKeyFigures, toxicPeaksAboveCaution } from "~/features/runs/display-figures";
+import { AboveCaution } from "~/components/above-caution";
 import { speciesFactor } from "~models/units";
 import { nitrateBandHint, typedTarget } from "~/features/tanks/nitrate-targets";
 import { handedInCopyIn } from "~/features/classes/classes.server";
@@ -58,6 +59,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
         name: s.name,
         updatedAt: s.updatedAt.toISOString().slice(0, 10),
         figures: figures ? displayKeyFigures(figures, units) : null,
+        // Flagged here as on the tank list and the compare page, where the scenario to open is chosen.
+        above: figures ? toxicPeaksAboveCaution(figures) : null,
       };
     }),
   };
@@ -159,8 +162,14 @@ export default function TankPage({ loaderData, actionData }: Route.ComponentProp
                         <span className="block text-xs text-stone-500">saved {s.updatedAt}</span>
                       </td>
                       <td className="num py-2 pr-2">{s.figures ? formatNumber(s.figures.nitrateEnd) : "–"}</td>
-                      <td className="num py-2 pr-2">{s.figures ? formatNumber(s.figures.peakFreeNh3.value) : "–"}</td>
-                      <td className="num py-2 pr-2">{s.figures ? formatNumber(s.figures.peakNitrite.value) : "–"}</td>
+                      <td className={`num py-2 pr-2 ${s.above?.peakFreeNh3 ? "bg-red-50 text-red-900" : ""}`}>
+                        {s.figures ? formatNumber(s.figures.peakFreeNh3.value) : "–"}
+                        <AboveCaution above={s.above?.peakFreeNh3} />
+                      </td>
+                      <td className={`num py-2 pr-2 ${s.above?.peakNitrite ? "bg-red-50 text-red-900" : ""}`}>
+                        {s.figures ? formatNumber(s.figures.peakNitrite.value) : "–"}
+                        <AboveCaution above={s.above?.peakNitrite} />
+                      </td>
                       <td className="num py-2">{s.figures ? formatNumber(s.figures.daysAboveNitrateTarget) : "–"}</td>
                     </tr>
                   ))}
