@@ -1,19 +1,11 @@
-import { useState } from "react";
 import { Form, Link, useNavigation } from "react-router";
 import type { Route } from "./+types/journal";
 import { Breadcrumbs } from "~/components/breadcrumbs";
-import { FormMessage, SelectField, TextField } from "~/components/ui/field";
-import { replayPaths } from "~/features/journal/journal-chart";
+import { FormMessage, SelectField } from "~/components/ui/field";
 import { RunWarnings } from "~/components/run-warnings";
 import { JournalForecast } from "~/components/journal-forecast";
-import {
-  ENTRY_KINDS,
-  fieldLabel,
-  KIND_FIELDS,
-  THOROUGHNESS,
-  type EntryKind,
-  type FieldUnits,
-} from "~/features/journal/journal-entries";
+import { EntryForm } from "~/components/journal-entry-form";
+import { ReplayChart } from "~/components/journal-replay-chart";
 import { requireOwnedTank } from "~/features/tanks/tanks.server";
 import { requireUser } from "~/permissions.server";
 import { journalAction, journalPageData, type JournalAnswer } from "~/routes/journal/journal-page.server";
@@ -21,7 +13,6 @@ import { formatDate } from "~/utils/dates";
 import { BudgetTable } from "~/components/charts/budget";
 import { displayUnitsFor } from "~/utils/display-units";
 import { ScrollTable } from "~/components/ui/scroll-table";
-import { useContainerWidth } from "~/components/charts/hooks";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `Journal · ${data?.tank.name ?? "Tank"} · Fernwater` }];
 
@@ -36,107 +27,6 @@ export async function action({ request, params }: Route.ActionArgs) {
   const user = await requireUser(request);
   const tank = requireOwnedTank(user.id, params.tankId);
   return journalAction(request, tank, displayUnitsFor(user));
-}
-
-function ReplayChart({ replay }: { replay: NonNullable<Route.ComponentProps["loaderData"]["replay"]> }) {
-  // Drawn at the width it gets (720 before scripts run), so its labels keep their size on a phone.
-  const [box, width] = useContainerWidth<HTMLElement>();
-  const W = width || 720;
-  const H = 260;
-  const p = replayPaths(replay, W, H);
-  return (
-    <figure ref={box}>
-      <svg
-        viewBox={`0 0 ${W} ${H}`}
-        role="img"
-        aria-label={`Nitrate as it happened, ${replay.unit}, with test readings`}
-        className="w-full"
-      >
-        {p.yTicks.map((t) => (
-          <g key={t.label}>
-            <line x1={40} x2={W - 10} y1={t.y} y2={t.y} stroke="#e7e5e4" />
-            <text x={34} y={t.y + 4} textAnchor="end" fontSize={11}>
-              {t.label}
-            </text>
-          </g>
-        ))}
-        {p.xTicks.map((t) => (
-          <text key={t.label} x={t.x} y={H - 6} textAnchor="middle" fontSize={11}>
-            {t.label}
-          </text>
-        ))}
-        <line x1={40} x2={W - 10} y1={p.highY} y2={p.highY} stroke="#b45309" strokeDasharray="6 4" />
-        <path d={p.path} fill="none" stroke="#0f766e" strokeWidth={2} data-testid="as-it-happened" />
-        {p.dots.map((d, i) => (
-          <circle key={i} cx={d.cx} cy={d.cy} r={4} fill="#1c1917" />
-        ))}
-      </svg>
-      <figcaption className="text-sm text-stone-600">
-        Nitrate ({replay.unit}) over the days since {formatDate(replay.startMs)}; dots are your test readings, the
-        dashed line your upper target. This is a model, not a water test: test your water before acting on it.
-      </figcaption>
-    </figure>
-  );
-}
-
-/** The entry form; amounts (tap nitrate, ammonia dosed) typed in the person's own units. */
-function EntryForm({ answer, units }: { answer: JournalAnswer | undefined; units: FieldUnits }) {
-  const values = answer?.intent === "add" ? (answer.values ?? {}) : {};
-  const errors = answer?.intent === "add" ? (answer.errors ?? {}) : {};
-  const [kind, setKind] = useState<EntryKind>((values.kind as EntryKind) || "water_change");
-  const busy = useNavigation().state === "submitting";
-  return (
-    <Form
-      method="post"
-      className="space-y-3"
-      key={answer?.intent === "add" && !answer.errors ? answer.message : "form"}
-    >
-      <input type="hidden" name="intent" value="add" />
-      <div className="grid gap-3 sm:grid-cols-2">
-        <TextField
-          label="Date"
-          name="date"
-          type="date"
-          required
-          defaultValue={values.date ?? formatDate(Date.now())}
-          error={errors.date}
-        />
-        <SelectField
-          label="What was done"
-          name="kind"
-          value={kind}
-          onChange={(e) => setKind(e.target.value as EntryKind)}
-          options={Object.entries(ENTRY_KINDS).map(([value, label]) => ({ value, label }))}
-          error={errors.kind}
-        />
-        {KIND_FIELDS[kind].map((f) =>
-          f === "filter_thoroughness" ? (
-            <SelectField
-              key={f}
-              label={fieldLabel(f, units)}
-              name={f}
-              defaultValue={values[f] ?? "thorough"}
-              options={Object.entries(THOROUGHNESS).map(([value, label]) => ({ value, label }))}
-              error={errors[f]}
-            />
-          ) : (
-            <TextField
-              key={f}
-              label={fieldLabel(f, units)}
-              name={f}
-              defaultValue={values[f] ?? ""}
-              error={errors[f]}
-              inputMode={f === "plant_group" ? "text" : "decimal"}
-            />
-          ),
-        )}
-        <TextField label="Note" name="note" defaultValue={values.note ?? ""} error={errors.note} maxLength={500} />
-      </div>
-      <button type="submit" className="btn btn-primary" disabled={busy}>
-        Add to the journal
-      </button>
-    </Form>
-  );
 }
 
 export default function JournalPage({ loaderData, actionData }: Route.ComponentProps) {
