@@ -19,7 +19,7 @@ import { QuotaExceeded } from "~/quotas.server";
 import { allReadings } from "~/features/readings/readings.server";
 import { resultWarnings } from "~/features/runs/run-warnings";
 import { readStoredSettings } from "~/features/runs/simulation.server";
-import { planScenario, tankModelSettings } from "~/features/tanks/maintenance-plan.server";
+import { planScenario, planStart, tankModelSettings } from "~/features/tanks/maintenance-plan.server";
 import { listScenarios, type TankRow } from "~/features/tanks/tanks.server";
 import { readUpload, UploadError } from "~/http/uploads.server";
 import { takeUploadTurn, UploadRefused } from "~/http/upload-turns.server";
@@ -62,7 +62,9 @@ export async function journalPageData(
   // the list; the tank's nitrate band is the forecast's target.
   const stored = chosen ? readStoredSettings(chosen.settings) : null;
   const settings = stored ? tankModelSettings(tank, stored) : null;
-  if (settings) {
+  // Where a task kind never logged counts from, the same for the forecast and the list.
+  const start = chosen ? planStart(tank.id, chosen, entries[0]?.doneAt ?? null) : null;
+  if (settings && start) {
     try {
       const r = await replayJournal(settings, entries, now, tank.ownerId);
       if (r) {
@@ -93,7 +95,7 @@ export async function journalPageData(
             units,
           ),
         };
-        const f = await forecastJournal(settings, entries, now, tank.ownerId);
+        const f = await forecastJournal(settings, entries, now, tank.ownerId, start);
         forecast = forecastSentence(f, units);
         cautionsAhead = forecastCautions(f, units);
       }
@@ -121,9 +123,10 @@ export async function journalPageData(
     forecast,
     cautionsAhead,
     problem,
-    upcoming: settings
-      ? upcomingTasks(settings, entries, now, 21).map((t) => ({ title: t.title, when: dayText(t.atMs) }))
-      : [],
+    upcoming:
+      settings && start
+        ? upcomingTasks(settings, entries, start, now, 21).map((t) => ({ title: t.title, when: dayText(t.atMs) }))
+        : [],
     calendarOn: hasCalendarFeed(tank.id),
     /** The entry form's amounts are typed in these (the CSV file keeps its columns' own units). */
     units: { nitrate: units.nitrate, ammonia: units.ammonia } satisfies FieldUnits,
