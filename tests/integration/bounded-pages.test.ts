@@ -13,7 +13,7 @@ import { listJournal } from "~/features/journal/journal.server";
 import { modelStartMs } from "~/features/readings/readings.server";
 import { makeCalendarFeed, upcomingTasks } from "~/features/journal/calendar-feed.server";
 import { readStoredSettings } from "~/features/runs/simulation.server";
-import { plannedSettings } from "~/features/tanks/maintenance-plan.server";
+import { plannedSettings, planStart } from "~/features/tanks/maintenance-plan.server";
 import { readings, scenarios } from "~/db/schema";
 import { loader as feedLoader } from "~/routes/calendar/feed";
 import { loader as journalLoader } from "~/routes/journal/journal";
@@ -114,11 +114,10 @@ describe("the calendar feed of a full journal", () => {
     expect(Math.min(...times)).toBeLessThan(100);
 
     // The tasks equal those the whole journal gives (dates and titles in the feed).
-    const settings = plannedSettings(
-      tankId,
-      readStoredSettings(getDb().select().from(scenarios).where(eq(scenarios.id, scenarioId)).get()!.settings)!,
-    );
-    const expected = upcomingTasks(settings, listJournal(tankId), Date.now());
+    const row = getDb().select().from(scenarios).where(eq(scenarios.id, scenarioId)).get()!;
+    const settings = plannedSettings(tankId, readStoredSettings(row.settings)!);
+    const journal = listJournal(tankId);
+    const expected = upcomingTasks(settings, journal, planStart(tankId, row, journal[0].doneAt), Date.now());
     expect(expected.length).toBeGreaterThan(0);
     expect(expected.some((t) => t.kind === "trim")).toBe(true);
     const summaries = [...body.matchAll(/^SUMMARY:(.*)$/gm)].map((m) => m[1].trim().split(" · ")[0]);

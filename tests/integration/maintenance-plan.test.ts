@@ -49,9 +49,11 @@ describe("the maintenance plan", () => {
     const saved = await call(planAction, post(`/tanks/${tankId}/plan`, PLAN, keeper.cookie), { tankId });
     expect(saved.status).toBe(302);
     const after = await call(tankLoader, get(`/tanks/${tankId}`, keeper.cookie), { tankId });
-    // Every 14 days: only day 14 within three weeks, at 40 %
+    // Every 14 days: only day 14 within three weeks, at 40 %; never logged, so counted from the
+    // day the plan was saved (a model choice), and the title says so
+    const saveDay = new Date(today()).toLocaleDateString("en-GB", { day: "numeric", month: "long", timeZone: "UTC" });
     expect(after.data.upcoming.map((t: Task) => t.title).filter((t: string) => t.startsWith("Water change"))).toEqual([
-      "Water change (40 %)",
+      `Water change (40 %) — first one, counted from when the plan was saved (${saveDay})`,
     ]);
     const calAfter = await calendarTitles(keeper.cookie, tankId);
     // 90 days: every 14 → days 14…84 = 6; every 45 → day 45 only = 1 (our own worked example)

@@ -133,7 +133,9 @@ describe("an overdue task", () => {
     expect(page.data.upcoming[0]).toEqual({ title: `Water change (30 %) — overdue since ${since(3)}`, when: since(0) });
   });
 
-  it("a task never logged does not vanish: it keeps its rule (an interval after today), not overdue", async () => {
+  // A model choice: a kind never logged counts from the journal's first entry (here the change
+  // 10 days ago), not from today, where it would recede a day every day.
+  it("a task never logged does not vanish: it counts from the journal's first entry, and says so", async () => {
     const { keeper, tankId } = await tankWith(
       {
         plants: [stems(10)],
@@ -148,10 +150,15 @@ describe("an overdue task", () => {
         .filter((e) => e.summary.startsWith(prefix))
         .map((e) => (e.startMs - today()) / DAY)
         .sort((a, b) => a - b);
-    expect(days("Clean the filter")).toEqual([30, 60]);
-    expect(days("Trim plants")).toEqual([10, 20, 30, 40, 50, 60, 70, 80]);
+    // 30 days after 10 days ago: day 20; a trim every 10 days from 10 days ago: due today, not overdue.
+    expect(days("Clean the filter")).toEqual([20, 50, 80]);
+    expect(days("Trim plants")).toEqual([0, 10, 20, 30, 40, 50, 60, 70, 80]);
     expect(events.filter((e) => e.summary.includes("overdue")).map((e) => e.summary)).toEqual([
       `Water change (30 %) — overdue since ${since(3)} · Test tank`,
+    ]);
+    expect(events.filter((e) => e.summary.includes("first one")).map((e) => e.summary)).toEqual([
+      `Trim plants (Stem plants) — first one, counted from the journal's first entry (${since(10)}) · Test tank`,
+      `Clean the filter — first one, counted from the journal's first entry (${since(10)}) · Test tank`,
     ]);
   });
 

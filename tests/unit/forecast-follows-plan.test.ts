@@ -36,7 +36,8 @@ const TANK: Scenario = bareTank({
       maxMassG: 60,
       trim: { rule: "everyDays", everyDays: 14, trimToFraction: 0.5, fullAtFraction: 0.9 },
     }),
-    // Never trimmed yet: its first trim is an interval after today, on the calendar and in the forecast alike.
+    // Never trimmed yet: its first trim is an interval after the journal's first entry (a model
+    // choice, not after today, which would recede), on the calendar and in the forecast alike.
     plantGroupFromForm("floating", {
       id: "floaters",
       name: "Floaters",
@@ -75,7 +76,8 @@ describe("the forecast's planned tasks", () => {
       .filter((e) => e.atMs >= TODAY && e.atMs < TODAY + 50 * DAY);
     const dates = (kind: string) => planned.filter((e) => e.kind === kind).map((e) => (e.atMs - TODAY) / DAY);
     // Next cleaning 30 days after yesterday's; the stems' next trim 14 days after the one 3 days
-    // ago, the floaters' 10 days from today; water every 7 days from a week ago, so one is due today.
+    // ago, the floaters' 10 days from the journal's first day (a week ago); water every 7 days from
+    // a week ago, so one is due today.
     const trims = (id: string) =>
       asked[0]
         .filter((e) => e.kind === "trim" && e.groupId === id)
@@ -83,10 +85,10 @@ describe("the forecast's planned tasks", () => {
         .filter((d) => d >= 0 && d < 50);
     expect(dates("filterCleaning")).toEqual([29]);
     expect(trims("stems")).toEqual([11, 25, 39]);
-    expect(trims("floaters")).toEqual([10, 20, 30, 40]);
+    expect(trims("floaters")).toEqual([3, 13, 23, 33, 43]);
     expect(dates("waterChange")).toEqual([0, 7, 14, 21, 28, 35, 42, 49]);
     // The calendar and the reminders plan the same days.
-    const calendar = upcomingTasks(TANK, JOURNAL, NOW, 50)
+    const calendar = upcomingTasks(TANK, JOURNAL, { ms: JOURNAL[0].doneAt, from: "journal" }, NOW, 50)
       .filter((t) => t.atMs >= TODAY)
       .map((t) => ({ kind: t.kind, atMs: t.atMs }));
     const key = (e: { kind: string; atMs: number }) => `${e.atMs}-${e.kind}`;

@@ -91,7 +91,9 @@ describe("the forecast with overdue tasks", () => {
       { ...entry(2, 0, "water_change", { share: 0.4 }), doneAt: TODAY + 23 * 3_600_000 },
     ];
     const f = await forecastJournal(TANK, journal, NOW);
-    expect(f!.overdue).toEqual([]);
+    // The water change is not overdue (the stems' trim, never logged, is: due 4 days ago, 3 days
+    // after the journal's first day).
+    expect(f!.overdue.map((t) => t.kind)).toEqual(["trim"]);
     const startMs = TODAY - 7 * DAY;
     const changes = asked[0]
       .filter((e) => e.kind === "waterChange" && startMs + e.day * DAY >= TODAY)
@@ -134,5 +136,26 @@ describe("the forecast with overdue tasks", () => {
     const half = await forecastJournal(cycling(0.5), journal, NOW);
     expect(doses().filter((d) => d >= 0 && d < 1.5)).toEqual([0, 0.5, 1]);
     expect(half!.overdue.map((t) => (t.sinceMs - TODAY) / DAY)).toEqual([-5]);
+  });
+
+  // A model choice: a kind never logged counts from the plan's start (here the journal's first
+  // entry, 5 days ago), where a timetable's doses begin; counted from today it was never overdue.
+  it("plans a dose never logged as overdue since the journal's first day, and says so", async () => {
+    asked.length = 0;
+    const tank = bareTank({
+      water: { volumeL: 100 },
+      fishlessCycling: { enabled: true, doseMgNPerL: 1, doseIntervalDays: 2, stopRule: "never" },
+      targets: { nitrateHigh: 50 },
+    });
+    const f = await forecastJournal(tank, [entry(1, 5, "water_change", { share: 0.3 })], NOW);
+    const startMs = TODAY - 5 * DAY;
+    const doses = asked[0].filter((e) => e.kind === "dose").map((e) => (startMs + e.day * DAY - TODAY) / DAY);
+    expect(doses.filter((d) => d < 5)).toEqual([0, 2, 4]);
+    expect(f!.overdue.map((t) => ({ kind: t.kind, sinceMs: (t.sinceMs - TODAY) / DAY }))).toEqual([
+      { kind: "dose", sinceMs: -5 },
+    ]);
+    expect(forecastSentence(f, displayUnitsFor(DEFAULT_PREFERENCES))).toMatch(
+      / It assumes the overdue ammonia dose \(due since 29 November\) is done today\.$/,
+    );
   });
 });

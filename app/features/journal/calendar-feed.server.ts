@@ -7,14 +7,14 @@
 import { and, eq, isNull } from "drizzle-orm";
 import ical from "ical-generator";
 import type { Scenario } from "~models";
-import { doneByEndOf, plannedAfterJournal } from "~/features/journal/plan-resume.server";
+import { doneByEndOf, plannedAfterJournal, type PlanStart } from "~/features/journal/plan-resume.server";
 import { getDb } from "~/db/client.server";
 import { scenarios, tanks } from "~/db/schema";
 import { calendarFeeds } from "~/db/schema-care";
 import type { JournalEntry } from "~/features/journal/journal.server";
-import { lastTaskEntries } from "~/features/journal/journal.server";
+import { firstEntryAt, lastTaskEntries } from "~/features/journal/journal.server";
 import { readStoredSettings } from "~/features/runs/simulation.server";
-import { plannedSettings } from "~/features/tanks/maintenance-plan.server";
+import { plannedSettings, planStart } from "~/features/tanks/maintenance-plan.server";
 import { hashToken, randomToken } from "~/utils/crypto.server";
 import { dayText } from "~/features/journal/forecast-text.server";
 import { DAY_MS, startOfDay } from "~/utils/dates";
@@ -54,6 +54,13 @@ export function hasCalendarFeed(tankId: number): boolean {
     .get();
 }
 
+/** What a kind never logged counts from, in words ("counted from the journal's first entry"). */
+const START_WORDS: Record<PlanStart["from"], string> = {
+  journal: "the journal's first entry",
+  plan: "when the plan was saved",
+  scenario: "the scenario's start",
+};
+
 const TASK_TITLES: Record<string, string> = {
   waterChange: "Water change",
   filterCleaning: "Clean the filter",
@@ -66,11 +73,20 @@ const TASK_TITLES: Record<string, string> = {
  * its last logged entry (water change, filter cleaning, a group's trim), so marking a task done
  * moves its next occurrence on from that date. An overdue task is due today, once, and says
  * since when ("Water change (30 %) — overdue since 1 December"); `dueMs` is the day it fell due.
+ * A kind never logged counts from `start` (plan-resume.server.ts), and its first one says so
+ * ("Clean the filter — first one, counted from the journal's first entry (4 November)").
  */
-export function upcomingTasks(s: Scenario, entries: readonly JournalEntry[], now: number, days = CALENDAR_DAYS) {
+export function upcomingTasks(
+  s: Scenario,
+  entries: readonly JournalEntry[],
+  start: PlanStart,
+  now: number,
+  days = CALENDAR_DAYS,
+) {
   const today = startOfDay(now);
   // Planned doses (fishless cycling) are not calendar tasks.
-  const planned = plannedAfterJournal(s, entries, today, now, days).filter((e) => e.kind !== "dose");
+  const planned = plannedAfterJournal(s, entries, today, now, days, start).filter((e) => e.kind !== "dose");
+  const counted = `counted from ${START_WORDS[start.from]} (${dayText(start.ms)})`;
   const tasks = planned.map((e) => {
     const group = e.kind === "trim" ? s.plants.find((g) => g.id === e.groupId) : undefined;
     const atMs = today + Math.round(e.day) * DAY_MS;
@@ -82,7 +98,8 @@ export function upcomingTasks(s: Scenario, entries: readonly JournalEntry[], now
         TASK_TITLES[e.kind] +
         (e.kind === "waterChange" ? ` (${Math.round(e.fraction * 100)} %)` : "") +
         (group ? ` (${group.name})` : "") +
-        (overdueSinceMs === null ? "" : ` — overdue since ${dayText(overdueSinceMs)}`),
+        (overdueSinceMs === null ? "" : ` — overdue since ${dayText(overdueSinceMs)}`) +
+        (e.firstOne ? `${overdueSinceMs === null ? " — first one" : ""}, ${counted}` : ""),
       atMs,
       /** The day it fell due: `atMs`, or an earlier day when overdue. */
       dueMs: overdueSinceMs ?? atMs,
@@ -103,12 +120,14 @@ export function calendarFor(token: string, now = Date.now()): string | null {
   const tank = getDb().select().from(tanks).where(eq(tanks.id, feed.tankId)).get();
   const row = getDb().select().from(scenarios).where(eq(scenarios.id, feed.scenarioId)).get();
   const settings = row ? readStoredSettings(row.settings) : null;
-  if (!tank || !settings) return null;
+  if (!tank || !row || !settings) return null;
   const s = plannedSettings(tank.id, settings);
+  const start = planStart(tank.id, row, firstEntryAt(tank.id));
   const cal = ical({ name: `${tank.name} · Fernwater`, prodId: { company: "Fernwater", product: "tank-calendar" } });
-  for (const t of upcomingTasks(s, lastTaskEntries(tank.id, doneByEndOf(now)), now)) {
+  for (const t of upcomingTasks(s, lastTaskEntries(tank.id, doneByEndOf(now)), start, now)) {
     cal.createEvent({
-      // Keyed by the day it fell due, so an overdue task stays one event that moves along with today.
+      // Keyed by the day it fell due, so an overdue task stays one event that moves along with today
+      // (a kind never logged falls due on a fixed day too: counted from the plan's start).
       id: `${feed.id}-${t.kind}${t.groupId ? `-${t.groupId}` : ""}-${t.dueMs}@fernwater`,
       start: new Date(t.atMs),
       allDay: true,

@@ -14,7 +14,7 @@ import {
   type TankEventInput,
 } from "~models";
 import type { JournalEntry } from "~/features/journal/journal.server";
-import { doneByEndOf, plannedAfterJournal } from "~/features/journal/plan-resume.server";
+import { doneByEndOf, plannedAfterJournal, type PlanStart } from "~/features/journal/plan-resume.server";
 import { simulateOnPool } from "~/features/journal/journal-runs.server";
 import type { SearchLever } from "~/features/sweeps/search-levers.server";
 import { findLeastChange, type Evaluation } from "~/features/sweeps/target-search.server";
@@ -209,13 +209,15 @@ const EXTRA_CHANGE_LEVER: SearchLever = {
  * From today forward under the planned schedule (the scenario's timetable, each kind resumed at
  * its own last logged entry, as the calendar shows it: plan-resume.server.ts): when nitrate crosses the upper target, and — found by the target
  * finder's search (least change that meets the goal) — the smallest extra water change two days
- * before that keeps it under until the next planned change (or for a week).
+ * before that keeps it under until the next planned change (or for a week). A kind never logged
+ * counts from `start` as the list counts it (by default the journal's first entry: no edited plan).
  */
 export async function forecastJournal(
   s: Scenario,
   entries: readonly JournalEntry[],
   now = Date.now(),
   ownerId: number | null = null,
+  start: PlanStart | null = null,
 ): Promise<Forecast | null> {
   if (entries.length === 0) return null;
   const startMs = startOfDay(Math.max(entries[0].doneAt, now - MAX_DAYS * DAY_MS));
@@ -229,10 +231,17 @@ export async function forecastJournal(
   );
   // The plan as the calendar and the reminders show it: each kind resumed at its own last entry.
   // From the start of today, as the calendar counts: a task due today is in the forecast, and a
-  // kind never logged starts an interval after today (not after tomorrow).
+  // kind never logged counts from the plan's start, as the list counts it.
   // An overdue task is planned today, once (plan-resume.server.ts): assumed done today, never skipped.
   const todayStart = (startOfDay(now) - startMs) / DAY_MS;
-  const resumed = plannedAfterJournal(s, entries, startMs, now, total).filter((e) => e.day >= todayStart);
+  const resumed = plannedAfterJournal(
+    s,
+    entries,
+    startMs,
+    now,
+    total,
+    start ?? { ms: entries[0].doneAt, from: "journal" },
+  ).filter((e) => e.day >= todayStart);
   const overdue: OverdueTask[] = resumed.flatMap((e) =>
     e.overdueSince === undefined
       ? []

@@ -64,6 +64,18 @@ export function newestJournalEntries(tankId: number, offset: number, limit: numb
     .map(fromRow);
 }
 
+/** When the journal's first entry was done, or null for an empty journal (one index read). */
+export function firstEntryAt(tankId: number): number | null {
+  const row = getDb()
+    .select({ doneAt: journalEntries.doneAt })
+    .from(journalEntries)
+    .where(eq(journalEntries.tankId, tankId))
+    .orderBy(asc(journalEntries.doneAt))
+    .limit(1)
+    .get();
+  return row ? row.doneAt.getTime() : null;
+}
+
 /**
  * The newest entry of each kind a planned task resumes from (a water change, a filter cleaning,
  * each plant group's trim) dated before `before`, oldest first: what the calendar feed needs, without reading a journal

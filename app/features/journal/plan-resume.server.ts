@@ -10,6 +10,10 @@
  * with the day it fell due (however many intervals were missed), and the timetable resumes an
  * interval after today, as if it were done today — what marking it done today would plan (a
  * model choice). It never drops off because its day is in the past.
+ *
+ * A kind never logged counts from a fixed day, the plan's start (`PlanStart`, a model choice):
+ * its first one is due an interval after that day, then follows the same rule, overdue once that
+ * day has passed. Counted from today instead, it would recede a day every day and never come due.
  */
 import { plannedEvents, type Scenario } from "~models";
 import type { JournalEntry } from "~/features/journal/journal.server";
@@ -17,8 +21,20 @@ import { DAY_MS, startOfDay } from "~/utils/dates";
 
 type TankEvent = ReturnType<typeof plannedEvents>[number];
 
-/** A planned event; `overdueSince` (a day of the run) when it fell due before today and is planned today. */
-export type PlannedEvent = TankEvent & { overdueSince?: number };
+/**
+ * A planned event; `overdueSince` (a day of the run) when it fell due before today and is planned
+ * today; `firstOne` on the first planned of a kind the journal has none of (its day counts from
+ * the plan's start).
+ */
+export type PlannedEvent = TankEvent & { overdueSince?: number; firstOne?: true };
+
+/**
+ * The day a kind never logged counts from (a model choice: the day the keeper's records of the
+ * plan begin): the later of the journal's first entry and the day the tank's edited plan was
+ * last saved — before the journal began nothing tells whether a task was done, and before the
+ * plan was saved its timetable was not the keeper's; with neither, the scenario's start.
+ */
+export type PlanStart = { ms: number; from: "journal" | "plan" | "scenario" };
 
 /**
  * The end of `now`'s day: the planner counts in whole days, so an entry dated today counts as done
@@ -33,7 +49,7 @@ const sameGroup = (g: { id: string; name: string }, name: string | undefined) =>
 /**
  * The planned events on days [0, `toDay`) of a run whose day 0 is `originMs` (a start of day):
  * each kind resumed at the day (start of day) of its last entry dated today or before; a kind the
- * journal has none of starts from today (its first one an interval after today). An overdue
+ * journal has none of starts from the day of `start` (its first one an interval after it). An overdue
  * task is planned on today's day, once, with `overdueSince`. Events before day 0 are not
  * returned.
  */
@@ -43,8 +59,10 @@ export function plannedAfterJournal(
   originMs: number,
   now: number,
   toDay: number,
+  start: PlanStart,
 ): PlannedEvent[] {
   const today = (startOfDay(now) - originMs) / DAY_MS;
+  const startDay = (startOfDay(start.ms) - originMs) / DAY_MS;
   const done = entries.filter((e) => e.doneAt < doneByEndOf(now));
   const lastDay = (match: (e: JournalEntry) => boolean) => {
     const last = done.filter(match).at(-1);
@@ -53,8 +71,12 @@ export function plannedAfterJournal(
   // A timetable's doses start on its first day; resumed after a logged dose, that day is the logged one.
   const of = (mine: (e: TankEvent) => boolean, last: number | null): PlannedEvent[] => {
     const after = (from: number) => plannedEvents(s, toDay, from).filter((e) => mine(e) && e.day > from);
-    const fromLast =
-      last === null ? plannedEvents(s, toDay, today).filter((e) => mine(e) && e.day >= today) : after(last);
+    const fromLast: PlannedEvent[] =
+      last === null
+        ? plannedEvents(s, toDay, startDay)
+            .filter((e) => mine(e) && e.day >= startDay)
+            .map((e, k) => (k === 0 ? { ...e, firstOne: true as const } : e))
+        : after(last);
     const missed = fromLast.find((e) => e.day < today);
     const planned: PlannedEvent[] = missed
       ? [{ ...missed, day: today, overdueSince: missed.day }, ...after(today)]

@@ -11,7 +11,7 @@ import type { OutgoingMail } from "~/email.server";
 import { upcomingTasks } from "~/features/journal/calendar-feed.server";
 import { forecastCautions, forecastSentence } from "~/features/journal/forecast-text.server";
 import { forecastJournal, type Forecast } from "~/features/journal/journal-replay.server";
-import { planScenario, tankModelSettings } from "~/features/tanks/maintenance-plan.server";
+import { planScenario, planStart, tankModelSettings } from "~/features/tanks/maintenance-plan.server";
 import { displayUnitsFor, type DisplayUnits } from "~/utils/display-units";
 import { listJournal } from "~/features/journal/journal.server";
 import type { ReminderRow } from "~/features/reminders/reminder-schedule.server";
@@ -53,14 +53,16 @@ export async function reminderMail(row: ReminderRow, now: number): Promise<Outgo
   const settings = stored ? tankModelSettings(tank, stored) : null;
   const units = displayUnitsFor(user);
   const entries = listJournal(tank.id);
-  const tasks = settings ? upcomingTasks(settings, entries, now, DIGEST_DAYS) : [];
+  // Where a task kind never logged counts from, as the tank page counts it.
+  const start = scenario ? planStart(tank.id, scenario, entries[0]?.doneAt ?? null) : null;
+  const tasks = settings && start ? upcomingTasks(settings, entries, start, now, DIGEST_DAYS) : [];
   const today = startOfDay(now);
   const dueToday = tasks.filter((t) => t.atMs < today + DAY_MS);
   if (row.mode === "due" && dueToday.length === 0) return null;
   let forecast: Forecast | null;
   try {
     // The server's own run (null), not the keeper's: their runs in flight must not empty the mail.
-    forecast = settings ? await forecastJournal(settings, entries, now, null) : null;
+    forecast = settings && start ? await forecastJournal(settings, entries, now, null, start) : null;
   } catch {
     // A forecast the engine refuses (bad stored settings) still leaves the task list worth sending.
     forecast = null;

@@ -8,8 +8,9 @@ import type { Scenario } from "~models";
 import { getDb } from "~/db/client.server";
 import { maintenancePlans } from "~/db/schema-care";
 import type { EntryInput } from "~/features/journal/journal-entries";
-import { addEntries, listJournal, readEntry } from "~/features/journal/journal.server";
+import { addEntries, firstEntryAt, lastTaskEntries, readEntry } from "~/features/journal/journal.server";
 import { upcomingTasks } from "~/features/journal/calendar-feed.server";
+import { doneByEndOf, type PlanStart } from "~/features/journal/plan-resume.server";
 import { readStoredSettings, withTankTargets } from "~/features/runs/simulation.server";
 import type { MaintenancePlan } from "~/features/tanks/maintenance-plan";
 import { listScenarios, type ScenarioRow } from "~/features/tanks/tanks.server";
@@ -88,6 +89,22 @@ export function planScenario(tankId: number): ScenarioRow | null {
   return list.find((x) => x.id === row?.scenarioId) ?? list[0] ?? null;
 }
 
+/**
+ * The day a task kind never logged counts from (a model choice, plan-resume.server.ts): the later
+ * of the journal's first entry (`firstEntryMs`) and the day the edited plan was last saved; with
+ * neither, the start of `scenario` (the one whose timetable is shown: its day 0, else its creation).
+ */
+export function planStart(
+  tankId: number,
+  scenario: Pick<ScenarioRow, "startDate" | "createdAt">,
+  firstEntryMs: number | null,
+): PlanStart {
+  const saved = storedPlan(tankId)?.updatedAt.getTime() ?? null;
+  if (firstEntryMs !== null && (saved === null || firstEntryMs >= saved)) return { ms: firstEntryMs, from: "journal" };
+  if (saved !== null) return { ms: saved, from: "plan" };
+  return { ms: (scenario.startDate ?? scenario.createdAt).getTime(), from: "scenario" };
+}
+
 /** The tank's plan: the stored one over its scenario, else its first scenario's timetable; null without scenarios. */
 export function tankPlan(tankId: number): TankPlan | null {
   const row = storedPlan(tankId);
@@ -123,7 +140,11 @@ export function upcomingPlanned(tankId: number, now = Date.now(), days = 21): Pl
   if (!tp) return [];
   const s = applyPlan(tp.base, tp.plan);
   const date = toDateTimeInput(now);
-  return upcomingTasks(s, listJournal(tankId), now, days).map((t) => ({
+  // Only the newest entry of each kind a task resumes from, as the calendar feed reads it: the
+  // tank page is the most visited page, and a full journal holds 20,000 entries.
+  const entries = lastTaskEntries(tankId, doneByEndOf(now));
+  const start = planStart(tankId, tp.scenario, firstEntryAt(tankId));
+  return upcomingTasks(s, entries, start, now, days).map((t) => ({
     ...t,
     key: `${t.kind}-${t.groupId ?? ""}-${t.atMs}`,
     values: { date, ...doneValues(s, t.kind, t.groupId) },

@@ -19,6 +19,7 @@ import { forecastJournal, replayJournal, type Forecast } from "~/features/journa
 import {
   addEntries,
   countJournal,
+  firstEntryAt,
   deleteEntry,
   listJournal,
   newestJournalEntries,
@@ -28,7 +29,8 @@ import { QuotaExceeded } from "~/quotas.server";
 import { allReadings } from "~/features/readings/readings.server";
 import { resultWarnings } from "~/features/runs/run-warnings";
 import { readStoredSettings, settingsHash } from "~/features/runs/simulation.server";
-import { planScenario, tankModelSettings } from "~/features/tanks/maintenance-plan.server";
+import { planScenario, planStart, tankModelSettings } from "~/features/tanks/maintenance-plan.server";
+import type { PlanStart } from "~/features/journal/plan-resume.server";
 import { listScenarios, type TankRow } from "~/features/tanks/tanks.server";
 import { readUpload, UploadError } from "~/http/uploads.server";
 import { takeUploadTurn, UploadRefused } from "~/http/upload-turns.server";
@@ -64,16 +66,16 @@ type JournalModel = {
 };
 const keptModels = new LRUCache<string, JournalModel>({ max: 200, ttl: 10 * 60_000 });
 
-async function journalModel(tank: TankRow, settings: Scenario, now: number) {
-  const key = `${tank.id}:${tank.journalVersion}:${settingsHash(settings)}:${startOfDay(now)}`;
+async function journalModel(tank: TankRow, settings: Scenario, start: PlanStart, now: number) {
+  const key = `${tank.id}:${tank.journalVersion}:${settingsHash(settings)}:${start.from}:${start.ms}:${startOfDay(now)}`;
   const kept = keptModels.get(key);
   if (kept) return { ...kept, problem: null };
   const entries = listJournal(tank.id);
-  const upcoming = upcomingTasks(settings, entries, now, 21);
+  const upcoming = upcomingTasks(settings, entries, start, now, 21);
   const replay = await replayJournal(settings, entries, now, tank.ownerId);
   let forecast: Forecast | null = null;
   try {
-    forecast = replay ? await forecastJournal(settings, entries, now, tank.ownerId) : null;
+    forecast = replay ? await forecastJournal(settings, entries, now, tank.ownerId, start) : null;
   } catch (error) {
     // The replay stands without its forecast.
     const problem = runProblem(error);
@@ -105,9 +107,11 @@ export async function journalPageData(
   // the list; the tank's nitrate band is the forecast's target.
   const stored = chosen ? readStoredSettings(chosen.settings) : null;
   const settings = stored ? tankModelSettings(tank, stored) : null;
-  if (settings) {
+  // Where a task kind never logged counts from, the same for the forecast and the list.
+  const start = chosen ? planStart(tank.id, chosen, firstEntryAt(tank.id)) : null;
+  if (settings && start) {
     try {
-      const model = await journalModel(tank, settings, now);
+      const model = await journalModel(tank, settings, start, now);
       problem = model.problem;
       upcoming = model.upcoming.map((t) => ({ title: t.title, when: dayText(t.atMs) }));
       const r = model.replay;
