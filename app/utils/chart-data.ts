@@ -26,6 +26,11 @@ export type ChartSeries = {
   plants: { id: string; name: string; massG: number[] }[];
   /** Dissolved oxygen, mg O2/L (absent in series made before the engine modelled it). */
   o2?: number[];
+  /**
+   * The short-term (acute) US EPA 2013 TAN criterion at each sample's pH, in units.ammonia: the
+   * caution line over TAN, which moves where pH follows KH. Stored runs only (not previews).
+   */
+  tanCriterion?: number[];
 };
 
 /** Unit labels for the axes, legend, table and CSV headers, e.g. "mg/L NO3". */
@@ -70,8 +75,6 @@ export type ChartGuides = {
   freeAmmoniaCaution?: number;
   /** Nitrite caution level in units.nitrite. */
   nitriteCaution?: number;
-  /** The pH- and temperature-dependent chronic ammonia criterion (US EPA 2013), TAN in units.ammonia. */
-  tanCriterion?: number;
   /** Dissolved oxygen below which fish suffer, mg O2/L. */
   oxygenCaution?: number;
 };

@@ -4,6 +4,7 @@
  */
 import { formatDay, formatNumber, formatSigned } from "~/components/charts/format";
 import { LineSwatch } from "~/components/charts/legend";
+import { TAN_CRITERION_NAME } from "~/components/charts/guide-marks";
 import { COMPARE_COLORS, COMPARE_DASHES, SERIES_COLORS, SERIES_NAMES } from "~/components/charts/palette";
 import type { SeriesKey } from "~/utils/chart-data";
 
@@ -15,6 +16,9 @@ function compareStyle(k: number, key: SeriesKey): { color: string; dash: string 
   };
 }
 
+/** "short-term criterion at the pH of the day": the column names TAN already. */
+const CRITERION_HEADING = TAN_CRITERION_NAME.replace(/^TAN /, "");
+
 export function CompareReadout({
   day,
   species,
@@ -22,6 +26,7 @@ export function CompareReadout({
   runs,
   hidden,
   values: vals,
+  criteria,
 }: {
   day: number;
   species: SeriesKey;
@@ -29,6 +34,8 @@ export function CompareReadout({
   runs: readonly { label: string }[];
   hidden: ReadonlySet<number>;
   values: readonly number[];
+  /** Each run's TAN short-term criterion at the pH of the day (TAN only), in `unit`. */
+  criteria?: readonly number[] | null;
 }) {
   return (
     <div className="space-y-2 rounded-md border border-stone-200 bg-white p-3">
@@ -53,6 +60,11 @@ export function CompareReadout({
             <th scope="col" className="text-right font-normal">
               vs first
             </th>
+            {criteria ? (
+              <th scope="col" className="pl-2 text-right font-normal">
+                {CRITERION_HEADING}
+              </th>
+            ) : null}
           </tr>
         </thead>
         <tbody>
@@ -70,6 +82,7 @@ export function CompareReadout({
                 <td className="num pl-2 text-right text-stone-700">
                   {k === 0 ? "–" : formatSigned(vals[k] - vals[0])}
                 </td>
+                {criteria ? <td className="num pl-2 text-right">{formatNumber(criteria[k])}</td> : null}
               </tr>
             );
           })}

@@ -1,13 +1,13 @@
 /**
- * The results chart's stacked panels (TimeSeriesChart): ammonia (TAN and free NH3 with their
- * cautions and the pH- and temperature-dependent TAN criterion), nitrite with its caution,
+ * The results chart's stacked panels (TimeSeriesChart): ammonia (TAN and free NH3 with the free
+ * NH3 caution and TAN's short-term criterion at each sample's pH), nitrite with its caution,
  * nitrate with the target band, plant dry mass and dissolved oxygen, each on its own scale, with
  * the run's lines, any overlays and the readings on the panel of their species.
  */
 import { useMemo } from "react";
 import type { FrameLine, FramePanel, FramePoint } from "~/components/charts/chart-frame-types";
 import { formatDay, formatNumber } from "~/components/charts/format";
-import { guideMarks } from "~/components/charts/guide-marks";
+import { criterionLine, guideMarks, TAN_CRITERION_NAME } from "~/components/charts/guide-marks";
 import {
   PLANT_DASHES,
   PLANT_UNIT,
@@ -100,6 +100,17 @@ export function useSeriesPanels({
       if (!hiddenOverlays.has(k)) add(o.series, `ov${k}`, true);
     });
     add(series, "main", false);
+    // The short-term criterion at each sample's pH: where TAN rises above it, the warning says so.
+    if (vis("tan") && series.tanCriterion && series.tanCriterion.length === series.t.length) {
+      const line = criterionLine(
+        "main-tan-criterion",
+        series.t,
+        series.tanCriterion,
+        SERIES_COLORS.tan,
+        TAN_CRITERION_NAME,
+      );
+      out.push({ ...line, panel: "ammonia" });
+    }
     if (series.o2 && series.o2.length === series.t.length) {
       out.push({
         key: "main-o2",
@@ -146,7 +157,6 @@ export function useSeriesPanels({
     const scale = height / 340;
     const guidePanel: Record<string, PanelKey> = {
       "nh3-caution": "ammonia",
-      "tan-criterion": "ammonia",
       "no2-caution": "nitrite",
       "o2-caution": "oxygen",
     };

@@ -4,6 +4,7 @@
  */
 import type { LegendItem } from "~/components/charts/downloads";
 import { formatDay, formatNumber, formatSigned } from "~/components/charts/format";
+import { CRITERION_DASH, TAN_CRITERION_NAME } from "~/components/charts/guide-marks";
 import { LineSwatch } from "~/components/charts/legend";
 import { residualsNear, sampleSide, valueAt, type Side } from "~/utils/series-lookup";
 import {
@@ -116,6 +117,19 @@ export function Readout({
       unit: unitOf(k, units),
       main: series[k][index],
       others: overlays.map((o) => valueAt(o.series.t, o.series[k], day, side ?? "before")),
+    });
+  }
+  if (visible.tan && series.tanCriterion) {
+    rows.push({
+      key: "tan-criterion",
+      name: TAN_CRITERION_NAME,
+      color: SERIES_COLORS.tan,
+      dash: CRITERION_DASH,
+      unit: unitOf("tan", units),
+      main: series.tanCriterion[index],
+      others: overlays.map((o) =>
+        o.series.tanCriterion ? valueAt(o.series.t, o.series.tanCriterion, day, side ?? "before") : NaN,
+      ),
     });
   }
   if (visible.plants) {
@@ -232,6 +246,13 @@ export function legendItems(
         color: SERIES_COLORS[k],
         dash: SERIES_DASH[k],
       });
+  }
+  if (visible.tan && series.tanCriterion) {
+    out.push({
+      label: `${TAN_CRITERION_NAME} (US EPA 2013), ${unitOf("tan", units)}`,
+      color: SERIES_COLORS.tan,
+      dash: CRITERION_DASH,
+    });
   }
   if (visible.plants) {
     series.plants.forEach((p, g) =>
