@@ -1,7 +1,7 @@
 /**
  * The compare chart's TAN caution lines: each scenario's own short-term criterion at the pH of
- * its day (runs with different KH drift apart), in the scenario's colour; only the first is
- * labelled on the plot, the readout gives each value.
+ * its day (runs with different KH drift apart), in the scenario's colour and labelled with its
+ * name; the readout gives each value at the cursor.
  */
 import type { FrameLine } from "~/components/charts/chart-frame-types";
 import { compareStyle } from "~/components/charts/compare-readout";
@@ -16,7 +16,8 @@ export function compareCriterionLines(runs: readonly Run[], hidden: ReadonlySet<
   runs.forEach((run, k) => {
     const c = run.series.tanCriterion;
     if (hidden.has(k) || !c || c.length !== run.series.t.length) return;
-    const label = runs.length === 1 || k === 0 ? TAN_CRITERION_NAME : undefined;
+    const name = run.label.length > 22 ? `${run.label.slice(0, 21)}…` : run.label;
+    const label = runs.length === 1 ? TAN_CRITERION_NAME : `${TAN_CRITERION_NAME}: ${name}`;
     out.push(criterionLine(`run-${k}-tan-criterion`, run.series.t, c, compareStyle(k, "tan").color, label));
   });
   return out;

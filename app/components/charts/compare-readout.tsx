@@ -16,9 +16,6 @@ function compareStyle(k: number, key: SeriesKey): { color: string; dash: string 
   };
 }
 
-/** "short-term criterion at the pH of the day": the column names TAN already. */
-const CRITERION_HEADING = TAN_CRITERION_NAME.replace(/^TAN /, "");
-
 export function CompareReadout({
   day,
   species,
@@ -48,6 +45,7 @@ export function CompareReadout({
       <table className="w-full text-sm">
         <caption className="sr-only">
           {SERIES_NAMES[species].long} at {formatDay(day)}, and the difference from {runs[0]?.label}
+          {criteria ? `; and each scenario's ${TAN_CRITERION_NAME}` : ""}
         </caption>
         <thead>
           <tr className="text-left text-xs text-stone-600">
@@ -62,7 +60,7 @@ export function CompareReadout({
             </th>
             {criteria ? (
               <th scope="col" className="pl-2 text-right font-normal">
-                {CRITERION_HEADING}
+                short-term criterion
               </th>
             ) : null}
           </tr>
