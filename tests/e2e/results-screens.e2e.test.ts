@@ -28,6 +28,26 @@ describe("specific warnings where fish can be harmed", () => {
     expectNoConsoleErrors(page);
   });
 
+  it("the chart's TAN line is the short-term criterion the warning names, in the plot and the readout", async () => {
+    const page = await newPage();
+    await signIn(page, DEMO.teacher, DEMO.password);
+    await page.getByRole("link", { name: "Classroom demo tank" }).click();
+    await page.getByRole("link", { name: "The same at pH 8 and 28 °C" }).first().click();
+    await page.getByRole("application").waitFor();
+    // US EPA 2013 (docs/sources.md §2): the warning and the line come from the one criterion at
+    // the pH of the day (this tank's pH stays put, so every day's value is the warning's).
+    const warned = await page.locator('[data-warning="ammoniaAboveAcuteCriterion"]').textContent();
+    const limit = /short-term criterion at that day's pH and temperature \(([\d.]+) mg\/L NH3, US EPA 2013\)/.exec(
+      warned ?? "",
+    );
+    expect(limit).not.toBeNull();
+    const name = "TAN short-term criterion at the pH of the day";
+    await page.locator('[data-panel="ammonia"] [data-chart-label]', { hasText: name }).waitFor();
+    const row = page.getByRole("row").filter({ has: page.getByRole("rowheader", { name: new RegExp(name) }) });
+    expect((await row.first().locator("td").first().textContent())?.trim()).toBe(limit![1]);
+    expectNoConsoleErrors(page);
+  });
+
   it("without JavaScript the numbers table says why it is empty and links the run's CSV, which downloads", async () => {
     const page = await newPage({ javaScript: false });
     await signIn(page, DEMO.teacher, DEMO.password);
