@@ -27,10 +27,12 @@ export type ChartSeries = {
   /** Dissolved oxygen, mg O2/L (absent in series made before the engine modelled it). */
   o2?: number[];
   /**
-   * The short-term (acute) US EPA 2013 TAN criterion at each sample's pH, in units.ammonia: the
-   * caution line over TAN, which moves where pH follows KH. Stored runs only (not previews).
+   * The US EPA 2013 TAN criteria at each sample's pH, in units.ammonia: the caution lines over
+   * TAN, which move where pH follows KH (decision 0010). Long-term = chronic (a 30-day average
+   * limit, the lower line); short-term = acute (a one-hour average). Stored runs only.
    */
-  tanCriterion?: number[];
+  tanLongTerm?: number[];
+  tanShortTerm?: number[];
 };
 
 /** Unit labels for the axes, legend, table and CSV headers, e.g. "mg/L NO3". */

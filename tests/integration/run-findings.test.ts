@@ -45,7 +45,8 @@ describe("stored run findings", () => {
     expect(freeNh3?.text).toMatch(
       /^Free ammonia reaches [\d.]+ mg\/L NH3 on day \d+(\.\d+)?, .* the caution line \(0\.02 mg\/L NH3\)\.$/,
     );
-    expect(payload.series.tanCriterion).toHaveLength(payload.series.t.length);
-    expect(Math.min(...payload.series.tanCriterion!)).toBeGreaterThan(0);
+    expect(payload.series.tanLongTerm).toHaveLength(payload.series.t.length);
+    expect(payload.series.tanShortTerm).toHaveLength(payload.series.t.length);
+    expect(Math.min(...payload.series.tanLongTerm!)).toBeGreaterThan(0);
   });
 });

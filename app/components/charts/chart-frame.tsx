@@ -16,12 +16,37 @@ import { INK, MONO_STACK, SERIF_STACK } from "~/components/charts/palette";
 import { EVENT_ROW, dayDomain, maxFinite, plotBox, ticksOf, valueDomain } from "~/components/charts/scales";
 import { formatDay } from "~/components/charts/format";
 import { EVENT_ORDER, EventStrip } from "~/components/charts/event-strip";
-import type { ChartFrameProps } from "~/components/charts/chart-frame-types";
+import type { ChartFrameProps, FramePanel } from "~/components/charts/chart-frame-types";
 import { drawPanel } from "~/components/charts/chart-panel";
 
 export type { FrameLine, FramePanel } from "~/components/charts/chart-frame-types";
 
 const EMPTY: readonly never[] = [];
+
+/**
+ * How far a line that may leave the scale can stretch it and still count: 1.5, so the data keep
+ * at least two thirds of the panel's height (our own choice, no source).
+ */
+const MAX_STRETCH = 1.5;
+
+/**
+ * The values a panel's scale must show: its data, guides, band and readings, and a line that
+ * may leave the scale (a caution line far above the data) only when it is near them.
+ */
+function panelMaxima(p: FramePanel): number[] {
+  const firm = [
+    ...p.lines.filter((l) => !l.mayLeaveScale).map((l) => maxFinite(l.y)),
+    ...(p.guides ?? []).map((g) => g.value),
+    ...(p.bands ?? []).map((b) => b.high),
+    ...(p.points ?? []).map((q) => q.value),
+  ];
+  const top = Math.max(0, ...firm.filter(Number.isFinite));
+  const near = p.lines
+    .filter((l) => l.mayLeaveScale)
+    .map((l) => maxFinite(l.y))
+    .filter((v) => top > 0 && v <= top * MAX_STRETCH);
+  return [...firm, ...near];
+}
 
 /** Space between stacked panels, in font sizes. */
 const PANEL_GAP_EM = 0.8;
@@ -65,13 +90,9 @@ export function ChartFrame({
       const h = Math.max(40, p.height);
       offset = plotTop + h + (k < shown.length - 1 ? gap : 0);
       const yCount = Math.max(2, Math.floor(h / (fs * 3.2)));
-      const maxima = [
-        ...p.lines.map((l) => maxFinite(l.y)),
-        ...(p.guides ?? []).map((g) => g.value),
-        ...(p.bands ?? []).map((b) => b.high),
-        ...(p.points ?? []).map((q) => q.value),
-      ];
-      const y = scaleLinear().domain(valueDomain(maxima, yCount)).range([h, 0]);
+      const y = scaleLinear()
+        .domain(valueDomain(panelMaxima(p), yCount))
+        .range([h, 0]);
       return { panel: p, top: plotTop, height: h, y, yCount };
     });
     const totalHeight = offset + box.margin.bottom;

@@ -4,7 +4,7 @@
  */
 import { formatDay, formatNumber, formatSigned } from "~/components/charts/format";
 import { LineSwatch } from "~/components/charts/legend";
-import { TAN_CRITERION_NAME } from "~/components/charts/guide-marks";
+import { TAN_CRITERIA, TAN_CRITERION_KINDS, type TanCriterionKind } from "~/components/charts/tan-criteria";
 import { COMPARE_COLORS, COMPARE_DASHES, SERIES_COLORS, SERIES_NAMES } from "~/components/charts/palette";
 import type { SeriesKey } from "~/utils/chart-data";
 
@@ -31,8 +31,8 @@ export function CompareReadout({
   runs: readonly { label: string }[];
   hidden: ReadonlySet<number>;
   values: readonly number[];
-  /** Each run's TAN short-term criterion at the pH of the day (TAN only), in `unit`. */
-  criteria?: readonly number[] | null;
+  /** Each run's TAN long-term limit and short-term criterion at the pH of the day (TAN only), in `unit`. */
+  criteria?: Readonly<Record<TanCriterionKind, readonly number[]>> | null;
 }) {
   return (
     <div className="space-y-2 rounded-md border border-stone-200 bg-white p-3">
@@ -45,7 +45,9 @@ export function CompareReadout({
       <table className="w-full text-sm">
         <caption className="sr-only">
           {SERIES_NAMES[species].long} at {formatDay(day)}, and the difference from {runs[0]?.label}
-          {criteria ? `; and each scenario's ${TAN_CRITERION_NAME}` : ""}
+          {criteria
+            ? `; and each scenario's ${TAN_CRITERIA.longTerm.name} (drawn) and ${TAN_CRITERIA.shortTerm.name} (not drawn)`
+            : ""}
         </caption>
         <thead>
           <tr className="text-left text-xs text-stone-600">
@@ -58,11 +60,13 @@ export function CompareReadout({
             <th scope="col" className="text-right font-normal">
               vs first
             </th>
-            {criteria ? (
-              <th scope="col" className="pl-2 text-right font-normal">
-                short-term criterion
-              </th>
-            ) : null}
+            {criteria
+              ? TAN_CRITERION_KINDS.map((kind) => (
+                  <th key={kind} scope="col" className="pl-2 text-right font-normal">
+                    {TAN_CRITERIA[kind].short}
+                  </th>
+                ))
+              : null}
           </tr>
         </thead>
         <tbody>
@@ -80,7 +84,13 @@ export function CompareReadout({
                 <td className="num pl-2 text-right text-stone-700">
                   {k === 0 ? "–" : formatSigned(vals[k] - vals[0])}
                 </td>
-                {criteria ? <td className="num pl-2 text-right">{formatNumber(criteria[k])}</td> : null}
+                {criteria
+                  ? TAN_CRITERION_KINDS.map((kind) => (
+                      <td key={kind} className="num pl-2 text-right">
+                        {formatNumber(criteria[kind][k])}
+                      </td>
+                    ))
+                  : null}
               </tr>
             );
           })}

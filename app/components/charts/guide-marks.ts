@@ -2,7 +2,7 @@
  * The target band and the caution lines the charts draw, one wording and one colour each, for
  * the results chart and the compare chart alike.
  */
-import type { FrameBand, FrameGuide, FrameLine } from "~/components/charts/chart-frame-types";
+import type { FrameBand, FrameGuide } from "~/components/charts/chart-frame-types";
 import { formatNumber } from "~/components/charts/format";
 import { BAND_COLOR, SERIES_COLORS } from "~/components/charts/palette";
 import type { ChartGuides } from "~/utils/chart-data";
@@ -37,23 +37,4 @@ export function guideMarks(
   line("no2", "no2-caution", guides.nitriteCaution, SERIES_COLORS.no2, "NO2 caution");
   line("o2", "o2-caution", guides.oxygenCaution, CAUTION_RED, "fish suffer below");
   return { bands, guideLines };
-}
-
-/** What the moving TAN caution line is called on the chart, in the readout and in the legend. */
-export const TAN_CRITERION_NAME = "TAN short-term criterion at the pH of the day";
-/** Dashed like the flat caution lines. */
-export const CRITERION_DASH = "4 3";
-
-/**
- * The short-term (acute) US EPA 2013 TAN criterion of a run (ChartSeries.tanCriterion), drawn
- * like a caution line but following the run's pH sample by sample, as the warnings check it.
- */
-export function criterionLine(
-  key: string,
-  t: ArrayLike<number>,
-  values: ArrayLike<number>,
-  color: string,
-  label: string | undefined,
-): FrameLine {
-  return { key, t, y: values, color, dash: CRITERION_DASH, width: 1.25, label, cursorDot: false };
 }

@@ -1,13 +1,15 @@
 /**
  * The results chart's stacked panels (TimeSeriesChart): ammonia (TAN and free NH3 with the free
- * NH3 caution and TAN's short-term criterion at each sample's pH), nitrite with its caution,
+ * NH3 caution and TAN's long-term limit and short-term criterion at each sample's pH, decision
+ * 0010), nitrite with its caution,
  * nitrate with the target band, plant dry mass and dissolved oxygen, each on its own scale, with
  * the run's lines, any overlays and the readings on the panel of their species.
  */
 import { useMemo } from "react";
 import type { FrameLine, FramePanel, FramePoint } from "~/components/charts/chart-frame-types";
 import { formatDay, formatNumber } from "~/components/charts/format";
-import { criterionLine, guideMarks, TAN_CRITERION_NAME } from "~/components/charts/guide-marks";
+import { guideMarks } from "~/components/charts/guide-marks";
+import { criterionLine, TAN_CRITERIA, TAN_CRITERION_KINDS } from "~/components/charts/tan-criteria";
 import {
   PLANT_DASHES,
   PLANT_UNIT,
@@ -100,16 +102,13 @@ export function useSeriesPanels({
       if (!hiddenOverlays.has(k)) add(o.series, `ov${k}`, true);
     });
     add(series, "main", false);
-    // The short-term criterion at each sample's pH: where TAN rises above it, the warning says so.
-    if (vis("tan") && series.tanCriterion && series.tanCriterion.length === series.t.length) {
-      const line = criterionLine(
-        "main-tan-criterion",
-        series.t,
-        series.tanCriterion,
-        SERIES_COLORS.tan,
-        TAN_CRITERION_NAME,
-      );
-      out.push({ ...line, panel: "ammonia" });
+    // Both criteria at each sample's pH: the long-term limit, and the short-term criterion the
+    // warning checks (it may leave the scale when TAN stays far below it).
+    if (vis("tan")) {
+      for (const kind of TAN_CRITERION_KINDS) {
+        const line = criterionLine(`main-tan-${kind}`, series, kind, SERIES_COLORS.tan, TAN_CRITERIA[kind].name);
+        if (line) out.push({ ...line, panel: "ammonia" });
+      }
     }
     if (series.o2 && series.o2.length === series.t.length) {
       out.push({

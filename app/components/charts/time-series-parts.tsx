@@ -4,7 +4,7 @@
  */
 import type { LegendItem } from "~/components/charts/downloads";
 import { formatDay, formatNumber, formatSigned } from "~/components/charts/format";
-import { CRITERION_DASH, TAN_CRITERION_NAME } from "~/components/charts/guide-marks";
+import { TAN_CRITERIA, TAN_CRITERION_KINDS, tanCriterionOf } from "~/components/charts/tan-criteria";
 import { LineSwatch } from "~/components/charts/legend";
 import { residualsNear, sampleSide, valueAt, type Side } from "~/utils/series-lookup";
 import {
@@ -119,17 +119,20 @@ export function Readout({
       others: overlays.map((o) => valueAt(o.series.t, o.series[k], day, side ?? "before")),
     });
   }
-  if (visible.tan && series.tanCriterion) {
+  for (const kind of visible.tan ? TAN_CRITERION_KINDS : []) {
+    const values = tanCriterionOf(series, kind);
+    if (!values) continue;
     rows.push({
-      key: "tan-criterion",
-      name: TAN_CRITERION_NAME,
+      key: `tan-${kind}`,
+      name: TAN_CRITERIA[kind].name,
       color: SERIES_COLORS.tan,
-      dash: CRITERION_DASH,
+      dash: TAN_CRITERIA[kind].dash,
       unit: unitOf("tan", units),
-      main: series.tanCriterion[index],
-      others: overlays.map((o) =>
-        o.series.tanCriterion ? valueAt(o.series.t, o.series.tanCriterion, day, side ?? "before") : NaN,
-      ),
+      main: values[index],
+      others: overlays.map((o) => {
+        const v = tanCriterionOf(o.series, kind);
+        return v ? valueAt(o.series.t, v, day, side ?? "before") : NaN;
+      }),
     });
   }
   if (visible.plants) {
@@ -247,12 +250,10 @@ export function legendItems(
         dash: SERIES_DASH[k],
       });
   }
-  if (visible.tan && series.tanCriterion) {
-    out.push({
-      label: `${TAN_CRITERION_NAME} (US EPA 2013), ${unitOf("tan", units)}`,
-      color: SERIES_COLORS.tan,
-      dash: CRITERION_DASH,
-    });
+  for (const kind of visible.tan ? TAN_CRITERION_KINDS : []) {
+    if (!tanCriterionOf(series, kind)) continue;
+    const { name, averaged, dash } = TAN_CRITERIA[kind];
+    out.push({ label: `${name} (US EPA 2013, ${averaged}), ${unitOf("tan", units)}`, color: SERIES_COLORS.tan, dash });
   }
   if (visible.plants) {
     series.plants.forEach((p, g) =>

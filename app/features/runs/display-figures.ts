@@ -4,6 +4,7 @@
  */
 import type { KeyFigures, Series } from "~models";
 import { speciesFactor } from "~models/units";
+import type { TanCriterionLines } from "~/features/runs/criterion-line";
 import type { ChartGuides, ChartSeries, DisplayKeyFigures } from "~/utils/chart-data";
 import type { DisplayUnits } from "~/utils/display-units";
 
@@ -29,10 +30,10 @@ const scale = (values: number[], f: number) => values.map((v) => round4(v * f));
 
 /**
  * The chart's columns in display units (the engine's extra columns stay on the server).
- * @param tanCriterionMgN the short-term TAN criterion per sample (criterion-line.ts), mg TAN-N/L;
- *   left out where no caution line is drawn (what-if previews)
+ * @param criteria the long-term and short-term TAN criteria per sample (criterion-line.ts),
+ *   mg TAN-N/L; left out where no caution line is drawn (what-if previews)
  */
-export function displaySeries(s: Series, units: DisplayUnits, tanCriterionMgN?: readonly number[]): ChartSeries {
+export function displaySeries(s: Series, units: DisplayUnits, criteria?: TanCriterionLines): ChartSeries {
   const nh3 = speciesFactor("ammonia", units);
   return {
     t: s.t,
@@ -42,7 +43,9 @@ export function displaySeries(s: Series, units: DisplayUnits, tanCriterionMgN?: 
     no3: scale(s.no3, speciesFactor("nitrate", units)),
     plants: s.plants.map((p) => ({ id: p.id, name: p.name, massG: p.massG.map(round4) })),
     ...(s.o2 ? { o2: s.o2.map(round4) } : {}),
-    ...(tanCriterionMgN?.length === s.t.length ? { tanCriterion: scale([...tanCriterionMgN], nh3) } : {}),
+    ...(criteria && criteria.longTerm.length === s.t.length && criteria.shortTerm.length === s.t.length
+      ? { tanLongTerm: scale(criteria.longTerm, nh3), tanShortTerm: scale(criteria.shortTerm, nh3) }
+      : {}),
   };
 }
 

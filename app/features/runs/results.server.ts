@@ -4,7 +4,7 @@
  */
 import { OXYGEN, type NitrogenBudget, type Scenario } from "~models";
 import { chartEventKind, type ChartEvent } from "~/utils/chart-data";
-import { acuteCriterionLine } from "~/features/runs/criterion-line";
+import { tanCriterionLines } from "~/features/runs/criterion-line";
 import { displayGuides, displayKeyFigures, displaySeries } from "~/features/runs/display-figures";
 import { speciesFactor, toCanonical } from "~models/units";
 import { resultWarnings } from "~/features/runs/run-warnings";
@@ -41,7 +41,7 @@ function buildPayload(run: StoredRun, scenario: Scenario, units: DisplayUnits): 
     series: displaySeries(
       run.series,
       units,
-      acuteCriterionLine(run.series, scenario.water.pH, scenario.water.temperatureC),
+      tanCriterionLines(run.series, scenario.water.pH, scenario.water.temperatureC),
     ),
     events: run.events.map((e): ChartEvent => ({ day: e.day, kind: chartEventKind(e.kind), detail: e.detail })),
     guides: {
