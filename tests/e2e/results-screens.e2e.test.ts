@@ -28,7 +28,7 @@ describe("specific warnings where fish can be harmed", () => {
     expectNoConsoleErrors(page);
   });
 
-  it("the chart's TAN line is the short-term criterion the warning names, in the plot and the readout", async () => {
+  it("the chart draws the short-term criterion the warning names and the lower long-term limit, in the plot and the readout", async () => {
     const page = await newPage();
     await signIn(page, DEMO.teacher, DEMO.password);
     await page.getByRole("link", { name: "Classroom demo tank" }).click();
@@ -41,10 +41,16 @@ describe("specific warnings where fish can be harmed", () => {
       warned ?? "",
     );
     expect(limit).not.toBeNull();
-    const name = "TAN short-term criterion at the pH of the day";
-    await page.locator('[data-panel="ammonia"] [data-chart-label]', { hasText: name }).waitFor();
-    const row = page.getByRole("row").filter({ has: page.getByRole("rowheader", { name: new RegExp(name) }) });
-    expect((await row.first().locator("td").first().textContent())?.trim()).toBe(limit![1]);
+    const valueOf = async (name: string) => {
+      await page.locator('[data-panel="ammonia"] [data-chart-label]', { hasText: name }).waitFor();
+      const row = page.getByRole("row").filter({ has: page.getByRole("rowheader", { name: new RegExp(name) }) });
+      return (await row.first().locator("td").first().textContent())?.trim();
+    };
+    expect(await valueOf("TAN short-term criterion at the pH of the day")).toBe(limit![1]);
+    // US EPA 2013 (docs/sources.md §2): the long-term (chronic) limit is drawn too, and is the lower line.
+    const longTerm = Number(await valueOf("TAN long-term limit at the pH of the day"));
+    expect(longTerm).toBeGreaterThan(0);
+    expect(longTerm).toBeLessThan(Number(limit![1]));
     expectNoConsoleErrors(page);
   });
 
@@ -58,11 +64,15 @@ describe("specific warnings where fish can be harmed", () => {
     // Playwright's text locators skip <noscript>, so its elements are found by tag.
     const said = table.locator("noscript p");
     await said.waitFor();
-    expect(await said.textContent()).toMatch(/^The table is drawn by the page’s script, which is off in this browser\. The same numbers are in the run as a CSV file/);
+    expect(await said.textContent()).toMatch(
+      /^The table is drawn by the page’s script, which is off in this browser\. The same numbers are in the run as a CSV file/,
+    );
     const link = table.locator("noscript a");
     const csv = await page.request.get((await link.getAttribute("href"))!);
     expect(csv.status()).toBe(200);
-    expect((await csv.text()).split("\n")[0]).toMatch(/^day,tan_mg_n_per_l,free_nh3_mg_n_per_l,nitrite_mg_n_per_l,nitrate_mg_n_per_l,/);
+    expect((await csv.text()).split("\n")[0]).toMatch(
+      /^day,tan_mg_n_per_l,free_nh3_mg_n_per_l,nitrite_mg_n_per_l,nitrate_mg_n_per_l,/,
+    );
     await shot(page, "results-table-without-scripts");
   });
 

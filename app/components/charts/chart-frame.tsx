@@ -13,40 +13,15 @@ import { useId, useMemo, type ReactNode } from "react";
 import { useContainerWidth, type CursorVia } from "~/components/charts/hooks";
 import { CURSOR_KEYS_HELP, CURSOR_KEYS_SUMMARY, nearestIndex, sampleSide, valueAt } from "~/utils/series-lookup";
 import { INK, MONO_STACK, SERIF_STACK } from "~/components/charts/palette";
-import { EVENT_ROW, dayDomain, maxFinite, plotBox, ticksOf, valueDomain } from "~/components/charts/scales";
+import { EVENT_ROW, dayDomain, panelMaxima, plotBox, ticksOf, valueDomain } from "~/components/charts/scales";
 import { formatDay } from "~/components/charts/format";
 import { EVENT_ORDER, EventStrip } from "~/components/charts/event-strip";
-import type { ChartFrameProps, FramePanel } from "~/components/charts/chart-frame-types";
+import type { ChartFrameProps } from "~/components/charts/chart-frame-types";
 import { drawPanel } from "~/components/charts/chart-panel";
 
 export type { FrameLine, FramePanel } from "~/components/charts/chart-frame-types";
 
 const EMPTY: readonly never[] = [];
-
-/**
- * How far a line that may leave the scale can stretch it and still count: 1.5, so the data keep
- * at least two thirds of the panel's height (our own choice, no source).
- */
-const MAX_STRETCH = 1.5;
-
-/**
- * The values a panel's scale must show: its data, guides, band and readings, and a line that
- * may leave the scale (a caution line far above the data) only when it is near them.
- */
-function panelMaxima(p: FramePanel): number[] {
-  const firm = [
-    ...p.lines.filter((l) => !l.mayLeaveScale).map((l) => maxFinite(l.y)),
-    ...(p.guides ?? []).map((g) => g.value),
-    ...(p.bands ?? []).map((b) => b.high),
-    ...(p.points ?? []).map((q) => q.value),
-  ];
-  const top = Math.max(0, ...firm.filter(Number.isFinite));
-  const near = p.lines
-    .filter((l) => l.mayLeaveScale)
-    .map((l) => maxFinite(l.y))
-    .filter((v) => top > 0 && v <= top * MAX_STRETCH);
-  return [...firm, ...near];
-}
 
 /** Space between stacked panels, in font sizes. */
 const PANEL_GAP_EM = 0.8;
