@@ -45,9 +45,6 @@ export function CompareReadout({
       <table className="w-full text-sm">
         <caption className="sr-only">
           {SERIES_NAMES[species].long} at {formatDay(day)}, and the difference from {runs[0]?.label}
-          {criteria
-            ? `; and each scenario's ${TAN_CRITERIA.longTerm.name} (drawn) and ${TAN_CRITERIA.shortTerm.name} (not drawn)`
-            : ""}
         </caption>
         <thead>
           <tr className="text-left text-xs text-stone-600">
@@ -60,13 +57,6 @@ export function CompareReadout({
             <th scope="col" className="text-right font-normal">
               vs first
             </th>
-            {criteria
-              ? TAN_CRITERION_KINDS.map((kind) => (
-                  <th key={kind} scope="col" className="pl-2 text-right font-normal">
-                    {TAN_CRITERIA[kind].short}
-                  </th>
-                ))
-              : null}
           </tr>
         </thead>
         <tbody>
@@ -84,18 +74,66 @@ export function CompareReadout({
                 <td className="num pl-2 text-right text-stone-700">
                   {k === 0 ? "–" : formatSigned(vals[k] - vals[0])}
                 </td>
-                {criteria
-                  ? TAN_CRITERION_KINDS.map((kind) => (
-                      <td key={kind} className="num pl-2 text-right">
-                        {formatNumber(criteria[kind][k])}
-                      </td>
-                    ))
-                  : null}
               </tr>
             );
           })}
         </tbody>
       </table>
+      {criteria ? <CriteriaTable day={day} unit={unit} runs={runs} hidden={hidden} criteria={criteria} /> : null}
     </div>
+  );
+}
+
+/**
+ * Each scenario's TAN criteria at the pH of the day (decision 0010), in a table of their own so
+ * the values above keep their width: the long-term limit is drawn, the short-term criterion is not.
+ */
+function CriteriaTable({
+  day,
+  unit,
+  runs,
+  hidden,
+  criteria,
+}: {
+  day: number;
+  unit: string;
+  runs: readonly { label: string }[];
+  hidden: ReadonlySet<number>;
+  criteria: Readonly<Record<TanCriterionKind, readonly number[]>>;
+}) {
+  return (
+    <table className="w-full text-sm">
+      <caption className="text-left text-xs text-stone-600">
+        TAN criteria at the pH of the day (US EPA 2013), {unit}: the long-term limit is drawn, the short-term criterion
+        only given here
+        <span className="sr-only"> at {formatDay(day)}</span>
+      </caption>
+      <thead>
+        <tr className="text-left text-xs text-stone-600">
+          <th scope="col" className="font-normal">
+            Scenario
+          </th>
+          {TAN_CRITERION_KINDS.map((kind) => (
+            <th key={kind} scope="col" className="pl-2 text-right font-normal">
+              {TAN_CRITERIA[kind].short}
+            </th>
+          ))}
+        </tr>
+      </thead>
+      <tbody>
+        {runs.map((run, k) => (
+          <tr key={k} className={hidden.has(k) ? "text-stone-400" : ""}>
+            <th scope="row" className="py-0.5 pr-2 text-left font-normal">
+              {run.label}
+            </th>
+            {TAN_CRITERION_KINDS.map((kind) => (
+              <td key={kind} className="num pl-2 text-right">
+                {formatNumber(criteria[kind][k])}
+              </td>
+            ))}
+          </tr>
+        ))}
+      </tbody>
+    </table>
   );
 }
