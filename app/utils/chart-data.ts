@@ -26,6 +26,13 @@ export type ChartSeries = {
   plants: { id: string; name: string; massG: number[] }[];
   /** Dissolved oxygen, mg O2/L (absent in series made before the engine modelled it). */
   o2?: number[];
+  /**
+   * The US EPA 2013 TAN criteria at each sample's pH, in units.ammonia: the caution lines over
+   * TAN, which move where pH follows KH (decision 0010). Long-term = chronic (a 30-day average
+   * limit, the lower line); short-term = acute (a one-hour average). Stored runs only.
+   */
+  tanLongTerm?: number[];
+  tanShortTerm?: number[];
 };
 
 /** Unit labels for the axes, legend, table and CSV headers, e.g. "mg/L NO3". */
@@ -70,8 +77,6 @@ export type ChartGuides = {
   freeAmmoniaCaution?: number;
   /** Nitrite caution level in units.nitrite. */
   nitriteCaution?: number;
-  /** The pH- and temperature-dependent chronic ammonia criterion (US EPA 2013), TAN in units.ammonia. */
-  tanCriterion?: number;
   /** Dissolved oxygen below which fish suffer, mg O2/L. */
   oxygenCaution?: number;
 };

@@ -28,6 +28,32 @@ describe("specific warnings where fish can be harmed", () => {
     expectNoConsoleErrors(page);
   });
 
+  it("the chart draws the short-term criterion the warning names and the lower long-term limit, in the plot and the readout", async () => {
+    const page = await newPage();
+    await signIn(page, DEMO.teacher, DEMO.password);
+    await page.getByRole("link", { name: "Classroom demo tank" }).click();
+    await page.getByRole("link", { name: "The same at pH 8 and 28 °C" }).first().click();
+    await page.getByRole("application").waitFor();
+    // US EPA 2013 (docs/sources.md §2): the warning and the line come from the one criterion at
+    // the pH of the day (this tank's pH stays put, so every day's value is the warning's).
+    const warned = await page.locator('[data-warning="ammoniaAboveAcuteCriterion"]').textContent();
+    const limit = /short-term criterion at that day's pH and temperature \(([\d.]+) mg\/L NH3, US EPA 2013\)/.exec(
+      warned ?? "",
+    );
+    expect(limit).not.toBeNull();
+    const valueOf = async (name: string) => {
+      await page.locator('[data-panel="ammonia"] [data-chart-label]', { hasText: name }).waitFor();
+      const row = page.getByRole("row").filter({ has: page.getByRole("rowheader", { name: new RegExp(name) }) });
+      return (await row.first().locator("td").first().textContent())?.trim();
+    };
+    expect(await valueOf("TAN short-term criterion at the pH of the day")).toBe(limit![1]);
+    // US EPA 2013 (docs/sources.md §2): the long-term (chronic) limit is drawn too, and is the lower line.
+    const longTerm = Number(await valueOf("TAN long-term limit at the pH of the day"));
+    expect(longTerm).toBeGreaterThan(0);
+    expect(longTerm).toBeLessThan(Number(limit![1]));
+    expectNoConsoleErrors(page);
+  });
+
   it("without JavaScript the numbers table says why it is empty and links the run's CSV, which downloads", async () => {
     const page = await newPage({ javaScript: false });
     await signIn(page, DEMO.teacher, DEMO.password);
@@ -38,11 +64,15 @@ describe("specific warnings where fish can be harmed", () => {
     // Playwright's text locators skip <noscript>, so its elements are found by tag.
     const said = table.locator("noscript p");
     await said.waitFor();
-    expect(await said.textContent()).toMatch(/^The table is drawn by the page’s script, which is off in this browser\. The same numbers are in the run as a CSV file/);
+    expect(await said.textContent()).toMatch(
+      /^The table is drawn by the page’s script, which is off in this browser\. The same numbers are in the run as a CSV file/,
+    );
     const link = table.locator("noscript a");
     const csv = await page.request.get((await link.getAttribute("href"))!);
     expect(csv.status()).toBe(200);
-    expect((await csv.text()).split("\n")[0]).toMatch(/^day,tan_mg_n_per_l,free_nh3_mg_n_per_l,nitrite_mg_n_per_l,nitrate_mg_n_per_l,/);
+    expect((await csv.text()).split("\n")[0]).toMatch(
+      /^day,tan_mg_n_per_l,free_nh3_mg_n_per_l,nitrite_mg_n_per_l,nitrate_mg_n_per_l,/,
+    );
     await shot(page, "results-table-without-scripts");
   });
 

@@ -39,12 +39,14 @@ describe("stored run findings", () => {
     expect(again.id).not.toBe(stored.id);
     expect(again.findings.warnings.length).toBeGreaterThan(0);
 
-    // The results payload says it in plain words and draws the criterion on TAN.
+    // The results payload says it in plain words and draws the criterion on TAN, sample by sample.
     const payload = resultsPayload(again, settings, displayUnitsFor(DEFAULT_PREFERENCES));
     const freeNh3 = payload.warnings.find((w) => w.code === "freeAmmoniaAboveCaution");
     expect(freeNh3?.text).toMatch(
       /^Free ammonia reaches [\d.]+ mg\/L NH3 on day \d+(\.\d+)?, .* the caution line \(0\.02 mg\/L NH3\)\.$/,
     );
-    expect(payload.guides.tanCriterion).toBeGreaterThan(0);
+    expect(payload.series.tanLongTerm).toHaveLength(payload.series.t.length);
+    expect(payload.series.tanShortTerm).toHaveLength(payload.series.t.length);
+    expect(Math.min(...payload.series.tanLongTerm!)).toBeGreaterThan(0);
   });
 });

@@ -6,6 +6,7 @@ import { memo, useId, useMemo, useState } from "react";
 import { eventRows, describeEvent, speciesValues } from "~/utils/csv";
 import { formatDay, formatNumber } from "~/components/charts/format";
 import { lowerBound, sampleSide, valueAt } from "~/utils/series-lookup";
+import { TAN_CRITERIA, TAN_CRITERION_KINDS, tanCriterionOf } from "~/components/charts/tan-criteria";
 import { PLANT_UNIT, SERIES_NAMES, unitOf } from "~/components/charts/palette";
 import { tableRowIndices } from "~/components/charts/table-rows";
 import type { ChartEvent, ChartSeries, ChartUnits, SeriesKey } from "~/utils/chart-data";
@@ -33,12 +34,19 @@ export type ChartDataTableProps = {
 
 /** Columns for one run: the four species and each plant group. */
 export function seriesTableColumns(series: ChartSeries, units: ChartUnits): TableColumn[] {
-  const species = (["tan", "nh3", "no2", "no3"] as const).map((k) => ({
+  const species: TableColumn[] = (["tan", "nh3", "no2", "no3"] as const).map((k) => ({
     key: k,
     label: SERIES_NAMES[k].long,
     unit: unitOf(k, units),
     at: (i: number) => series[k][i],
   }));
+  // The caution lines drawn over TAN, beside TAN: the table says what the chart draws.
+  const criteria = TAN_CRITERION_KINDS.flatMap((kind): TableColumn[] => {
+    const values = tanCriterionOf(series, kind);
+    if (!values) return [];
+    return [{ key: `tan-${kind}`, label: TAN_CRITERIA[kind].name, unit: unitOf("tan", units), at: (i) => values[i] }];
+  });
+  species.splice(1, 0, ...criteria);
   const plants = series.plants.map((p) => ({
     key: `plant-${p.id}`,
     label: p.name,

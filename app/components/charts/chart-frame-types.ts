@@ -15,6 +15,12 @@ export type FrameLine = {
   label?: string;
   /** Draw a dot where the cursor crosses this line (default true). */
   cursorDot?: boolean;
+  /**
+   * A caution line that must not flatten the data: it counts in the panel's scale only when
+   * that stretches the scale by less than half; otherwise it is clipped at the top and its
+   * label, pinned there with an arrow, gives its value.
+   */
+  mayLeaveScale?: boolean;
 };
 
 export type FrameBand = { key: string; low: number; high: number; color: string; label: string };
@@ -68,4 +74,3 @@ export type ChartFrameProps = {
   footer?: ReactNode;
   svgRef?: React.Ref<SVGSVGElement>;
 };
-

@@ -13,7 +13,7 @@ import { useId, useMemo, type ReactNode } from "react";
 import { useContainerWidth, type CursorVia } from "~/components/charts/hooks";
 import { CURSOR_KEYS_HELP, CURSOR_KEYS_SUMMARY, nearestIndex, sampleSide, valueAt } from "~/utils/series-lookup";
 import { INK, MONO_STACK, SERIF_STACK } from "~/components/charts/palette";
-import { EVENT_ROW, dayDomain, maxFinite, plotBox, ticksOf, valueDomain } from "~/components/charts/scales";
+import { EVENT_ROW, dayDomain, panelMaxima, plotBox, ticksOf, valueDomain } from "~/components/charts/scales";
 import { formatDay } from "~/components/charts/format";
 import { EVENT_ORDER, EventStrip } from "~/components/charts/event-strip";
 import type { ChartFrameProps } from "~/components/charts/chart-frame-types";
@@ -65,13 +65,9 @@ export function ChartFrame({
       const h = Math.max(40, p.height);
       offset = plotTop + h + (k < shown.length - 1 ? gap : 0);
       const yCount = Math.max(2, Math.floor(h / (fs * 3.2)));
-      const maxima = [
-        ...p.lines.map((l) => maxFinite(l.y)),
-        ...(p.guides ?? []).map((g) => g.value),
-        ...(p.bands ?? []).map((b) => b.high),
-        ...(p.points ?? []).map((q) => q.value),
-      ];
-      const y = scaleLinear().domain(valueDomain(maxima, yCount)).range([h, 0]);
+      const y = scaleLinear()
+        .domain(valueDomain(panelMaxima(p), yCount))
+        .range([h, 0]);
       return { panel: p, top: plotTop, height: h, y, yCount };
     });
     const totalHeight = offset + box.margin.bottom;

@@ -6,6 +6,7 @@
 import type { ScaleLinear } from "d3-scale";
 import type { ReactNode } from "react";
 import type { FramePanel } from "~/components/charts/chart-frame-types";
+import { formatNumber } from "~/components/charts/format";
 import { estimateTextWidth, layoutLabels, type LabelRequest } from "~/components/charts/label-layout";
 import { GRID, INK, MONO_STACK, SERIF_STACK } from "~/components/charts/palette";
 import { PATH_SCALE, linePath, scaledDash } from "~/components/charts/paths";
@@ -65,13 +66,17 @@ export function drawPanel(
   }
   for (const l of panel.lines) {
     if (!l.label) continue;
-    texts.set(l.key, { text: l.label, color: l.color, bold: true });
+    const last = lastFinite(l.y);
+    // A line that ends above the scale (mayLeaveScale) is labelled at the top, with its value.
+    const above = last > y.domain()[1];
+    const text = above ? `↑ ${l.label}: ${formatNumber(last)}` : l.label;
+    texts.set(l.key, { text, color: l.color, bold: true });
     requests.push({
       id: l.key,
       x: box.innerWidth - 3,
       anchor: "end",
-      y: y(lastFinite(l.y)),
-      width: estimateTextWidth(l.label, fs, true),
+      y: above ? 0 : y(last),
+      width: estimateTextWidth(text, fs, true),
       height: labelH,
     });
   }

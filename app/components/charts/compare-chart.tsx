@@ -14,6 +14,7 @@ import { guideMarks } from "~/components/charts/guide-marks";
 import { useControllable, useDayCursor } from "~/components/charts/hooks";
 import { EventKey, LineSwatch, ToggleButton } from "~/components/charts/legend";
 import { compareStyle, CompareReadout } from "~/components/charts/compare-readout";
+import { compareCriterionLines, criteriaAt } from "~/components/charts/compare-criteria";
 import { sampleSide, valueAt } from "~/utils/series-lookup";
 import { DEFAULT_EVENT_KINDS, SERIES_KEYS, SERIES_NAMES, unitOf, type EventKind } from "~/components/charts/palette";
 import type { ChartEvent, ChartGuides, ChartSeries, ChartUnits, SeriesKey } from "~/utils/chart-data";
@@ -105,7 +106,7 @@ export const CompareChart = memo(function CompareChart({
       {
         key: `compare-${species}`,
         label: `${SERIES_NAMES[species].long}, ${unitOf(species, units)}`,
-        lines,
+        lines: species === "tan" ? [...lines, ...compareCriterionLines(runs, hidden)] : lines,
         bands: picked.bands,
         guides: picked.guideLines,
         height: Math.round(200 * scale),
@@ -134,7 +135,7 @@ export const CompareChart = memo(function CompareChart({
       });
     }
     return out;
-  }, [species, lines, linesOf, guidesOf, units, height, hasPlants]);
+  }, [species, lines, linesOf, guidesOf, units, height, hasPlants, runs, hidden]);
 
   const valuesAt = useCallback(
     (i: number) => {
@@ -233,7 +234,17 @@ export const CompareChart = memo(function CompareChart({
   const day = t[cursor.index];
   const readout =
     t.length === 0 ? null : (
-      <CompareReadout day={day} species={species} unit={unit} runs={runs} hidden={hidden} values={vals} />
+      <CompareReadout
+        day={day}
+        species={species}
+        unit={unit}
+        runs={runs}
+        hidden={hidden}
+        values={vals}
+        criteria={
+          species === "tan" ? criteriaAt(runs, cursor.index, day, sampleSide(t, cursor.index) ?? "before") : null
+        }
+      />
     );
 
   const summary =

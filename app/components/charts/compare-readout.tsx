@@ -4,6 +4,7 @@
  */
 import { formatDay, formatNumber, formatSigned } from "~/components/charts/format";
 import { LineSwatch } from "~/components/charts/legend";
+import { TAN_CRITERIA, TAN_CRITERION_KINDS, type TanCriterionKind } from "~/components/charts/tan-criteria";
 import { COMPARE_COLORS, COMPARE_DASHES, SERIES_COLORS, SERIES_NAMES } from "~/components/charts/palette";
 import type { SeriesKey } from "~/utils/chart-data";
 
@@ -22,6 +23,7 @@ export function CompareReadout({
   runs,
   hidden,
   values: vals,
+  criteria,
 }: {
   day: number;
   species: SeriesKey;
@@ -29,6 +31,8 @@ export function CompareReadout({
   runs: readonly { label: string }[];
   hidden: ReadonlySet<number>;
   values: readonly number[];
+  /** Each run's TAN long-term limit and short-term criterion at the pH of the day (TAN only), in `unit`. */
+  criteria?: Readonly<Record<TanCriterionKind, readonly number[]>> | null;
 }) {
   return (
     <div className="space-y-2 rounded-md border border-stone-200 bg-white p-3">
@@ -75,6 +79,61 @@ export function CompareReadout({
           })}
         </tbody>
       </table>
+      {criteria ? <CriteriaTable day={day} unit={unit} runs={runs} hidden={hidden} criteria={criteria} /> : null}
     </div>
+  );
+}
+
+/**
+ * Each scenario's TAN criteria at the pH of the day (decision 0010), in a table of their own so
+ * the values above keep their width: the long-term limit is drawn, the short-term criterion is not.
+ */
+function CriteriaTable({
+  day,
+  unit,
+  runs,
+  hidden,
+  criteria,
+}: {
+  day: number;
+  unit: string;
+  runs: readonly { label: string }[];
+  hidden: ReadonlySet<number>;
+  criteria: Readonly<Record<TanCriterionKind, readonly number[]>>;
+}) {
+  return (
+    <table className="w-full text-sm">
+      <caption className="text-left text-xs text-stone-600">
+        TAN criteria at the pH of the day (US EPA 2013), {unit}: the long-term limit is drawn, the short-term criterion
+        only given here
+        <span className="sr-only"> at {formatDay(day)}</span>
+      </caption>
+      <thead>
+        <tr className="text-left text-xs text-stone-600">
+          <th scope="col" className="font-normal">
+            Scenario
+          </th>
+          {TAN_CRITERION_KINDS.map((kind) => (
+            <th key={kind} scope="col" className="pl-2 text-right font-normal">
+              {TAN_CRITERIA[kind].short}
+            </th>
+          ))}
+        </tr>
+      </thead>
+      <tbody>
+        {runs.map((run, k) => (
+          <tr key={k} className={hidden.has(k) ? "text-stone-400" : ""}>
+            <th scope="row" className="py-0.5 pr-2 text-left font-normal">
+              {run.label}
+            </th>
+            {TAN_CRITERION_KINDS.map((kind) => (
+              <td key={kind} className="num pl-2 text-right">
+                {formatNumber(criteria[kind][k])}
+              </td>
+            ))}
+          </tr>
+        ))}
+      </tbody>
+    </table>
   );
 }

@@ -10,7 +10,7 @@ import type { ChartGuides } from "~/utils/chart-data";
 const CAUTION_RED = "#b91c1c";
 
 /** What a guide belongs to: a species' panel, or oxygen's. */
-export type GuideOf = "no3" | "nh3" | "tan" | "no2" | "o2";
+export type GuideOf = "no3" | "nh3" | "no2" | "o2";
 
 /** The band and caution lines of the guides the run has, for those `drawn` says are on the chart. */
 export function guideMarks(
@@ -34,7 +34,6 @@ export function guideMarks(
     if (value != null && drawn(of)) guideLines.push({ key, value, color, label: `${label} ${formatNumber(value)}` });
   };
   line("nh3", "nh3-caution", guides.freeAmmoniaCaution, SERIES_COLORS.nh3, "free NH3 caution");
-  line("tan", "tan-criterion", guides.tanCriterion, SERIES_COLORS.tan, "TAN criterion at this pH and °C");
   line("no2", "no2-caution", guides.nitriteCaution, SERIES_COLORS.no2, "NO2 caution");
   line("o2", "o2-caution", guides.oxygenCaution, CAUTION_RED, "fish suffer below");
   return { bands, guideLines };

@@ -8,6 +8,7 @@
  * cycled tank's ammonia sits. Plant dry mass (g) has its own axis on the right.
  */
 import { scaleLinear, type ScaleLinear } from "d3-scale";
+import type { FramePanel } from "~/components/charts/chart-frame-types";
 
 type Margins = { top: number; right: number; bottom: number; left: number };
 
@@ -81,6 +82,31 @@ export function valueDomain(maxima: readonly number[], tickCount: number): [numb
     .nice(tickCount)
     .domain();
   return [d[0], d[1]];
+}
+
+/**
+ * How far a line that may leave the scale can stretch it and still count: 1.5, so the data keep
+ * at least two thirds of the panel's height (our own choice, no source).
+ */
+const MAX_STRETCH = 1.5;
+
+/**
+ * The values a panel's scale must show: its data, guides, band and readings, and a line that
+ * may leave the scale (a caution line far above the data) only when it is near them.
+ */
+export function panelMaxima(p: Pick<FramePanel, "lines" | "guides" | "bands" | "points">): number[] {
+  const firm = [
+    ...p.lines.filter((l) => !l.mayLeaveScale).map((l) => maxFinite(l.y)),
+    ...(p.guides ?? []).map((g) => g.value),
+    ...(p.bands ?? []).map((b) => b.high),
+    ...(p.points ?? []).map((q) => q.value),
+  ];
+  const top = Math.max(0, ...firm.filter(Number.isFinite));
+  const near = p.lines
+    .filter((l) => l.mayLeaveScale)
+    .map((l) => maxFinite(l.y))
+    .filter((v) => top > 0 && v <= top * MAX_STRETCH);
+  return [...firm, ...near];
 }
 
 /** Day domain of a run: its first and last sample (a zero-length run widens to one day). */

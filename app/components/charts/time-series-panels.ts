@@ -1,6 +1,7 @@
 /**
- * The results chart's stacked panels (TimeSeriesChart): ammonia (TAN and free NH3 with their
- * cautions and the pH- and temperature-dependent TAN criterion), nitrite with its caution,
+ * The results chart's stacked panels (TimeSeriesChart): ammonia (TAN and free NH3 with the free
+ * NH3 caution and TAN's long-term limit and short-term criterion at each sample's pH, decision
+ * 0010), nitrite with its caution,
  * nitrate with the target band, plant dry mass and dissolved oxygen, each on its own scale, with
  * the run's lines, any overlays and the readings on the panel of their species.
  */
@@ -8,6 +9,7 @@ import { useMemo } from "react";
 import type { FrameLine, FramePanel, FramePoint } from "~/components/charts/chart-frame-types";
 import { formatDay, formatNumber } from "~/components/charts/format";
 import { guideMarks } from "~/components/charts/guide-marks";
+import { criterionLine, TAN_CRITERIA, TAN_CRITERION_KINDS } from "~/components/charts/tan-criteria";
 import {
   PLANT_DASHES,
   PLANT_UNIT,
@@ -100,6 +102,14 @@ export function useSeriesPanels({
       if (!hiddenOverlays.has(k)) add(o.series, `ov${k}`, true);
     });
     add(series, "main", false);
+    // Both criteria at each sample's pH: the long-term limit, and the short-term criterion the
+    // warning checks (it may leave the scale when TAN stays far below it).
+    if (vis("tan")) {
+      for (const kind of TAN_CRITERION_KINDS) {
+        const line = criterionLine(`main-tan-${kind}`, series, kind, SERIES_COLORS.tan, TAN_CRITERIA[kind].name);
+        if (line) out.push({ ...line, panel: "ammonia" });
+      }
+    }
     if (series.o2 && series.o2.length === series.t.length) {
       out.push({
         key: "main-o2",
@@ -146,7 +156,6 @@ export function useSeriesPanels({
     const scale = height / 340;
     const guidePanel: Record<string, PanelKey> = {
       "nh3-caution": "ammonia",
-      "tan-criterion": "ammonia",
       "no2-caution": "nitrite",
       "o2-caution": "oxygen",
     };

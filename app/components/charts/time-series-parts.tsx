@@ -4,6 +4,7 @@
  */
 import type { LegendItem } from "~/components/charts/downloads";
 import { formatDay, formatNumber, formatSigned } from "~/components/charts/format";
+import { TAN_CRITERIA, TAN_CRITERION_KINDS, tanCriterionOf } from "~/components/charts/tan-criteria";
 import { LineSwatch } from "~/components/charts/legend";
 import { residualsNear, sampleSide, valueAt, type Side } from "~/utils/series-lookup";
 import {
@@ -116,6 +117,22 @@ export function Readout({
       unit: unitOf(k, units),
       main: series[k][index],
       others: overlays.map((o) => valueAt(o.series.t, o.series[k], day, side ?? "before")),
+    });
+  }
+  for (const kind of visible.tan ? TAN_CRITERION_KINDS : []) {
+    const values = tanCriterionOf(series, kind);
+    if (!values) continue;
+    rows.push({
+      key: `tan-${kind}`,
+      name: TAN_CRITERIA[kind].name,
+      color: SERIES_COLORS.tan,
+      dash: TAN_CRITERIA[kind].dash,
+      unit: unitOf("tan", units),
+      main: values[index],
+      others: overlays.map((o) => {
+        const v = tanCriterionOf(o.series, kind);
+        return v ? valueAt(o.series.t, v, day, side ?? "before") : NaN;
+      }),
     });
   }
   if (visible.plants) {
@@ -232,6 +249,11 @@ export function legendItems(
         color: SERIES_COLORS[k],
         dash: SERIES_DASH[k],
       });
+  }
+  for (const kind of visible.tan ? TAN_CRITERION_KINDS : []) {
+    if (!tanCriterionOf(series, kind)) continue;
+    const { name, averaged, dash } = TAN_CRITERIA[kind];
+    out.push({ label: `${name} (US EPA 2013, ${averaged}), ${unitOf("tan", units)}`, color: SERIES_COLORS.tan, dash });
   }
   if (visible.plants) {
     series.plants.forEach((p, g) =>

@@ -4,6 +4,7 @@
  */
 import type { KeyFigures, Series } from "~models";
 import { speciesFactor } from "~models/units";
+import type { TanCriterionLines } from "~/features/runs/criterion-line";
 import type { ChartGuides, ChartSeries, DisplayKeyFigures } from "~/utils/chart-data";
 import type { DisplayUnits } from "~/utils/display-units";
 
@@ -27,8 +28,12 @@ export function displayKeyFigures(k: KeyFigures, units: DisplayUnits): DisplayKe
 const round4 = (v: number) => (v === 0 ? 0 : Number(v.toPrecision(4)));
 const scale = (values: number[], f: number) => values.map((v) => round4(v * f));
 
-/** The chart's columns in display units (the engine's extra columns stay on the server). */
-export function displaySeries(s: Series, units: DisplayUnits): ChartSeries {
+/**
+ * The chart's columns in display units (the engine's extra columns stay on the server).
+ * @param criteria the long-term and short-term TAN criteria per sample (criterion-line.ts),
+ *   mg TAN-N/L; left out where no caution line is drawn (what-if previews)
+ */
+export function displaySeries(s: Series, units: DisplayUnits, criteria?: TanCriterionLines): ChartSeries {
   const nh3 = speciesFactor("ammonia", units);
   return {
     t: s.t,
@@ -38,6 +43,9 @@ export function displaySeries(s: Series, units: DisplayUnits): ChartSeries {
     no3: scale(s.no3, speciesFactor("nitrate", units)),
     plants: s.plants.map((p) => ({ id: p.id, name: p.name, massG: p.massG.map(round4) })),
     ...(s.o2 ? { o2: s.o2.map(round4) } : {}),
+    ...(criteria && criteria.longTerm.length === s.t.length && criteria.shortTerm.length === s.t.length
+      ? { tanLongTerm: scale(criteria.longTerm, nh3), tanShortTerm: scale(criteria.shortTerm, nh3) }
+      : {}),
   };
 }
 
@@ -56,20 +64,10 @@ export function toxicPeaksAboveCaution(k: Pick<KeyFigures, "peakFreeNh3" | "peak
   };
 }
 
-/**
- * @param tanCriterionMgN the run's chronic ammonia criterion (US EPA 2013, docs/sources.md §2) at
- *   its pH and temperature, mg TAN-N/L; drawn as a caution line on TAN when known.
- */
-export function displayGuides(
-  targets: { nitrateLow: number; nitrateHigh: number },
-  units: DisplayUnits,
-  tanCriterionMgN?: number,
-): ChartGuides {
+/** The flat caution lines and the nitrate band (the TAN criterion moves with pH: it is a series column). */
+export function displayGuides(targets: { nitrateLow: number; nitrateHigh: number }, units: DisplayUnits): ChartGuides {
   const no3 = speciesFactor("nitrate", units);
   return {
-    ...(tanCriterionMgN !== undefined && Number.isFinite(tanCriterionMgN)
-      ? { tanCriterion: tanCriterionMgN * speciesFactor("ammonia", units) }
-      : {}),
     nitrateBand: { low: targets.nitrateLow * no3, high: targets.nitrateHigh * no3 },
     freeAmmoniaCaution: FREE_NH3_CAUTION_MG_N * speciesFactor("ammonia", units),
     nitriteCaution: NITRITE_CAUTION_MG_N * speciesFactor("nitrite", units),

@@ -4,6 +4,7 @@
  */
 import { OXYGEN, type NitrogenBudget, type Scenario } from "~models";
 import { chartEventKind, type ChartEvent } from "~/utils/chart-data";
+import { tanCriterionLines } from "~/features/runs/criterion-line";
 import { displayGuides, displayKeyFigures, displaySeries } from "~/features/runs/display-figures";
 import { speciesFactor, toCanonical } from "~models/units";
 import { resultWarnings } from "~/features/runs/run-warnings";
@@ -37,10 +38,14 @@ function buildPayload(run: StoredRun, scenario: Scenario, units: DisplayUnits): 
   return {
     runId: run.id,
     labels,
-    series: displaySeries(run.series, units),
+    series: displaySeries(
+      run.series,
+      units,
+      tanCriterionLines(run.series, scenario.water.pH, scenario.water.temperatureC),
+    ),
     events: run.events.map((e): ChartEvent => ({ day: e.day, kind: chartEventKind(e.kind), detail: e.detail })),
     guides: {
-      ...displayGuides(scenario.targets, units, run.findings.ammoniaCriteria.chronicTanMgNPerL),
+      ...displayGuides(scenario.targets, units),
       oxygenCaution: OXYGEN.cautionMgPerL.value,
     },
     keyFigures: displayKeyFigures(run.keyFigures, units),

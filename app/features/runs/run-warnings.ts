@@ -111,7 +111,7 @@ export function resultWarnings(
           code: w.code,
           severity: w.severity,
           figure: "peakFreeNh3",
-          text: `Total ammonia reaches ${formatNumber(w.value * nh3)} ${labels.ammonia}${w.day === null ? "" : ` on ${day(w.day)}`}, ${howFarAbove(w.value / w.limit)} the short-term criterion at this pH and temperature (${formatNumber(w.limit * nh3)} ${labels.ammonia}, US EPA 2013): deadly to many fish within hours.`,
+          text: `Total ammonia reaches ${formatNumber(w.value * nh3)} ${labels.ammonia}${w.day === null ? "" : ` on ${day(w.day)}`}, ${howFarAbove(w.value / w.limit)} the short-term criterion at ${w.day === null ? "this" : "that day's"} pH and temperature (${formatNumber(w.limit * nh3)} ${labels.ammonia}, US EPA 2013): deadly to many fish within hours.`,
         });
         break;
       case "ammoniaAboveChronicCriterion":
@@ -119,7 +119,7 @@ export function resultWarnings(
           code: w.code,
           severity: w.severity,
           figure: "peakFreeNh3",
-          text: `Total ammonia stays high: it averages ${formatNumber(w.value * nh3)} ${labels.ammonia} up to ${w.day === null ? "the end" : day(w.day)}, ${howFarAbove(w.value / w.limit)} the long-term limit at this pH and temperature (${formatNumber(w.limit * nh3)} ${labels.ammonia}, US EPA 2013).`,
+          text: `Total ammonia stays high: it averages ${formatNumber(w.value * nh3)} ${labels.ammonia} up to ${w.day === null ? "the end" : day(w.day)}, ${howFarAbove(w.value / w.limit)} the long-term limit at the run's average pH and its temperature (${formatNumber(w.limit * nh3)} ${labels.ammonia}, US EPA 2013).`,
         });
         break;
       case "khExhausted":

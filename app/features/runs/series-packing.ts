@@ -13,6 +13,8 @@ export type PackedSeries = {
   no3: string;
   plants: { id: string; name: string; massG: string }[];
   o2?: string;
+  tanLongTerm?: string;
+  tanShortTerm?: string;
 };
 
 const pack = (values: readonly number[]) => values.join(",");
@@ -27,6 +29,8 @@ export function packSeries(s: ChartSeries): PackedSeries {
     no3: pack(s.no3),
     plants: s.plants.map((p) => ({ id: p.id, name: p.name, massG: pack(p.massG) })),
     ...(s.o2 ? { o2: pack(s.o2) } : {}),
+    ...(s.tanLongTerm ? { tanLongTerm: pack(s.tanLongTerm) } : {}),
+    ...(s.tanShortTerm ? { tanShortTerm: pack(s.tanShortTerm) } : {}),
   };
 }
 
@@ -39,5 +43,7 @@ export function unpackSeries(p: PackedSeries): ChartSeries {
     no3: unpack(p.no3),
     plants: p.plants.map((g) => ({ id: g.id, name: g.name, massG: unpack(g.massG) })),
     ...(p.o2 !== undefined ? { o2: unpack(p.o2) } : {}),
+    ...(p.tanLongTerm !== undefined ? { tanLongTerm: unpack(p.tanLongTerm) } : {}),
+    ...(p.tanShortTerm !== undefined ? { tanShortTerm: unpack(p.tanShortTerm) } : {}),
   };
 }

@@ -1,6 +1,14 @@
 // Our own worked examples of domains, sizes and label spreading.
 import { describe, expect, it } from "vitest";
-import { dayDomain, fontSizeFor, maxFinite, plotBox, spreadLabels, valueDomain } from "~/components/charts/scales";
+import {
+  dayDomain,
+  fontSizeFor,
+  maxFinite,
+  panelMaxima,
+  plotBox,
+  spreadLabels,
+  valueDomain,
+} from "~/components/charts/scales";
 
 describe("valueDomain", () => {
   it("starts at zero and ends on a round number above the largest value", () => {
@@ -54,5 +62,32 @@ describe("spreadLabels", () => {
     const sorted = [...placed].sort((a, b) => a - b);
     expect(sorted[1] - sorted[0]).toBeGreaterThanOrEqual(10);
     expect(sorted[2] - sorted[1]).toBeGreaterThanOrEqual(10);
+  });
+});
+
+describe("panelMaxima", () => {
+  const line = (key: string, y: number[], mayLeaveScale?: boolean) => ({
+    key,
+    t: y.map((_v, i) => i),
+    y,
+    color: "#000",
+    width: 1,
+    ...(mayLeaveScale ? { mayLeaveScale } : {}),
+  });
+  // US EPA 2013 (docs/sources.md §2) at pH 7 and 26 °C: long-term limit 1.3, short-term
+  // criterion 10 mg TAN-N/L, over a cycling peak of 5.
+  it("leaves out a line that may leave the scale when it sits far above the data", () => {
+    const p = { lines: [line("tan", [0, 5, 1]), line("long", [1.3, 1.3, 1.3]), line("short", [10, 10, 10], true)] };
+    expect(Math.max(...panelMaxima(p))).toBe(5);
+    expect(valueDomain(panelMaxima(p), 5)[1]).toBeLessThan(10);
+  });
+
+  it("keeps it when it is near the data (pH 8 and 28 °C: short-term criterion 2.0 over a peak of 5)", () => {
+    const p = { lines: [line("tan", [0, 5, 1]), line("short", [2, 2, 6], true)] };
+    expect(Math.max(...panelMaxima(p))).toBe(6);
+  });
+
+  it("never lets it set the scale alone", () => {
+    expect(panelMaxima({ lines: [line("tan", [0, 0]), line("short", [10, 10], true)] })).toEqual([0]);
   });
 });
