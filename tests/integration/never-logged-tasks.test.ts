@@ -18,22 +18,13 @@ import { savePlan } from "~/features/tanks/maintenance-plan.server";
 import { loader as journalLoader } from "~/routes/journal/journal";
 import { upcomingView } from "~/routes/tanks/upcoming-view.server";
 import { addThroughPage, DAY, day } from "../support/journal";
+import { dayAheadInWords, dayInWords, today } from "../support/journal-days";
 import { call, get } from "../support/routes";
 import { createScenario, createTank } from "../support/tanks";
 import { userWithCookie } from "../support/users";
 
-const today = () => Math.floor(Date.now() / DAY) * DAY;
-/** "4 November", as the titles say a day. */
-const dayWords = (daysAgo: number) =>
-  new Date(today() - daysAgo * DAY).toLocaleDateString("en-GB", { day: "numeric", month: "long", timeZone: "UTC" });
-/** "Fri 4 December", as the upcoming list and the mail date a task. */
-const when = (daysAhead: number) =>
-  new Date(today() + daysAhead * DAY).toLocaleDateString("en-GB", {
-    weekday: "short",
-    day: "numeric",
-    month: "long",
-    timeZone: "UTC",
-  });
+const dayWords = dayInWords;
+const when = dayAheadInWords;
 
 /** A tank with weekly 30 % changes and a 30-day filter cleaning, its journal holding only water changes. */
 async function tankWithChanges(daysAgo: number[]) {

@@ -14,22 +14,13 @@ import { upcomingView } from "~/routes/tanks/upcoming-view.server";
 import { plantGroupFromForm, type ScenarioInput } from "../../models/index";
 import { calendarEvents } from "../support/calendar";
 import { addThroughPage, DAY, day } from "../support/journal";
+import { dayAheadInWords, dayInWords, today } from "../support/journal-days";
 import { call, get, post } from "../support/routes";
 import { createScenario, createTank } from "../support/tanks";
 import { userWithCookie } from "../support/users";
 
-const today = () => Math.floor(Date.now() / DAY) * DAY;
-/** "1 December", as the titles say it. */
-const since = (daysAgo: number) =>
-  new Date(today() - daysAgo * DAY).toLocaleDateString("en-GB", { day: "numeric", month: "long", timeZone: "UTC" });
-/** "Fri 4 December", as the upcoming list dates a task. */
-const when = (daysAhead: number) =>
-  new Date(today() + daysAhead * DAY).toLocaleDateString("en-GB", {
-    weekday: "short",
-    day: "numeric",
-    month: "long",
-    timeZone: "UTC",
-  });
+const since = dayInWords;
+const when = dayAheadInWords;
 
 const stems = (everyDays: number) =>
   plantGroupFromForm("stem", {

@@ -3,12 +3,9 @@ import { action as journalPageAction } from "~/routes/journal/journal";
 import { call, post } from "./routes";
 import { createScenario, createTank } from "./tanks";
 import { userWithCookie } from "./users";
+import { day } from "./journal-days";
 
-export const DAY = 86_400_000;
-
-/** The date `daysAgo` UTC days before today, as a journal form's date field takes it. */
-export const day = (daysAgo: number) =>
-  new Date(Math.floor(Date.now() / DAY) * DAY - daysAgo * DAY).toISOString().slice(0, 10);
+export { DAY, day } from "./journal-days";
 
 /** Adds one entry through the journal page's form, as a keeper would; returns the answer. */
 export function addThroughPage(tankId: string, cookie: string, fields: Record<string, string>) {

@@ -9,6 +9,7 @@
 import { describe, expect, it, vi } from "vitest";
 import { plantGroupFromForm, simulate, type Scenario, type TankEventInput } from "../../models/index";
 import { bareTank } from "../models/helpers";
+import { entriesBefore } from "../support/journal-days";
 
 const asked: TankEventInput[][] = [];
 vi.mock("~/features/journal/journal-runs.server", () => ({
@@ -51,13 +52,7 @@ const TANK: Scenario = bareTank({
   targets: { nitrateHigh: 20 },
 });
 
-const entry = (id: number, daysAgo: number, kind: JournalEntry["kind"], details: JournalEntry["details"]) => ({
-  id,
-  doneAt: TODAY - daysAgo * DAY + 9 * 3_600_000,
-  kind,
-  details,
-  note: "",
-});
+const entry = entriesBefore(TODAY);
 const JOURNAL: JournalEntry[] = [
   entry(1, 7, "water_change", { share: 0.3 }),
   entry(2, 3, "plants_trimmed", { plantGroup: "Stem plants", plantDryG: 5 }),

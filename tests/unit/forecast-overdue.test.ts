@@ -7,6 +7,7 @@
 import { describe, expect, it, vi } from "vitest";
 import { plantGroupFromForm, simulate, type Scenario, type TankEventInput } from "../../models/index";
 import { bareTank } from "../models/helpers";
+import { entriesBefore } from "../support/journal-days";
 
 const asked: TankEventInput[][] = [];
 vi.mock("~/features/journal/journal-runs.server", () => ({
@@ -42,13 +43,7 @@ const TANK: Scenario = bareTank({
   targets: { nitrateHigh: 50 },
 });
 
-const entry = (id: number, daysAgo: number, kind: JournalEntry["kind"], details: JournalEntry["details"]) => ({
-  id,
-  doneAt: TODAY - daysAgo * DAY + 9 * 3_600_000,
-  kind,
-  details,
-  note: "",
-});
+const entry = entriesBefore(TODAY);
 // Water due 3 days ago (1 December); the stems' trim due 8 days ago and missed three times since;
 // the filter cleaned 5 days ago, not due.
 const JOURNAL: JournalEntry[] = [
