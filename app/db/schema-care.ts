@@ -3,6 +3,7 @@
  * plan, the calendar feed and the e-mail reminders. Conventions as in app/db/schema.ts, whose
  * tanks, scenarios and users these rows belong to.
  */
+import { sql } from "drizzle-orm";
 import { index, integer, text, sqliteTable } from "drizzle-orm/sqlite-core";
 import { createdAt, scenarios, tanks, users } from "~/db/schema";
 
@@ -89,5 +90,7 @@ export const maintenancePlans = sqliteTable("maintenance_plans", {
     .notNull()
     .references(() => scenarios.id, { onDelete: "cascade" }),
   plan: text("plan", { mode: "json" }).notNull(),
+  /** When the tank's plan was first saved (kept by later saves): a task kind never logged counts from it. */
+  createdAt: integer("created_at", { mode: "timestamp_ms" }).notNull().default(sql`0`),
   updatedAt: integer("updated_at", { mode: "timestamp_ms" }).notNull(),
 });

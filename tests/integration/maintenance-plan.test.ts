@@ -53,7 +53,7 @@ describe("the maintenance plan", () => {
     // day the plan was saved (a model choice), and the title says so
     const saveDay = new Date(today()).toLocaleDateString("en-GB", { day: "numeric", month: "long", timeZone: "UTC" });
     expect(after.data.upcoming.map((t: Task) => t.title).filter((t: string) => t.startsWith("Water change"))).toEqual([
-      `Water change (40 %) — first one, counted from when the plan was saved (${saveDay})`,
+      `Water change (40 %) — first one, counted from when the plan was first saved (${saveDay})`,
     ]);
     const calAfter = await calendarTitles(keeper.cookie, tankId);
     // 90 days: every 14 → days 14…84 = 6; every 45 → day 45 only = 1 (our own worked example)

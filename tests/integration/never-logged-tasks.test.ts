@@ -14,7 +14,7 @@ import { scenarios } from "~/db/schema";
 import { calendarFor, makeCalendarFeed } from "~/features/journal/calendar-feed.server";
 import { reminderMail } from "~/features/reminders/reminder-mail.server";
 import type { ReminderRow } from "~/features/reminders/reminder-schedule.server";
-import { savePlan } from "~/features/tanks/maintenance-plan.server";
+import { resetPlan, savePlan } from "~/features/tanks/maintenance-plan.server";
 import { loader as journalLoader } from "~/routes/journal/journal";
 import { upcomingView } from "~/routes/tanks/upcoming-view.server";
 import { addThroughPage, DAY, day } from "../support/journal";
@@ -112,7 +112,7 @@ describe("a task never logged", () => {
     expect((await mail(tankId, keeper.id, "due", now + 20 * DAY))!.text).toContain(`- ${title}\n`);
   });
 
-  it("counts from the day an edited plan was saved when that is later than the journal's first entry", async () => {
+  it("counts from the day an edited plan was first saved, later edits aside, when that is later than the journal's first entry", async () => {
     const { keeper, tankId, scenarioId } = await tankWithChanges([40, 3]);
     const plan = {
       waterChangeFraction: 0.3,
@@ -123,7 +123,7 @@ describe("a task never logged", () => {
     };
     // Saved 5 days ago: the plan's timetable is the keeper's from then on, so due in 25 days.
     savePlan(tankId, scenarioId, plan, today() - 5 * DAY + 3_600_000);
-    const title = `Clean the filter — first one, counted from when the plan was saved (${dayWords(5)})`;
+    const title = `Clean the filter — first one, counted from when the plan was first saved (${dayWords(5)})`;
     const list = upcomingView(tankId).filter((t) => t.title.startsWith("Clean the filter"));
     expect(list.map((t) => [t.when, t.title])).toEqual([]);
     const token = makeCalendarFeed(tankId, scenarioId);
@@ -133,7 +133,12 @@ describe("a task never logged", () => {
     const page = await call(journalLoader, get(`/tanks/${id}/journal`, keeper.cookie), { tankId: id });
     expect(page.data.forecast).toBeTruthy();
     expect(page.data.forecast).not.toContain("overdue");
-    // Saved 60 days ago, before the journal began: the journal's first entry counts (overdue since day 30).
+    // Saved again today with another water-change share: the count keeps the first save's day.
+    savePlan(tankId, scenarioId, { ...plan, waterChangeFraction: 0.4 });
+    expect(feedCleanings(token, Date.now())[0]).toMatchObject({ day: 25, summary: `${title} · Test tank` });
+    // A plan first saved 60 days ago, before the journal began: the journal's first entry counts
+    // (overdue since day 30).
+    resetPlan(tankId);
     savePlan(tankId, scenarioId, plan, today() - 60 * DAY);
     expect(upcomingView(tankId).find((t) => t.title.startsWith("Clean the filter"))?.title).toBe(
       `Clean the filter — overdue since ${dayWords(10)}, counted from the journal's first entry (${dayWords(40)})`,

@@ -57,7 +57,7 @@ export function hasCalendarFeed(tankId: number): boolean {
 /** What a kind never logged counts from, in words ("counted from the journal's first entry"). */
 const START_WORDS: Record<PlanStart["from"], string> = {
   journal: "the journal's first entry",
-  plan: "when the plan was saved",
+  plan: "when the plan was first saved",
   scenario: "the scenario's start",
 };
 

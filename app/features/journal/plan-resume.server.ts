@@ -31,8 +31,9 @@ export type PlannedEvent = TankEvent & { overdueSince?: number; firstOne?: true 
 /**
  * The day a kind never logged counts from (a model choice: the day the keeper's records of the
  * plan begin): the later of the journal's first entry and the day the tank's edited plan was
- * last saved — before the journal began nothing tells whether a task was done, and before the
- * plan was saved its timetable was not the keeper's; with neither, the scenario's start.
+ * first saved (later edits keep it) — before the journal began nothing tells whether a task was
+ * done, and before the plan was saved its timetable was not the keeper's; with neither, the
+ * scenario's start.
  */
 export type PlanStart = { ms: number; from: "journal" | "plan" | "scenario" };
 

@@ -91,7 +91,7 @@ export function planScenario(tankId: number): ScenarioRow | null {
 
 /**
  * The day a task kind never logged counts from (a model choice, plan-resume.server.ts): the later
- * of the journal's first entry (`firstEntryMs`) and the day the edited plan was last saved; with
+ * of the journal's first entry (`firstEntryMs`) and the day the edited plan was first saved; with
  * neither, the start of `scenario` (the one whose timetable is shown: its day 0, else its creation).
  */
 export function planStart(
@@ -99,7 +99,7 @@ export function planStart(
   scenario: Pick<ScenarioRow, "startDate" | "createdAt">,
   firstEntryMs: number | null,
 ): PlanStart {
-  const saved = storedPlan(tankId)?.updatedAt.getTime() ?? null;
+  const saved = storedPlan(tankId)?.createdAt.getTime() ?? null;
   if (firstEntryMs !== null && (saved === null || firstEntryMs >= saved)) return { ms: firstEntryMs, from: "journal" };
   if (saved !== null) return { ms: saved, from: "plan" };
   return { ms: (scenario.startDate ?? scenario.createdAt).getTime(), from: "scenario" };
@@ -118,9 +118,11 @@ export function tankPlan(tankId: number): TankPlan | null {
 
 export function savePlan(tankId: number, scenarioId: number, plan: MaintenancePlan, now = Date.now()) {
   const values = { tankId, scenarioId, plan, updatedAt: new Date(now) };
+  // The first save's date stays: a later edit (say, the water-change share) must not restart the
+  // count of a task kind never logged, which would clear an overdue filter cleaning.
   getDb()
     .insert(maintenancePlans)
-    .values(values)
+    .values({ ...values, createdAt: new Date(now) })
     .onConflictDoUpdate({ target: maintenancePlans.tankId, set: values })
     .run();
 }
