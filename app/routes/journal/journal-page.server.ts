@@ -86,6 +86,19 @@ async function journalModel(tank: TankRow, settings: Scenario, start: PlanStart,
   return { replay, forecast, upcoming, problem: null };
 }
 
+/**
+ * A replay's model day as the date it was ("14 November", with the year when not this year). The
+ * replay runs to the end of today, so a peak at its very end is dated today, not tomorrow.
+ */
+function replayDayWords(startMs: number, now: number) {
+  const thisYear = new Date(now).getUTCFullYear();
+  return (d: number) => {
+    const ms = Math.min(startMs + d * DAY_MS, now);
+    const year = new Date(ms).getUTCFullYear();
+    return year === thisYear ? dayText(ms) : `${dayText(ms)} ${year}`;
+  };
+}
+
 export async function journalPageData(
   tank: TankRow,
   scenarioParam: string | null,
@@ -139,6 +152,7 @@ export async function journalPageData(
               warnings: r.result.warnings,
               tapWater: settings.tapWater,
               volumeL: settings.water.volumeL,
+              dayWords: replayDayWords(r.startMs, now),
             },
             units,
           ),

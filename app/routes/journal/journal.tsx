@@ -9,7 +9,6 @@ import { ReplayChart } from "~/components/journal-replay-chart";
 import { requireOwnedTank } from "~/features/tanks/tanks.server";
 import { requireUser } from "~/permissions.server";
 import { journalAction, journalPageData, type JournalAnswer } from "~/routes/journal/journal-page.server";
-import { formatDate } from "~/utils/dates";
 import { BudgetTable } from "~/components/charts/budget";
 import { displayUnitsFor } from "~/utils/display-units";
 import { ScrollTable } from "~/components/ui/scroll-table";
@@ -91,9 +90,6 @@ export default function JournalPage({ loaderData, actionData }: Route.ComponentP
         {problem ? <FormMessage>{problem}</FormMessage> : null}
         {replay && replay.warnings.length > 0 ? (
           <div className="space-y-1" data-replay-warnings>
-            <p className="text-sm text-stone-600">
-              Days count from the first day replayed, {formatDate(replay.startMs)}.
-            </p>
             <RunWarnings warnings={replay.warnings} />
           </div>
         ) : null}
