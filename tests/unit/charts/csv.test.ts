@@ -66,6 +66,14 @@ describe("seriesCsv", () => {
     expect(lines[2]).toBe("1,0.2,0.002,0.05,20,5.5,");
     expect(lines[3]).toBe('1,0.12,0.0012,0.03,12,5.5,"Water change: 40 % changed, 300 mg N out"');
   });
+  it("carries the TAN caution lines at each sample's pH when the run has them, as the chart's table does", () => {
+    const withLines = { ...series, tanLongTerm: [1.9, 1.9, 1.2, 1.2], tanShortTerm: [17, 17, 9.6, 9.6] };
+    const lines = seriesCsv(withLines, units).trimEnd().split("\r\n");
+    expect(lines[0]).toContain(
+      ",Nitrate (NO3) (mg/L NO3),TAN long-term limit at the pH of the day (mg N/L),TAN short-term criterion at the pH of the day (mg N/L),'=evil (g dry),",
+    );
+    expect(lines[3]).toBe('1,0.12,0.0012,0.03,12,1.2,9.6,5.5,');
+  });
 });
 
 describe("eventRows", () => {
