@@ -9,7 +9,7 @@
  * Numbers are written as numbers, never quoted or prefixed: -0.5 is a value, not a formula.
  */
 import { EVENT_META, PLANT_UNIT, SERIES_NAMES, unitOf } from "~/components/charts/palette";
-import { TAN_CRITERIA, TAN_CRITERION_KINDS, tanCriterionOf } from "~/components/charts/tan-criteria";
+import { TAN_CRITERIA, tanCriteriaOf } from "~/components/charts/tan-criteria";
 import { upperBound, lowerBound } from "~/utils/series-lookup";
 import type { ChartEvent, ChartSeries, ChartUnits, SeriesKey } from "~/utils/chart-data";
 import { fileSlugFor } from "~/utils/file-name";
@@ -59,10 +59,7 @@ export function describeEvent(e: ChartEvent): string {
 export function seriesCsv(series: ChartSeries, units: ChartUnits, events: readonly ChartEvent[] = []): string {
   const species = ["tan", "nh3", "no2", "no3"] as const;
   // The TAN caution lines at each sample's pH, as the chart and its table show them (decision 0010).
-  const criteria = TAN_CRITERION_KINDS.flatMap((kind) => {
-    const values = tanCriterionOf(series, kind);
-    return values ? [{ name: TAN_CRITERIA[kind].name, values }] : [];
-  });
+  const criteria = tanCriteriaOf(series).map(({ kind, values }) => ({ name: TAN_CRITERIA[kind].name, values }));
   const header: CsvCell[] = [
     "day",
     ...species.map((k) => `${SERIES_NAMES[k].long} (${unitOf(k, units)})`),

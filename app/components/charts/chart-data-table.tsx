@@ -6,7 +6,7 @@ import { memo, useId, useMemo, useState } from "react";
 import { eventRows, describeEvent, speciesValues } from "~/utils/csv";
 import { formatDay, formatNumber } from "~/components/charts/format";
 import { lowerBound, sampleSide, valueAt } from "~/utils/series-lookup";
-import { TAN_CRITERIA, TAN_CRITERION_KINDS, tanCriterionOf } from "~/components/charts/tan-criteria";
+import { TAN_CRITERIA, tanCriteriaOf } from "~/components/charts/tan-criteria";
 import { PLANT_UNIT, SERIES_NAMES, unitOf } from "~/components/charts/palette";
 import { tableRowIndices } from "~/components/charts/table-rows";
 import type { ChartEvent, ChartSeries, ChartUnits, SeriesKey } from "~/utils/chart-data";
@@ -41,11 +41,14 @@ export function seriesTableColumns(series: ChartSeries, units: ChartUnits): Tabl
     at: (i: number) => series[k][i],
   }));
   // The caution lines drawn over TAN, beside TAN: the table says what the chart draws.
-  const criteria = TAN_CRITERION_KINDS.flatMap((kind): TableColumn[] => {
-    const values = tanCriterionOf(series, kind);
-    if (!values) return [];
-    return [{ key: `tan-${kind}`, label: TAN_CRITERIA[kind].name, unit: unitOf("tan", units), at: (i) => values[i] }];
-  });
+  const criteria = tanCriteriaOf(series).map(
+    ({ kind, values }): TableColumn => ({
+      key: `tan-${kind}`,
+      label: TAN_CRITERIA[kind].name,
+      unit: unitOf("tan", units),
+      at: (i) => values[i],
+    }),
+  );
   species.splice(1, 0, ...criteria);
   const plants = series.plants.map((p) => ({
     key: `plant-${p.id}`,

@@ -38,6 +38,14 @@ export function tanCriterionOf(series: ChartSeries, kind: TanCriterionKind): num
   return v && v.length === series.t.length ? v : undefined;
 }
 
+/** The criteria a run carries, in drawing order, each with its values. */
+export function tanCriteriaOf(series: ChartSeries): { kind: TanCriterionKind; values: number[] }[] {
+  return TAN_CRITERION_KINDS.flatMap((kind) => {
+    const values = tanCriterionOf(series, kind);
+    return values ? [{ kind, values }] : [];
+  });
+}
+
 /** One criterion drawn as a line in `color`; the short-term one may leave the panel's scale. */
 export function criterionLine(
   key: string,

@@ -8,7 +8,7 @@ import { memo, useCallback, useEffect, useMemo, useRef, useState } from "react";
 import { ChartDataTable, seriesTableColumns } from "~/components/charts/chart-data-table";
 import { ChartDownloads } from "~/components/charts/chart-downloads";
 import { ChartFrame } from "~/components/charts/chart-frame";
-import { TAN_CRITERIA, TAN_CRITERION_KINDS, tanCriterionOf } from "~/components/charts/tan-criteria";
+import { TAN_CRITERIA, tanCriteriaOf } from "~/components/charts/tan-criteria";
 import { useSeriesPanels } from "~/components/charts/time-series-panels";
 import { seriesCsv, fileSlug } from "~/utils/csv";
 import type { LegendItem } from "~/components/charts/downloads";
@@ -145,10 +145,8 @@ export const TimeSeriesChart = memo(function TimeSeriesChart({
       const parts = SPECIES.filter((k) => visible[k]).map(
         (k) => `${SERIES_NAMES[k].short} ${formatNumber(series[k][i])} ${unitOf(k, units)}`,
       );
-      for (const kind of visible.tan ? TAN_CRITERION_KINDS : []) {
-        const v = tanCriterionOf(series, kind);
-        if (v) parts.push(`${TAN_CRITERIA[kind].name} ${formatNumber(v[i])} ${unitOf("tan", units)}`);
-      }
+      for (const { kind, values } of visible.tan ? tanCriteriaOf(series) : [])
+        parts.push(`${TAN_CRITERIA[kind].name} ${formatNumber(values[i])} ${unitOf("tan", units)}`);
       if (visible.plants)
         for (const p of series.plants) parts.push(`${p.name} ${formatNumber(p.massG[i])} ${PLANT_UNIT}`);
       for (const [k, o] of overlays.entries()) {

@@ -4,7 +4,7 @@
  */
 import type { LegendItem } from "~/components/charts/downloads";
 import { formatDay, formatNumber, formatSigned } from "~/components/charts/format";
-import { TAN_CRITERIA, TAN_CRITERION_KINDS, tanCriterionOf } from "~/components/charts/tan-criteria";
+import { TAN_CRITERIA, TAN_CRITERION_KINDS, tanCriteriaOf, tanCriterionOf } from "~/components/charts/tan-criteria";
 import { LineSwatch } from "~/components/charts/legend";
 import { residualsNear, sampleSide, valueAt, type Side } from "~/utils/series-lookup";
 import {
@@ -119,9 +119,7 @@ export function Readout({
       others: overlays.map((o) => valueAt(o.series.t, o.series[k], day, side ?? "before")),
     });
   }
-  for (const kind of visible.tan ? TAN_CRITERION_KINDS : []) {
-    const values = tanCriterionOf(series, kind);
-    if (!values) continue;
+  for (const { kind, values } of visible.tan ? tanCriteriaOf(series) : []) {
     rows.push({
       key: `tan-${kind}`,
       name: TAN_CRITERIA[kind].name,
