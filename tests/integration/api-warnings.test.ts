@@ -1,6 +1,6 @@
 /**
  * The API says what the pages say: a run's warnings (and the criteria behind them) in the run
- * JSON, the oxygen in the CSV, and the warnings in a what-if preview, canonical or in the
+ * JSON, the oxygen and the TAN caution lines in the CSV, and the warnings in a what-if preview, canonical or in the
  * person's units.
  */
 import { describe, expect, it } from "vitest";
@@ -17,7 +17,7 @@ const fishless = getPreset("first-light-fishless")!.scenario;
 const NEW_FILTER_PH_8 = { ...fishless, water: { ...fishless.water, pH: 8.2, temperatureC: 28 } };
 
 describe("warnings through the API", () => {
-  it("the run JSON carries the warnings and criteria, the CSV the oxygen", async () => {
+  it("the run JSON carries the warnings and criteria, the CSV the oxygen and the TAN caution lines", async () => {
     const keeper = await userWithCookie();
     const tankId = createTank(keeper.id);
     const scenarioId = String(await createScenario(keeper.id, tankId, NEW_FILTER_PH_8, "pH 8.2"));
@@ -39,6 +39,16 @@ describe("warnings through the API", () => {
     expect(columns).toContain("oxygen_mg_o2_per_l");
     // The run starts at saturation: 7.8 mg/L at 28 °C (Benson & Krause 1984, docs/sources.md)
     expect(Number(first.split(",")[columns.indexOf("oxygen_mg_o2_per_l")])).toBeCloseTo(7.8, 1);
+    // The chart's two TAN caution lines, at each row's own pH and the run's 28 °C: US EPA 2013
+    // chronic and acute criteria (docs/sources.md §2), as the results chart and its CSV draw them.
+    const rows = String(csv.data).trim().split(/\r?\n/).slice(1).map((line) => line.split(",").map(Number));
+    const at = (row: number[], name: string) => row[columns.indexOf(name)];
+    expect(columns).toContain("tan_long_term_limit_mg_n_per_l");
+    for (const row of [rows[0], rows[Math.floor(rows.length / 2)], rows.at(-1)!]) {
+      const criteria = ammoniaCriteria(at(row, "ph"), 28);
+      expect(at(row, "tan_long_term_limit_mg_n_per_l")).toBeCloseTo(criteria.chronicTanMgNPerL, 4);
+      expect(at(row, "tan_short_term_criterion_mg_n_per_l")).toBeCloseTo(criteria.acuteTanMgNPerL, 4);
+    }
   });
 
   it("a what-if preview warns, canonical and in the person's units", async () => {

@@ -50,6 +50,7 @@ describe("JSON API", () => {
     expect(csv.headers.get("Content-Type")).toMatch(/text\/csv/);
     const lines = (csv.data as string).trim().split(/\r\n/);
     expect(lines[0]).toMatch(/^day,tan_mg_n_per_l,free_nh3_mg_n_per_l,nitrite_mg_n_per_l,nitrate_mg_n_per_l/);
+    expect(lines[0]).toMatch(/,tan_long_term_limit_mg_n_per_l,tan_short_term_criterion_mg_n_per_l$/);
     expect(lines.length - 1).toBe(full.data.run.series.t.length);
 
     const updated = await call(
@@ -61,6 +62,10 @@ describe("JSON API", () => {
     expect(updated.data.scenario.settings.water.volumeL).toBe(160);
     const rerun = await call(scenarioRunLoader, get(`/api/scenarios/${scenarioId}/run`, keeper.cookie), { scenarioId });
     expect(rerun.data.run.id).not.toBe(run.data.run.id);
+    // The new run's CSV carries the caution lines too, at its own settings.
+    const newId = String(rerun.data.run.id);
+    const newCsv = await call(runLoader, get(`/api/runs/${newId}?format=csv`, keeper.cookie), { runId: newId });
+    expect((newCsv.data as string).split(/\r\n/)[0]).toMatch(/tan_long_term_limit_mg_n_per_l/);
   });
 
   it("answers validation errors as JSON with field paths, and saves nothing", async () => {
