@@ -72,7 +72,7 @@ describe("a task never logged", () => {
     // Journal page: the same line, and the forecast assumes it done today.
     const id = String(tankId);
     const page = await call(journalLoader, get(`/tanks/${id}/journal`, keeper.cookie), { tankId: id });
-    expect(page.data.upcoming[0]).toEqual({ title, when: dayWords(0) });
+    expect(page.data.upcoming[0]).toEqual({ title, when: dayWords(0), overdue: true });
     expect(page.data.forecast).toContain(
       `It assumes the overdue filter cleaning (due since ${dayWords(10)}) is done today.`,
     );

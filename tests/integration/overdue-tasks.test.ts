@@ -80,6 +80,10 @@ describe("an overdue task", () => {
     expect(dated("Clean the filter")).toEqual([when(0)]);
     expect(dated("Trim plants")).toEqual(Array.from({ length: 21 }, (_, d) => when(d)));
     expect(tasks.filter((t) => t.title.includes("overdue"))).toHaveLength(3);
+    // The list marks them, not only their words: exactly the three overdue ones.
+    expect(tasks.filter((t) => t.overdue).map((t) => t.title)).toEqual(
+      tasks.filter((t) => t.title.includes("overdue")).map((t) => t.title),
+    );
   });
 
   // Periods of 1, 7 and 30 days; the 30-day one missed twice (due 45 and 15 days ago).
@@ -121,7 +125,12 @@ describe("an overdue task", () => {
     const id = String(tankId);
     const page = await call(journalLoader, get(`/tanks/${id}/journal`, keeper.cookie), { tankId: id });
     expect(page.data.forecast).toContain(assumed);
-    expect(page.data.upcoming[0]).toEqual({ title: `Water change (30 %) — overdue since ${since(3)}`, when: since(0) });
+    expect(page.data.upcoming[0]).toEqual({
+      title: `Water change (30 %) — overdue since ${since(3)}`,
+      when: since(0),
+      overdue: true,
+    });
+    expect(page.data.upcoming.slice(1).every((t: { overdue: boolean }) => !t.overdue)).toBe(true);
   });
 
   // A model choice: a kind never logged counts from the journal's first entry (here the change

@@ -131,7 +131,15 @@ export function resetPlan(tankId: number) {
   getDb().delete(maintenancePlans).where(eq(maintenancePlans.tankId, tankId)).run();
 }
 
-export type PlannedTask = { key: string; kind: string; title: string; atMs: number; values: Record<string, string> };
+export type PlannedTask = {
+  key: string;
+  kind: string;
+  title: string;
+  atMs: number;
+  /** Past its due day with no entry: planned today, once. */
+  overdue: boolean;
+  values: Record<string, string>;
+};
 
 /**
  * The planned tasks from today for `days` days, each with the journal form's values it would

@@ -7,7 +7,22 @@ import { Form } from "react-router";
 import { FormMessage, TextField } from "~/components/ui/field";
 import { fieldLabel, THOROUGHNESS, type EntryField } from "~/features/journal/journal-entries";
 
-export type UpcomingTask = { key: string; title: string; when: string; values: Record<string, string> };
+export type UpcomingTask = {
+  key: string;
+  title: string;
+  when: string;
+  overdue: boolean;
+  values: Record<string, string>;
+};
+
+/** Marks a task past its due day, so it stands out from the list and not only in its words. */
+export function OverdueBadge() {
+  return (
+    <span className="mr-2 inline-block rounded border border-amber-400 bg-amber-50 px-1.5 text-xs font-semibold uppercase tracking-wide text-amber-900">
+      Overdue
+    </span>
+  );
+}
 
 const TASK_FIELDS: Record<string, EntryField[]> = {
   water_change: ["water_changed_percent", "gravel_cleaned_percent"],
@@ -37,6 +52,7 @@ export function UpcomingList({
           <li key={t.key} className="space-y-2 px-3 py-2">
             <div className="flex flex-wrap items-baseline justify-between gap-2">
               <span>
+                {t.overdue ? <OverdueBadge /> : null}
                 <strong>{t.when}</strong> · {t.title}
               </span>
             </div>

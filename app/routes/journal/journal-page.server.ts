@@ -115,7 +115,7 @@ export async function journalPageData(
   let forecast: string | null = null;
   let cautionsAhead: string[] = [];
   let problem: string | null = null;
-  let upcoming: { title: string; when: string }[] = [];
+  let upcoming: { title: string; when: string; overdue: boolean }[] = [];
   // The tank's maintenance plan (if edited) replaces the scenario's timetable for the forecast and
   // the list; the tank's nitrate band is the forecast's target.
   const stored = chosen ? readStoredSettings(chosen.settings) : null;
@@ -126,7 +126,7 @@ export async function journalPageData(
     try {
       const model = await journalModel(tank, settings, start, now);
       problem = model.problem;
-      upcoming = model.upcoming.map((t) => ({ title: t.title, when: dayText(t.atMs) }));
+      upcoming = model.upcoming.map((t) => ({ title: t.title, when: dayText(t.atMs), overdue: t.overdue }));
       const r = model.replay;
       if (r) {
         const readings = allReadings(tank.id)

@@ -6,6 +6,7 @@ import { RunWarnings } from "~/components/run-warnings";
 import { JournalForecast } from "~/components/journal-forecast";
 import { EntryForm } from "~/components/journal-entry-form";
 import { ReplayChart } from "~/components/journal-replay-chart";
+import { OverdueBadge } from "~/features/tanks/upcoming-list";
 import { requireOwnedTank } from "~/features/tanks/tanks.server";
 import { requireUser } from "~/permissions.server";
 import { journalAction, journalPageData, type JournalAnswer } from "~/routes/journal/journal-page.server";
@@ -125,6 +126,7 @@ export default function JournalPage({ loaderData, actionData }: Route.ComponentP
           <ul className="list-disc pl-5" aria-label="Planned tasks in the next three weeks">
             {upcoming.map((u, i) => (
               <li key={i}>
+                {u.overdue ? <OverdueBadge /> : null}
                 {u.when}: {u.title}
               </li>
             ))}

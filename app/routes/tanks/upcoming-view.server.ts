@@ -9,6 +9,7 @@ export function upcomingView(tankId: number, now = Date.now()) {
     key: t.key,
     title: t.title,
     when: dayText(t.atMs),
+    overdue: t.overdue,
     values: t.values,
   }));
 }
