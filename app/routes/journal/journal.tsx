@@ -94,7 +94,7 @@ export default function JournalPage({ loaderData, actionData }: Route.ComponentP
           </div>
         ) : null}
         {replay ? (
-          <ReplayChart replay={replay} />
+          <ReplayChart replay={replay} tankName={tank.name} />
         ) : (
           <p className="text-stone-600">
             {scenarioId
