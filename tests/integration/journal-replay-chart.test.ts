@@ -65,11 +65,15 @@ describe("the journal replay's chart", () => {
     expect(Math.min(...over)).toBeGreaterThanOrEqual(doseDay);
     expect(Math.min(...over)).toBeLessThan(doseDay + 1);
     expect(replay.events.filter((e: { kind: string }) => e.kind === "dose")).toHaveLength(1);
-    // The flat caution lines and the band, as on a results page (common practice, no source:
-    // 0.02 mg/L NH3; 0.1 mg/L NO2-N)
-    expect(replay.guides.freeAmmoniaCaution).toBeGreaterThan(0);
-    expect(replay.guides.nitriteCaution).toBeGreaterThan(0);
+    // The flat caution lines, as on a results page: free ammonia 0.02 mg/L NH3 and nitrite
+    // 0.1 mg/L NO2-N (common practice, no source), the latter as NO2: × 46.005 / 14.007 (IUPAC
+    // atomic weights, docs/sources.md §0)
+    expect(replay.guides.freeAmmoniaCaution).toBeCloseTo(0.02, 6);
+    expect(replay.guides.nitriteCaution).toBeCloseTo((0.1 * 46.005) / 14.007, 3);
     expect(replay.guides.nitrateBand.high).toBeGreaterThan(replay.guides.nitrateBand.low);
+    // A reload with nothing changed reuses the chart made from the kept replay.
+    const again = await call(pageLoader, get(`/tanks/${tankId}/journal`, keeper.cookie), { tankId });
+    expect(again.data.replay.packedSeries).toBe(replay.packedSeries);
   });
 
   it("draws a reading of ammonia alone as a point, in the person's unit", async () => {
