@@ -17,7 +17,7 @@ const REPLAY_EVENT_KINDS: readonly EventKind[] = [...DEFAULT_EVENT_KINDS, "feedi
  * caution lines (the TAN lines at the replay's pH), nitrite, nitrate with the target band, the
  * keeper's test readings as points, the logged events, the table and the CSV download.
  */
-export function ReplayChart({ replay, tankName }: { replay: Replay; tankName: string }) {
+export function JournalReplayChart({ replay, tankName }: { replay: Replay; tankName: string }) {
   const series = useMemo(() => unpackSeries(replay.packedSeries), [replay.packedSeries]);
   const since = formatDate(replay.startMs);
   const { readings, readingsTotal } = replay;
