@@ -1,44 +1,47 @@
-import { useContainerWidth } from "~/components/charts/hooks";
-import { replayPaths, type ReplayCurve } from "~/features/journal/journal-chart";
+import { useMemo } from "react";
+import { TimeSeriesChart } from "~/components/charts/time-series-chart";
+import { DEFAULT_EVENT_KINDS, type EventKind } from "~/components/charts/palette";
+import type { PackedRunChart } from "~/features/runs/run-chart";
+import { unpackSeries } from "~/features/runs/series-packing";
+import type { ChartReading } from "~/utils/chart-data";
 import { formatDate } from "~/utils/dates";
 
-/** The nitrate curve of the journal's replay, with the test readings and the upper target. */
-export function ReplayChart({ replay }: { replay: ReplayCurve & { startMs: number; unit: string } }) {
-  // Drawn at the width it gets (720 before scripts run), so its labels keep their size on a phone.
-  const [box, width] = useContainerWidth<HTMLElement>();
-  const W = width || 720;
-  const H = 260;
-  const p = replayPaths(replay, W, H);
+type Replay = PackedRunChart & { startMs: number; readings: ChartReading[]; readingsTotal: number };
+
+// The replay's events are the journal's (the scenario's meals are left out on the server), so a
+// logged change of feeding is marked too.
+const REPLAY_EVENT_KINDS: readonly EventKind[] = [...DEFAULT_EVENT_KINDS, "feeding"];
+
+/**
+ * The journal's replay drawn as a results page draws a run: TAN and free ammonia with their
+ * caution lines (the TAN lines at the replay's pH), nitrite, nitrate with the target band, the
+ * keeper's test readings as points, the logged events, the table and the CSV download.
+ */
+export function JournalReplayChart({ replay, tankName }: { replay: Replay; tankName: string }) {
+  const series = useMemo(() => unpackSeries(replay.packedSeries), [replay.packedSeries]);
+  const since = formatDate(replay.startMs);
+  const { readings, readingsTotal } = replay;
   return (
-    <figure ref={box}>
-      <svg
-        viewBox={`0 0 ${W} ${H}`}
-        role="img"
-        aria-label={`Nitrate as it happened, ${replay.unit}, with test readings`}
-        className="w-full"
-      >
-        {p.yTicks.map((t) => (
-          <g key={t.label}>
-            <line x1={40} x2={W - 10} y1={t.y} y2={t.y} stroke="#e7e5e4" />
-            <text x={34} y={t.y + 4} textAnchor="end" fontSize={11}>
-              {t.label}
-            </text>
-          </g>
-        ))}
-        {p.xTicks.map((t) => (
-          <text key={t.label} x={t.x} y={H - 6} textAnchor="middle" fontSize={11}>
-            {t.label}
-          </text>
-        ))}
-        <line x1={40} x2={W - 10} y1={p.highY} y2={p.highY} stroke="#b45309" strokeDasharray="6 4" />
-        <path d={p.path} fill="none" stroke="#0f766e" strokeWidth={2} data-testid="as-it-happened" />
-        {p.dots.map((d, i) => (
-          <circle key={i} cx={d.cx} cy={d.cy} r={4} fill="#1c1917" />
-        ))}
-      </svg>
+    <figure className="space-y-2">
+      <TimeSeriesChart
+        title={`${tankName}: nitrogen as it happened since ${since}`}
+        series={series}
+        seriesLabel="As it happened"
+        units={replay.labels}
+        events={replay.events}
+        eventKinds={REPLAY_EVENT_KINDS}
+        guides={replay.guides}
+        readings={readings}
+        downloadName={`${tankName}-as-it-happened`}
+      />
       <figcaption className="text-sm text-stone-600">
-        Nitrate ({replay.unit}) over the days since {formatDate(replay.startMs)}; dots are your test readings, the
-        dashed line your upper target. This is a model, not a water test: test your water before acting on it.
+        Days count from {since}, the journal's first day.{" "}
+        {readings.length === readingsTotal
+          ? readings.length
+            ? "Points are your test readings. "
+            : "No test readings in this time yet. "
+          : `Points are ${readings.length} of your ${readingsTotal.toLocaleString("en")} test readings, evenly spread over time. `}
+        This is a model, not a water test: test your water before acting on it.
       </figcaption>
     </figure>
   );

@@ -10,6 +10,7 @@ import { loader as resultsLoader } from "~/routes/scenarios/results";
 import { loader as journalLoader } from "~/routes/journal/journal";
 import { call, get, ORIGIN } from "../support/routes";
 import { signIn } from "../support/users";
+import { unpackSeries } from "~/features/runs/series-packing";
 
 beforeAll(async () => {
   await seedDemoData(getDb());
@@ -73,7 +74,8 @@ describe("demo journal", () => {
     const tankId = String(tank.id);
     const page = await call(journalLoader, get(`/tanks/${tankId}/journal`, jonah), { tankId });
     expect(page.data.entries.length).toBeGreaterThanOrEqual(8);
-    const { t, no3, readings } = page.data.replay;
+    const { readings } = page.data.replay;
+    const { t, no3 } = unpackSeries(page.data.replay.packedSeries);
     expect(readings.length).toBeGreaterThanOrEqual(12);
     // Five 25 % changes in the journal: nitrate drops at each, and only there (dilution)
     const drops = no3.filter((v: number, k: number) => k > 0 && t[k] === t[k - 1] && v < no3[k - 1] * 0.95).length;

@@ -32,7 +32,7 @@ describe("the forecast's target", () => {
     expect(saved.status).toBeLessThan(400);
     const after = await call(pageLoader, get(`/tanks/${id}/journal`, keeper.cookie), { tankId: id });
     expect(after.data.forecast).toMatch(/upper target of 30 mg\/L NO3 .* keeps it below 30 mg\/L NO3/);
-    expect(after.data.replay?.high).toBeCloseTo(30, 9);
+    expect(after.data.replay?.guides.nitrateBand?.high).toBeCloseTo(30, 9);
     const row = { id: 1, tankId: Number(id), userId: keeper.id, mode: "digest" } as ReminderRow;
     const mail = await reminderMail(row, Date.now());
     expect(mail?.text).toMatch(/Forecast: Nitrate passes your upper target of 30 mg\/L NO3 /);

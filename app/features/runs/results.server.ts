@@ -2,14 +2,13 @@
  * Everything a results view draws for one run, in the viewer's units. Shared by the owner's
  * results page, the public share page and the classroom views, so they all show the same.
  */
-import { OXYGEN, type NitrogenBudget, type Scenario } from "~models";
-import { chartEventKind, type ChartEvent } from "~/utils/chart-data";
-import { tanCriterionLines } from "~/features/runs/criterion-line";
-import { displayGuides, displayKeyFigures, displaySeries } from "~/features/runs/display-figures";
+import type { NitrogenBudget, Scenario } from "~models";
+import { displayKeyFigures } from "~/features/runs/display-figures";
+import { runChart } from "~/features/runs/run-chart";
 import { speciesFactor, toCanonical } from "~models/units";
 import { resultWarnings } from "~/features/runs/run-warnings";
 import type { StoredRun } from "~/features/runs/simulation.server";
-import { unitLabels, type DisplayUnits } from "~/utils/display-units";
+import type { DisplayUnits } from "~/utils/display-units";
 import { packSeries } from "~/features/runs/series-packing";
 import type { PackedResultsPayload, ResultsPayload } from "~/features/runs/results-payload";
 export type { ResultsPayload } from "~/features/runs/results-payload";
@@ -34,20 +33,13 @@ export function resultsPayload(run: StoredRun, scenario: Scenario, units: Displa
 }
 
 function buildPayload(run: StoredRun, scenario: Scenario, units: DisplayUnits): ResultsPayload {
-  const labels = unitLabels(units);
+  const { labels, series, events, guides } = runChart(run, scenario, units);
   return {
     runId: run.id,
     labels,
-    series: displaySeries(
-      run.series,
-      units,
-      tanCriterionLines(run.series, scenario.water.pH, scenario.water.temperatureC),
-    ),
-    events: run.events.map((e): ChartEvent => ({ day: e.day, kind: chartEventKind(e.kind), detail: e.detail })),
-    guides: {
-      ...displayGuides(scenario.targets, units),
-      oxygenCaution: OXYGEN.cautionMgPerL.value,
-    },
+    series,
+    events,
+    guides,
     keyFigures: displayKeyFigures(run.keyFigures, units),
     budget: run.budget as NitrogenBudget,
     stats: { steps: run.stats.steps, rhsEvals: run.stats.rhsEvals, wallMs: Math.round(run.stats.wallMs * 10) / 10 },

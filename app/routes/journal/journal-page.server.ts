@@ -1,11 +1,11 @@
 /**
- * The journal page's server side: the entries for the table, the "as it happened" curve of the
- * chosen scenario with the readings over it, and the page's three actions (add, delete, upload).
+ * The journal page's server side: the entries for the table, the "as it happened" chart of the
+ * chosen scenario with the readings over it (replay-view.server.ts), and the page's three
+ * actions (add, delete, upload).
  */
 import { LRUCache } from "lru-cache";
 import { data } from "react-router";
 import type { Scenario } from "~models";
-import { fromCanonical } from "~models/units";
 import { describeEntry, ENTRY_KINDS, type FieldUnits } from "~/features/journal/journal-entries";
 import { parseJournalCsv, MAX_JOURNAL_CSV_BYTES } from "~/features/journal/journal-csv.server";
 import {
@@ -26,8 +26,7 @@ import {
   readEntry,
 } from "~/features/journal/journal.server";
 import { QuotaExceeded } from "~/quotas.server";
-import { allReadings } from "~/features/readings/readings.server";
-import { resultWarnings } from "~/features/runs/run-warnings";
+import { replayView } from "~/features/journal/replay-view.server";
 import { readStoredSettings, settingsHash } from "~/features/runs/simulation.server";
 import { planScenario, planStart, tankModelSettings } from "~/features/tanks/maintenance-plan.server";
 import type { PlanStart } from "~/features/journal/plan-resume.server";
@@ -35,9 +34,9 @@ import { listScenarios, type TankRow } from "~/features/tanks/tanks.server";
 import { readUpload, UploadError } from "~/http/uploads.server";
 import { takeUploadTurn, UploadRefused } from "~/http/upload-turns.server";
 import { runProblem } from "~/http/pages.server";
-import { DAY_MS, formatDateTime, startOfDay } from "~/utils/dates";
+import { formatDateTime, startOfDay } from "~/utils/dates";
 import type { CsvProblem } from "~/utils/csv-read.server";
-import { unitLabels, type DisplayUnits } from "~/utils/display-units";
+import type { DisplayUnits } from "~/utils/display-units";
 
 /**
  * Entries shown on one page of the table, newest first. A journal holds up to 20,000 entries a
@@ -86,19 +85,6 @@ async function journalModel(tank: TankRow, settings: Scenario, start: PlanStart,
   return { replay, forecast, upcoming, problem: null };
 }
 
-/**
- * A replay's model day as the date it was ("14 November", with the year when not this year). The
- * replay runs to the end of today, so a peak at its very end is dated today, not tomorrow.
- */
-function replayDayWords(startMs: number, now: number) {
-  const thisYear = new Date(now).getUTCFullYear();
-  return (d: number) => {
-    const ms = Math.min(startMs + d * DAY_MS, now);
-    const year = new Date(ms).getUTCFullYear();
-    return year === thisYear ? dayText(ms) : `${dayText(ms)} ${year}`;
-  };
-}
-
 export async function journalPageData(
   tank: TankRow,
   scenarioParam: string | null,
@@ -106,12 +92,10 @@ export async function journalPageData(
   now = Date.now(),
   pageParam: string | null = null,
 ) {
-  // Nitrate in the person's own unit (NO3 or NO3-N), from the one units table.
-  const perMgN = fromCanonical("nitrate", 1, units.nitrate);
   const scenarios = listScenarios(tank.id);
   // By default the scenario the tank's plan is over, as the tank page and the reminders use.
   const chosen = scenarios.find((s) => String(s.id) === scenarioParam) ?? planScenario(tank.id);
-  let replay = null;
+  let replay: ReturnType<typeof replayView> | null = null;
   let forecast: string | null = null;
   let cautionsAhead: string[] = [];
   let problem: string | null = null;
@@ -129,34 +113,7 @@ export async function journalPageData(
       upcoming = model.upcoming.map((t) => ({ title: t.title, when: dayText(t.atMs), overdue: t.overdue }));
       const r = model.replay;
       if (r) {
-        const readings = allReadings(tank.id)
-          .filter((x) => x.nitrate !== null && x.takenAt.getTime() >= r.startMs)
-          .map((x) => ({ day: (x.takenAt.getTime() - r.startMs) / DAY_MS, no3: x.nitrate! * perMgN }));
-        replay = {
-          startMs: r.startMs,
-          lengthDays: r.lengthDays,
-          t: r.result.series.t,
-          no3: r.result.series.no3.map((v) => v * perMgN),
-          unit: unitLabels(units).nitrate,
-          high: settings.targets.nitrateHigh * perMgN,
-          readings,
-          unused: r.unused,
-          budget: r.result.budget,
-          plantNames: settings.plants.map((g) => g.name),
-          // What the replay crossed (free ammonia, nitrite, the ammonia criteria, KH, oxygen), in
-          // words and the person's units: a logged dose or feeding change can harm fish between
-          // two nitrate readings, and the curve here shows only nitrate.
-          warnings: resultWarnings(
-            {
-              keyFigures: r.result.keyFigures,
-              warnings: r.result.warnings,
-              tapWater: settings.tapWater,
-              volumeL: settings.water.volumeL,
-              dayWords: replayDayWords(r.startMs, now),
-            },
-            units,
-          ),
-        };
+        replay = replayView(tank.id, r, settings, units, now);
         forecast = forecastSentence(model.forecast, units);
         cautionsAhead = forecastCautions(model.forecast, units);
       }

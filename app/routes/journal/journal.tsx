@@ -5,7 +5,7 @@ import { FormMessage, SelectField } from "~/components/ui/field";
 import { RunWarnings } from "~/components/run-warnings";
 import { JournalForecast } from "~/components/journal-forecast";
 import { EntryForm } from "~/components/journal-entry-form";
-import { ReplayChart } from "~/components/journal-replay-chart";
+import { JournalReplayChart } from "~/components/journal-replay-chart";
 import { OverdueBadge } from "~/features/tanks/upcoming-list";
 import { requireOwnedTank } from "~/features/tanks/tanks.server";
 import { requireUser } from "~/permissions.server";
@@ -95,7 +95,7 @@ export default function JournalPage({ loaderData, actionData }: Route.ComponentP
           </div>
         ) : null}
         {replay ? (
-          <ReplayChart replay={replay} />
+          <JournalReplayChart replay={replay} tankName={tank.name} />
         ) : (
           <p className="text-stone-600">
             {scenarioId
