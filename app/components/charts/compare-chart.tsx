@@ -15,6 +15,8 @@ import { useControllable, useDayCursor } from "~/components/charts/hooks";
 import { EventKey, LineSwatch, ToggleButton } from "~/components/charts/legend";
 import { compareStyle, CompareReadout } from "~/components/charts/compare-readout";
 import { compareCriterionLines, criteriaAt } from "~/components/charts/compare-criteria";
+import { tanCriterionOf } from "~/components/charts/tan-criteria";
+import { TanCriteriaNote } from "~/components/charts/tan-criteria-note";
 import { sampleSide, valueAt } from "~/utils/series-lookup";
 import { DEFAULT_EVENT_KINDS, SERIES_KEYS, SERIES_NAMES, unitOf, type EventKind } from "~/components/charts/palette";
 import type { ChartEvent, ChartGuides, ChartSeries, ChartUnits, SeriesKey } from "~/utils/chart-data";
@@ -267,6 +269,9 @@ export const CompareChart = memo(function CompareChart({
       svgRef={svgRef}
       footer={
         <>
+          {species === "tan" && runs.some((r) => tanCriterionOf(r.series, "longTerm")) ? (
+            <TanCriteriaNote shortTerm={false} />
+          ) : null}
           {fileName ? (
             <ChartDownloads
               fileName={fileName}

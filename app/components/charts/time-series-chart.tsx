@@ -9,6 +9,7 @@ import { ChartDataTable, seriesTableColumns } from "~/components/charts/chart-da
 import { ChartDownloads } from "~/components/charts/chart-downloads";
 import { ChartFrame } from "~/components/charts/chart-frame";
 import { TAN_CRITERIA, tanCriteriaOf } from "~/components/charts/tan-criteria";
+import { TanCriteriaNote } from "~/components/charts/tan-criteria-note";
 import { useSeriesPanels } from "~/components/charts/time-series-panels";
 import { seriesCsv, fileSlug } from "~/utils/csv";
 import type { LegendItem } from "~/components/charts/downloads";
@@ -261,6 +262,9 @@ export const TimeSeriesChart = memo(function TimeSeriesChart({
       svgRef={svgRef}
       footer={
         <>
+          {visible.tan && tanCriteriaOf(series).length ? (
+            <TanCriteriaNote shortTerm={tanCriteriaOf(series).some((c) => c.kind === "shortTerm")} />
+          ) : null}
           {fileName ? (
             <ChartDownloads
               fileName={fileName}
