@@ -6,7 +6,14 @@ import { unpackSeries } from "~/features/runs/series-packing";
 import type { ChartReading } from "~/utils/chart-data";
 import { formatDate } from "~/utils/dates";
 
-type Replay = PackedRunChart & { startMs: number; readings: ChartReading[]; readingsTotal: number };
+type Replay = PackedRunChart & {
+  startMs: number;
+  readings: ChartReading[];
+  readingsTotal: number;
+  /** How many samples and logged events the replay has (the page gets a thinned share of long ones). */
+  samplesTotal: number;
+  eventsTotal: number;
+};
 
 // The replay's events are the journal's (the scenario's meals are left out on the server), so a
 // logged change of feeding is marked too.
@@ -41,6 +48,12 @@ export function JournalReplayChart({ replay, tankName }: { replay: Replay; tankN
             ? "Points are your test readings. "
             : "No test readings in this time yet. "
           : `Points are ${readings.length} of your ${readingsTotal.toLocaleString("en")} test readings, evenly spread over time. `}
+        {series.t.length < replay.samplesTotal
+          ? `The chart holds the highest and lowest values of each stretch of time (${series.t.length.toLocaleString("en")} of the replay's ${replay.samplesTotal.toLocaleString("en")} samples), so no peak is lost. `
+          : ""}
+        {replay.events.length < replay.eventsTotal
+          ? `${replay.events.length.toLocaleString("en")} of the ${replay.eventsTotal.toLocaleString("en")} logged events are marked on the time axis, the first of each kind in each stretch. `
+          : ""}
         This is a model, not a water test: test your water before acting on it.
       </figcaption>
     </figure>

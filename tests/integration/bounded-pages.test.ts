@@ -73,6 +73,39 @@ describe("the journal page of a full journal", () => {
   });
 });
 
+describe("the journal replay of a full journal", () => {
+  it("sends each stretch's extremes and a share of the event markers, with the totals the caption gives", async () => {
+    const keeper = await userWithCookie();
+    const tankId = createTank(keeper.id);
+    await createScenario(keeper.id, tankId, { maintenance: { waterChangeIntervalDays: 7, waterChangeFraction: 0.3 } });
+    // 20,000 entries over 700 days (one every 50 minutes): some 33,000 samples, 15,000 events.
+    const start = Date.now() - 700 * DAY;
+    const kinds = ["water_change", "note", "filter_cleaned", "feeding_changed"] as const;
+    const rows = Array.from({ length: 20_000 }, (_, i) => ({
+      tankId,
+      doneAt: new Date(start + i * 3_000_000),
+      kind: kinds[i % kinds.length],
+      details: kinds[i % kinds.length] === "feeding_changed" ? { gramsPerDay: 0.5 + (i % 7) * 0.1 } : { share: 0.2 },
+      note: "",
+    }));
+    for (let i = 0; i < rows.length; i += 1000)
+      getDb()
+        .insert(journalEntries)
+        .values(rows.slice(i, i + 1000))
+        .run();
+    const r = await call(journalLoader, get(`/tanks/${tankId}/journal`, keeper.cookie), { tankId: String(tankId) });
+    expect(r.status).toBe(200);
+    expect(r.data.problem).toBeNull();
+    expect(JSON.stringify(r.data).length).toBeLessThan(PAGE_DATA_BYTES);
+    const replay = r.data.replay;
+    const sent = replay.packedSeries.t.split(",").length;
+    expect(replay.samplesTotal).toBeGreaterThan(30_000);
+    expect(sent).toBeLessThan(replay.samplesTotal / 4);
+    expect(replay.eventsTotal).toBeGreaterThan(10_000);
+    expect(replay.events.length).toBeLessThan(replay.eventsTotal / 4);
+  }, 120_000);
+});
+
 describe("the calendar feed of a full journal", () => {
   it("answers quickly, with the same tasks as the whole journal gives", async () => {
     const keeper = await userWithCookie();

@@ -20,6 +20,8 @@ export type Decimated = {
  * @param x0 day at the left edge of the plot
  * @param x1 day at the right edge
  * @param columns pixel columns of the plot (one bucket each)
+ * @param keepEventPairs keep both samples of every event pair (the default, for drawing); off
+ *   where events are so dense that their pairs alone would outnumber the columns
  */
 export function decimateMinMax(
   t: ArrayLike<number>,
@@ -27,6 +29,7 @@ export function decimateMinMax(
   x0: number,
   x1: number,
   columns: number,
+  keepEventPairs = true,
 ): Decimated {
   const n = Math.min(t.length, y.length);
   const cols = Math.max(1, Math.floor(columns));
@@ -51,8 +54,7 @@ export function decimateMinMax(
       i === n - 1 ||
       !finite ||
       // Both samples of an event pair (same day, before and after the jump).
-      t[i + 1] === ti ||
-      t[i - 1] === ti ||
+      (keepEventPairs && (t[i + 1] === ti || t[i - 1] === ti)) ||
       // The neighbours of a gap bound the line segment that ends there.
       !prevFinite ||
       !nextFinite;

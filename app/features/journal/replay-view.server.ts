@@ -11,6 +11,7 @@ import { readingsForChart } from "~/features/readings/readings.server";
 import { runChart, type PackedRunChart } from "~/features/runs/run-chart";
 import { resultWarnings } from "~/features/runs/run-warnings";
 import { packSeries } from "~/features/runs/series-packing";
+import { thinEvents, thinSeries } from "~/features/runs/thin-series";
 import { DAY_MS } from "~/utils/dates";
 import type { DisplayUnits } from "~/utils/display-units";
 
@@ -20,9 +21,10 @@ import type { DisplayUnits } from "~/utils/display-units";
  * the page as cheap as the kept model (journal-page.server.ts) makes it. A replay object is made
  * once per journal version and settings, so it keys the chart.
  */
-const charts = new WeakMap<Replay, Map<string, PackedRunChart>>();
+type ReplayChartData = PackedRunChart & { eventsTotal: number; samplesTotal: number };
+const charts = new WeakMap<Replay, Map<string, ReplayChartData>>();
 
-function replayChart(r: Replay, settings: Scenario, units: DisplayUnits): PackedRunChart {
+function replayChart(r: Replay, settings: Scenario, units: DisplayUnits): ReplayChartData {
   const key = Object.values(units).join("|");
   let kept = charts.get(r);
   if (!kept) charts.set(r, (kept = new Map()));
@@ -30,8 +32,17 @@ function replayChart(r: Replay, settings: Scenario, units: DisplayUnits): Packed
   if (hit) return hit;
   // The scenario's own meals are not something the keeper logged: only the journal's events are marked.
   const events = r.result.events.filter((e) => e.kind !== "feeding");
-  const { series, ...rest } = runChart({ series: r.result.series, events }, settings, units);
-  const chart = { ...rest, packedSeries: packSeries(series) };
+  const { series, events: marked, ...rest } = runChart({ series: r.result.series, events }, settings, units);
+  // A full journal is tens of thousands of samples: the page gets each stretch's extremes.
+  const sent = thinSeries(series);
+  const thinned = thinEvents(marked, sent.t[0] ?? 0, sent.t.at(-1) ?? 0);
+  const chart = {
+    ...rest,
+    events: thinned.events,
+    eventsTotal: thinned.total,
+    samplesTotal: series.t.length,
+    packedSeries: packSeries(sent),
+  };
   kept.set(key, chart);
   return chart;
 }
