@@ -9,9 +9,9 @@ import { decimateMinMax } from "~/components/charts/decimate";
 import type { ChartEvent, ChartSeries } from "~/utils/chart-data";
 
 /** Stretches of time a long run is cut into: about one per pixel column of a wide chart. */
-export const SENT_STRETCHES = 600;
+const SENT_STRETCHES = 600;
 /** Stretches for event markers: a marker is a few pixels wide, and each carries its words. */
-export const EVENT_STRETCHES = 200;
+const EVENT_STRETCHES = 200;
 
 /** `s` with only the samples some column needs to draw its extremes per stretch; `s` itself when short. */
 export function thinSeries(s: ChartSeries, stretches = SENT_STRETCHES): ChartSeries {
