@@ -22,7 +22,6 @@ import { DEFAULT_PREFERENCES, displayUnitsFor } from "~/utils/display-units";
 /** Journals a list view replays at most (each a model run of up to two years); the rest wait. */
 export const REPLAYS_PER_VIEW = 3;
 
-
 /** The warnings that name harm to fish, in the list's words (the journal page gives the details). */
 const DANGER_WORDS: Record<string, string> = {
   freeAmmoniaAboveCaution: "free ammonia above the caution line",
