@@ -142,11 +142,18 @@ describe("the journal replay's findings on the tank list and the tank page", () 
     resetRunGate();
     const { keeper, tankId, log } = await tankAtPh8();
     await log({ date: day(3), kind: "ammonia_dosed", ammonia_n_mg_l: 4 });
+    const other = await tankAtPh8(keeper, "Another tank");
+    await other.log({ date: day(3), kind: "water_change", water_changed_percent: 30 });
     const releases: (() => void)[] = [];
     for (let i = 0; i < RUNS_IN_FLIGHT_PER_PERSON; i++) releases.push(await takeRunSlot(keeper.id));
     try {
-      const refused = await journalOf(keeper.cookie, tankId);
+      const started = Date.now();
+      const list = await listed(keeper.cookie);
+      // One wait for a slot (the gate's five seconds), not one a tank.
+      expect(Date.now() - started).toBeLessThan(9_000);
+      const refused = list.find((t) => String(t.id) === tankId)!.journal;
       expect(refused).toEqual({ state: "refused" });
+      expect(list.find((t) => String(t.id) === other.tankId)!.journal).toEqual({ state: "refused" });
       expect(flagHtml(tankId, refused)).toMatch(/open the journal to replay it/);
       expect(findings(tankId)).toBeUndefined();
     } finally {

@@ -11,6 +11,7 @@ import { journalEntries, journalFindings } from "~/db/schema-care";
 import { replayJournal, type Replay } from "~/features/journal/journal-replay.server";
 import { listJournal } from "~/features/journal/journal.server";
 import { toxicPeaksAboveCaution } from "~/features/runs/display-figures";
+import { RunRefused } from "~/features/runs/run-gate.server";
 import { resultWarnings } from "~/features/runs/run-warnings";
 import { readStoredSettings, settingsHash } from "~/features/runs/simulation.server";
 import { planScenario, tankModelSettings } from "~/features/tanks/maintenance-plan.server";
@@ -117,6 +118,8 @@ export async function journalFlags(
       .map((f) => [f.tankId, f]),
   );
   let replays = 0;
+  // After one refusal the gate is full: the others say so at once rather than each wait for a slot.
+  let refused = false;
   for (const tank of list) {
     if (!withEntries.has(tank.id)) {
       out.set(tank.id, null);
@@ -124,8 +127,8 @@ export async function journalFlags(
     }
     let found = kept.get(tank.id);
     if (!found || found.journalVersion !== tank.journalVersion) {
-      if (replays >= maxReplays) {
-        out.set(tank.id, { state: "later" });
+      if (refused || replays >= maxReplays) {
+        out.set(tank.id, { state: refused ? "refused" : "later" });
         continue;
       }
       replays++;
@@ -134,6 +137,7 @@ export async function journalFlags(
       } catch (error) {
         if (!runProblem(error)) console.error("[fernwater] the tank list could not replay a journal", error);
         out.set(tank.id, { state: "refused" });
+        refused = error instanceof RunRefused;
         continue;
       }
     }
