@@ -21,6 +21,7 @@ import { loader as listLoader } from "~/routes/tanks/list";
 import { action as tankAction, loader as tankLoader } from "~/routes/tanks/detail";
 import { call, get, post } from "../support/routes";
 import { addThroughPage, day, tankAtPh8 } from "../support/journal";
+import { createTank } from "../support/tanks";
 import { userWithCookie } from "../support/users";
 
 type ListedTank = { id: number; name: string; journal: JournalFlag };
@@ -112,13 +113,16 @@ describe("the journal replay's findings on the tank list and the tank page", () 
       const { log } = await tankAtPh8(keeper, name);
       await log({ date: day(4), kind: "water_change", water_changed_percent: 30 });
     }
-    const first = await listed(keeper.cookie);
+    // A journal with no scenario to replay on is not flagged and uses none of the view's replays.
+    const bare = String(createTank(keeper.id, "A tank without a scenario"));
+    await addThroughPage(bare, keeper.cookie, { date: day(4), kind: "water_change", water_changed_percent: "30" });
+    const first = (await listed(keeper.cookie)).slice(1);
     expect(first.map((t) => t.journal?.state)).toEqual(["found", "found", "found", "later"]);
     expect(flagHtml(String(first[3].id), first[3].journal)).toMatch(
       /at most 3 journals a view.*open the journal to replay it/,
     );
     const second = await listed(keeper.cookie);
-    expect(second.map((t) => t.journal?.state)).toEqual(["found", "found", "found", "found"]);
+    expect(second.map((t) => t.journal?.state ?? null)).toEqual([null, "found", "found", "found", "found"]);
   });
 
   it("deleting the tank deletes its findings", async () => {

@@ -78,10 +78,8 @@ export function saveJournalFindings(tank: TankRow, settings: Scenario, r: Replay
     .run();
 }
 
-/** Replays `tank`'s journal on its plan and keeps the findings; null without entries or a scenario. */
-async function replayAndSave(tank: TankRow, now: number): Promise<Findings | null> {
-  const plan = planSettings(tank);
-  if (!plan) return null;
+/** Replays `tank`'s journal on its plan and keeps the findings; null without entries. */
+async function replayAndSave(tank: TankRow, plan: { settings: Scenario }, now: number): Promise<Findings | null> {
   const replay = await replayJournal(plan.settings, listJournal(tank.id), now, tank.ownerId);
   if (!replay) return null;
   saveJournalFindings(tank, plan.settings, replay, now);
@@ -131,9 +129,15 @@ export async function journalFlags(
         out.set(tank.id, { state: refused ? "refused" : "later" });
         continue;
       }
+      // A tank without a scenario has nothing to replay on (nor has its journal page): no flag.
+      const plan = planSettings(tank);
+      if (!plan) {
+        out.set(tank.id, null);
+        continue;
+      }
       replays++;
       try {
-        found = (await replayAndSave(tank, now)) ?? undefined;
+        found = (await replayAndSave(tank, plan, now)) ?? undefined;
       } catch (error) {
         if (!runProblem(error)) console.error("[fernwater] the tank list could not replay a journal", error);
         out.set(tank.id, { state: "refused" });
