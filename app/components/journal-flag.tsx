@@ -29,7 +29,7 @@ export function JournalFlagNote({ tankId, flag, perView }: { tankId: number; fla
   return (
     <p className="text-xs text-stone-600" data-journal-flag={flag.state}>
       {flag.state === "later"
-        ? `The journal changed since its last replay (this list replays at most ${perView ?? 1} journals a view): `
+        ? `The journal is not replayed since its last change (this list replays at most ${perView ?? 1} journals a view): `
         : "The journal could not be replayed just now: "}
       <Link to={href} className="link">
         open the journal to replay it
