@@ -94,3 +94,21 @@ export const maintenancePlans = sqliteTable("maintenance_plans", {
   createdAt: integer("created_at", { mode: "timestamp_ms" }).notNull().default(sql`0`),
   updatedAt: integer("updated_at", { mode: "timestamp_ms" }).notNull(),
 });
+
+/**
+ * What the latest replay of a tank's journal found (one row a tank), so the tank list can flag a
+ * logged dose or feeding change that harms fish without replaying every journal on every view.
+ * It stands for the journal as of `journalVersion` (tanks.journal_version) on the plan's settings.
+ */
+export const journalFindings = sqliteTable("journal_findings", {
+  tankId: integer("tank_id")
+    .primaryKey()
+    .references(() => tanks.id, { onDelete: "cascade" }),
+  journalVersion: integer("journal_version").notNull(),
+  settingsHash: text("settings_hash").notNull(),
+  computedAt: integer("computed_at", { mode: "timestamp_ms" }).notNull(),
+  freeNh3AboveCaution: integer("free_nh3_above_caution", { mode: "boolean" }).notNull().default(false),
+  nitriteAboveCaution: integer("nitrite_above_caution", { mode: "boolean" }).notNull().default(false),
+  /** The codes of the replay's warnings (run-warnings.ts), e.g. "ammoniaAboveAcuteCriterion". */
+  warningCodes: text("warning_codes", { mode: "json" }).$type<string[]>().notNull().default([]),
+});

@@ -3,30 +3,10 @@
  * with fish harms them between two nitrate readings, and the page's curve shows only nitrate.
  */
 import { describe, expect, it } from "vitest";
-import { action as journalApiPost } from "~/routes/api/tank-journal";
 import { loader as pageLoader } from "~/routes/journal/journal";
-import { call, get, postJson } from "../support/routes";
-import { createScenario, createTank } from "../support/tanks";
-import { userWithCookie } from "../support/users";
-import { day } from "../support/journal";
+import { call, get } from "../support/routes";
+import { day, tankAtPh8 } from "../support/journal";
 import { dayInWords } from "../support/journal-days";
-
-
-async function tankAtPh8() {
-  const keeper = await userWithCookie();
-  const tankId = String(createTank(keeper.id));
-  await createScenario(keeper.id, Number(tankId), {
-    water: { volumeL: 100, startNitrate: 5, pH: 8.2, temperatureC: 28 },
-    fish: { feedGPerDay: 0.5 },
-    maintenance: { waterChangeIntervalDays: 7, waterChangeFraction: 0.3 },
-    tapWater: { nitrate: 0, roShare: 0 },
-  });
-  const log = async (entry: Record<string, unknown>) => {
-    const r = await call(journalApiPost, postJson(`/api/tanks/${tankId}/journal`, entry, keeper.cookie), { tankId });
-    expect(r.status).toBe(201);
-  };
-  return { keeper, tankId, log };
-}
 
 describe("the journal replay's warnings", () => {
   it("a logged ammonia dose with fish at pH 8.2 is named, in the person's units", async () => {

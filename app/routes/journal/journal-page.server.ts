@@ -16,6 +16,7 @@ import {
 } from "~/features/journal/calendar-feed.server";
 import { dayText, forecastCautions, forecastSentence } from "~/features/journal/forecast-text.server";
 import { forecastJournal, replayJournal, type Forecast } from "~/features/journal/journal-replay.server";
+import { saveJournalFindings } from "~/features/journal/journal-findings.server";
 import {
   addEntries,
   countJournal,
@@ -65,13 +66,15 @@ type JournalModel = {
 };
 const keptModels = new LRUCache<string, JournalModel>({ max: 200, ttl: 10 * 60_000 });
 
-async function journalModel(tank: TankRow, settings: Scenario, start: PlanStart, now: number) {
+/** `onPlan`: the replay is on the tank's plan, so its findings are kept for the tank list (journal-findings.server.ts). */
+async function journalModel(tank: TankRow, settings: Scenario, start: PlanStart, now: number, onPlan: boolean) {
   const key = `${tank.id}:${tank.journalVersion}:${settingsHash(settings)}:${start.from}:${start.ms}:${startOfDay(now)}`;
   const kept = keptModels.get(key);
   if (kept) return { ...kept, problem: null };
   const entries = listJournal(tank.id);
   const upcoming = upcomingTasks(settings, entries, start, now, 21);
   const replay = await replayJournal(settings, entries, now, tank.ownerId);
+  if (replay && onPlan) saveJournalFindings(tank, settings, replay, now);
   let forecast: Forecast | null = null;
   try {
     forecast = replay ? await forecastJournal(settings, entries, now, tank.ownerId, start) : null;
@@ -94,7 +97,8 @@ export async function journalPageData(
 ) {
   const scenarios = listScenarios(tank.id);
   // By default the scenario the tank's plan is over, as the tank page and the reminders use.
-  const chosen = scenarios.find((s) => String(s.id) === scenarioParam) ?? planScenario(tank.id);
+  const plan = planScenario(tank.id);
+  const chosen = scenarios.find((s) => String(s.id) === scenarioParam) ?? plan;
   let replay: ReturnType<typeof replayView> | null = null;
   let forecast: string | null = null;
   let cautionsAhead: string[] = [];
@@ -108,7 +112,7 @@ export async function journalPageData(
   const start = chosen ? planStart(tank.id, chosen, firstEntryAt(tank.id)) : null;
   if (settings && start) {
     try {
-      const model = await journalModel(tank, settings, start, now);
+      const model = await journalModel(tank, settings, start, now, chosen?.id === plan?.id);
       problem = model.problem;
       upcoming = model.upcoming.map((t) => ({ title: t.title, when: dayText(t.atMs), overdue: t.overdue }));
       const r = model.replay;

@@ -6,6 +6,8 @@ import { getDb } from "~/db/client.server";
 import { scenarios } from "~/db/schema";
 import { displayKeyFigures, toxicPeaksAboveCaution } from "~/features/runs/display-figures";
 import { AboveCaution } from "~/components/above-caution";
+import { JournalFlagNote } from "~/components/journal-flag";
+import { journalFlags } from "~/features/journal/journal-findings.server";
 import { speciesFactor } from "~models/units";
 import { nitrateBandHint, typedTarget } from "~/features/tanks/nitrate-targets";
 import { handedInCopyIn } from "~/features/classes/classes.server";
@@ -38,6 +40,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     .all();
   const latest = latestKeyFigures(list.map((s) => s.id));
   const handedIn = handedInCopyIn({ tankId: tank.id });
+  // The journal's replay (the real tank) may show danger the scenarios' figures below do not.
+  const journal = (await journalFlags([tank], Date.now(), 1)).get(tank.id) ?? null;
   return {
     tank: {
       id: tank.id,
@@ -47,6 +51,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
       nitrateHigh: String(typedTarget(tank.nitrateTargetHigh, no3)),
     },
     labels: unitLabels(units),
+    journal,
     nitrateHint: handedIn ? bandKeptMessage(handedIn.lessonTitle) : nitrateBandHint(no3, unitLabels(units).nitrate),
     /** The band is kept for a handed-in lesson copy: shown, not editable. */
     bandKept: !!handedIn,
@@ -97,6 +102,7 @@ export default function TankPage({ loaderData, actionData }: Route.ComponentProp
           </Link>
         </div>
       </div>
+      <JournalFlagNote tankId={tank.id} flag={loaderData.journal} />
       {tank.notes ? <p className="text-stone-700">{tank.notes}</p> : null}
       {errors[""] ? <FormMessage>{errors[""]}</FormMessage> : null}
       {loaderData.done ? <FormMessage tone="success">Added to the journal.</FormMessage> : null}

@@ -7,6 +7,8 @@ import { getDb } from "~/db/client.server";
 import { tanks } from "~/db/schema";
 import { displayKeyFigures, toxicPeaksAboveCaution } from "~/features/runs/display-figures";
 import { AboveCaution } from "~/components/above-caution";
+import { JournalFlagNote } from "~/components/journal-flag";
+import { journalFlags, REPLAYS_PER_VIEW } from "~/features/journal/journal-findings.server";
 import { requireUser } from "~/permissions.server";
 import { checkNewTank } from "~/quotas.server";
 import { displayUnitsFor, formatNumber, unitLabels } from "~/utils/display-units";
@@ -21,18 +23,24 @@ export async function loader({ request }: Route.LoaderArgs) {
   const user = await requireUser(request);
   const units = displayUnitsFor(user);
   const list = getDb()
-    .select({ id: tanks.id, name: tanks.name, notes: tanks.notes })
+    .select()
     .from(tanks)
     .where(eq(tanks.ownerId, user.id))
     .orderBy(asc(tanks.name), asc(tanks.id))
     .all();
   const figures = latestFiguresByTank(list.map((t) => t.id));
+  // What each journal's replay found: the keeper's real tank, not a scenario's timetable.
+  const journals = await journalFlags(list);
   return {
     labels: unitLabels(units),
+    replaysPerView: REPLAYS_PER_VIEW,
     tanks: list.map((t) => {
       const latest = figures.get(t.id);
       return {
-        ...t,
+        id: t.id,
+        name: t.name,
+        notes: t.notes,
+        journal: journals.get(t.id) ?? null,
         latest: latest
           ? {
               scenarioName: latest.scenarioName,
@@ -85,6 +93,7 @@ export default function TanksPage({ loaderData, actionData }: Route.ComponentPro
                 </Link>
               </h2>
               {t.notes ? <p className="text-sm text-stone-600">{t.notes}</p> : null}
+              <JournalFlagNote tankId={t.id} flag={t.journal} perView={loaderData.replaysPerView} />
               {t.latest ? (
                 <>
                   <dl className="grid grid-cols-2 gap-2 text-sm sm:grid-cols-4">
