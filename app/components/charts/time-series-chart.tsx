@@ -173,6 +173,7 @@ export const TimeSeriesChart = memo(function TimeSeriesChart({
     if (i >= 0) moveCursor(i, "pointer");
   }, [cursorDay, series.t, moveCursor]);
 
+  const criteria = tanCriteriaOf(series);
   const fileName = downloadName === false ? null : fileSlug(downloadName ?? title);
   const legend: LegendItem[] = useMemo(
     () => legendItems(series, units, visible, overlays, hiddenOverlays, seriesLabel),
@@ -262,8 +263,8 @@ export const TimeSeriesChart = memo(function TimeSeriesChart({
       svgRef={svgRef}
       footer={
         <>
-          {visible.tan && tanCriteriaOf(series).length ? (
-            <TanCriteriaNote shortTerm={tanCriteriaOf(series).some((c) => c.kind === "shortTerm")} />
+          {visible.tan && criteria.length ? (
+            <TanCriteriaNote shortTerm={criteria.some((c) => c.kind === "shortTerm")} />
           ) : null}
           {fileName ? (
             <ChartDownloads

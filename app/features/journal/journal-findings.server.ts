@@ -4,7 +4,7 @@
  * shows danger" without replaying every journal on every view. A tank whose journal changed since
  * (its journal_version moved) is replayed by the list, a few a view, through the owner's run gate.
  */
-import { eq, inArray } from "drizzle-orm";
+import { inArray } from "drizzle-orm";
 import type { Scenario } from "~models";
 import { getDb } from "~/db/client.server";
 import { journalEntries, journalFindings } from "~/db/schema-care";
@@ -50,8 +50,8 @@ function planSettings(tank: TankRow): { scenarioId: number; settings: Scenario }
   return chosen && stored ? { scenarioId: chosen.id, settings: tankModelSettings(tank, stored) } : null;
 }
 
-/** Keeps what the replay `r` of `tank`'s journal (at its current version) on `settings` found. */
-export function saveJournalFindings(tank: TankRow, settings: Scenario, r: Replay, now: number): void {
+/** Keeps what the replay `r` of `tank`'s journal (at its current version) on `settings` found, and returns it. */
+export function saveJournalFindings(tank: TankRow, settings: Scenario, r: Replay, now: number): Findings {
   const above = toxicPeaksAboveCaution(r.result.keyFigures);
   // The codes do not depend on the units; the warnings' words are not kept.
   const codes = resultWarnings(
@@ -76,14 +76,14 @@ export function saveJournalFindings(tank: TankRow, settings: Scenario, r: Replay
     .values({ tankId: tank.id, ...values })
     .onConflictDoUpdate({ target: journalFindings.tankId, set: values })
     .run();
+  return { tankId: tank.id, ...values };
 }
 
 /** Replays `tank`'s journal on its plan and keeps the findings; null without entries. */
 async function replayAndSave(tank: TankRow, plan: { settings: Scenario }, now: number): Promise<Findings | null> {
   const replay = await replayJournal(plan.settings, listJournal(tank.id), now, tank.ownerId);
   if (!replay) return null;
-  saveJournalFindings(tank, plan.settings, replay, now);
-  return getDb().select().from(journalFindings).where(eq(journalFindings.tankId, tank.id)).get() ?? null;
+  return saveJournalFindings(tank, plan.settings, replay, now);
 }
 
 /**
