@@ -10,17 +10,20 @@ import { createRoutesStub } from "react-router";
 import { eq } from "drizzle-orm";
 import { describe, expect, it } from "vitest";
 import { getDb } from "~/db/client.server";
-import { tanks } from "~/db/schema";
+import { scenarios, tanks } from "~/db/schema";
 import { journalFindings } from "~/db/schema-care";
 import { JournalFlagNote } from "~/components/journal-flag";
 import type { JournalFlag } from "~/features/journal/journal-flag";
+import { journalFlags } from "~/features/journal/journal-findings.server";
 import { forgetJournalRuns } from "~/features/journal/journal-runs.server";
+import { readStoredSettings } from "~/features/runs/simulation.server";
+import { saveScenarioWithRun } from "~/features/scenarios/scenario-api.server";
 import { RUNS_IN_FLIGHT_PER_PERSON, resetRunGate, takeRunSlot } from "~/features/runs/run-gate.server";
 import { loader as journalLoader } from "~/routes/journal/journal";
 import { loader as listLoader } from "~/routes/tanks/list";
 import { action as tankAction, loader as tankLoader } from "~/routes/tanks/detail";
 import { call, get, post } from "../support/routes";
-import { addThroughPage, day, tankAtPh8 } from "../support/journal";
+import { addThroughPage, DAY, day, tankAtPh8 } from "../support/journal";
 import { createTank } from "../support/tanks";
 import { userWithCookie } from "../support/users";
 
@@ -105,6 +108,44 @@ describe("the journal replay's findings on the tank list and the tank page", () 
     expect(findings(tankId)).toMatchObject({ journalVersion: versionOf(tankId), freeNh3AboveCaution: true });
     expect(await journalOf(keeper.cookie, tankId)).toMatchObject({ dangers: expect.arrayContaining([FREE_AMMONIA]) });
     expect(findings(tankId)!.journalVersion).toBe(versionOf(tankId));
+  });
+
+  it("a scenario edit makes the kept findings stale: the list replays on the edited plan", async () => {
+    const { keeper, tankId, log } = await tankAtPh8();
+    await log({ date: day(3), kind: "ammonia_dosed", ammonia_n_mg_l: 4 });
+    expect(await journalOf(keeper.cookie, tankId)).toMatchObject({ dangers: expect.arrayContaining([FREE_AMMONIA]) });
+    const before = findings(tankId)!;
+    // The keeper measures again and finds pH 6.5: the same dose is far less toxic. Emerson et al.
+    // 1975: at pH 6.5 and 28 °C about 0.2 % of TAN is free NH3, so about 3.3 mg N/L of TAN gives
+    // under 0.01 mg/L NH3, below the 0.02 mg/L caution line (common practice, no source).
+    const row = getDb().select().from(scenarios).where(eq(scenarios.tankId, Number(tankId))).get()!;
+    const tank = getDb().select().from(tanks).where(eq(tanks.id, Number(tankId))).get()!;
+    const settings = readStoredSettings(row.settings)!;
+    await saveScenarioWithRun(tank, row.id, row.name, { ...settings, water: { ...settings.water, pH: 6.5 } });
+    // The journal did not change, so its version alone would keep the old, now wrong, flag.
+    expect(versionOf(tankId)).toBe(before.journalVersion);
+    const after = await journalOf(keeper.cookie, tankId);
+    expect(after).toMatchObject({ state: "found" });
+    expect(after && "dangers" in after ? after.dangers : []).not.toContain(FREE_AMMONIA);
+    expect(findings(tankId)!.settingsHash).not.toBe(before.settingsHash);
+    // The tank page says the same.
+    const tankPage = await call(tankLoader, get(`/tanks/${tankId}`, keeper.cookie), { tankId });
+    expect(tankPage.data.journal).toEqual(after);
+  });
+
+  it("findings from an earlier day are replayed again (the replay runs to today)", async () => {
+    const { keeper, tankId, log } = await tankAtPh8();
+    await log({ date: day(3), kind: "water_change", water_changed_percent: 30 });
+    await listed(keeper.cookie);
+    const first = findings(tankId)!.computedAt.getTime();
+    const tank = getDb().select().from(tanks).where(eq(tanks.id, Number(tankId))).get()!;
+    // The same day: kept, no replay.
+    await journalFlags([tank], first + 1000);
+    expect(findings(tankId)!.computedAt.getTime()).toBe(first);
+    // The next day: replayed and kept again.
+    const flags = await journalFlags([tank], first + DAY);
+    expect(flags.get(tank.id)).toEqual({ state: "found", dangers: [] });
+    expect(findings(tankId)!.computedAt.getTime()).toBe(first + DAY);
   });
 
   it("replays at most three journals a view and says so for the rest", async () => {

@@ -1,8 +1,10 @@
 /**
  * What the latest replay of each tank's journal found (table journal_findings), kept whenever a
  * replay on the tank's plan is computed, so the tank list and the tank page can say "the journal
- * shows danger" without replaying every journal on every view. A tank whose journal changed since
- * (its journal_version moved) is replayed by the list, a few a view, through the owner's run gate.
+ * shows danger" without replaying every journal on every view. Findings count only while they
+ * are for the same journal version, the same plan settings (a scenario or tank edit changes what
+ * the replay finds) and the same day (the replay runs to today); otherwise the list replays the
+ * journal again, a few a view, through the owner's run gate.
  */
 import { inArray } from "drizzle-orm";
 import type { Scenario } from "~models";
@@ -18,6 +20,7 @@ import { planScenario, tankModelSettings } from "~/features/tanks/maintenance-pl
 import type { TankRow } from "~/features/tanks/tanks.server";
 import type { JournalFlag } from "~/features/journal/journal-flag";
 import { runProblem } from "~/http/pages.server";
+import { startOfDay } from "~/utils/dates";
 import { DEFAULT_PREFERENCES, displayUnitsFor } from "~/utils/display-units";
 
 /** Journals a list view replays at most (each a model run of up to two years); the rest wait. */
@@ -48,6 +51,16 @@ function planSettings(tank: TankRow): { scenarioId: number; settings: Scenario }
   const chosen = planScenario(tank.id);
   const stored = chosen ? readStoredSettings(chosen.settings) : null;
   return chosen && stored ? { scenarioId: chosen.id, settings: tankModelSettings(tank, stored) } : null;
+}
+
+/** Whether `found` is what a replay of `tank`'s journal on `settings` would find on `now`'s day. */
+function current(found: Findings | undefined, tank: TankRow, settings: Scenario, now: number): found is Findings {
+  return (
+    found !== undefined &&
+    found.journalVersion === tank.journalVersion &&
+    found.settingsHash === settingsHash(settings) &&
+    startOfDay(found.computedAt.getTime()) === startOfDay(now)
+  );
 }
 
 /** Keeps what the replay `r` of `tank`'s journal (at its current version) on `settings` found, and returns it. */
@@ -123,16 +136,16 @@ export async function journalFlags(
       out.set(tank.id, null);
       continue;
     }
+    // A tank without a scenario has nothing to replay on (nor has its journal page): no flag.
+    const plan = planSettings(tank);
+    if (!plan) {
+      out.set(tank.id, null);
+      continue;
+    }
     let found = kept.get(tank.id);
-    if (!found || found.journalVersion !== tank.journalVersion) {
+    if (!current(found, tank, plan.settings, now)) {
       if (refused || replays >= maxReplays) {
         out.set(tank.id, { state: refused ? "refused" : "later" });
-        continue;
-      }
-      // A tank without a scenario has nothing to replay on (nor has its journal page): no flag.
-      const plan = planSettings(tank);
-      if (!plan) {
-        out.set(tank.id, null);
         continue;
       }
       replays++;
