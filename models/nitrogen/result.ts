@@ -29,7 +29,7 @@ export interface ModelWarning {
   day: number | null;
 }
 
-export const ENGINE_VERSION = "fernwater-engine 2.0.1";
+export const ENGINE_VERSION = "fernwater-engine 2.0.2";
 
 export interface SimulateOptions {
   /** Abort with ModelError("WALL_TIME") after this many milliseconds (default 2000). */

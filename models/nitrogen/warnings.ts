@@ -5,6 +5,7 @@
  * about the settings rather than a moment).
  */
 import { EATEN_N_SPLIT, tanFromFeed } from "./chemistry";
+import { worstChronicWindow } from "./chronic-exposure";
 import { ammoniaCriteria } from "./criteria";
 import { OXYGEN } from "./parameters";
 import { KH_EXHAUSTED_DKH, type Extremes, type Trace } from "./recorder";
@@ -35,43 +36,6 @@ function feedOxygenDemand(s: Scenario, c: TankConstants): number {
 /** Most oxygen the air can bring in per day (mg O2/day): exchange at full deficit. */
 function oxygenSupplyCeiling(c: TankConstants): number {
   return (c.kla * c.volumeL + c.dripLPerDay) * c.o2Sat;
-}
-
-/**
- * Highest average of `values` over any window of `days` ending at a point of `t` (the whole run
- * when it is shorter), the values linear between points. `t` is non-decreasing; a repeated time
- * is a jump (an event). The window's start is interpolated, so irregular solver steps average
- * exactly as evenly spaced samples would.
- */
-function highestAverage(t: readonly number[], values: readonly number[], days: number): { value: number; day: number } {
-  const n = t.length;
-  if (n < 2 || !(t[n - 1] > t[0])) return { value: n > 0 ? values[0] : 0, day: n > 0 ? t[0] : 0 };
-  const w = Math.min(days, t[n - 1] - t[0]);
-  const area: number[] = [0];
-  for (let k = 1; k < n; k++) area.push(area[k - 1] + ((values[k] + values[k - 1]) / 2) * (t[k] - t[k - 1]));
-  let best = { value: 0, day: t[0] };
-  let j = 0;
-  for (let k = 1; k < n; k++) {
-    const a = t[k] - w;
-    if (a < t[0] - 1e-12) continue;
-    while (j + 1 < n && t[j + 1] <= a) j++;
-    const dt = j + 1 < n ? t[j + 1] - t[j] : 0;
-    const va = dt > 0 ? values[j] + ((values[j + 1] - values[j]) * (a - t[j])) / dt : values[j];
-    const avg = (area[k] - (area[j] + ((values[j] + va) / 2) * (a - t[j]))) / w;
-    if (avg > best.value) best = { value: avg, day: t[k] };
-  }
-  return best;
-}
-
-/** Time-weighted mean of `values` over `t` (the values linear between points). */
-function timeMean(t: readonly number[], values: readonly number[]): number {
-  const n = t.length;
-  if (n === 0) return 7;
-  const span = t[n - 1] - t[0];
-  if (!(span > 0)) return values[n - 1];
-  let area = 0;
-  for (let k = 1; k < n; k++) area += ((values[k] + values[k - 1]) / 2) * (t[k] - t[k - 1]);
-  return area / span;
 }
 
 /**
@@ -164,21 +128,22 @@ export function findWarnings(
       day: roundDay(acute.day),
     });
   }
-  const chronic = ammoniaCriteria(timeMean(trace.t, trace.ph), c.temperatureC).chronicTanMgNPerL;
-  const month = highestAverage(trace.t, trace.tan, 30);
-  const fourDays = highestAverage(trace.t, trace.tan, 4);
-  if (month.value > chronic || fourDays.value > 2.5 * chronic) {
-    const byMonth = month.value > chronic;
+  // Each window against the criterion at its own average pH (chronic-exposure.ts).
+  const month = worstChronicWindow(trace, c.temperatureC, 30);
+  const fourDays = worstChronicWindow(trace, c.temperatureC, 4, 2.5);
+  if (month.value > month.limit || fourDays.value > fourDays.limit) {
+    const byMonth = month.value > month.limit;
+    const crossed = byMonth ? month : fourDays;
     out.push({
       code: "ammoniaAboveChronicCriterion",
       severity: "caution",
       message: byMonth
-        ? `Total ammonia averages ${round6(month.value)} mg N/L over 30 days, above the chronic criterion of ${round6(chronic)} (US EPA 2013).${advice}`
-        : `Total ammonia averages ${round6(fourDays.value)} mg N/L over 4 days, above 2.5 times the chronic criterion of ${round6(chronic)} (US EPA 2013).${advice}`,
-      value: round6(byMonth ? month.value : fourDays.value),
+        ? `Total ammonia averages ${round6(month.value)} mg N/L over 30 days, above the chronic criterion of ${round6(month.limit)} at the pH of those days (US EPA 2013).${advice}`
+        : `Total ammonia averages ${round6(fourDays.value)} mg N/L over 4 days, above 2.5 times the chronic criterion (${round6(fourDays.limit)}) at the pH of those days (US EPA 2013).${advice}`,
+      value: round6(crossed.value),
       unit: "mg N/L",
-      limit: round6(byMonth ? chronic : 2.5 * chronic),
-      day: roundDay(byMonth ? month.day : fourDays.day),
+      limit: round6(crossed.limit),
+      day: roundDay(crossed.day),
     });
   }
   // Also when the tank starts below the line: the bacteria stall from day 0 and nothing buffers pH.

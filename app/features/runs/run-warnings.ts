@@ -119,7 +119,7 @@ export function resultWarnings(
           code: w.code,
           severity: w.severity,
           figure: "peakFreeNh3",
-          text: `Total ammonia stays high: it averages ${formatNumber(w.value * nh3)} ${labels.ammonia} up to ${w.day === null ? "the end" : day(w.day)}, ${howFarAbove(w.value / w.limit)} the long-term limit at the run's average pH and its temperature (${formatNumber(w.limit * nh3)} ${labels.ammonia}, US EPA 2013).`,
+          text: `Total ammonia stays high: it averages ${formatNumber(w.value * nh3)} ${labels.ammonia} up to ${w.day === null ? "the end" : day(w.day)}, ${howFarAbove(w.value / w.limit)} the long-term limit at the average pH and the temperature of those days (${formatNumber(w.limit * nh3)} ${labels.ammonia}, US EPA 2013).`,
         });
         break;
       case "khExhausted":
