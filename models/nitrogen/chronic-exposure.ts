@@ -32,7 +32,14 @@ export function worstChronicWindow(trace: Trace, temperatureC: number, days: num
   const w = Math.min(days, t[n - 1] - t[0]);
   const areaTan = cumulativeArea(t, tan);
   const areaPh = cumulativeArea(t, ph);
+  // The criterion falls as pH rises, so no window's line is below the one at the run's highest
+  // pH: a window whose TAN is not above the worst ratio times that line cannot be worse (this
+  // skips the criterion's powers for most windows of a long replay).
+  let highestPh = ph[0];
+  for (const v of ph) if (v > highestPh) highestPh = v;
+  const lowestLine = lineAt(highestPh);
   let worst: ChronicExposure | null = null;
+  let worstRatio = -1;
   let j = 0;
   for (let k = 1; k < n; k++) {
     const a = t[k] - w;
@@ -43,8 +50,13 @@ export function worstChronicWindow(trace: Trace, temperatureC: number, days: num
       const va = dt > 0 ? values[j] + ((values[j + 1] - values[j]) * (a - t[j])) / dt : values[j];
       return (area[k] - (area[j] + ((values[j] + va) / 2) * (a - t[j]))) / w;
     };
-    const window = { value: mean(tan, areaTan), limit: lineAt(mean(ph, areaPh)), day: t[k] };
-    if (!worst || window.value / window.limit > worst.value / worst.limit) worst = window;
+    const value = mean(tan, areaTan);
+    if (worst && value <= worstRatio * lowestLine) continue;
+    const window = { value, limit: lineAt(mean(ph, areaPh)), day: t[k] };
+    if (!worst || window.value / window.limit > worstRatio) {
+      worst = window;
+      worstRatio = window.value / window.limit;
+    }
   }
   return worst!;
 }
