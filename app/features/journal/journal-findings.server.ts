@@ -15,8 +15,8 @@ import { listJournal } from "~/features/journal/journal.server";
 import { toxicPeaksAboveCaution } from "~/features/runs/display-figures";
 import { RunRefused } from "~/features/runs/run-gate.server";
 import { resultWarnings } from "~/features/runs/run-warnings";
-import { readStoredSettings, settingsHash } from "~/features/runs/simulation.server";
-import { planScenario, tankModelSettings } from "~/features/tanks/maintenance-plan.server";
+import { settingsHash } from "~/features/runs/simulation.server";
+import { tankPlanModels } from "~/features/tanks/maintenance-plan.server";
 import type { TankRow } from "~/features/tanks/tanks.server";
 import type { JournalFlag } from "~/features/journal/journal-flag";
 import { runProblem } from "~/http/pages.server";
@@ -44,13 +44,6 @@ function dangersOf(f: Pick<Findings, "freeNh3AboveCaution" | "nitriteAboveCautio
   return Object.keys(DANGER_WORDS)
     .filter((code) => codes.has(code))
     .map((code) => `Journal replay: ${DANGER_WORDS[code]}`);
-}
-
-/** The tank's plan settings the journal is replayed on (as the journal page's default), or null without a scenario. */
-function planSettings(tank: TankRow): { scenarioId: number; settings: Scenario } | null {
-  const chosen = planScenario(tank.id);
-  const stored = chosen ? readStoredSettings(chosen.settings) : null;
-  return chosen && stored ? { scenarioId: chosen.id, settings: tankModelSettings(tank, stored) } : null;
 }
 
 /** Whether `found` is what a replay of `tank`'s journal on `settings` would find on `now`'s day. */
@@ -128,6 +121,8 @@ export async function journalFlags(
       .all()
       .map((f) => [f.tankId, f]),
   );
+  // The plan each journal is replayed on (as the journal page's default), for tanks with entries.
+  const plans = tankPlanModels(list.filter((t) => withEntries.has(t.id)));
   let replays = 0;
   // After one refusal the gate is full: the others say so at once rather than each wait for a slot.
   let refused = false;
@@ -137,7 +132,7 @@ export async function journalFlags(
       continue;
     }
     // A tank without a scenario has nothing to replay on (nor has its journal page): no flag.
-    const plan = planSettings(tank);
+    const plan = plans.get(tank.id);
     if (!plan) {
       out.set(tank.id, null);
       continue;

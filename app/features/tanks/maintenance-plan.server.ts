@@ -3,7 +3,7 @@
  * scenario's timetable), laid over a scenario so the upcoming list, the calendar feed and the
  * forecast follow the keeper's edits, and "mark done" turning a planned task into journal entries.
  */
-import { eq } from "drizzle-orm";
+import { eq, inArray } from "drizzle-orm";
 import type { Scenario } from "~models";
 import { getDb } from "~/db/client.server";
 import { maintenancePlans } from "~/db/schema-care";
@@ -13,7 +13,7 @@ import { upcomingTasks } from "~/features/journal/calendar-feed.server";
 import { doneByEndOf, type PlanStart } from "~/features/journal/plan-resume.server";
 import { readStoredSettings, withTankTargets } from "~/features/runs/simulation.server";
 import type { MaintenancePlan } from "~/features/tanks/maintenance-plan";
-import { listScenarios, type ScenarioRow } from "~/features/tanks/tanks.server";
+import { listScenarios, listScenariosOf, type ScenarioRow } from "~/features/tanks/tanks.server";
 import { toDateTimeInput } from "~/utils/dates";
 
 /** The groups whose trims are on a fixed schedule (the only trims a plan can time). */
@@ -84,9 +84,42 @@ export type TankPlan = {
  * page (by default) and the reminder mail all start from it, so they list the same tasks.
  */
 export function planScenario(tankId: number): ScenarioRow | null {
-  const row = storedPlan(tankId);
-  const list = listScenarios(tankId);
-  return list.find((x) => x.id === row?.scenarioId) ?? list[0] ?? null;
+  return pickPlanScenario(listScenarios(tankId), storedPlan(tankId));
+}
+
+function pickPlanScenario(list: readonly ScenarioRow[], plan: { scenarioId: number } | null): ScenarioRow | null {
+  return list.find((x) => x.id === plan?.scenarioId) ?? list[0] ?? null;
+}
+
+type TankForModel = { id: number; nitrateTargetLow: number; nitrateTargetHigh: number };
+
+/**
+ * `tankModelSettings` over `planScenario` for each of `list`'s tanks, in two queries however
+ * many tanks (the tank list asks for every tank with a journal); a tank without a scenario, or
+ * whose scenario no longer validates, is left out.
+ */
+export function tankPlanModels(list: readonly TankForModel[]): Map<number, { scenarioId: number; settings: Scenario }> {
+  const out = new Map<number, { scenarioId: number; settings: Scenario }>();
+  if (list.length === 0) return out;
+  const ids = list.map((t) => t.id);
+  const plans = new Map(
+    getDb()
+      .select()
+      .from(maintenancePlans)
+      .where(inArray(maintenancePlans.tankId, ids))
+      .all()
+      .map((p) => [p.tankId, p]),
+  );
+  const scenariosOf = listScenariosOf(ids);
+  for (const tank of list) {
+    const plan = plans.get(tank.id) ?? null;
+    const chosen = pickPlanScenario(scenariosOf.get(tank.id) ?? [], plan);
+    const stored = chosen ? readStoredSettings(chosen.settings) : null;
+    if (!chosen || !stored) continue;
+    const planned = plan ? applyPlan(stored, plan.plan as MaintenancePlan) : stored;
+    out.set(tank.id, { scenarioId: chosen.id, settings: withTankTargets(planned, tank) });
+  }
+  return out;
 }
 
 /**

@@ -2,7 +2,7 @@
  * Tanks and scenarios as their owner sees them. Every lookup is scoped to the owner: another
  * person's tank or scenario answers 404 (notFound), so its existence does not leak.
  */
-import { and, asc, eq, sql } from "drizzle-orm";
+import { and, asc, eq, inArray, sql } from "drizzle-orm";
 import { getDb, type Db } from "~/db/client.server";
 import { scenarios, tanks } from "~/db/schema";
 import { notFound } from "~/permissions.server";
@@ -76,4 +76,18 @@ export function requireOwnedScenarioById(userId: number, scenarioIdParam: string
 
 export function listScenarios(tankId: number): ScenarioRow[] {
   return getDb().select().from(scenarios).where(eq(scenarios.tankId, tankId)).orderBy(asc(scenarios.createdAt), asc(scenarios.id)).all();
+}
+
+/** The scenarios of each of `tankIds`' tanks, oldest first as `listScenarios` lists them, in one query. */
+export function listScenariosOf(tankIds: readonly number[]): Map<number, ScenarioRow[]> {
+  const out = new Map<number, ScenarioRow[]>();
+  if (tankIds.length === 0) return out;
+  const rows = getDb()
+    .select()
+    .from(scenarios)
+    .where(inArray(scenarios.tankId, [...tankIds]))
+    .orderBy(asc(scenarios.createdAt), asc(scenarios.id))
+    .all();
+  for (const row of rows) out.set(row.tankId, [...(out.get(row.tankId) ?? []), row]);
+  return out;
 }
