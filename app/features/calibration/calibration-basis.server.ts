@@ -6,7 +6,7 @@
  */
 import type { Scenario, TankEventInput } from "~models";
 import { replayInputs } from "~/features/journal/journal-replay.server";
-import { listJournal } from "~/features/journal/journal.server";
+import { journalOf } from "~/features/journal/journal.server";
 import { withTankTargets } from "~/features/runs/simulation.server";
 import type { Observed, ObserveRequest } from "~models/nitrogen/calibrate";
 import type { EngineTask, EngineTaskResult } from "~/features/jobs/engine-tasks.server";
@@ -54,13 +54,13 @@ export const observedOf = (r: EngineTaskResult): Observed | null => (r.kind === 
  * `now` (a restarted job passes the day it was asked for).
  */
 export function scenarioBases(
-  tank: { id: number; nitrateTargetLow: number; nitrateTargetHigh: number },
+  tank: { id: number; journalVersion: number; nitrateTargetLow: number; nitrateTargetHigh: number },
   settings: Scenario,
   startMs: number,
   now = Date.now(),
 ) {
   const withTargets = withTankTargets(settings, tank);
-  const replay = replayInputs(withTargets, listJournal(tank.id), now);
+  const replay = replayInputs(withTargets, journalOf(tank), now);
   const basisFor = (choice: string | null | undefined): FitBasis =>
     replay && (choice ?? "journal") === "journal" ? journalBasis(replay) : periodicBasis(withTargets, startMs);
   return { replay, basisFor };

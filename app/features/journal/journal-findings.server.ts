@@ -11,7 +11,7 @@ import type { Scenario } from "~models";
 import { getDb } from "~/db/client.server";
 import { journalEntries, journalFindings } from "~/db/schema-care";
 import { replayJournal, type Replay } from "~/features/journal/journal-replay.server";
-import { listJournal } from "~/features/journal/journal.server";
+import { journalOf } from "~/features/journal/journal.server";
 import { toxicPeaksAboveCaution } from "~/features/runs/display-figures";
 import { RunRefused } from "~/features/runs/run-gate.server";
 import { resultWarnings } from "~/features/runs/run-warnings";
@@ -87,7 +87,7 @@ export function saveJournalFindings(tank: TankRow, settings: Scenario, r: Replay
 
 /** Replays `tank`'s journal on its plan and keeps the findings; null without entries. */
 async function replayAndSave(tank: TankRow, plan: { settings: Scenario }, now: number): Promise<Findings | null> {
-  const replay = await replayJournal(plan.settings, listJournal(tank.id), now, tank.ownerId);
+  const replay = await replayJournal(plan.settings, journalOf(tank), now, tank.ownerId);
   if (!replay) return null;
   return saveJournalFindings(tank, plan.settings, replay, now);
 }

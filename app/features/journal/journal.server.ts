@@ -3,6 +3,7 @@
  * and deleting, always within the owner's tank (the caller has checked the tank is theirs).
  */
 import { and, asc, count, desc, eq, inArray, lt, max, sql } from "drizzle-orm";
+import { LRUCache } from "lru-cache";
 import { getDb, type Db } from "~/db/client.server";
 import { journalEntries } from "~/db/schema-care";
 import {
@@ -44,6 +45,28 @@ export function listJournal(tankId: number): JournalEntry[] {
     .orderBy(asc(journalEntries.doneAt), asc(journalEntries.id))
     .all()
     .map(fromRow);
+}
+
+/**
+ * Entries oldest first, kept per journal version: every write to a journal bumps its tank's
+ * journal_version (a trigger, drizzle/0014), so the key is never stale and each app process
+ * keeps its own. A full journal (20,000 entries) takes some 50 ms to read, and the journal,
+ * calibration and tank-list replays read it whole; at most 60,000 entries are kept.
+ */
+const keptJournals = new LRUCache<string, readonly JournalEntry[]>({
+  maxSize: 60_000,
+  sizeCalculation: (entries) => Math.max(1, entries.length),
+});
+
+/** `listJournal` for a tank row read in this request (its journal_version names the entries). */
+export function journalOf(tank: { id: number; journalVersion: number }): readonly JournalEntry[] {
+  const key = `${tank.id}:${tank.journalVersion}`;
+  let entries = keptJournals.get(key);
+  if (!entries) {
+    entries = Object.freeze(listJournal(tank.id));
+    keptJournals.set(key, entries);
+  }
+  return entries;
 }
 
 /** How many entries the tank's journal holds. */

@@ -22,7 +22,7 @@ import {
   countJournal,
   firstEntryAt,
   deleteEntry,
-  listJournal,
+  journalOf,
   newestJournalEntries,
   readEntry,
 } from "~/features/journal/journal.server";
@@ -71,7 +71,7 @@ async function journalModel(tank: TankRow, settings: Scenario, start: PlanStart,
   const key = `${tank.id}:${tank.journalVersion}:${settingsHash(settings)}:${start.from}:${start.ms}:${startOfDay(now)}`;
   const kept = keptModels.get(key);
   if (kept) return { ...kept, problem: null };
-  const entries = listJournal(tank.id);
+  const entries = journalOf(tank);
   const upcoming = upcomingTasks(settings, entries, start, now, 21);
   const replay = await replayJournal(settings, entries, now, tank.ownerId);
   if (replay && onPlan) saveJournalFindings(tank, settings, replay, now);
