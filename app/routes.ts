@@ -33,6 +33,7 @@ export default [
     route(":tankId/journal", "routes/journal/journal.tsx"),
     route(":tankId/plan", "routes/tanks/plan.tsx"),
     route(":tankId/journal/export", "routes/journal/export.ts"),
+    route(":tankId/journal/replay.csv", "routes/journal/replay-csv.ts"),
     route(":tankId/scenarios/:scenarioId/calibrate", "routes/calibrate/calibrate.tsx"),
     route(":tankId/scenarios/:scenarioId/sweep", "routes/sweeps/sweep.tsx"),
     route(":tankId/scenarios/:scenarioId/target", "routes/sweeps/target.tsx"),

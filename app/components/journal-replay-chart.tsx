@@ -13,6 +13,8 @@ type Replay = PackedRunChart & {
   /** How many samples and logged events the replay has (the page gets a thinned share of long ones). */
   samplesTotal: number;
   eventsTotal: number;
+  /** The whole replay as CSV, from the server. */
+  csvHref: string;
 };
 
 // The replay's events are the journal's (the scenario's meals are left out on the server), so a
@@ -28,6 +30,7 @@ export function JournalReplayChart({ replay, tankName }: { replay: Replay; tankN
   const series = useMemo(() => unpackSeries(replay.packedSeries), [replay.packedSeries]);
   const since = formatDate(replay.startMs);
   const { readings, readingsTotal } = replay;
+  const thinned = series.t.length < replay.samplesTotal || replay.events.length < replay.eventsTotal;
   return (
     <figure className="space-y-2">
       <TimeSeriesChart
@@ -40,6 +43,8 @@ export function JournalReplayChart({ replay, tankName }: { replay: Replay; tankN
         guides={replay.guides}
         readings={readings}
         downloadName={`${tankName}-as-it-happened`}
+        csvHref={replay.csvHref}
+        csvDownloadHref={thinned ? replay.csvHref : undefined}
       />
       <figcaption className="text-sm text-stone-600">
         Days count from {since}, the journal's first day.{" "}
@@ -54,6 +59,7 @@ export function JournalReplayChart({ replay, tankName }: { replay: Replay; tankN
         {replay.events.length < replay.eventsTotal
           ? `${replay.events.length.toLocaleString("en")} of the ${replay.eventsTotal.toLocaleString("en")} logged events are marked on the time axis, the first of each kind in each stretch. `
           : ""}
+        {thinned ? "The CSV download holds every sample and event. " : ""}
         This is a model, not a water test: test your water before acting on it.
       </figcaption>
     </figure>

@@ -11,7 +11,7 @@ import { journalEntries } from "~/db/schema-care";
 import { addEntries, deleteEntry, journalOf, updateEntry } from "~/features/journal/journal.server";
 import { createTank } from "../support/tanks";
 import { userWithCookie } from "../support/users";
-import { day } from "../support/journal";
+import { DAY } from "../support/journal";
 
 const tankRow = (id: number) => getDb().select().from(tanks).where(eq(tanks.id, id)).get()!;
 const shares = (id: number) => journalOf(tankRow(id)).map((e) => e.details.share);
@@ -21,13 +21,13 @@ describe("the kept journal follows every write", () => {
     const keeper = await userWithCookie();
     const id = createTank(keeper.id);
     expect(shares(id)).toEqual([]);
-    const [first] = addEntries(id, [{ kind: "water_change", doneAt: day(5), details: { share: 0.3 }, note: "" }]);
+    const [first] = addEntries(id, [{ kind: "water_change", doneAt: Date.now() - 5 * DAY, details: { share: 0.3 }, note: "" }]);
     expect(shares(id)).toEqual([0.3]);
     // Read twice at one version: the same kept list.
     expect(journalOf(tankRow(id))).toBe(journalOf(tankRow(id)));
-    updateEntry(id, first, { kind: "water_change", doneAt: day(5), details: { share: 0.4 }, note: "" });
+    updateEntry(id, first, { kind: "water_change", doneAt: Date.now() - 5 * DAY, details: { share: 0.4 }, note: "" });
     expect(shares(id)).toEqual([0.4]);
-    addEntries(id, [{ kind: "water_change", doneAt: day(2), details: { share: 0.2 }, note: "" }]);
+    addEntries(id, [{ kind: "water_change", doneAt: Date.now() - 2 * DAY, details: { share: 0.2 }, note: "" }]);
     expect(shares(id)).toEqual([0.4, 0.2]);
     // A write outside the app's functions (e.g. a migration or an admin's SQL) moves it too.
     getDb().update(journalEntries).set({ details: { share: 0.1 } }).where(eq(journalEntries.id, first)).run();

@@ -268,6 +268,7 @@ export const PERMISSION_MATRIX: Row[] = [
     expect: [404, 404, 404, 404, 404, 404],
   },
   { file: "routes/journal/export.ts", handler: "loader", path: `${TANK}/journal/export`, expect: PAGE_PRIVATE },
+  { file: "routes/journal/replay-csv.ts", handler: "loader", path: `${TANK}/journal/replay.csv`, expect: PAGE_PRIVATE },
   { file: "routes/tanks/plan.tsx", handler: "loader", path: `${TANK}/plan`, expect: PAGE_PRIVATE },
   { file: "routes/tanks/plan.tsx", handler: "action", path: `${TANK}/plan`, form: NOTHING, expect: ACTION_PRIVATE },
   {

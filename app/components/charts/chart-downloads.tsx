@@ -1,4 +1,4 @@
-/** Three buttons: the series as CSV, the chart as SVG, the chart as PNG (all made in the browser). */
+/** Three buttons: the series as CSV, the chart as SVG, the chart as PNG (made in the browser; the CSV from `csvHref` when given). */
 import { useState } from "react";
 import { downloadBlob, downloadCsv, standaloneSvg, svgToPng, type LegendItem } from "~/components/charts/downloads";
 
@@ -10,10 +10,12 @@ export type ChartDownloadsProps = {
   getSvg: () => SVGSVGElement | null;
   /** CSV text, built only when asked for. */
   getCsv: () => string;
+  /** Download the CSV from here instead (the server has samples the page was not sent). */
+  csvHref?: string;
   legend?: readonly LegendItem[];
 };
 
-export function ChartDownloads({ fileName, title, getSvg, getCsv, legend }: ChartDownloadsProps) {
+export function ChartDownloads({ fileName, title, getSvg, getCsv, csvHref, legend }: ChartDownloadsProps) {
   const [status, setStatus] = useState("");
   const [busy, setBusy] = useState(false);
 
@@ -36,17 +38,23 @@ export function ChartDownloads({ fileName, title, getSvg, getCsv, legend }: Char
   return (
     <div className="flex flex-wrap items-center gap-2 text-sm" role="group" aria-label="Download">
       <span className="text-stone-700">Download:</span>
-      <button
-        type="button"
-        className="btn-secondary"
-        onClick={() => {
-          downloadCsv(getCsv(), `${fileName}.csv`);
-          setStatus(`CSV file made: ${fileName}.csv`);
-        }}
-        aria-label="Download the series as a CSV file"
-      >
-        CSV
-      </button>
+      {csvHref ? (
+        <a className="btn-secondary" href={csvHref} download={`${fileName}.csv`} aria-label="Download every sample as a CSV file">
+          CSV
+        </a>
+      ) : (
+        <button
+          type="button"
+          className="btn-secondary"
+          onClick={() => {
+            downloadCsv(getCsv(), `${fileName}.csv`);
+            setStatus(`CSV file made: ${fileName}.csv`);
+          }}
+          aria-label="Download the series as a CSV file"
+        >
+          CSV
+        </button>
+      )}
       <button
         type="button"
         className="btn-secondary"

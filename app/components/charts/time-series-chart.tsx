@@ -86,6 +86,8 @@ export type TimeSeriesChartProps = {
   table?: boolean;
   /** The run's CSV, offered under the table when scripts are off. */
   csvHref?: string;
+  /** Where the CSV button downloads from, when the chart holds only a share of the samples (else it is made in the browser). */
+  csvDownloadHref?: string;
   /** File name stem for downloads, made file-safe (default from the title); false hides the buttons. */
   downloadName?: string | false;
 };
@@ -112,6 +114,7 @@ export const TimeSeriesChart = memo(function TimeSeriesChart({
   cursorDay,
   table = true,
   csvHref,
+  csvDownloadHref,
   downloadName,
 }: TimeSeriesChartProps) {
   const [visibleRaw, setVisible] = useControllable<Partial<Visibility>>(
@@ -272,6 +275,7 @@ export const TimeSeriesChart = memo(function TimeSeriesChart({
               title={title}
               getSvg={() => svgRef.current}
               getCsv={() => seriesCsv(series, units, events)}
+              csvHref={csvDownloadHref}
               legend={legend}
             />
           ) : null}

@@ -61,13 +61,25 @@ function replayDayWords(startMs: number, now: number) {
 }
 
 /** What the page shows of the replay `r` of tank `tankId`, run on `settings`, in `units`. */
-export function replayView(tankId: number, r: Replay, settings: Scenario, units: DisplayUnits, now: number) {
+export function replayView(
+  tankId: number,
+  r: Replay,
+  settings: Scenario,
+  units: DisplayUnits,
+  now: number,
+  scenarioId: number,
+) {
   // Readings are not journal entries (they do not bump the journal's version): read at every view.
   const readings = readingsForChart(tankId, r.startMs, r.lengthDays, units);
+  const chart = replayChart(r, settings, units);
   return {
     startMs: r.startMs,
     lengthDays: r.lengthDays,
-    ...replayChart(r, settings, units),
+    ...chart,
+    // Every sample as CSV from the server (routes/journal/replay-csv.ts): for the table's link
+    // without scripts, and the download of a thinned replay, whose CSV made in the browser
+    // would hold only the share the page got.
+    csvHref: `/tanks/${tankId}/journal/replay.csv?scenario=${scenarioId}`,
     // At most MAX_CHART_READINGS of them, an even sample (readings.server.ts); the page says how many.
     readings: readings.points,
     readingsTotal: readings.total,

@@ -27,9 +27,10 @@ import {
   readEntry,
 } from "~/features/journal/journal.server";
 import { QuotaExceeded } from "~/quotas.server";
+import { journalScenario } from "~/features/journal/journal-scenario.server";
 import { replayView } from "~/features/journal/replay-view.server";
-import { readStoredSettings, settingsHash } from "~/features/runs/simulation.server";
-import { planScenario, planStart, tankModelSettings } from "~/features/tanks/maintenance-plan.server";
+import { settingsHash } from "~/features/runs/simulation.server";
+import { planStart } from "~/features/tanks/maintenance-plan.server";
 import type { PlanStart } from "~/features/journal/plan-resume.server";
 import { listScenarios, type TankRow } from "~/features/tanks/tanks.server";
 import { readUpload, UploadError } from "~/http/uploads.server";
@@ -95,10 +96,8 @@ export async function journalPageData(
   now = Date.now(),
   pageParam: string | null = null,
 ) {
-  const scenarios = listScenarios(tank.id);
   // By default the scenario the tank's plan is over, as the tank page and the reminders use.
-  const plan = planScenario(tank.id);
-  const chosen = scenarios.find((s) => String(s.id) === scenarioParam) ?? plan;
+  const { scenarios, plan, chosen, settings } = journalScenario(tank, scenarioParam);
   let replay: ReturnType<typeof replayView> | null = null;
   let forecast: string | null = null;
   let cautionsAhead: string[] = [];
@@ -106,8 +105,6 @@ export async function journalPageData(
   let upcoming: { title: string; when: string; overdue: boolean }[] = [];
   // The tank's maintenance plan (if edited) replaces the scenario's timetable for the forecast and
   // the list; the tank's nitrate band is the forecast's target.
-  const stored = chosen ? readStoredSettings(chosen.settings) : null;
-  const settings = stored ? tankModelSettings(tank, stored) : null;
   // Where a task kind never logged counts from, the same for the forecast and the list.
   const start = chosen ? planStart(tank.id, chosen, firstEntryAt(tank.id)) : null;
   if (settings && start) {
@@ -117,7 +114,7 @@ export async function journalPageData(
       upcoming = model.upcoming.map((t) => ({ title: t.title, when: dayText(t.atMs), overdue: t.overdue }));
       const r = model.replay;
       if (r) {
-        replay = replayView(tank.id, r, settings, units, now);
+        replay = replayView(tank.id, r, settings, units, now, chosen!.id);
         forecast = forecastSentence(model.forecast, units);
         cautionsAhead = forecastCautions(model.forecast, units);
       }
