@@ -20,7 +20,8 @@ const SERVER_MODULE = {
 };
 const COMPONENTS = {
   regex: "^~/components/",
-  message: "Server code imports nothing from components/: shared helpers and data shapes live in app/utils or a feature's client-safe module.",
+  message:
+    "Server code imports nothing from components/: shared helpers and data shapes live in app/utils or a feature's client-safe module.",
 };
 const APP = {
   regex: "^(~/|~models|(\\.\\./)+app/)",
@@ -35,13 +36,27 @@ const NODE = { regex: "^node:", message: "The engine does no I/O (only the comma
 const restrict = (...patterns) => ({ "no-restricted-imports": ["error", { patterns }] });
 
 export default tseslint.config(
-  { ignores: ["build/", "build-*/", ".react-router/", "node_modules/", "test-results/", "data/", "drizzle/", "coverage/"] },
+  {
+    ignores: [
+      "build/",
+      "build-*/",
+      ".react-router/",
+      "node_modules/",
+      "test-results/",
+      "data/",
+      "drizzle/",
+      "coverage/",
+    ],
+  },
   js.configs.recommended,
   ...tseslint.configs.recommended,
   {
     languageOptions: { globals: { ...globals.node, ...globals.browser } },
     rules: {
-      "@typescript-eslint/no-unused-vars": ["error", { argsIgnorePattern: "^_", varsIgnorePattern: "^_", destructuredArrayIgnorePattern: "^_" }],
+      "@typescript-eslint/no-unused-vars": [
+        "error",
+        { argsIgnorePattern: "^_", varsIgnorePattern: "^_", destructuredArrayIgnorePattern: "^_" },
+      ],
       "@typescript-eslint/no-explicit-any": "off",
       "no-console": "off",
     },

@@ -16,7 +16,11 @@ function engineWorkerFileName(): Plugin {
       if (name !== "ssr" || !output || Array.isArray(output)) return;
       const main = output.entryFileNames;
       output.entryFileNames = (chunk) =>
-        chunk.name === "engine-worker" ? "engine-worker.js" : typeof main === "function" ? main(chunk) : (main ?? "[name].js");
+        chunk.name === "engine-worker"
+          ? "engine-worker.js"
+          : typeof main === "function"
+            ? main(chunk)
+            : (main ?? "[name].js");
     },
   };
 }
@@ -29,7 +33,9 @@ export default defineConfig({
   // The engine worker (server/engine-worker.ts) is a second entry, built next to it as
   // engine-worker.js so the worker pool (app/features/jobs/jobs.server.ts) finds it beside the bundle.
   environments: {
-    ssr: { build: { rollupOptions: { input: { index: "./server/app.ts", "engine-worker": "./server/engine-worker.ts" } } } },
+    ssr: {
+      build: { rollupOptions: { input: { index: "./server/app.ts", "engine-worker": "./server/engine-worker.ts" } } },
+    },
   },
   resolve: { tsconfigPaths: true },
   // Native addons stay out of the SSR bundle: better-sqlite3 (and its drizzle driver) and resvg.

@@ -49,7 +49,11 @@ const signInClient = new AsyncLocalStorage<string>();
 export const SIGN_IN_ATTEMPTS_PER_MINUTE = LIMITS.signInPerEmail.points;
 
 function tooMany(seconds: number, values: Record<string, string>): SignInError {
-  return new SignInError({ "": `Too many failed sign-in attempts. Wait ${seconds} second${seconds === 1 ? "" : "s"} and try again.` }, values, 429);
+  return new SignInError(
+    { "": `Too many failed sign-in attempts. Wait ${seconds} second${seconds === 1 ? "" : "s"} and try again.` },
+    values,
+    429,
+  );
 }
 
 authenticator.use(
@@ -67,7 +71,11 @@ authenticator.use(
     // Refuse at once when a limit is already reached, before waiting for a password slot.
     const already = Math.max(...(await Promise.all(keys.map(([name, key]) => waitFor(name, key)))));
     if (already > 0) throw tooMany(already, values);
-    const user = getDb().select({ id: users.id, passwordHash: users.passwordHash }).from(users).where(eq(users.email, email)).get();
+    const user = getDb()
+      .select({ id: users.id, passwordHash: users.passwordHash })
+      .from(users)
+      .where(eq(users.email, email))
+      .get();
     let ok: boolean;
     try {
       ok = await withPasswordSlot(async () => {

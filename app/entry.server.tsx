@@ -89,7 +89,9 @@ export default function handleRequest(
 function cacheKeyFor(request: Request, status: number, routerContext: EntryContext): string | null {
   const { matches, loaderData, actionData, errors } = routerContext.staticHandlerContext;
   const page = matches.at(-1);
-  const handle = page ? (routerContext.routeModules[page.route.id]?.handle as { renderCache?: boolean } | undefined) : undefined;
+  const handle = page
+    ? (routerContext.routeModules[page.route.id]?.handle as { renderCache?: boolean } | undefined)
+    : undefined;
   if (handle?.renderCache !== true || actionData || errors) return null;
   return renderKey(request.url, status, loaderData);
 }

@@ -24,7 +24,10 @@ const EnvSchema = z
     /** Redis for the job queue (BullMQ): sweeps, calibrations and target searches then run on `npm run worker` processes. */
     /** Seconds between reminder checks in each app process (1–59; e2e tests use a short one). */
     REMINDER_CHECK_SECONDS: z.coerce.number().int().min(1).max(59).default(30),
-    REDIS_URL: z.string().regex(/^rediss?:\/\//, "REDIS_URL must start with redis:// or rediss://").optional(),
+    REDIS_URL: z
+      .string()
+      .regex(/^rediss?:\/\//, "REDIS_URL must start with redis:// or rediss://")
+      .optional(),
   })
   .transform((raw) => {
     const mode = raw.FERNWATER_MODE ?? (raw.NODE_ENV === "production" ? "production" : "local");
@@ -76,7 +79,9 @@ export function getEnv(): Env & { sessionSecret: string } {
   let sessionSecret = env.SESSION_SECRET ?? "";
   if (!sessionSecret) {
     if (env.NODE_ENV !== "test") {
-      console.warn("[fernwater] SESSION_SECRET is not set: using the local development secret. Never do this in production.");
+      console.warn(
+        "[fernwater] SESSION_SECRET is not set: using the local development secret. Never do this in production.",
+      );
     }
     sessionSecret = DEV_SESSION_SECRET;
   }

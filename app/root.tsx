@@ -56,7 +56,10 @@ function Shell({ children }: { children: React.ReactNode }) {
   const user = data?.user ?? null;
   return (
     <div className="flex min-h-screen flex-col">
-      <a href="#main" className="sr-only focus:not-sr-only focus:absolute focus:left-2 focus:top-2 focus:bg-white focus:p-2">
+      <a
+        href="#main"
+        className="sr-only focus:not-sr-only focus:absolute focus:left-2 focus:top-2 focus:bg-white focus:p-2"
+      >
         Skip to content
       </a>
       <header className="border-b border-stone-200 bg-white">
@@ -133,10 +136,14 @@ export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
   let status: number | undefined;
   if (isRouteErrorResponse(error)) {
     status = error.status;
-    const message = typeof error.data === "object" && error.data && "message" in error.data ? String(error.data.message) : undefined;
+    const message =
+      typeof error.data === "object" && error.data && "message" in error.data ? String(error.data.message) : undefined;
     if (error.status === 404) {
       title = "Page not found";
-      detail = message && message !== "Not found" ? message : "There is nothing at this address. It may have been moved, turned off or never existed.";
+      detail =
+        message && message !== "Not found"
+          ? message
+          : "There is nothing at this address. It may have been moved, turned off or never existed.";
     } else if (error.status === 403) {
       title = "Not allowed";
       detail = message ?? "Your account cannot open this page.";

@@ -13,7 +13,11 @@ const UNSAFE_METHODS = new Set(["POST", "PUT", "PATCH", "DELETE"]);
  *
  * @param allowedOrigins the server's own origin(s), e.g. "https://fernwater.example"
  */
-export function crossSiteRefusal(method: string, headers: { origin?: string; secFetchSite?: string }, allowedOrigins: readonly string[]): string | null {
+export function crossSiteRefusal(
+  method: string,
+  headers: { origin?: string; secFetchSite?: string },
+  allowedOrigins: readonly string[],
+): string | null {
   if (!UNSAFE_METHODS.has(method.toUpperCase())) return null;
   const origin = headers.origin;
   if (origin !== undefined && origin !== "") {
@@ -52,7 +56,10 @@ export function contentSecurityPolicy(nonce: string): string {
 /** 127.0.0.0/8 and ::1, also written as IPv4-mapped IPv6 (::ffff:127.0.0.1). */
 export function isLoopbackAddress(address: string | null | undefined): boolean {
   if (!address) return false;
-  const a = address.trim().toLowerCase().replace(/^\[|\]$/g, "");
+  const a = address
+    .trim()
+    .toLowerCase()
+    .replace(/^\[|\]$/g, "");
   if (a === "::1" || a === "0:0:0:0:0:0:0:1") return true;
   const v4 = a.startsWith("::ffff:") ? a.slice(7) : a;
   return /^127\.\d{1,3}\.\d{1,3}\.\d{1,3}$/.test(v4);

@@ -112,7 +112,10 @@ export async function createUserSession(request: Request, userId: number, redire
   const oldSid = await readSid(request);
   const sid = randomToken(32);
   db.transaction((tx) => {
-    if (oldSid) tx.delete(sessions).where(eq(sessions.idHash, hashToken(oldSid))).run();
+    if (oldSid)
+      tx.delete(sessions)
+        .where(eq(sessions.idHash, hashToken(oldSid)))
+        .run();
     tx.delete(sessions).where(lt(sessions.expiresAt, new Date())).run();
     tx.insert(sessions)
       .values({
@@ -132,7 +135,11 @@ export async function createUserSession(request: Request, userId: number, redire
 /** Deletes this request's session row and clears the cookie. */
 export async function destroyUserSession(request: Request, redirectTo = "/"): Promise<Response> {
   const sid = await readSid(request);
-  if (sid) getDb().delete(sessions).where(eq(sessions.idHash, hashToken(sid))).run();
+  if (sid)
+    getDb()
+      .delete(sessions)
+      .where(eq(sessions.idHash, hashToken(sid)))
+      .run();
   const session = await getStorage().getSession(request.headers.get("Cookie"));
   return redirect(redirectTo, {
     headers: { "Set-Cookie": await getStorage().destroySession(session) },

@@ -31,7 +31,12 @@ async function makeKeeper(base: string, databaseFile: string, n: number): Promis
   passwordHash ??= await bcrypt.hash(PASSWORD, 11);
   const db = new Database(databaseFile);
   try {
-    db.prepare("insert into users (email, name, password_hash, email_verified_at) values (?, ?, ?, ?)").run(email, `Load keeper ${n}`, passwordHash, Date.now());
+    db.prepare("insert into users (email, name, password_hash, email_verified_at) values (?, ?, ?, ?)").run(
+      email,
+      `Load keeper ${n}`,
+      passwordHash,
+      Date.now(),
+    );
   } finally {
     db.close();
   }
@@ -114,13 +119,24 @@ async function runWith(processes: number) {
       requests: cycle(keepers[0], server.baseURL),
       // Each connection is one keeper's browser tab: its own cookie and its own tank.
       setupClient: (client) => {
-        (client as unknown as { setRequests: (r: unknown[]) => void }).setRequests(cycle(keepers[next++ % KEEPERS], server.baseURL));
+        (client as unknown as { setRequests: (r: unknown[]) => void }).setRequests(
+          cycle(keepers[next++ % KEEPERS], server.baseURL),
+        );
       },
     });
     const ok = result.errors === 0 && result.non2xx === 0 && result.p95 <= TARGET_P95;
     lines.push(`  mix  ${describe(result)}  target p95 ≤ ${TARGET_P95} ms, no errors ${ok ? "ok" : "MISSED"}`);
-    const slow = server.log().split("\n").filter((l) => l.includes("slow request"));
-    if (slow.length) lines.push(`  requests over 1 s: ${slow.length}, e.g. ${slow.slice(0, 3).map((l) => l.replace("[fernwater] slow request: ", "")).join("; ")}`);
+    const slow = server
+      .log()
+      .split("\n")
+      .filter((l) => l.includes("slow request"));
+    if (slow.length)
+      lines.push(
+        `  requests over 1 s: ${slow.length}, e.g. ${slow
+          .slice(0, 3)
+          .map((l) => l.replace("[fernwater] slow request: ", ""))
+          .join("; ")}`,
+      );
   } finally {
     await server.stop();
   }

@@ -18,13 +18,18 @@ const median = (xs: number[]) => [...xs].sort((a, b) => a - b)[xs.length >> 1];
 async function sweepOnce(baseURL: string, cookie: string, scenarioId: number): Promise<number> {
   const headers = { Cookie: cookie, Origin: baseURL, "Content-Type": "application/json" };
   const t0 = performance.now();
-  const res = await fetch(`${baseURL}/api/scenarios/${scenarioId}/sweeps`, { method: "POST", headers, body: JSON.stringify(SWEEP) });
+  const res = await fetch(`${baseURL}/api/scenarios/${scenarioId}/sweeps`, {
+    method: "POST",
+    headers,
+    body: JSON.stringify(SWEEP),
+  });
   const { job } = (await res.json()) as { job: Job };
   if (res.status !== 202) throw new Error(`sweep start answered ${res.status}`);
   for (;;) {
     const now = ((await (await fetch(`${baseURL}/api/jobs/${job.id}`, { headers })).json()) as { job: Job }).job;
     if (now.status === "done") return performance.now() - t0;
-    if (now.status !== "running" && now.status !== "waiting") throw new Error(`sweep ended ${now.status}: ${now.error}`);
+    if (now.status !== "running" && now.status !== "waiting")
+      throw new Error(`sweep ended ${now.status}: ${now.error}`);
     await new Promise((r) => setTimeout(r, 50));
   }
 }
@@ -32,7 +37,9 @@ async function sweepOnce(baseURL: string, cookie: string, scenarioId: number): P
 async function firstScenario(baseURL: string, cookie: string): Promise<number> {
   const headers = { Cookie: cookie };
   const tanks = (await (await fetch(`${baseURL}/api/tanks`, { headers })).json()) as { tanks: { id: number }[] };
-  const list = (await (await fetch(`${baseURL}/api/tanks/${tanks.tanks[0].id}/scenarios`, { headers })).json()) as { scenarios: { id: number }[] };
+  const list = (await (await fetch(`${baseURL}/api/tanks/${tanks.tanks[0].id}/scenarios`, { headers })).json()) as {
+    scenarios: { id: number }[];
+  };
   return list.scenarios[0].id;
 }
 
@@ -53,7 +60,11 @@ function startWorkers(redisUrl: string, processes: number): Promise<ChildProcess
 export async function run() {
   const dir = fs.mkdtempSync(path.join(os.tmpdir(), "fernwater-redis-"));
   const port = await freePort();
-  const redis = spawn("redis-server", ["--port", String(port), "--bind", "127.0.0.1", "--save", "", "--appendonly", "no", "--dir", dir], { stdio: "ignore" });
+  const redis = spawn(
+    "redis-server",
+    ["--port", String(port), "--bind", "127.0.0.1", "--save", "", "--appendonly", "no", "--dir", dir],
+    { stdio: "ignore" },
+  );
   await new Promise((r) => setTimeout(r, 300));
   const redisUrl = `redis://127.0.0.1:${port}`;
   const server = await startBuiltServer({ env: { SEED_IF_EMPTY: "1", REDIS_URL: redisUrl } });

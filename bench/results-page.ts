@@ -72,7 +72,9 @@ export async function run() {
   try {
     const cookie = await signInOverHttp(server.baseURL, "jonah@tidewell.example", "tidewell-demo-2026");
     const headers = { Cookie: cookie, Origin: server.baseURL };
-    const tanks = (await (await fetch(`${server.baseURL}/api/tanks`, { headers })).json()) as { tanks: { id: number }[] };
+    const tanks = (await (await fetch(`${server.baseURL}/api/tanks`, { headers })).json()) as {
+      tanks: { id: number }[];
+    };
     const tankId = tanks.tanks[0].id;
 
     const saved = await fetch(`${server.baseURL}/tanks/${tankId}/scenarios/new`, {
@@ -88,7 +90,9 @@ export async function run() {
     await load({ url: `${server.baseURL}${resultsPath}.data`, headers, connections: 4, duration: 2 });
     const data = await load({ url: `${server.baseURL}${resultsPath}.data`, headers, connections: 20, duration: 10 });
     const doc = await load({ url: `${server.baseURL}${resultsPath}`, headers, connections: 20, duration: 10 });
-    lines.push(`  results loader (.data), 20 connections  ${describe(data)}  target p95 ≤ ${TARGETS.loaderP95} ms ${data.p95 <= TARGETS.loaderP95 && !data.errors && !data.non2xx ? "ok" : "MISSED"}`);
+    lines.push(
+      `  results loader (.data), 20 connections  ${describe(data)}  target p95 ≤ ${TARGETS.loaderP95} ms ${data.p95 <= TARGETS.loaderP95 && !data.errors && !data.non2xx ? "ok" : "MISSED"}`,
+    );
     lines.push(`  results document (HTML), 20 connections  ${describe(doc)}`);
 
     // The run action: each request validates, runs one model year and stores scenario + run.
@@ -101,7 +105,8 @@ export async function run() {
         connections,
         duration: 8,
         expectStatus: [302],
-        setupClient: (client: { setBody: (b: string) => void }) => client.setBody(oneYearForm(`Bench run ${++n}`).toString()),
+        setupClient: (client: { setBody: (b: string) => void }) =>
+          client.setBody(oneYearForm(`Bench run ${++n}`).toString()),
       });
       lines.push(
         `  run action (save + one model year), ${connections} connection${connections > 1 ? "s" : ""}  ${describe(action)}  target p95 ≤ ${TARGETS.actionP95} ms ${action.p95 <= TARGETS.actionP95 && !action.errors && !action.non2xx ? "ok" : "MISSED"}`,

@@ -26,7 +26,8 @@ function bucketOf(frame: Node["callFrame"]): string {
   const { url, functionName } = frame;
   if (functionName === "(idle)") return "idle";
   if (/react-dom/.test(url)) return "React render";
-  if (/turbo-stream|single-fetch/.test(url) || /^(flatten|encode|stringify|serialize)/i.test(functionName)) return "loader data serialisation";
+  if (/turbo-stream|single-fetch/.test(url) || /^(flatten|encode|stringify|serialize)/i.test(functionName))
+    return "loader data serialisation";
   if (/zlib|compression/.test(url) || /^(zlib|Zlib|deflate|gzip)/i.test(functionName)) return "gzip";
   if (functionName === "(garbage collector)") return "garbage collection";
   if (functionName === "(program)") return "V8/native (program)";
@@ -70,19 +71,33 @@ export async function run() {
   try {
     const cookie = await signInOverHttp(server.baseURL, "jonah@tidewell.example", "tidewell-demo-2026");
     const headers = { Cookie: cookie, Origin: server.baseURL };
-    const tanks = (await (await fetch(`${server.baseURL}/api/tanks`, { headers })).json()) as { tanks: { id: number }[] };
-    const scenarios = (await (await fetch(`${server.baseURL}/api/tanks/${tanks.tanks[0].id}/scenarios`, { headers })).json()) as {
+    const tanks = (await (await fetch(`${server.baseURL}/api/tanks`, { headers })).json()) as {
+      tanks: { id: number }[];
+    };
+    const scenarios = (await (
+      await fetch(`${server.baseURL}/api/tanks/${tanks.tanks[0].id}/scenarios`, { headers })
+    ).json()) as {
       scenarios: { id: number }[];
     };
     const resultsPath = `/tanks/${tanks.tanks[0].id}/scenarios/${scenarios.scenarios[0].id}`;
-    await load({ url: `${server.baseURL}${resultsPath}`, headers: { ...headers, "Accept-Encoding": "gzip" }, connections: 4, duration: 2 });
+    await load({
+      url: `${server.baseURL}${resultsPath}`,
+      headers: { ...headers, "Accept-Encoding": "gzip" },
+      connections: 4,
+      duration: 2,
+    });
     // Repeat views (the same page for the same data: reloads, a share link's many visitors)
     // may reuse a kept rendering (app/http/render-cache.server.ts); first views are rendered
     // afresh — each request asks for another URL (?view=N), which the page ignores but the
     // cache keys on.
     const pid = server.child.pid!;
     let cpuBefore = cpuMs(pid);
-    const repeat = await load({ url: `${server.baseURL}${resultsPath}`, headers: { ...headers, "Accept-Encoding": "gzip" }, connections: 20, duration: 8 });
+    const repeat = await load({
+      url: `${server.baseURL}${resultsPath}`,
+      headers: { ...headers, "Accept-Encoding": "gzip" },
+      connections: 20,
+      duration: 8,
+    });
     lines.push(`  repeat views (HTML, gzip)  ${describe(repeat)}`);
     lines.push(`  server CPU per page, repeat views: ${((cpuMs(pid) - cpuBefore) / repeat.requests).toFixed(2)} ms`);
     let view = 0;
@@ -96,7 +111,6 @@ export async function run() {
     });
     lines.push(`  first views (HTML, gzip)   ${describe(first)}`);
     lines.push(`  server CPU per page, first views: ${((cpuMs(pid) - cpuBefore) / first.requests).toFixed(2)} ms`);
-
   } finally {
     await server.stop();
   }
@@ -110,7 +124,8 @@ export async function run() {
     lines.push(`    ${bucket.padEnd(28)} ${((100 * ms) / busy).toFixed(1).padStart(5)} %`);
   }
   if (process.env.BENCH_VERBOSE) {
-    for (const [name, ms] of topFunctions(profile, 25)) lines.push(`      ${((100 * ms) / busy).toFixed(1).padStart(5)} %  ${name}`);
+    for (const [name, ms] of topFunctions(profile, 25))
+      lines.push(`      ${((100 * ms) / busy).toFixed(1).padStart(5)} %  ${name}`);
   }
   fs.rmSync(profileDir, { recursive: true, force: true });
   process.stdout.write(lines.join("\n") + "\n");

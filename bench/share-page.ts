@@ -30,7 +30,13 @@ export async function run() {
     await load({ url, connections: 4, duration: 2 });
     const html = await load({ url, connections: 20, duration: 10 });
     const data = await load({ url: `${url}.data`, connections: 20, duration: 10 });
-    const revalidate = await load({ url, headers: { "If-None-Match": etag }, connections: 20, duration: 10, expectStatus: [304] });
+    const revalidate = await load({
+      url,
+      headers: { "If-None-Match": etag },
+      connections: 20,
+      duration: 10,
+      expectStatus: [304],
+    });
     const clean = (r: typeof html) => !r.errors && !r.non2xx;
     const speedup = revalidate.rps / html.rps;
     lines.push(`  page size ${(bytes / 1024).toFixed(0)} kB HTML (uncompressed)`);

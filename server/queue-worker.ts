@@ -15,7 +15,9 @@ if (!redisUrl) {
 }
 const count = Number(process.env.WORKER_PROCESSES ?? os.availableParallelism());
 if (!Number.isInteger(count) || count < 1) {
-  console.error(`[fernwater] WORKER_PROCESSES must be a whole number of at least 1 (got "${process.env.WORKER_PROCESSES}")`);
+  console.error(
+    `[fernwater] WORKER_PROCESSES must be a whole number of at least 1 (got "${process.env.WORKER_PROCESSES}")`,
+  );
   process.exit(1);
 }
 

@@ -26,7 +26,10 @@ server.use((req, res, next) => {
   const started = process.hrtime.bigint();
   res.on("finish", () => {
     const ms = Number(process.hrtime.bigint() - started) / 1e6;
-    if (ms >= slowMs) console.warn(`[fernwater] slow request: ${req.method} ${req.originalUrl.split("?")[0]} ${res.statusCode} ${ms.toFixed(0)} ms`);
+    if (ms >= slowMs)
+      console.warn(
+        `[fernwater] slow request: ${req.method} ${req.originalUrl.split("?")[0]} ${res.statusCode} ${ms.toFixed(0)} ms`,
+      );
   });
   next();
 });
@@ -64,10 +67,15 @@ async function loadApp() {
   } else {
     loaded = await import(pathToFileURL(path.join(buildDir, "server/index.js")).href);
     // Fingerprinted assets never change; everything else in public/ may.
-    server.use("/assets", express.static(path.join(buildDir, "client/assets"), { immutable: true, maxAge: "1y", index: false }));
+    server.use(
+      "/assets",
+      express.static(path.join(buildDir, "client/assets"), { immutable: true, maxAge: "1y", index: false }),
+    );
     // Other public files (favicon…) only for paths that look like files, so page requests skip the disk.
     const publicFiles = express.static(path.join(buildDir, "client"), { maxAge: "1h", index: false });
-    server.use((req, res, next) => (/\.[a-z0-9]{2,5}$/i.test(req.path) && !req.path.endsWith(".data") ? publicFiles(req, res, next) : next()));
+    server.use((req, res, next) =>
+      /\.[a-z0-9]{2,5}$/i.test(req.path) && !req.path.endsWith(".data") ? publicFiles(req, res, next) : next(),
+    );
     server.use(loaded.app);
   }
   return { appModule: loaded, stopBoot: await loaded.boot() };
@@ -77,7 +85,8 @@ const listener = server.listen(port, host, () => {
   const address = listener.address();
   const actualPort = typeof address === "object" && address ? address.port : port;
   if (hostNote) console.log(hostNote);
-  const shown = host === "0.0.0.0" || host === "::" || host === "127.0.0.1" ? "localhost" : host.includes(":") ? `[${host}]` : host;
+  const shown =
+    host === "0.0.0.0" || host === "::" || host === "127.0.0.1" ? "localhost" : host.includes(":") ? `[${host}]` : host;
   console.log(`[fernwater] listening on http://${shown}:${actualPort} (address ${host})`);
 });
 

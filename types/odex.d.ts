@@ -5,13 +5,7 @@ export interface Derivative {
 }
 
 export interface OutputFunction {
-  (
-    nr: number,
-    xold: number,
-    x: number,
-    y: number[],
-    dense?: (c: number, x: number) => number,
-  ): boolean | void;
+  (nr: number, xold: number, x: number, y: number[], dense?: (c: number, x: number) => number): boolean | void;
 }
 
 export enum Outcome {

@@ -22,9 +22,7 @@ export function useJob(initial: JobJson | null): JobJson | null {
   const fetcher = useFetcher<{ job: JobJson }>();
   const polled = fetcher.data?.job;
   const job =
-    polled && initial && polled.id === initial.id && (jobActive(initial) || !jobActive(polled))
-      ? polled
-      : initial;
+    polled && initial && polled.id === initial.id && (jobActive(initial) || !jobActive(polled)) ? polled : initial;
   const { load, state } = fetcher;
   const running = jobActive(job);
   const id = job?.id;

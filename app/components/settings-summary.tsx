@@ -15,7 +15,9 @@ function Fields({ fields }: { fields: FormField[] }) {
           <dt className="text-sm text-stone-700">{f.label}</dt>
           <dd className="text-right text-sm">
             <span className={f.kind === "number" || f.kind === "integer" ? "figure" : ""}>{fieldText(f)}</span>
-            {f.unit && f.kind !== "boolean" && f.kind !== "enum" ? <span className="ml-1 text-xs text-stone-600">{f.unit}</span> : null}
+            {f.unit && f.kind !== "boolean" && f.kind !== "enum" ? (
+              <span className="ml-1 text-xs text-stone-600">{f.unit}</span>
+            ) : null}
           </dd>
         </div>
       ))}
@@ -27,7 +29,13 @@ function Fields({ fields }: { fields: FormField[] }) {
  * The settings of a scenario, read-only, in the viewer's units (the setup form's model drawn as
  * definition lists). `open` names the sections shown unfolded.
  */
-export function SettingsSummary({ model, open = ["water", "fish", "plants"] }: { model: ScenarioFormModel; open?: string[] }) {
+export function SettingsSummary({
+  model,
+  open = ["water", "fish", "plants"],
+}: {
+  model: ScenarioFormModel;
+  open?: string[];
+}) {
   return (
     <section aria-labelledby="settings-title" className="space-y-2">
       <h2 id="settings-title" className="text-lg">
@@ -44,7 +52,9 @@ export function SettingsSummary({ model, open = ["water", "fish", "plants"] }: {
                 <div className="space-y-3">
                   {model.plants.map((p) => (
                     <div key={p.id}>
-                      <h3 className="text-sm font-semibold">{p.fields.find((f) => f.name.endsWith(".name"))?.value || `Plant group ${p.index + 1}`}</h3>
+                      <h3 className="text-sm font-semibold">
+                        {p.fields.find((f) => f.name.endsWith(".name"))?.value || `Plant group ${p.index + 1}`}
+                      </h3>
                       <Fields fields={p.fields} />
                     </div>
                   ))}

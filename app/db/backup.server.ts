@@ -15,7 +15,15 @@ export function tableCounts(db: Database.Database): TableCounts {
     .prepare("select name from sqlite_master where type = 'table' and name not like 'sqlite_%' order by name")
     .pluck()
     .all() as string[];
-  return Object.fromEntries(names.map((n) => [n, db.prepare(`select count(*) from "${n.replace(/"/g, '""')}"`).pluck().get() as number]));
+  return Object.fromEntries(
+    names.map((n) => [
+      n,
+      db
+        .prepare(`select count(*) from "${n.replace(/"/g, '""')}"`)
+        .pluck()
+        .get() as number,
+    ]),
+  );
 }
 
 export function integrityCheck(db: Database.Database): string {

@@ -57,7 +57,9 @@ export function migrateDb(db: Db, folder = path.resolve("drizzle")): void {
 }
 
 function appliedMigrations(sqlite: Database.Database): number {
-  const table = sqlite.prepare("select 1 from sqlite_master where type = 'table' and name = '__drizzle_migrations'").get();
+  const table = sqlite
+    .prepare("select 1 from sqlite_master where type = 'table' and name = '__drizzle_migrations'")
+    .get();
   return table ? (sqlite.prepare("select count(*) as n from __drizzle_migrations").get() as { n: number }).n : 0;
 }
 

@@ -5,7 +5,9 @@ import { getEnv } from "~/env.server";
 
 const file = process.argv.slice(2).find((a) => !a.startsWith("--"));
 if (!file || !process.argv.includes("--yes")) {
-  console.error("Usage: npm run db:restore -- <backup file> --yes   (stop the server first; the current file is kept beside it)");
+  console.error(
+    "Usage: npm run db:restore -- <backup file> --yes   (stop the server first; the current file is kept beside it)",
+  );
   process.exit(2);
 }
 const target = databasePath(getEnv().DATABASE_URL);

@@ -91,7 +91,9 @@ export const maintenancePlans = sqliteTable("maintenance_plans", {
     .references(() => scenarios.id, { onDelete: "cascade" }),
   plan: text("plan", { mode: "json" }).notNull(),
   /** When the tank's plan was first saved (kept by later saves): a task kind never logged counts from it. */
-  createdAt: integer("created_at", { mode: "timestamp_ms" }).notNull().default(sql`0`),
+  createdAt: integer("created_at", { mode: "timestamp_ms" })
+    .notNull()
+    .default(sql`0`),
   updatedAt: integer("updated_at", { mode: "timestamp_ms" }).notNull(),
 });
 

@@ -362,4 +362,3 @@ export const jobs = sqliteTable(
   },
   (t) => [index("jobs_user_status_idx").on(t.userId, t.status), index("jobs_status_idx").on(t.status, t.startedAt)],
 );
-

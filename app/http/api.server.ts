@@ -10,7 +10,10 @@ export type ApiIssue = { path: string; message: string };
 
 /** `{ status, error, issues? }` with the HTTP status; issues carry field paths. */
 export function apiError(status: number, error: string, issues?: ApiIssue[]): Response {
-  return Response.json({ status, error, ...(issues ? { issues } : {}) }, { status, headers: { "Cache-Control": "no-store" } });
+  return Response.json(
+    { status, error, ...(issues ? { issues } : {}) },
+    { status, headers: { "Cache-Control": "no-store" } },
+  );
 }
 
 export function zodIssues(error: z.ZodError): ApiIssue[] {
@@ -20,7 +23,8 @@ export function zodIssues(error: z.ZodError): ApiIssue[] {
 /** Reads a JSON body of at most `maxBytes`; a bad or oversized body is a 400/413, not a 500. */
 export async function readJson(request: Request, maxBytes = 256 * 1024): Promise<unknown> {
   const type = request.headers.get("Content-Type") ?? "";
-  if (!type.includes("application/json")) throw apiError(415, "Send the body as JSON (Content-Type: application/json).");
+  if (!type.includes("application/json"))
+    throw apiError(415, "Send the body as JSON (Content-Type: application/json).");
   const declared = Number(request.headers.get("Content-Length") ?? "0");
   if (declared > maxBytes) throw apiError(413, `The body is larger than ${Math.round(maxBytes / 1024)} kB.`);
   const text = await readBodyText(request, maxBytes);
@@ -73,7 +77,9 @@ async function readBodyText(request: Request, maxBytes: number): Promise<string>
 type ThrownData = { type: "DataWithResponseInit"; data: unknown; init: { status?: number } | null };
 
 function isThrownData(thrown: unknown): thrown is ThrownData {
-  return typeof thrown === "object" && thrown !== null && (thrown as { type?: unknown }).type === "DataWithResponseInit";
+  return (
+    typeof thrown === "object" && thrown !== null && (thrown as { type?: unknown }).type === "DataWithResponseInit"
+  );
 }
 
 /**

@@ -7,7 +7,11 @@ import type { FieldErrors, FormFailure } from "~/utils/form-errors";
  * 400 with field errors and the input echoed back (passwords stripped), for a form to redraw;
  * 429 past a rate limit, 413 past a storage quota, 503 when the server cannot take it now.
  */
-export function invalid(errors: FieldErrors, values: Record<string, string> = {}, status: 400 | 409 | 413 | 429 | 503 = 400) {
+export function invalid(
+  errors: FieldErrors,
+  values: Record<string, string> = {},
+  status: 400 | 409 | 413 | 429 | 503 = 400,
+) {
   const safe = Object.fromEntries(Object.entries(values).filter(([k]) => !/password/i.test(k)));
   return data<FormFailure>({ errors, values: safe }, { status });
 }
@@ -29,7 +33,8 @@ export async function readForm(request: Request): Promise<FormData> {
 export function formRefusal(error: unknown): { message: string; status: 400 | 413 | 429 | 503 } | null {
   const refused = refusalOf(error);
   if (!refused) return null;
-  if (refused.kind === "model") return { message: `The model could not run these settings: ${refused.message}`, status: 400 };
+  if (refused.kind === "model")
+    return { message: `The model could not run these settings: ${refused.message}`, status: 400 };
   return { message: refused.message, status: refused.status as 413 | 429 | 503 };
 }
 

@@ -23,6 +23,7 @@ export function refusalOf(error: unknown): Refusal | null {
   if (error instanceof RunRefused) return { kind: "limit", status: 429, message: error.message };
   if (error instanceof ListingRefused) return { kind: "limit", status: 429, message: error.message };
   if (error instanceof QuotaExceeded) return { kind: "quota", status: 413, message: error.message };
-  if (error instanceof JobRefused) return { kind: error.status === 429 ? "limit" : "busy", status: error.status, message: error.message };
+  if (error instanceof JobRefused)
+    return { kind: error.status === 429 ? "limit" : "busy", status: error.status, message: error.message };
   return null;
 }

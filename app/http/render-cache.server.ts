@@ -22,7 +22,11 @@ export const NONCE_STAND_IN = `fw${randomBytes(12).toString("hex")}`;
 // and keeping those would cost more than it saves.
 const pages = new LRUCache<string, Buffer[]>({
   maxSize: 32 * 1024 * 1024,
-  sizeCalculation: (pieces) => Math.max(1, pieces.reduce((sum, piece) => sum + piece.length, 0)),
+  sizeCalculation: (pieces) =>
+    Math.max(
+      1,
+      pieces.reduce((sum, piece) => sum + piece.length, 0),
+    ),
   ttl: 60_000,
 });
 const seenOnce = new LRUCache<string, true>({ max: 10_000, ttl: 60_000 });
@@ -37,7 +41,8 @@ export function renderKey(url: string, status: number, inputs: unknown): string 
   let json: string;
   try {
     json = JSON.stringify({ url, status, inputs }, (_key, value: unknown) => {
-      if (value instanceof Map || value instanceof Set || value instanceof Promise || typeof value === "function") plain = false;
+      if (value instanceof Map || value instanceof Set || value instanceof Promise || typeof value === "function")
+        plain = false;
       return value;
     });
   } catch {

@@ -27,11 +27,18 @@ export async function readUpload(request: Request, maxFileBytes: number, fileFie
     throw new UploadError("Send the form as a file upload (multipart/form-data).");
   }
   let file: Upload["file"] = null;
-  const limitText = maxFileBytes >= 1024 * 1024 ? `${maxFileBytes / (1024 * 1024)} MB` : `${Math.round(maxFileBytes / 1024)} kB`;
+  const limitText =
+    maxFileBytes >= 1024 * 1024 ? `${maxFileBytes / (1024 * 1024)} MB` : `${Math.round(maxFileBytes / 1024)} kB`;
   try {
     const form = await parseFormData(
       request,
-      { maxFileSize: maxFileBytes, maxFiles: 1, maxParts: 50, maxTotalSize: maxFileBytes + 64 * 1024, maxHeaderSize: 8 * 1024 },
+      {
+        maxFileSize: maxFileBytes,
+        maxFiles: 1,
+        maxParts: 50,
+        maxTotalSize: maxFileBytes + 64 * 1024,
+        maxHeaderSize: 8 * 1024,
+      },
       async (upload: FileUpload) => {
         if (upload.fieldName !== fileField) return null;
         const bytes = new Uint8Array(await upload.arrayBuffer());

@@ -38,7 +38,9 @@ export async function startFakeSmtp(options: { port?: number; host?: string; cap
             html,
             links: extractLinks(text + "\n" + html),
             // Header lines as sent (e.g. List-Unsubscribe), keyed in lower case.
-            headers: Object.fromEntries(parsed.headerLines.map((h) => [h.key, h.line.slice(h.line.indexOf(":") + 1).trim()])),
+            headers: Object.fromEntries(
+              parsed.headerLines.map((h) => [h.key, h.line.slice(h.line.indexOf(":") + 1).trim()]),
+            ),
           };
           const file = path.join(options.captureDir, `${mail.id}.json`);
           // Write then rename, so a reader never sees half a message.

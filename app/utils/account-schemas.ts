@@ -57,7 +57,10 @@ export const SignUpSchema = z
 
 export const SignInSchema = z.object({
   email: EmailSchema,
-  password: z.string({ error: "Enter your password." }).min(1, "Enter your password.").max(200, "That password is too long."),
+  password: z
+    .string({ error: "Enter your password." })
+    .min(1, "Enter your password.")
+    .max(200, "That password is too long."),
 });
 
 export const ForgotPasswordSchema = z.object({ email: EmailSchema });
@@ -75,7 +78,10 @@ export const ResetPasswordSchema = z
 
 export const ChangePasswordSchema = z
   .object({
-    currentPassword: z.string({ error: "Enter your current password." }).min(1, "Enter your current password.").max(200),
+    currentPassword: z
+      .string({ error: "Enter your current password." })
+      .min(1, "Enter your current password.")
+      .max(200),
     password: NewPasswordSchema,
     confirmPassword: z.string({ error: "Type the password again." }),
   })

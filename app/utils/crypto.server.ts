@@ -9,4 +9,3 @@ export function randomToken(bytes = 32): string {
 export function hashToken(token: string): string {
   return createHash("sha256").update(token).digest("hex");
 }
-

@@ -1,5 +1,16 @@
 import { describe, expect, it } from "vitest";
-import { DEMO, expectNoConsoleErrors, newPage, shot, signIn, signOut, signUp, uniqueEmail, useBrowser, waitForMail } from "./support/browser";
+import {
+  DEMO,
+  expectNoConsoleErrors,
+  newPage,
+  shot,
+  signIn,
+  signOut,
+  signUp,
+  uniqueEmail,
+  useBrowser,
+  waitForMail,
+} from "./support/browser";
 
 useBrowser();
 

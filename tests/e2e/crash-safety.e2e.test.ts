@@ -15,7 +15,9 @@ function csvBatch(batch: number): string {
   const start = Date.UTC(2025, 0, 1) + batch * ROWS_PER_IMPORT * 3_600_000;
   const lines = ["datetime,nitrate_no3_mg_l,note"];
   for (let i = 0; i < ROWS_PER_IMPORT; i++) {
-    lines.push(`${new Date(start + i * 3_600_000).toISOString().slice(0, 16)},${(5 + (i % 20)).toFixed(1)},crash batch ${batch}`);
+    lines.push(
+      `${new Date(start + i * 3_600_000).toISOString().slice(0, 16)},${(5 + (i % 20)).toFixed(1)},crash batch ${batch}`,
+    );
   }
   return lines.join("\n") + "\n";
 }
@@ -27,7 +29,9 @@ describe("a crash in the middle of writes", () => {
     let server: BuiltServer = await startBuiltServer({ databaseFile });
     const cookie = await signInOverHttp(server.baseURL, DEMO.ines, DEMO.password);
     const headers = { Cookie: cookie, Origin: server.baseURL };
-    const tanks = (await (await fetch(`${server.baseURL}/api/tanks`, { headers })).json()) as { tanks: { id: number }[] };
+    const tanks = (await (await fetch(`${server.baseURL}/api/tanks`, { headers })).json()) as {
+      tanks: { id: number }[];
+    };
     const tankId = tanks.tanks[0].id;
 
     const savedScenarios: string[] = [];
@@ -57,7 +61,11 @@ describe("a crash in the middle of writes", () => {
         const form = new FormData();
         form.set("file", new File([csvBatch(batch)], `batch-${batch}.csv`, { type: "text/csv" }));
         try {
-          const res = await fetch(`${server.baseURL}/tanks/${tankId}/readings/upload`, { method: "POST", headers, body: form });
+          const res = await fetch(`${server.baseURL}/tanks/${tankId}/readings/upload`, {
+            method: "POST",
+            headers,
+            body: form,
+          });
           if (res.status === 200) savedImports.push(batch);
         } catch {
           return;
@@ -78,14 +86,20 @@ describe("a crash in the middle of writes", () => {
     const names = new Set(db.prepare("select name from scenarios").pluck().all() as string[]);
     for (const name of savedScenarios) expect(names.has(name), `acknowledged "${name}" is missing`).toBe(true);
     const perBatch = new Map(
-      (db.prepare("select note, count(*) as n from readings where note like 'crash batch %' group by note").all() as { note: string; n: number }[]).map(
-        (r) => [r.note, r.n],
-      ),
+      (
+        db.prepare("select note, count(*) as n from readings where note like 'crash batch %' group by note").all() as {
+          note: string;
+          n: number;
+        }[]
+      ).map((r) => [r.note, r.n]),
     );
     for (const [, n] of perBatch) expect(n, "an import was stored in part").toBe(ROWS_PER_IMPORT);
     for (const batch of savedImports) expect(perBatch.get(`crash batch ${batch}`)).toBe(ROWS_PER_IMPORT);
     // Every scenario has its run: scenario and run are written in one transaction.
-    const orphans = db.prepare("select count(*) from scenarios s where not exists (select 1 from runs r where r.scenario_id = s.id)").pluck().get();
+    const orphans = db
+      .prepare("select count(*) from scenarios s where not exists (select 1 from runs r where r.scenario_id = s.id)")
+      .pluck()
+      .get();
     expect(orphans).toBe(0);
     db.close();
 

@@ -97,8 +97,14 @@ describe("the danger beyond the results page", () => {
       });
     });
     // Dated with the day it was: the dose's day, twenty days ago.
-    const doseDay = new Date(Date.parse(twentyDaysAgo)).toLocaleDateString("en-GB", { day: "numeric", month: "long", timeZone: "UTC" });
-    await expect.poll(() => box.textContent()).toMatch(new RegExp(`Free ammonia reaches [\\d.]+ mg/L NH3 on ${doseDay}`));
+    const doseDay = new Date(Date.parse(twentyDaysAgo)).toLocaleDateString("en-GB", {
+      day: "numeric",
+      month: "long",
+      timeZone: "UTC",
+    });
+    await expect
+      .poll(() => box.textContent())
+      .toMatch(new RegExp(`Free ammonia reaches [\\d.]+ mg/L NH3 on ${doseDay}`));
     await shot(page, "journal-replay-warnings");
     expectNoConsoleErrors(page);
   });

@@ -41,7 +41,9 @@ describe("HTTP protections of the built server", () => {
     });
     expect(fetchMetadata.status).toBe(403);
     expect((await fetchMetadata.json()).error).toMatch(/another site/);
-    const tanks = (await (await fetch(`${baseURL()}/api/tanks`, { headers: { Cookie: cookie } })).json()) as { tanks: { name: string }[] };
+    const tanks = (await (await fetch(`${baseURL()}/api/tanks`, { headers: { Cookie: cookie } })).json()) as {
+      tanks: { name: string }[];
+    };
     expect(tanks.tanks.map((t) => t.name)).not.toContain("Made from afar");
 
     const ownSite = await fetch(`${baseURL()}/tanks`, {
@@ -97,7 +99,7 @@ describe("bodies the server refuses before reading", () => {
     const badMultipart = await fetch(`${baseURL()}/tanks/1/readings/upload`, {
       method: "POST",
       headers: { Cookie: cookie, "Content-Type": "multipart/form-data; boundary=nope" },
-      body: "--wrong\r\nContent-Disposition: form-data; name=\"file\"\r\n\r\nhalf",
+      body: '--wrong\r\nContent-Disposition: form-data; name="file"\r\n\r\nhalf',
     });
     expect(badMultipart.status).toBeLessThan(500);
     expect((await fetch(`${baseURL()}/api/health`)).status).toBe(200);

@@ -18,7 +18,11 @@ afterAll(() => server?.stop());
 type Answer = { status: number; instance: string; body: string };
 
 /** One request on a connection of its own (no keep-alive), so either process may answer. */
-function request(method: string, path: string, options: { cookie?: string; body?: string; form?: boolean } = {}): Promise<Answer> {
+function request(
+  method: string,
+  path: string,
+  options: { cookie?: string; body?: string; form?: boolean } = {},
+): Promise<Answer> {
   const url = new URL(path, server.baseURL);
   return new Promise((resolve, reject) => {
     const req = http.request(
@@ -30,7 +34,10 @@ function request(method: string, path: string, options: { cookie?: string; body?
           Origin: server.baseURL,
           ...(options.cookie ? { Cookie: options.cookie } : {}),
           ...(options.body
-            ? { "Content-Type": options.form ? "application/x-www-form-urlencoded" : "application/json", "Content-Length": Buffer.byteLength(options.body) }
+            ? {
+                "Content-Type": options.form ? "application/x-www-form-urlencoded" : "application/json",
+                "Content-Length": Buffer.byteLength(options.body),
+              }
             : {}),
         },
       },
@@ -38,7 +45,9 @@ function request(method: string, path: string, options: { cookie?: string; body?
         let body = "";
         res.setEncoding("utf8");
         res.on("data", (d) => (body += d));
-        res.on("end", () => resolve({ status: res.statusCode!, instance: String(res.headers["x-fernwater-instance"]), body }));
+        res.on("end", () =>
+          resolve({ status: res.statusCode!, instance: String(res.headers["x-fernwater-instance"]), body }),
+        );
       },
     );
     req.on("error", reject);
@@ -48,7 +57,8 @@ function request(method: string, path: string, options: { cookie?: string; body?
 
 async function firstScenarioId(cookie: string): Promise<number> {
   const tanks = JSON.parse((await request("GET", "/api/tanks", { cookie })).body).tanks as { id: number }[];
-  const scenarios = JSON.parse((await request("GET", `/api/tanks/${tanks[0].id}/scenarios`, { cookie })).body).scenarios as { id: number }[];
+  const scenarios = JSON.parse((await request("GET", `/api/tanks/${tanks[0].id}/scenarios`, { cookie })).body)
+    .scenarios as { id: number }[];
   return scenarios[0].id;
 }
 
@@ -75,7 +85,9 @@ describe("two app processes on one port", () => {
     const id = JSON.parse(started.body).job.id as string;
 
     // A second start, through whichever process, is refused while the first runs.
-    const again = await Promise.all([1, 2, 3, 4].map(() => request("POST", `/api/scenarios/${scenarioId}/sweeps`, { cookie, body: SWEEP })));
+    const again = await Promise.all(
+      [1, 2, 3, 4].map(() => request("POST", `/api/scenarios/${scenarioId}/sweeps`, { cookie, body: SWEEP })),
+    );
     expect(again.map((a) => a.status)).toEqual([429, 429, 429, 429]);
 
     const polledBy = new Set<string>();
@@ -109,7 +121,12 @@ describe("two app processes on one port", () => {
     process.kill(Number(started.instance.split(":").pop()), "SIGKILL");
 
     // Lost after 15 s of silence, taken up within a heartbeat (2 s) by a live process, run again.
-    let job: { status: string; error: string | null; note: string | null; done: number } = { status: "running", error: null, note: null, done: 0 };
+    let job: { status: string; error: string | null; note: string | null; done: number } = {
+      status: "running",
+      error: null,
+      note: null,
+      done: 0,
+    };
     const notes = new Set<string | null>();
     const deadline = Date.now() + 50_000;
     while (Date.now() < deadline && (job.status === "running" || job.status === "waiting")) {
@@ -131,7 +148,9 @@ describe("two app processes on one port", () => {
 
   it("saves from three people at once on both processes without a database error", async () => {
     const people = await Promise.all(
-      ["jonah@tidewell.example", "ines@tidewell.example", "teacher@tidewell.example"].map((email) => signInOverHttp(server.baseURL, email, PASSWORD)),
+      ["jonah@tidewell.example", "ines@tidewell.example", "teacher@tidewell.example"].map((email) =>
+        signInOverHttp(server.baseURL, email, PASSWORD),
+      ),
     );
     const targets = await Promise.all(
       people.map(async (cookie) => {
@@ -162,7 +181,9 @@ describe("two app processes on one port", () => {
 
   it("counts a burst of wrong sign-ins against one limit across both processes", async () => {
     const body = new URLSearchParams({ email: "teacher@tidewell.example", password: "not-the-password" }).toString();
-    const answers = await Promise.all(Array.from({ length: 30 }, () => request("POST", "/sign-in", { body, form: true })));
+    const answers = await Promise.all(
+      Array.from({ length: 30 }, () => request("POST", "/sign-in", { body, form: true })),
+    );
     expect(new Set(answers.map((a) => a.instance)).size).toBe(2);
     // rate-limiter-flexible's SQLite store, one row per key: 5 a minute in all, not 5 per process.
     expect(answers.filter((a) => a.status !== 429).length).toBeLessThanOrEqual(5);

@@ -16,7 +16,10 @@ describe("admin: users and roles", () => {
     expect((await call(adminLoader, get("/admin", keeper.cookie))).status).toBe(403);
     expect((await call(adminLoader, get("/admin", educator.cookie))).status).toBe(403);
     // The action is guarded on its own, not only by the page.
-    const forged = await call(adminAction, post("/admin", { intent: "role", userId: keeper.id, role: "admin" }, keeper.cookie));
+    const forged = await call(
+      adminAction,
+      post("/admin", { intent: "role", userId: keeper.id, role: "admin" }, keeper.cookie),
+    );
     expect(forged.status).toBe(403);
     expect(roleOf(keeper.id)).toBe("keeper");
   });
@@ -27,17 +30,26 @@ describe("admin: users and roles", () => {
     expect((await call(adminLoader, get("/admin", keeper.cookie))).status).toBe(403);
     const list = await call(adminLoader, get("/admin", admin.cookie));
     expect(list.data.users.map((u: { id: number }) => u.id)).toContain(keeper.id);
-    const changed = await call(adminAction, post("/admin", { intent: "role", userId: keeper.id, role: "admin" }, admin.cookie));
+    const changed = await call(
+      adminAction,
+      post("/admin", { intent: "role", userId: keeper.id, role: "admin" }, admin.cookie),
+    );
     expect(changed.status).toBe(200);
     expect((await call(adminLoader, get("/admin", keeper.cookie))).status).toBe(200);
   });
 
   it("refuses bad input with a message, and an admin demoting themself", async () => {
     const admin = await userWithCookie("admin");
-    const bad = await call(adminAction, post("/admin", { intent: "role", userId: "abc", role: "wizard" }, admin.cookie));
+    const bad = await call(
+      adminAction,
+      post("/admin", { intent: "role", userId: "abc", role: "wizard" }, admin.cookie),
+    );
     expect(bad.status).toBe(400);
     expect(bad.data.errors.role).toMatch(/keeper, educator or admin/);
-    const self = await call(adminAction, post("/admin", { intent: "role", userId: admin.id, role: "keeper" }, admin.cookie));
+    const self = await call(
+      adminAction,
+      post("/admin", { intent: "role", userId: admin.id, role: "keeper" }, admin.cookie),
+    );
     expect(self.status).toBe(400);
     expect(roleOf(admin.id)).toBe("admin");
   });
@@ -47,7 +59,12 @@ describe("health, 404 and the local mail page", () => {
   it("reports the database and version", async () => {
     const result = await call(healthLoader, get("/api/health"));
     expect(result.status).toBe(200);
-    expect(result.data).toEqual({ status: "ok", version: "test", instance: `${os.hostname()}:${process.pid}`, checks: { database: "ok" } });
+    expect(result.data).toEqual({
+      status: "ok",
+      version: "test",
+      instance: `${os.hostname()}:${process.pid}`,
+      checks: { database: "ok" },
+    });
   });
 
   it("answers unknown addresses with 404", async () => {

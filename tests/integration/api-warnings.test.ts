@@ -21,7 +21,9 @@ describe("warnings through the API", () => {
     const keeper = await userWithCookie();
     const tankId = createTank(keeper.id);
     const scenarioId = String(await createScenario(keeper.id, tankId, NEW_FILTER_PH_8, "pH 8.2"));
-    const stored = await call(scenarioRunLoader, get(`/api/scenarios/${scenarioId}/run`, keeper.cookie), { scenarioId });
+    const stored = await call(scenarioRunLoader, get(`/api/scenarios/${scenarioId}/run`, keeper.cookie), {
+      scenarioId,
+    });
     expect(stored.status).toBe(200);
     const run = stored.data.run;
     // US EPA 2013 (docs/sources.md §2): acute criterion at pH 8.2 and 28 °C
@@ -41,7 +43,11 @@ describe("warnings through the API", () => {
     expect(Number(first.split(",")[columns.indexOf("oxygen_mg_o2_per_l")])).toBeCloseTo(7.8, 1);
     // The chart's two TAN caution lines, at each row's own pH and the run's 28 °C: US EPA 2013
     // chronic and acute criteria (docs/sources.md §2), as the results chart and its CSV draw them.
-    const rows = String(csv.data).trim().split(/\r?\n/).slice(1).map((line) => line.split(",").map(Number));
+    const rows = String(csv.data)
+      .trim()
+      .split(/\r?\n/)
+      .slice(1)
+      .map((line) => line.split(",").map(Number));
     const at = (row: number[], name: string) => row[columns.indexOf(name)];
     expect(columns).toContain("tan_long_term_limit_mg_n_per_l");
     for (const row of [rows[0], rows[Math.floor(rows.length / 2)], rows.at(-1)!]) {
@@ -64,7 +70,9 @@ describe("warnings through the API", () => {
     );
     // The caution line for free ammonia: 0.02 mg/L NH3 (common practice, no source)
     const freeNh3 = display.data.warnings.find((w: { code: string }) => w.code === "freeAmmoniaAboveCaution");
-    expect(freeNh3?.text).toMatch(/^Free ammonia reaches [\d.]+ mg\/L NH3 on day [\d.]+, .* the caution line \(0\.02 mg\/L NH3\)\.$/);
+    expect(freeNh3?.text).toMatch(
+      /^Free ammonia reaches [\d.]+ mg\/L NH3 on day [\d.]+, .* the caution line \(0\.02 mg\/L NH3\)\.$/,
+    );
     expect(freeNh3?.figure).toBe("peakFreeNh3");
   });
 });

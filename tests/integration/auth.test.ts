@@ -62,27 +62,48 @@ describe("sign-up", () => {
     expect(row.passwordHash).toMatch(/^\$2[aby]\$11\$/);
     expect(await signIn("ada@example.org", "moss ball lantern", "198.51.100.60")).toMatch(/^__fernwater=/);
     // The link works once.
-    const token = new URL(mailTo("ada@example.org")[0].links.find((l) => l.includes("/sign-up/confirm?token="))!).searchParams.get("token")!;
+    const token = new URL(
+      mailTo("ada@example.org")[0].links.find((l) => l.includes("/sign-up/confirm?token="))!,
+    ).searchParams.get("token")!;
     expect((await call(confirmAction, post("/sign-up/confirm", { token }))).status).toBe(400);
     expect((await call(confirmLoader, get(`/sign-up/confirm?token=${token}`))).data.token).toBeNull();
   });
 
   it("answers a taken e-mail exactly as a free one, and mails its owner instead of making anything", async () => {
     const before = getDb().select().from(users).all().length;
-    const taken = await call(signUpAction, post("/sign-up", { ...goodSignUp, email: "ADA@example.org", name: "Someone Else" }, undefined, { "X-Test": "taken" }));
-    const free = await call(signUpAction, post("/sign-up", { ...goodSignUp, email: "brand-new@example.org", name: "Someone Else" }));
+    const taken = await call(
+      signUpAction,
+      post("/sign-up", { ...goodSignUp, email: "ADA@example.org", name: "Someone Else" }, undefined, {
+        "X-Test": "taken",
+      }),
+    );
+    const free = await call(
+      signUpAction,
+      post("/sign-up", { ...goodSignUp, email: "brand-new@example.org", name: "Someone Else" }),
+    );
     // OWASP Authentication Cheat Sheet: account enumeration through registration.
     expect(taken.status).toBe(free.status);
     expect({ ...taken.data, email: "" }).toEqual({ ...free.data, email: "" });
     expect(getDb().select().from(users).all().length).toBe(before);
-    const note = await waitForMail("ada@example.org").then(() => mailTo("ada@example.org").find((m) => /already have/.test(m.subject)));
-    await expect.poll(() => mailTo("ada@example.org").some((m) => /You already have a Fernwater account/.test(m.subject))).toBe(true);
+    const note = await waitForMail("ada@example.org").then(() =>
+      mailTo("ada@example.org").find((m) => /already have/.test(m.subject)),
+    );
+    await expect
+      .poll(() => mailTo("ada@example.org").some((m) => /You already have a Fernwater account/.test(m.subject)))
+      .toBe(true);
     expect(note === undefined || /sign-in/.test(note.text)).toBe(true);
-    expect(mailTo("ada@example.org").some((m) => m.links.some((l) => l.includes("/sign-up/confirm")) && /Someone Else/.test(m.text))).toBe(false);
+    expect(
+      mailTo("ada@example.org").some(
+        (m) => m.links.some((l) => l.includes("/sign-up/confirm")) && /Someone Else/.test(m.text),
+      ),
+    ).toBe(false);
   });
 
   it("goes back to where sign-up started once the account is confirmed", async () => {
-    await call(signUpAction, post("/sign-up", { ...goodSignUp, email: "returning@example.org", redirectTo: "/s/some-share-token" }));
+    await call(
+      signUpAction,
+      post("/sign-up", { ...goodSignUp, email: "returning@example.org", redirectTo: "/s/some-share-token" }),
+    );
     const confirmed = await confirmByMail("returning@example.org");
     expect(confirmed.location).toBe("/s/some-share-token");
   });
@@ -129,8 +150,18 @@ describe("sign-in and sign-out", () => {
 
   it("gives one message for an unknown e-mail and a wrong password", async () => {
     const user = await createUser();
-    const wrong = await call(signInAction, post("/sign-in", { email: user.email, password: "not the password" }), {}, "198.51.100.1");
-    const unknown = await call(signInAction, post("/sign-in", { email: "nobody@example.org", password: "whatever it is" }), {}, "198.51.100.2");
+    const wrong = await call(
+      signInAction,
+      post("/sign-in", { email: user.email, password: "not the password" }),
+      {},
+      "198.51.100.1",
+    );
+    const unknown = await call(
+      signInAction,
+      post("/sign-in", { email: "nobody@example.org", password: "whatever it is" }),
+      {},
+      "198.51.100.2",
+    );
     expect(wrong.status).toBe(400);
     expect(unknown.status).toBe(400);
     expect(wrong.data.errors.password).toBe(unknown.data.errors.password);
@@ -138,18 +169,31 @@ describe("sign-in and sign-out", () => {
 
   it("only redirects back to paths on this site", async () => {
     const user = await createUser();
-    const result = await call(signInAction, post("/sign-in", { email: user.email, password: TEST_PASSWORD, redirectTo: "//evil.example/x" }));
+    const result = await call(
+      signInAction,
+      post("/sign-in", { email: user.email, password: TEST_PASSWORD, redirectTo: "//evil.example/x" }),
+    );
     expect(result.location).toBe("/tanks");
   });
 
   it(`limits failed attempts to ${SIGN_IN_ATTEMPTS_PER_MINUTE} a minute per e-mail, with a clear message`, async () => {
     const user = await createUser();
     for (let i = 0; i < SIGN_IN_ATTEMPTS_PER_MINUTE; i++) {
-      const r = await call(signInAction, post("/sign-in", { email: user.email, password: "wrong wrong wrong" }), {}, `192.0.2.${i + 10}`);
+      const r = await call(
+        signInAction,
+        post("/sign-in", { email: user.email, password: "wrong wrong wrong" }),
+        {},
+        `192.0.2.${i + 10}`,
+      );
       expect(r.status).toBe(400);
     }
     // Even the right password is refused while the limit holds.
-    const blocked = await call(signInAction, post("/sign-in", { email: user.email, password: TEST_PASSWORD }), {}, "192.0.2.99");
+    const blocked = await call(
+      signInAction,
+      post("/sign-in", { email: user.email, password: TEST_PASSWORD }),
+      {},
+      "192.0.2.99",
+    );
     expect(blocked.status).toBe(429);
     expect(blocked.data.errors[""]).toMatch(/Too many failed sign-in attempts\. Wait \d+ seconds?/);
   });
@@ -187,7 +231,10 @@ describe("forgot and reset password", () => {
     expect(Math.abs(ttl - 3600_000)).toBeLessThan(5_000);
 
     expect((await call(resetLoader, get(`/reset-password?token=${token}`))).data.token).toBe(token);
-    const reset = await call(resetAction, post("/reset-password", { token, password: "new fern password", confirmPassword: "new fern password" }));
+    const reset = await call(
+      resetAction,
+      post("/reset-password", { token, password: "new fern password", confirmPassword: "new fern password" }),
+    );
     expect(reset.status).toBe(302);
     expect(reset.location).toBe("/sign-in?reset=1");
 
@@ -196,7 +243,10 @@ describe("forgot and reset password", () => {
     expect(await signIn(user.email, "new fern password")).toMatch(/^__fernwater=/);
 
     // Single use.
-    const again = await call(resetAction, post("/reset-password", { token, password: "another password 1", confirmPassword: "another password 1" }));
+    const again = await call(
+      resetAction,
+      post("/reset-password", { token, password: "another password 1", confirmPassword: "another password 1" }),
+    );
     expect(again.status).toBe(400);
     expect((await call(resetLoader, get(`/reset-password?token=${token}`))).data.token).toBeNull();
   });
@@ -216,7 +266,10 @@ describe("forgot and reset password", () => {
       .insert(passwordResetTokens)
       .values({ userId: user.id, tokenHash: hashToken(token), expiresAt: new Date(Date.now() - 1000) })
       .run();
-    const result = await call(resetAction, post("/reset-password", { token, password: "new fern password", confirmPassword: "new fern password" }));
+    const result = await call(
+      resetAction,
+      post("/reset-password", { token, password: "new fern password", confirmPassword: "new fern password" }),
+    );
     expect(result.status).toBe(400);
     expect(result.data.errors[""]).toMatch(/expired or was already used/);
   });
@@ -231,12 +284,24 @@ describe("account", () => {
     const token = new URL(link).searchParams.get("token")!;
     const changed = await call(
       accountAction,
-      post("/account", { intent: "password", currentPassword: TEST_PASSWORD, password: "changed password 7", confirmPassword: "changed password 7" }, cookie),
+      post(
+        "/account",
+        {
+          intent: "password",
+          currentPassword: TEST_PASSWORD,
+          password: "changed password 7",
+          confirmPassword: "changed password 7",
+        },
+        cookie,
+      ),
     );
     expect(changed.status).toBe(302);
     // The old link is dead on the page and in the action: whoever holds it cannot take the account.
     expect((await call(resetLoader, get(`/reset-password?token=${token}`))).data.token).toBeNull();
-    const used = await call(resetAction, post("/reset-password", { token, password: "attacker password 1", confirmPassword: "attacker password 1" }));
+    const used = await call(
+      resetAction,
+      post("/reset-password", { token, password: "attacker password 1", confirmPassword: "attacker password 1" }),
+    );
     expect(used.status).toBe(400);
     expect(await signIn(user.email, "changed password 7", "198.51.100.71")).toMatch(/^__fernwater=/);
   });
@@ -246,11 +311,28 @@ describe("account", () => {
     const cookie = await signIn(user.email);
     const saved = await call(
       accountAction,
-      post("/account", { intent: "preferences", name: "Kim", volumeUnit: "usgal", temperatureUnit: "F", nitrateUnit: "N", khUnit: "CaCO3" }, cookie),
+      post(
+        "/account",
+        {
+          intent: "preferences",
+          name: "Kim",
+          volumeUnit: "usgal",
+          temperatureUnit: "F",
+          nitrateUnit: "N",
+          khUnit: "CaCO3",
+        },
+        cookie,
+      ),
     );
     expect(saved.status).toBe(302);
     const page = await call(accountLoader, get("/account", cookie));
-    expect(page.data.user).toMatchObject({ name: "Kim", volumeUnit: "usgal", temperatureUnit: "F", nitrateUnit: "N", khUnit: "CaCO3" });
+    expect(page.data.user).toMatchObject({
+      name: "Kim",
+      volumeUnit: "usgal",
+      temperatureUnit: "F",
+      nitrateUnit: "N",
+      khUnit: "CaCO3",
+    });
   });
 
   it("refuses an unknown unit beside its field", async () => {
@@ -258,7 +340,18 @@ describe("account", () => {
     const cookie = await signIn(user.email);
     const bad = await call(
       accountAction,
-      post("/account", { intent: "preferences", name: "Kim", volumeUnit: "barrels", temperatureUnit: "C", nitrateUnit: "NO3", khUnit: "dKH" }, cookie),
+      post(
+        "/account",
+        {
+          intent: "preferences",
+          name: "Kim",
+          volumeUnit: "barrels",
+          temperatureUnit: "C",
+          nitrateUnit: "NO3",
+          khUnit: "dKH",
+        },
+        cookie,
+      ),
     );
     expect(bad.status).toBe(400);
     expect(bad.data.errors.volumeUnit).toMatch(/volume unit/);
@@ -270,12 +363,30 @@ describe("account", () => {
     const elsewhere = await signIn(user.email, TEST_PASSWORD, "203.0.113.50");
     const wrong = await call(
       accountAction,
-      post("/account", { intent: "password", currentPassword: "nope nope", password: "fresh password 9", confirmPassword: "fresh password 9" }, here),
+      post(
+        "/account",
+        {
+          intent: "password",
+          currentPassword: "nope nope",
+          password: "fresh password 9",
+          confirmPassword: "fresh password 9",
+        },
+        here,
+      ),
     );
     expect(wrong.data.errors.currentPassword).toMatch(/not your current password/);
     const changed = await call(
       accountAction,
-      post("/account", { intent: "password", currentPassword: TEST_PASSWORD, password: "fresh password 9", confirmPassword: "fresh password 9" }, here),
+      post(
+        "/account",
+        {
+          intent: "password",
+          currentPassword: TEST_PASSWORD,
+          password: "fresh password 9",
+          confirmPassword: "fresh password 9",
+        },
+        here,
+      ),
     );
     expect(changed.status).toBe(302);
     const rotated = cookieFrom(changed);

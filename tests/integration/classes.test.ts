@@ -31,7 +31,10 @@ afterAll(() => stopMail());
 type Person = Awaited<ReturnType<typeof userWithCookie>>;
 
 /** The fields a browser posts for a setup form as drawn (locked fields travel as hidden inputs). */
-function postedFields(form: ScenarioFormModel, overrides: Record<string, string | number> = {}): Record<string, string | number> {
+function postedFields(
+  form: ScenarioFormModel,
+  overrides: Record<string, string | number> = {},
+): Record<string, string | number> {
   const out: Record<string, string | number> = { intent: "save", name: form.name };
   for (const s of form.sections) for (const f of s.fields) out[f.name] = f.value;
   for (const p of form.plants) {
@@ -44,10 +47,17 @@ function postedFields(form: ScenarioFormModel, overrides: Record<string, string 
 async function classWithStudent() {
   const teacher = await userWithCookie("educator");
   const student = await userWithCookie("keeper");
-  const made = await call(classesAction, post("/classes", { intent: "create", name: "Year 9 Biology" }, teacher.cookie));
+  const made = await call(
+    classesAction,
+    post("/classes", { intent: "create", name: "Year 9 Biology" }, teacher.cookie),
+  );
   expect(made.status).toBe(302);
   const classId = made.location!.split("/").pop()!;
-  const cls = getDb().select().from(classes).where(eq(classes.id, Number(classId))).get()!;
+  const cls = getDb()
+    .select()
+    .from(classes)
+    .where(eq(classes.id, Number(classId)))
+    .get()!;
   const joined = await call(classesAction, post("/classes", { intent: "join", code: cls.joinCode }, student.cookie));
   expect(joined.status).toBe(302);
   return { teacher, student, classId, cls };
@@ -56,7 +66,11 @@ async function classWithStudent() {
 async function lessonFor(teacher: Person, classId: string, unlock: string[] = ["fish.feedGPerDay"]) {
   const tankId = createTank(teacher.id, "Classroom tank");
   const scenarioId = await createScenario(teacher.id, tankId, { run: { lengthDays: 30 } }, "A new tank cycling");
-  const body = new URLSearchParams({ scenarioId: String(scenarioId), title: "Feeding and nitrate", question: "What does halving the food do?" });
+  const body = new URLSearchParams({
+    scenarioId: String(scenarioId),
+    title: "Feeding and nitrate",
+    question: "What does halving the food do?",
+  });
   for (const u of unlock) body.append("unlock", u);
   const request = new Request(`http://fernwater.test/classes/${classId}/lessons/new`, {
     method: "POST",
@@ -72,13 +86,21 @@ async function startedCopy() {
   const world = await classWithStudent();
   const { lessonId, scenarioId } = await lessonFor(world.teacher, world.classId);
   const params = { classId: world.classId, lessonId };
-  const started = await call(lessonAction, post(`/classes/${world.classId}/lessons/${lessonId}`, { intent: "start" }, world.student.cookie), params);
+  const started = await call(
+    lessonAction,
+    post(`/classes/${world.classId}/lessons/${lessonId}`, { intent: "start" }, world.student.cookie),
+    params,
+  );
   expect(started.status).toBe(302);
   expect(started.location).toBe(`/classes/${world.classId}/lessons/${lessonId}/work`);
   const workPath = started.location!;
   const work = await call(workLoader, get(workPath, world.student.cookie), params);
   expect(work.status).toBe(200);
-  const copy = getDb().select().from(lessonCopies).where(eq(lessonCopies.lessonId, Number(lessonId))).get()!;
+  const copy = getDb()
+    .select()
+    .from(lessonCopies)
+    .where(eq(lessonCopies.lessonId, Number(lessonId)))
+    .get()!;
   return { ...world, lessonId, scenarioId, params, workPath, work, copy };
 }
 
@@ -86,7 +108,8 @@ const settingsOf = (scenarioId: number) =>
   ScenarioSchema.parse(getDb().select().from(scenarios).where(eq(scenarios.id, scenarioId)).get()!.settings);
 
 /** The chart series a read-only view sends (packed into strings on the wire). */
-const seriesOf = (view: { results: { packedSeries: Parameters<typeof unpackSeries>[0] } }) => unpackSeries(view.results.packedSeries);
+const seriesOf = (view: { results: { packedSeries: Parameters<typeof unpackSeries>[0] } }) =>
+  unpackSeries(view.results.packedSeries);
 
 describe("classes and joining", () => {
   it("makes short, unambiguous join codes and reads them back however they are typed", () => {
@@ -110,7 +133,10 @@ describe("classes and joining", () => {
 
   it("joins with a code typed loosely, shows the class to the student and the roster to the teacher", async () => {
     const { teacher, student, classId, cls } = await classWithStudent();
-    const again = await call(classesAction, post("/classes", { intent: "join", code: cls.joinCode.toLowerCase().replace("-", " ") }, student.cookie));
+    const again = await call(
+      classesAction,
+      post("/classes", { intent: "join", code: cls.joinCode.toLowerCase().replace("-", " ") }, student.cookie),
+    );
     expect(again.status).toBe(302); // joining twice is harmless
     const mine = await call(classesLoader, get("/classes", student.cookie));
     expect(mine.data.member.map((c: { name: string }) => c.name)).toEqual(["Year 9 Biology"]);
@@ -131,7 +157,8 @@ describe("classes and joining", () => {
     const wrong = await call(classesAction, post("/classes", { intent: "join", code: "ZZZZ-ZZZZ" }, keeper.cookie));
     expect(wrong.status).toBe(400);
     expect(wrong.data.errors.code).toMatch(/No class has that code/);
-    for (let i = 1; i < JOIN_ATTEMPTS; i++) await call(classesAction, post("/classes", { intent: "join", code: "ZZZZ-ZZZ2" }, keeper.cookie));
+    for (let i = 1; i < JOIN_ATTEMPTS; i++)
+      await call(classesAction, post("/classes", { intent: "join", code: "ZZZZ-ZZZ2" }, keeper.cookie));
     const limited = await call(classesAction, post("/classes", { intent: "join", code: "TIDE-NINE" }, keeper.cookie));
     expect(limited.data.errors.code).toMatch(/Too many wrong codes/);
   });
@@ -139,10 +166,18 @@ describe("classes and joining", () => {
   it("invites by e-mail with a single-use link for that address", async () => {
     const { teacher, classId } = await classWithStudent();
     const invitee = await userWithCookie();
-    const bad = await call(classAction, post(`/classes/${classId}`, { intent: "invite", email: "not-an-address" }, teacher.cookie), { classId });
+    const bad = await call(
+      classAction,
+      post(`/classes/${classId}`, { intent: "invite", email: "not-an-address" }, teacher.cookie),
+      { classId },
+    );
     expect(bad.status).toBe(400);
     expect(bad.data.errors.email).toMatch(/e-mail address like/);
-    const sent = await call(classAction, post(`/classes/${classId}`, { intent: "invite", email: invitee.email.toUpperCase() }, teacher.cookie), { classId });
+    const sent = await call(
+      classAction,
+      post(`/classes/${classId}`, { intent: "invite", email: invitee.email.toUpperCase() }, teacher.cookie),
+      { classId },
+    );
     expect(sent.status).toBe(200);
     const mail = await waitForMail(invitee.email);
     expect(mail.subject).toMatch(/Year 9 Biology/);
@@ -160,11 +195,17 @@ describe("classes and joining", () => {
     const accepted = await call(inviteAction, post(`/classes/invite/${token}`, {}, invitee.cookie), { token });
     expect(accepted.status).toBe(302);
     expect(accepted.location).toBe(`/classes/${classId}?joined=1`);
-    const member = getDb().select().from(classMembers).where(and(eq(classMembers.classId, Number(classId)), eq(classMembers.userId, invitee.id))).get();
+    const member = getDb()
+      .select()
+      .from(classMembers)
+      .where(and(eq(classMembers.classId, Number(classId)), eq(classMembers.userId, invitee.id)))
+      .get();
     expect(member).toBeDefined();
     // Single use.
     expect((await call(inviteLoader, get(`/classes/invite/${token}`), { token })).status).toBe(404);
-    expect((await call(inviteAction, post(`/classes/invite/${token}`, {}, invitee.cookie), { token })).status).toBe(404);
+    expect((await call(inviteAction, post(`/classes/invite/${token}`, {}, invitee.cookie), { token })).status).toBe(
+      404,
+    );
     // An anonymous visitor pressing "join" is sent to sign in and back.
     const anonPost = await call(inviteAction, post(`/classes/invite/${token}`, {}), { token });
     expect(anonPost.location).toMatch(/^\/sign-in\?redirectTo=%2Fclasses%2Finvite%2F/);
@@ -172,9 +213,17 @@ describe("classes and joining", () => {
 
   it("removes a student only when confirmed; their copies stay theirs but leave the teacher's table", async () => {
     const { teacher, student, classId, lessonId, copy, params } = await startedCopy();
-    const unconfirmed = await call(classAction, post(`/classes/${classId}`, { intent: "remove", studentId: student.id }, teacher.cookie), { classId });
+    const unconfirmed = await call(
+      classAction,
+      post(`/classes/${classId}`, { intent: "remove", studentId: student.id }, teacher.cookie),
+      { classId },
+    );
     expect(unconfirmed.status).toBe(400);
-    const done = await call(classAction, post(`/classes/${classId}`, { intent: "remove", studentId: student.id, confirm: "yes" }, teacher.cookie), { classId });
+    const done = await call(
+      classAction,
+      post(`/classes/${classId}`, { intent: "remove", studentId: student.id, confirm: "yes" }, teacher.cookie),
+      { classId },
+    );
     expect(done.status).toBe(200);
     expect(getDb().select().from(lessonCopies).where(eq(lessonCopies.id, copy.id)).all()).toHaveLength(0);
     expect(getDb().select().from(scenarios).where(eq(scenarios.id, copy.scenarioId)).all()).toHaveLength(1);
@@ -183,9 +232,17 @@ describe("classes and joining", () => {
     expect(table.data.handIns).toEqual([]);
     // A student cannot manage the roster.
     const other = await classWithStudent();
-    const forged = await call(classAction, post(`/classes/${other.classId}`, { intent: "remove", studentId: other.student.id, confirm: "yes" }, other.student.cookie), {
-      classId: other.classId,
-    });
+    const forged = await call(
+      classAction,
+      post(
+        `/classes/${other.classId}`,
+        { intent: "remove", studentId: other.student.id, confirm: "yes" },
+        other.student.cookie,
+      ),
+      {
+        classId: other.classId,
+      },
+    );
     expect(forged.status).toBe(404);
   });
 });
@@ -195,32 +252,54 @@ describe("lessons", () => {
     const { teacher, classId } = await classWithStudent();
     const tankId = createTank(teacher.id);
     const scenarioId = await createScenario(teacher.id, tankId, { run: { lengthDays: 20 } });
-    const page = await call(newLessonLoader, get(`/classes/${classId}/lessons/new?scenario=${scenarioId}`, teacher.cookie), { classId });
+    const page = await call(
+      newLessonLoader,
+      get(`/classes/${classId}/lessons/new?scenario=${scenarioId}`, teacher.cookie),
+      { classId },
+    );
     const names = page.data.pick.groups.flatMap((g: { fields: { name: string }[] }) => g.fields.map((f) => f.name));
     expect(names).toContain("fish.feedGPerDay");
     expect(names).toContain("plants.0.startMassG");
     const forged = await call(
       newLessonAction,
-      post(`/classes/${classId}/lessons/new`, { scenarioId, title: "T", question: "Q", unlock: "targets.nitrateLow" }, teacher.cookie),
+      post(
+        `/classes/${classId}/lessons/new`,
+        { scenarioId, title: "T", question: "Q", unlock: "targets.nitrateLow" },
+        teacher.cookie,
+      ),
       { classId },
     );
     expect(forged.status).toBe(400);
     expect(forged.data.errors.unlock).toMatch(/Unknown settings/);
-    const noQuestion = await call(newLessonAction, post(`/classes/${classId}/lessons/new`, { scenarioId, title: "T", question: "" }, teacher.cookie), { classId });
+    const noQuestion = await call(
+      newLessonAction,
+      post(`/classes/${classId}/lessons/new`, { scenarioId, title: "T", question: "" }, teacher.cookie),
+      { classId },
+    );
     expect(noQuestion.data.errors.question).toMatch(/question/);
     // Someone else's scenario cannot be handed out.
     const other = await userWithCookie("educator");
     const theirs = await createScenario(other.id, createTank(other.id));
-    const stolen = await call(newLessonAction, post(`/classes/${classId}/lessons/new`, { scenarioId: theirs, title: "T", question: "Q" }, teacher.cookie), { classId });
+    const stolen = await call(
+      newLessonAction,
+      post(`/classes/${classId}/lessons/new`, { scenarioId: theirs, title: "T", question: "Q" }, teacher.cookie),
+      { classId },
+    );
     expect(stolen.status).toBe(404);
   });
 
   it("freezes the scenario's settings into the lesson", async () => {
     const { teacher, classId } = await classWithStudent();
     const { lessonId, scenarioId } = await lessonFor(teacher, classId);
-    const lesson = getDb().select().from(lessons).where(eq(lessons.id, Number(lessonId))).get()!;
+    const lesson = getDb()
+      .select()
+      .from(lessons)
+      .where(eq(lessons.id, Number(lessonId)))
+      .get()!;
     expect(lesson.unlockedFields).toEqual(["fish.feedGPerDay"]);
-    expect(lesson.settings).toEqual(getDb().select().from(scenarios).where(eq(scenarios.id, scenarioId)).get()!.settings);
+    expect(lesson.settings).toEqual(
+      getDb().select().from(scenarios).where(eq(scenarios.id, scenarioId)).get()!.settings,
+    );
   });
 
   it("gives a student their own copy in a class tank, with the lesson's settings", async () => {
@@ -237,7 +316,11 @@ describe("lessons", () => {
   it("saves a change to an unlocked setting and runs it", async () => {
     const { student, copy, work, workPath, params } = await startedCopy();
     const feed = settingsOf(copy.scenarioId).fish.feedGPerDay;
-    const saved = await call(workAction, post(workPath, postedFields(work.data.form, { "fish.feedGPerDay": feed / 2 }), student.cookie), params);
+    const saved = await call(
+      workAction,
+      post(workPath, postedFields(work.data.form, { "fish.feedGPerDay": feed / 2 }), student.cookie),
+      params,
+    );
     expect(saved.status).toBe(302);
     expect(settingsOf(copy.scenarioId).fish.feedGPerDay).toBe(feed / 2);
     const after = await call(workLoader, get(workPath, student.cookie), params);
@@ -247,13 +330,21 @@ describe("lessons", () => {
 
   it("accepts a student who reads US gallons and °F: locked values shown rounded still count as unchanged", async () => {
     const { student, copy, workPath, params } = await startedCopy();
-    getDb().update(users).set({ volumeUnit: "usgal", temperatureUnit: "F", nitrateUnit: "N", khUnit: "CaCO3" }).where(eq(users.id, student.id)).run();
+    getDb()
+      .update(users)
+      .set({ volumeUnit: "usgal", temperatureUnit: "F", nitrateUnit: "N", khUnit: "CaCO3" })
+      .where(eq(users.id, student.id))
+      .run();
     const work = await call(workLoader, get(workPath, student.cookie), params);
     // NIST SP 811: 1 US gallon = 3.785411784 L, so the locked volume is drawn rounded in gallons.
     const volume = work.data.form.sections[0].fields.find((f: { name: string }) => f.name === "water.volumeL");
     expect(volume.unit).toBe("US gal");
     const before = settingsOf(copy.scenarioId);
-    const saved = await call(workAction, post(workPath, postedFields(work.data.form, { "fish.feedGPerDay": 0.3 }), student.cookie), params);
+    const saved = await call(
+      workAction,
+      post(workPath, postedFields(work.data.form, { "fish.feedGPerDay": 0.3 }), student.cookie),
+      params,
+    );
     expect(saved.status).toBe(302);
     const after = settingsOf(copy.scenarioId);
     expect(after.water).toEqual(before.water);
@@ -264,16 +355,30 @@ describe("lessons", () => {
   it("refuses a forged change to a locked setting, a forged plant group and a removed one", async () => {
     const { student, copy, work, workPath, params } = await startedCopy();
     const before = settingsOf(copy.scenarioId);
-    const forged = await call(workAction, post(workPath, postedFields(work.data.form, { "water.volumeL": 400 }), student.cookie), params);
+    const forged = await call(
+      workAction,
+      post(workPath, postedFields(work.data.form, { "water.volumeL": 400 }), student.cookie),
+      params,
+    );
     expect(forged.status).toBe(400);
     expect(forged.data.errors["water.volumeL"]).toBe("This setting is locked by the lesson.");
-    const add = await call(workAction, post(workPath, postedFields(work.data.form, { intent: "add-plant" }), student.cookie), params);
+    const add = await call(
+      workAction,
+      post(workPath, postedFields(work.data.form, { intent: "add-plant" }), student.cookie),
+      params,
+    );
     expect(add.status).toBe(400);
-    const withoutPlants = Object.fromEntries(Object.entries(postedFields(work.data.form)).filter(([k]) => !k.startsWith("plants.")));
+    const withoutPlants = Object.fromEntries(
+      Object.entries(postedFields(work.data.form)).filter(([k]) => !k.startsWith("plants.")),
+    );
     const removed = await call(workAction, post(workPath, withoutPlants, student.cookie), params);
     expect(removed.status).toBe(400);
     expect(removed.data.errors[""]).toMatch(/plant groups/);
-    const saveAsNew = await call(workAction, post(workPath, postedFields(work.data.form, { intent: "save-as-new" }), student.cookie), params);
+    const saveAsNew = await call(
+      workAction,
+      post(workPath, postedFields(work.data.form, { intent: "save-as-new" }), student.cookie),
+      params,
+    );
     expect(saveAsNew.status).toBe(400);
     expect(settingsOf(copy.scenarioId)).toEqual(before);
   });
@@ -295,11 +400,19 @@ describe("lessons", () => {
     const params = { tankId: String(row.tankId), scenarioId: String(row.id) };
     const page = await call(editLoader, get(`/tanks/${row.tankId}/scenarios/${row.id}/edit`, student.cookie), params);
     expect(page.location).toBe(workPath);
-    const forged = await call(editAction, post(`/tanks/${row.tankId}/scenarios/${row.id}/edit`, { intent: "save", name: "x" }, student.cookie), params);
+    const forged = await call(
+      editAction,
+      post(`/tanks/${row.tankId}/scenarios/${row.id}/edit`, { intent: "save", name: "x" }, student.cookie),
+      params,
+    );
     expect(forged.location).toBe(workPath);
-    const api = await call(scenarioApiAction, postJson(`/api/scenarios/${row.id}`, { settings: { water: { volumeL: 400 } } }, student.cookie, "PATCH"), {
-      scenarioId: String(row.id),
-    });
+    const api = await call(
+      scenarioApiAction,
+      postJson(`/api/scenarios/${row.id}`, { settings: { water: { volumeL: 400 } } }, student.cookie, "PATCH"),
+      {
+        scenarioId: String(row.id),
+      },
+    );
     expect(api.status).toBe(409);
     expect(settingsOf(row.id).water.volumeL).not.toBe(400);
   });
@@ -309,9 +422,17 @@ describe("lessons", () => {
     const empty = await call(workAction, post(workPath, { intent: "hand-in", answer: "  " }, student.cookie), params);
     expect(empty.status).toBe(400);
     expect(empty.data.errors.answer).toMatch(/answer/);
-    const done = await call(workAction, post(workPath, { intent: "hand-in", answer: "Less food, less nitrate." }, student.cookie), params);
+    const done = await call(
+      workAction,
+      post(workPath, { intent: "hand-in", answer: "Less food, less nitrate." }, student.cookie),
+      params,
+    );
     expect(done.status).toBe(302);
-    const late = await call(workAction, post(workPath, postedFields(work.data.form, { "fish.feedGPerDay": 0.2 }), student.cookie), params);
+    const late = await call(
+      workAction,
+      post(workPath, postedFields(work.data.form, { "fish.feedGPerDay": 0.2 }), student.cookie),
+      params,
+    );
     expect(late.status).toBe(400);
     expect(late.data.errors[""]).toMatch(/handed this lesson in/);
 
@@ -324,7 +445,11 @@ describe("lessons", () => {
     expect(row.copy.figures.nitrateEnd).toBeGreaterThan(0);
 
     const copyParams = { ...params, copyId: String(copy.id) };
-    const view = await call(copyLoader, get(`/classes/${classId}/lessons/${lessonId}/copies/${copy.id}`, teacher.cookie), copyParams);
+    const view = await call(
+      copyLoader,
+      get(`/classes/${classId}/lessons/${lessonId}/copies/${copy.id}`, teacher.cookie),
+      copyParams,
+    );
     expect(view.status).toBe(200);
     expect(view.data.answer).toBe("Less food, less nitrate.");
     expect(seriesOf(view.data.view).t.length).toBeGreaterThan(0);
@@ -332,36 +457,70 @@ describe("lessons", () => {
 
   it("keeps a handed-in copy: the student cannot delete it, nor its tank, to start the lesson again", async () => {
     const { student, workPath, params, copy } = await startedCopy();
-    expect((await call(workAction, post(workPath, { intent: "hand-in", answer: "First answer." }, student.cookie), params)).status).toBe(302);
+    expect(
+      (await call(workAction, post(workPath, { intent: "hand-in", answer: "First answer." }, student.cookie), params))
+        .status,
+    ).toBe(302);
     const scenario = getDb().select().from(scenarios).where(eq(scenarios.id, copy.scenarioId)).get()!;
     const tankId = String(scenario.tankId);
-    const dropScenario = await call(tankAction, post(`/tanks/${tankId}`, { intent: "delete-scenario", scenarioId: scenario.id, confirm: "yes" }, student.cookie), { tankId });
+    const dropScenario = await call(
+      tankAction,
+      post(`/tanks/${tankId}`, { intent: "delete-scenario", scenarioId: scenario.id, confirm: "yes" }, student.cookie),
+      { tankId },
+    );
     expect(dropScenario.status).toBe(409);
     expect(dropScenario.data.errors[""]).toMatch(/holds your hand-in/);
-    const dropTank = await call(tankAction, post(`/tanks/${tankId}`, { intent: "delete-tank", confirm: "yes" }, student.cookie), { tankId });
+    const dropTank = await call(
+      tankAction,
+      post(`/tanks/${tankId}`, { intent: "delete-tank", confirm: "yes" }, student.cookie),
+      { tankId },
+    );
     expect(dropTank.status).toBe(409);
     const kept = getDb().select().from(lessonCopies).where(eq(lessonCopies.id, copy.id)).get()!;
     expect(kept.answer).toBe("First answer.");
     expect(kept.handedInAt).not.toBeNull();
     expect(getDb().select().from(scenarios).where(eq(scenarios.id, copy.scenarioId)).get()).toBeDefined();
     // Starting the lesson again finds the handed-in copy, not a fresh one.
-    const again = await call(lessonAction, post(`/classes/${params.classId}/lessons/${params.lessonId}`, { intent: "start" }, student.cookie), params);
+    const again = await call(
+      lessonAction,
+      post(`/classes/${params.classId}/lessons/${params.lessonId}`, { intent: "start" }, student.cookie),
+      params,
+    );
     expect(again.location).toBe(workPath);
-    expect(getDb().select().from(lessonCopies).where(eq(lessonCopies.lessonId, Number(params.lessonId))).all()).toHaveLength(1);
+    expect(
+      getDb()
+        .select()
+        .from(lessonCopies)
+        .where(eq(lessonCopies.lessonId, Number(params.lessonId)))
+        .all(),
+    ).toHaveLength(1);
   });
 
   it("freezes a handed-in copy's key figures: its tank's nitrate band cannot be changed afterwards, its name can", async () => {
     const { teacher, student, workPath, params, classId, lessonId, copy } = await startedCopy();
-    expect((await call(workAction, post(workPath, { intent: "hand-in", answer: "Nitrate climbs." }, student.cookie), params)).status).toBe(302);
+    expect(
+      (await call(workAction, post(workPath, { intent: "hand-in", answer: "Nitrate climbs." }, student.cookie), params))
+        .status,
+    ).toBe(302);
     const figuresNow = async () =>
-      (await call(lessonLoader, get(`/classes/${classId}/lessons/${lessonId}`, teacher.cookie), params)).data.handIns[0].copy.figures;
+      (await call(lessonLoader, get(`/classes/${classId}/lessons/${lessonId}`, teacher.cookie), params)).data.handIns[0]
+        .copy.figures;
     const before = await figuresNow();
-    const tank = getDb().select().from(tanks).innerJoin(scenarios, eq(scenarios.tankId, tanks.id)).where(eq(scenarios.id, copy.scenarioId)).get()!.tanks;
+    const tank = getDb()
+      .select()
+      .from(tanks)
+      .innerJoin(scenarios, eq(scenarios.tankId, tanks.id))
+      .where(eq(scenarios.id, copy.scenarioId))
+      .get()!.tanks;
     const tankId = String(tank.id);
     // A band of 0–1 mg/L NO3 would put every day of the run above the target (our own worked example).
     const moved = await call(
       tankAction,
-      post(`/tanks/${tankId}`, { intent: "settings", name: tank.name, notes: tank.notes ?? "", nitrateLow: "0", nitrateHigh: "1" }, student.cookie),
+      post(
+        `/tanks/${tankId}`,
+        { intent: "settings", name: tank.name, notes: tank.notes ?? "", nitrateLow: "0", nitrateHigh: "1" },
+        student.cookie,
+      ),
       { tankId },
     );
     expect(moved.status).toBe(409);
@@ -376,7 +535,11 @@ describe("lessons", () => {
     expect(page.data.bandKept).toBe(true);
     expect(page.data.nitrateHint).toMatch(/handed in/);
     const band = { nitrateLow: page.data.tank.nitrateLow, nitrateHigh: page.data.tank.nitrateHigh };
-    const renamed = await call(tankAction, post(`/tanks/${tankId}`, { intent: "settings", name: "My class tank", notes: "", ...band }, student.cookie), { tankId });
+    const renamed = await call(
+      tankAction,
+      post(`/tanks/${tankId}`, { intent: "settings", name: "My class tank", notes: "", ...band }, student.cookie),
+      { tankId },
+    );
     expect(renamed.status).toBe(302);
     const kept = getDb().select().from(tanks).where(eq(tanks.id, tank.id)).get()!;
     expect(kept.name).toBe("My class tank");
@@ -386,11 +549,26 @@ describe("lessons", () => {
   it("shows the teacher what a student changed, locked settings flagged", async () => {
     const { teacher, student, work, workPath, params, classId, lessonId, copy } = await startedCopy();
     const feed = settingsOf(copy.scenarioId).fish.feedGPerDay;
-    await call(workAction, post(workPath, postedFields(work.data.form, { "fish.feedGPerDay": feed * 2 }), student.cookie), params);
+    await call(
+      workAction,
+      post(workPath, postedFields(work.data.form, { "fish.feedGPerDay": feed * 2 }), student.cookie),
+      params,
+    );
     const copyParams = { ...params, copyId: String(copy.id) };
-    const view = await call(copyLoader, get(`/classes/${classId}/lessons/${lessonId}/copies/${copy.id}`, teacher.cookie), copyParams);
+    const view = await call(
+      copyLoader,
+      get(`/classes/${classId}/lessons/${lessonId}/copies/${copy.id}`, teacher.cookie),
+      copyParams,
+    );
     expect(view.data.changes.fields).toEqual([
-      { name: "fish.feedGPerDay", label: expect.any(String), from: String(feed), to: String(feed * 2), unit: "g/day", locked: false },
+      {
+        name: "fish.feedGPerDay",
+        label: expect.any(String),
+        from: String(feed),
+        to: String(feed * 2),
+        unit: "g/day",
+        locked: false,
+      },
     ]);
   });
 
@@ -407,19 +585,35 @@ describe("lessons", () => {
     const admin = await userWithCookie("admin");
     expect((await call(copyLoader, get(path, admin.cookie), params)).status).toBe(404);
     // Students of another class cannot start this lesson.
-    const start = await call(lessonAction, post(`/classes/${first.classId}/lessons/${first.lessonId}`, { intent: "start" }, second.student.cookie), first.params);
+    const start = await call(
+      lessonAction,
+      post(`/classes/${first.classId}/lessons/${first.lessonId}`, { intent: "start" }, second.student.cookie),
+      first.params,
+    );
     expect(start.status).toBe(404);
   });
 
   it("answers a lesson whose stored settings no longer read with a message, not a 500", async () => {
     const { teacher, student, classId } = await classWithStudent();
     const { lessonId } = await lessonFor(teacher, classId);
-    getDb().update(lessons).set({ settings: { schemaVersion: 999, water: "?" } }).where(eq(lessons.id, Number(lessonId))).run();
+    getDb()
+      .update(lessons)
+      .set({ settings: { schemaVersion: 999, water: "?" } })
+      .where(eq(lessons.id, Number(lessonId)))
+      .run();
     const params = { classId, lessonId };
-    const start = await call(lessonAction, post(`/classes/${classId}/lessons/${lessonId}`, { intent: "start" }, student.cookie), params);
+    const start = await call(
+      lessonAction,
+      post(`/classes/${classId}/lessons/${lessonId}`, { intent: "start" }, student.cookie),
+      params,
+    );
     expect(start.status).toBe(400);
     expect(start.data.errors[""]).toMatch(/can no longer be read/);
-    const shown = await call(presentLoader, get(`/classes/${classId}/lessons/${lessonId}/present`, teacher.cookie), params);
+    const shown = await call(
+      presentLoader,
+      get(`/classes/${classId}/lessons/${lessonId}/present`, teacher.cookie),
+      params,
+    );
     expect(shown.status).toBe(200);
     expect(shown.data.error).toMatch(/can no longer be read/);
   });
@@ -438,9 +632,17 @@ describe("a demoted educator (docs/decisions/0007-demoted-educators.md)", () => 
   it("keeps the class read-only, hides the students' e-mails, closes the class to newcomers, and an admin hands it over", async () => {
     const { teacher, student, classId, cls } = await classWithStudent();
     const { lessonId } = await lessonFor(teacher, classId);
-    const started = await call(lessonAction, post(`/classes/${classId}/lessons/${lessonId}`, { intent: "start" }, student.cookie), { classId, lessonId });
+    const started = await call(
+      lessonAction,
+      post(`/classes/${classId}/lessons/${lessonId}`, { intent: "start" }, student.cookie),
+      { classId, lessonId },
+    );
     expect(started.status).toBe(302);
-    const invite = await call(classAction, post(`/classes/${classId}`, { intent: "invite", email: "late@example.org" }, teacher.cookie), { classId });
+    const invite = await call(
+      classAction,
+      post(`/classes/${classId}`, { intent: "invite", email: "late@example.org" }, teacher.cookie),
+      { classId },
+    );
     expect(invite.status).toBe(200);
     const inviteLink = (await waitForMail("late@example.org")).links.find((l) => l.includes("/classes/invite/"))!;
 
@@ -452,21 +654,74 @@ describe("a demoted educator (docs/decisions/0007-demoted-educators.md)", () => 
     expect(page.data.teacher).toBeNull();
     expect(JSON.stringify(page.data)).not.toContain(student.email);
     expect(page.data.formerStudents).toEqual([{ id: student.id, name: expect.any(String) }]);
-    const lesson = await call(lessonLoader, get(`/classes/${classId}/lessons/${lessonId}`, teacher.cookie), { classId, lessonId });
+    const lesson = await call(lessonLoader, get(`/classes/${classId}/lessons/${lessonId}`, teacher.cookie), {
+      classId,
+      lessonId,
+    });
     expect(lesson.data.handIns).toBeNull();
     const list = await call(classesLoader, get("/classes", teacher.cookie));
     expect(list.data.running.map((c: { joinCode: string }) => c.joinCode)).toEqual([""]);
     // Nothing an educator does: invite, remove, new lesson, present, read a copy.
-    expect((await call(classAction, post(`/classes/${classId}`, { intent: "invite", email: "x@example.org" }, teacher.cookie), { classId })).status).toBe(403);
-    expect((await call(classAction, post(`/classes/${classId}`, { intent: "remove", studentId: student.id, confirm: "yes" }, teacher.cookie), { classId })).status).toBe(403);
-    expect((await call(newLessonLoader, get(`/classes/${classId}/lessons/new`, teacher.cookie), { classId })).status).toBe(403);
-    expect((await call(presentLoader, get(`/classes/${classId}/lessons/${lessonId}/present`, teacher.cookie), { classId, lessonId })).status).toBe(403);
-    const copy = getDb().select().from(lessonCopies).where(eq(lessonCopies.lessonId, Number(lessonId))).get()!;
-    expect((await call(copyLoader, get(`/classes/${classId}/lessons/${lessonId}/copies/${copy.id}`, teacher.cookie), { classId, lessonId, copyId: String(copy.id) })).status).toBe(403);
-    expect(getDb().select().from(classMembers).where(eq(classMembers.classId, Number(classId))).all()).toHaveLength(1);
+    expect(
+      (
+        await call(
+          classAction,
+          post(`/classes/${classId}`, { intent: "invite", email: "x@example.org" }, teacher.cookie),
+          { classId },
+        )
+      ).status,
+    ).toBe(403);
+    expect(
+      (
+        await call(
+          classAction,
+          post(`/classes/${classId}`, { intent: "remove", studentId: student.id, confirm: "yes" }, teacher.cookie),
+          { classId },
+        )
+      ).status,
+    ).toBe(403);
+    expect(
+      (await call(newLessonLoader, get(`/classes/${classId}/lessons/new`, teacher.cookie), { classId })).status,
+    ).toBe(403);
+    expect(
+      (
+        await call(presentLoader, get(`/classes/${classId}/lessons/${lessonId}/present`, teacher.cookie), {
+          classId,
+          lessonId,
+        })
+      ).status,
+    ).toBe(403);
+    const copy = getDb()
+      .select()
+      .from(lessonCopies)
+      .where(eq(lessonCopies.lessonId, Number(lessonId)))
+      .get()!;
+    expect(
+      (
+        await call(copyLoader, get(`/classes/${classId}/lessons/${lessonId}/copies/${copy.id}`, teacher.cookie), {
+          classId,
+          lessonId,
+          copyId: String(copy.id),
+        })
+      ).status,
+    ).toBe(403);
+    expect(
+      getDb()
+        .select()
+        .from(classMembers)
+        .where(eq(classMembers.classId, Number(classId)))
+        .all(),
+    ).toHaveLength(1);
 
     // The student keeps their class and their work.
-    expect((await call(workLoader, get(`/classes/${classId}/lessons/${lessonId}/work`, student.cookie), { classId, lessonId })).status).toBe(200);
+    expect(
+      (
+        await call(workLoader, get(`/classes/${classId}/lessons/${lessonId}/work`, student.cookie), {
+          classId,
+          lessonId,
+        })
+      ).status,
+    ).toBe(200);
     // Nobody new joins: not with the code, not with an invitation sent before the demotion.
     const newcomer = await userWithCookie();
     const joined = await call(classesAction, post("/classes", { intent: "join", code: cls.joinCode }, newcomer.cookie));
@@ -482,13 +737,21 @@ describe("a demoted educator (docs/decisions/0007-demoted-educators.md)", () => 
     const admin = await userWithCookie("admin");
     const next = await userWithCookie("educator");
     const { action: handOver } = await import("~/routes/admin/classes");
-    const refused = await call(handOver, post("/admin/classes", { intent: "hand-over", classId, educatorId: student.id }, admin.cookie));
+    const refused = await call(
+      handOver,
+      post("/admin/classes", { intent: "hand-over", classId, educatorId: student.id }, admin.cookie),
+    );
     expect(refused.status).toBe(400);
-    const handed = await call(handOver, post("/admin/classes", { intent: "hand-over", classId, educatorId: next.id }, admin.cookie));
+    const handed = await call(
+      handOver,
+      post("/admin/classes", { intent: "hand-over", classId, educatorId: next.id }, admin.cookie),
+    );
     expect(handed.status).toBe(200);
     const nextPage = await call(classLoader, get(`/classes/${classId}`, next.cookie), { classId });
     expect(nextPage.data.teacher.students.map((s: { email: string }) => s.email)).toEqual([student.email]);
-    expect((await call(classesAction, post("/classes", { intent: "join", code: cls.joinCode }, newcomer.cookie))).status).toBe(302);
+    expect(
+      (await call(classesAction, post("/classes", { intent: "join", code: cls.joinCode }, newcomer.cookie))).status,
+    ).toBe(302);
     // The former educator, promoted again, no longer has it.
     getDb().update(users).set({ role: "educator" }).where(eq(users.id, teacher.id)).run();
     expect((await call(classLoader, get(`/classes/${classId}`, teacher.cookie), { classId })).status).toBe(404);

@@ -29,7 +29,11 @@ describe("demo data for sharing and classes", () => {
     const student = await signIn("student@tidewell.example", DEMO_PASSWORD);
     const page = await call(lessonLoader, get(`/classes/${cls.id}/lessons/${lesson.id}`, student), params);
     expect(page.data).toMatchObject({ as: "student", started: false });
-    const started = await call(lessonAction, post(`/classes/${cls.id}/lessons/${lesson.id}`, { intent: "start" }, student), params);
+    const started = await call(
+      lessonAction,
+      post(`/classes/${cls.id}/lessons/${lesson.id}`, { intent: "start" }, student),
+      params,
+    );
     expect(started.status).toBe(302);
   });
 });

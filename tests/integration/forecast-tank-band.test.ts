@@ -12,7 +12,6 @@ import { loader as pageLoader } from "~/routes/journal/journal";
 import { call, get, post } from "../support/routes";
 import { climbingTankWithJournal } from "../support/journal";
 
-
 describe("the forecast's target", () => {
   it("is the tank's nitrate band as last set on the tank page, on the journal page and in the reminder mail", async () => {
     // Nitrate climbs past either target (tests/support/journal.ts).

@@ -46,7 +46,6 @@ async function world(role: "keeper" | "educator" = "keeper", input: ScenarioInpu
   };
 }
 
-
 const jobIdOf = (location: string | null) => new URL(location!, ORIGIN).searchParams.get("job")!;
 
 describe("sweeps", () => {

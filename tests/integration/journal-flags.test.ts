@@ -118,8 +118,16 @@ describe("the journal replay's findings on the tank list and the tank page", () 
     // The keeper measures again and finds pH 6.5: the same dose is far less toxic. Emerson et al.
     // 1975: at pH 6.5 and 28 °C about 0.2 % of TAN is free NH3, so about 3.3 mg N/L of TAN gives
     // under 0.01 mg/L NH3, below the 0.02 mg/L caution line (common practice, no source).
-    const row = getDb().select().from(scenarios).where(eq(scenarios.tankId, Number(tankId))).get()!;
-    const tank = getDb().select().from(tanks).where(eq(tanks.id, Number(tankId))).get()!;
+    const row = getDb()
+      .select()
+      .from(scenarios)
+      .where(eq(scenarios.tankId, Number(tankId)))
+      .get()!;
+    const tank = getDb()
+      .select()
+      .from(tanks)
+      .where(eq(tanks.id, Number(tankId)))
+      .get()!;
     const settings = readStoredSettings(row.settings)!;
     await saveScenarioWithRun(tank, row.id, row.name, { ...settings, water: { ...settings.water, pH: 6.5 } });
     // The journal did not change, so its version alone would keep the old, now wrong, flag.
@@ -138,7 +146,11 @@ describe("the journal replay's findings on the tank list and the tank page", () 
     await log({ date: day(3), kind: "water_change", water_changed_percent: 30 });
     await listed(keeper.cookie);
     const first = findings(tankId)!.computedAt.getTime();
-    const tank = getDb().select().from(tanks).where(eq(tanks.id, Number(tankId))).get()!;
+    const tank = getDb()
+      .select()
+      .from(tanks)
+      .where(eq(tanks.id, Number(tankId)))
+      .get()!;
     // The same day: kept, no replay.
     await journalFlags([tank], first + 1000);
     expect(findings(tankId)!.computedAt.getTime()).toBe(first);

@@ -21,7 +21,9 @@ describe("the kept journal follows every write", () => {
     const keeper = await userWithCookie();
     const id = createTank(keeper.id);
     expect(shares(id)).toEqual([]);
-    const [first] = addEntries(id, [{ kind: "water_change", doneAt: Date.now() - 5 * DAY, details: { share: 0.3 }, note: "" }]);
+    const [first] = addEntries(id, [
+      { kind: "water_change", doneAt: Date.now() - 5 * DAY, details: { share: 0.3 }, note: "" },
+    ]);
     expect(shares(id)).toEqual([0.3]);
     // Read twice at one version: the same kept list.
     expect(journalOf(tankRow(id))).toBe(journalOf(tankRow(id)));
@@ -30,7 +32,11 @@ describe("the kept journal follows every write", () => {
     addEntries(id, [{ kind: "water_change", doneAt: Date.now() - 2 * DAY, details: { share: 0.2 }, note: "" }]);
     expect(shares(id)).toEqual([0.4, 0.2]);
     // A write outside the app's functions (e.g. a migration or an admin's SQL) moves it too.
-    getDb().update(journalEntries).set({ details: { share: 0.1 } }).where(eq(journalEntries.id, first)).run();
+    getDb()
+      .update(journalEntries)
+      .set({ details: { share: 0.1 } })
+      .where(eq(journalEntries.id, first))
+      .run();
     expect(shares(id)).toEqual([0.1, 0.2]);
     deleteEntry(id, first);
     expect(shares(id)).toEqual([0.2]);

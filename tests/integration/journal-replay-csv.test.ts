@@ -59,7 +59,10 @@ describe("the journal replay's CSV", () => {
     expect(csv.status).toBe(200);
     expect(csv.headers.get("Content-Type")).toMatch(/^text\/csv/);
     expect(csv.headers.get("Content-Disposition")).toMatch(/as-it-happened\.csv/);
-    const lines = (csv.data as string).replace(/^\uFEFF/, "").trim().split(/\r?\n/);
+    const lines = (csv.data as string)
+      .replace(/^\uFEFF/, "")
+      .trim()
+      .split(/\r?\n/);
     const header = cells(lines[0]);
     // Every sample, one row each, under the chart CSV's own header.
     expect(lines.length - 1).toBe(replay.samplesTotal);
@@ -101,7 +104,15 @@ describe("the journal replay's CSV", () => {
 
   it("the chart's CSV button downloads from the server only when the page holds a share", () => {
     const base = {
-      labels: { tan: "mg/L NH3-N", nh3: "mg/L NH3-N", no2: "mg/L NO2-N", no3: "mg/L NO3", kh: "dKH", temperature: "°C", volume: "L" },
+      labels: {
+        tan: "mg/L NH3-N",
+        nh3: "mg/L NH3-N",
+        no2: "mg/L NO2-N",
+        no3: "mg/L NO3",
+        kh: "dKH",
+        temperature: "°C",
+        volume: "L",
+      },
       events: [],
       guides: { targetLow: 0, targetHigh: 0, oxygenCaution: 3 },
       startMs: Date.UTC(2026, 0, 1),
@@ -117,7 +128,8 @@ describe("the journal replay's CSV", () => {
           createRoutesStub([
             {
               path: "/",
-              Component: () => createElement(JournalReplayChart, { replay: { ...base, samplesTotal } as never, tankName: "T" }),
+              Component: () =>
+                createElement(JournalReplayChart, { replay: { ...base, samplesTotal } as never, tankName: "T" }),
             },
           ]),
           { initialEntries: ["/"] },

@@ -82,13 +82,17 @@ describe("the journal page's runs", () => {
     // An ammonia dose written past the app (a script, another process): the page's replay has it.
     const v0 = version();
     const added = sql
-      .prepare("INSERT INTO journal_entries (tank_id, done_at, kind, details, note) VALUES (?, ?, 'ammonia_dosed', ?, '')")
+      .prepare(
+        "INSERT INTO journal_entries (tank_id, done_at, kind, details, note) VALUES (?, ?, 'ammonia_dosed', ?, '')",
+      )
       .run(Number(tankId), Math.floor(Date.now() / DAY) * DAY - 3 * DAY, JSON.stringify({ ammoniaMgN: 2 }));
     expect(version()).toBe(v0 + 1);
     const dosed = await budgetIn();
     // 2 mg N/L dosed into 100 L adds 200 mg N to the inputs (our own worked example).
     expect(dosed - before).toBeCloseTo(200, 0);
-    sql.prepare("UPDATE journal_entries SET details = ? WHERE id = ?").run(JSON.stringify({ ammoniaMgN: 1 }), added.lastInsertRowid);
+    sql
+      .prepare("UPDATE journal_entries SET details = ? WHERE id = ?")
+      .run(JSON.stringify({ ammoniaMgN: 1 }), added.lastInsertRowid);
     expect(version()).toBe(v0 + 2);
     expect((await budgetIn()) - before).toBeCloseTo(100, 0);
     sql.prepare("DELETE FROM journal_entries WHERE id = ?").run(added.lastInsertRowid);

@@ -22,7 +22,9 @@ describe("the journal replay's warnings", () => {
     const text = page.data.replay.warnings.find((w: { code: string }) => w.code === "freeAmmoniaAboveCaution").text;
     // Dated as the replay's day was: the dose's day, when free ammonia peaks.
     expect(text).toMatch(
-      new RegExp(`^Free ammonia reaches [\\d.]+ mg/L NH3 on ${dayInWords(3)}, .* the caution line \\(0\\.02 mg/L NH3\\)\\.$`),
+      new RegExp(
+        `^Free ammonia reaches [\\d.]+ mg/L NH3 on ${dayInWords(3)}, .* the caution line \\(0\\.02 mg/L NH3\\)\\.$`,
+      ),
     );
   });
 

@@ -30,19 +30,26 @@ function databaseBefore(tag: string) {
 /** Row counts of every table (the migrator's own bookkeeping aside). */
 function rowCounts(sqlite: ReturnType<typeof openSqlite>): Record<string, number> {
   const tables = sqlite
-    .prepare("select name from sqlite_master where type = 'table' and name not like 'sqlite_%' and name <> '__drizzle_migrations' order by name")
+    .prepare(
+      "select name from sqlite_master where type = 'table' and name not like 'sqlite_%' and name <> '__drizzle_migrations' order by name",
+    )
     .pluck()
     .all() as string[];
-  return Object.fromEntries(tables.map((t) => [t, sqlite.prepare(`select count(*) from "${t}"`).pluck().get() as number]));
+  return Object.fromEntries(
+    tables.map((t) => [t, sqlite.prepare(`select count(*) from "${t}"`).pluck().get() as number]),
+  );
 }
 
 describe("migration 0013: the tanks table is rebuilt without losing what hangs off it", () => {
   it("keeps every scenario, run, reading and journal entry, the id sequence and the references", () => {
     const { sqlite, db } = databaseBefore("0013_exact_default_targets");
     const one = <T>(sql: string, ...args: unknown[]) => sqlite.prepare(sql).get(...args) as T;
-    const owner = one<{ id: number }>("insert into users (email, name, password_hash) values ('keeper@example.org', 'Keeper', 'x') returning id").id;
+    const owner = one<{ id: number }>(
+      "insert into users (email, name, password_hash) values ('keeper@example.org', 'Keeper', 'x') returning id",
+    ).id;
     const tankIds = [1, 2, 3].map(
-      (i) => one<{ id: number }>("insert into tanks (owner_id, name) values (?, ?) returning id", owner, `tank ${i}`).id,
+      (i) =>
+        one<{ id: number }>("insert into tanks (owner_id, name) values (?, ?) returning id", owner, `tank ${i}`).id,
     );
     for (const tankId of tankIds.slice(0, 2)) {
       const scenario = one<{ id: number }>(
@@ -55,8 +62,12 @@ describe("migration 0013: the tanks table is rebuilt without losing what hangs o
         )
         .run(scenario);
       sqlite.prepare("insert into readings (tank_id, taken_at, nitrate) values (?, 0, 2)").run(tankId);
-      sqlite.prepare("insert into journal_entries (tank_id, done_at, kind, details) values (?, 0, 'waterChange', '{}')").run(tankId);
-      sqlite.prepare("insert into share_links (scenario_id, token_hash) values (?, ?)").run(scenario, `hash-${scenario}`);
+      sqlite
+        .prepare("insert into journal_entries (tank_id, done_at, kind, details) values (?, 0, 'waterChange', '{}')")
+        .run(tankId);
+      sqlite
+        .prepare("insert into share_links (scenario_id, token_hash) values (?, ?)")
+        .run(scenario, `hash-${scenario}`);
     }
     sqlite.prepare("delete from tanks where id = ?").run(tankIds[2]); // the newest tank is gone; its id must not come back
     const before = rowCounts(sqlite);
@@ -72,8 +83,14 @@ describe("migration 0013: the tanks table is rebuilt without losing what hangs o
     const next = one<{ id: number }>("insert into tanks (owner_id, name) values (?, 'after') returning id", owner).id;
     expect(next).toBeGreaterThan(tankIds[2]);
     // The column default is now the band a new tank gets: 5 and 20 mg/L NO3 exactly (common practice, no source).
-    const band = one<{ low: number; high: number }>("select nitrate_target_low as low, nitrate_target_high as high from tanks where id = ?", next);
-    expect(band).toEqual({ low: DEFAULT_NITRATE_TARGETS.nitrateTargetLow, high: DEFAULT_NITRATE_TARGETS.nitrateTargetHigh });
+    const band = one<{ low: number; high: number }>(
+      "select nitrate_target_low as low, nitrate_target_high as high from tanks where id = ?",
+      next,
+    );
+    expect(band).toEqual({
+      low: DEFAULT_NITRATE_TARGETS.nitrateTargetLow,
+      high: DEFAULT_NITRATE_TARGETS.nitrateTargetHigh,
+    });
     expect([typedTarget(band.low, NO3), typedTarget(band.high, NO3)]).toEqual([5, 20]);
     // Deleting a tank still cascades after the rebuild (the references were kept, not dropped).
     sqlite.prepare("delete from tanks where id = ?").run(tankIds[0]);
@@ -85,7 +102,9 @@ describe("migration 0013: the tanks table is rebuilt without losing what hangs o
     const { sqlite, db } = databaseBefore("0013_exact_default_targets");
     // A database already broken this way (a scenario whose tank is gone, written with keys off).
     sqlite.pragma("foreign_keys = OFF");
-    sqlite.prepare("insert into scenarios (tank_id, name, settings, schema_version) values (999, 'orphan', '{}', 1)").run();
+    sqlite
+      .prepare("insert into scenarios (tank_id, name, settings, schema_version) values (999, 'orphan', '{}', 1)")
+      .run();
     sqlite.pragma("foreign_keys = ON");
     expect(() => migrateDb(db)).toThrow(/1 rows refer to rows that do not exist \(first: scenarios row \d+ -> tanks\)/);
     sqlite.close();

@@ -10,7 +10,10 @@ import { userWithCookie } from "../support/users";
 vi.mock("~/features/runs/simulation.server", async (importOriginal) => {
   const original = await importOriginal<typeof import("~/features/runs/simulation.server")>();
   const fail = async () => {
-    throw new ModelError("MAX_STEPS", "The model could not settle: the plants' uptake is far outside the usual range. Check the growth rate.");
+    throw new ModelError(
+      "MAX_STEPS",
+      "The model could not settle: the plants' uptake is far outside the usual range. Check the growth rate.",
+    );
   };
   // Saving runs for storage; a preview or a view runs plain.
   return { ...original, runEngine: vi.fn(fail), runEngineForStorage: vi.fn(fail) };
@@ -21,7 +24,11 @@ describe("a model error on save", () => {
     const keeper = await userWithCookie();
     const tankId = String(createTank(keeper.id));
     const before = countScenarios();
-    const result = await call(newAction, post(`/tanks/${tankId}/scenarios/new`, setupFormFields({ name: "Will fail" }), keeper.cookie), { tankId });
+    const result = await call(
+      newAction,
+      post(`/tanks/${tankId}/scenarios/new`, setupFormFields({ name: "Will fail" }), keeper.cookie),
+      { tankId },
+    );
     expect(result.status).toBe(400);
     expect(result.data.errors[""]).toMatch(/could not run these settings: The model could not settle/);
     expect(result.data.form.name).toBe("Will fail");

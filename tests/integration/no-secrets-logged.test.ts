@@ -15,7 +15,10 @@ const methods = ["log", "info", "warn", "debug"] as const;
 const spies: { mockRestore: () => void }[] = [];
 
 beforeEach(() => {
-  for (const m of methods) spies.push(vi.spyOn(console, m).mockImplementation((...args: unknown[]) => void printed.push(args.map(String).join(" "))));
+  for (const m of methods)
+    spies.push(
+      vi.spyOn(console, m).mockImplementation((...args: unknown[]) => void printed.push(args.map(String).join(" "))),
+    );
   const write = process.stdout.write.bind(process.stdout);
   spies.push(
     vi.spyOn(process.stdout, "write").mockImplementation(((chunk: string | Uint8Array, ...rest: unknown[]) => {
@@ -31,13 +34,28 @@ describe("secrets stay out of the logs", () => {
     const stop = (await startMailFake()).close;
     const first = "first secret passphrase 41";
     const second = "second secret passphrase 42";
-    await call(signUpAction, post("/sign-up", { name: "Quiet", email: "quiet@example.org", password: first, confirmPassword: first }));
+    await call(
+      signUpAction,
+      post("/sign-up", { name: "Quiet", email: "quiet@example.org", password: first, confirmPassword: first }),
+    );
     const link = (await waitForMail("quiet@example.org")).links.find((l) => l.includes("/sign-up/confirm?token="))!;
     const up = await call(confirmAction, post("/sign-up/confirm", { token: new URL(link).searchParams.get("token")! }));
     const cookie = cookieFrom(up);
-    await call(signInAction, post("/sign-in", { email: "quiet@example.org", password: "wrong " + first }), {}, "192.0.2.77");
+    await call(
+      signInAction,
+      post("/sign-in", { email: "quiet@example.org", password: "wrong " + first }),
+      {},
+      "192.0.2.77",
+    );
     await call(signInAction, post("/sign-in", { email: "quiet@example.org", password: first }), {}, "192.0.2.78");
-    await call(accountAction, post("/account", { intent: "password", currentPassword: first, password: second, confirmPassword: second }, cookie));
+    await call(
+      accountAction,
+      post(
+        "/account",
+        { intent: "password", currentPassword: first, password: second, confirmPassword: second },
+        cookie,
+      ),
+    );
     await call(forgotAction, post("/forgot-password", { email: "quiet@example.org" }));
     await new Promise((r) => setTimeout(r, 300));
     await stop();

@@ -3,7 +3,18 @@
  */
 import { beforeAll, describe, expect, it } from "vitest";
 import { call } from "../support/routes";
-import { answerOf, buildWorld, fill, handlerOf, people, PERMISSION_MATRIX, request, ROUTE_FILES, VISITORS, type Answer } from "../support/route-world";
+import {
+  answerOf,
+  buildWorld,
+  fill,
+  handlerOf,
+  people,
+  PERMISSION_MATRIX,
+  request,
+  ROUTE_FILES,
+  VISITORS,
+  type Answer,
+} from "../support/route-world";
 import { signIn } from "../support/users";
 
 beforeAll(buildWorld, 60_000);
@@ -21,7 +32,9 @@ describe("the permission matrix", () => {
         const result = await call(handler, request(row, cookie), fill(row.path).params, row.ip ?? "198.51.100.9");
         got.push(answerOf(result.status, result.location));
       }
-      expect(Object.fromEntries(VISITORS.map((v, i) => [v, got[i]]))).toEqual(Object.fromEntries(VISITORS.map((v, i) => [v, row.expect[i]])));
+      expect(Object.fromEntries(VISITORS.map((v, i) => [v, got[i]]))).toEqual(
+        Object.fromEntries(VISITORS.map((v, i) => [v, row.expect[i]])),
+      );
     });
   }
 
@@ -31,9 +44,13 @@ describe("the permission matrix", () => {
       const mod = await import(/* @vite-ignore */ `../../app/${file}`);
       for (const handler of ["loader", "action"] as const) {
         if (typeof mod[handler] !== "function") continue;
-        if (!PERMISSION_MATRIX.some((r) => r.file === file && r.handler === handler)) missing.push(`${file} ${handler}`);
+        if (!PERMISSION_MATRIX.some((r) => r.file === file && r.handler === handler))
+          missing.push(`${file} ${handler}`);
       }
     }
-    expect(missing, "Add a row to PERMISSION_MATRIX (tests/integration/permission-matrix.test.ts) for each of these").toEqual([]);
+    expect(
+      missing,
+      "Add a row to PERMISSION_MATRIX (tests/integration/permission-matrix.test.ts) for each of these",
+    ).toEqual([]);
   });
 });

@@ -55,10 +55,21 @@ function useQueue(taskWaitMs?: number): string {
 }
 
 // A year at hourly points: each run takes long enough (tens of ms) that a kill lands mid-sweep.
-const scenario = ScenarioSchema.parse({ fish: { feedGPerDay: 1, proteinFraction: 0.42 }, run: { lengthDays: 365, outputIntervalDays: 1 / 24 } });
+const scenario = ScenarioSchema.parse({
+  fish: { feedGPerDay: 1, proteinFraction: 0.42 },
+  run: { lengthDays: 365, outputIntervalDays: 1 / 24 },
+});
 const units = displayUnitsFor(DEFAULT_PREFERENCES);
 const sweep = (userId: number) =>
-  startJob(sweepJob({ id: userId }, 1, scenario, { setting: "fish.feedGPerDay", from: 0.2, to: 2, points: 30, outcome: "nitrateEnd" }, units));
+  startJob(
+    sweepJob(
+      { id: userId },
+      1,
+      scenario,
+      { setting: "fish.feedGPerDay", from: 0.2, to: 2, points: 30, outcome: "nitrateEnd" },
+      units,
+    ),
+  );
 
 async function settled(job: Job, ms: number): Promise<Job> {
   const deadline = Date.now() + ms;

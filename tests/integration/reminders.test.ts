@@ -82,15 +82,21 @@ describe("e-mail reminders", () => {
     const now = Date.now();
     const id = row(tankId)!.id;
     // A real second process on the same SQLite file claims the reminder and is killed before it sends.
-    const child = spawn(process.execPath, ["--import", "tsx", "tests/support/claim-then-die.ts", String(id), String(now)], {
-      env: process.env,
-      stdio: ["ignore", "pipe", "pipe"],
-    });
+    const child = spawn(
+      process.execPath,
+      ["--import", "tsx", "tests/support/claim-then-die.ts", String(id), String(now)],
+      {
+        env: process.env,
+        stdio: ["ignore", "pipe", "pipe"],
+      },
+    );
     let out = "";
     child.stdout.on("data", (chunk) => (out += chunk));
     let err = "";
     child.stderr.on("data", (chunk) => (err += chunk));
-    const signal = await new Promise<NodeJS.Signals | null>((resolve) => child.on("exit", (_code, sig) => resolve(sig)));
+    const signal = await new Promise<NodeJS.Signals | null>((resolve) =>
+      child.on("exit", (_code, sig) => resolve(sig)),
+    );
     expect(err).toBe("");
     expect(out).toBe("claimed\n");
     expect(signal).toBe("SIGKILL");
@@ -117,28 +123,36 @@ describe("e-mail reminders", () => {
     expect(mail.headers?.["list-unsubscribe"]).toBe(`<${link}>`);
     const token = link.split("/").at(-1)!;
     const tampered = token.slice(0, -2) + (token.endsWith("AA") ? "BB" : "AA");
-    expect((await call(unsubscribeLoader, get(`/reminders/unsubscribe/${tampered}`), { token: tampered })).status).toBe(404);
-    expect((await call(unsubscribeAction, post(`/reminders/unsubscribe/${tampered}`, {}), { token: tampered })).status).toBe(404);
+    expect((await call(unsubscribeLoader, get(`/reminders/unsubscribe/${tampered}`), { token: tampered })).status).toBe(
+      404,
+    );
+    expect(
+      (await call(unsubscribeAction, post(`/reminders/unsubscribe/${tampered}`, {}), { token: tampered })).status,
+    ).toBe(404);
     expect(row(tankId)).toBeDefined();
     const page = await call(unsubscribeLoader, get(`/reminders/unsubscribe/${token}`), { token });
     expect(page.data.tankName).toBe("Reminder tank");
     expect(row(tankId)).toBeDefined();
-    await call(
-      unsubscribeAction,
-      post(`/reminders/unsubscribe/${token}`, { "List-Unsubscribe": "One-Click" }),
-      { token },
-    );
+    await call(unsubscribeAction, post(`/reminders/unsubscribe/${token}`, { "List-Unsubscribe": "One-Click" }), {
+      token,
+    });
     expect(row(tankId)).toBeUndefined();
   });
 
   it("refuses another keeper's tank, and a bad hour with a message by the field", async () => {
     const { tankId } = await subscribed();
     const other = await userWithCookie();
-    const r = await call(accountAction, post("/account", { intent: "reminders", tankId, mode: "off", hour: 8 }, other.cookie));
+    const r = await call(
+      accountAction,
+      post("/account", { intent: "reminders", tankId, mode: "off", hour: 8 }, other.cookie),
+    );
     expect(r.status).toBe(400);
     expect(r.data.errors.tankId).toMatch(/No such tank/);
     expect(row(tankId)).toBeDefined();
-    const bad = await call(accountAction, post("/account", { intent: "reminders", tankId, mode: "weekly", hour: 24 }, other.cookie));
+    const bad = await call(
+      accountAction,
+      post("/account", { intent: "reminders", tankId, mode: "weekly", hour: 24 }, other.cookie),
+    );
     expect(bad.data.errors.hour).toMatch(/0 to 23/);
   });
 });

@@ -22,14 +22,22 @@ describe("tanks", () => {
     const tankId = made.location!.split("/").pop()!;
     const renamed = await call(
       tankAction,
-      post(`/tanks/${tankId}`, { intent: "settings", name: "Hallway tank", notes: "", nitrateLow: 5, nitrateHigh: 20 }, keeper.cookie),
+      post(
+        `/tanks/${tankId}`,
+        { intent: "settings", name: "Hallway tank", notes: "", nitrateLow: 5, nitrateHigh: 20 },
+        keeper.cookie,
+      ),
       { tankId },
     );
     expect(renamed.status).toBe(302);
     const list = await call(tanksLoader, get("/tanks", keeper.cookie));
     expect(list.data.tanks.map((t: { name: string }) => t.name)).toEqual(["Hallway tank"]);
     // 20 mg/L as NO3 is stored as 4.518 mg N/L (WHO/molar masses: NO3 → N × 0.22590).
-    const row = getDb().select().from(tanks).where(eq(tanks.id, Number(tankId))).get()!;
+    const row = getDb()
+      .select()
+      .from(tanks)
+      .where(eq(tanks.id, Number(tankId)))
+      .get()!;
     expect(row.nitrateTargetHigh).toBeCloseTo(20 * 0.2259, 3);
   });
 
@@ -38,7 +46,11 @@ describe("tanks", () => {
     const tankId = String(createTank(keeper.id));
     const bad = await call(
       tankAction,
-      post(`/tanks/${tankId}`, { intent: "settings", name: "T", notes: "", nitrateLow: 30, nitrateHigh: 10 }, keeper.cookie),
+      post(
+        `/tanks/${tankId}`,
+        { intent: "settings", name: "T", notes: "", nitrateLow: 30, nitrateHigh: 10 },
+        keeper.cookie,
+      ),
       { tankId },
     );
     expect(bad.status).toBe(400);
@@ -50,13 +62,19 @@ describe("tanks", () => {
     const tankId = createTank(keeper.id);
     await createScenario(keeper.id, tankId, { run: { lengthDays: 30 } });
     getDb().insert(readings).values({ tankId, takenAt: new Date(), nitrate: 3 }).run();
-    const unconfirmed = await call(tankAction, post(`/tanks/${tankId}`, { intent: "delete-tank" }, keeper.cookie), { tankId: String(tankId) });
+    const unconfirmed = await call(tankAction, post(`/tanks/${tankId}`, { intent: "delete-tank" }, keeper.cookie), {
+      tankId: String(tankId),
+    });
     expect(unconfirmed.status).toBe(400);
     expect(unconfirmed.data.errors.confirm).toMatch(/Tick the box/);
     expect(getDb().select().from(tanks).where(eq(tanks.id, tankId)).all()).toHaveLength(1);
-    const done = await call(tankAction, post(`/tanks/${tankId}`, { intent: "delete-tank", confirm: "yes" }, keeper.cookie), {
-      tankId: String(tankId),
-    });
+    const done = await call(
+      tankAction,
+      post(`/tanks/${tankId}`, { intent: "delete-tank", confirm: "yes" }, keeper.cookie),
+      {
+        tankId: String(tankId),
+      },
+    );
     expect(done.status).toBe(302);
     expect(getDb().select().from(tanks).where(eq(tanks.id, tankId)).all()).toHaveLength(0);
     expect(getDb().select().from(scenarios).where(eq(scenarios.tankId, tankId)).all()).toHaveLength(0);
@@ -68,7 +86,13 @@ describe("tanks", () => {
     const other = await userWithCookie();
     const tankId = String(createTank(owner.id));
     expect((await call(tankLoader, get(`/tanks/${tankId}`, other.cookie), { tankId })).status).toBe(404);
-    expect((await call(tankAction, post(`/tanks/${tankId}`, { intent: "delete-tank", confirm: "yes" }, other.cookie), { tankId })).status).toBe(404);
+    expect(
+      (
+        await call(tankAction, post(`/tanks/${tankId}`, { intent: "delete-tank", confirm: "yes" }, other.cookie), {
+          tankId,
+        })
+      ).status,
+    ).toBe(404);
     expect((await call(tankLoader, get(`/tanks/${tankId}`), { tankId })).status).toBe(302);
     expect((await call(tankLoader, get(`/tanks/abc`, owner.cookie), { tankId: "abc" })).status).toBe(404);
   });
@@ -78,19 +102,35 @@ describe("scenario setup", () => {
   it("saves a valid form, runs the engine in the action and redirects to the results", async () => {
     const keeper = await userWithCookie();
     const tankId = String(createTank(keeper.id));
-    const result = await call(newAction, post(`/tanks/${tankId}/scenarios/new`, setupFormFields(), keeper.cookie), { tankId });
+    const result = await call(newAction, post(`/tanks/${tankId}/scenarios/new`, setupFormFields(), keeper.cookie), {
+      tankId,
+    });
     expect(result.status).toBe(302);
     const scenarioId = result.location!.split("/").pop()!;
-    const row = getDb().select().from(scenarios).where(eq(scenarios.id, Number(scenarioId))).get()!;
-    const settings = row.settings as { fish: { proteinFraction: number }; maintenance: { waterChangeFraction: number } };
+    const row = getDb()
+      .select()
+      .from(scenarios)
+      .where(eq(scenarios.id, Number(scenarioId)))
+      .get()!;
+    const settings = row.settings as {
+      fish: { proteinFraction: number };
+      maintenance: { waterChangeFraction: number };
+    };
     // Shares are typed in percent and stored as fractions.
     expect(settings.fish.proteinFraction).toBeCloseTo(0.42, 10);
     expect(settings.maintenance.waterChangeFraction).toBeCloseTo(0.25, 10);
-    const stored = getDb().select().from(runs).where(eq(runs.scenarioId, Number(scenarioId))).all();
+    const stored = getDb()
+      .select()
+      .from(runs)
+      .where(eq(runs.scenarioId, Number(scenarioId)))
+      .all();
     expect(stored).toHaveLength(1);
 
     // Opening the results reuses the stored run.
-    const page = await call(resultsLoader, get(`/tanks/${tankId}/scenarios/${scenarioId}`, keeper.cookie), { tankId, scenarioId });
+    const page = await call(resultsLoader, get(`/tanks/${tankId}/scenarios/${scenarioId}`, keeper.cookie), {
+      tankId,
+      scenarioId,
+    });
     expect(page.status).toBe(200);
     expect(page.data.results.runId).toBe(stored[0].id);
     expect(page.data.results.packedSeries.t.split(",").length).toBeGreaterThan(60);
@@ -98,15 +138,27 @@ describe("scenario setup", () => {
 
   it("converts US gallons, °F and nitrate as NO3 to the engine's units", async () => {
     const keeper = await userWithCookie();
-    getDb().update((await import("~/db/schema")).users).set({ volumeUnit: "usgal", temperatureUnit: "F" }).where(eq((await import("~/db/schema")).users.id, keeper.id)).run();
+    getDb()
+      .update((await import("~/db/schema")).users)
+      .set({ volumeUnit: "usgal", temperatureUnit: "F" })
+      .where(eq((await import("~/db/schema")).users.id, keeper.id))
+      .run();
     const tankId = String(createTank(keeper.id));
     const result = await call(
       newAction,
-      post(`/tanks/${tankId}/scenarios/new`, setupFormFields({ "water.volumeL": 10, "water.temperatureC": 77, "water.startNitrate": 50 }), keeper.cookie),
+      post(
+        `/tanks/${tankId}/scenarios/new`,
+        setupFormFields({ "water.volumeL": 10, "water.temperatureC": 77, "water.startNitrate": 50 }),
+        keeper.cookie,
+      ),
       { tankId },
     );
     expect(result.status).toBe(302);
-    const row = getDb().select().from(scenarios).where(eq(scenarios.id, Number(result.location!.split("/").pop()))).get()!;
+    const row = getDb()
+      .select()
+      .from(scenarios)
+      .where(eq(scenarios.id, Number(result.location!.split("/").pop())))
+      .get()!;
     const water = (row.settings as { water: { volumeL: number; temperatureC: number; startNitrate: number } }).water;
     expect(water.volumeL).toBeCloseTo(37.85411784, 6); // NIST SP 811: US gallon = 3.785411784 L exactly
     expect(water.temperatureC).toBeCloseTo(25, 6); // 77 °F = 25 °C (definition of the scales)
@@ -143,7 +195,11 @@ describe("scenario setup", () => {
     const before = countScenarios();
     const added = await call(
       newAction,
-      post(`/tanks/${tankId}/scenarios/new`, setupFormFields({ intent: "add-plant", newPlantForm: "floating" }), keeper.cookie),
+      post(
+        `/tanks/${tankId}/scenarios/new`,
+        setupFormFields({ intent: "add-plant", newPlantForm: "floating" }),
+        keeper.cookie,
+      ),
       { tankId },
     );
     expect(added.status).toBe(200);
@@ -151,7 +207,9 @@ describe("scenario setup", () => {
     const growthForm = added.data.form.plants[0].fields.find((f: { name: string }) => f.name === "plants.0.growthForm");
     expect(growthForm.value).toBe("floating");
     // The typed values survive the round trip.
-    expect(added.data.form.sections[0].fields.find((f: { name: string }) => f.name === "water.volumeL").value).toBe("100");
+    expect(added.data.form.sections[0].fields.find((f: { name: string }) => f.name === "water.volumeL").value).toBe(
+      "100",
+    );
 
     const withRows = setupFormFields({
       intent: "remove-plant:0",
@@ -167,9 +225,16 @@ describe("scenario setup", () => {
 
   it("edits a scenario without drifting untouched values, and saves as new on request", async () => {
     const keeper = await userWithCookie();
-    getDb().update((await import("~/db/schema")).users).set({ volumeUnit: "impgal" }).where(eq((await import("~/db/schema")).users.id, keeper.id)).run();
+    getDb()
+      .update((await import("~/db/schema")).users)
+      .set({ volumeUnit: "impgal" })
+      .where(eq((await import("~/db/schema")).users.id, keeper.id))
+      .run();
     const tankId = createTank(keeper.id);
-    const scenarioId = await createScenario(keeper.id, tankId, { water: { volumeL: 123.456 }, run: { lengthDays: 30 } });
+    const scenarioId = await createScenario(keeper.id, tankId, {
+      water: { volumeL: 123.456 },
+      run: { lengthDays: 30 },
+    });
     const params = { tankId: String(tankId), scenarioId: String(scenarioId) };
     const page = await call(editLoader, get(`/tanks/${tankId}/scenarios/${scenarioId}/edit`, keeper.cookie), params);
     const fields: Record<string, string> = { intent: "save", name: "Renamed" };
@@ -178,14 +243,26 @@ describe("scenario setup", () => {
       fields[`plants.${row.index}.id`] = row.id;
       for (const f of row.fields) fields[f.name] = f.value;
     }
-    const saved = await call(editAction, post(`/tanks/${tankId}/scenarios/${scenarioId}/edit`, fields, keeper.cookie), params);
+    const saved = await call(
+      editAction,
+      post(`/tanks/${tankId}/scenarios/${scenarioId}/edit`, fields, keeper.cookie),
+      params,
+    );
     expect(saved.data?.errors).toBeUndefined();
     expect(saved.status).toBe(302);
     const row = getDb().select().from(scenarios).where(eq(scenarios.id, scenarioId)).get()!;
     expect(row.name).toBe("Renamed");
     expect((row.settings as { water: { volumeL: number } }).water.volumeL).toBe(123.456);
 
-    const copy = await call(editAction, post(`/tanks/${tankId}/scenarios/${scenarioId}/edit`, { ...fields, intent: "save-as-new", name: "Copy" }, keeper.cookie), params);
+    const copy = await call(
+      editAction,
+      post(
+        `/tanks/${tankId}/scenarios/${scenarioId}/edit`,
+        { ...fields, intent: "save-as-new", name: "Copy" },
+        keeper.cookie,
+      ),
+      params,
+    );
     expect(copy.status).toBe(302);
     expect(copy.location).not.toBe(`/tanks/${tankId}/scenarios/${scenarioId}`);
     expect(getDb().select().from(scenarios).where(eq(scenarios.tankId, tankId)).all()).toHaveLength(2);
@@ -197,23 +274,45 @@ describe("scenario setup", () => {
     const tankId = createTank(owner.id);
     const scenarioId = await createScenario(owner.id, tankId, { run: { lengthDays: 20 } });
     const params = { tankId: String(tankId), scenarioId: String(scenarioId) };
-    expect((await call(resultsLoader, get(`/tanks/${tankId}/scenarios/${scenarioId}`, other.cookie), params)).status).toBe(404);
-    expect((await call(editAction, post(`/tanks/${tankId}/scenarios/${scenarioId}/edit`, setupFormFields(), other.cookie), params)).status).toBe(404);
-    expect((await call(newLoader, get(`/tanks/${tankId}/scenarios/new`, other.cookie), { tankId: String(tankId) })).status).toBe(404);
+    expect(
+      (await call(resultsLoader, get(`/tanks/${tankId}/scenarios/${scenarioId}`, other.cookie), params)).status,
+    ).toBe(404);
+    expect(
+      (
+        await call(
+          editAction,
+          post(`/tanks/${tankId}/scenarios/${scenarioId}/edit`, setupFormFields(), other.cookie),
+          params,
+        )
+      ).status,
+    ).toBe(404);
+    expect(
+      (await call(newLoader, get(`/tanks/${tankId}/scenarios/new`, other.cookie), { tankId: String(tankId) })).status,
+    ).toBe(404);
     // A scenario of another tank of the same owner is not reachable under the wrong tank either.
     const secondTank = createTank(owner.id);
     expect(
-      (await call(resultsLoader, get(`/tanks/${secondTank}/scenarios/${scenarioId}`, owner.cookie), { tankId: String(secondTank), scenarioId: String(scenarioId) }))
-        .status,
+      (
+        await call(resultsLoader, get(`/tanks/${secondTank}/scenarios/${scenarioId}`, owner.cookie), {
+          tankId: String(secondTank),
+          scenarioId: String(scenarioId),
+        })
+      ).status,
     ).toBe(404);
   });
 
   it("starts the new-scenario form from a preset", async () => {
     const keeper = await userWithCookie();
     const tankId = String(createTank(keeper.id));
-    const page = await call(newLoader, get(`/tanks/${tankId}/scenarios/new?preset=first-light-fishless`, keeper.cookie), { tankId });
+    const page = await call(
+      newLoader,
+      get(`/tanks/${tankId}/scenarios/new?preset=first-light-fishless`, keeper.cookie),
+      { tankId },
+    );
     expect(page.data.presetId).toBe("first-light-fishless");
-    const fishless = page.data.form.sections.find((s: { id: string }) => s.id === "fish").fields.find((f: { name: string }) => f.name === "fishlessCycling.enabled");
+    const fishless = page.data.form.sections
+      .find((s: { id: string }) => s.id === "fish")
+      .fields.find((f: { name: string }) => f.name === "fishlessCycling.enabled");
     expect(fishless.value).toBe("true");
     expect(page.data.presets.length).toBeGreaterThanOrEqual(4);
   });

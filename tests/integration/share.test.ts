@@ -32,18 +32,26 @@ async function sharedScenario(input = {}) {
 const open = (token: string, cookie?: string) => call(publicLoader, get(`/s/${token}`, cookie), { token });
 
 /** Runs the share route's middleware as the router would, with a stand-in for the rest of the request. */
-async function throughMiddleware(token: string, headers: Record<string, string> = {}, variant: "data" | "html" = "data") {
+async function throughMiddleware(
+  token: string,
+  headers: Record<string, string> = {},
+  variant: "data" | "html" = "data",
+) {
   let rendered = 0;
   const request = new Request(`${ORIGIN}/s/${token}${variant === "data" ? ".data" : ""}`, { headers });
-  const response = (await middleware[0]({ request, params: { token }, context: undefined as never } as never, async () => {
-    rendered++;
-    return new Response("<html>page</html>", { status: 200, headers: { "Content-Type": "text/html" } });
-  })) as Response;
+  const response = (await middleware[0](
+    { request, params: { token }, context: undefined as never } as never,
+    async () => {
+      rendered++;
+      return new Response("<html>page</html>", { status: 200, headers: { "Content-Type": "text/html" } });
+    },
+  )) as Response;
   return { response, rendered };
 }
 
 /** The chart series a read-only view sends (packed into strings on the wire). */
-const seriesOf = (view: { results: { packedSeries: Parameters<typeof unpackSeries>[0] } }) => unpackSeries(view.results.packedSeries);
+const seriesOf = (view: { results: { packedSeries: Parameters<typeof unpackSeries>[0] } }) =>
+  unpackSeries(view.results.packedSeries);
 
 describe("share links: the owner's controls", () => {
   it("makes a link with an unguessable token stored only as its hash", async () => {
@@ -100,7 +108,9 @@ describe("share links: the public page", () => {
     expect(page.data.viewer).toBeNull();
     expect(page.data.view.results.labels.nitrate).toBe("mg/L NO3");
     expect(seriesOf(page.data.view).t.length).toBeGreaterThan(40);
-    expect(page.data.view.settings.sections.find((s: { id: string }) => s.id === "water").fields.length).toBeGreaterThan(3);
+    expect(
+      page.data.view.settings.sections.find((s: { id: string }) => s.id === "water").fields.length,
+    ).toBeGreaterThan(3);
     // Nothing about the owner or their tank travels to the page.
     expect(JSON.stringify(page.data)).not.toContain("Hall tank");
     expect(JSON.stringify(page.data)).not.toMatch(/@example\.org/);
@@ -125,7 +135,9 @@ describe("share links: the public page", () => {
     const tags = publicMeta({ data: page.data } as never) as Record<string, string>[];
     const find = (key: string, value: string) => tags.find((t) => t[key] === value)?.content;
     expect(find("property", "og:title")).toBe("Fewer meals · shared on Fernwater");
-    expect(find("property", "og:description")).toMatch(/^Simulated nitrogen over 40 days: nitrate ends at [\d.]+ mg\/L NO3/);
+    expect(find("property", "og:description")).toMatch(
+      /^Simulated nitrogen over 40 days: nitrate ends at [\d.]+ mg\/L NO3/,
+    );
     expect(find("name", "robots")).toMatch(/noindex/);
     expect(find("property", "og:url")).toBe(`${ORIGIN}/s/${token}`);
     // The link-preview picture (issue 12, item 8): an absolute address, its size and words for it.
@@ -192,7 +204,11 @@ describe("share links: the public page", () => {
     expect(repeat.response.status).toBe(304);
     expect(repeat.rendered).toBe(0);
     // Saving the scenario changes the tag, so the page is rendered again.
-    getDb().update(scenarios).set({ updatedAt: new Date(Date.now() + 1000) }).where(eq(scenarios.id, scenarioId)).run();
+    getDb()
+      .update(scenarios)
+      .set({ updatedAt: new Date(Date.now() + 1000) })
+      .where(eq(scenarios.id, scenarioId))
+      .run();
     const changed = await throughMiddleware(token, { "If-None-Match": tag });
     expect(changed.rendered).toBe(1);
     expect(changed.response.headers.get("ETag")).not.toBe(tag);
@@ -225,12 +241,22 @@ describe("share links: copy to my tanks", () => {
     const visitor = await userWithCookie();
     const page = await open(token, visitor.cookie);
     expect(page.data.myTanks).toEqual([]);
-    const result = await call(publicAction, post(`/s/${token}`, { intent: "copy", tankId: "new" }, visitor.cookie), { token });
+    const result = await call(publicAction, post(`/s/${token}`, { intent: "copy", tankId: "new" }, visitor.cookie), {
+      token,
+    });
     expect(result.status).toBe(302);
     const [, , tankId, , copyId] = result.location!.split("/");
-    const tank = getDb().select().from(tanks).where(eq(tanks.id, Number(tankId))).get()!;
+    const tank = getDb()
+      .select()
+      .from(tanks)
+      .where(eq(tanks.id, Number(tankId)))
+      .get()!;
     expect(tank).toMatchObject({ ownerId: visitor.id, name: "Shared with me" });
-    const copy = getDb().select().from(scenarios).where(eq(scenarios.id, Number(copyId))).get()!;
+    const copy = getDb()
+      .select()
+      .from(scenarios)
+      .where(eq(scenarios.id, Number(copyId)))
+      .get()!;
     const source = getDb().select().from(scenarios).where(eq(scenarios.id, scenarioId)).get()!;
     expect(copy.copiedFromId).toBe(scenarioId);
     expect(copy.name).toBe(source.name);
@@ -243,12 +269,20 @@ describe("share links: copy to my tanks", () => {
     const token = await turnOn();
     const visitor = await userWithCookie();
     const mine = createTank(visitor.id, "Bedroom tank");
-    const forged = await call(publicAction, post(`/s/${token}`, { intent: "copy", tankId: ownersTank }, visitor.cookie), { token });
+    const forged = await call(
+      publicAction,
+      post(`/s/${token}`, { intent: "copy", tankId: ownersTank }, visitor.cookie),
+      { token },
+    );
     expect(forged.status).toBe(404);
-    const bad = await call(publicAction, post(`/s/${token}`, { intent: "copy", tankId: "-3" }, visitor.cookie), { token });
+    const bad = await call(publicAction, post(`/s/${token}`, { intent: "copy", tankId: "-3" }, visitor.cookie), {
+      token,
+    });
     expect(bad.status).toBe(400);
     expect(bad.data.errors.tankId).toMatch(/Choose one of your tanks/);
-    const done = await call(publicAction, post(`/s/${token}`, { intent: "copy", tankId: mine }, visitor.cookie), { token });
+    const done = await call(publicAction, post(`/s/${token}`, { intent: "copy", tankId: mine }, visitor.cookie), {
+      token,
+    });
     expect(done.status).toBe(302);
     expect(done.location).toMatch(new RegExp(`^/tanks/${mine}/scenarios/\\d+$`));
     expect(owner.id).not.toBe(visitor.id);
@@ -259,7 +293,10 @@ describe("share links: copy to my tanks", () => {
     const token = await turnOn();
     await call(manageAction, post(path, { intent: "off" }, owner.cookie), params);
     const visitor = await userWithCookie();
-    expect((await call(publicAction, post(`/s/${token}`, { intent: "copy", tankId: "new" }, visitor.cookie), { token })).status).toBe(404);
+    expect(
+      (await call(publicAction, post(`/s/${token}`, { intent: "copy", tankId: "new" }, visitor.cookie), { token }))
+        .status,
+    ).toBe(404);
   });
 });
 
@@ -273,13 +310,19 @@ describe("admin: public links", () => {
     expect(row).toMatchObject({ scenarioName: "Fewer meals", takenDownAt: null });
     expect(row.createdAt).toMatch(/^\d{4}-\d{2}-\d{2}$/);
     // Finding a reported link by its pasted address.
-    const found = await call(adminLinksLoader, get(`/admin/links?link=${encodeURIComponent(`${ORIGIN}/s/${token}`)}`, admin.cookie));
+    const found = await call(
+      adminLinksLoader,
+      get(`/admin/links?link=${encodeURIComponent(`${ORIGIN}/s/${token}`)}`, admin.cookie),
+    );
     expect(found.data.search.foundId).toBe(row.id);
     const review = await call(adminLinkLoader, get(`/admin/links/${row.id}`, admin.cookie), { linkId: String(row.id) });
     expect(review.status).toBe(200);
     expect(seriesOf(review.data.view).t.length).toBeGreaterThan(0);
 
-    const noReason = await call(adminLinksAction, post("/admin/links", { intent: "take-down", linkId: row.id, reason: " " }, admin.cookie));
+    const noReason = await call(
+      adminLinksAction,
+      post("/admin/links", { intent: "take-down", linkId: row.id, reason: " " }, admin.cookie),
+    );
     expect(noReason.status).toBe(400);
     expect(noReason.data.errors.reason).toMatch(/owner reads it/);
     const down = await call(
@@ -305,10 +348,16 @@ describe("admin: public links", () => {
     const again = await call(manageAction, post(path, { intent: "make" }, owner.cookie), params);
     expect(again.status).toBe(400);
     expect(getDb().select().from(shareLinks).where(eq(shareLinks.scenarioId, scenarioId)).all()).toHaveLength(1);
-    const twice = await call(adminLinksAction, post("/admin/links", { intent: "take-down", linkId: row.id, reason: "Again" }, admin.cookie));
+    const twice = await call(
+      adminLinksAction,
+      post("/admin/links", { intent: "take-down", linkId: row.id, reason: "Again" }, admin.cookie),
+    );
     expect(twice.status).toBe(400);
 
-    const restored = await call(adminLinksAction, post("/admin/links", { intent: "restore", linkId: row.id }, admin.cookie));
+    const restored = await call(
+      adminLinksAction,
+      post("/admin/links", { intent: "restore", linkId: row.id }, admin.cookie),
+    );
     expect(restored.status).toBe(200);
     expect((await open(token)).status).toBe(200);
   });
@@ -322,7 +371,10 @@ describe("admin: public links", () => {
     expect((await call(adminLinksLoader, get("/admin/links", keeper.cookie))).status).toBe(403);
     expect((await call(adminLinksLoader, get("/admin/links", educator.cookie))).status).toBe(403);
     const link = getDb().select().from(shareLinks).get()!;
-    const forged = await call(adminLinksAction, post("/admin/links", { intent: "take-down", linkId: link.id, reason: "mine now" }, keeper.cookie));
+    const forged = await call(
+      adminLinksAction,
+      post("/admin/links", { intent: "take-down", linkId: link.id, reason: "mine now" }, keeper.cookie),
+    );
     expect(forged.status).toBe(403);
     expect(getDb().select().from(shareLinks).where(eq(shareLinks.id, link.id)).get()!.takenDownAt).toBeNull();
   });
@@ -336,10 +388,12 @@ function pngSize(bytes: Buffer): { width: number; height: number } {
 }
 
 async function preview(token: string, headers: Record<string, string> = {}) {
-  const response = (await previewLoader({ request: get(`/s/${token}/preview.png`, undefined, headers), params: { token } } as never).catch(
-    (thrown: unknown) => thrown,
-  )) as Response | { init: { status: number } };
-  if (!(response instanceof Response)) return { status: response.init.status, bytes: Buffer.alloc(0), headers: new Headers() };
+  const response = (await previewLoader({
+    request: get(`/s/${token}/preview.png`, undefined, headers),
+    params: { token },
+  } as never).catch((thrown: unknown) => thrown)) as Response | { init: { status: number } };
+  if (!(response instanceof Response))
+    return { status: response.init.status, bytes: Buffer.alloc(0), headers: new Headers() };
   return { status: response.status, bytes: Buffer.from(await response.arrayBuffer()), headers: response.headers };
 }
 
@@ -353,7 +407,12 @@ describe("share links: the link-preview picture", () => {
     expect(pngSize(first.bytes)).toEqual({ width: 1200, height: 630 });
     // Drawn, not blank: a flat picture compresses to a few hundred bytes.
     expect(first.bytes.length).toBeGreaterThan(10_000);
-    const runId = getDb().select({ id: runs.id }).from(runs).innerJoin(scenarios, eq(scenarios.id, runs.scenarioId)).where(eq(scenarios.id, Number(params.scenarioId))).get()!.id;
+    const runId = getDb()
+      .select({ id: runs.id })
+      .from(runs)
+      .innerJoin(scenarios, eq(scenarios.id, runs.scenarioId))
+      .where(eq(scenarios.id, Number(params.scenarioId)))
+      .get()!.id;
     const kept = getDb().select().from(sharePreviews).where(eq(sharePreviews.runId, runId)).all();
     expect(kept).toHaveLength(1);
 
@@ -365,11 +424,17 @@ describe("share links: the link-preview picture", () => {
     expect((await preview(token, { "If-None-Match": etag })).status).toBe(304);
 
     // A rename keeps the run, but the picture shows the name: drawn again, and the old ETag is stale.
-    getDb().update(scenarios).set({ name: "Fewer meals, renamed" }).where(eq(scenarios.id, Number(params.scenarioId))).run();
+    getDb()
+      .update(scenarios)
+      .set({ name: "Fewer meals, renamed" })
+      .where(eq(scenarios.id, Number(params.scenarioId)))
+      .run();
     const renamed = await preview(token, { "If-None-Match": etag });
     expect(renamed.status).toBe(200);
     expect(renamed.bytes.equals(first.bytes)).toBe(false);
-    expect(getDb().select().from(sharePreviews).where(eq(sharePreviews.runId, runId)).get()!.name).toBe("Fewer meals, renamed");
+    expect(getDb().select().from(sharePreviews).where(eq(sharePreviews.runId, runId)).get()!.name).toBe(
+      "Fewer meals, renamed",
+    );
 
     // Turned off: neither the picture nor a 304 for it.
     const off = await call(manageAction, post(path, { intent: "off" }, owner.cookie), params);

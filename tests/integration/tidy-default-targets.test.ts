@@ -23,18 +23,28 @@ describe("migration 0007: default nitrate targets read back as 5 and 20", () => 
     const db = drizzle(sqlite);
     migrate(db, { migrationsFolder: migrationsBefore("0007_tidy_default_targets") });
 
-    const user = sqlite.prepare("insert into users (email, name, password_hash, nitrate_unit) values (?, ?, 'x', ?) returning id");
+    const user = sqlite.prepare(
+      "insert into users (email, name, password_hash, nitrate_unit) values (?, ?, 'x', ?) returning id",
+    );
     const asNO3 = (user.get("no3@example.org", "Works in NO3", "NO3") as { id: number }).id;
     const asN = (user.get("n@example.org", "Works in NO3-N", "N") as { id: number }).id;
-    const tank = sqlite.prepare("insert into tanks (owner_id, name, nitrate_target_low, nitrate_target_high) values (?, ?, ?, ?) returning id");
+    const tank = sqlite.prepare(
+      "insert into tanks (owner_id, name, nitrate_target_low, nitrate_target_high) values (?, ?, ?, ?) returning id",
+    );
     const oldDefault = (tank.get(asNO3, "made before the fix", 1.13, 4.52) as { id: number }).id;
-    const columnDefault = (sqlite.prepare("insert into tanks (owner_id, name) values (?, 'column default') returning id").get(asNO3) as { id: number }).id;
+    const columnDefault = (
+      sqlite.prepare("insert into tanks (owner_id, name) values (?, 'column default') returning id").get(asNO3) as {
+        id: number;
+      }
+    ).id;
     const ownBand = (tank.get(asNO3, "own band", 10 / NO3, 4.52) as { id: number }).id; // typed 10 and kept the old high
     const nitrogenOwner = (tank.get(asN, "typed in NO3-N", 1.13, 4.52) as { id: number }).id;
 
     // Before: what the pages showed.
     const shown = (id: number) => {
-      const row = sqlite.prepare("select nitrate_target_low as low, nitrate_target_high as high from tanks where id = ?").get(id) as { low: number; high: number };
+      const row = sqlite
+        .prepare("select nitrate_target_low as low, nitrate_target_high as high from tanks where id = ?")
+        .get(id) as { low: number; high: number };
       return row;
     };
     expect(typedTarget(shown(oldDefault).low, NO3)).toBeCloseTo(5.002, 3); // the defect, as reported

@@ -117,7 +117,8 @@ describe("calibration recovers known multipliers", () => {
               for (const seed of SEEDS) {
                 const c: Case = { name, scenario, truth, species, kits, noise: NOISE, seed };
                 const r = await fitCase(c, kits);
-                if (!r.quality.good) poor.push(`${name} ${species.join("+")} ${kitName} seed ${seed}: ${r.qualityText}`);
+                if (!r.quality.good)
+                  poor.push(`${name} ${species.join("+")} ${kitName} seed ${seed}: ${r.qualityText}`);
                 for (const m of fitted(r)) {
                   const t = c.truth[m.key]!;
                   const inside = m.low95! <= t && t <= m.high95!;

@@ -68,7 +68,9 @@ describe("the chronic ammonia criterion at each window's pH", () => {
 
   it("with pH held still, the same tank is judged at that pH throughout", () => {
     // Control: the same settings with pH fixed at 8.2; the criterion is one number.
-    const still = simulate(ScenarioSchema.parse({ ...SOFT_NEW_FILTER, water: { ...SOFT_NEW_FILTER.water, phFollowsKh: false } }));
+    const still = simulate(
+      ScenarioSchema.parse({ ...SOFT_NEW_FILTER, water: { ...SOFT_NEW_FILTER.water, phFollowsKh: false } }),
+    );
     const w = still.warnings.find((x) => x.code === "ammoniaAboveChronicCriterion");
     if (w && w.message.includes("30 days")) expect(rel(w.limit, epaChronic(8.2, 26))).toBeLessThan(0.005);
     else if (w) expect(rel(w.limit, 2.5 * epaChronic(8.2, 26))).toBeLessThan(0.005);

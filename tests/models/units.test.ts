@@ -70,10 +70,16 @@ describe("unit conversions", () => {
     math.createUnit("imperialGallon", "4.54609 liter");
     const mathVolume = { L: "liter", usgal: "gallon", impgal: "imperialGallon" } as const;
     fc.assert(
-      fc.property(fc.constantFrom("L", "usgal", "impgal" as const), fc.double({ min: 0, max: 5000, noNaN: true }), (unit, v) => {
-        const reference = math.unit(v, mathVolume[unit]).toNumber("liter");
-        expect(Math.abs(toCanonical("volume", v, unit) - reference)).toBeLessThanOrEqual(1e-9 * Math.max(1, reference));
-      }),
+      fc.property(
+        fc.constantFrom("L", "usgal", "impgal" as const),
+        fc.double({ min: 0, max: 5000, noNaN: true }),
+        (unit, v) => {
+          const reference = math.unit(v, mathVolume[unit]).toNumber("liter");
+          expect(Math.abs(toCanonical("volume", v, unit) - reference)).toBeLessThanOrEqual(
+            1e-9 * Math.max(1, reference),
+          );
+        },
+      ),
       { numRuns: 100 },
     );
     fc.assert(
@@ -113,7 +119,14 @@ describe("unit conversions", () => {
 });
 
 describe("display units", () => {
-  const imperial: DisplayUnits = { volume: "usgal", temperature: "F", nitrate: "asNO3", nitrite: "asNO2", ammonia: "asNH3", kh: "mgCaCO3" };
+  const imperial: DisplayUnits = {
+    volume: "usgal",
+    temperature: "F",
+    nitrate: "asNO3",
+    nitrite: "asNO2",
+    ammonia: "asNH3",
+    kh: "mgCaCO3",
+  };
 
   it("a field's quantity converts both ways, a fraction shows as a percentage, anything else as it is", () => {
     // NIST SP 811 and the Fahrenheit scale's definition (docs/sources.md §3); percentages: common practice, no source

@@ -42,7 +42,11 @@ describe("plausibility warnings", () => {
     // 0.03 g of food per litre a day as the heavy-feeding line (common practice, no source): 100 L
     // fed 0.5 g a day is well under it; a change on day 10 to 500 g a day is far over it, and
     // beyond any oxygen the surface brings in (our own worked example).
-    const scenario = ScenarioSchema.parse({ water: { volumeL: 100 }, fish: { feedGPerDay: 0.5 }, run: { lengthDays: 30 } });
+    const scenario = ScenarioSchema.parse({
+      water: { volumeL: 100 },
+      fish: { feedGPerDay: 0.5 },
+      run: { lengthDays: 30 },
+    });
     expect(simulate(scenario).warnings.map((w) => w.code)).not.toContain("heavyFeedingForVolume");
     const fedMore = simulate(scenario, { events: [{ kind: "feeding", day: 10, feedGPerDay: 500 }] });
     const heavy = fedMore.warnings.find((w) => w.code === "heavyFeedingForVolume");
@@ -50,7 +54,11 @@ describe("plausibility warnings", () => {
     expect(heavy!.message).toMatch(/^From day 10, when the feeding was changed, 5 g of food per litre a day/);
     expect(fedMore.warnings.find((w) => w.code === "feedBeyondOxygenSupply")?.day).toBe(10);
     // A change to less food than the scenario's leaves the scenario's own feeding judged, undated.
-    const heavyScenario = ScenarioSchema.parse({ water: { volumeL: 10 }, fish: { feedGPerDay: 1 }, run: { lengthDays: 30 } });
+    const heavyScenario = ScenarioSchema.parse({
+      water: { volumeL: 10 },
+      fish: { feedGPerDay: 1 },
+      run: { lengthDays: 30 },
+    });
     const fedLess = simulate(heavyScenario, { events: [{ kind: "feeding", day: 5, feedGPerDay: 0.1 }] });
     expect(fedLess.warnings.find((w) => w.code === "heavyFeedingForVolume")).toMatchObject({ value: 0.1, day: null });
   });

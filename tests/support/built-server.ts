@@ -44,7 +44,9 @@ async function waitForHealth(url: string, child: ChildProcess, log: () => string
   throw new Error(`server did not become healthy:\n${log()}`);
 }
 
-export async function startBuiltServer(options: { env?: Record<string, string>; databaseFile?: string } = {}): Promise<BuiltServer> {
+export async function startBuiltServer(
+  options: { env?: Record<string, string>; databaseFile?: string } = {},
+): Promise<BuiltServer> {
   const buildDir = process.env.FERNWATER_BUILD_DIR ?? "build";
   if (!fs.existsSync(path.join(buildDir, "server/index.js"))) {
     throw new Error(`No build in ${buildDir}/: run \`npm run build\` first.`);
@@ -55,7 +57,9 @@ export async function startBuiltServer(options: { env?: Record<string, string>; 
   const databaseFile = options.databaseFile ?? path.join(dir, "fernwater.sqlite");
   let output = "";
   // SERVER_CPU_PROFILE_DIR=<dir> writes a V8 CPU profile of the server, for finding what is slow.
-  const profile = process.env.SERVER_CPU_PROFILE_DIR ? ["--cpu-prof", `--cpu-prof-dir=${process.env.SERVER_CPU_PROFILE_DIR}`] : [];
+  const profile = process.env.SERVER_CPU_PROFILE_DIR
+    ? ["--cpu-prof", `--cpu-prof-dir=${process.env.SERVER_CPU_PROFILE_DIR}`]
+    : [];
   const child = spawn(process.execPath, [...profile, "server/start.mjs"], {
     env: {
       ...process.env,

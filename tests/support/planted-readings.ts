@@ -23,7 +23,11 @@ type Options = {
 };
 
 /** Dates the scenario from PLANTED_START_MS and stores the tank's readings; returns their model days. */
-export function storePlantedReadings(tankId: number, scenarioId: number, { tan = true, unloggedJumpMgN = 0 }: Options = {}) {
+export function storePlantedReadings(
+  tankId: number,
+  scenarioId: number,
+  { tan = true, unloggedJumpMgN = 0 }: Options = {},
+) {
   startScenarioOn(scenarioId, PLANTED_START_MS);
   const days = Array.from({ length: 15 }, (_v, i) => 2 + 4 * i);
   const truth = ScenarioSchema.parse({ ...PLANTED, multipliers: { feedLoad: PLANTED_TRUE_FEED_LOAD } });

@@ -38,7 +38,10 @@ export async function call(
   try {
     return await normalise(await handler({ request, params, context }));
   } catch (thrown) {
-    if (thrown instanceof Response || (thrown && typeof thrown === "object" && (thrown as any).type === "DataWithResponseInit")) {
+    if (
+      thrown instanceof Response ||
+      (thrown && typeof thrown === "object" && (thrown as any).type === "DataWithResponseInit")
+    ) {
       return normalise(thrown);
     }
     throw thrown;
@@ -49,7 +52,12 @@ export function get(path: string, cookie?: string, headers: Record<string, strin
   return new Request(ORIGIN + path, { headers: { ...(cookie ? { Cookie: cookie } : {}), ...headers } });
 }
 
-export function post(path: string, fields: Record<string, string | number>, cookie?: string, headers: Record<string, string> = {}): Request {
+export function post(
+  path: string,
+  fields: Record<string, string | number>,
+  cookie?: string,
+  headers: Record<string, string> = {},
+): Request {
   const body = new URLSearchParams(Object.entries(fields).map(([k, v]) => [k, String(v)]));
   return new Request(ORIGIN + path, {
     method: "POST",

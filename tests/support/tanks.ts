@@ -9,8 +9,17 @@ export function createTank(ownerId: number, name = "Test tank"): number {
 }
 
 /** A scenario stored with its run, as the setup form would leave it. */
-export async function createScenario(ownerId: number, tankId: number, input: ScenarioInput = {}, name = "Baseline"): Promise<number> {
-  const tank = getDb().select().from(tanks).all().find((t) => t.id === tankId && t.ownerId === ownerId)!;
+export async function createScenario(
+  ownerId: number,
+  tankId: number,
+  input: ScenarioInput = {},
+  name = "Baseline",
+): Promise<number> {
+  const tank = getDb()
+    .select()
+    .from(tanks)
+    .all()
+    .find((t) => t.id === tankId && t.ownerId === ownerId)!;
   return saveScenarioWithRun(tank, "new", name, ScenarioSchema.parse(input));
 }
 
@@ -47,5 +56,9 @@ export function setupFormFields(overrides: Record<string, string | number> = {})
 
 /** Dates a scenario's day 0, so readings and journal entries at known dates line up with model days. */
 export function startScenarioOn(scenarioId: number, startMs: number): void {
-  getDb().update(scenarios).set({ startDate: new Date(startMs) }).where(eq(scenarios.id, scenarioId)).run();
+  getDb()
+    .update(scenarios)
+    .set({ startDate: new Date(startMs) })
+    .where(eq(scenarios.id, scenarioId))
+    .run();
 }

@@ -69,8 +69,15 @@ describe("the engine pool on worker threads", () => {
     pool = createEnginePool({ workerUrl: sourceWorkerUrl(), size: 1 });
     const inline = createEnginePool({ workerUrl: null });
     expect(pool.mode).toBe("threads");
-    const task = { kind: "simulate", scenario: ScenarioSchema.parse({ run: { lengthDays: 30 } }), limits: REQUEST_RUN_LIMITS } as const;
-    const [threaded, local] = await Promise.all([pool.run(task, { lane: "interactive", owner: "user:1" }), inline.run(task)]);
+    const task = {
+      kind: "simulate",
+      scenario: ScenarioSchema.parse({ run: { lengthDays: 30 } }),
+      limits: REQUEST_RUN_LIMITS,
+    } as const;
+    const [threaded, local] = await Promise.all([
+      pool.run(task, { lane: "interactive", owner: "user:1" }),
+      inline.run(task),
+    ]);
     expect(threaded.kind).toBe("simulate");
     if (threaded.kind !== "simulate" || local.kind !== "simulate") throw new Error("unexpected answer");
     expect(threaded.result!.keyFigures).toEqual(local.result!.keyFigures);
@@ -91,7 +98,11 @@ describe("the engine pool on worker threads", () => {
   it("refuses work once closed", async () => {
     pool = createEnginePool({ workerUrl: sourceWorkerUrl(), size: 1 });
     await pool.close();
-    const task = { kind: "simulate", scenario: ScenarioSchema.parse({ run: { lengthDays: 5 } }), limits: REQUEST_RUN_LIMITS } as const;
+    const task = {
+      kind: "simulate",
+      scenario: ScenarioSchema.parse({ run: { lengthDays: 5 } }),
+      limits: REQUEST_RUN_LIMITS,
+    } as const;
     await expect(pool.run(task)).rejects.toThrow(/closed/);
     pool = undefined;
   }, 30_000);

@@ -17,12 +17,23 @@ async function freshEnv(vars: Record<string, string | undefined>) {
 
 describe("environment checks at boot", () => {
   it("refuses production without SESSION_SECRET, SMTP_URL and APP_URL, naming each", async () => {
-    const { getEnv } = await freshEnv({ NODE_ENV: "production", FERNWATER_MODE: undefined, SESSION_SECRET: undefined, SMTP_URL: undefined, APP_URL: undefined });
+    const { getEnv } = await freshEnv({
+      NODE_ENV: "production",
+      FERNWATER_MODE: undefined,
+      SESSION_SECRET: undefined,
+      SMTP_URL: undefined,
+      APP_URL: undefined,
+    });
     expect(() => getEnv()).toThrow(/SESSION_SECRET must be set[\s\S]*APP_URL must be set[\s\S]*SMTP_URL must be set/);
   });
 
   it("refuses a short production secret", async () => {
-    const { getEnv } = await freshEnv({ NODE_ENV: "production", SESSION_SECRET: "too-short", SMTP_URL: "smtp://mail.example:25", APP_URL: "https://fernwater.example" });
+    const { getEnv } = await freshEnv({
+      NODE_ENV: "production",
+      SESSION_SECRET: "too-short",
+      SMTP_URL: "smtp://mail.example:25",
+      APP_URL: "https://fernwater.example",
+    });
     expect(() => getEnv()).toThrow(/at least 32/);
   });
 

@@ -207,7 +207,20 @@ describe("writing readings", () => {
   it("gives back every exported note unchanged on upload, formula-like ones included, and neutralises full-width formula characters", () => {
     // OWASP CSV Injection: = + - @ tab and carriage return start a formula; some spreadsheets read
     // the full-width ＝ ＋ － ＠ the same way. The quote we add on export comes off on import.
-    const notes = ['=HYPERLINK("http://x")', "+1 fish", "-2 shrimp", "@home", "＝SUM(A1)", "＋1", "－1", "＠x", "'=already quoted", "''+twice", "'plain quote", "plain"];
+    const notes = [
+      '=HYPERLINK("http://x")',
+      "+1 fish",
+      "-2 shrimp",
+      "@home",
+      "＝SUM(A1)",
+      "＋1",
+      "－1",
+      "＠x",
+      "'=already quoted",
+      "''+twice",
+      "'plain quote",
+      "plain",
+    ];
     const rows = notes.map((note, i) => row({ id: i + 1, takenAt: new Date(Date.UTC(2026, 2, 1 + i)), note }));
     const csv = readingsCsv(rows, METRIC);
     for (const line of csv.split("\r\n").slice(1, 9)) expect(line).toMatch(/,"?'/);

@@ -48,7 +48,10 @@ describe("typed refusals at the route edge", () => {
   });
 
   it("gives a form the message and status, saying when the model could not run the settings", () => {
-    expect(formRefusal(model)).toEqual({ message: `The model could not run these settings: ${model.message}`, status: 400 });
+    expect(formRefusal(model)).toEqual({
+      message: `The model could not run these settings: ${model.message}`,
+      status: 400,
+    });
     expect(formRefusal(new QuotaExceeded("At most 50 tanks."))).toEqual({ message: "At most 50 tanks.", status: 413 });
     expect(formRefusal(new Error("boom"))).toBeNull();
     expect(runProblem(new RunRefused("Too many saves."))).toBe("Too many saves.");

@@ -6,7 +6,9 @@ import { describe, expect, it } from "vitest";
 import { cachedPage, keepPage, NONCE_STAND_IN, renderKey, worthKeeping } from "~/http/render-cache.server";
 
 const page = (nonce: string) =>
-  Buffer.from(`<html><script nonce="${nonce}">a()</script><p>Nitrate 12 mg/L — day 30</p><script nonce="${nonce}">b()</script></html>`);
+  Buffer.from(
+    `<html><script nonce="${nonce}">a()</script><p>Nitrate 12 mg/L — day 30</p><script nonce="${nonce}">b()</script></html>`,
+  );
 
 describe("render cache keys", () => {
   it("differ when the URL, the status or any loader data differs", () => {
@@ -16,8 +18,12 @@ describe("render cache keys", () => {
     expect(renderKey("http://x/tanks/1/scenarios/2", 200, structuredClone(data))).toBe(key);
     expect(renderKey("http://x/tanks/1/scenarios/2?view=1", 200, data)).not.toBe(key);
     expect(renderKey("http://x/tanks/1/scenarios/2", 404, data)).not.toBe(key);
-    expect(renderKey("http://x/tanks/1/scenarios/2", 200, { ...data, root: { user: { id: 2, units: "NO3" } } })).not.toBe(key);
-    expect(renderKey("http://x/tanks/1/scenarios/2", 200, { ...data, root: { user: { id: 1, units: "NO3-N" } } })).not.toBe(key);
+    expect(
+      renderKey("http://x/tanks/1/scenarios/2", 200, { ...data, root: { user: { id: 2, units: "NO3" } } }),
+    ).not.toBe(key);
+    expect(
+      renderKey("http://x/tanks/1/scenarios/2", 200, { ...data, root: { user: { id: 1, units: "NO3-N" } } }),
+    ).not.toBe(key);
   });
 
   it("are refused for data JSON cannot show whole (Map, Set, promises, BigInt)", () => {

@@ -80,14 +80,32 @@ describe("the run's warnings in plain words", () => {
       {
         keyFigures: figures(),
         warnings: [
-          { code: "heavyFeedingForVolume", severity: "implausible", message: "", value: 5, unit: "g/L/day", limit: 0.03, day: 10 },
-          { code: "feedBeyondOxygenSupply", severity: "implausible", message: "", value: 3, unit: "× the oxygen supply", limit: 1, day: 10 },
+          {
+            code: "heavyFeedingForVolume",
+            severity: "implausible",
+            message: "",
+            value: 5,
+            unit: "g/L/day",
+            limit: 0.03,
+            day: 10,
+          },
+          {
+            code: "feedBeyondOxygenSupply",
+            severity: "implausible",
+            message: "",
+            value: 3,
+            unit: "× the oxygen supply",
+            limit: 1,
+            day: 10,
+          },
         ],
       },
       units,
     );
     expect(list.map((w) => w.text)).toEqual([
-      expect.stringMatching(/^From day 10, when the feeding was changed, 5 g of food a day per L of water is far beyond/),
+      expect.stringMatching(
+        /^From day 10, when the feeding was changed, 5 g of food a day per L of water is far beyond/,
+      ),
       expect.stringMatching(/^From day 10, when the feeding was changed, the food needs more oxygen than/),
     ]);
   });

@@ -19,7 +19,9 @@ describe("cross-site request check", () => {
   it.each(["POST", "PUT", "PATCH", "DELETE"])("refuses %s from another origin, and from an opaque one", (method) => {
     expect(crossSiteRefusal(method, { origin: "https://evil.example" }, ours)).toMatch(/another site/);
     expect(crossSiteRefusal(method, { origin: "null" }, ours)).toMatch(/another site/);
-    expect(crossSiteRefusal(method, { origin: "https://fernwater.example.evil.example" }, ours)).toMatch(/another site/);
+    expect(crossSiteRefusal(method, { origin: "https://fernwater.example.evil.example" }, ours)).toMatch(
+      /another site/,
+    );
   });
 
   it("falls back to Sec-Fetch-Site when a browser sent no Origin", () => {
@@ -46,8 +48,20 @@ describe("content security policy", () => {
 
 describe("requests from this machine", () => {
   it("knows loopback addresses in their IPv4, IPv6 and mapped forms", () => {
-    for (const a of ["127.0.0.1", "127.8.9.10", "::1", "[::1]", "::ffff:127.0.0.1", "0:0:0:0:0:0:0:1"]) expect(isLoopbackAddress(a), a).toBe(true);
-    for (const a of ["192.0.2.2", "::ffff:192.0.2.2", "10.0.0.1", "fd00::2", "1127.0.0.1", "127.0.0.1.evil", "", "unknown", null]) expect(isLoopbackAddress(a), String(a)).toBe(false);
+    for (const a of ["127.0.0.1", "127.8.9.10", "::1", "[::1]", "::ffff:127.0.0.1", "0:0:0:0:0:0:0:1"])
+      expect(isLoopbackAddress(a), a).toBe(true);
+    for (const a of [
+      "192.0.2.2",
+      "::ffff:192.0.2.2",
+      "10.0.0.1",
+      "fd00::2",
+      "1127.0.0.1",
+      "127.0.0.1.evil",
+      "",
+      "unknown",
+      null,
+    ])
+      expect(isLoopbackAddress(a), String(a)).toBe(false);
   });
 
   it("needs the peer, the client and every forwarded address to be loopback", () => {
@@ -55,9 +69,18 @@ describe("requests from this machine", () => {
     expect(isFromThisMachine(none, { peer: "127.0.0.1", client: "127.0.0.1" })).toBe(true);
     expect(isFromThisMachine(none, { peer: "192.0.2.2", client: "127.0.0.1" })).toBe(false);
     expect(isFromThisMachine(none, { peer: "127.0.0.1", client: "203.0.113.5" })).toBe(false);
-    expect(isFromThisMachine(new Headers({ "X-Forwarded-For": "127.0.0.1, 203.0.113.5" }), { peer: "127.0.0.1", client: "127.0.0.1" })).toBe(false);
-    expect(isFromThisMachine(new Headers({ "X-Real-IP": "203.0.113.5" }), { peer: "127.0.0.1", client: "127.0.0.1" })).toBe(false);
-    expect(isFromThisMachine(new Headers({ Forwarded: 'for="[2001:db8::1]";proto=http' }), { peer: "::1", client: "::1" })).toBe(false);
+    expect(
+      isFromThisMachine(new Headers({ "X-Forwarded-For": "127.0.0.1, 203.0.113.5" }), {
+        peer: "127.0.0.1",
+        client: "127.0.0.1",
+      }),
+    ).toBe(false);
+    expect(
+      isFromThisMachine(new Headers({ "X-Real-IP": "203.0.113.5" }), { peer: "127.0.0.1", client: "127.0.0.1" }),
+    ).toBe(false);
+    expect(
+      isFromThisMachine(new Headers({ Forwarded: 'for="[2001:db8::1]";proto=http' }), { peer: "::1", client: "::1" }),
+    ).toBe(false);
     expect(isFromThisMachine(new Headers({ Forwarded: "for=127.0.0.1" }), { peer: "::1", client: "::1" })).toBe(true);
   });
 });

@@ -41,14 +41,12 @@ export function seriesTableColumns(series: ChartSeries, units: ChartUnits): Tabl
     at: (i: number) => series[k][i],
   }));
   // The caution lines drawn over TAN, beside TAN: the table says what the chart draws.
-  const criteria = tanCriteriaOf(series).map(
-    ({ kind, values }): TableColumn => ({
-      key: `tan-${kind}`,
-      label: TAN_CRITERIA[kind].name,
-      unit: unitOf("tan", units),
-      at: (i) => values[i],
-    }),
-  );
+  const criteria = tanCriteriaOf(series).map(({ kind, values }): TableColumn => ({
+    key: `tan-${kind}`,
+    label: TAN_CRITERIA[kind].name,
+    unit: unitOf("tan", units),
+    at: (i) => values[i],
+  }));
   species.splice(1, 0, ...criteria);
   const plants = series.plants.map((p) => ({
     key: `plant-${p.id}`,

@@ -39,7 +39,12 @@ export function ChartDownloads({ fileName, title, getSvg, getCsv, csvHref, legen
     <div className="flex flex-wrap items-center gap-2 text-sm" role="group" aria-label="Download">
       <span className="text-stone-700">Download:</span>
       {csvHref ? (
-        <a className="btn-secondary" href={csvHref} download={`${fileName}.csv`} aria-label="Download every sample as a CSV file">
+        <a
+          className="btn-secondary"
+          href={csvHref}
+          download={`${fileName}.csv`}
+          aria-label="Download every sample as a CSV file"
+        >
           CSV
         </a>
       ) : (

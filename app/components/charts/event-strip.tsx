@@ -7,7 +7,14 @@ import { formatDay } from "~/components/charts/format";
 import type { ChartEvent } from "~/utils/chart-data";
 
 /** Rows of the event strip, top to bottom. */
-export const EVENT_ORDER: readonly EventKind[] = ["waterChange", "filterCleaning", "trim", "dose", "dosingStopped", "feeding"];
+export const EVENT_ORDER: readonly EventKind[] = [
+  "waterChange",
+  "filterCleaning",
+  "trim",
+  "dose",
+  "dosingStopped",
+  "feeding",
+];
 
 /**
  * Event glyphs under the plot, one row per kind. Events of a kind closer than a glyph's width

@@ -48,7 +48,13 @@ export function PreviewCard({ name, lengthDays, series, guides, labels, keyFigur
   const aboveTarget = keyFigures.daysAboveNitrateTarget > 0;
 
   return (
-    <svg xmlns="http://www.w3.org/2000/svg" width={PREVIEW_WIDTH} height={PREVIEW_HEIGHT} viewBox={`0 0 ${PREVIEW_WIDTH} ${PREVIEW_HEIGHT}`} fontFamily={PREVIEW_FONT}>
+    <svg
+      xmlns="http://www.w3.org/2000/svg"
+      width={PREVIEW_WIDTH}
+      height={PREVIEW_HEIGHT}
+      viewBox={`0 0 ${PREVIEW_WIDTH} ${PREVIEW_HEIGHT}`}
+      fontFamily={PREVIEW_FONT}
+    >
       <rect width={PREVIEW_WIDTH} height={PREVIEW_HEIGHT} fill={PAPER} />
       <rect x={0} y={0} width={PREVIEW_WIDTH} height={10} fill={SERIES_COLORS.plants} />
       <text x={40} y={62} fontSize={26} fontWeight={700} fill={SERIES_COLORS.plants}>
@@ -73,11 +79,28 @@ export function PreviewCard({ name, lengthDays, series, guides, labels, keyFigur
       )}
       <Line d={linePath(series.t, series.no3, x, nitrateY, columns)} color={SERIES_COLORS.no3} width={3} />
 
-      <Panel title={`Free ammonia (${labels.ammonia}) and nitrite (${labels.nitrite})`} top={TOXIC_PANEL.top} bottom={TOXIC_PANEL.bottom} y={toxicY} />
-      {guides.freeAmmoniaCaution !== undefined && <Caution y={toxicY(guides.freeAmmoniaCaution)} color={SERIES_COLORS.nh3} />}
+      <Panel
+        title={`Free ammonia (${labels.ammonia}) and nitrite (${labels.nitrite})`}
+        top={TOXIC_PANEL.top}
+        bottom={TOXIC_PANEL.bottom}
+        y={toxicY}
+      />
+      {guides.freeAmmoniaCaution !== undefined && (
+        <Caution y={toxicY(guides.freeAmmoniaCaution)} color={SERIES_COLORS.nh3} />
+      )}
       {guides.nitriteCaution !== undefined && <Caution y={toxicY(guides.nitriteCaution)} color={SERIES_COLORS.no2} />}
-      <Line d={linePath(series.t, series.nh3, x, toxicY, columns)} color={SERIES_COLORS.nh3} width={3} dash={SERIES_DASH.nh3} />
-      <Line d={linePath(series.t, series.no2, x, toxicY, columns)} color={SERIES_COLORS.no2} width={3} dash={SERIES_DASH.no2} />
+      <Line
+        d={linePath(series.t, series.nh3, x, toxicY, columns)}
+        color={SERIES_COLORS.nh3}
+        width={3}
+        dash={SERIES_DASH.nh3}
+      />
+      <Line
+        d={linePath(series.t, series.no2, x, toxicY, columns)}
+        color={SERIES_COLORS.no2}
+        width={3}
+        dash={SERIES_DASH.no2}
+      />
       <text x={LEFT} y={596} fontSize={18} fill={INK}>
         {formatDay(x.domain()[0])}
       </text>
@@ -133,7 +156,14 @@ function Panel({ title, top, bottom, y }: { title: string; top: number; bottom: 
 function Line({ d, color, width, dash }: { d: string; color: string; width: number; dash?: string }) {
   return (
     <g transform={`scale(${1 / PATH_SCALE})`}>
-      <path d={d} fill="none" stroke={color} strokeWidth={width * PATH_SCALE} strokeDasharray={scaledDash(dash)} strokeLinejoin="round" />
+      <path
+        d={d}
+        fill="none"
+        stroke={color}
+        strokeWidth={width * PATH_SCALE}
+        strokeDasharray={scaledDash(dash)}
+        strokeLinejoin="round"
+      />
     </g>
   );
 }

@@ -49,12 +49,7 @@ export type XYChartProps = {
  * A domain covering `values` (and 0 when asked), made round; a flat set widens by ±1 (or ±10 %).
  * `pad` adds 5 % headroom (values), none for the x axis (a sweep's range is exactly what was asked).
  */
-function signedDomain(
-  values: readonly number[],
-  ticks: number,
-  withZero: boolean,
-  pad = true,
-): [number, number] {
+function signedDomain(values: readonly number[], ticks: number, withZero: boolean, pad = true): [number, number] {
   const finite = values.filter(Number.isFinite);
   if (withZero) finite.push(0);
   if (finite.length === 0) return [0, 1];

@@ -89,7 +89,13 @@ export function SelectField({ label, hint, error, options, className, ...select 
 }
 
 /** A message about the whole form (not one field). */
-export function FormMessage({ tone = "error", children }: { tone?: "error" | "success" | "info"; children: ReactNode }) {
+export function FormMessage({
+  tone = "error",
+  children,
+}: {
+  tone?: "error" | "success" | "info";
+  children: ReactNode;
+}) {
   const styles = {
     error: "border-red-300 bg-red-50 text-red-900",
     success: "border-fern-200 bg-fern-50 text-fern-900",

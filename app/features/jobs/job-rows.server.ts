@@ -47,7 +47,6 @@ export type Job<R = unknown, P = unknown> = {
   orphaned?: boolean;
 };
 
-
 /** How often a process refreshes the heartbeat of its jobs, and when a silent job counts as lost. */
 export const HEARTBEAT_MS = 2_000;
 export const LOST_AFTER_MS = 15_000;
@@ -89,13 +88,22 @@ export function insertJobExclusive(
   return db.transaction(
     (tx) => {
       const now = Date.now();
-      for (const row of tx.select().from(jobs).where(and(eq(jobs.userId, job.userId), inArray(jobs.status, ACTIVE))).all()) {
+      for (const row of tx
+        .select()
+        .from(jobs)
+        .where(and(eq(jobs.userId, job.userId), inArray(jobs.status, ACTIVE)))
+        .all()) {
         // A lost job that will be restarted still counts as the person's one job.
         if (givenUp(row, now)) failLost(row);
         else return { ok: false as const, reason: "mine" as const, mine: row };
       }
       if (job.status === "waiting") {
-        const waiting = tx.select({ n: sql<number>`count(*)` }).from(jobs).where(eq(jobs.status, "waiting")).get()?.n ?? 0;
+        const waiting =
+          tx
+            .select({ n: sql<number>`count(*)` })
+            .from(jobs)
+            .where(eq(jobs.status, "waiting"))
+            .get()?.n ?? 0;
         if (waiting >= maxWaiting) return { ok: false as const, reason: "full" as const };
       }
       tx.insert(jobs)
@@ -137,7 +145,11 @@ function writeJobRow(id: string, fields: Partial<Omit<JobRow, "id" | "userId" | 
  * process) to cancel it, or another process took it over after this one fell silent.
  */
 export function cancelRequested(id: string): boolean {
-  const row = getDb().select({ c: jobs.cancelRequested, instance: jobs.instance }).from(jobs).where(eq(jobs.id, id)).get();
+  const row = getDb()
+    .select({ c: jobs.cancelRequested, instance: jobs.instance })
+    .from(jobs)
+    .where(eq(jobs.id, id))
+    .get();
   return !!row && (row.c || row.instance !== INSTANCE);
 }
 
@@ -151,14 +163,17 @@ export function requestCancel(id: string): void {
     .set({ status: "cancelled", cancelRequested: true, finishedAt: Date.now() })
     .where(and(eq(jobs.id, id), eq(jobs.status, "waiting")))
     .run();
-  db.update(jobs).set({ cancelRequested: true }).where(and(eq(jobs.id, id), eq(jobs.status, "running"))).run();
+  db.update(jobs)
+    .set({ cancelRequested: true })
+    .where(and(eq(jobs.id, id), eq(jobs.status, "running")))
+    .run();
 }
 
 /** Jobs waiting before this one in its process's line (the line keeps the order they were asked for). */
 export function waitingAhead(row: JobRow): number {
   return (
-    getDb().$client
-      .prepare(
+    getDb()
+      .$client.prepare(
         "SELECT count(*) AS n FROM jobs WHERE status = 'waiting' AND instance IS ? AND (started_at, rowid) < (SELECT started_at, rowid FROM jobs WHERE id = ?)",
       )
       .get(row.instance, row.id) as { n: number }
@@ -204,7 +219,9 @@ export function deleteAllJobRows(): void {
 
 /** Active, yet its process has not beaten for LOST_AFTER_MS: it stopped. */
 function isLost(row: JobRow, now: number): boolean {
-  return ACTIVE.includes(row.status) && row.instance !== INSTANCE && now - (row.heartbeatAt ?? row.startedAt) > LOST_AFTER_MS;
+  return (
+    ACTIVE.includes(row.status) && row.instance !== INSTANCE && now - (row.heartbeatAt ?? row.startedAt) > LOST_AFTER_MS
+  );
 }
 
 /** Lost, and no process will restart it: tried enough, or nobody took it up for a long while. */
@@ -271,7 +288,6 @@ export function fromRow(row: JobRow): Job {
     orphaned: isLost(row, Date.now()),
   };
 }
-
 
 /** Forgets progress writes not yet made (tests). */
 export function dropPendingWrites(): void {

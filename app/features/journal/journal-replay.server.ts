@@ -286,5 +286,15 @@ export async function forecastJournal(
       ? { share: outcome.value / 100, byMs: startMs + fixDay * DAY_MS, untilMs: startMs + nextPlanned * DAY_MS }
       : null;
   const changeByMs = startMs + fixDay * DAY_MS;
-  return { kind: "crosses", crossMs: startMs + crossDay * DAY_MS, alreadyAbove, changeByMs, high, peak, fix, ahead, overdue };
+  return {
+    kind: "crosses",
+    crossMs: startMs + crossDay * DAY_MS,
+    alreadyAbove,
+    changeByMs,
+    high,
+    peak,
+    fix,
+    ahead,
+    overdue,
+  };
 }

@@ -271,8 +271,9 @@ export function readingsForChart(
   const shown =
     all.length <= MAX_CHART_READINGS
       ? all
-      : Array.from({ length: MAX_CHART_READINGS }, (_, i) =>
-          all[i === MAX_CHART_READINGS - 1 ? all.length - 1 : Math.floor(i * step)],
+      : Array.from(
+          { length: MAX_CHART_READINGS },
+          (_, i) => all[i === MAX_CHART_READINGS - 1 ? all.length - 1 : Math.floor(i * step)],
         );
   return {
     total: all.length,

@@ -32,7 +32,13 @@ function nextDueAfter(row: Pick<ReminderRow, "mode" | "hour" | "nextDueAt">, now
 }
 
 /** Sets (or clears, mode "off") a tank's reminders; a changed hour or mode starts a fresh schedule. */
-export function setReminder(userId: number, tankId: number, mode: ReminderMode | "off", hour: number, now = Date.now()) {
+export function setReminder(
+  userId: number,
+  tankId: number,
+  mode: ReminderMode | "off",
+  hour: number,
+  now = Date.now(),
+) {
   const db = getDb();
   if (mode === "off") {
     db.delete(reminderSubscriptions).where(eq(reminderSubscriptions.tankId, tankId)).run();
@@ -61,7 +67,12 @@ export function dueReminderIds(now: number, limit = 50): number[] {
   return getDb()
     .select({ id: reminderSubscriptions.id })
     .from(reminderSubscriptions)
-    .where(and(lte(reminderSubscriptions.nextDueAt, now), or(isNull(reminderSubscriptions.claimedUntil), lt(reminderSubscriptions.claimedUntil, now))))
+    .where(
+      and(
+        lte(reminderSubscriptions.nextDueAt, now),
+        or(isNull(reminderSubscriptions.claimedUntil), lt(reminderSubscriptions.claimedUntil, now)),
+      ),
+    )
     .limit(limit)
     .all()
     .map((r) => r.id);

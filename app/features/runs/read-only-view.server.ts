@@ -26,7 +26,13 @@ export async function readOnlyScenarioView(
   band: { nitrateTargetLow: number; nitrateTargetHigh: number; ownerId: number },
   units: DisplayUnits,
 ): Promise<ReadOnlyView> {
-  const key = [scenario.id, scenario.updatedAt.getTime(), band.nitrateTargetLow, band.nitrateTargetHigh, ...Object.values(units)].join("|");
+  const key = [
+    scenario.id,
+    scenario.updatedAt.getTime(),
+    band.nitrateTargetLow,
+    band.nitrateTargetHigh,
+    ...Object.values(units),
+  ].join("|");
   const hit = views.get(key);
   if (hit) return hit;
   const view = await buildView(scenario, band, units);
@@ -44,7 +50,8 @@ async function buildView(
 ): Promise<ReadOnlyView> {
   const ownerId = band.ownerId;
   const settings = readStoredSettings(scenario.settings);
-  if (!settings) return { error: "The saved settings of this scenario can no longer be read.", results: null, settings: null };
+  if (!settings)
+    return { error: "The saved settings of this scenario can no longer be read.", results: null, settings: null };
   const withTargets: Scenario = withTankTargets(settings, band);
   const form = buildScenarioForm(scenario.name, withTargets, units);
   try {
@@ -57,7 +64,6 @@ async function buildView(
     throw error;
   }
 }
-
 
 /** One sentence for a page description or a forum preview, in the view's units. */
 export function describeView(view: ReadOnlyView): string {

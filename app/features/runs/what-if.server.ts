@@ -51,7 +51,8 @@ export function applyWhatIf(scenario: Scenario, changes: WhatIf): Scenario {
   // Start and maximum scale together: more plants means more room too (a start above the
   // maximum would be refused, and a fixed maximum makes the outcome non-monotone).
   const plants = scenarioSetting(scenario, PLANT_MASS);
-  if (plants && changes.plantMassFactor !== undefined) list.push(...plants.changes(plants.current * changes.plantMassFactor));
+  if (plants && changes.plantMassFactor !== undefined)
+    list.push(...plants.changes(plants.current * changes.plantMassFactor));
   return applyChanges(scenario, list);
 }
 

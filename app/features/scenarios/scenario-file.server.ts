@@ -16,7 +16,13 @@ const FileSchema = z.object({
 });
 
 export function scenarioFile(name: string, settings: Scenario, exportedAt: Date) {
-  return { fernwater: "scenario", schemaVersion: settings.schemaVersion, name, exportedAt: exportedAt.toISOString(), settings };
+  return {
+    fernwater: "scenario",
+    schemaVersion: settings.schemaVersion,
+    name,
+    exportedAt: exportedAt.toISOString(),
+    settings,
+  };
 }
 
 type ReadOk = { ok: true; name: string | null; scenario: Scenario };
@@ -27,7 +33,11 @@ export function readScenarioFile(text: string): ReadOk | ReadFail {
   try {
     raw = JSON.parse(text);
   } catch {
-    return { ok: false, message: "The file is not valid JSON. Export a scenario from Fernwater and upload that file.", issues: {} };
+    return {
+      ok: false,
+      message: "The file is not valid JSON. Export a scenario from Fernwater and upload that file.",
+      issues: {},
+    };
   }
   if (raw === null || typeof raw !== "object" || Array.isArray(raw)) {
     return { ok: false, message: "The file does not hold a scenario object.", issues: {} };

@@ -26,8 +26,18 @@ const SECTIONS: { id: FormSection["id"]; keys: string[]; title: string; intro: s
     intro: "Food is where most of the nitrogen comes from. A new tank without fish can be cycled by dosing ammonia.",
   },
   { id: "plants", keys: [], title: "Plants", intro: "Growing plants take nitrogen out of the water, ammonium first." },
-  { id: "filter", keys: ["filter"], title: "Filter", intro: "The bacteria that turn ammonia into nitrite and nitrate live mostly here." },
-  { id: "maintenance", keys: ["maintenance"], title: "Maintenance", intro: "Water changes and gravel cleaning take nitrogen out." },
+  {
+    id: "filter",
+    keys: ["filter"],
+    title: "Filter",
+    intro: "The bacteria that turn ammonia into nitrite and nitrate live mostly here.",
+  },
+  {
+    id: "maintenance",
+    keys: ["maintenance"],
+    title: "Maintenance",
+    intro: "Water changes and gravel cleaning take nitrogen out.",
+  },
   {
     id: "tapWater",
     keys: ["tapWater"],
@@ -111,7 +121,9 @@ function toFormField(field: ScenarioField, name: string, raw: unknown, units: Di
     unit: unitFor(field, units),
     min: displayBound(field, field.min, units),
     max: displayBound(field, field.max, units),
-    options: field.options ? field.options.map((o) => ({ value: o, label: field.meta.optionLabels?.[o] ?? ENUM_LABELS[o] ?? o })) : null,
+    options: field.options
+      ? field.options.map((o) => ({ value: o, label: field.meta.optionLabels?.[o] ?? ENUM_LABELS[o] ?? o }))
+      : null,
   };
 }
 
@@ -201,7 +213,11 @@ function parseNumber(text: string): number | null {
  * engine's schema has the last word. `baseline` keeps exact canonical values for fields the
  * person did not touch (a value shown rounded in gallons is not re-rounded on every save).
  */
-export function parseScenarioForm(values: Record<string, string>, units: DisplayUnits, baseline?: Scenario): ParseOk | ParseFail {
+export function parseScenarioForm(
+  values: Record<string, string>,
+  units: DisplayUnits,
+  baseline?: Scenario,
+): ParseOk | ParseFail {
   const errors: FieldErrors = {};
   const out: Record<string, unknown> = {};
   const set = (path: (string | number)[], v: unknown) => {
@@ -214,12 +230,18 @@ export function parseScenarioForm(values: Record<string, string>, units: Display
   };
 
   const indexes = submittedPlantIndexes(values);
-  const concrete: { field: ScenarioField; path: (string | number)[]; name: string; basePath: (string | number)[] }[] = [];
+  const concrete: { field: ScenarioField; path: (string | number)[]; name: string; basePath: (string | number)[] }[] =
+    [];
   for (const field of FIELDS) {
     if (field.path[0] === "plants") {
       indexes.forEach((index, position) => {
         const rest = field.path.slice(2) as string[];
-        concrete.push({ field, path: ["plants", position, ...rest], name: ["plants", index, ...rest].join("."), basePath: ["plants", index, ...rest] });
+        concrete.push({
+          field,
+          path: ["plants", position, ...rest],
+          name: ["plants", index, ...rest].join("."),
+          basePath: ["plants", index, ...rest],
+        });
       });
     } else {
       concrete.push({ field, path: field.path as string[], name: field.key, basePath: field.path as string[] });
@@ -262,7 +284,8 @@ export function parseScenarioForm(values: Record<string, string>, units: Display
       continue;
     }
     const before = baseline ? valueAt(baseline, basePath) : undefined;
-    const untouched = typeof before === "number" && formatInput(toDisplay(field.meta.quantity, before, units)) === text.trim();
+    const untouched =
+      typeof before === "number" && formatInput(toDisplay(field.meta.quantity, before, units)) === text.trim();
     set(path, untouched ? before : fromDisplay(field.meta.quantity, n, units));
   }
   // Every row keeps an id; a row without one (added in the browser) gets a fresh one.
@@ -277,7 +300,7 @@ export function parseScenarioForm(values: Record<string, string>, units: Display
   const parsed = parseScenario(out);
   if (!parsed.success) {
     for (const issue of parsed.error.issues) {
-      const path = issue.path.map((p, i) => (i === 1 && issue.path[0] === "plants" ? indexes[Number(p)] ?? p : p));
+      const path = issue.path.map((p, i) => (i === 1 && issue.path[0] === "plants" ? (indexes[Number(p)] ?? p) : p));
       const key = path.map(String).join(".");
       if (!(key in errors)) errors[key] = issue.message;
     }
@@ -288,7 +311,9 @@ export function parseScenarioForm(values: Record<string, string>, units: Display
 
 /** A new plant row's values (canonical) for a growth form, with an id unused in `existing`. */
 export function newPlantGroup(form: string, existingIds: string[]): unknown {
-  const growthForm = (GROWTH_FORMS as readonly string[]).includes(form) ? (form as (typeof GROWTH_FORMS)[number]) : "stem";
+  const growthForm = (GROWTH_FORMS as readonly string[]).includes(form)
+    ? (form as (typeof GROWTH_FORMS)[number])
+    : "stem";
   let n = existingIds.length + 1;
   while (existingIds.includes(`group-${n}`)) n++;
   return plantGroupFromForm(growthForm, { id: `group-${n}` });

@@ -66,7 +66,13 @@ export function unitsSummary(units: DisplayUnits): string {
 }
 
 /** A refused or redrawn form, answered with the person's input kept. */
-function redraw(values: Record<string, string>, units: DisplayUnits, errors: FieldErrors, status: number, extraPlants: unknown[] = []) {
+function redraw(
+  values: Record<string, string>,
+  units: DisplayUnits,
+  errors: FieldErrors,
+  status: number,
+  extraPlants: unknown[] = [],
+) {
   // Submitted rows are drawn from their strings; new rows (no strings yet) from their typical values.
   const plants = [...plantRowsFromValues(values), ...extraPlants];
   const form = buildScenarioForm(values.name ?? "", ScenarioSchema.parse({}), units, values, plants);
@@ -94,7 +100,9 @@ export async function handleSetupSubmission(
   const intent = values.intent ?? "save";
 
   if (intent === "add-plant") {
-    const ids = Object.entries(values).filter(([k]) => /^plants\.\d+\.id$/.test(k)).map(([, v]) => v);
+    const ids = Object.entries(values)
+      .filter(([k]) => /^plants\.\d+\.id$/.test(k))
+      .map(([, v]) => v);
     if (ids.length >= 12) return redraw(values, units, { "": "A scenario holds at most 12 plant groups." }, 400);
     return redraw(values, units, {}, 200, [newPlantGroup(values.newPlantForm ?? "stem", ids)]);
   }

@@ -31,7 +31,9 @@ export function isLive(link: Pick<ShareLinkRow, "revokedAt" | "takenDownAt">): b
 }
 
 /** The link a token names, whatever its state, with its scenario and tank; null if none. */
-export function findLinkByToken(token: string | undefined): { link: ShareLinkRow; scenario: ScenarioRow; tank: TankRow } | null {
+export function findLinkByToken(
+  token: string | undefined,
+): { link: ShareLinkRow; scenario: ScenarioRow; tank: TankRow } | null {
   if (!token || !TOKEN_PATTERN.test(token)) return null;
   return (
     getDb()
@@ -51,7 +53,12 @@ export type ShareState = {
 
 /** What the owner's share controls show for a scenario. */
 export function shareState(scenarioId: number): ShareState {
-  const rows = getDb().select().from(shareLinks).where(eq(shareLinks.scenarioId, scenarioId)).orderBy(desc(shareLinks.id)).all();
+  const rows = getDb()
+    .select()
+    .from(shareLinks)
+    .where(eq(shareLinks.scenarioId, scenarioId))
+    .orderBy(desc(shareLinks.id))
+    .all();
   const live = rows.find(isLive);
   const down = rows.find((r) => r.takenDownAt);
   return {
@@ -78,7 +85,9 @@ export function makeLink(scenarioId: number): string | null {
       .set({ revokedAt: new Date() })
       .where(and(eq(shareLinks.scenarioId, scenarioId), isNull(shareLinks.revokedAt)))
       .run();
-    tx.insert(shareLinks).values({ scenarioId, tokenHash: hashToken(token) }).run();
+    tx.insert(shareLinks)
+      .values({ scenarioId, tokenHash: hashToken(token) })
+      .run();
     return token;
   });
 }

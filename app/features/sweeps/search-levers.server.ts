@@ -100,7 +100,8 @@ export function searchLever(
     }
     case "plantMass": {
       const plants = setting(scenario, "plantMass");
-      if (!plants) return { unavailable: "There are no plants in this scenario: add a plant group in the setup first." };
+      if (!plants)
+        return { unavailable: "There are no plants in this scenario: add a plant group in the setup first." };
       return {
         id,
         lo: plants.min,

@@ -67,11 +67,7 @@ export function leverJson(lever: Lever, units: DisplayUnits) {
 }
 
 /** Factor from an outcome's canonical unit to what the person sees, and its unit label. */
-function outcomeDisplay(
-  quantity: Quantity,
-  unit: string,
-  units: DisplayUnits,
-): { factor: number; unit: string } {
+function outcomeDisplay(quantity: Quantity, unit: string, units: DisplayUnits): { factor: number; unit: string } {
   return { factor: toDisplay(quantity, 1, units), unit: unitLabel(quantity, units, unit) };
 }
 
@@ -82,42 +78,44 @@ export function sweepInputSchema(levers: Lever[], units: DisplayUnits, role: Rol
   const maxPoints = JOB_LIMITS.sweepPoints[role];
   const num = (label: string) =>
     z.coerce.number({ error: `${label} must be a number.` }).refine(Number.isFinite, `${label} must be a number.`);
-  return z
-    .object({
-      setting: z.string().refine((id) => levers.some((l) => l.id === id), "Choose a setting to vary."),
-      from: num("“From”"),
-      to: num("“To”"),
-      points: z.coerce
-        .number({ error: "Give the number of points." })
-        .int("Give a whole number of points.")
-        .min(2, "Use at least 2 points.")
-        .max(maxPoints, `At most ${maxPoints} points for your account.`),
-      outcome: z.enum(OUTCOMES.map((o) => o.id) as [string, ...string[]], { error: "Choose an outcome." }),
-    })
-    // `when`: the range checks run even when another field is wrong, so the form shows every
-    // problem at once; each check looks only at fields that are themselves numbers.
-    .superRefine(
-      (v, ctx) => {
-        const lever = levers.find((l) => l.id === v.setting);
-        if (!lever) return;
-        const { min: lo, max: hi } = leverBounds(lever, units);
-        const ok = (x: unknown): x is number => typeof x === "number" && Number.isFinite(x);
-        for (const key of ["from", "to"] as const) {
-          const x = v[key];
-          if (ok(x) && (x < lo || x > hi)) {
-            ctx.addIssue({
-              code: "custom",
-              path: [key],
-              message: `Keep ${lever.label.toLowerCase()} between ${lo} and ${hi} ${shownUnit(lever, units)}.`,
-            });
+  return (
+    z
+      .object({
+        setting: z.string().refine((id) => levers.some((l) => l.id === id), "Choose a setting to vary."),
+        from: num("“From”"),
+        to: num("“To”"),
+        points: z.coerce
+          .number({ error: "Give the number of points." })
+          .int("Give a whole number of points.")
+          .min(2, "Use at least 2 points.")
+          .max(maxPoints, `At most ${maxPoints} points for your account.`),
+        outcome: z.enum(OUTCOMES.map((o) => o.id) as [string, ...string[]], { error: "Choose an outcome." }),
+      })
+      // `when`: the range checks run even when another field is wrong, so the form shows every
+      // problem at once; each check looks only at fields that are themselves numbers.
+      .superRefine(
+        (v, ctx) => {
+          const lever = levers.find((l) => l.id === v.setting);
+          if (!lever) return;
+          const { min: lo, max: hi } = leverBounds(lever, units);
+          const ok = (x: unknown): x is number => typeof x === "number" && Number.isFinite(x);
+          for (const key of ["from", "to"] as const) {
+            const x = v[key];
+            if (ok(x) && (x < lo || x > hi)) {
+              ctx.addIssue({
+                code: "custom",
+                path: [key],
+                message: `Keep ${lever.label.toLowerCase()} between ${lo} and ${hi} ${shownUnit(lever, units)}.`,
+              });
+            }
           }
-        }
-        if (ok(v.from) && ok(v.to) && v.from === v.to)
-          ctx.addIssue({ code: "custom", path: ["to"], message: "“To” must differ from “From”." });
-      },
-      // …but only on an object: a body of `null` or a number has no fields to look at.
-      { when: (payload) => typeof payload.value === "object" && payload.value !== null },
-    );
+          if (ok(v.from) && ok(v.to) && v.from === v.to)
+            ctx.addIssue({ code: "custom", path: ["to"], message: "“To” must differ from “From”." });
+        },
+        // …but only on an object: a body of `null` or a number has no fields to look at.
+        { when: (payload) => typeof payload.value === "object" && payload.value !== null },
+      )
+  );
 }
 
 export type SweepInput = z.infer<ReturnType<typeof sweepInputSchema>>;
@@ -131,11 +129,7 @@ export type SweepResultJson = {
 };
 
 /** The values of a sweep, canonical: evenly spaced in display units (what the person typed), integers rounded. */
-function sweepValues(
-  lever: Lever,
-  input: SweepInput,
-  units: DisplayUnits,
-): { x: number[]; canonical: number[] } {
+function sweepValues(lever: Lever, input: SweepInput, units: DisplayUnits): { x: number[]; canonical: number[] } {
   const n = input.points;
   const x = Array.from({ length: n }, (_v, i) => input.from + ((input.to - input.from) * i) / (n - 1));
   const canonical = x.map((v) => {

@@ -10,12 +10,7 @@ import { speciesFactor } from "~models/units";
 import { JOB_RUN_LIMITS } from "~/features/jobs/job-limits.server";
 import type { JobContext, JobSpec } from "~/features/jobs/jobs.server";
 import { contentHash } from "~/features/runs/simulation.server";
-import {
-  changeWaterNitrate,
-  RO_KH_NOTE,
-  searchLever,
-  type SearchLever,
-} from "~/features/sweeps/search-levers.server";
+import { changeWaterNitrate, RO_KH_NOTE, searchLever, type SearchLever } from "~/features/sweeps/search-levers.server";
 import { TARGET_LEVER_LABELS, TARGET_LEVERS, type TargetLeverId } from "~/features/sweeps/target-levers";
 import {
   findLeastChange,
@@ -119,7 +114,12 @@ type Verdict = Pick<TargetResultJson, "status" | "headline" | "details" | "save"
 const runsOf = (lever: SearchLever | { unavailable: string }) => ("unavailable" in lever ? 0 : searchRuns(lever));
 
 /** The verdict when the chosen lever meets the goal (or already does). */
-function metVerdict(input: TargetInput, main: SearchLever, outcome: Extract<SearchOutcome, { status: "met" }>, words: Wording): Verdict {
+function metVerdict(
+  input: TargetInput,
+  main: SearchLever,
+  outcome: Extract<SearchOutcome, { status: "met" }>,
+  words: Wording,
+): Verdict {
   return {
     status: outcome.alreadyMet ? "alreadyMet" : "met",
     headline: outcome.alreadyMet
@@ -151,10 +151,14 @@ function whyNot(
     headline = `The change water already carries ${formatNumber(cin * words.no3)} ${labels.nitrate} of nitrate, at or above your goal of ${
       input.nitrateMax
     } ${labels.nitrate}: however much of it you change, and however often, nitrate cannot fall below what the new water brings.`;
-    details.push("Water from reverse osmosis (or another low-nitrate source), more plants, or less food can get below it.");
+    details.push(
+      "Water from reverse osmosis (or another low-nitrate source), more plants, or less food can get below it.",
+    );
   }
   if (goal.nh3Max !== null && extreme.nh3 !== null && extreme.nh3 > goal.nh3Max) {
-    details.push("Free ammonia rises with pH and temperature; a filter that keeps up with the food, and less food, keep it down.");
+    details.push(
+      "Free ammonia rises with pH and temperature; a filter that keeps up with the food, and less food, keep it down.",
+    );
     if (input.lever === "roShare") details.push(RO_KH_NOTE);
   }
   return { headline, details };
@@ -176,7 +180,8 @@ async function alternatives(
       continue;
     }
     const alt = await findLeastChange(lever, evaluate(lever));
-    const roNote = id === "roShare" && goal.nh3Max !== null && alt.status === "infeasible" && (alt.extreme.nh3 ?? 0) > goal.nh3Max;
+    const roNote =
+      id === "roShare" && goal.nh3Max !== null && alt.status === "infeasible" && (alt.extreme.nh3 ?? 0) > goal.nh3Max;
     out.push({
       id,
       label: TARGET_LEVER_LABELS[id],
@@ -202,7 +207,8 @@ async function search(
   words: Wording,
 ): Promise<Verdict> {
   const main = levers[input.lever];
-  if ("unavailable" in main) return { status: "unavailable", headline: main.unavailable, details: [], save: null, alternatives: [] };
+  if ("unavailable" in main)
+    return { status: "unavailable", headline: main.unavailable, details: [], save: null, alternatives: [] };
   let runs = 0;
   let total = searchRuns(main);
   const evaluate: Evaluate = (lever) => async (value) => {
@@ -239,7 +245,9 @@ export function targetSearchJob(
 ): JobSpec<TargetResultJson> {
   const words = wording(input, units);
   const goal = goalOf(input, units);
-  const levers = Object.fromEntries(TARGET_LEVERS.map((id) => [id, searchLever(id, scenario, companions(input))])) as Levers;
+  const levers = Object.fromEntries(
+    TARGET_LEVERS.map((id) => [id, searchLever(id, scenario, companions(input))]),
+  ) as Levers;
   const main = levers[input.lever];
   return {
     start: {

@@ -122,4 +122,3 @@ export async function findLeastChange(
 function isAtLeast(lever: SearchLever, current: number, needed: number): boolean {
   return lever.moreChange === "up" ? current >= needed : current <= needed;
 }
-

@@ -61,7 +61,10 @@ export function requireOwnedScenario(
 }
 
 /** A scenario by id alone, for the API (owner checked through its tank). */
-export function requireOwnedScenarioById(userId: number, scenarioIdParam: string | undefined): { tank: TankRow; scenario: ScenarioRow } {
+export function requireOwnedScenarioById(
+  userId: number,
+  scenarioIdParam: string | undefined,
+): { tank: TankRow; scenario: ScenarioRow } {
   const message = "There is no such scenario among yours.";
   const scenarioId = parseId(scenarioIdParam, message);
   const row = getDb()
@@ -75,7 +78,12 @@ export function requireOwnedScenarioById(userId: number, scenarioIdParam: string
 }
 
 export function listScenarios(tankId: number): ScenarioRow[] {
-  return getDb().select().from(scenarios).where(eq(scenarios.tankId, tankId)).orderBy(asc(scenarios.createdAt), asc(scenarios.id)).all();
+  return getDb()
+    .select()
+    .from(scenarios)
+    .where(eq(scenarios.tankId, tankId))
+    .orderBy(asc(scenarios.createdAt), asc(scenarios.id))
+    .all();
 }
 
 /** The scenarios of each of `tankIds`' tanks, oldest first as `listScenarios` lists them, in one query. */

@@ -115,7 +115,12 @@ export default function AdminClassesPage({ loaderData, actionData }: Route.Compo
               <input type="hidden" name="intent" value="hand-over" />
               <input type="hidden" name="classId" value={c.id} />
               <label htmlFor={`hand-over-${c.id}`}>Hand to</label>
-              <select id={`hand-over-${c.id}`} name="educatorId" defaultValue="" className="input w-auto max-w-full py-1">
+              <select
+                id={`hand-over-${c.id}`}
+                name="educatorId"
+                defaultValue=""
+                className="input w-auto max-w-full py-1"
+              >
                 <option value="" disabled>
                   choose an educator
                 </option>

@@ -18,7 +18,11 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const admin = await requireRole(request, "admin");
   const found = findLinkById(parseId(params.linkId));
   if (!found || found.link.revokedAt) notFound("There is no such public link (it may have been turned off).");
-  const owner = getDb().select({ name: users.name, email: users.email }).from(users).where(eq(users.id, found.tank.ownerId)).get();
+  const owner = getDb()
+    .select({ name: users.name, email: users.email })
+    .from(users)
+    .where(eq(users.id, found.tank.ownerId))
+    .get();
   return {
     id: found.link.id,
     name: found.scenario.name,
@@ -39,9 +43,12 @@ export default function AdminLinkReviewPage({ loaderData }: Route.ComponentProps
           Back to public links
         </Link>
       </p>
-      <h1 className="text-2xl">Link #{id}: {name}</h1>
+      <h1 className="text-2xl">
+        Link #{id}: {name}
+      </h1>
       <p className="text-sm text-stone-700">
-        In {owner.name}’s tank “{tankName}” ({owner.email}). {takenDown ? `Taken down: ${takenDown.reason}` : "Live: this is what visitors see."}
+        In {owner.name}’s tank “{tankName}” ({owner.email}).{" "}
+        {takenDown ? `Taken down: ${takenDown.reason}` : "Live: this is what visitors see."}
       </p>
       <ReadOnlyResults name={name} view={view} downloadName={name} />
     </div>

@@ -79,15 +79,21 @@ export default function AdminLinksPage({ loaderData, actionData }: Route.Compone
       <AdminNav />
       <h1 className="text-2xl">Public links</h1>
       <p className="text-sm text-stone-700">
-        Every shared scenario whose link is on or taken down. Taking a link down makes its address answer “not found” and
-        shows your reason to the owner, who cannot share that scenario again until you restore it.
+        Every shared scenario whose link is on or taken down. Taking a link down makes its address answer “not found”
+        and shows your reason to the owner, who cannot share that scenario again until you restore it.
       </p>
       <Form method="get" className="flex flex-wrap items-end gap-2">
         <div className="min-w-0 flex-1 space-y-1">
           <label htmlFor="find-link" className="block text-sm font-semibold">
             Find a reported link
           </label>
-          <input id="find-link" name="link" defaultValue={params.get("link") ?? ""} placeholder="Paste the address, …/s/…" className="input" />
+          <input
+            id="find-link"
+            name="link"
+            defaultValue={params.get("link") ?? ""}
+            placeholder="Paste the address, …/s/…"
+            className="input"
+          />
         </div>
         <button type="submit" className="btn-secondary">
           Find
@@ -113,10 +119,15 @@ export default function AdminLinksPage({ loaderData, actionData }: Route.Compone
           >
             <div className="flex flex-wrap items-baseline justify-between gap-2">
               <p>
-                <span className="font-semibold">{l.scenarioName}</span> <span className="text-sm text-stone-600">in {l.tankName}</span>
+                <span className="font-semibold">{l.scenarioName}</span>{" "}
+                <span className="text-sm text-stone-600">in {l.tankName}</span>
               </p>
               <p className="text-sm">
-                {l.takenDownAt ? <span className="font-semibold text-red-800">taken down {l.takenDownAt}</span> : <span className="font-semibold text-fern-800">live</span>}
+                {l.takenDownAt ? (
+                  <span className="font-semibold text-red-800">taken down {l.takenDownAt}</span>
+                ) : (
+                  <span className="font-semibold text-fern-800">live</span>
+                )}
               </p>
             </div>
             <p className="text-sm text-stone-700">

@@ -44,7 +44,11 @@ export const action = apiRoute(async ({ request }: Route.ActionArgs) => {
     }
     const parsed = parseScenario(body.data.settings ?? {});
     if (!parsed.success) {
-      return apiError(400, "The settings are not valid.", zodIssues(parsed.error).map((i) => ({ ...i, path: `settings.${i.path}` })));
+      return apiError(
+        400,
+        "The settings are not valid.",
+        zodIssues(parsed.error).map((i) => ({ ...i, path: `settings.${i.path}` })),
+      );
     }
     if (parsed.data.run.lengthDays > PREVIEW_MAX_DAYS) {
       return apiError(400, `Previews run at most ${PREVIEW_MAX_DAYS} days; save the scenario to run longer.`, [
@@ -60,7 +64,10 @@ export const action = apiRoute(async ({ request }: Route.ActionArgs) => {
     const changed = withTankTargets(applyWhatIf(saved, whatIf), tank);
     const parsed = parseScenario(changed);
     if (!parsed.success) return apiError(400, "Those changes make the settings invalid.", zodIssues(parsed.error));
-    scenario = { ...parsed.data, run: { ...parsed.data.run, lengthDays: Math.min(parsed.data.run.lengthDays, PREVIEW_MAX_DAYS) } };
+    scenario = {
+      ...parsed.data,
+      run: { ...parsed.data.run, lengthDays: Math.min(parsed.data.run.lengthDays, PREVIEW_MAX_DAYS) },
+    };
   }
   const interval = Math.max(scenario.run.outputIntervalDays, scenario.run.lengthDays / MAX_POINTS);
   // Counted against the person's previews a minute and runs in flight (app/features/runs/run-gate.server.ts).

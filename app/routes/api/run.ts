@@ -6,7 +6,13 @@ import { getDb } from "~/db/client.server";
 import { runs, scenarios, tanks } from "~/db/schema";
 import { requireApiUser } from "~/permissions.server";
 import { runSummaryJson } from "~/features/scenarios/scenario-api.server";
-import { getRun, readStoredSettings, settingsHash, withTankTargets, type StoredRun } from "~/features/runs/simulation.server";
+import {
+  getRun,
+  readStoredSettings,
+  settingsHash,
+  withTankTargets,
+  type StoredRun,
+} from "~/features/runs/simulation.server";
 import { tanCriterionLines, type TanCriterionLines } from "~/features/runs/criterion-line";
 import { requireOwnedScenarioById } from "~/features/tanks/tanks.server";
 
@@ -77,7 +83,8 @@ export const loader = apiRoute(async ({ request, params }: Route.LoaderArgs) => 
       },
     });
   }
-  if (format !== "json") return apiError(400, "format must be json or csv.", [{ path: "format", message: "Use json or csv." }]);
+  if (format !== "json")
+    return apiError(400, "format must be json or csv.", [{ path: "format", message: "Use json or csv." }]);
   return json({ run: { ...runSummaryJson(run), series: run.series } });
 });
 
@@ -90,7 +97,8 @@ function criteriaOf(run: StoredRun, userId: number, scenarioId: number): TanCrit
   const { tank, scenario } = requireOwnedScenarioById(userId, String(scenarioId));
   const settings = readStoredSettings(scenario.settings);
   // Runs are stored under the settings' hash with the tank's nitrate targets or, when made on saving, without.
-  const madeFrom = settings && [settings, withTankTargets(settings, tank)].some((s) => settingsHash(s) === run.settingsHash);
+  const madeFrom =
+    settings && [settings, withTankTargets(settings, tank)].some((s) => settingsHash(s) === run.settingsHash);
   return madeFrom ? tanCriterionLines(run.series, settings.water.pH, settings.water.temperatureC) : null;
 }
 

@@ -2,7 +2,15 @@ import type { Route } from "./+types/scenario-run";
 import { apiError, apiRoute, json } from "~/http/api.server";
 import { requireApiUser } from "~/permissions.server";
 import { runSummaryJson, write } from "~/features/scenarios/scenario-api.server";
-import { findRun, getRun, insertRun, readStoredSettings, runEngineForStorage, settingsHash, withTankTargets } from "~/features/runs/simulation.server";
+import {
+  findRun,
+  getRun,
+  insertRun,
+  readStoredSettings,
+  runEngineForStorage,
+  settingsHash,
+  withTankTargets,
+} from "~/features/runs/simulation.server";
 import { requireOwnedScenarioById } from "~/features/tanks/tanks.server";
 
 async function currentRun(request: Request, scenarioIdParam: string | undefined, runIfMissing: boolean) {

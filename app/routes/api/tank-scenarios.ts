@@ -1,7 +1,12 @@
 import type { Route } from "./+types/tank-scenarios";
 import { apiError, apiRoute, json, readJson, zodIssues } from "~/http/api.server";
 import { requireApiUser } from "~/permissions.server";
-import { ScenarioBodySchema, requireValidSettings, saveScenarioWithRun, scenarioJson } from "~/features/scenarios/scenario-api.server";
+import {
+  ScenarioBodySchema,
+  requireValidSettings,
+  saveScenarioWithRun,
+  scenarioJson,
+} from "~/features/scenarios/scenario-api.server";
 import { listScenarios, requireOwnedTank } from "~/features/tanks/tanks.server";
 import { getDb } from "~/db/client.server";
 import { scenarios } from "~/db/schema";

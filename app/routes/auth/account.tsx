@@ -139,12 +139,7 @@ export default function AccountPage({ loaderData, actionData }: Route.ComponentP
           </div>
         </Form>
       </section>
-      <RemindersSection
-        tanks={loaderData.reminders}
-        errors={errors}
-        values={values}
-        saved={saved === "reminders"}
-      />
+      <RemindersSection tanks={loaderData.reminders} errors={errors} values={values} saved={saved === "reminders"} />
       <UsageSection usage={usage} />
       <section className="card space-y-4" aria-labelledby="password-title">
         <h2 id="password-title" className="text-lg">

@@ -19,8 +19,8 @@ export function RemindersSection(props: {
         E-mail reminders
       </h2>
       <p className="text-sm text-stone-600">
-        Opt in per tank: a mail on days a planned task is due, or a weekly digest of the next two weeks with the forecast.
-        Every mail has a link to stop it. The model is not a water test: keep testing your water.
+        Opt in per tank: a mail on days a planned task is due, or a weekly digest of the next two weeks with the
+        forecast. Every mail has a link to stop it. The model is not a water test: keep testing your water.
       </p>
       {saved ? <FormMessage tone="success">Your reminder settings were saved.</FormMessage> : null}
       {errors.tankId && values.intent === "reminders" ? <FormMessage>{errors.tankId}</FormMessage> : null}
@@ -28,7 +28,13 @@ export function RemindersSection(props: {
       {tanks.map((t) => {
         const mine = values.intent === "reminders" && values.tankId === String(t.tankId);
         return (
-          <Form key={t.tankId} method="post" className="grid items-end gap-4 sm:grid-cols-3" noValidate aria-label={`Reminders for ${t.name}`}>
+          <Form
+            key={t.tankId}
+            method="post"
+            className="grid items-end gap-4 sm:grid-cols-3"
+            noValidate
+            aria-label={`Reminders for ${t.name}`}
+          >
             <input type="hidden" name="intent" value="reminders" />
             <input type="hidden" name="tankId" value={t.tankId} />
             <SelectField

@@ -66,7 +66,10 @@ export default function SignInPage({ actionData }: Route.ComponentProps) {
         <Link to="/forgot-password" className="link">
           Forgot your password?
         </Link>
-        <Link to={redirectTo === "/tanks" ? "/sign-up" : `/sign-up?redirectTo=${encodeURIComponent(redirectTo)}`} className="link">
+        <Link
+          to={redirectTo === "/tanks" ? "/sign-up" : `/sign-up?redirectTo=${encodeURIComponent(redirectTo)}`}
+          className="link"
+        >
           Create an account
         </Link>
       </p>

@@ -64,7 +64,14 @@ export default function SignUpPage({ actionData }: Route.ComponentProps) {
       {errors[""] ? <FormMessage>{errors[""]}</FormMessage> : null}
       <Form method="post" className="space-y-4" noValidate>
         <input type="hidden" name="redirectTo" value={redirectTo} />
-        <TextField label="Name" name="name" autoComplete="name" defaultValue={values.name} error={errors.name} required />
+        <TextField
+          label="Name"
+          name="name"
+          autoComplete="name"
+          defaultValue={values.name}
+          error={errors.name}
+          required
+        />
         <TextField
           label="E-mail"
           name="email"
@@ -97,7 +104,10 @@ export default function SignUpPage({ actionData }: Route.ComponentProps) {
       </Form>
       <p className="text-sm">
         Already have an account?{" "}
-        <Link to={redirectTo === "/tanks" ? "/sign-in" : `/sign-in?redirectTo=${encodeURIComponent(redirectTo)}`} className="link">
+        <Link
+          to={redirectTo === "/tanks" ? "/sign-in" : `/sign-in?redirectTo=${encodeURIComponent(redirectTo)}`}
+          className="link"
+        >
           Sign in
         </Link>
       </p>

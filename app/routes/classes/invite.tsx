@@ -66,7 +66,8 @@ export default function InvitePage({ loaderData, actionData }: Route.ComponentPr
         </Form>
       ) : (
         <FormMessage tone="info">
-          You are signed in as {signedInAs.email}. Sign out and sign in with {email}, or join with the class’s code on the{" "}
+          You are signed in as {signedInAs.email}. Sign out and sign in with {email}, or join with the class’s code on
+          the{" "}
           <Link to="/classes" className="link">
             Classes
           </Link>{" "}

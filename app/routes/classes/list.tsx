@@ -19,11 +19,19 @@ export async function loader({ request }: Route.LoaderArgs) {
 
 const CreateSchema = z.object({
   intent: z.literal("create"),
-  name: z.string({ error: "Give the class a name." }).trim().min(1, "Give the class a name.").max(100, "Keep the name under 100 characters."),
+  name: z
+    .string({ error: "Give the class a name." })
+    .trim()
+    .min(1, "Give the class a name.")
+    .max(100, "Keep the name under 100 characters."),
 });
 const JoinSchema = z.object({
   intent: z.literal("join"),
-  code: z.string({ error: "Type the code your teacher gave you." }).trim().min(1, "Type the code your teacher gave you.").max(40, "A join code is 8 letters and digits."),
+  code: z
+    .string({ error: "Type the code your teacher gave you." })
+    .trim()
+    .min(1, "Type the code your teacher gave you.")
+    .max(40, "A join code is 8 letters and digits."),
 });
 
 export async function action({ request }: Route.ActionArgs) {
@@ -36,7 +44,8 @@ export async function action({ request }: Route.ActionArgs) {
   }
   const user = await requireUser(request);
   const parsed = JoinSchema.safeParse(values);
-  if (!parsed.success) return invalid(values.intent === "join" ? fieldErrors(parsed.error) : { "": "Unknown action." }, values);
+  if (!parsed.success)
+    return invalid(values.intent === "join" ? fieldErrors(parsed.error) : { "": "Unknown action." }, values);
   const joined = await joinWithCode(user, parsed.data.code);
   if (!joined.ok) return invalid({ code: joined.message }, values, joined.status ?? 400);
   return redirect(`/classes/${joined.classId}?joined=1`);
@@ -57,7 +66,9 @@ export default function ClassesPage({ loaderData, actionData }: Route.ComponentP
             Classes you run
           </h2>
           {running.length === 0 ? (
-            <p className="text-sm">No classes yet. Create one, then give your students its join code or invite them by e-mail.</p>
+            <p className="text-sm">
+              No classes yet. Create one, then give your students its join code or invite them by e-mail.
+            </p>
           ) : (
             <ul className="grid gap-3 sm:grid-cols-2">
               {running.map((c) => (

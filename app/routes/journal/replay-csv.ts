@@ -36,5 +36,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 }
 
 function plain(message: string, status: number): Response {
-  return new Response(message, { status, headers: { "Content-Type": "text/plain; charset=utf-8", "Cache-Control": "no-store" } });
+  return new Response(message, {
+    status,
+    headers: { "Content-Type": "text/plain; charset=utf-8", "Cache-Control": "no-store" },
+  });
 }

@@ -4,7 +4,12 @@ import type { Route } from "./+types/upload";
 import { FormMessage, SelectField } from "~/components/ui/field";
 import { getDb } from "~/db/client.server";
 import { requireUser } from "~/permissions.server";
-import { MAX_CSV_BYTES, MAX_CSV_ROWS, parseReadingsCsv, type CsvProblem } from "~/features/readings/readings-csv.server";
+import {
+  MAX_CSV_BYTES,
+  MAX_CSV_ROWS,
+  parseReadingsCsv,
+  type CsvProblem,
+} from "~/features/readings/readings-csv.server";
 import { checkNewReadings } from "~/quotas.server";
 import { insertReadings, measureUnitsFor, storedTimes, type MeasureUnits } from "~/features/readings/readings.server";
 import { requireOwnedTank } from "~/features/tanks/tanks.server";

@@ -7,7 +7,10 @@ import { tanks } from "~/db/schema";
 import { subscriptionById, unsubscribe } from "~/features/reminders/reminder-schedule.server";
 import { readUnsubscribeToken } from "~/features/reminders/unsubscribe-token.server";
 
-export const meta: Route.MetaFunction = () => [{ title: "Stop reminders · Fernwater" }, { name: "robots", content: "noindex" }];
+export const meta: Route.MetaFunction = () => [
+  { title: "Stop reminders · Fernwater" },
+  { name: "robots", content: "noindex" },
+];
 
 const refused = () => data({ error: "This unsubscribe link is not valid." }, { status: 404 });
 

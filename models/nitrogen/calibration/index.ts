@@ -9,7 +9,17 @@ export { assessReadings } from "./assess";
 export { runsZ } from "./fit-quality";
 export { calibrateMultipliers, kitsFor } from "./fit";
 export type { CalibrationResult, ObserveRequest, Predict } from "./fit";
-export { DEFAULT_CARDS, describeKit, kitStepIn, inferKit, KIT_UNITS, KitSchema, readingInterval, SPECIES, kitUnit } from "./kits";
+export {
+  DEFAULT_CARDS,
+  describeKit,
+  kitStepIn,
+  inferKit,
+  KIT_UNITS,
+  KitSchema,
+  readingInterval,
+  SPECIES,
+  kitUnit,
+} from "./kits";
 export type { Kit, Kits, Species } from "./kits";
 export { levenbergMarquardt } from "./least-squares";
 export { negLogLikelihood, observationsOf, pseudoResiduals } from "./likelihood";

@@ -86,7 +86,13 @@ export async function waitForMail(to: string, subject: RegExp, timeoutMs = 10_00
  * Signs up through the form, then opens the confirmation mail's link and presses its button,
  * as a person would; ends signed in, on the tanks page (or where sign-up was sent back to).
  */
-export async function signUp(page: Page, name: string, email: string, password: string, shotName?: string): Promise<void> {
+export async function signUp(
+  page: Page,
+  name: string,
+  email: string,
+  password: string,
+  shotName?: string,
+): Promise<void> {
   await page.goto("/sign-up");
   await page.getByLabel("Name").fill(name);
   await page.getByLabel("E-mail").fill(email);

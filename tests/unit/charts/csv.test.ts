@@ -72,7 +72,7 @@ describe("seriesCsv", () => {
     expect(lines[0]).toContain(
       ",Nitrate (NO3) (mg/L NO3),TAN long-term limit at the pH of the day (mg N/L),TAN short-term criterion at the pH of the day (mg N/L),'=evil (g dry),",
     );
-    expect(lines[3]).toBe('1,0.12,0.0012,0.03,12,1.2,9.6,5.5,');
+    expect(lines[3]).toBe("1,0.12,0.0012,0.03,12,1.2,9.6,5.5,");
   });
 });
 
