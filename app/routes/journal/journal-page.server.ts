@@ -165,7 +165,8 @@ export type JournalAnswer = {
 
 const refuse = (a: JournalAnswer, status = 400) => data(a, { status });
 
-export async function journalAction(request: Request, tank: TankRow, units: DisplayUnits) {
+/** `now` is the keeper's wall clock (keeperNow): an entry dated their today is not in the future. */
+export async function journalAction(request: Request, tank: TankRow, units: DisplayUnits, now = Date.now()) {
   const type = request.headers.get("content-type") ?? "";
   if (type.startsWith("multipart/form-data")) {
     try {
@@ -204,7 +205,7 @@ export async function journalAction(request: Request, tank: TankRow, units: Disp
     string,
     string
   >;
-  const read = readEntry(values, Date.now(), units);
+  const read = readEntry(values, now, units);
   if (!read.ok) return refuse({ intent, errors: read.errors, values });
   try {
     addEntries(tank.id, [read.entry]);
