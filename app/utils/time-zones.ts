@@ -28,7 +28,8 @@ function formatIn(zone: string): Intl.DateTimeFormat {
 
 /** Whether the runtime knows `zone` as an IANA time zone ("Pacific/Auckland", "UTC"). */
 export function isTimeZone(zone: string): boolean {
-  if (!zone || zone.length > 64) return false;
+  // Names only ("Europe/Berlin", "UTC"): Intl also takes bare offsets ("+13:00"), which know no daylight saving.
+  if (zone.length > 64 || !/^[A-Za-z][A-Za-z0-9_+\-/]*$/.test(zone)) return false;
   try {
     formatIn(zone);
     return true;
