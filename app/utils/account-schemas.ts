@@ -103,5 +103,8 @@ export const UnitPreferencesSchema = z.object({
     .trim()
     .optional()
     .transform((v) => v || null)
-    .refine((v) => v === null || isTimeZone(v), "Choose a time zone from the list, like Europe/Berlin or America/New_York."),
+    .refine(
+      (v) => v === null || isTimeZone(v),
+      "Choose a time zone from the list, like Europe/Berlin or America/New_York.",
+    ),
 });

@@ -40,7 +40,11 @@ export function isTimeZone(zone: string): boolean {
 
 /** The instant `ms` as the wall-clock time in `zone`, read as UTC (ms). */
 export function wallClock(ms: number, zone: string): number {
-  const p = Object.fromEntries(formatIn(zone).formatToParts(new Date(ms)).map((x) => [x.type, x.value]));
+  const p = Object.fromEntries(
+    formatIn(zone)
+      .formatToParts(new Date(ms))
+      .map((x) => [x.type, x.value]),
+  );
   const wall = Date.UTC(+p.year, +p.month - 1, +p.day, +p.hour, +p.minute, +p.second);
   return wall + (((ms % 1000) + 1000) % 1000);
 }

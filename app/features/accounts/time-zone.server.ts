@@ -10,7 +10,7 @@ import { isTimeZone, wallClock, ZONE_COOKIE } from "~/utils/time-zones";
 type Zones = { timeZone: string | null; browserTimeZone: string | null };
 
 /** The browser's zone from its cookie, when it is one the runtime knows. */
-export function browserZone(request: Request): string | null {
+function browserZone(request: Request): string | null {
   const header = request.headers.get("Cookie") ?? "";
   const found = header
     .split(";")

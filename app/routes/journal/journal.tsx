@@ -21,7 +21,13 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const user = await requireUser(request);
   const tank = requireOwnedTank(user.id, params.tankId);
   const query = new URL(request.url).searchParams;
-  return journalPageData(tank, query.get("scenario"), displayUnitsFor(user), keeperNow(request, user), query.get("page"));
+  return journalPageData(
+    tank,
+    query.get("scenario"),
+    displayUnitsFor(user),
+    keeperNow(request, user),
+    query.get("page"),
+  );
 }
 
 export async function action({ request, params }: Route.ActionArgs) {
