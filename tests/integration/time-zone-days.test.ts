@@ -8,6 +8,7 @@ import { afterEach, describe, expect, it, vi } from "vitest";
 import { getDb } from "~/db/client.server";
 import { users } from "~/db/schema";
 import { reminderSubscriptions } from "~/db/schema-care";
+import { reminderMail } from "~/features/reminders/reminder-mail.server";
 import { setReminder } from "~/features/reminders/reminder-schedule.server";
 import { action as accountAction, loader as accountLoader } from "~/routes/auth/account";
 import { loader as journalLoader } from "~/routes/journal/journal";
@@ -139,5 +140,21 @@ describe("the reminder hour", () => {
     setReminder(keeper.id, tankId, "weekly", 8, Date.parse("2026-12-04T18:00:00Z"));
     const again = getDb().select().from(reminderSubscriptions).where(eq(reminderSubscriptions.tankId, tankId)).get()!;
     expect(new Date(again.nextDueAt).toISOString()).toBe("2026-12-04T19:00:00.000Z");
+  });
+});
+
+describe("the reminder mail", () => {
+  it("counts due today on the keeper's day", async () => {
+    const mailAt = async (timeZone: string) => {
+      const { keeper, tankId } = await keeperWithChange("2026-11-28", timeZone);
+      setReminder(keeper.id, tankId, "due", 8, Date.parse("2026-12-04T18:00:00Z"));
+      const row = getDb().select().from(reminderSubscriptions).where(eq(reminderSubscriptions.tankId, tankId)).get()!;
+      return reminderMail(row, Date.parse("2026-12-04T20:00:00Z"));
+    };
+    // IANA tz database: Pacific/Auckland is UTC+13 in December: 20:00 UTC on the 4th is the 5th there.
+    const auckland = await mailAt("Pacific/Auckland");
+    expect(auckland?.text).toMatch(/Due today:\n- Water change \(30 %\)/);
+    // In UTC it is still the 4th: the change due on the 5th is not due today, so no mail.
+    expect(await mailAt("UTC")).toBeNull();
   });
 });
