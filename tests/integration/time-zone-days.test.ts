@@ -48,19 +48,20 @@ async function waterChangeAt(iso: string, tankId: number, cookie: string) {
   expect(journal.status).toBe(200);
   const onPage = page.data.upcoming.find((t: { title: string }) => t.title.startsWith("Water change"));
   const inJournal = journal.data.upcoming.find((t: { title: string }) => t.title.startsWith("Water change"));
-  return { onPage, inJournal };
+  return { onPage, inJournal, journalToday: journal.data.today as string };
 }
 
 describe("today in the keeper's time zone", () => {
   it("an Auckland keeper at 09:00 local has the water change due today while UTC is still the day before", async () => {
     const { keeper, tankId } = await keeperWithChange("2026-11-28", "Pacific/Auckland");
     // IANA tz database: Pacific/Auckland is UTC+13 in December (NZDT): 20:00 UTC on the 4th is 09:00 on the 5th.
-    const { onPage, inJournal } = await waterChangeAt("2026-12-04T20:00:00Z", tankId, keeper.cookie);
+    const { onPage, inJournal, journalToday } = await waterChangeAt("2026-12-04T20:00:00Z", tankId, keeper.cookie);
     expect(onPage.when).toBe("Sat 5 December");
     expect(onPage.overdue).toBe(false);
     // Marked done from the list, it is dated the keeper's today at their hour.
     expect(onPage.values.date).toBe("2026-12-05T09:00");
     expect(inJournal.overdue).toBe(false);
+    expect(journalToday).toBe("2026-12-05");
 
     // A change due on the 4th is overdue on the keeper's 5th, though the server's day is still the 4th.
     const late = await keeperWithChange("2026-11-27", "Pacific/Auckland");

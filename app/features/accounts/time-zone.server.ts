@@ -5,6 +5,7 @@
 import { eq } from "drizzle-orm";
 import { getDb } from "~/db/client.server";
 import { users } from "~/db/schema";
+import { formatDate } from "~/utils/dates";
 import { isTimeZone, wallClock, ZONE_COOKIE } from "~/utils/time-zones";
 
 type Zones = { timeZone: string | null; browserTimeZone: string | null };
@@ -56,4 +57,10 @@ export function zoneOfUser(userId: number): string {
 export function recordBrowserZone(request: Request, userId: number): void {
   const zone = browserZone(request);
   if (zone) getDb().update(users).set({ browserTimeZone: zone }).where(eq(users.id, userId)).run();
+}
+
+/** An instant's calendar day for the person ("2026-12-05"), as their pages date things. */
+export function dayWriter(request: Request, user: Zones | null): (at: Date) => string {
+  const { zone } = zoneFor(request, user);
+  return (at) => formatDate(wallClock(at.getTime(), zone));
 }

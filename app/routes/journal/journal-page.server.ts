@@ -36,7 +36,7 @@ import { listScenarios, type TankRow } from "~/features/tanks/tanks.server";
 import { readUpload, UploadError } from "~/http/uploads.server";
 import { takeUploadTurn, UploadRefused } from "~/http/upload-turns.server";
 import { runProblem } from "~/http/pages.server";
-import { formatDateTime, startOfDay } from "~/utils/dates";
+import { formatDate, formatDateTime, startOfDay } from "~/utils/dates";
 import type { CsvProblem } from "~/utils/csv-read.server";
 import type { DisplayUnits } from "~/utils/display-units";
 
@@ -147,6 +147,8 @@ export async function journalPageData(
     problem,
     upcoming,
     calendarOn: hasCalendarFeed(tank.id),
+    /** The keeper's today, the entry form's date until they change it. */
+    today: formatDate(now),
     /** The entry form's amounts are typed in these (the CSV file keeps its columns' own units). */
     units: { nitrate: units.nitrate, ammonia: units.ammonia } satisfies FieldUnits,
   };

@@ -161,7 +161,7 @@ export default function JournalPage({ loaderData, actionData }: Route.ComponentP
 
       <section className="space-y-3">
         <h2 className="text-xl font-semibold">Add an entry</h2>
-        <EntryForm answer={answer} units={loaderData.units} />
+        <EntryForm answer={answer} units={loaderData.units} today={loaderData.today} />
       </section>
 
       <section className="space-y-3">

@@ -20,7 +20,7 @@ import { readForm } from "~/http/pages.server";
 import { Breadcrumbs } from "~/components/breadcrumbs";
 import { ScrollTable } from "~/components/ui/scroll-table";
 import { UpcomingList } from "~/features/tanks/upcoming-list";
-import { keeperNow } from "~/features/accounts/time-zone.server";
+import { dayWriter, keeperNow } from "~/features/accounts/time-zone.server";
 import { upcomingView } from "~/routes/tanks/upcoming-view.server";
 import { tankPageAction } from "~/routes/tanks/tank-actions.server";
 import { bandKeptMessage } from "~/features/tanks/tank-settings.server";
@@ -44,6 +44,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   // The journal's replay (the real tank) may show danger the scenarios' figures below do not.
   // Days as the keeper's wall clock counts them (their time zone), not the server's.
   const today = keeperNow(request, user);
+  const dayOf = dayWriter(request, user);
   const journal = (await journalFlags([tank], today, 1)).get(tank.id) ?? null;
   return {
     tank: {
@@ -65,7 +66,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
       return {
         id: s.id,
         name: s.name,
-        updatedAt: s.updatedAt.toISOString().slice(0, 10),
+        updatedAt: dayOf(s.updatedAt),
         figures: figures ? displayKeyFigures(figures, units) : null,
         // Flagged here as on the tank list and the compare page, where the scenario to open is chosen.
         above: figures ? toxicPeaksAboveCaution(figures) : null,
