@@ -177,7 +177,7 @@ export async function journalAction(request: Request, tank: TankRow, units: Disp
       if (error instanceof UploadRefused) return refuse({ intent: "upload", message: error.message }, error.status);
       throw error;
     }
-    return storeUpload(request, tank);
+    return storeUpload(request, tank, now);
   }
   const form = await request.formData();
   const intent = String(form.get("intent") ?? "");
@@ -219,7 +219,7 @@ export async function journalAction(request: Request, tank: TankRow, units: Disp
 }
 
 /** A journal CSV upload: all its rows or none. */
-async function storeUpload(request: Request, tank: TankRow) {
+async function storeUpload(request: Request, tank: TankRow, now: number) {
   let upload;
   try {
     upload = await readUpload(request, MAX_JOURNAL_CSV_BYTES);
@@ -229,7 +229,7 @@ async function storeUpload(request: Request, tank: TankRow) {
   }
   if (!upload.file || upload.file.text.trim() === "")
     return refuse({ intent: "upload", message: "Choose a CSV file to upload." });
-  const parsed = parseJournalCsv(upload.file.text);
+  const parsed = parseJournalCsv(upload.file.text, now);
   if (!parsed.ok)
     return refuse({ intent: "upload", message: parsed.message, problems: parsed.problems, more: parsed.more });
   try {
