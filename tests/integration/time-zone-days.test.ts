@@ -9,7 +9,7 @@ import { getDb } from "~/db/client.server";
 import { users } from "~/db/schema";
 import { reminderSubscriptions } from "~/db/schema-care";
 import { reminderMail } from "~/features/reminders/reminder-mail.server";
-import { setReminder } from "~/features/reminders/reminder-schedule.server";
+import { claim, markSent, setReminder } from "~/features/reminders/reminder-schedule.server";
 import { action as accountAction, loader as accountLoader } from "~/routes/auth/account";
 import { loader as journalLoader } from "~/routes/journal/journal";
 import { loader as tankLoader } from "~/routes/tanks/detail";
@@ -141,6 +141,24 @@ describe("the reminder hour", () => {
     setReminder(keeper.id, tankId, "weekly", 8, Date.parse("2026-12-04T18:00:00Z"));
     const again = getDb().select().from(reminderSubscriptions).where(eq(reminderSubscriptions.tankId, tankId)).get()!;
     expect(new Date(again.nextDueAt).toISOString()).toBe("2026-12-04T19:00:00.000Z");
+  });
+});
+
+describe("the weekly reminder across a daylight-saving change", () => {
+  it("keeps the keeper's hour, not the UTC one", async () => {
+    const keeper = await userWithCookie();
+    getDb().update(users).set({ timeZone: "America/New_York" }).where(eq(users.id, keeper.id)).run();
+    const tankId = createTank(keeper.id);
+    const read = () =>
+      getDb().select().from(reminderSubscriptions).where(eq(reminderSubscriptions.tankId, tankId)).get()!;
+    // IANA tz database: New York is UTC-5 (EST) until 8 March 2026, UTC-4 (EDT) after.
+    setReminder(keeper.id, tankId, "weekly", 8, Date.parse("2026-03-02T12:00:00Z"));
+    expect(new Date(read().nextDueAt).toISOString()).toBe("2026-03-02T13:00:00.000Z");
+    const sentAt = Date.parse("2026-03-02T13:00:30Z");
+    expect(claim(read().id, "test", sentAt)).toBe(true);
+    markSent(read(), "test", sentAt, true);
+    // A week on, 08:00 EDT: 12:00 UTC, an hour earlier in UTC than the week before.
+    expect(new Date(read().nextDueAt).toISOString()).toBe("2026-03-09T12:00:00.000Z");
   });
 });
 
