@@ -17,6 +17,9 @@ import { FooterCaution } from "~/components/cautions";
 import { getEnv } from "~/env.server";
 import { getSessionUser } from "~/session.server";
 import { useNonce } from "~/utils/nonce";
+import { ZONE_COOKIE } from "~/utils/time-zones";
+
+const ZONE_SCRIPT = `try{document.cookie="${ZONE_COOKIE}="+encodeURIComponent(Intl.DateTimeFormat().resolvedOptions().timeZone)+";path=/;max-age=31536000;samesite=lax"}catch(e){}`;
 
 export const links: Route.LinksFunction = () => [{ rel: "icon", href: "/favicon.ico" }];
 
@@ -34,6 +37,8 @@ export function Layout({ children }: { children: React.ReactNode }) {
         <meta name="viewport" content="width=device-width, initial-scale=1" />
         <Meta />
         <Links />
+        {/* The browser's time zone, for calendar days until the person chooses one (app/utils/time-zones.ts). */}
+        <script nonce={nonce} dangerouslySetInnerHTML={{ __html: ZONE_SCRIPT }} />
       </head>
       <body className="min-h-screen bg-[#fbfaf7] text-stone-900 antialiased">
         {children}

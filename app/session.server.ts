@@ -3,6 +3,7 @@ import { createCookieSessionStorage, redirect } from "react-router";
 import { getDb, type Db } from "~/db/client.server";
 import { sessions, users } from "~/db/schema";
 import { getEnv, isProduction } from "~/env.server";
+import { recordBrowserZone } from "~/features/accounts/time-zone.server";
 import { hashToken, randomToken } from "~/utils/crypto.server";
 import { safeRedirect } from "~/utils/safe-redirect";
 
@@ -18,6 +19,8 @@ export type SessionUser = {
   temperatureUnit: "C" | "F";
   nitrateUnit: "NO3" | "N";
   khUnit: "dKH" | "CaCO3";
+  timeZone: string | null;
+  browserTimeZone: string | null;
 };
 
 let storage: ReturnType<typeof createCookieSessionStorage<{ sid: string }>> | undefined;
@@ -54,6 +57,8 @@ const userColumns = {
   temperatureUnit: users.temperatureUnit,
   nitrateUnit: users.nitrateUnit,
   khUnit: users.khUnit,
+  timeZone: users.timeZone,
+  browserTimeZone: users.browserTimeZone,
 };
 
 const cache = new WeakMap<Request, Promise<SessionUser | null>>();
@@ -125,6 +130,7 @@ export async function createUserSession(request: Request, userId: number, redire
       })
       .run();
   });
+  recordBrowserZone(request, userId);
   const session = await getStorage().getSession();
   session.set("sid", sid);
   return redirect(safeRedirect(redirectTo), {

@@ -9,7 +9,6 @@ import {
   type EntryKind,
   type FieldUnits,
 } from "~/features/journal/journal-entries";
-import { formatDate } from "~/utils/dates";
 
 /** The page action's answer, as far as the form redraws it. */
 type EntryFormAnswer = {
@@ -20,7 +19,16 @@ type EntryFormAnswer = {
 };
 
 /** The entry form; amounts (tap nitrate, ammonia dosed) typed in the person's own units. */
-export function EntryForm({ answer, units }: { answer: EntryFormAnswer | undefined; units: FieldUnits }) {
+/** `today`: the keeper's day ("2026-12-05", their time zone), the date until they change it. */
+export function EntryForm({
+  answer,
+  units,
+  today,
+}: {
+  answer: EntryFormAnswer | undefined;
+  units: FieldUnits;
+  today: string;
+}) {
   const values = answer?.intent === "add" ? (answer.values ?? {}) : {};
   const errors = answer?.intent === "add" ? (answer.errors ?? {}) : {};
   const [kind, setKind] = useState<EntryKind>((values.kind as EntryKind) || "water_change");
@@ -38,7 +46,7 @@ export function EntryForm({ answer, units }: { answer: EntryFormAnswer | undefin
           name="date"
           type="date"
           required
-          defaultValue={values.date ?? formatDate(Date.now())}
+          defaultValue={values.date ?? today}
           error={errors.date}
         />
         <SelectField

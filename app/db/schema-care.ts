@@ -66,7 +66,7 @@ export const reminderSubscriptions = sqliteTable(
       .references(() => users.id, { onDelete: "cascade" }),
     /** "due": a mail on a day a planned task is due; "weekly": a digest every 7 days. */
     mode: text("mode").notNull(),
-    /** Hour of day (UTC) the mail is sent. */
+    /** Hour of day the mail is sent, on the keeper's clock (their time zone). */
     hour: integer("hour").notNull(),
     nextDueAt: integer("next_due_at").notNull(),
     claimedBy: text("claimed_by"),

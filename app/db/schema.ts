@@ -40,6 +40,10 @@ export const users = sqliteTable("users", {
   temperatureUnit: text("temperature_unit", { enum: TEMPERATURE_UNITS }).notNull().default("C"),
   nitrateUnit: text("nitrate_unit", { enum: NITRATE_UNITS }).notNull().default("NO3"),
   khUnit: text("kh_unit", { enum: KH_UNITS }).notNull().default("dKH"),
+  /** The IANA time zone the person chose for calendar days; null: the browser's (app/utils/time-zones.ts). */
+  timeZone: text("time_zone"),
+  /** The browser's zone at the last sign-in, for mail sent while no page is open. */
+  browserTimeZone: text("browser_time_zone"),
   createdAt: createdAt(),
   emailVerifiedAt: integer("email_verified_at", { mode: "timestamp_ms" }),
 });

@@ -4,6 +4,7 @@
  */
 import { z } from "zod";
 import { PREFERENCE_CHOICES } from "~/utils/display-units";
+import { isTimeZone } from "~/utils/time-zones";
 
 const COMMON_PASSWORDS = new Set([
   "password",
@@ -96,4 +97,14 @@ export const UnitPreferencesSchema = z.object({
   temperatureUnit: z.enum(PREFERENCE_CHOICES.temperatureUnit, { error: "Choose a temperature unit." }),
   nitrateUnit: z.enum(PREFERENCE_CHOICES.nitrateUnit, { error: "Choose how nitrate is shown." }),
   khUnit: z.enum(PREFERENCE_CHOICES.khUnit, { error: "Choose a KH unit." }),
+  /** Blank: the browser's zone. */
+  timeZone: z
+    .string()
+    .trim()
+    .optional()
+    .transform((v) => v || null)
+    .refine(
+      (v) => v === null || isTimeZone(v),
+      "Choose a time zone from the list, like Europe/Berlin or America/New_York.",
+    ),
 });

@@ -18,6 +18,8 @@ import { plannedSettings, planStart } from "~/features/tanks/maintenance-plan.se
 import { hashToken, randomToken } from "~/utils/crypto.server";
 import { dayText } from "~/features/journal/forecast-text.server";
 import { DAY_MS, startOfDay } from "~/utils/dates";
+import { wallClock } from "~/utils/time-zones";
+import { zoneOfUser } from "~/features/accounts/time-zone.server";
 
 const CALENDAR_DAYS = 90;
 
@@ -123,8 +125,10 @@ export function calendarFor(token: string, now = Date.now()): string | null {
   if (!tank || !row || !settings) return null;
   const s = plannedSettings(tank.id, settings);
   const start = planStart(tank.id, row, firstEntryAt(tank.id));
+  // The owner's days: "today" on their wall clock, in their time zone.
+  const today = wallClock(now, zoneOfUser(tank.ownerId));
   const cal = ical({ name: `${tank.name} · Fernwater`, prodId: { company: "Fernwater", product: "tank-calendar" } });
-  for (const t of upcomingTasks(s, lastTaskEntries(tank.id, doneByEndOf(now)), start, now)) {
+  for (const t of upcomingTasks(s, lastTaskEntries(tank.id, doneByEndOf(today)), start, today)) {
     cal.createEvent({
       // Keyed by the day it fell due, so an overdue task stays one event that moves along with today
       // (a kind never logged falls due on a fixed day too: counted from the plan's start).

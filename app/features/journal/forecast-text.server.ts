@@ -7,7 +7,7 @@ import { resultWarnings } from "~/features/runs/run-warnings";
 import { DAY_MS } from "~/utils/dates";
 import { nitrateText, type DisplayUnits } from "~/utils/display-units";
 
-/** "14 December" (UTC). */
+/** "14 December": a planned day, a wall-clock date read as UTC (app/utils/time-zones.ts). */
 export const dayText = (ms: number) =>
   new Date(ms).toLocaleDateString("en-GB", { day: "numeric", month: "long", timeZone: "UTC" });
 

@@ -18,8 +18,11 @@ import type { ReminderRow } from "~/features/reminders/reminder-schedule.server"
 import { unsubscribeToken } from "~/features/reminders/unsubscribe-token.server";
 import { readStoredSettings } from "~/features/runs/simulation.server";
 import { DAY_MS, startOfDay } from "~/utils/dates";
+import { wallClock } from "~/utils/time-zones";
+import { zoneFor } from "~/features/accounts/time-zone.server";
 
 const DIGEST_DAYS = 14;
+/** A planned day (a wall-clock date read as UTC, app/utils/time-zones.ts) in words. */
 const dayText = (ms: number) =>
   new Date(ms).toLocaleDateString("en-GB", { weekday: "short", day: "numeric", month: "long", timeZone: "UTC" });
 
@@ -40,11 +43,13 @@ function baseUrl(env: Env): string {
   return env.APP_URL ?? `http://localhost:${env.PORT}`;
 }
 
-export async function reminderMail(row: ReminderRow, now: number): Promise<OutgoingMail | null> {
+/** `at` is the instant of the check; the keeper's days are those of their wall clock then. */
+export async function reminderMail(row: ReminderRow, at: number): Promise<OutgoingMail | null> {
   const db = getDb();
   const tank = db.select().from(tanks).where(eq(tanks.id, row.tankId)).get();
   const user = db.select().from(users).where(eq(users.id, row.userId)).get();
   if (!tank || !user || tank.ownerId !== user.id) return null;
+  const now = wallClock(at, zoneFor(null, user).zone);
   // The scenario the tank's plan is over, as the tank page's upcoming list uses.
   const scenario = planScenario(tank.id);
   const stored = scenario ? readStoredSettings(scenario.settings) : null;

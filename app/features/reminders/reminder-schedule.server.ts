@@ -9,6 +9,8 @@ import { and, eq, isNull, lt, lte, or, sql } from "drizzle-orm";
 import { getDb } from "~/db/client.server";
 import { reminderSubscriptions } from "~/db/schema-care";
 import { DAY_MS, startOfDay } from "~/utils/dates";
+import { instantAt, wallClock } from "~/utils/time-zones";
+import { zoneOfUser } from "~/features/accounts/time-zone.server";
 import type { ReminderMode } from "~/features/reminders/reminder-preferences";
 
 const HOUR_MS = 3_600_000;
@@ -17,18 +19,22 @@ const CLAIM_LEASE_MS = 2 * 60_000;
 
 export type ReminderRow = typeof reminderSubscriptions.$inferSelect;
 
-/** The first due time: today at `hour` (UTC) if that hour has not yet passed, else tomorrow. */
-function firstDueAt(hour: number, now: number): number {
-  const today = startOfDay(now) + hour * HOUR_MS;
-  return today + HOUR_MS > now ? today : today + DAY_MS;
+/**
+ * The first due time: today at `hour` on the keeper's clock (`zone`) if that hour has not yet
+ * passed, else tomorrow. Days step on the wall clock, so the hour holds across daylight saving.
+ */
+function firstDueAt(hour: number, now: number, zone: string): number {
+  const today = startOfDay(wallClock(now, zone)) + hour * HOUR_MS;
+  const at = instantAt(today, zone);
+  return at + HOUR_MS > now ? at : instantAt(today + DAY_MS, zone);
 }
 
 /** After a send: the next day at the hour ("due") or a week on ("weekly"), always in the future. */
-function nextDueAfter(row: Pick<ReminderRow, "mode" | "hour" | "nextDueAt">, now: number): number {
+function nextDueAfter(row: Pick<ReminderRow, "mode" | "hour" | "nextDueAt">, now: number, zone: string): number {
   const step = row.mode === "weekly" ? 7 * DAY_MS : DAY_MS;
-  let next = startOfDay(row.nextDueAt) + row.hour * HOUR_MS + step;
-  while (next <= now) next += step;
-  return next;
+  let next = startOfDay(wallClock(row.nextDueAt, zone)) + row.hour * HOUR_MS + step;
+  while (instantAt(next, zone) <= now) next += step;
+  return instantAt(next, zone);
 }
 
 /** Sets (or clears, mode "off") a tank's reminders; a changed hour or mode starts a fresh schedule. */
@@ -44,7 +50,7 @@ export function setReminder(
     db.delete(reminderSubscriptions).where(eq(reminderSubscriptions.tankId, tankId)).run();
     return;
   }
-  const nextDueAt = firstDueAt(hour, now);
+  const nextDueAt = firstDueAt(hour, now, zoneOfUser(userId));
   db.insert(reminderSubscriptions)
     .values({ tankId, userId, mode, hour, nextDueAt })
     .onConflictDoUpdate({
@@ -100,7 +106,7 @@ export function markSent(row: ReminderRow, claimer: string, now: number, sent: b
   getDb()
     .update(reminderSubscriptions)
     .set({
-      nextDueAt: nextDueAfter(row, now),
+      nextDueAt: nextDueAfter(row, now, zoneOfUser(row.userId)),
       claimedBy: null,
       claimedUntil: null,
       lastSentAt: sent ? now : sql`${reminderSubscriptions.lastSentAt}`,

@@ -3,6 +3,7 @@ import { z } from "zod";
 import type { Route } from "./+types/links";
 import { AdminNav } from "~/components/admin-nav";
 import { FormMessage } from "~/components/ui/field";
+import { dayWriter } from "~/features/accounts/time-zone.server";
 import { requireRole } from "~/permissions.server";
 import { findLinkByToken, listPublicLinks, restoreLink, takeDownLink } from "~/features/sharing/share.server";
 import { fieldErrors, formValues } from "~/utils/form-errors";
@@ -18,14 +19,14 @@ function tokenFrom(pasted: string): string {
 }
 
 export async function loader({ request }: Route.LoaderArgs) {
-  await requireRole(request, "admin");
+  const dayOf = dayWriter(request, await requireRole(request, "admin"));
   const pasted = new URL(request.url).searchParams.get("link")?.slice(0, 500) ?? "";
   const found = pasted ? findLinkByToken(tokenFrom(pasted)) : null;
   return {
     links: listPublicLinks().map((l) => ({
       id: l.id,
-      createdAt: l.createdAt.toISOString().slice(0, 10),
-      takenDownAt: l.takenDownAt ? l.takenDownAt.toISOString().slice(0, 10) : null,
+      createdAt: dayOf(l.createdAt),
+      takenDownAt: l.takenDownAt ? dayOf(l.takenDownAt) : null,
       takedownReason: l.takedownReason,
       scenarioName: l.scenarioName,
       tankName: l.tankName,

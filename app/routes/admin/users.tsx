@@ -6,6 +6,7 @@ import { AdminNav } from "~/components/admin-nav";
 import { FormMessage } from "~/components/ui/field";
 import { getDb } from "~/db/client.server";
 import { ROLES, users } from "~/db/schema";
+import { dayWriter } from "~/features/accounts/time-zone.server";
 import { requireRole } from "~/permissions.server";
 import { fieldErrors, formValues } from "~/utils/form-errors";
 import { invalid, readForm } from "~/http/pages.server";
@@ -20,7 +21,8 @@ export async function loader({ request }: Route.LoaderArgs) {
     .from(users)
     .orderBy(asc(users.email))
     .all();
-  return { me: { id: me.id }, users: list };
+  const dayOf = dayWriter(request, me);
+  return { me: { id: me.id }, users: list.map((u) => ({ ...u, joined: dayOf(u.createdAt) })) };
 }
 
 const RoleChangeSchema = z.object({
@@ -81,7 +83,7 @@ export default function AdminUsersPage({ loaderData, actionData }: Route.Compone
               <tr key={u.id} className="border-b border-stone-200">
                 <td className="py-2 pr-3">{u.name}</td>
                 <td className="py-2 pr-3">{u.email}</td>
-                <td className="num py-2 pr-3">{new Date(u.createdAt).toISOString().slice(0, 10)}</td>
+                <td className="num py-2 pr-3">{u.joined}</td>
                 <td className="py-2">
                   <Form method="post" className="flex items-center gap-2">
                     <input type="hidden" name="intent" value="role" />

@@ -1,5 +1,6 @@
 import type { Route } from "./+types/tank-journal-entry";
 import { apiError, apiRoute, json, methodNotAllowed, readJson } from "~/http/api.server";
+import { keeperNow } from "~/features/accounts/time-zone.server";
 import { notFound, requireApiUser } from "~/permissions.server";
 import { deleteEntry, entryJson, journalEntry, readEntry, updateEntry } from "~/features/journal/journal.server";
 import { entryFields } from "~/features/journal/journal-entries";
@@ -36,7 +37,7 @@ export const action = apiRoute(async ({ request, params }: Route.ActionArgs) => 
     note: entry.note,
     ...(kindChanged ? {} : entryFields(entry.kind, entry.details)),
   };
-  const read = readEntry({ ...base, ...patch });
+  const read = readEntry({ ...base, ...patch }, keeperNow(request, user));
   if (!read.ok)
     return apiError(
       400,

@@ -1,5 +1,6 @@
 import type { Route } from "./+types/tank-journal";
 import { apiError, apiRoute, json, readJson } from "~/http/api.server";
+import { keeperNow } from "~/features/accounts/time-zone.server";
 import { requireApiUser } from "~/permissions.server";
 import { takeListingTurn } from "~/http/listing-turns.server";
 import { addEntries, entryJson, journalEntry, listJournal, readEntry } from "~/features/journal/journal.server";
@@ -21,7 +22,7 @@ export const action = apiRoute(async ({ request, params }: Route.ActionArgs) => 
   const body = await readJson(request);
   if (typeof body !== "object" || body === null || Array.isArray(body))
     return apiError(400, "The body must be a JSON object.");
-  const read = readEntry(body as Record<string, unknown>);
+  const read = readEntry(body as Record<string, unknown>, keeperNow(request, user));
   if (!read.ok)
     return apiError(
       400,

@@ -15,6 +15,7 @@ import { ChangePasswordSchema, UnitPreferencesSchema } from "~/utils/account-sch
 import { fieldErrors, formValues } from "~/utils/form-errors";
 import { invalid, readForm } from "~/http/pages.server";
 import { PREFERENCE_OPTIONS } from "~/utils/display-units";
+import { zoneFor } from "~/features/accounts/time-zone.server";
 import { reminderSettings, saveReminderSettings } from "~/routes/auth/account-reminders.server";
 import { RemindersSection } from "~/routes/auth/reminders-section";
 
@@ -22,7 +23,14 @@ export const meta: Route.MetaFunction = () => [{ title: "Your account · Fernwat
 
 export async function loader({ request }: Route.LoaderArgs) {
   const user = await requireUser(request);
-  return { user, usage: usageOf(getDb(), user.id), reminders: reminderSettings(user.id) };
+  const zone = zoneFor(request, user);
+  return {
+    user,
+    zone,
+    zones: typeof Intl.supportedValuesOf === "function" ? Intl.supportedValuesOf("timeZone") : [],
+    usage: usageOf(getDb(), user.id),
+    reminders: reminderSettings(user.id),
+  };
 }
 
 const IntentSchema = z.enum(["preferences", "password", "reminders"]);
@@ -69,6 +77,12 @@ export async function action({ request }: Route.ActionArgs) {
   revokeAllSessions(user.id);
   return createUserSession(request, user.id, "/account?saved=password");
 }
+
+const ZONE_FROM = {
+  setting: ", your choice",
+  browser: ", your browser's",
+  default: " (your browser has not told us its zone yet)",
+} as const;
 
 export default function AccountPage({ loaderData, actionData }: Route.ComponentProps) {
   const { user, usage } = loaderData;
@@ -132,6 +146,22 @@ export default function AccountPage({ loaderData, actionData }: Route.ComponentP
             options={PREFERENCE_OPTIONS.khUnit}
             error={forPrefs ? errors.khUnit : undefined}
           />
+          <div className="sm:col-span-2">
+            <TextField
+              label="Time zone"
+              name="timeZone"
+              list="time-zones"
+              autoComplete="off"
+              defaultValue={forPrefs ? (values.timeZone ?? user.timeZone ?? "") : (user.timeZone ?? "")}
+              hint={`Days (due today, overdue, reminder hours) are counted in ${loaderData.zone.zone}${ZONE_FROM[loaderData.zone.from]}. Leave blank to use your browser's.`}
+              error={forPrefs ? errors.timeZone : undefined}
+            />
+            <datalist id="time-zones">
+              {loaderData.zones.map((z) => (
+                <option key={z} value={z} />
+              ))}
+            </datalist>
+          </div>
           <div className="sm:col-span-2">
             <button type="submit" className="btn" disabled={busy}>
               Save name and units

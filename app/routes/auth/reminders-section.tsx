@@ -5,7 +5,7 @@ import { REMINDER_MODES } from "~/features/reminders/reminder-preferences";
 type TankReminder = { tankId: number; name: string; mode: string; hour: number };
 const MODE_OPTIONS = Object.entries(REMINDER_MODES).map(([value, label]) => ({ value, label }));
 
-/** Per tank: off, a mail on days a planned task is due, or a weekly digest, at an hour (UTC). */
+/** Per tank: off, a mail on days a planned task is due, or a weekly digest, at an hour on the keeper's clock (their time zone). */
 export function RemindersSection(props: {
   tanks: TankReminder[];
   errors: Record<string, string>;
@@ -45,7 +45,7 @@ export function RemindersSection(props: {
               error={mine ? errors.mode : undefined}
             />
             <TextField
-              label="Hour (UTC, 0–23)"
+              label="Hour (0–23, your time zone)"
               name="hour"
               inputMode="numeric"
               defaultValue={mine ? values.hour : String(t.hour)}

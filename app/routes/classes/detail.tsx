@@ -15,6 +15,7 @@ import {
 } from "~/features/classes/classes.server";
 import { getDb } from "~/db/client.server";
 import { users } from "~/db/schema";
+import { dayWriter } from "~/features/accounts/time-zone.server";
 import { requireUser } from "~/permissions.server";
 import { READ_ONLY_CLASS } from "~/features/classes/class-messages";
 import { fieldErrors, formValues } from "~/utils/form-errors";
@@ -64,12 +65,12 @@ export async function loader({ request, params }: Route.LoaderArgs) {
         id: s.id,
         name: s.name,
         email: s.email,
-        joinedAt: s.joinedAt.toISOString().slice(0, 10),
+        joinedAt: dayWriter(request, user)(s.joinedAt),
       })),
       invites: pendingInvites(cls.id).map((i) => ({
         id: i.id,
         email: i.email,
-        expiresAt: i.expiresAt.toISOString().slice(0, 10),
+        expiresAt: dayWriter(request, user)(i.expiresAt),
       })),
     },
     formerStudents: null,

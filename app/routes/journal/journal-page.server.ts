@@ -36,7 +36,7 @@ import { listScenarios, type TankRow } from "~/features/tanks/tanks.server";
 import { readUpload, UploadError } from "~/http/uploads.server";
 import { takeUploadTurn, UploadRefused } from "~/http/upload-turns.server";
 import { runProblem } from "~/http/pages.server";
-import { formatDateTime, startOfDay } from "~/utils/dates";
+import { formatDate, formatDateTime, startOfDay } from "~/utils/dates";
 import type { CsvProblem } from "~/utils/csv-read.server";
 import type { DisplayUnits } from "~/utils/display-units";
 
@@ -147,6 +147,8 @@ export async function journalPageData(
     problem,
     upcoming,
     calendarOn: hasCalendarFeed(tank.id),
+    /** The keeper's today, the entry form's date until they change it. */
+    today: formatDate(now),
     /** The entry form's amounts are typed in these (the CSV file keeps its columns' own units). */
     units: { nitrate: units.nitrate, ammonia: units.ammonia } satisfies FieldUnits,
   };
@@ -165,7 +167,8 @@ export type JournalAnswer = {
 
 const refuse = (a: JournalAnswer, status = 400) => data(a, { status });
 
-export async function journalAction(request: Request, tank: TankRow, units: DisplayUnits) {
+/** `now` is the keeper's wall clock (keeperNow): an entry dated their today is not in the future. */
+export async function journalAction(request: Request, tank: TankRow, units: DisplayUnits, now = Date.now()) {
   const type = request.headers.get("content-type") ?? "";
   if (type.startsWith("multipart/form-data")) {
     try {
@@ -174,7 +177,7 @@ export async function journalAction(request: Request, tank: TankRow, units: Disp
       if (error instanceof UploadRefused) return refuse({ intent: "upload", message: error.message }, error.status);
       throw error;
     }
-    return storeUpload(request, tank);
+    return storeUpload(request, tank, now);
   }
   const form = await request.formData();
   const intent = String(form.get("intent") ?? "");
@@ -204,7 +207,7 @@ export async function journalAction(request: Request, tank: TankRow, units: Disp
     string,
     string
   >;
-  const read = readEntry(values, Date.now(), units);
+  const read = readEntry(values, now, units);
   if (!read.ok) return refuse({ intent, errors: read.errors, values });
   try {
     addEntries(tank.id, [read.entry]);
@@ -216,7 +219,7 @@ export async function journalAction(request: Request, tank: TankRow, units: Disp
 }
 
 /** A journal CSV upload: all its rows or none. */
-async function storeUpload(request: Request, tank: TankRow) {
+async function storeUpload(request: Request, tank: TankRow, now: number) {
   let upload;
   try {
     upload = await readUpload(request, MAX_JOURNAL_CSV_BYTES);
@@ -226,7 +229,7 @@ async function storeUpload(request: Request, tank: TankRow) {
   }
   if (!upload.file || upload.file.text.trim() === "")
     return refuse({ intent: "upload", message: "Choose a CSV file to upload." });
-  const parsed = parseJournalCsv(upload.file.text);
+  const parsed = parseJournalCsv(upload.file.text, now);
   if (!parsed.ok)
     return refuse({ intent: "upload", message: parsed.message, problems: parsed.problems, more: parsed.more });
   try {

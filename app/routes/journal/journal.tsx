@@ -9,6 +9,7 @@ import { JournalReplayChart } from "~/components/journal-replay-chart";
 import { OverdueBadge } from "~/features/tanks/upcoming-list";
 import { requireOwnedTank } from "~/features/tanks/tanks.server";
 import { requireUser } from "~/permissions.server";
+import { keeperNow } from "~/features/accounts/time-zone.server";
 import { journalAction, journalPageData, type JournalAnswer } from "~/routes/journal/journal-page.server";
 import { BudgetTable } from "~/components/charts/budget";
 import { displayUnitsFor } from "~/utils/display-units";
@@ -20,13 +21,19 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const user = await requireUser(request);
   const tank = requireOwnedTank(user.id, params.tankId);
   const query = new URL(request.url).searchParams;
-  return journalPageData(tank, query.get("scenario"), displayUnitsFor(user), Date.now(), query.get("page"));
+  return journalPageData(
+    tank,
+    query.get("scenario"),
+    displayUnitsFor(user),
+    keeperNow(request, user),
+    query.get("page"),
+  );
 }
 
 export async function action({ request, params }: Route.ActionArgs) {
   const user = await requireUser(request);
   const tank = requireOwnedTank(user.id, params.tankId);
-  return journalAction(request, tank, displayUnitsFor(user));
+  return journalAction(request, tank, displayUnitsFor(user), keeperNow(request, user));
 }
 
 export default function JournalPage({ loaderData, actionData }: Route.ComponentProps) {
@@ -154,7 +161,7 @@ export default function JournalPage({ loaderData, actionData }: Route.ComponentP
 
       <section className="space-y-3">
         <h2 className="text-xl font-semibold">Add an entry</h2>
-        <EntryForm answer={answer} units={loaderData.units} />
+        <EntryForm answer={answer} units={loaderData.units} today={loaderData.today} />
       </section>
 
       <section className="space-y-3">

@@ -3,6 +3,7 @@ import { replayCsv } from "~/features/journal/replay-csv.server";
 import { requireOwnedTank } from "~/features/tanks/tanks.server";
 import { ListingRefused, listingRefusedResponse, takeListingTurn } from "~/http/listing-turns.server";
 import { refusalOf } from "~/http/refusals.server";
+import { keeperNow } from "~/features/accounts/time-zone.server";
 import { requireUser } from "~/permissions.server";
 import { displayUnitsFor } from "~/utils/display-units";
 import { fileSlugFor } from "~/utils/file-name";
@@ -15,7 +16,12 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   try {
     // A whole replay is a listing: counted before the work, as the journal's own CSV.
     await takeListingTurn(user.id);
-    csv = await replayCsv(tank, new URL(request.url).searchParams.get("scenario"), displayUnitsFor(user));
+    csv = await replayCsv(
+      tank,
+      new URL(request.url).searchParams.get("scenario"),
+      displayUnitsFor(user),
+      keeperNow(request, user),
+    );
   } catch (error) {
     if (error instanceof ListingRefused) return listingRefusedResponse(error);
     // A limit on runs (429), the model refusing the settings (422): said in words, as the page says it.

@@ -6,6 +6,7 @@ import { FooterCaution } from "~/components/cautions";
 import { FormMessage, TextField } from "~/components/ui/field";
 import { getDb } from "~/db/client.server";
 import { readings } from "~/db/schema";
+import { keeperNow } from "~/features/accounts/time-zone.server";
 import { requireUser } from "~/permissions.server";
 import { checkNewReadings } from "~/quotas.server";
 import {
@@ -82,7 +83,7 @@ export async function action({ request, params }: Route.ActionArgs) {
       .run();
     return redirect(listHref(tank.id, { ...back, edit: undefined, saved: "deleted" }));
   }
-  const parsed = parseReadingForm(values, measureUnitsFor(displayUnitsFor(user)));
+  const parsed = parseReadingForm(values, measureUnitsFor(displayUnitsFor(user)), keeperNow(request, user));
   if (!parsed.ok) return invalid(parsed.errors, values);
   const { reading } = parsed;
   if (takenAtClash(tank.id, reading.takenAt, existing?.id))

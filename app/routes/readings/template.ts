@@ -1,4 +1,5 @@
 import type { Route } from "./+types/template";
+import { keeperNow } from "~/features/accounts/time-zone.server";
 import { requireUser } from "~/permissions.server";
 import { templateCsv } from "~/features/readings/readings-csv-export.server";
 import { measureUnitsFor } from "~/features/readings/readings.server";
@@ -9,7 +10,7 @@ import { displayUnitsFor } from "~/utils/display-units";
 export async function loader({ request, params }: Route.LoaderArgs) {
   const user = await requireUser(request);
   requireOwnedTank(user.id, params.tankId);
-  const body = "\uFEFF" + templateCsv(measureUnitsFor(displayUnitsFor(user)), Date.now());
+  const body = "\uFEFF" + templateCsv(measureUnitsFor(displayUnitsFor(user)), keeperNow(request, user));
   return new Response(body, {
     headers: {
       "Content-Type": "text/csv; charset=utf-8",

@@ -3,6 +3,7 @@ import { z } from "zod";
 import type { Route } from "./+types/upload";
 import { FormMessage, SelectField } from "~/components/ui/field";
 import { getDb } from "~/db/client.server";
+import { keeperNow } from "~/features/accounts/time-zone.server";
 import { requireUser } from "~/permissions.server";
 import {
   MAX_CSV_BYTES,
@@ -114,7 +115,11 @@ async function storeUpload(
     ),
   );
   if (!chosen.success) return answer({ error: "Choose the units from the lists." }, 400);
-  const parsed = parseReadingsCsv(upload.file.text, { units: chosen.data, stored: storedTimes(tank.id) });
+  const parsed = parseReadingsCsv(upload.file.text, {
+    units: chosen.data,
+    stored: storedTimes(tank.id),
+    now: keeperNow(request, user),
+  });
   if (!parsed.ok) return answer({ error: parsed.message, problems: parsed.problems, more: parsed.more }, 400);
   try {
     // All rows or none.

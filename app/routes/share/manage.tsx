@@ -4,6 +4,7 @@ import { z } from "zod";
 import type { Route } from "./+types/manage";
 import { FormMessage } from "~/components/ui/field";
 import { absoluteUrl } from "~/email.server";
+import { dayWriter } from "~/features/accounts/time-zone.server";
 import { requireUser } from "~/permissions.server";
 import { makeLink, sharePath, shareState, turnOffLink } from "~/features/sharing/share.server";
 import { requireOwnedScenario } from "~/features/tanks/tanks.server";
@@ -19,13 +20,12 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const user = await requireUser(request);
   const { tank, scenario } = requireOwnedScenario(user.id, params.tankId, params.scenarioId);
   const state = shareState(scenario.id);
+  const dayOf = dayWriter(request, user);
   return {
     tank: { id: tank.id, name: tank.name },
     scenario: { id: scenario.id, name: scenario.name },
-    live: state.live ? { createdAt: state.live.createdAt.toISOString().slice(0, 10) } : null,
-    takedown: state.takedown
-      ? { at: state.takedown.at.toISOString().slice(0, 10), reason: state.takedown.reason }
-      : null,
+    live: state.live ? { createdAt: dayOf(state.live.createdAt) } : null,
+    takedown: state.takedown ? { at: dayOf(state.takedown.at), reason: state.takedown.reason } : null,
   };
 }
 

@@ -20,6 +20,7 @@ import { readForm } from "~/http/pages.server";
 import { Breadcrumbs } from "~/components/breadcrumbs";
 import { ScrollTable } from "~/components/ui/scroll-table";
 import { UpcomingList } from "~/features/tanks/upcoming-list";
+import { dayWriter, keeperNow } from "~/features/accounts/time-zone.server";
 import { upcomingView } from "~/routes/tanks/upcoming-view.server";
 import { tankPageAction } from "~/routes/tanks/tank-actions.server";
 import { bandKeptMessage } from "~/features/tanks/tank-settings.server";
@@ -41,7 +42,10 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const latest = latestKeyFigures(list.map((s) => s.id));
   const handedIn = handedInCopyIn({ tankId: tank.id });
   // The journal's replay (the real tank) may show danger the scenarios' figures below do not.
-  const journal = (await journalFlags([tank], Date.now(), 1)).get(tank.id) ?? null;
+  // Days as the keeper's wall clock counts them (their time zone), not the server's.
+  const today = keeperNow(request, user);
+  const dayOf = dayWriter(request, user);
+  const journal = (await journalFlags([tank], today, 1)).get(tank.id) ?? null;
   return {
     tank: {
       id: tank.id,
@@ -55,14 +59,14 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     nitrateHint: handedIn ? bandKeptMessage(handedIn.lessonTitle) : nitrateBandHint(no3, unitLabels(units).nitrate),
     /** The band is kept for a handed-in lesson copy: shown, not editable. */
     bandKept: !!handedIn,
-    upcoming: upcomingView(tank.id),
+    upcoming: upcomingView(tank.id, today),
     done: new URL(request.url).searchParams.has("done"),
     scenarios: list.map((s) => {
       const figures = latest.get(s.id);
       return {
         id: s.id,
         name: s.name,
-        updatedAt: s.updatedAt.toISOString().slice(0, 10),
+        updatedAt: dayOf(s.updatedAt),
         figures: figures ? displayKeyFigures(figures, units) : null,
         // Flagged here as on the tank list and the compare page, where the scenario to open is chosen.
         above: figures ? toxicPeaksAboveCaution(figures) : null,

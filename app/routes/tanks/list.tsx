@@ -8,6 +8,7 @@ import { tanks } from "~/db/schema";
 import { displayKeyFigures, toxicPeaksAboveCaution } from "~/features/runs/display-figures";
 import { AboveCaution } from "~/components/above-caution";
 import { JournalFlagNote } from "~/components/journal-flag";
+import { keeperNow } from "~/features/accounts/time-zone.server";
 import { journalFlags, REPLAYS_PER_VIEW } from "~/features/journal/journal-findings.server";
 import { requireUser } from "~/permissions.server";
 import { checkNewTank } from "~/quotas.server";
@@ -30,7 +31,7 @@ export async function loader({ request }: Route.LoaderArgs) {
     .all();
   const figures = latestFiguresByTank(list.map((t) => t.id));
   // What each journal's replay found: the keeper's real tank, not a scenario's timetable.
-  const journals = await journalFlags(list);
+  const journals = await journalFlags(list, keeperNow(request, user));
   return {
     labels: unitLabels(units),
     replaysPerView: REPLAYS_PER_VIEW,

@@ -16,6 +16,7 @@ import { requireOwnedTank } from "~/features/tanks/tanks.server";
 import { invalid, readForm } from "~/http/pages.server";
 import { requireUser } from "~/permissions.server";
 import { formValues } from "~/utils/form-errors";
+import { keeperNow } from "~/features/accounts/time-zone.server";
 import { upcomingView } from "~/routes/tanks/upcoming-view.server";
 
 export const meta: Route.MetaFunction = ({ data }) => [
@@ -36,7 +37,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
           trims: timedTrimGroups(tp.base).map((g) => ({ field: trimField(g.id), name: g.name })),
         }
       : null,
-    upcoming: upcomingView(tank.id),
+    upcoming: upcomingView(tank.id, keeperNow(request, user)),
     done: new URL(request.url).searchParams.has("done"),
   };
 }
@@ -61,8 +62,9 @@ export async function action({ request, params }: Route.ActionArgs) {
     return redirect(`/tanks/${tank.id}/plan`);
   }
   if (values.intent === "done") {
-    const task = upcomingPlanned(tank.id).find((t) => t.key === values.task);
-    const done = markTaskDone(tank.id, { ...values, kind: task?.values.kind ?? values.kind ?? "" });
+    const today = keeperNow(request, user);
+    const task = upcomingPlanned(tank.id, today).find((t) => t.key === values.task);
+    const done = markTaskDone(tank.id, { ...values, kind: task?.values.kind ?? values.kind ?? "" }, today);
     if (!done.ok) return invalid(done.errors, values);
     return redirect(values.back === "tank" ? `/tanks/${tank.id}?done=1` : `/tanks/${tank.id}/plan?done=1`);
   }

@@ -36,8 +36,11 @@ export function useBrowser() {
 /** Console errors the page logged; a 4xx answer to a refused form is expected and not counted. */
 export type PageWithErrors = Page & { consoleErrors: string[] };
 
-export async function newPage(options: { width?: number; javaScript?: boolean } = {}): Promise<PageWithErrors> {
+export async function newPage(
+  options: { width?: number; javaScript?: boolean; timezoneId?: string } = {},
+): Promise<PageWithErrors> {
   const context = await browser.newContext({
+    timezoneId: options.timezoneId,
     baseURL: baseURL(),
     viewport: { width: options.width ?? 1200, height: 900 },
     javaScriptEnabled: options.javaScript ?? true,
