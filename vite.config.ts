@@ -5,7 +5,7 @@ import pkg from "./package.json" with { type: "json" };
 
 /**
  * React Router names every SSR entry after its server build file (index.js); this keeps that for
- * the server and names the worker entry engine-worker.js, so the pool can find it beside index.js.
+ * the server and names the worker entries engine-worker.js and chores-worker.js, so the pool can find it beside index.js.
  */
 function engineWorkerFileName(): Plugin {
   return {
@@ -16,8 +16,8 @@ function engineWorkerFileName(): Plugin {
       if (name !== "ssr" || !output || Array.isArray(output)) return;
       const main = output.entryFileNames;
       output.entryFileNames = (chunk) =>
-        chunk.name === "engine-worker"
-          ? "engine-worker.js"
+        chunk.name === "engine-worker" || chunk.name === "chores-worker"
+          ? `${chunk.name}.js`
           : typeof main === "function"
             ? main(chunk)
             : (main ?? "[name].js");
@@ -31,10 +31,19 @@ export default defineConfig({
   // The custom server (server/app.ts) is the SSR entry: it wraps the React Router handler.
   // With the Vite Environment API (v8_viteEnvironmentApi) the entry is set per environment.
   // The engine worker (server/engine-worker.ts) is a second entry, built next to it as
-  // engine-worker.js so the worker pool (app/features/jobs/jobs.server.ts) finds it beside the bundle.
+  // engine-worker.js so the worker pool (app/features/jobs/jobs.server.ts) finds it beside the bundle;
+  // likewise the chores worker (server/chores-worker.ts: CSV uploads, share pictures).
   environments: {
     ssr: {
-      build: { rollupOptions: { input: { index: "./server/app.ts", "engine-worker": "./server/engine-worker.ts" } } },
+      build: {
+        rollupOptions: {
+          input: {
+            index: "./server/app.ts",
+            "engine-worker": "./server/engine-worker.ts",
+            "chores-worker": "./server/chores-worker.ts",
+          },
+        },
+      },
     },
   },
   resolve: { tsconfigPaths: true },

@@ -5,29 +5,10 @@
  * posted to a busy forum is drawn once; a new run (changed settings or engine) draws anew.
  */
 import { createHash } from "node:crypto";
-import { createRequire } from "node:module";
-import { Resvg } from "@resvg/resvg-js";
 import { eq } from "drizzle-orm";
 import { getDb } from "~/db/client.server";
 import { sharePreviews } from "~/db/schema";
-
-// The picture's one font, from an npm package (TrueType, which resvg reads; the page's own
-// @fontsource files are WOFF2): the same picture on every machine, whatever fonts it has.
-const require = createRequire(import.meta.url);
-const FONT_FILES = [
-  require.resolve("@expo-google-fonts/lora/400Regular/Lora_400Regular.ttf"),
-  require.resolve("@expo-google-fonts/lora/700Bold/Lora_700Bold.ttf"),
-];
-
-/** An SVG document as PNG bytes, at the SVG's own size. */
-function svgToPng(svg: string, fontFamily: string): Buffer {
-  const picture = new Resvg(svg, {
-    font: { fontFiles: FONT_FILES, loadSystemFonts: false, defaultFontFamily: fontFamily },
-    shapeRendering: 2, // geometricPrecision: anti-aliased lines
-    textRendering: 1, // optimizeLegibility
-  });
-  return picture.render().asPng();
-}
+import { svgToPngOffThread } from "~/features/jobs/chores-pool.server";
 
 /**
  * The run's kept preview PNG: `current` when it was drawn under this name (a renamed scenario
@@ -43,11 +24,16 @@ export function keptSharePreview(runId: number, name: string): { png: Buffer; cu
 }
 
 /**
- * Draws the run's preview PNG under this name (`drawSvg()` rendered by resvg, about 50 ms on the
- * request thread) and keeps it. The caller counts draws against the owner's limit first.
+ * Draws the run's preview PNG under this name (`drawSvg()` rendered by resvg on the chores worker
+ * thread, app/features/jobs/chores-pool.server.ts) and keeps it. The caller counts draws against the owner's limit first.
  */
-export function drawSharePreview(runId: number, name: string, drawSvg: () => string, fontFamily: string): Buffer {
-  const png = svgToPng(drawSvg(), fontFamily);
+export async function drawSharePreview(
+  runId: number,
+  name: string,
+  drawSvg: () => string,
+  fontFamily: string,
+): Promise<Buffer> {
+  const png = await svgToPngOffThread(drawSvg(), fontFamily);
   // Two first visitors at once both draw; the last write wins, and both drew the same.
   getDb()
     .insert(sharePreviews)

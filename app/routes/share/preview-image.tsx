@@ -26,7 +26,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   if (request.headers.get("If-None-Match") === etag) return new Response(null, { status: 304, headers });
   const first = keptSharePreview(results.runId, found.scenario.name);
   if (first?.current) return picture(first.png, headers);
-  // Drawing takes the request thread for about 50 ms, and renaming the scenario asks for a new
+  // Drawing takes a worker thread for about 50 ms, and renaming the scenario asks for a new
   // drawing: renaming and fetching in a loop kept the request thread drawing, so draws count
   // per owner (issue 10).
   const owner = `user:${found.tank.ownerId}`;
@@ -49,7 +49,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
       },
     });
   }
-  const png = drawSharePreview(
+  const png = await drawSharePreview(
     results.runId,
     found.scenario.name,
     () =>

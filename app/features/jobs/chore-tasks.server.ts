@@ -1,0 +1,18 @@
+/**
+ * Heavy synchronous chores of a request, as messages for the chores worker thread
+ * (server/chores-worker.ts): reading an uploaded readings CSV and drawing a share picture.
+ * Pure (no database, no HTTP), so they run the same in a worker or in-process.
+ */
+import { parseReadingsCsv } from "~/features/readings/readings-csv.server";
+import { svgToPng } from "~/features/sharing/preview-png.server";
+
+export type ChoreTask =
+  { kind: "readingsCsv"; args: Parameters<typeof parseReadingsCsv> } | { kind: "png"; svg: string; fontFamily: string };
+
+export type ChoreResult =
+  { kind: "readingsCsv"; parsed: ReturnType<typeof parseReadingsCsv> } | { kind: "png"; png: Uint8Array };
+
+export function runChore(task: ChoreTask): ChoreResult {
+  if (task.kind === "readingsCsv") return { kind: "readingsCsv", parsed: parseReadingsCsv(...task.args) };
+  return { kind: "png", png: svgToPng(task.svg, task.fontFamily) };
+}

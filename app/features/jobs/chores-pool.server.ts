@@ -1,0 +1,92 @@
+/**
+ * The chores pool: one worker thread (piscina) for a request's heavy synchronous work that is not
+ * a model run — reading an uploaded readings CSV (about 100 ms for a full 1 MB file) and drawing
+ * a share picture (about 50 ms) — so neither stalls other people's pages.
+ *
+ * A pool of its own rather than the engine pool: the engine pool's fair queue is for model runs
+ * (lanes, owners, low priority), and an upload would wait there behind someone's sweep; chores
+ * are short, so one thread at normal priority, first come first served, answers them quickly.
+ * See docs/decisions/0006-single-runs.md.
+ *
+ * From the TypeScript sources (vitest, `npm run dev`) there is no built worker, and chores run
+ * in-process. What comes back from the worker is checked with zod before it is used.
+ */
+import fs from "node:fs";
+import Piscina from "piscina";
+import { z } from "zod";
+import { runChore, type ChoreResult, type ChoreTask } from "~/features/jobs/chore-tasks.server";
+import { MEASURE_KEYS } from "~/features/readings/readings.server";
+
+const Problem = z.object({ line: z.number(), message: z.string() });
+const Measures = z.object(
+  Object.fromEntries(MEASURE_KEYS.map((k) => [k, z.number().nullable()])) as Record<
+    (typeof MEASURE_KEYS)[number],
+    z.ZodNullable<z.ZodNumber>
+  >,
+);
+const ChoreResultSchema = z.discriminatedUnion("kind", [
+  z.object({
+    kind: z.literal("readingsCsv"),
+    parsed: z.union([
+      z.object({
+        ok: z.literal(true),
+        rows: z.array(Measures.extend({ takenAt: z.number(), note: z.string(), line: z.number() })),
+        skipped: z.array(Problem),
+        ignoredColumns: z.array(z.string()),
+        delimiter: z.enum([",", ";", "\t"]),
+      }),
+      z.object({ ok: z.literal(false), message: z.string(), problems: z.array(Problem), more: z.number() }),
+    ]),
+  }),
+  z.object({ kind: z.literal("png"), png: z.instanceof(Uint8Array) }),
+]);
+
+/** The built worker beside the server bundle (server code sits in build/server/assets/), or null from sources. */
+function builtWorkerUrl(): URL | null {
+  for (const relative of ["../chores-worker.js", "./chores-worker.js"]) {
+    const url = new URL(relative, import.meta.url);
+    if (url.protocol === "file:" && fs.existsSync(url)) return url;
+  }
+  return null;
+}
+
+let piscina: Piscina<ChoreTask, unknown> | null | undefined;
+
+function pool(): Piscina<ChoreTask, unknown> | null {
+  if (piscina === undefined) {
+    const url = builtWorkerUrl();
+    piscina = url
+      ? new Piscina<ChoreTask, unknown>({
+          filename: url.href,
+          minThreads: 1,
+          maxThreads: 1,
+          concurrentTasksPerWorker: 1,
+          idleTimeout: Number.MAX_SAFE_INTEGER,
+        })
+      : null;
+  }
+  return piscina;
+}
+
+/** Runs a chore on the chores thread (in-process from sources); the answer is validated. */
+async function chore(task: ChoreTask): Promise<ChoreResult> {
+  const workers = pool();
+  const raw = workers ? await workers.run(task) : runChore(task);
+  return ChoreResultSchema.parse(raw) as ChoreResult;
+}
+
+type CsvArgs = Extract<ChoreTask, { kind: "readingsCsv" }>["args"];
+
+/** parseReadingsCsv (app/features/readings/readings-csv.server.ts) off the request thread. */
+export async function parseReadingsCsvOffThread(...args: CsvArgs) {
+  const result = await chore({ kind: "readingsCsv", args });
+  if (result.kind !== "readingsCsv") throw new Error("The chores worker answered the wrong task.");
+  return result.parsed;
+}
+
+/** An SVG as PNG bytes by resvg, off the request thread. */
+export async function svgToPngOffThread(svg: string, fontFamily: string): Promise<Buffer> {
+  const result = await chore({ kind: "png", svg, fontFamily });
+  if (result.kind !== "png") throw new Error("The chores worker answered the wrong task.");
+  return Buffer.from(result.png.buffer, result.png.byteOffset, result.png.byteLength);
+}
