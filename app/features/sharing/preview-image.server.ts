@@ -27,12 +27,27 @@ export function keptSharePreview(runId: number, name: string): { png: Buffer; cu
  * Draws the run's preview PNG under this name (`drawSvg()` rendered by resvg on the chores worker
  * thread, app/features/jobs/chores-pool.server.ts) and keeps it. The caller counts draws against the owner's limit first.
  */
-export async function drawSharePreview(
+/** Drawings under way in this process, so visitors at once share one (drawing is on another thread). */
+const drawing = new Map<string, Promise<Buffer>>();
+
+/** The drawing of this run under this name under way now, if any. */
+export function drawingNow(runId: number, name: string): Promise<Buffer> | undefined {
+  return drawing.get(`${runId}:${name}`);
+}
+
+export function drawSharePreview(
   runId: number,
   name: string,
   drawSvg: () => string,
   fontFamily: string,
 ): Promise<Buffer> {
+  const key = `${runId}:${name}`;
+  const started = draw(runId, name, drawSvg, fontFamily).finally(() => drawing.delete(key));
+  drawing.set(key, started);
+  return started;
+}
+
+async function draw(runId: number, name: string, drawSvg: () => string, fontFamily: string): Promise<Buffer> {
   const png = await svgToPngOffThread(drawSvg(), fontFamily);
   // Two first visitors at once both draw; the last write wins, and both drew the same.
   getDb()

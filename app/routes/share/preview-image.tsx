@@ -3,7 +3,7 @@ import type { Route } from "./+types/preview-image";
 import { PREVIEW_FONT, PreviewCard } from "~/components/charts/preview-card";
 import { readOnlyScenarioView } from "~/features/runs/read-only-view.server";
 import { unpackSeries } from "~/features/runs/series-packing";
-import { drawSharePreview, keptSharePreview, previewEtag } from "~/features/sharing/preview-image.server";
+import { drawingNow, drawSharePreview, keptSharePreview, previewEtag } from "~/features/sharing/preview-image.server";
 import { giveBack, take, waitText } from "~/rate-limits.server";
 import { findLinkByToken, isLive } from "~/features/sharing/share.server";
 import { notFound } from "~/permissions.server";
@@ -26,6 +26,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   if (request.headers.get("If-None-Match") === etag) return new Response(null, { status: 304, headers });
   const first = keptSharePreview(results.runId, found.scenario.name);
   if (first?.current) return picture(first.png, headers);
+  const under = drawingNow(results.runId, found.scenario.name);
+  if (under) return picture(await under, headers);
   // Drawing takes a worker thread for about 50 ms, and renaming the scenario asks for a new
   // drawing: renaming and fetching in a loop kept the request thread drawing, so draws count
   // per owner (issue 10).
@@ -36,6 +38,11 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   if (kept?.current) {
     if (wait === 0) await giveBack("sharePicturesPerOwner", owner);
     return picture(kept.png, headers);
+  }
+  const meanwhile = drawingNow(results.runId, found.scenario.name);
+  if (meanwhile) {
+    if (wait === 0) await giveBack("sharePicturesPerOwner", owner);
+    return picture(await meanwhile, headers);
   }
   if (wait > 0) {
     // The picture under the scenario's former name rather than none; drawn anew later.
