@@ -1,6 +1,6 @@
 /**
  * The chores pool: one worker thread (piscina) for a request's heavy synchronous work that is not
- * a model run — reading an uploaded readings CSV (about 100 ms for a full 1 MB file) and drawing
+ * a model run — reading an uploaded readings or journal CSV (about 100 ms for a full 1 MB file) and drawing
  * a share picture (about 50 ms) — so neither stalls other people's pages.
  *
  * A pool of its own rather than the engine pool: the engine pool's fair queue is for model runs
@@ -15,6 +15,7 @@ import fs from "node:fs";
 import Piscina from "piscina";
 import { z } from "zod";
 import { runChore, type ChoreResult, type ChoreTask } from "~/features/jobs/chore-tasks.server";
+import { ENTRY_KINDS, THOROUGHNESS, type EntryKind } from "~/features/journal/journal-entries";
 import { MEASURE_KEYS } from "~/features/readings/readings.server";
 
 const Problem = z.object({ line: z.number(), message: z.string() });
@@ -24,7 +25,34 @@ const Measures = z.object(
     z.ZodNullable<z.ZodNumber>
   >,
 );
+const Failure = z.object({ ok: z.literal(false), message: z.string(), problems: z.array(Problem), more: z.number() });
+const maybeNumber = z.number().nullable().optional();
+const JournalRow = z.object({
+  doneAt: z.number(),
+  kind: z.enum(Object.keys(ENTRY_KINDS) as [EntryKind, ...EntryKind[]]),
+  details: z
+    .object({
+      share: maybeNumber,
+      litres: maybeNumber,
+      tapNitrateMgN: maybeNumber,
+      roShare: maybeNumber,
+      thoroughness: z.enum(Object.keys(THOROUGHNESS) as [keyof typeof THOROUGHNESS]).optional(),
+      gravelShare: z.number().optional(),
+      plantGroup: z.string().optional(),
+      plantDryG: z.number().optional(),
+      feedGPerDay: z.number().optional(),
+      fishCount: z.number().optional(),
+      ammoniaMgN: z.number().optional(),
+    })
+    .strict(),
+  note: z.string(),
+  line: z.number(),
+});
 const ChoreResultSchema = z.discriminatedUnion("kind", [
+  z.object({
+    kind: z.literal("journalCsv"),
+    parsed: z.union([z.object({ ok: z.literal(true), entries: z.array(JournalRow) }), Failure]),
+  }),
   z.object({
     kind: z.literal("readingsCsv"),
     parsed: z.union([
@@ -35,7 +63,7 @@ const ChoreResultSchema = z.discriminatedUnion("kind", [
         ignoredColumns: z.array(z.string()),
         delimiter: z.enum([",", ";", "\t"]),
       }),
-      z.object({ ok: z.literal(false), message: z.string(), problems: z.array(Problem), more: z.number() }),
+      Failure,
     ]),
   }),
   z.object({ kind: z.literal("png"), png: z.instanceof(Uint8Array) }),
@@ -81,6 +109,15 @@ type CsvArgs = Extract<ChoreTask, { kind: "readingsCsv" }>["args"];
 export async function parseReadingsCsvOffThread(...args: CsvArgs) {
   const result = await chore({ kind: "readingsCsv", args });
   if (result.kind !== "readingsCsv") throw new Error("The chores worker answered the wrong task.");
+  return result.parsed;
+}
+
+type JournalCsvArgs = Extract<ChoreTask, { kind: "journalCsv" }>["args"];
+
+/** parseJournalCsv (app/features/journal/journal-csv.server.ts) off the request thread. */
+export async function parseJournalCsvOffThread(...args: JournalCsvArgs) {
+  const result = await chore({ kind: "journalCsv", args });
+  if (result.kind !== "journalCsv") throw new Error("The chores worker answered the wrong task.");
   return result.parsed;
 }
 

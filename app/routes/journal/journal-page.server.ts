@@ -7,7 +7,8 @@ import { LRUCache } from "lru-cache";
 import { data } from "react-router";
 import type { Scenario } from "~models";
 import { describeEntry, ENTRY_KINDS, type FieldUnits } from "~/features/journal/journal-entries";
-import { parseJournalCsv, MAX_JOURNAL_CSV_BYTES } from "~/features/journal/journal-csv.server";
+import { MAX_JOURNAL_CSV_BYTES } from "~/features/journal/journal-csv.server";
+import { parseJournalCsvOffThread } from "~/features/jobs/chores-pool.server";
 import {
   hasCalendarFeed,
   makeCalendarFeed,
@@ -229,7 +230,8 @@ async function storeUpload(request: Request, tank: TankRow, now: number) {
   }
   if (!upload.file || upload.file.text.trim() === "")
     return refuse({ intent: "upload", message: "Choose a CSV file to upload." });
-  const parsed = parseJournalCsv(upload.file.text, now);
+  // Parsed on the chores worker thread (app/features/jobs/chores-pool.server.ts): a full file is about 100 ms.
+  const parsed = await parseJournalCsvOffThread(upload.file.text, now);
   if (!parsed.ok)
     return refuse({ intent: "upload", message: parsed.message, problems: parsed.problems, more: parsed.more });
   try {
