@@ -23,25 +23,27 @@ export function keptSharePreview(runId: number, name: string): { png: Buffer; cu
   return kept ? { png: kept.png, current: kept.name === name } : null;
 }
 
-/**
- * Draws the run's preview PNG under this name (`drawSvg()` rendered by resvg on the chores worker
- * thread, app/features/jobs/chores-pool.server.ts) and keeps it. The caller counts draws against the owner's limit first.
- */
 /** Drawings under way in this process, so visitors at once share one (drawing is on another thread). */
 const drawing = new Map<string, Promise<Buffer>>();
+const drawingKey = (runId: number, name: string) => `${runId}:${name}`;
 
 /** The drawing of this run under this name under way now, if any. */
 export function drawingNow(runId: number, name: string): Promise<Buffer> | undefined {
-  return drawing.get(`${runId}:${name}`);
+  return drawing.get(drawingKey(runId, name));
 }
 
+/**
+ * Draws the run's preview PNG under this name (`drawSvg()` rendered by resvg on the chores worker
+ * thread, app/features/jobs/chores-pool.server.ts) and keeps it; while it is under way,
+ * `drawingNow` hands it to other visitors. The caller counts draws against the owner's limit first.
+ */
 export function drawSharePreview(
   runId: number,
   name: string,
   drawSvg: () => string,
   fontFamily: string,
 ): Promise<Buffer> {
-  const key = `${runId}:${name}`;
+  const key = drawingKey(runId, name);
   const started = draw(runId, name, drawSvg, fontFamily).finally(() => drawing.delete(key));
   drawing.set(key, started);
   return started;
@@ -49,7 +51,7 @@ export function drawSharePreview(
 
 async function draw(runId: number, name: string, drawSvg: () => string, fontFamily: string): Promise<Buffer> {
   const png = await svgToPngOffThread(drawSvg(), fontFamily);
-  // Two first visitors at once both draw; the last write wins, and both drew the same.
+  // Two app processes can both draw it; the last write wins, and both drew the same.
   getDb()
     .insert(sharePreviews)
     .values({ runId, png, name })
