@@ -4,6 +4,7 @@
  * and nothing stopped one person from asking again and again (issue 10). So each person has a
  * number of them a minute, counted before the work.
  */
+import { plainText } from "~/http/downloads.server";
 import { LIMITS, take, waitText } from "~/rate-limits.server";
 
 /** A whole listing refused before it was built: 429 and when to ask again. */
@@ -23,14 +24,14 @@ export async function takeListingTurn(userId: number): Promise<void> {
   if (wait > 0) throw new ListingRefused(wait);
 }
 
-/** The answer of a file download refused: plain text, with Retry-After. */
-export function listingRefusedResponse(error: ListingRefused): Response {
-  return new Response(error.message, {
-    status: 429,
-    headers: {
-      "Content-Type": "text/plain; charset=utf-8",
-      "Retry-After": String(error.waitSeconds),
-      "Cache-Control": "no-store",
-    },
-  });
+/** For a file download: counts one whole listing, or answers the refusal (429, plain text, Retry-After); null to go on. */
+export async function downloadTurn(userId: number): Promise<Response | null> {
+  try {
+    await takeListingTurn(userId);
+    return null;
+  } catch (error) {
+    if (error instanceof ListingRefused)
+      return plainText(error.message, 429, { "Retry-After": String(error.waitSeconds) });
+    throw error;
+  }
 }

@@ -1,8 +1,9 @@
 import type { Route } from "./+types/export";
 import { requireUser } from "~/permissions.server";
-import { ListingRefused, listingRefusedResponse, takeListingTurn } from "~/http/listing-turns.server";
+import { csvAttachment } from "~/http/downloads.server";
+import { downloadTurn } from "~/http/listing-turns.server";
 import { journalCsv } from "~/features/journal/journal-csv.server";
-import { listJournal } from "~/features/journal/journal.server";
+import { journalOf } from "~/features/journal/journal.server";
 import { requireOwnedTank } from "~/features/tanks/tanks.server";
 import { fileSlugFor } from "~/utils/file-name";
 
@@ -10,17 +11,7 @@ import { fileSlugFor } from "~/utils/file-name";
 export async function loader({ request, params }: Route.LoaderArgs) {
   const user = await requireUser(request);
   const tank = requireOwnedTank(user.id, params.tankId);
-  try {
-    await takeListingTurn(user.id);
-  } catch (error) {
-    if (error instanceof ListingRefused) return listingRefusedResponse(error);
-    throw error;
-  }
-  return new Response("\uFEFF" + journalCsv(listJournal(tank.id)), {
-    headers: {
-      "Content-Type": "text/csv; charset=utf-8",
-      "Content-Disposition": `attachment; filename="${fileSlugFor(tank.name)}-journal.csv"`,
-      "Cache-Control": "no-store",
-    },
-  });
+  const refused = await downloadTurn(user.id);
+  if (refused) return refused;
+  return csvAttachment(journalCsv(journalOf(tank)), `${fileSlugFor(tank.name)}-journal.csv`);
 }

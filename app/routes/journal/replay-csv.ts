@@ -1,7 +1,8 @@
 import type { Route } from "./+types/replay-csv";
 import { replayCsv } from "~/features/journal/replay-csv.server";
 import { requireOwnedTank } from "~/features/tanks/tanks.server";
-import { ListingRefused, listingRefusedResponse, takeListingTurn } from "~/http/listing-turns.server";
+import { csvAttachment, plainText } from "~/http/downloads.server";
+import { downloadTurn } from "~/http/listing-turns.server";
 import { refusalOf } from "~/http/refusals.server";
 import { keeperNow } from "~/features/accounts/time-zone.server";
 import { requireUser } from "~/permissions.server";
@@ -12,10 +13,11 @@ import { fileSlugFor } from "~/utils/file-name";
 export async function loader({ request, params }: Route.LoaderArgs) {
   const user = await requireUser(request);
   const tank = requireOwnedTank(user.id, params.tankId);
+  // A whole replay is a listing: counted before the work, as the journal's own CSV.
+  const turnRefused = await downloadTurn(user.id);
+  if (turnRefused) return turnRefused;
   let csv: string | null;
   try {
-    // A whole replay is a listing: counted before the work, as the journal's own CSV.
-    await takeListingTurn(user.id);
     csv = await replayCsv(
       tank,
       new URL(request.url).searchParams.get("scenario"),
@@ -23,27 +25,12 @@ export async function loader({ request, params }: Route.LoaderArgs) {
       keeperNow(request, user),
     );
   } catch (error) {
-    if (error instanceof ListingRefused) return listingRefusedResponse(error);
     // A limit on runs (429), the model refusing the settings (422): said in words, as the page says it.
     const refused = refusalOf(error);
-    if (refused) return plain(refused.message, refused.status);
+    if (refused) return plainText(refused.message, refused.status);
     throw error;
   }
-  if (csv === null) {
-    return plain("The journal has nothing to replay: it needs a scenario and at least one entry.", 404);
-  }
-  return new Response("\uFEFF" + csv, {
-    headers: {
-      "Content-Type": "text/csv; charset=utf-8",
-      "Content-Disposition": `attachment; filename="${fileSlugFor(tank.name)}-as-it-happened.csv"`,
-      "Cache-Control": "no-store",
-    },
-  });
-}
-
-function plain(message: string, status: number): Response {
-  return new Response(message, {
-    status,
-    headers: { "Content-Type": "text/plain; charset=utf-8", "Cache-Control": "no-store" },
-  });
+  if (csv === null)
+    return plainText("The journal has nothing to replay: it needs a scenario and at least one entry.", 404);
+  return csvAttachment(csv, `${fileSlugFor(tank.name)}-as-it-happened.csv`);
 }

@@ -1,6 +1,7 @@
 import type { Route } from "./+types/export";
 import { requireUser } from "~/permissions.server";
-import { ListingRefused, listingRefusedResponse, takeListingTurn } from "~/http/listing-turns.server";
+import { csvAttachment } from "~/http/downloads.server";
+import { downloadTurn } from "~/http/listing-turns.server";
 import { readingsCsv } from "~/features/readings/readings-csv-export.server";
 import { allReadings, measureUnitsFor } from "~/features/readings/readings.server";
 import { requireOwnedTank } from "~/features/tanks/tanks.server";
@@ -11,18 +12,10 @@ import { fileSlugFor } from "~/utils/file-name";
 export async function loader({ request, params }: Route.LoaderArgs) {
   const user = await requireUser(request);
   const tank = requireOwnedTank(user.id, params.tankId);
-  try {
-    await takeListingTurn(user.id);
-  } catch (error) {
-    if (error instanceof ListingRefused) return listingRefusedResponse(error);
-    throw error;
-  }
-  const body = "\uFEFF" + readingsCsv(allReadings(tank.id), measureUnitsFor(displayUnitsFor(user)));
-  return new Response(body, {
-    headers: {
-      "Content-Type": "text/csv; charset=utf-8",
-      "Content-Disposition": `attachment; filename="${fileSlugFor(tank.name)}-readings.csv"`,
-      "Cache-Control": "no-store",
-    },
-  });
+  const refused = await downloadTurn(user.id);
+  if (refused) return refused;
+  return csvAttachment(
+    readingsCsv(allReadings(tank.id), measureUnitsFor(displayUnitsFor(user))),
+    `${fileSlugFor(tank.name)}-readings.csv`,
+  );
 }

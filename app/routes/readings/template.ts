@@ -5,17 +5,14 @@ import { templateCsv } from "~/features/readings/readings-csv-export.server";
 import { measureUnitsFor } from "~/features/readings/readings.server";
 import { requireOwnedTank } from "~/features/tanks/tanks.server";
 import { displayUnitsFor } from "~/utils/display-units";
+import { csvAttachment } from "~/http/downloads.server";
 
 /** GET /tanks/:tankId/readings/template — a CSV template in the person's units, with three example rows to overwrite. */
 export async function loader({ request, params }: Route.LoaderArgs) {
   const user = await requireUser(request);
   requireOwnedTank(user.id, params.tankId);
-  const body = "\uFEFF" + templateCsv(measureUnitsFor(displayUnitsFor(user)), keeperNow(request, user));
-  return new Response(body, {
-    headers: {
-      "Content-Type": "text/csv; charset=utf-8",
-      "Content-Disposition": 'attachment; filename="fernwater-readings-template.csv"',
-      "Cache-Control": "no-store",
-    },
-  });
+  return csvAttachment(
+    templateCsv(measureUnitsFor(displayUnitsFor(user)), keeperNow(request, user)),
+    "fernwater-readings-template.csv",
+  );
 }
