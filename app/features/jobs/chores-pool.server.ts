@@ -11,7 +11,7 @@
  * From the TypeScript sources (vitest, `npm run dev`) there is no built worker, and chores run
  * in-process. What comes back from the worker is checked with zod before it is used.
  */
-import fs from "node:fs";
+import { builtWorkerUrl } from "~/features/jobs/built-worker.server";
 import Piscina from "piscina";
 import { z } from "zod";
 import { runChore, type ChoreResult, type ChoreTask } from "~/features/jobs/chore-tasks.server";
@@ -69,20 +69,11 @@ const ChoreResultSchema = z.discriminatedUnion("kind", [
   z.object({ kind: z.literal("png"), png: z.instanceof(Uint8Array) }),
 ]);
 
-/** The built worker beside the server bundle (server code sits in build/server/assets/), or null from sources. */
-function builtWorkerUrl(): URL | null {
-  for (const relative of ["../chores-worker.js", "./chores-worker.js"]) {
-    const url = new URL(relative, import.meta.url);
-    if (url.protocol === "file:" && fs.existsSync(url)) return url;
-  }
-  return null;
-}
-
 let piscina: Piscina<ChoreTask, unknown> | null | undefined;
 
 function pool(): Piscina<ChoreTask, unknown> | null {
   if (piscina === undefined) {
-    const url = builtWorkerUrl();
+    const url = builtWorkerUrl("chores-worker.js");
     piscina = url
       ? new Piscina<ChoreTask, unknown>({
           filename: url.href,

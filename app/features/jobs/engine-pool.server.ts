@@ -15,8 +15,8 @@
  * lower scheduling priority than the request thread (where the OS allows), so pages stay quick
  * while the model runs.
  */
-import fs from "node:fs";
 import os from "node:os";
+import { builtWorkerUrl } from "~/features/jobs/built-worker.server";
 import Piscina, { queueOptionsSymbol, type TaskQueue } from "piscina";
 import { runEngineTask, type EngineTask, type EngineTaskResult } from "~/features/jobs/engine-tasks.server";
 import { queuePool } from "~/features/jobs/queue-pool.server";
@@ -44,15 +44,6 @@ function defaultPoolSize(): number {
 export function sourceWorkerUrl(): URL {
   const relative = "../../../server/engine-worker-source.mjs"; // a variable, so the bundler leaves it alone
   return new URL(relative, import.meta.url);
-}
-
-/** The built worker beside the server bundle (server code sits in build/server/assets/), or null from sources. */
-function builtWorkerUrl(): URL | null {
-  for (const relative of ["../engine-worker.js", "./engine-worker.js"]) {
-    const url = new URL(relative, import.meta.url);
-    if (url.protocol === "file:" && fs.existsSync(url)) return url;
-  }
-  return null;
 }
 
 type Pending = { task: EngineTask; resolve: (r: EngineTaskResult) => void; reject: (e: Error) => void };
@@ -236,7 +227,7 @@ let pool: EnginePool | undefined;
 /** The process's pool, started on first use; with REDIS_URL its job lane runs on the queue. */
 export function getEnginePool(): EnginePool {
   if (!pool) {
-    const local = createEnginePool({ workerUrl: builtWorkerUrl() });
+    const local = createEnginePool({ workerUrl: builtWorkerUrl("engine-worker.js") });
     const redisUrl = getEnv().REDIS_URL;
     pool = redisUrl ? queuePool(redisUrl, local) : local;
   }
