@@ -61,6 +61,11 @@ export function formatDate(ms: number): string {
   return `${d.getUTCFullYear()}-${pad(d.getUTCMonth() + 1)}-${pad(d.getUTCDate())}`;
 }
 
+/** "Sat 5 December": a planned day in words (a wall-clock date read as UTC, app/utils/time-zones.ts). */
+export function weekdayText(ms: number): string {
+  return new Date(ms).toLocaleDateString("en-GB", { weekday: "short", day: "numeric", month: "long", timeZone: "UTC" });
+}
+
 /** ms → "2026-03-01 08:30" (seconds only when not zero). */
 export function formatDateTime(ms: number): string {
   const d = new Date(ms);

@@ -17,15 +17,11 @@ import { listJournal } from "~/features/journal/journal.server";
 import type { ReminderRow } from "~/features/reminders/reminder-schedule.server";
 import { unsubscribeToken } from "~/features/reminders/unsubscribe-token.server";
 import { readStoredSettings } from "~/features/runs/simulation.server";
-import { DAY_MS, startOfDay } from "~/utils/dates";
+import { DAY_MS, startOfDay, weekdayText } from "~/utils/dates";
 import { wallClock } from "~/utils/time-zones";
 import { zoneFor } from "~/features/accounts/time-zone.server";
 
 const DIGEST_DAYS = 14;
-/** A planned day (a wall-clock date read as UTC, app/utils/time-zones.ts) in words. */
-const dayText = (ms: number) =>
-  new Date(ms).toLocaleDateString("en-GB", { weekday: "short", day: "numeric", month: "long", timeZone: "UTC" });
-
 function forecastText(f: Forecast | null, units: DisplayUnits): string {
   return (
     forecastSentence(f, units) ?? "No forecast yet: log what you did in the tank's journal and the model follows it."
@@ -75,7 +71,7 @@ export async function reminderMail(row: ReminderRow, at: number): Promise<Outgoi
   const env = getEnv();
   const link = new URL(`/reminders/unsubscribe/${unsubscribeToken(row.id)}`, baseUrl(env)).toString();
   const taskLines = tasks.length
-    ? tasks.map((t) => `- ${dayText(t.atMs)}: ${t.title}`)
+    ? tasks.map((t) => `- ${weekdayText(t.atMs)}: ${t.title}`)
     : ["- Nothing planned in the next two weeks."];
   const text = [
     `Reminders for ${tank.name}`,

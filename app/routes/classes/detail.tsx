@@ -27,6 +27,7 @@ export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.cls.nam
 export async function loader({ request, params }: Route.LoaderArgs) {
   const user = await requireUser(request);
   const { cls, as } = requireClassAccess(user, params.classId);
+  const dayOf = dayWriter(request, user);
   const lessons = listLessons(cls.id);
   const base = { cls: { id: cls.id, name: cls.name } };
   if (as === "former educator") {
@@ -65,12 +66,12 @@ export async function loader({ request, params }: Route.LoaderArgs) {
         id: s.id,
         name: s.name,
         email: s.email,
-        joinedAt: dayWriter(request, user)(s.joinedAt),
+        joinedAt: dayOf(s.joinedAt),
       })),
       invites: pendingInvites(cls.id).map((i) => ({
         id: i.id,
         email: i.email,
-        expiresAt: dayWriter(request, user)(i.expiresAt),
+        expiresAt: dayOf(i.expiresAt),
       })),
     },
     formerStudents: null,
