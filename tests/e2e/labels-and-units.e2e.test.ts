@@ -94,7 +94,7 @@ describe("every page's words", () => {
 async function setNitrateUnit(page: Page, unit: "N" | "NO3") {
   await page.goto("/account");
   await page.getByLabel("Nitrate, nitrite and ammonia").selectOption(unit);
-  await page.getByRole("button", { name: "Save name and units" }).click();
+  await page.getByRole("button", { name: "Save name, units and time zone" }).click();
   await page.getByText(/saved/i).first().waitFor();
 }
 

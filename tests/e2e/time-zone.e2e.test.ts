@@ -17,13 +17,13 @@ describe("the time zone", () => {
 
     const zone = page.getByLabel("Time zone");
     await zone.fill("Atlantis/Lost_City");
-    await page.getByRole("button", { name: "Save name and units" }).click();
+    await page.getByRole("button", { name: "Save name, units and time zone" }).click();
     await page.getByText("Choose a time zone from the list").waitFor();
     expect(await page.getByLabel("Time zone").getAttribute("aria-invalid")).toBe("true");
     await shot(page, "account-time-zone-refused");
 
     await page.getByLabel("Time zone").fill("America/Los_Angeles");
-    await page.getByRole("button", { name: "Save name and units" }).click();
+    await page.getByRole("button", { name: "Save name, units and time zone" }).click();
     await page.getByText("Your preferences were saved.").waitFor();
     await page.getByText("counted in America/Los_Angeles, your choice").waitFor();
     expectNoConsoleErrors(page);

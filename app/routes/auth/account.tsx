@@ -164,7 +164,7 @@ export default function AccountPage({ loaderData, actionData }: Route.ComponentP
           </div>
           <div className="sm:col-span-2">
             <button type="submit" className="btn" disabled={busy}>
-              Save name and units
+              Save name, units and time zone
             </button>
           </div>
         </Form>
