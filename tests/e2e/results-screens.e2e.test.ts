@@ -54,26 +54,28 @@ describe("specific warnings where fish can be harmed", () => {
     expectNoConsoleErrors(page);
   });
 
-  it("without JavaScript the numbers table says why it is empty and links the run's CSV, which downloads", async () => {
+  it("without JavaScript the chart's place says why it is empty and links the run's CSV, which downloads", async () => {
     const page = await newPage({ javaScript: false });
     await signIn(page, DEMO.teacher, DEMO.password);
     await page.getByRole("link", { name: "Classroom demo tank" }).click();
     await page.getByRole("link", { name: "The same at pH 8 and 28 °C" }).first().click();
-    const table = page.locator("details").filter({ has: page.locator("noscript") });
-    await table.getByText("Show the numbers as a table").click();
+    // The server sends the chart as a stand-in of its size (decision 0012); the script draws it.
+    const standIn = page.locator("[data-chart-stand-in]");
+    await standIn.getByRole("img", { name: /drawn when the page has loaded/ }).waitFor();
+    // No controls that would do nothing without the script.
+    expect(await page.getByRole("group", { name: "Series shown on the chart" }).count()).toBe(0);
     // Playwright's text locators skip <noscript>, so its elements are found by tag.
-    const said = table.locator("noscript p");
-    await said.waitFor();
+    const said = standIn.locator("noscript p");
     expect(await said.textContent()).toMatch(
-      /^The table is drawn by the page’s script, which is off in this browser\. The same numbers are in the run as a CSV file/,
+      /^The chart and its table are drawn by the page’s script, which is off in this browser\. The same numbers are in the run as a CSV file/,
     );
-    const link = table.locator("noscript a");
+    const link = standIn.locator("noscript a");
     const csv = await page.request.get((await link.getAttribute("href"))!);
     expect(csv.status()).toBe(200);
     expect((await csv.text()).split("\n")[0]).toMatch(
       /^day,tan_mg_n_per_l,free_nh3_mg_n_per_l,nitrite_mg_n_per_l,nitrate_mg_n_per_l,/,
     );
-    await shot(page, "results-table-without-scripts");
+    await shot(page, "results-chart-without-scripts");
   });
 
   it("the presentation shows the same warnings, large, at 1920×1080", async () => {

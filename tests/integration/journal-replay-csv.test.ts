@@ -6,7 +6,10 @@
 import { createElement } from "react";
 import { renderToString } from "react-dom/server";
 import { createRoutesStub } from "react-router";
-import { describe, expect, it } from "vitest";
+import { describe, expect, it, vi } from "vitest";
+
+// The chart as the browser draws it, right after hydration (the server sends a stand-in, decision 0012).
+vi.mock("~/utils/use-hydrated", () => ({ useHydrated: () => true }));
 import { LIMITS, resetRateLimits } from "~/rate-limits.server";
 import { JournalReplayChart } from "~/components/journal-replay-chart";
 import { loader as journalLoader } from "~/routes/journal/journal";

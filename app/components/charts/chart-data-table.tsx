@@ -28,8 +28,6 @@ export type ChartDataTableProps = {
   /** Rows shown before "Show all rows" (default 60). */
   initialRows?: number;
   summary?: string;
-  /** Where the same numbers can be downloaded without scripts (the run's CSV), if anywhere. */
-  csvHref?: string;
 };
 
 /** Columns for one run: the four species and each plant group. */
@@ -94,7 +92,6 @@ export const ChartDataTable = memo(function ChartDataTable({
   events = [],
   initialRows = 60,
   summary = "Show the numbers as a table",
-  csvHref,
 }: ChartDataTableProps) {
   const captionId = useId();
   const [showAll, setShowAll] = useState(false);
@@ -128,22 +125,6 @@ export const ChartDataTable = memo(function ChartDataTable({
   return (
     <details className="rounded-md border border-stone-200 bg-white" onToggle={(e) => setOpen(e.currentTarget.open)}>
       <summary className="cursor-pointer px-3 py-2 text-sm font-semibold text-fern-800">{summary}</summary>
-      {/* The rows are drawn by the page's script (above); without it, say so rather than open onto nothing. */}
-      <noscript>
-        <p className="px-3 pb-3 text-sm text-stone-700">
-          The table is drawn by the page’s script, which is off in this browser.
-          {csvHref ? (
-            <>
-              {" "}
-              The same numbers are in{" "}
-              <a className="link" href={csvHref}>
-                the run as a CSV file
-              </a>{" "}
-              (one row per sample; nitrogen in mg N/L, the model’s own unit).
-            </>
-          ) : null}
-        </p>
-      </noscript>
       {open ? (
         <div className="space-y-2 px-3 pb-3">
           <div className="max-h-[32rem] overflow-auto" tabIndex={0} role="region" aria-labelledby={captionId}>

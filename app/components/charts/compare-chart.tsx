@@ -3,6 +3,8 @@
  * one line per scenario, told apart by colour, dash and a direct label, with the same day
  * cursor, readout, table and downloads as the results chart (drawing shared through ChartFrame).
  */
+import { ChartBeforeScript } from "~/components/charts/chart-before-script";
+import { useHydrated } from "~/utils/use-hydrated";
 import { memo, useCallback, useId, useMemo, useRef, useState } from "react";
 import { ChartDataTable, compareTableColumns } from "~/components/charts/chart-data-table";
 import { ChartDownloads } from "~/components/charts/chart-downloads";
@@ -48,7 +50,14 @@ export type CompareChartProps = {
 
 const EMPTY: readonly never[] = [];
 
-export const CompareChart = memo(function CompareChart({
+/** Two to four runs on one chart; like TimeSeriesChart, drawn in the browser after a stand-in (decision 0012). */
+export const CompareChart = memo(function CompareChart(props: CompareChartProps) {
+  const hydrated = useHydrated();
+  if (!hydrated) return <ChartBeforeScript title={props.title} height={props.height ?? 340} />;
+  return <DrawnCompareChart {...props} />;
+});
+
+function DrawnCompareChart({
   title,
   description,
   runs,
@@ -293,4 +302,4 @@ export const CompareChart = memo(function CompareChart({
       }
     />
   );
-});
+}

@@ -5,6 +5,7 @@
  * table and downloads. Drawing is shared with CompareChart through ChartFrame.
  */
 import { memo, useCallback, useEffect, useMemo, useRef, useState } from "react";
+import { ChartBeforeScript } from "~/components/charts/chart-before-script";
 import { ChartDataTable, seriesTableColumns } from "~/components/charts/chart-data-table";
 import { ChartDownloads } from "~/components/charts/chart-downloads";
 import { ChartFrame } from "~/components/charts/chart-frame";
@@ -16,6 +17,7 @@ import type { LegendItem } from "~/components/charts/downloads";
 import { formatDay, formatNumber } from "~/components/charts/format";
 import { useControllable, useDayCursor } from "~/components/charts/hooks";
 import { EventKey, LineSwatch, ToggleButton } from "~/components/charts/legend";
+import { useHydrated } from "~/utils/use-hydrated";
 import { nearestIndex, sampleSide, valueAt } from "~/utils/series-lookup";
 import {
   DEFAULT_EVENT_KINDS,
@@ -50,8 +52,6 @@ import {
   type Visibility,
 } from "~/components/charts/time-series-parts";
 
-export type { Visibility } from "~/components/charts/time-series-parts";
-
 export type TimeSeriesChartProps = {
   title: string;
   /** For the SVG's <desc>; a summary is written when absent. */
@@ -84,7 +84,7 @@ export type TimeSeriesChartProps = {
   cursorDay?: number;
   /** Show the data table under the chart (default true). */
   table?: boolean;
-  /** The run's CSV, offered under the table when scripts are off. */
+  /** The run's CSV, offered in the chart's stand-in when scripts are off (decision 0012). */
   csvHref?: string;
   /** Where the CSV button downloads from, when the chart holds only a share of the samples (else it is made in the browser). */
   csvDownloadHref?: string;
@@ -94,7 +94,18 @@ export type TimeSeriesChartProps = {
 
 const EMPTY: readonly never[] = [];
 
-export const TimeSeriesChart = memo(function TimeSeriesChart({
+/**
+ * The results chart. The server (and the render that hydrates its HTML) sends a stand-in of the
+ * chart's size; the browser draws the chart right after, since only its script can draw the
+ * curves and work the controls (decision 0012).
+ */
+export const TimeSeriesChart = memo(function TimeSeriesChart(props: TimeSeriesChartProps) {
+  const hydrated = useHydrated();
+  if (!hydrated) return <ChartBeforeScript title={props.title} height={props.height ?? 340} csvHref={props.csvHref} />;
+  return <DrawnTimeSeriesChart {...props} />;
+});
+
+function DrawnTimeSeriesChart({
   title,
   description,
   series,
@@ -113,7 +124,6 @@ export const TimeSeriesChart = memo(function TimeSeriesChart({
   onCursorChange,
   cursorDay,
   table = true,
-  csvHref,
   csvDownloadHref,
   downloadName,
 }: TimeSeriesChartProps) {
@@ -280,16 +290,10 @@ export const TimeSeriesChart = memo(function TimeSeriesChart({
             />
           ) : null}
           {table ? (
-            <ChartDataTable
-              caption={`${title}: the numbers`}
-              t={series.t}
-              columns={columns}
-              events={events}
-              csvHref={csvHref}
-            />
+            <ChartDataTable caption={`${title}: the numbers`} t={series.t} columns={columns} events={events} />
           ) : null}
         </>
       }
     />
   );
-});
+}

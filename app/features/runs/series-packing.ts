@@ -34,16 +34,35 @@ export function packSeries(s: ChartSeries): PackedSeries {
   };
 }
 
+/**
+ * The series back as numbers. Each column is read on first use: a page rendered on the server
+ * sends the chart as a stand-in (decision 0012), so there the columns are never read at all.
+ */
 export function unpackSeries(p: PackedSeries): ChartSeries {
-  return {
-    t: unpack(p.t),
-    tan: unpack(p.tan),
-    nh3: unpack(p.nh3),
-    no2: unpack(p.no2),
-    no3: unpack(p.no3),
-    plants: p.plants.map((g) => ({ id: g.id, name: g.name, massG: unpack(g.massG) })),
-    ...(p.o2 !== undefined ? { o2: unpack(p.o2) } : {}),
-    ...(p.tanLongTerm !== undefined ? { tanLongTerm: unpack(p.tanLongTerm) } : {}),
-    ...(p.tanShortTerm !== undefined ? { tanShortTerm: unpack(p.tanShortTerm) } : {}),
+  const series = {
+    plants: p.plants.map((g) => lazyColumns({ id: g.id, name: g.name }, { massG: g.massG })),
   };
+  return lazyColumns(series, {
+    t: p.t,
+    tan: p.tan,
+    nh3: p.nh3,
+    no2: p.no2,
+    no3: p.no3,
+    o2: p.o2,
+    tanLongTerm: p.tanLongTerm,
+    tanShortTerm: p.tanShortTerm,
+  }) as ChartSeries;
+}
+
+/** Adds each packed column as a property read (and then kept) on first use; absent columns stay absent. */
+function lazyColumns<T extends object, K extends string>(
+  target: T,
+  columns: Record<K, string | undefined>,
+): T & Record<K, number[]> {
+  for (const [key, text] of Object.entries<string | undefined>(columns)) {
+    if (text === undefined) continue;
+    let values: number[] | undefined;
+    Object.defineProperty(target, key, { enumerable: true, get: () => (values ??= unpack(text)) });
+  }
+  return target as T & Record<K, number[]>;
 }

@@ -6,7 +6,10 @@
  */
 import { createElement } from "react";
 import { renderToString } from "react-dom/server";
-import { describe, expect, it } from "vitest";
+import { describe, expect, it, vi } from "vitest";
+
+// The chart as the browser draws it, right after hydration (the server sends a stand-in, decision 0012).
+vi.mock("~/utils/use-hydrated", () => ({ useHydrated: () => true }));
 import { TimeSeriesChart } from "~/components/charts/time-series-chart";
 import type { ChartSeries } from "~/utils/chart-data";
 import { DEFAULT_PREFERENCES, displayUnitsFor, unitLabels } from "~/utils/display-units";
