@@ -3,9 +3,9 @@
  * one line per scenario, told apart by colour, dash and a direct label, with the same day
  * cursor, readout, table and downloads as the results chart (drawing shared through ChartFrame).
  */
+import { memo, useCallback, useId, useMemo, useRef, useState } from "react";
 import { ChartBeforeScript } from "~/components/charts/chart-before-script";
 import { useHydrated } from "~/utils/use-hydrated";
-import { memo, useCallback, useId, useMemo, useRef, useState } from "react";
 import { ChartDataTable, compareTableColumns } from "~/components/charts/chart-data-table";
 import { ChartDownloads } from "~/components/charts/chart-downloads";
 import { ChartFrame, type FrameLine, type FramePanel } from "~/components/charts/chart-frame";
