@@ -40,6 +40,43 @@ describe("the tank journal in the browser", () => {
   });
 });
 
+describe("whole downloads, written on the chores thread", () => {
+  it("the journal, the readings and the journal's replay download whole as CSV", async () => {
+    const page = await newPage();
+    await signIn(page, DEMO.jonah, DEMO.password);
+    await page.goto("/tanks");
+    await page.getByRole("link", { name: "Living-room 120" }).first().click();
+    await page.waitForURL(/\/tanks\/\d+$/);
+    const tank = new URL(page.url()).pathname;
+    const text = async (path: string) => {
+      const answer = await page.request.get(path);
+      expect(answer.status()).toBe(200);
+      expect(answer.headers()["content-type"]).toMatch(/^text\/csv/);
+      return (await answer.text())
+        .replace(/^\uFEFF/, "")
+        .trimEnd()
+        .split(/\r?\n/);
+    };
+    // Every entry and every reading the API lists is a row of its file, in the same order.
+    const entries = (await (await page.request.get(`/api${tank}/journal`)).json()) as {
+      entries: { kind: string }[];
+    };
+    const journal = await text(`${tank}/journal/export`);
+    expect(journal[0]).toMatch(/^date,kind,/);
+    expect(journal.slice(1).map((line) => line.split(",")[1])).toEqual(entries.entries.map((e) => e.kind));
+    const readings = (await (await page.request.get(`/api${tank}/readings`)).json()) as { readings: unknown[] };
+    const readingsCsv = await text(`${tank}/readings/export`);
+    expect(readingsCsv.length - 1).toBe(readings.readings.length);
+    // The replay: one row per sample from its first day, in the chart's columns.
+    const replay = await text(`${tank}/journal/replay.csv`);
+    expect(replay[0]).toMatch(/^day,Total ammonia \(TAN\) \(mg\/L NH3\),/);
+    expect(replay.length).toBeGreaterThan(100);
+    // Each row: its day, then the species' numbers (the events column may hold quoted words).
+    expect(replay.slice(1).filter((line) => !/^\d+(\.\d+)?,[\d.e+-]+,[\d.e+-]+,/.test(line))).toEqual([]);
+    expect(Number(replay[1].split(",")[0])).toBe(0);
+  });
+});
+
 describe("the journal on a phone", () => {
   it("draws the 'as it happened' chart with labels as large as on a desktop", async () => {
     const page = await newPage({ width: 390 });

@@ -1,7 +1,9 @@
 /**
  * The chores pool: one worker thread (piscina) for a request's heavy synchronous work that is not
- * a model run — reading an uploaded readings or journal CSV (about 100 ms for a full 1 MB file) and drawing
- * a share picture (about 50 ms) — so neither stalls other people's pages.
+ * a model run — reading an uploaded readings or journal CSV (about 100 ms for a full 1 MB file),
+ * writing a full journal, readings or replay as CSV (about 40–150 ms), building a full journal
+ * replay's chart (about 60 ms) and drawing a share picture (about 50 ms) — so none of them
+ * stalls other people's pages.
  *
  * A pool of its own rather than the engine pool: the engine pool's fair queue is for model runs
  * (lanes, owners, low priority), and an upload would wait there behind someone's sweep; chores
@@ -16,6 +18,7 @@ import Piscina from "piscina";
 import { z } from "zod";
 import { runChore, type ChoreResult, type ChoreTask } from "~/features/jobs/chore-tasks.server";
 import { ENTRY_KINDS, THOROUGHNESS, type EntryKind } from "~/features/journal/journal-entries";
+import type { ReplayChartData, ReplayChartInput } from "~/features/journal/replay-chart.server";
 import { MEASURE_KEYS } from "~/features/readings/readings.server";
 
 const Problem = z.object({ line: z.number(), message: z.string() });
@@ -48,6 +51,43 @@ const JournalRow = z.object({
   note: z.string(),
   line: z.number(),
 });
+const Packed = z.string();
+const ReplayChart = z.object({
+  labels: z.object({
+    volume: z.string(),
+    temperature: z.string(),
+    nitrate: z.string(),
+    nitrite: z.string(),
+    ammonia: z.string(),
+    kh: z.string(),
+  }),
+  guides: z.object({
+    nitrateBand: z.object({ low: z.number(), high: z.number() }).optional(),
+    freeAmmoniaCaution: z.number().optional(),
+    nitriteCaution: z.number().optional(),
+    oxygenCaution: z.number().optional(),
+  }),
+  events: z.array(
+    z.object({
+      day: z.number(),
+      kind: z.enum(["waterChange", "filterCleaning", "trim", "dose", "dosingStopped", "feeding"]),
+      detail: z.string(),
+    }),
+  ),
+  eventsTotal: z.number(),
+  samplesTotal: z.number(),
+  packedSeries: z.object({
+    t: Packed,
+    tan: Packed,
+    nh3: Packed,
+    no2: Packed,
+    no3: Packed,
+    plants: z.array(z.object({ id: z.string(), name: z.string(), massG: Packed })),
+    o2: Packed.optional(),
+    tanLongTerm: Packed.optional(),
+    tanShortTerm: Packed.optional(),
+  }),
+});
 const ChoreResultSchema = z.discriminatedUnion("kind", [
   z.object({
     kind: z.literal("journalCsv"),
@@ -67,6 +107,8 @@ const ChoreResultSchema = z.discriminatedUnion("kind", [
     ]),
   }),
   z.object({ kind: z.literal("png"), png: z.instanceof(Uint8Array) }),
+  z.object({ kind: z.literal("csvText"), text: z.string() }),
+  z.object({ kind: z.literal("replayChart"), chart: ReplayChart }),
 ]);
 
 let piscina: Piscina<ChoreTask, unknown> | null | undefined;
@@ -117,4 +159,33 @@ export async function svgToPngOffThread(svg: string, fontFamily: string): Promis
   const result = await chore({ kind: "png", svg, fontFamily });
   if (result.kind !== "png") throw new Error("The chores worker answered the wrong task.");
   return Buffer.from(result.png.buffer, result.png.byteOffset, result.png.byteLength);
+}
+
+/** The text of a chore that writes a CSV file. */
+async function csvText(task: Extract<ChoreTask, { kind: `write${string}` }>): Promise<string> {
+  const result = await chore(task);
+  if (result.kind !== "csvText") throw new Error("The chores worker answered the wrong task.");
+  return result.text;
+}
+
+/** journalCsv (app/features/journal/journal-csv.server.ts) off the request thread. */
+export function journalCsvOffThread(...args: Extract<ChoreTask, { kind: "writeJournalCsv" }>["args"]) {
+  return csvText({ kind: "writeJournalCsv", args });
+}
+
+/** readingsCsv (app/features/readings/readings-csv-export.server.ts) off the request thread. */
+export function readingsCsvOffThread(...args: Extract<ChoreTask, { kind: "writeReadingsCsv" }>["args"]) {
+  return csvText({ kind: "writeReadingsCsv", args });
+}
+
+/** A journal replay's every sample as CSV (replay-chart.server.ts) off the request thread. */
+export function replayCsvOffThread(input: ReplayChartInput) {
+  return csvText({ kind: "writeReplayCsv", input });
+}
+
+/** A journal replay's chart for the page (replay-chart.server.ts) off the request thread. */
+export async function replayChartOffThread(input: ReplayChartInput): Promise<ReplayChartData> {
+  const result = await chore({ kind: "replayChart", input });
+  if (result.kind !== "replayChart") throw new Error("The chores worker answered the wrong task.");
+  return result.chart;
 }

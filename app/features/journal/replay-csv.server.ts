@@ -2,14 +2,14 @@
  * The journal replay's chart as CSV with every sample. The page gets a thinned share of a long
  * replay (thin-series.ts), so a CSV made in the browser from it would hold stretches' extremes,
  * not the replay; this one is made from the kept run itself (journal-runs.server.ts), in the
- * same columns as the chart's own CSV.
+ * same columns as the chart's own CSV, written on the chores thread (a full journal's replay is
+ * some 33,000 samples).
  */
 import { journalScenario } from "~/features/journal/journal-scenario.server";
 import { replayJournal } from "~/features/journal/journal-replay.server";
 import { journalOf } from "~/features/journal/journal.server";
-import { runChart } from "~/features/runs/run-chart";
+import { replayCsvOffThread } from "~/features/jobs/chores-pool.server";
 import type { TankRow } from "~/features/tanks/tanks.server";
-import { seriesCsv } from "~/utils/csv";
 import type { DisplayUnits } from "~/utils/display-units";
 
 /** The CSV text, or null when there is nothing to replay (no scenario, no entries). */
@@ -23,8 +23,6 @@ export async function replayCsv(
   if (!settings) return null;
   const replay = await replayJournal(settings, journalOf(tank), now, tank.ownerId);
   if (!replay) return null;
-  // As on the page: the scenario's own meals are not something the keeper logged.
-  const events = replay.result.events.filter((e) => e.kind !== "feeding");
-  const chart = runChart({ series: replay.result.series, events }, settings, units);
-  return seriesCsv(chart.series, chart.labels, chart.events);
+  const { series, events } = replay.result;
+  return replayCsvOffThread({ series, events, scenario: { water: settings.water, targets: settings.targets }, units });
 }

@@ -7,44 +7,39 @@
 import type { Scenario } from "~models";
 import { dayText } from "~/features/journal/forecast-text.server";
 import type { Replay } from "~/features/journal/journal-replay.server";
+import type { ReplayChartData } from "~/features/journal/replay-chart.server";
+import { replayChartOffThread } from "~/features/jobs/chores-pool.server";
 import { readingsForChart } from "~/features/readings/readings.server";
-import { runChart, type PackedRunChart } from "~/features/runs/run-chart";
 import { resultWarnings } from "~/features/runs/run-warnings";
-import { packSeries } from "~/features/runs/series-packing";
-import { thinEvents, thinSeries } from "~/features/runs/thin-series";
 import { DAY_MS } from "~/utils/dates";
 import type { DisplayUnits } from "~/utils/display-units";
 
 /**
  * The packed chart per kept replay and units. A replay covers up to two years at six-hourly
- * samples (about 3,000 per column): converting and packing it once, not at every reload, keeps
- * the page as cheap as the kept model (journal-page.server.ts) makes it. A replay object is made
- * once per journal version and settings, so it keys the chart.
+ * samples (about 3,000 per column, some 33,000 samples for a full journal): it is converted,
+ * thinned and packed once, on the chores thread (replay-chart.server.ts), not at every reload,
+ * which keeps the page as cheap as the kept model (journal-page.server.ts) makes it. A replay
+ * object is made once per journal version and settings, so it keys the chart; visitors who come
+ * at once share one building.
  */
-type ReplayChartData = PackedRunChart & { eventsTotal: number; samplesTotal: number };
-const charts = new WeakMap<Replay, Map<string, ReplayChartData>>();
+const charts = new WeakMap<Replay, Map<string, Promise<ReplayChartData>>>();
 
-function replayChart(r: Replay, settings: Scenario, units: DisplayUnits): ReplayChartData {
+function replayChart(r: Replay, settings: Scenario, units: DisplayUnits): Promise<ReplayChartData> {
   const key = Object.values(units).join("|");
   let kept = charts.get(r);
   if (!kept) charts.set(r, (kept = new Map()));
   const hit = kept.get(key);
   if (hit) return hit;
-  // The scenario's own meals are not something the keeper logged: only the journal's events are marked.
-  const events = r.result.events.filter((e) => e.kind !== "feeding");
-  const { series, events: marked, ...rest } = runChart({ series: r.result.series, events }, settings, units);
-  // A full journal is tens of thousands of samples: the page gets each stretch's extremes.
-  const sent = thinSeries(series);
-  const thinned = thinEvents(marked, sent.t[0] ?? 0, sent.t.at(-1) ?? 0);
-  const chart = {
-    ...rest,
-    events: thinned.events,
-    eventsTotal: thinned.total,
-    samplesTotal: series.t.length,
-    packedSeries: packSeries(sent),
-  };
-  kept.set(key, chart);
-  return chart;
+  const made = replayChartOffThread({
+    series: r.result.series,
+    events: r.result.events,
+    scenario: { water: settings.water, targets: settings.targets },
+    units,
+  });
+  kept.set(key, made);
+  // A failed building is tried again at the next view.
+  made.catch(() => kept.delete(key));
+  return made;
 }
 
 /**
@@ -61,7 +56,7 @@ function replayDayWords(startMs: number, now: number) {
 }
 
 /** What the page shows of the replay `r` of tank `tankId`, run on `settings`, in `units`. */
-export function replayView(
+export async function replayView(
   tankId: number,
   r: Replay,
   settings: Scenario,
@@ -71,7 +66,7 @@ export function replayView(
 ) {
   // Readings are not journal entries (they do not bump the journal's version): read at every view.
   const readings = readingsForChart(tankId, r.startMs, r.lengthDays, units);
-  const chart = replayChart(r, settings, units);
+  const chart = await replayChart(r, settings, units);
   return {
     startMs: r.startMs,
     lengthDays: r.lengthDays,

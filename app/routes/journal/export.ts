@@ -2,7 +2,7 @@ import type { Route } from "./+types/export";
 import { requireUser } from "~/permissions.server";
 import { csvAttachment } from "~/http/downloads.server";
 import { downloadTurn } from "~/http/listing-turns.server";
-import { journalCsv } from "~/features/journal/journal-csv.server";
+import { journalCsvOffThread } from "~/features/jobs/chores-pool.server";
 import { journalOf } from "~/features/journal/journal.server";
 import { requireOwnedTank } from "~/features/tanks/tanks.server";
 import { fileSlugFor } from "~/utils/file-name";
@@ -13,5 +13,5 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const tank = requireOwnedTank(user.id, params.tankId);
   const refused = await downloadTurn(user.id);
   if (refused) return refused;
-  return csvAttachment(journalCsv(journalOf(tank)), `${fileSlugFor(tank.name)}-journal.csv`);
+  return csvAttachment(await journalCsvOffThread(journalOf(tank)), `${fileSlugFor(tank.name)}-journal.csv`);
 }

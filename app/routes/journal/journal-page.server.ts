@@ -99,7 +99,7 @@ export async function journalPageData(
 ) {
   // By default the scenario the tank's plan is over, as the tank page and the reminders use.
   const { scenarios, plan, chosen, settings } = journalScenario(tank, scenarioParam);
-  let replay: ReturnType<typeof replayView> | null = null;
+  let replay: Awaited<ReturnType<typeof replayView>> | null = null;
   let forecast: string | null = null;
   let cautionsAhead: string[] = [];
   let problem: string | null = null;
@@ -115,7 +115,7 @@ export async function journalPageData(
       upcoming = model.upcoming.map((t) => ({ title: t.title, when: dayText(t.atMs), overdue: t.overdue }));
       const r = model.replay;
       if (r) {
-        replay = replayView(tank.id, r, settings, units, now, chosen!.id);
+        replay = await replayView(tank.id, r, settings, units, now, chosen!.id);
         forecast = forecastSentence(model.forecast, units);
         cautionsAhead = forecastCautions(model.forecast, units);
       }

@@ -2,7 +2,7 @@ import type { Route } from "./+types/export";
 import { requireUser } from "~/permissions.server";
 import { csvAttachment } from "~/http/downloads.server";
 import { downloadTurn } from "~/http/listing-turns.server";
-import { readingsCsv } from "~/features/readings/readings-csv-export.server";
+import { readingsCsvOffThread } from "~/features/jobs/chores-pool.server";
 import { allReadings, measureUnitsFor } from "~/features/readings/readings.server";
 import { requireOwnedTank } from "~/features/tanks/tanks.server";
 import { displayUnitsFor } from "~/utils/display-units";
@@ -15,7 +15,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const refused = await downloadTurn(user.id);
   if (refused) return refused;
   return csvAttachment(
-    readingsCsv(allReadings(tank.id), measureUnitsFor(displayUnitsFor(user))),
+    await readingsCsvOffThread(allReadings(tank.id), measureUnitsFor(displayUnitsFor(user))),
     `${fileSlugFor(tank.name)}-readings.csv`,
   );
 }
