@@ -2,23 +2,25 @@
  * What a chart sends from the server: its place, kept at about the drawn chart's height, and,
  * for a browser with scripts off, why it stays empty and where the numbers are. The chart
  * (curves, toggles, readout, table) is drawn by the page's script once the page has loaded;
- * server-rendering its controls cost a third of a results page's render and gave a browser
- * without scripts only buttons that did nothing (docs/decisions/0012-charts-drawn-in-the-browser.md).
+ * server-rendering its controls cost about a sixth of a results page's first render and gave a
+ * browser without scripts only buttons that did nothing (docs/decisions/0012-charts-drawn-in-the-browser.md).
  */
 import type { CSSProperties } from "react";
 
+/** The drawn chart's height in px, about, on narrow screens and from Tailwind's lg breakpoint. */
+export type ReservedHeight = { narrow: number; wide: number };
+
 export function ChartBeforeScript({
   title,
-  height,
+  reserved,
   csvHref,
 }: {
   title: string;
-  /** The chart's own height prop: the stand-in reserves about what the drawn chart takes. */
-  height: number;
+  /** About what the drawn chart takes, so the page does not jump when it draws. */
+  reserved: ReservedHeight;
   /** The run's CSV, offered when scripts are off. */
   csvHref?: string;
 }) {
-  const reserved = reservedHeight(height);
   return (
     <div className="space-y-3" data-chart-stand-in="">
       <svg
@@ -55,12 +57,19 @@ export function ChartBeforeScript({
 }
 
 /**
- * About the drawn chart's height in px, so the page does not jump when it draws: the toggles,
- * the panels with their title rows, the downloads, and the readout (beside the chart from
- * Tailwind's lg breakpoint, under it before). Measured in Chromium on the demo's results page
- * at 1280 and 390 px wide: 1017 and 1618 px for the default height of 340.
+ * The charts' heights as drawn: the toggles, the panels with their title rows, the downloads,
+ * and the readout (beside the chart from Tailwind's lg breakpoint, under it before). Measured in
+ * Chromium on the demo's pages: the results chart 1017 px at 1280 px wide and 1618 px at 390 px
+ * for the default height of 340, 1258 px for the presentation's 640 at 1920 px wide; the compare
+ * chart (one species, nitrate and plants) 651 and 877 px; the journal's replay chart comes
+ * within 35 px of the results chart's.
  */
-function reservedHeight(chartHeight: number): { narrow: number; wide: number } {
-  const chartAndControls = Math.round(chartHeight * 1.5);
-  return { wide: chartAndControls + 507, narrow: chartAndControls + 1108 };
+export function seriesChartHeight(chartHeight: number): ReservedHeight {
+  const panels = Math.round(chartHeight * 0.8);
+  return { wide: panels + 744, narrow: panels + 1346 };
+}
+
+export function compareChartHeight(chartHeight: number): ReservedHeight {
+  const panels = Math.round(chartHeight * 0.8);
+  return { wide: panels + 379, narrow: panels + 605 };
 }

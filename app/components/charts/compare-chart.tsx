@@ -4,7 +4,7 @@
  * cursor, readout, table and downloads as the results chart (drawing shared through ChartFrame).
  */
 import { memo, useCallback, useId, useMemo, useRef, useState } from "react";
-import { ChartBeforeScript } from "~/components/charts/chart-before-script";
+import { ChartBeforeScript, compareChartHeight } from "~/components/charts/chart-before-script";
 import { useHydrated } from "~/utils/use-hydrated";
 import { ChartDataTable, compareTableColumns } from "~/components/charts/chart-data-table";
 import { ChartDownloads } from "~/components/charts/chart-downloads";
@@ -53,7 +53,7 @@ const EMPTY: readonly never[] = [];
 /** Two to four runs on one chart; like TimeSeriesChart, drawn in the browser after a stand-in (decision 0012). */
 export const CompareChart = memo(function CompareChart(props: CompareChartProps) {
   const hydrated = useHydrated();
-  if (!hydrated) return <ChartBeforeScript title={props.title} height={props.height ?? 340} />;
+  if (!hydrated) return <ChartBeforeScript title={props.title} reserved={compareChartHeight(props.height ?? 340)} />;
   return <DrawnCompareChart {...props} />;
 });
 

@@ -5,7 +5,7 @@
  * table and downloads. Drawing is shared with CompareChart through ChartFrame.
  */
 import { memo, useCallback, useEffect, useMemo, useRef, useState } from "react";
-import { ChartBeforeScript } from "~/components/charts/chart-before-script";
+import { ChartBeforeScript, seriesChartHeight } from "~/components/charts/chart-before-script";
 import { ChartDataTable, seriesTableColumns } from "~/components/charts/chart-data-table";
 import { ChartDownloads } from "~/components/charts/chart-downloads";
 import { ChartFrame } from "~/components/charts/chart-frame";
@@ -101,7 +101,14 @@ const EMPTY: readonly never[] = [];
  */
 export const TimeSeriesChart = memo(function TimeSeriesChart(props: TimeSeriesChartProps) {
   const hydrated = useHydrated();
-  if (!hydrated) return <ChartBeforeScript title={props.title} height={props.height ?? 340} csvHref={props.csvHref} />;
+  if (!hydrated)
+    return (
+      <ChartBeforeScript
+        title={props.title}
+        reserved={seriesChartHeight(props.height ?? 340)}
+        csvHref={props.csvHref}
+      />
+    );
   return <DrawnTimeSeriesChart {...props} />;
 });
 
