@@ -78,6 +78,41 @@ describe("specific warnings where fish can be harmed", () => {
     await shot(page, "results-chart-without-scripts");
   });
 
+  it("the chart's stand-in keeps its place: nothing below moves when the chart draws", async () => {
+    // Found once with scripts on: a results page and a compare page of the demo keeper.
+    const finder = await newPage();
+    await signIn(finder, DEMO.jonah, DEMO.password);
+    await finder.getByRole("link", { name: "Living-room 120" }).click();
+    await finder.waitForURL(/\/tanks\/\d+$/);
+    const tankUrl = finder.url();
+    await finder.getByRole("link", { name: "Baseline", exact: true }).first().click();
+    await finder.getByRole("application").waitFor();
+    const results = new URL(finder.url()).pathname;
+    await finder.goto(tankUrl);
+    await finder.getByLabel("Compare Baseline", { exact: true }).check();
+    await finder.getByLabel("Compare With floating plants").check();
+    await finder.getByRole("button", { name: /Compare the ticked scenarios/ }).click();
+    await finder.waitForURL(/\/compare\?/);
+    const compare = new URL(finder.url()).pathname + new URL(finder.url()).search;
+    for (const path of [results, compare])
+      for (const width of [1280, 390]) {
+        const heights: number[] = [];
+        for (const drawn of [false, true]) {
+          const page = await newPage({ width });
+          await page.context().addCookies(await finder.context().cookies());
+          // Before the script runs: the page's scripts held back, so the stand-in stays.
+          if (!drawn) await page.route(/\/assets\/.*\.js$/, (route) => route.abort());
+          await page.goto(path);
+          if (drawn) await page.getByRole("application").first().waitFor();
+          else await page.locator("[data-chart-stand-in]").first().waitFor();
+          heights.push(await page.evaluate(() => document.documentElement.scrollHeight));
+        }
+        // Under 60 px in a 900 px-high window the layout-shift score stays under 0.1 whatever
+        // moves: "good" by the Core Web Vitals' cumulative layout shift (web.dev, from memory).
+        expect(Math.abs(heights[1] - heights[0]), `${path} at ${width} px: ${heights.join(" → ")}`).toBeLessThan(60);
+      }
+  });
+
   it("the presentation shows the same warnings, large, at 1920×1080", async () => {
     const page = await newPage({ width: 1920 });
     await page.setViewportSize({ width: 1920, height: 1080 });
