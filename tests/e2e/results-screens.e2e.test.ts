@@ -54,14 +54,16 @@ describe("specific warnings where fish can be harmed", () => {
     expectNoConsoleErrors(page);
   });
 
-  it("without JavaScript the chart's place says why it is empty and links the run's CSV, which downloads", async () => {
+  it("without JavaScript the chart's and the what-if panel's places say why, and link the run's CSV and the settings form", async () => {
     const page = await newPage({ javaScript: false });
     await signIn(page, DEMO.teacher, DEMO.password);
     await page.getByRole("link", { name: "Classroom demo tank" }).click();
     await page.getByRole("link", { name: "The same at pH 8 and 28 °C" }).first().click();
     // The server sends the chart as a stand-in of its size (decision 0012); the script draws it.
     const standIn = page.locator("[data-chart-stand-in]");
-    await standIn.getByRole("img", { name: /drawn when the page has loaded/ }).waitFor();
+    await standIn.waitFor({ state: "attached" });
+    // The box kept for the chart is hidden: without scripts the chart never draws.
+    expect(await standIn.locator("svg").isVisible()).toBe(false);
     // No controls that would do nothing without the script.
     expect(await page.getByRole("group", { name: "Series shown on the chart" }).count()).toBe(0);
     // Playwright's text locators skip <noscript>, so its elements are found by tag.
@@ -75,7 +77,17 @@ describe("specific warnings where fish can be harmed", () => {
     expect((await csv.text()).split("\n")[0]).toMatch(
       /^day,tan_mg_n_per_l,free_nh3_mg_n_per_l,nitrite_mg_n_per_l,nitrate_mg_n_per_l,/,
     );
-    await shot(page, "results-chart-without-scripts");
+    // The what-if panel's place says the same, and points to the settings form instead.
+    const whatIf = page.locator("[data-what-if-stand-in]");
+    expect(await whatIf.locator("noscript p").textContent()).toMatch(
+      /^Trying a change needs the page’s script, which is off in this browser\. To change the scenario without it, edit its settings\.$/,
+    );
+    expect(await page.getByRole("slider").count()).toBe(0);
+    const edit = await whatIf.locator("noscript a").getAttribute("href");
+    expect(edit).toMatch(/^\/tanks\/\d+\/scenarios\/\d+\/edit$/);
+    await shot(page, "results-without-scripts");
+    await page.goto(edit!);
+    await page.getByRole("button", { name: /Save/ }).first().waitFor();
   });
 
   it("the chart's stand-in keeps its place: nothing below moves when the chart draws", async () => {

@@ -2,8 +2,8 @@
  * What a chart sends from the server: its place, kept at about the drawn chart's height, and,
  * for a browser with scripts off, why it stays empty and where the numbers are. The chart
  * (curves, toggles, readout, table) is drawn by the page's script once the page has loaded;
- * server-rendering its controls cost about a sixth of a results page's first render and gave a
- * browser without scripts only buttons that did nothing (docs/decisions/0012-charts-drawn-in-the-browser.md).
+ * server-rendering its controls cost a good part of a results page's first render and gave a
+ * browser without scripts only buttons that did nothing (docs/decisions/0012-script-parts-drawn-in-the-browser.md).
  */
 import type { CSSProperties } from "react";
 
@@ -38,6 +38,8 @@ export function ChartBeforeScript({
         </text>
       </svg>
       <noscript>
+        {/* Without scripts the chart never draws: no empty box, only why and where the numbers are. */}
+        <style>{"[data-chart-stand-in] > svg { display: none; }"}</style>
         <p className="text-sm text-stone-700">
           The chart and its table are drawn by the page’s script, which is off in this browser.
           {csvHref ? (

@@ -9,6 +9,8 @@ import { RunWarnings } from "~/components/run-warnings";
 import { FormMessage } from "~/components/ui/field";
 import { WhatIfPanel, type WhatIfPreview } from "~/components/what-if-panel";
 import { WhatIfSummary } from "~/components/what-if-summary";
+import { WhatIfBeforeScript } from "~/components/what-if-before-script";
+import { useHydrated } from "~/utils/use-hydrated";
 import { requireUser } from "~/permissions.server";
 import { modelStartMs, readingsForChart } from "~/features/readings/readings.server";
 import { packedResultsPayload, resultsPayload } from "~/features/runs/results.server";
@@ -103,6 +105,8 @@ export async function action({ request, params }: Route.ActionArgs) {
 export default function ResultsPage({ loaderData, actionData }: Route.ComponentProps) {
   const { tank, scenario, results, error, whatIf } = loaderData;
   const [preview, setPreview] = useState<WhatIfPreview | null>(null);
+  // The chart and the what-if panel are the script's: the server sends their stand-ins (decision 0012).
+  const hydrated = useHydrated();
   const series = useMemo(() => (results ? unpackSeries(results.packedSeries) : null), [results]);
   const onPreview = useCallback((p: WhatIfPreview | null) => setPreview(p), []);
   // Stable identities, so the chart and budget only redraw what changed.
@@ -193,7 +197,9 @@ export default function ResultsPage({ loaderData, actionData }: Route.ComponentP
               Find the change that meets a goal
             </Link>
           </p>
-          {whatIf ? (
+          {whatIf && !hydrated ? (
+            <WhatIfBeforeScript editHref={`${base}/edit`} />
+          ) : whatIf ? (
             <div className="grid items-start gap-4 lg:grid-cols-[1fr_17rem]">
               <WhatIfPanel
                 // A new scenario (saved from here) starts with fresh sliders and name.
