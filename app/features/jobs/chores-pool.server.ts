@@ -129,63 +129,55 @@ function pool(): Piscina<ChoreTask, unknown> | null {
   return piscina;
 }
 
-/** Runs a chore on the chores thread (in-process from sources); the answer is validated. */
-async function chore(task: ChoreTask): Promise<ChoreResult> {
+/**
+ * Runs a chore on the chores thread (in-process from sources); the answer is validated, and
+ * must be of the kind the task gives.
+ */
+async function chore<K extends ChoreResult["kind"]>(
+  task: ChoreTask,
+  kind: K,
+): Promise<Extract<ChoreResult, { kind: K }>> {
   const workers = pool();
   const raw = workers ? await workers.run(task) : runChore(task);
-  return ChoreResultSchema.parse(raw) as ChoreResult;
+  const result = ChoreResultSchema.parse(raw) as ChoreResult;
+  if (result.kind !== kind) throw new Error("The chores worker answered the wrong task.");
+  return result as Extract<ChoreResult, { kind: K }>;
 }
 
-type CsvArgs = Extract<ChoreTask, { kind: "readingsCsv" }>["args"];
+type Args<K extends ChoreTask["kind"]> = Extract<ChoreTask, { kind: K; args: unknown }>["args"];
 
 /** parseReadingsCsv (app/features/readings/readings-csv.server.ts) off the request thread. */
-export async function parseReadingsCsvOffThread(...args: CsvArgs) {
-  const result = await chore({ kind: "readingsCsv", args });
-  if (result.kind !== "readingsCsv") throw new Error("The chores worker answered the wrong task.");
-  return result.parsed;
+export async function parseReadingsCsvOffThread(...args: Args<"readingsCsv">) {
+  return (await chore({ kind: "readingsCsv", args }, "readingsCsv")).parsed;
 }
 
-type JournalCsvArgs = Extract<ChoreTask, { kind: "journalCsv" }>["args"];
-
 /** parseJournalCsv (app/features/journal/journal-csv.server.ts) off the request thread. */
-export async function parseJournalCsvOffThread(...args: JournalCsvArgs) {
-  const result = await chore({ kind: "journalCsv", args });
-  if (result.kind !== "journalCsv") throw new Error("The chores worker answered the wrong task.");
-  return result.parsed;
+export async function parseJournalCsvOffThread(...args: Args<"journalCsv">) {
+  return (await chore({ kind: "journalCsv", args }, "journalCsv")).parsed;
 }
 
 /** An SVG as PNG bytes by resvg, off the request thread. */
 export async function svgToPngOffThread(svg: string, fontFamily: string): Promise<Buffer> {
-  const result = await chore({ kind: "png", svg, fontFamily });
-  if (result.kind !== "png") throw new Error("The chores worker answered the wrong task.");
-  return Buffer.from(result.png.buffer, result.png.byteOffset, result.png.byteLength);
-}
-
-/** The text of a chore that writes a CSV file. */
-async function csvText(task: Extract<ChoreTask, { kind: `write${string}` }>): Promise<string> {
-  const result = await chore(task);
-  if (result.kind !== "csvText") throw new Error("The chores worker answered the wrong task.");
-  return result.text;
+  const { png } = await chore({ kind: "png", svg, fontFamily }, "png");
+  return Buffer.from(png.buffer, png.byteOffset, png.byteLength);
 }
 
 /** journalCsv (app/features/journal/journal-csv.server.ts) off the request thread. */
-export function journalCsvOffThread(...args: Extract<ChoreTask, { kind: "writeJournalCsv" }>["args"]) {
-  return csvText({ kind: "writeJournalCsv", args });
+export async function journalCsvOffThread(...args: Args<"writeJournalCsv">): Promise<string> {
+  return (await chore({ kind: "writeJournalCsv", args }, "csvText")).text;
 }
 
 /** readingsCsv (app/features/readings/readings-csv-export.server.ts) off the request thread. */
-export function readingsCsvOffThread(...args: Extract<ChoreTask, { kind: "writeReadingsCsv" }>["args"]) {
-  return csvText({ kind: "writeReadingsCsv", args });
+export async function readingsCsvOffThread(...args: Args<"writeReadingsCsv">): Promise<string> {
+  return (await chore({ kind: "writeReadingsCsv", args }, "csvText")).text;
 }
 
 /** A journal replay's every sample as CSV (replay-chart.server.ts) off the request thread. */
-export function replayCsvOffThread(input: ReplayChartInput) {
-  return csvText({ kind: "writeReplayCsv", input });
+export async function replayCsvOffThread(input: ReplayChartInput): Promise<string> {
+  return (await chore({ kind: "writeReplayCsv", input }, "csvText")).text;
 }
 
 /** A journal replay's chart for the page (replay-chart.server.ts) off the request thread. */
 export async function replayChartOffThread(input: ReplayChartInput): Promise<ReplayChartData> {
-  const result = await chore({ kind: "replayChart", input });
-  if (result.kind !== "replayChart") throw new Error("The chores worker answered the wrong task.");
-  return result.chart;
+  return (await chore({ kind: "replayChart", input }, "replayChart")).chart;
 }
