@@ -5,6 +5,7 @@
  * thread 60–150 ms.
  */
 import type { EventRecord, Scenario, Series } from "~models";
+import type { Replay } from "~/features/journal/journal-replay.server";
 import { runChart, type PackedRunChart } from "~/features/runs/run-chart";
 import { packSeries } from "~/features/runs/series-packing";
 import { thinEvents, thinSeries } from "~/features/runs/thin-series";
@@ -20,6 +21,16 @@ export type ReplayChartInput = {
 };
 
 export type ReplayChartData = PackedRunChart & { eventsTotal: number; samplesTotal: number };
+
+/** What the chart of replay `r`, run on `settings`, needs: only the settings' water and targets go to the worker. */
+export function replayChartInput(r: Replay, settings: Scenario, units: DisplayUnits): ReplayChartInput {
+  return {
+    series: r.result.series,
+    events: r.result.events,
+    scenario: { water: settings.water, targets: settings.targets },
+    units,
+  };
+}
 
 function loggedChart({ series, events, scenario, units }: ReplayChartInput) {
   // The scenario's own meals are not something the keeper logged: only the journal's events are marked.

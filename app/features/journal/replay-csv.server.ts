@@ -9,6 +9,7 @@ import { journalScenario } from "~/features/journal/journal-scenario.server";
 import { replayJournal } from "~/features/journal/journal-replay.server";
 import { journalOf } from "~/features/journal/journal.server";
 import { replayCsvOffThread } from "~/features/jobs/chores-pool.server";
+import { replayChartInput } from "~/features/journal/replay-chart.server";
 import type { TankRow } from "~/features/tanks/tanks.server";
 import type { DisplayUnits } from "~/utils/display-units";
 
@@ -23,6 +24,5 @@ export async function replayCsv(
   if (!settings) return null;
   const replay = await replayJournal(settings, journalOf(tank), now, tank.ownerId);
   if (!replay) return null;
-  const { series, events } = replay.result;
-  return replayCsvOffThread({ series, events, scenario: { water: settings.water, targets: settings.targets }, units });
+  return replayCsvOffThread(replayChartInput(replay, settings, units));
 }

@@ -7,7 +7,7 @@
 import type { Scenario } from "~models";
 import { dayText } from "~/features/journal/forecast-text.server";
 import type { Replay } from "~/features/journal/journal-replay.server";
-import type { ReplayChartData } from "~/features/journal/replay-chart.server";
+import { replayChartInput, type ReplayChartData } from "~/features/journal/replay-chart.server";
 import { replayChartOffThread } from "~/features/jobs/chores-pool.server";
 import { readingsForChart } from "~/features/readings/readings.server";
 import { resultWarnings } from "~/features/runs/run-warnings";
@@ -30,12 +30,7 @@ function replayChart(r: Replay, settings: Scenario, units: DisplayUnits): Promis
   if (!kept) charts.set(r, (kept = new Map()));
   const hit = kept.get(key);
   if (hit) return hit;
-  const made = replayChartOffThread({
-    series: r.result.series,
-    events: r.result.events,
-    scenario: { water: settings.water, targets: settings.targets },
-    units,
-  });
+  const made = replayChartOffThread(replayChartInput(r, settings, units));
   kept.set(key, made);
   // A failed building is tried again at the next view.
   made.catch(() => kept.delete(key));
