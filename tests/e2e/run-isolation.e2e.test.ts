@@ -2,15 +2,13 @@ import { describe, expect, it } from "vitest";
 import { signInOverHttp } from "../support/built-server";
 import { slowestScenarios } from "../support/slow-scenarios";
 import { baseURL, DEMO } from "./support/browser";
+import { expectNotHeldUp, PAGE_LIMIT_MS, tankListTimer, timeWhile } from "./support/isolation";
 
 // Issue 10: one person's expensive saves must not hold up anyone else. Three people save the
 // slowest valid scenarios the search finds (tests/support/slow-scenarios.ts) at the same time;
-// meanwhile another person's tanks page must answer within 300 ms every time. When those runs
-// ran on the request thread, the page waited for all three (about 6–9 s here). The machine is
-// shared with other work, so one slow answer in ten is forgiven, but none may take a second:
-// a margin that still fails by far when the runs block the request thread.
-const PAGE_LIMIT_MS = 300;
-const NEVER_MS = 1000;
+// meanwhile another person's tanks page must keep to the bar of ./support/isolation.ts (within
+// 300 ms 9 times in 10, never a second). When those runs ran on the request thread, the page
+// waited for all three (about 6–9 s here).
 
 describe("expensive saves do not stall other people", () => {
   it(`another person's page answers within ${PAGE_LIMIT_MS} ms while three slowest-valid scenarios are saved in parallel`, async () => {
@@ -27,14 +25,7 @@ describe("expensive saves do not stall other people", () => {
         return { cookie, tankId: list.tanks[0].id };
       }),
     );
-    const reader = await signInOverHttp(baseURL(), DEMO.student, DEMO.password);
-    const page = async () => {
-      const t0 = performance.now();
-      const res = await fetch(`${baseURL()}/tanks`, { headers: { Cookie: reader } });
-      await res.text();
-      expect(res.status).toBe(200);
-      return performance.now() - t0;
-    };
+    const page = tankListTimer(baseURL(), await signInOverHttp(baseURL(), DEMO.student, DEMO.password));
     await page(); // warm
 
     let pending = slow.length;
@@ -53,24 +44,12 @@ describe("expensive saves do not stall other people", () => {
       expect([201, 422]).toContain(res.status);
     });
     await new Promise((r) => setTimeout(r, 50));
-    const pageMs: number[] = [];
-    while (pending > 0) {
-      pageMs.push(await page());
-      await new Promise((r) => setTimeout(r, 100));
-    }
+    const pageMs = await timeWhile(() => pending > 0, page, 100);
     await Promise.all(saves);
     process.stdout.write(
       `run isolation: search ${searchMs.toFixed(0)} ms over ${found.length} scenarios (slowest ${slow.map((s) => `${s.ms.toFixed(0)} ms ${s.outcome}`).join(", ")}); ` +
         `saves took ${saveMs.map((m) => m.toFixed(0)).join(", ")} ms; the other page ${pageMs.length} times, slowest ${Math.max(...pageMs).toFixed(0)} ms\n`,
     );
-    // The saves really were expensive, so the check below has teeth.
-    expect(Math.max(...saveMs)).toBeGreaterThan(PAGE_LIMIT_MS);
-    expect(Math.max(...pageMs)).toBeLessThan(NEVER_MS);
-    const within = pageMs.filter((ms) => ms < PAGE_LIMIT_MS).length;
-    expect(
-      within / pageMs.length,
-      `${within} of ${pageMs.length} answers within ${PAGE_LIMIT_MS} ms`,
-    ).toBeGreaterThanOrEqual(0.9);
-    expect(pageMs.length).toBeGreaterThanOrEqual(3);
+    expectNotHeldUp(saveMs, pageMs);
   }, 120_000);
 });
