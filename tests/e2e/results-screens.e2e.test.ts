@@ -3,10 +3,30 @@
  * could be harmed, the oxygen panel, and screenshots of results, compare, presentation and a
  * phone for a person to look at.
  */
+import type { Page } from "playwright-core";
 import { describe, expect, it } from "vitest";
 import { DEMO, expectNoConsoleErrors, newPage, shot, signIn, useBrowser } from "./support/browser";
 
 useBrowser();
+
+/** From the signed-in demo keeper's tank list to the results of "Baseline" in Living-room 120; the tank page's address. */
+async function openBaseline(page: Page): Promise<string> {
+  await page.getByRole("link", { name: "Living-room 120" }).click();
+  await page.waitForURL(/\/tanks\/\d+$/);
+  const tankUrl = page.url();
+  await page.getByRole("link", { name: "Baseline", exact: true }).first().click();
+  await page.getByRole("application").waitFor();
+  return tankUrl;
+}
+
+/** From that tank's page, "Baseline" and "With floating plants" compared. */
+async function openCompare(page: Page, tankUrl: string): Promise<void> {
+  await page.goto(tankUrl);
+  await page.getByLabel("Compare Baseline", { exact: true }).check();
+  await page.getByLabel("Compare With floating plants").check();
+  await page.getByRole("button", { name: /Compare the ticked scenarios/ }).click();
+  await page.waitForURL(/\/compare\?/);
+}
 
 describe("specific warnings where fish can be harmed", () => {
   it("a new tank at pH 8 and 28 °C names free ammonia's peak, its day and how far above the caution line", async () => {
@@ -94,17 +114,9 @@ describe("specific warnings where fish can be harmed", () => {
     // Found once with scripts on: a results page and a compare page of the demo keeper.
     const finder = await newPage();
     await signIn(finder, DEMO.jonah, DEMO.password);
-    await finder.getByRole("link", { name: "Living-room 120" }).click();
-    await finder.waitForURL(/\/tanks\/\d+$/);
-    const tankUrl = finder.url();
-    await finder.getByRole("link", { name: "Baseline", exact: true }).first().click();
-    await finder.getByRole("application").waitFor();
+    const tankUrl = await openBaseline(finder);
     const results = new URL(finder.url()).pathname;
-    await finder.goto(tankUrl);
-    await finder.getByLabel("Compare Baseline", { exact: true }).check();
-    await finder.getByLabel("Compare With floating plants").check();
-    await finder.getByRole("button", { name: /Compare the ticked scenarios/ }).click();
-    await finder.waitForURL(/\/compare\?/);
+    await openCompare(finder, tankUrl);
     const compare = new URL(finder.url()).pathname + new URL(finder.url()).search;
     for (const path of [results, compare])
       for (const width of [1280, 390]) {
@@ -156,19 +168,11 @@ describe("results screens for a person to look at", () => {
   it("a keeper's results, compare and a phone at 390 px", async () => {
     const page = await newPage();
     await signIn(page, DEMO.jonah, DEMO.password);
-    await page.getByRole("link", { name: "Living-room 120" }).click();
-    await page.waitForURL(/\/tanks\/\d+$/);
-    const tankUrl = page.url();
-    await page.getByRole("link", { name: "Baseline", exact: true }).first().click();
-    await page.getByRole("application").waitFor();
+    const tankUrl = await openBaseline(page);
     await page.locator('[data-panel="oxygen"]').waitFor();
     await shot(page, "results");
 
-    await page.goto(tankUrl);
-    await page.getByLabel("Compare Baseline", { exact: true }).check();
-    await page.getByLabel("Compare With floating plants").check();
-    await page.getByRole("button", { name: /Compare the ticked scenarios/ }).click();
-    await page.waitForURL(/\/compare\?/);
+    await openCompare(page, tankUrl);
     await page.getByRole("application").first().waitFor();
     await shot(page, "compare");
     expectNoConsoleErrors(page);
