@@ -105,7 +105,7 @@ export async function action({ request, params }: Route.ActionArgs) {
 export default function ResultsPage({ loaderData, actionData }: Route.ComponentProps) {
   const { tank, scenario, results, error, whatIf } = loaderData;
   const [preview, setPreview] = useState<WhatIfPreview | null>(null);
-  // The chart and the what-if panel are the script's: the server sends their stand-ins (decision 0012).
+  // The what-if panel is the script's, like the chart: the server sends a stand-in (decision 0012).
   const hydrated = useHydrated();
   const series = useMemo(() => (results ? unpackSeries(results.packedSeries) : null), [results]);
   const onPreview = useCallback((p: WhatIfPreview | null) => setPreview(p), []);
@@ -197,9 +197,9 @@ export default function ResultsPage({ loaderData, actionData }: Route.ComponentP
               Find the change that meets a goal
             </Link>
           </p>
-          {whatIf && !hydrated ? (
+          {!whatIf ? null : !hydrated ? (
             <WhatIfBeforeScript editHref={`${base}/edit`} />
-          ) : whatIf ? (
+          ) : (
             <div className="grid items-start gap-4 lg:grid-cols-[1fr_17rem]">
               <WhatIfPanel
                 // A new scenario (saved from here) starts with fresh sliders and name.
@@ -219,7 +219,7 @@ export default function ResultsPage({ loaderData, actionData }: Route.ComponentP
                 warnings={preview ? preview.warnings : results.warnings}
               />
             </div>
-          ) : null}
+          )}
           <section aria-labelledby="budget-title" className="card space-y-4">
             <h2 id="budget-title" className="text-lg">
               Nitrogen budget
