@@ -7,7 +7,7 @@ import { Writable } from "node:stream";
 import { renderToPipeableStream } from "react-dom/server";
 import { ServerRouter, type EntryContext, type RouterContextProvider } from "react-router";
 import { cspNonceContext } from "~/context";
-import { cachedPage, keepPage, NONCE_STAND_IN, renderKey, worthKeeping } from "~/http/render-cache.server";
+import { cachedPage, keepPage, NONCE_STAND_IN, renderKey, urlSeenBefore } from "~/http/render-cache.server";
 import { NonceContext } from "~/utils/nonce";
 
 export const streamTimeout = 5_000;
@@ -57,7 +57,7 @@ export default function handleRequest(
       },
     });
     // A page to be kept renders with a stand-in nonce, swapped for each response's own.
-    const keep = key !== null && worthKeeping(key);
+    const keep = key !== null;
     const renderNonce = keep ? NONCE_STAND_IN : nonce;
 
     const { pipe, abort } = renderToPipeableStream(
@@ -85,14 +85,17 @@ export default function handleRequest(
   });
 }
 
-/** The render cache's key when the page's route allows keeping it (see render-cache.server.ts), else null. */
+/**
+ * The render cache's key when the page's route allows keeping it and its URL came before
+ * (see render-cache.server.ts), else null.
+ */
 function cacheKeyFor(request: Request, status: number, routerContext: EntryContext): string | null {
   const { matches, loaderData, actionData, errors } = routerContext.staticHandlerContext;
   const page = matches.at(-1);
   const handle = page
     ? (routerContext.routeModules[page.route.id]?.handle as { renderCache?: boolean } | undefined)
     : undefined;
-  if (handle?.renderCache !== true || actionData || errors) return null;
+  if (handle?.renderCache !== true || actionData || errors || !urlSeenBefore(request.url)) return null;
   return renderKey(request.url, status, loaderData);
 }
 

@@ -17,9 +17,9 @@ import { LRUCache } from "lru-cache";
 export const NONCE_STAND_IN = `fw${randomBytes(12).toString("hex")}`;
 
 // Pages are kept as byte pieces between the nonce's places (outside V8's heap, so a full
-// cache costs the garbage collector nothing): 32 MB (a results page is about 66 kB), a minute
-// at most. A page is kept only when its key comes a second time: most pages are seen once,
-// and keeping those would cost more than it saves.
+// cache costs the garbage collector nothing): 32 MB (a results page is about 52 kB), a minute
+// at most. A page is kept only when its URL comes a second time within the minute: most pages
+// are seen once, and for those not even the key (a hash of all their data) is worked out.
 const pages = new LRUCache<string, Buffer[]>({
   maxSize: 32 * 1024 * 1024,
   sizeCalculation: (pieces) =>
@@ -29,7 +29,7 @@ const pages = new LRUCache<string, Buffer[]>({
     ),
   ttl: 60_000,
 });
-const seenOnce = new LRUCache<string, true>({ max: 10_000, ttl: 60_000 });
+const urlsSeen = new LRUCache<string, true>({ max: 10_000, ttl: 60_000 });
 const STAND_IN_BYTES = Buffer.from(NONCE_STAND_IN);
 
 /**
@@ -57,10 +57,13 @@ export function cachedPage(key: string, nonce: string): Buffer | undefined {
   return pieces && withNonce(pieces, nonce);
 }
 
-/** Whether a page for this key should be rendered to be kept: true the second time a key comes. */
-export function worthKeeping(key: string): boolean {
-  if (seenOnce.has(key)) return true;
-  seenOnce.set(key, true);
+/**
+ * Whether a page at this URL may be kept or served kept: true from the second time the URL
+ * comes within a minute. A first view costs no key, and a second one renders to keep.
+ */
+export function urlSeenBefore(url: string): boolean {
+  if (urlsSeen.has(url)) return true;
+  urlsSeen.set(url, true);
   return false;
 }
 
