@@ -5,6 +5,7 @@
  */
 import { createHash } from "node:crypto";
 import { and, desc, eq, inArray, isNotNull, sql } from "drizzle-orm";
+import { LRUCache } from "lru-cache";
 import {
   ENGINE_VERSION,
   parseScenario,
@@ -125,8 +126,17 @@ function fromRow(row: RunRow): StoredRun {
 export function getRun(runId: number): StoredRun | null {
   const hit = cache.get(runId);
   if (hit) return remember(hit);
-  const row = getDb().select().from(runs).where(eq(runs.id, runId)).get();
+  const db = getDb();
+  let stmt = runsById.get(db);
+  if (!stmt) runsById.set(db, (stmt = prepareRunById(db)));
+  const row = stmt.get({ runId });
   return row ? remember(fromRow(row)) : null;
+}
+
+// A run's first view reads it by id: prepared once per database, like the lookup below.
+const runsById = new WeakMap<Db, ReturnType<typeof prepareRunById>>();
+function prepareRunById(db: Db) {
+  return db.select().from(runs).where(eq(runs.id, sql.placeholder("runId"))).prepare();
 }
 
 // Looked up on every results view: prepared once per database.
@@ -245,8 +255,20 @@ export async function ensureRun(scenarioId: number, scenario: Scenario, ownerId:
 /** Runs for a scenario's current settings being made now, by scenario and settings hash. */
 const runsUnderWay = new Map<string, Promise<StoredRun>>();
 
-/** Reads stored settings (migrating old schema versions); null if they no longer validate. */
+/**
+ * Reads stored settings (migrating old schema versions); null if they no longer validate.
+ * Every view of a results, compare or edit page reads them, and the schema's parse costs
+ * about 0.2 ms (issue 15, item 5), so a parse is kept by the settings' text. Each caller gets
+ * its own copy: nothing a caller changes reaches the kept one.
+ */
 export function readStoredSettings(settings: unknown): Scenario | null {
-  const parsed = parseScenario(settings);
-  return parsed.success ? parsed.data : null;
+  const text = JSON.stringify(settings) as string | undefined;
+  let kept = text === undefined ? undefined : parsedSettings.get(text);
+  if (!kept) {
+    const parsed = parseScenario(settings);
+    kept = { scenario: parsed.success ? parsed.data : null };
+    if (text !== undefined) parsedSettings.set(text, kept);
+  }
+  return kept.scenario && structuredClone(kept.scenario);
 }
+const parsedSettings = new LRUCache<string, { scenario: Scenario | null }>({ max: 256 });
