@@ -136,7 +136,11 @@ export function getRun(runId: number): StoredRun | null {
 // A run's first view reads it by id: prepared once per database, like the lookup below.
 const runsById = new WeakMap<Db, ReturnType<typeof prepareRunById>>();
 function prepareRunById(db: Db) {
-  return db.select().from(runs).where(eq(runs.id, sql.placeholder("runId"))).prepare();
+  return db
+    .select()
+    .from(runs)
+    .where(eq(runs.id, sql.placeholder("runId")))
+    .prepare();
 }
 
 // Looked up on every results view: prepared once per database.
