@@ -7,6 +7,7 @@ import { speciesFactor } from "~models/units";
 import type { TanCriterionLines } from "~/features/runs/criterion-line";
 import type { ChartGuides, ChartSeries, DisplayKeyFigures } from "~/utils/chart-data";
 import type { DisplayUnits } from "~/utils/display-units";
+import { fourFigures } from "~/utils/four-figures";
 
 export function displayKeyFigures(k: KeyFigures, units: DisplayUnits): DisplayKeyFigures {
   const nh3 = speciesFactor("ammonia", units);
@@ -24,9 +25,8 @@ export function displayKeyFigures(k: KeyFigures, units: DisplayUnits): DisplayKe
   };
 }
 
-/** Four significant figures: finer than any test kit or chart pixel, and a quarter of the bytes. */
-const round4 = (v: number) => (v === 0 ? 0 : Number(v.toPrecision(4)));
-const scale = (values: number[], f: number) => values.map((v) => round4(v * f));
+// Four significant figures: finer than any test kit or chart pixel, and a quarter of the bytes.
+const scale = (values: number[], f: number) => values.map((v) => fourFigures(v * f));
 
 /**
  * The chart's columns in display units (the engine's extra columns stay on the server).
@@ -41,8 +41,8 @@ export function displaySeries(s: Series, units: DisplayUnits, criteria?: TanCrit
     nh3: scale(s.nh3, nh3),
     no2: scale(s.no2, speciesFactor("nitrite", units)),
     no3: scale(s.no3, speciesFactor("nitrate", units)),
-    plants: s.plants.map((p) => ({ id: p.id, name: p.name, massG: p.massG.map(round4) })),
-    ...(s.o2 ? { o2: s.o2.map(round4) } : {}),
+    plants: s.plants.map((p) => ({ id: p.id, name: p.name, massG: p.massG.map(fourFigures) })),
+    ...(s.o2 ? { o2: s.o2.map(fourFigures) } : {}),
     ...(criteria && criteria.longTerm.length === s.t.length && criteria.shortTerm.length === s.t.length
       ? { tanLongTerm: scale(criteria.longTerm, nh3), tanShortTerm: scale(criteria.shortTerm, nh3) }
       : {}),
