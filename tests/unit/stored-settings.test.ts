@@ -1,11 +1,12 @@
 /**
- * Stored settings are read on every results, compare and edit view, so a parse is kept by the
- * settings' text (issue 15, item 5). A kept parse must read exactly as a fresh one, and no
- * caller may change what the next caller gets.
+ * Stored settings are read, and their run found by a hash of them, on every results view, so
+ * the parse and the hash are kept by the settings' text (issue 15, item 5). A kept parse must
+ * read exactly as a fresh one, no caller may change what the next caller gets, and the hash
+ * must still ignore key order and see every value.
  */
 import { describe, expect, it } from "vitest";
 import { parseScenario, ScenarioSchema } from "~models";
-import { readStoredSettings } from "~/features/runs/simulation.server";
+import { readStoredSettings, settingsHash } from "~/features/runs/simulation.server";
 
 const stored = () => JSON.parse(JSON.stringify(ScenarioSchema.parse({ run: { lengthDays: 90 } }))) as unknown;
 
@@ -34,5 +35,17 @@ describe("readStoredSettings", () => {
     expect(readStoredSettings(broken)).toBeNull();
     expect(readStoredSettings(broken)).toBeNull();
     expect(readStoredSettings(undefined)).toBeNull();
+  });
+});
+
+describe("settingsHash", () => {
+  it("is the same for the same settings whatever their key order, and another for any changed value", () => {
+    const settings = ScenarioSchema.parse({ run: { lengthDays: 90 } });
+    const reordered = Object.fromEntries(Object.entries(settings).reverse()) as typeof settings;
+    expect(JSON.stringify(reordered)).not.toBe(JSON.stringify(settings));
+    expect(settingsHash(reordered)).toBe(settingsHash(settings));
+    expect(settingsHash(settings)).toBe(settingsHash(structuredClone(settings)));
+    expect(settingsHash({ ...settings, water: { ...settings.water, volumeL: 121 } })).not.toBe(settingsHash(settings));
+    expect(settingsHash({ ...settings, run: { ...settings.run, lengthDays: 91 } })).not.toBe(settingsHash(settings));
   });
 });

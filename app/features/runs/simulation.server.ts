@@ -69,9 +69,16 @@ function canonicalJson(value: unknown): string {
   );
 }
 
+/** The key a stored run is found by: its settings' content hash, key order aside. */
 export function settingsHash(scenario: Scenario): string {
-  return contentHash(scenario);
+  // Worked out on every results view: the canonical form (keys sorted at every level) costs
+  // about ten times the plain text, so the hash is kept by the plain text.
+  const text = JSON.stringify(scenario);
+  let hash = hashesByText.get(text);
+  if (hash === undefined) hashesByText.set(text, (hash = contentHash(scenario)));
+  return hash;
 }
+const hashesByText = new LRUCache<string, string>({ max: 256 });
 
 /** SHA-256 of any JSON value, key order aside (e.g. what a job ran on, to tell if it changed). */
 export function contentHash(value: unknown): string {
