@@ -10,6 +10,7 @@ const benches: { name: string; load: () => Promise<{ run: () => unknown }> }[] =
   { name: "share page", load: () => import("./share-page") },
   { name: "readings, calibration and sweeps", load: () => import("./readings-and-sweeps") },
   { name: "results page SSR profile", load: () => import("./results-ssr-profile") },
+  { name: "results page first views", load: () => import("./results-first-views") },
   { name: "load mix (1 and 2 app processes)", load: () => import("./load-mix") },
   { name: "sweeps on the queue (1 and 2 workers)", load: () => import("./queue-sweeps") },
 ];

@@ -11,13 +11,8 @@ import os from "node:os";
 import path from "node:path";
 import process from "node:process";
 import { signInOverHttp, startBuiltServer } from "../tests/support/built-server";
+import { cpuMs } from "./support/cpu";
 import { describe, load } from "./support/http";
-
-/** CPU time (user + system) a process has used, in ms, from /proc (Linux). */
-function cpuMs(pid: number): number {
-  const fields = fs.readFileSync(`/proc/${pid}/stat`, "utf8").split(") ")[1].split(" ");
-  return ((Number(fields[11]) + Number(fields[12])) * 1000) / 100; // utime, stime in clock ticks (USER_HZ 100)
-}
 
 type Node = { id: number; callFrame: { functionName: string; url: string }; children?: number[] };
 type Profile = { nodes: Node[]; samples: number[]; timeDeltas: number[] };

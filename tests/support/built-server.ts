@@ -44,12 +44,17 @@ async function waitForHealth(url: string, child: ChildProcess, log: () => string
   throw new Error(`server did not become healthy:\n${log()}`);
 }
 
+/**
+ * @param options.cwd another checkout to serve (its own build, server and migrations), for
+ *   benchmarks that compare two versions; this one by default
+ */
 export async function startBuiltServer(
-  options: { env?: Record<string, string>; databaseFile?: string } = {},
+  options: { env?: Record<string, string>; databaseFile?: string; cwd?: string } = {},
 ): Promise<BuiltServer> {
-  const buildDir = process.env.FERNWATER_BUILD_DIR ?? "build";
-  if (!fs.existsSync(path.join(buildDir, "server/index.js"))) {
-    throw new Error(`No build in ${buildDir}/: run \`npm run build\` first.`);
+  const cwd = options.cwd ?? process.cwd();
+  const buildDir = options.cwd ? "build" : (process.env.FERNWATER_BUILD_DIR ?? "build");
+  if (!fs.existsSync(path.join(cwd, buildDir, "server/index.js"))) {
+    throw new Error(`No build in ${path.join(cwd, buildDir)}/: run \`npm run build\` first.`);
   }
   const dir = fs.mkdtempSync(path.join(os.tmpdir(), "fernwater-server-"));
   const port = await freePort();
@@ -61,6 +66,7 @@ export async function startBuiltServer(
     ? ["--cpu-prof", `--cpu-prof-dir=${process.env.SERVER_CPU_PROFILE_DIR}`]
     : [];
   const child = spawn(process.execPath, [...profile, "server/start.mjs"], {
+    cwd,
     env: {
       ...process.env,
       NODE_ENV: "production",
@@ -70,6 +76,7 @@ export async function startBuiltServer(
       PORT: String(port),
       HOST: "127.0.0.1",
       SMTP_URL: "",
+      ...(options.cwd ? { FERNWATER_BUILD_DIR: buildDir } : {}),
       ...options.env,
     },
     stdio: ["ignore", "pipe", "pipe"],
