@@ -93,6 +93,9 @@ describe("today in the keeper's time zone", () => {
     expect((await waterChangeAt("2026-12-05T03:00:00Z", tankId, withZone)).onPage.overdue).toBe(false);
     const bogus = `${keeper.cookie}; fw_tz=Nowhere%2FLand`;
     expect((await waterChangeAt("2026-12-05T03:00:00Z", tankId, bogus)).onPage.overdue).toBe(true);
+    // A value that is not valid percent-encoding (RFC 3986, §2.1) is no zone, not an error.
+    const garbled = `${keeper.cookie}; fw_tz=%E0%A4%A`;
+    expect((await waterChangeAt("2026-12-05T03:00:00Z", tankId, garbled)).onPage.overdue).toBe(true);
     const page = await call(accountLoader, get("/account", withZone));
     expect(page.data.zone).toEqual({ zone: "America/Los_Angeles", from: "browser" });
   });

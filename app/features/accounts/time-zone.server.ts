@@ -2,6 +2,7 @@
  * Which time zone a person's calendar days are in: the one they chose on the account page, else
  * their browser's (the cookie root.tsx sets, or the one recorded at their last sign-in), else UTC.
  */
+import { parseCookie } from "cookie";
 import { eq } from "drizzle-orm";
 import { getDb } from "~/db/client.server";
 import { users } from "~/db/schema";
@@ -12,19 +13,9 @@ type Zones = { timeZone: string | null; browserTimeZone: string | null };
 
 /** The browser's zone from its cookie, when it is one the runtime knows. */
 function browserZone(request: Request): string | null {
-  const header = request.headers.get("Cookie") ?? "";
-  const found = header
-    .split(";")
-    .map((c) => c.trim())
-    .find((c) => c.startsWith(`${ZONE_COOKIE}=`));
-  if (!found) return null;
-  let zone: string;
-  try {
-    zone = decodeURIComponent(found.slice(ZONE_COOKIE.length + 1));
-  } catch {
-    return null;
-  }
-  return isTimeZone(zone) ? zone : null;
+  // The cookie package (RFC 6265 parsing, percent-decoding that gives up quietly on bad input).
+  const zone = parseCookie(request.headers.get("Cookie") ?? "")[ZONE_COOKIE];
+  return zone && isTimeZone(zone) ? zone : null;
 }
 
 /** The zone in use and where it came from (the account page says so). */
