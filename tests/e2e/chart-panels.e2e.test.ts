@@ -6,7 +6,15 @@
  */
 import type { Page } from "playwright-core";
 import { describe, expect, it } from "vitest";
-import { DEMO, expectNoConsoleErrors, newPage, signIn, useBrowser, type PageWithErrors } from "./support/browser";
+import {
+  DEMO,
+  expectNoConsoleErrors,
+  newPage,
+  openDemoTank,
+  signIn,
+  useBrowser,
+  type PageWithErrors,
+} from "./support/browser";
 
 useBrowser();
 
@@ -148,9 +156,7 @@ describe("stacked chart panels", () => {
 
   it("compare with plants: plant mass on a third panel under nitrate, same axis and cursor, no overlaps, text ≥ 11 px", async () => {
     const page = await newPage({ width: 1280 });
-    await signIn(page, DEMO.jonah, DEMO.password);
-    await page.getByRole("link", { name: "Living-room 120" }).first().click();
-    await page.waitForURL(/\/tanks\/\d+$/);
+    await openDemoTank(page);
     await page.getByLabel("Compare Baseline", { exact: true }).check();
     await page.getByLabel("Compare With floating plants", { exact: true }).check();
     await page.getByRole("button", { name: /Compare the ticked scenarios/ }).click();

@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { DEMO, expectNoConsoleErrors, newPage, shot, signIn, useBrowser } from "./support/browser";
+import { expectNoConsoleErrors, newPage, openDemoTank, shot, useBrowser } from "./support/browser";
 
 useBrowser();
 
@@ -10,10 +10,7 @@ const isoDay = (daysAgo: number) =>
 describe("the tank journal in the browser", () => {
   it("logs a 50 % water change and the 'as it happened' curve follows it, with a forecast", async () => {
     const page = await newPage();
-    await signIn(page, DEMO.jonah, DEMO.password);
-    await page.goto("/tanks");
-    await page.getByRole("link", { name: "Living-room 120" }).first().click();
-    await page.waitForURL(/\/tanks\/\d+$/);
+    await openDemoTank(page);
     await page.getByRole("link", { name: "Journal" }).click();
     await page.waitForURL(/\/journal$/);
     // The nitrate panel's curve, as the chart draws it once the page has loaded.
@@ -43,11 +40,7 @@ describe("the tank journal in the browser", () => {
 describe("whole downloads, written on the chores thread", () => {
   it("the journal, the readings and the journal's replay download whole as CSV", async () => {
     const page = await newPage();
-    await signIn(page, DEMO.jonah, DEMO.password);
-    await page.goto("/tanks");
-    await page.getByRole("link", { name: "Living-room 120" }).first().click();
-    await page.waitForURL(/\/tanks\/\d+$/);
-    const tank = new URL(page.url()).pathname;
+    const tank = await openDemoTank(page);
     const text = async (path: string) => {
       const answer = await page.request.get(path);
       expect(answer.status()).toBe(200);
@@ -80,10 +73,7 @@ describe("whole downloads, written on the chores thread", () => {
 describe("the journal on a phone", () => {
   it("draws the 'as it happened' chart with labels as large as on a desktop", async () => {
     const page = await newPage({ width: 390 });
-    await signIn(page, DEMO.jonah, DEMO.password);
-    await page.goto("/tanks");
-    await page.getByRole("link", { name: "Living-room 120" }).first().click();
-    await page.waitForURL(/\/tanks\/\d+$/);
+    await openDemoTank(page);
     await page.getByRole("link", { name: "Journal" }).click();
     await page.waitForURL(/\/journal$/);
     const chart = page.getByRole("img", { name: /nitrogen as it happened/ });
@@ -106,10 +96,7 @@ describe("the journal on a phone", () => {
 describe("the maintenance plan in the browser", () => {
   it("marks a planned water change done on the tank page, edited before saving, and finds it in the journal", async () => {
     const page = await newPage();
-    await signIn(page, DEMO.jonah, DEMO.password);
-    await page.goto("/tanks");
-    await page.getByRole("link", { name: "Living-room 120" }).first().click();
-    await page.waitForURL(/\/tanks\/\d+$/);
+    await openDemoTank(page);
     const task = page.getByRole("listitem").filter({ hasText: "Water change (" }).first();
     await task.getByText("Mark done").click();
     // Filled from the plan; the keeper changed a little more than planned today.

@@ -6,7 +6,16 @@
 import type { Page } from "playwright-core";
 import { describe, expect, it } from "vitest";
 import { doubledLabels, internalNames, titleProblems } from "../support/label-checks";
-import { DEMO, expectNoConsoleErrors, newPage, shot, signIn, useBrowser, type PageWithErrors } from "./support/browser";
+import {
+  DEMO,
+  expectNoConsoleErrors,
+  newPage,
+  openDemoTank,
+  shot,
+  signIn,
+  useBrowser,
+  type PageWithErrors,
+} from "./support/browser";
 
 useBrowser();
 
@@ -172,11 +181,8 @@ describe("forms that say what they do", () => {
 
   it("the setup form hides settings that do not apply, and shows them when they do", async () => {
     const page = await newPage();
-    await signIn(page, DEMO.jonah, DEMO.password);
-    await page.goto("/tanks");
-    await page.getByRole("link", { name: "Living-room 120" }).first().click();
-    await page.waitForURL(/\/tanks\/\d+$/);
-    await page.goto(`${/^\/tanks\/\d+/.exec(new URL(page.url()).pathname)![0]}/scenarios/new`);
+    const tank = await openDemoTank(page);
+    await page.goto(`${tank}/scenarios/new`);
     await page.locator("details").evaluateAll((ds) => ds.forEach((d) => ((d as HTMLDetailsElement).open = true)));
     const enabled = page.locator("input[type=checkbox][name='fishlessCycling.enabled']");
     const dose = page.locator("[data-field='fishlessCycling.doseMgNPerL']");

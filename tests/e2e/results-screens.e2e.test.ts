@@ -5,18 +5,16 @@
  */
 import type { Page } from "playwright-core";
 import { describe, expect, it } from "vitest";
-import { DEMO, expectNoConsoleErrors, newPage, shot, signIn, useBrowser } from "./support/browser";
+import { DEMO, expectNoConsoleErrors, newPage, openDemoTank, shot, signIn, useBrowser } from "./support/browser";
 
 useBrowser();
 
-/** From the signed-in demo keeper's tank list to the results of "Baseline" in Living-room 120; the tank page's address. */
+/** Signs in as the demo keeper and opens "Baseline" in Living-room 120; returns the tank page's path. */
 async function openBaseline(page: Page): Promise<string> {
-  await page.getByRole("link", { name: "Living-room 120" }).click();
-  await page.waitForURL(/\/tanks\/\d+$/);
-  const tankUrl = page.url();
+  const tank = await openDemoTank(page);
   await page.getByRole("link", { name: "Baseline", exact: true }).first().click();
   await page.getByRole("application").waitFor();
-  return tankUrl;
+  return tank;
 }
 
 /** From that tank's page, "Baseline" and "With floating plants" compared. */
@@ -113,7 +111,6 @@ describe("specific warnings where fish can be harmed", () => {
   it("the chart's stand-in keeps its place: nothing below moves when the chart draws", async () => {
     // Found once with scripts on: a results page and a compare page of the demo keeper.
     const finder = await newPage();
-    await signIn(finder, DEMO.jonah, DEMO.password);
     const tankUrl = await openBaseline(finder);
     const results = new URL(finder.url()).pathname;
     await openCompare(finder, tankUrl);
@@ -167,7 +164,6 @@ describe("anonymous visitors see the product", () => {
 describe("results screens for a person to look at", () => {
   it("a keeper's results, compare and a phone at 390 px", async () => {
     const page = await newPage();
-    await signIn(page, DEMO.jonah, DEMO.password);
     const tankUrl = await openBaseline(page);
     await page.locator('[data-panel="oxygen"]').waitFor();
     await shot(page, "results");
@@ -178,10 +174,7 @@ describe("results screens for a person to look at", () => {
     expectNoConsoleErrors(page);
 
     const phone = await newPage({ width: 390 });
-    await signIn(phone, DEMO.jonah, DEMO.password);
-    await phone.getByRole("link", { name: "Living-room 120" }).click();
-    await phone.getByRole("link", { name: "Baseline", exact: true }).first().click();
-    await phone.getByRole("application").waitFor();
+    await openBaseline(phone);
     const overflow = await phone.evaluate(() => document.documentElement.scrollWidth > window.innerWidth + 1);
     expect(overflow).toBe(false);
     await shot(phone, "results-phone-390");

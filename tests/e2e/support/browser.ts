@@ -70,6 +70,15 @@ export async function signIn(page: Page, email: string, password: string): Promi
   await page.waitForURL((url) => !url.pathname.startsWith("/sign-in"));
 }
 
+/** Signs in as the demo keeper and opens his Living-room 120 tank; returns the tank page's path (/tanks/N). */
+export async function openDemoTank(page: Page): Promise<string> {
+  await signIn(page, DEMO.jonah, DEMO.password);
+  await page.goto("/tanks");
+  await page.getByRole("link", { name: "Living-room 120" }).first().click();
+  await page.waitForURL(/\/tanks\/\d+$/);
+  return new URL(page.url()).pathname;
+}
+
 export async function signOut(page: Page): Promise<void> {
   await page.getByRole("button", { name: "Sign out" }).click();
   await page.waitForURL((url) => url.pathname === "/");
