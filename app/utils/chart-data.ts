@@ -42,10 +42,13 @@ export type ChartUnits = {
   nitrate: string;
 };
 
+/** The kinds of marker on the time axis (a replayed journal's other kinds share the nearest one). */
+export const CHART_EVENT_KINDS = ["waterChange", "filterCleaning", "trim", "dose", "dosingStopped", "feeding"] as const;
+
 /** Something that happened on a day, marked on the time axis. */
 export type ChartEvent = {
   day: number;
-  kind: "waterChange" | "filterCleaning" | "trim" | "dose" | "dosingStopped" | "feeding";
+  kind: (typeof CHART_EVENT_KINDS)[number];
   detail: string;
 };
 

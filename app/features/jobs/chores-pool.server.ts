@@ -20,6 +20,7 @@ import { runChore, type ChoreResult, type ChoreTask } from "~/features/jobs/chor
 import { ENTRY_KINDS, THOROUGHNESS, type EntryKind } from "~/features/journal/journal-entries";
 import type { ReplayChartData, ReplayChartInput } from "~/features/journal/replay-chart.server";
 import { MEASURE_KEYS } from "~/features/readings/readings.server";
+import { CHART_EVENT_KINDS } from "~/utils/chart-data";
 
 const Problem = z.object({ line: z.number(), message: z.string() });
 const Measures = z.object(
@@ -70,7 +71,7 @@ const ReplayChart = z.object({
   events: z.array(
     z.object({
       day: z.number(),
-      kind: z.enum(["waterChange", "filterCleaning", "trim", "dose", "dosingStopped", "feeding"]),
+      kind: z.enum(CHART_EVENT_KINDS),
       detail: z.string(),
     }),
   ),
